@@ -1,0 +1,2 @@
+//! The physics, typed with uom. Engine code never sees syntax, strings or
+//! dynamic units: it takes and returns uom quantities and plain structs.

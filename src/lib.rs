@@ -1,0 +1,10 @@
+//! siccant: a unit-checked worksheet language for convective dryer design.
+//!
+//! Data flows one way: text -> [`syntax`] -> [`eval`] -> [`library`] (dimension
+//! check, then typed [`engine`] code) -> [`value::Value`] -> [`render`] -> front end.
+
+pub mod diag;
+pub mod engine;
+pub mod library;
+pub mod units;
+pub mod value;

@@ -1,0 +1,234 @@
+//! Built-in functions: one file per family, one registry feeding `help`,
+//! completion, Jupyter inspect and the generated reference in docs/.
+//!
+//! A built-in receives spanned arguments, checks their dimensions here at the
+//! boundary, converts them to uom quantities and calls typed engine code.
+
+use crate::diag::{Diagnostic, Span};
+use crate::units::{describe_dim, Dim, Quantity};
+use crate::value::{Record, Value};
+
+/// What a parameter accepts, for docs, completion and checking.
+#[derive(Clone, Copy, Debug)]
+pub struct Param {
+    pub name: &'static str,
+    /// Unit text for docs, e.g. `degC`, `kg/(m^2*h)`, `-`, `air`.
+    pub unit: &'static str,
+    /// Default written as the user would write it, or `None` when required.
+    pub default: Option<&'static str>,
+    pub doc: &'static str,
+}
+
+/// A built-in function with its paper trail.
+#[derive(Clone, Copy, Debug)]
+pub struct Builtin {
+    pub name: &'static str,
+    /// Family, e.g. `air`, `transfer`, `sorption`; one file in `library/` each.
+    pub family: &'static str,
+    pub params: &'static [Param],
+    /// Result description with unit, e.g. `W/(m^2*K)` or `air state`.
+    pub returns: &'static str,
+    /// One-paragraph doc shown by `help`, the REPL and Jupyter inspect.
+    pub doc: &'static str,
+    /// The published method it implements.
+    pub method: &'static str,
+    /// The published source (book, paper, standard).
+    pub source: &'static str,
+    /// Validity range in words.
+    pub validity: &'static str,
+    /// A short example call.
+    pub example: &'static str,
+    pub func: fn(&mut Args) -> Result<Value, Diagnostic>,
+}
+
+/// One argument as written at the call site.
+#[derive(Clone, Debug)]
+pub struct Arg {
+    pub name: Option<String>,
+    pub value: Value,
+    pub span: Span,
+}
+
+/// The arguments of one call, bound to the built-in's parameters.
+///
+/// Positional arguments bind to parameters in declaration order; named ones by
+/// name. Each accessor consumes the argument, blames its span on error, and
+/// `finish` reports anything left over.
+pub struct Args {
+    pub builtin: &'static Builtin,
+    pub call_span: Span,
+    bound: Vec<Option<Arg>>,
+    /// Warnings attached to the call (validity ranges and the like).
+    pub warnings: Vec<Diagnostic>,
+}
+
+impl Args {
+    /// Bind call-site arguments to `builtin`'s parameters.
+    pub fn bind(builtin: &'static Builtin, call_span: Span, args: Vec<Arg>) -> Result<Args, Diagnostic> {
+        let mut bound: Vec<Option<Arg>> = vec![None; builtin.params.len()];
+        let mut next_positional = 0;
+        for arg in args {
+            let index = match &arg.name {
+                Some(name) => builtin.params.iter().position(|p| p.name == name).ok_or_else(|| {
+                    let names: Vec<&str> = builtin.params.iter().map(|p| p.name).collect();
+                    let mut d = Diagnostic::error(arg.span, format!("`{}` has no argument named `{name}`", builtin.name));
+                    if let Some(best) = closest(name, &names) {
+                        d = d.with_hint(format!("did you mean `{best}`?"));
+                    }
+                    d.with_hint(format!("arguments: {}", names.join(", ")))
+                })?,
+                None => {
+                    let i = next_positional;
+                    next_positional += 1;
+                    if i >= builtin.params.len() {
+                        return Err(Diagnostic::error(
+                            arg.span,
+                            format!("`{}` takes at most {} arguments", builtin.name, builtin.params.len()),
+                        ));
+                    }
+                    i
+                }
+            };
+            if bound[index].is_some() {
+                return Err(Diagnostic::error(
+                    arg.span,
+                    format!("argument `{}` of `{}` is given twice", builtin.params[index].name, builtin.name),
+                ));
+            }
+            bound[index] = Some(arg);
+        }
+        Ok(Args { builtin, call_span, bound, warnings: Vec::new() })
+    }
+
+    fn index(&self, name: &str) -> usize {
+        self.builtin
+            .params
+            .iter()
+            .position(|p| p.name == name)
+            .unwrap_or_else(|| panic!("built-in `{}` reads undeclared parameter `{name}`", self.builtin.name))
+    }
+
+    /// Take an argument if it was given.
+    pub fn take(&mut self, name: &str) -> Option<Arg> {
+        let i = self.index(name);
+        self.bound[i].take()
+    }
+
+    /// Was this argument given?
+    pub fn has(&self, name: &str) -> bool {
+        self.bound[self.index(name)].is_some()
+    }
+
+    /// The span of an argument if given, else the call's span.
+    pub fn span_of(&self, name: &str) -> Span {
+        self.bound[self.index(name)].as_ref().map_or(self.call_span, |a| a.span)
+    }
+
+    /// Take a required argument.
+    pub fn required(&mut self, name: &str) -> Result<Arg, Diagnostic> {
+        self.take(name).ok_or_else(|| {
+            Diagnostic::error(self.call_span, format!("`{}` needs the argument `{name}`", self.builtin.name))
+                .with_hint(format!("call it as {}", self.builtin.example))
+        })
+    }
+
+    /// A required quantity of dimension `dim`.
+    pub fn quantity(&mut self, name: &str, dim: Dim) -> Result<Quantity, Diagnostic> {
+        let arg = self.required(name)?;
+        expect_quantity(self.builtin, name, &arg, dim)
+    }
+
+    /// An optional quantity of dimension `dim`.
+    pub fn opt_quantity(&mut self, name: &str, dim: Dim) -> Result<Option<Quantity>, Diagnostic> {
+        match self.take(name) {
+            Some(arg) => expect_quantity(self.builtin, name, &arg, dim).map(Some),
+            None => Ok(None),
+        }
+    }
+
+    /// A required record of the given type (e.g. `air`).
+    pub fn record(&mut self, name: &str, type_name: &str) -> Result<Record, Diagnostic> {
+        let arg = self.required(name)?;
+        match arg.value {
+            Value::Record(r) if r.type_name == type_name => Ok(r),
+            other => Err(Diagnostic::error(
+                arg.span,
+                format!("argument `{name}` of `{}` must be {type_name}, found {}", self.builtin.name, type_word(&other)),
+            )),
+        }
+    }
+
+    /// Add a warning about this call (for example outside a validity range).
+    pub fn warn(&mut self, message: impl Into<String>) {
+        self.warnings.push(Diagnostic::warning(self.call_span, message));
+    }
+
+    /// An error blaming one argument.
+    pub fn error_at(&self, name: &str, message: impl Into<String>) -> Diagnostic {
+        Diagnostic::error(self.span_of(name), message)
+    }
+
+    /// Report arguments that were given but never read.
+    pub fn finish(&self) -> Result<(), Diagnostic> {
+        match self.bound.iter().flatten().next() {
+            Some(arg) => Err(Diagnostic::error(arg.span, format!("`{}` does not use this argument here", self.builtin.name))),
+            None => Ok(()),
+        }
+    }
+}
+
+fn expect_quantity(b: &Builtin, name: &str, arg: &Arg, dim: Dim) -> Result<Quantity, Diagnostic> {
+    match &arg.value {
+        Value::Quantity(q, _) if q.dim == dim => Ok(*q),
+        Value::Quantity(q, _) => Err(Diagnostic::error(
+            arg.span,
+            format!(
+                "argument `{name}` of `{}` expects {} [{}], found {} [{}]",
+                b.name,
+                describe_dim(dim),
+                dim.si_unit(),
+                describe_dim(q.dim),
+                q.dim.si_unit()
+            ),
+        )),
+        other => Err(Diagnostic::error(
+            arg.span,
+            format!("argument `{name}` of `{}` expects a quantity, found {}", b.name, type_word(other)),
+        )),
+    }
+}
+
+/// A word for a value's type in messages.
+pub fn type_word(v: &Value) -> String {
+    match v {
+        Value::Quantity(..) => "a quantity".into(),
+        Value::Bool(_) => "a truth value".into(),
+        Value::Str(_) => "text".into(),
+        Value::List(_) => "a list".into(),
+        Value::Record(r) => format!("a record of type {}", r.type_name),
+        Value::Table(_) => "a table".into(),
+        Value::Plot(_) => "a plot".into(),
+        Value::Function(_) => "a function".into(),
+    }
+}
+
+/// The closest name by edit distance, when close enough to suggest.
+pub fn closest<'a>(name: &str, candidates: &[&'a str]) -> Option<&'a str> {
+    candidates
+        .iter()
+        .map(|c| (strsim::damerau_levenshtein(name, c), *c))
+        .filter(|(d, c)| *d <= 2.max(c.len() / 3))
+        .min_by_key(|(d, _)| *d)
+        .map(|(_, c)| c)
+}
+
+/// Every built-in, from every family file.
+pub fn registry() -> &'static [&'static Builtin] {
+    &[]
+}
+
+/// Look up a built-in by name.
+pub fn find(name: &str) -> Option<&'static Builtin> {
+    registry().iter().copied().find(|b| b.name == name)
+}
+
