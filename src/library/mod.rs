@@ -222,9 +222,20 @@ pub fn closest<'a>(name: &str, candidates: &[&'a str]) -> Option<&'a str> {
         .map(|(_, c)| c)
 }
 
-/// Every built-in, from every family file.
+/// Every built-in, from every family file, sorted by name.
+///
+/// Each family file (`library/air.rs`, ...) exports `pub const BUILTINS: &[Builtin]`;
+/// add one line to `FAMILIES` when a family lands.
 pub fn registry() -> &'static [&'static Builtin] {
-    &[]
+    static REGISTRY: std::sync::OnceLock<Vec<&'static Builtin>> = std::sync::OnceLock::new();
+    REGISTRY.get_or_init(|| {
+        const FAMILIES: &[&[Builtin]] = &[
+            // one line per family, e.g. air::BUILTINS,
+        ];
+        let mut all: Vec<&'static Builtin> = FAMILIES.iter().flat_map(|f| f.iter()).collect();
+        all.sort_by_key(|b| b.name);
+        all
+    })
 }
 
 /// Look up a built-in by name.
