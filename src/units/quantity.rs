@@ -11,6 +11,9 @@ use super::kind::{self, KindClash};
 use super::names::{describe_dim_with_si, named_dim};
 use super::{Dim, Kind};
 
+/// Relative difference below which [`Quantity::cmp`] calls two values equal.
+pub const EQUAL_REL_TOL: f64 = 1e-12;
+
 /// A quantity: SI magnitude, dimension and kind.
 #[derive(Clone, Copy, PartialEq, Debug)]
 pub struct Quantity {
@@ -210,11 +213,19 @@ impl Quantity {
 
     /// Compare with equal dimensions and compatible kinds.
     ///
+    /// Values within [`EQUAL_REL_TOL`] of each other (relative) are `Equal`, so
+    /// that `80 degC = 176 degF` and `1 ft = 12 in` hold despite the round-off
+    /// of unit conversions.
+    ///
     /// Named `cmp` by the shared API; it is fallible, so it is not `Ord::cmp`.
     #[allow(clippy::should_implement_trait)]
     pub fn cmp(&self, other: &Quantity) -> Result<Ordering, UnitError> {
         self.same_dim("comparison needs equal dimensions: ", other)?;
         kind::compare_kinds(self.kind, other.kind).map_err(|c| clash_error("compare", c))?;
+        let scale = self.si.abs().max(other.si.abs());
+        if (self.si - other.si).abs() <= EQUAL_REL_TOL * scale {
+            return Ok(Ordering::Equal);
+        }
         self.si
             .partial_cmp(&other.si)
             .ok_or_else(|| UnitError::new("cannot compare a value that is not a number"))
