@@ -400,3 +400,55 @@ fn issue_worked_example() {
     let flux = big_u.mul(&dt).unwrap();
     assert_eq!(flux.cmp(&q(1.0, "kW/m^2")).unwrap(), Ordering::Greater);
 }
+
+// ---- lookup and suggestions -------------------------------------------------
+
+#[test]
+fn suggestions_for_misspelt_units() {
+    use siccant::units::suggest_unit;
+    let cases = [
+        ("C", "degC"),
+        ("hr", "h"),
+        ("kpa", "kPa"),
+        ("m3", "m^3"),
+        ("ft2", "ft^2"),
+        ("cfm", "ft^3/min"),
+        ("rh", "%rh"),
+        ("degc", "degC"),
+        ("psii", "psi"),
+        ("BTu", "BTU"),
+        ("kgda", "kg_da"),
+    ];
+    for (wrong, right) in cases {
+        assert_eq!(suggest_unit(wrong).as_deref(), Some(right), "{wrong}");
+    }
+    assert_eq!(suggest_unit("zzzzzz"), None);
+    let e = parse_unit("W/(m^2*kelvinn)").unwrap_err();
+    assert!(e.message.contains("unknown unit `kelvinn`"), "{e}");
+    assert_eq!(e.hints, vec!["did you mean `K`?".to_string()]);
+    assert_eq!(suggest_unit("pascals").as_deref(), Some("Pa"));
+    assert_eq!(suggest_unit("hourr").as_deref(), Some("h"));
+}
+
+#[test]
+fn parse_errors_are_clear() {
+    for (text, fragment) in [
+        ("W/(m^2*K", "expected `)`"),
+        ("m^x", "integer exponent"),
+        ("m^99", "integer exponent"),
+        ("*m", "expected a unit symbol"),
+        ("m m", "expected `*`, `/` or the end"),
+        ("2 m", "expected a unit symbol"),
+    ] {
+        let e = parse_unit(text).unwrap_err();
+        assert!(e.message.contains(fragment), "{text}: {e}");
+    }
+    assert_eq!(parse_unit("s^-1").unwrap().symbol, "1/s");
+    assert_eq!(parse_unit("m^(-2)").unwrap().symbol, "1/m^2");
+    assert_eq!(parse_unit("kg/m^2*h").unwrap().symbol, "kg*h/m^2");
+    assert_eq!(
+        parse_unit(" BTU / ( h * ft^2 * degF ) ").unwrap().symbol,
+        "BTU/(h*ft^2*degF)"
+    );
+    assert_eq!(parse_unit("°C").unwrap().symbol, "degC");
+}
