@@ -53,9 +53,13 @@ pub struct BaseUnit {
     pub factor: f64,
     /// SI offset (kelvin at zero of the scale) for degC and degF, else zero.
     pub offset: f64,
+    /// Dimension.
     pub dim: Dim,
+    /// Kind of the quantities it makes.
     pub kind: Kind,
+    /// Linear or wet-basis reading.
     pub scale: Scale,
+    /// Dry-air or dry-solid mass marker.
     pub basis: Basis,
     /// Whether SI prefixes apply (`kPa`, `mm`, `kWh`).
     pub prefixable: bool,
@@ -641,8 +645,11 @@ fn ratio_units() -> Vec<BaseUnit> {
 /// An SI prefix: symbol and factor.
 #[derive(Clone, Copy, Debug)]
 pub struct Prefix {
+    /// Symbol, e.g. `k`.
     pub symbol: &'static str,
+    /// Name, e.g. "kilo".
     pub name: &'static str,
+    /// Factor, e.g. 1000.
     pub factor: f64,
 }
 

@@ -19,14 +19,18 @@ pub const EQUAL_REL_TOL: f64 = 1e-12;
 pub struct Quantity {
     /// Magnitude in coherent SI units (kelvin for temperatures, dry basis for moisture).
     pub si: f64,
+    /// Dimension vector.
     pub dim: Dim,
+    /// What the quantity means beyond its dimension (see [`Kind`]).
     pub kind: Kind,
 }
 
 /// A span-less error from a unit or value operation; the evaluator attaches the span.
 #[derive(Clone, PartialEq, Debug)]
 pub struct UnitError {
+    /// What went wrong, naming dimensions in words and SI.
     pub message: String,
+    /// Suggestions, each a short sentence without the word "hint".
     pub hints: Vec<String>,
 }
 

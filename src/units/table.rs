@@ -21,7 +21,9 @@ pub struct Unit {
     pub factor: f64,
     /// SI offset added after scaling (273.15 for degC); zero for linear units.
     pub offset: f64,
+    /// Dimension of the unit.
     pub dim: Dim,
+    /// Kind of the quantities a number in this unit makes (`degC` absolute, `db` moisture).
     pub kind: Kind,
     /// Non-linear reading beyond factor/offset (wet-basis moisture).
     pub scale: Scale,
