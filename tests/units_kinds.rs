@@ -452,3 +452,20 @@ fn parse_errors_are_clear() {
     );
     assert_eq!(parse_unit("°C").unwrap().symbol, "degC");
 }
+
+#[test]
+fn documented_examples() {
+    // docs/units.md, "Dry and wet basis" (invented numbers).
+    assert_eq!(format_quantity(&q(35.0, "%wb"), None), "0.5385 db");
+    // docs/units.md, "Dimensionless kinds".
+    let w = q(0.0123, "kg/kg_da");
+    assert_eq!(show(&w, "g/kg_da"), "12.3 g/kg_da");
+    assert_eq!(show(&q(70.0, "gr/lb_da"), "g/kg_da"), "10 g/kg_da");
+    assert_eq!(u("kJ/kg_da").kind, Kind::Plain);
+    assert_eq!(u("m^3/kg_da").kind, Kind::Plain);
+    assert_eq!(u("kg/kg_ds").kind, Kind::Moisture);
+    assert_eq!(u("lb/lb_da").kind, Kind::HumidityRatio);
+    // docs/units.md, "Temperatures".
+    assert_eq!(show(&q(9.0, "delta_degF"), "K"), "5 K");
+    assert_eq!(show(&q(540.0, "degR"), "degF"), "80.33 degF");
+}
