@@ -312,6 +312,18 @@ fn same_kinds_add_and_numbers_join_them() {
 }
 
 #[test]
+fn a_percentage_does_not_say_its_moisture_basis() {
+    let e = q(0.2, "db").cmp(&q(20.0, "%")).unwrap_err();
+    assert!(e.message.contains("percentage"), "{e}");
+    assert!(e.hints[0].contains("%db or %wb"), "{e}");
+    assert!(q(5.0, "%").add(&q(0.2, "db")).is_err());
+    assert!(q(0.012, "kg/kg_da").sub(&q(1.0, "%")).is_err());
+    // With the basis written, the comparison works.
+    assert_eq!(q(0.2, "db").cmp(&q(20.0, "%db")).unwrap(), Ordering::Equal);
+    assert_eq!(q(0.25, "db").cmp(&q(20.0, "%wb")).unwrap(), Ordering::Equal);
+}
+
+#[test]
 fn scaling_keeps_kind_other_products_drop_it() {
     let x = q(0.4, "db");
     assert_eq!(Quantity::number(0.5).mul(&x).unwrap().kind, Kind::Moisture);

@@ -92,5 +92,8 @@ fn every_catalogued_unit_is_in_the_fixture() {
         .filter(|n| !matches!(*n, "wb" | "%wb")) // not linear; see the README
         .filter(|n| !rows.iter().any(|r| r.siccant == *n))
         .collect();
-    assert!(missing.is_empty(), "units missing from the pint fixture: {missing:?}");
+    assert!(
+        missing.is_empty(),
+        "units missing from the pint fixture: {missing:?}"
+    );
 }

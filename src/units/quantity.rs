@@ -316,6 +316,9 @@ fn expect_kind_error(wanted: Kind, found: Kind) -> UnitError {
         (Kind::AbsoluteTemperature, Kind::TemperatureDifference) => {
             err.with_hint("add the difference to a temperature, e.g. T + dT")
         }
+        (Kind::TemperatureDifference, Kind::AbsoluteTemperature) => {
+            err.with_hint("subtract two temperatures to get a difference, e.g. T2 - T1")
+        }
         (Kind::Moisture, Kind::HumidityRatio) | (Kind::HumidityRatio, Kind::Moisture) => err
             .with_hint("moisture content is per kg of dry solid, humidity ratio per kg of dry air"),
         _ => err,
@@ -334,6 +337,14 @@ fn clash_error(verb: &str, clash: KindClash) -> UnitError {
             "cannot {verb} a temperature difference and an absolute temperature this way"
         ))
         .with_hint("an absolute temperature minus a difference is absolute: write T - dT"),
+        KindClash::AmbiguousPercent(k) => {
+            UnitError::new(format!("cannot {verb} {} and a percentage", k.describe())).with_hint(
+                match k {
+                    Kind::Moisture => "a percentage does not say its basis: write %db or %wb",
+                    _ => "write a humidity ratio in kg/kg_da or g/kg_da",
+                },
+            )
+        }
         KindClash::Ratios(a, b) => UnitError::new(format!(
             "cannot {verb} {} and {}",
             a.describe(),
