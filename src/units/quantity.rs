@@ -405,8 +405,11 @@ fn finite(si: f64, dim: Dim, kind: Kind) -> Result<Quantity, UnitError> {
     if si.is_finite() {
         Ok(Quantity::new(si, dim, kind))
     } else {
-        Err(UnitError::new(
-            "the result is not a finite number (overflow or invalid operation)",
-        ))
+        Err(
+            UnitError::new("the result is not a finite number (overflow or invalid operation)")
+                .with_hint(
+                    "an operand may itself be invalid, e.g. a wet-basis moisture of 1 or more",
+                ),
+        )
     }
 }
