@@ -12,6 +12,7 @@ pub mod constant_rate;
 pub mod film;
 pub mod groups;
 pub mod jets;
+pub mod wet_surface;
 
 use std::fmt;
 
@@ -25,6 +26,7 @@ pub use groups::{
     mass_velocity, nusselt, prandtl, reynolds, schmidt, sherwood, velocity_from_mass_velocity,
 };
 pub use jets::{round_jet_array, round_jet_single, slot_jet_array, slot_jet_single};
+pub use wet_surface::{wet_surface, ExtraHeat, Layer, Radiation, TrayBottom, WetSurface};
 
 /// A correlation's value with the validity ranges the call fell outside.
 #[derive(Clone, Debug, PartialEq)]

@@ -8,6 +8,8 @@ use crate::diag::{Diagnostic, Span};
 use crate::units::{describe_dim, Dim, Quantity};
 use crate::value::{Record, Value};
 
+pub mod transfer;
+
 /// What a parameter accepts, for docs, completion and checking.
 #[derive(Clone, Copy, Debug)]
 pub struct Param {
@@ -231,6 +233,7 @@ pub fn registry() -> &'static [&'static Builtin] {
     REGISTRY.get_or_init(|| {
         const FAMILIES: &[&[Builtin]] = &[
             // one line per family, e.g. air::BUILTINS,
+            transfer::BUILTINS,
         ];
         let mut all: Vec<&'static Builtin> = FAMILIES.iter().flat_map(|f| f.iter()).collect();
         all.sort_by_key(|b| b.name);
