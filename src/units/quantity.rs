@@ -25,7 +25,10 @@ pub struct UnitError {
 
 impl UnitError {
     fn new(message: impl Into<String>) -> UnitError {
-        UnitError { message: message.into(), hints: Vec::new() }
+        UnitError {
+            message: message.into(),
+            hints: Vec::new(),
+        }
     }
 }
 
@@ -53,7 +56,11 @@ impl Quantity {
         if self.dim == other.dim {
             Ok(())
         } else {
-            Err(UnitError::new(format!("cannot {verb} {} and {}", words(self.dim), words(other.dim))))
+            Err(UnitError::new(format!(
+                "cannot {verb} {} and {}",
+                words(self.dim),
+                words(other.dim)
+            )))
         }
     }
 
@@ -89,7 +96,12 @@ impl Quantity {
     }
 
     fn product_kind(&self, other: &Quantity) -> Kind {
-        match (self.kind, other.kind, self.dim.is_dimensionless(), other.dim.is_dimensionless()) {
+        match (
+            self.kind,
+            other.kind,
+            self.dim.is_dimensionless(),
+            other.dim.is_dimensionless(),
+        ) {
             (k, Kind::Plain, true, true) if k != Kind::AbsoluteTemperature => k,
             (Kind::Plain, k, true, true) if k != Kind::AbsoluteTemperature => k,
             _ => Kind::Plain,
@@ -98,7 +110,11 @@ impl Quantity {
 
     /// Checked product.
     pub fn mul(&self, other: &Quantity) -> Result<Quantity, UnitError> {
-        Ok(Quantity::new(self.si * other.si, self.dim * other.dim, self.product_kind(other)))
+        Ok(Quantity::new(
+            self.si * other.si,
+            self.dim * other.dim,
+            self.product_kind(other),
+        ))
     }
 
     /// Checked quotient; division by zero is an error.
@@ -106,7 +122,11 @@ impl Quantity {
         if other.si == 0.0 {
             return Err(UnitError::new("division by zero"));
         }
-        Ok(Quantity::new(self.si / other.si, self.dim / other.dim, self.product_kind(other)))
+        Ok(Quantity::new(
+            self.si / other.si,
+            self.dim / other.dim,
+            self.product_kind(other),
+        ))
     }
 
     /// Negation.
@@ -116,7 +136,11 @@ impl Quantity {
 
     /// Integer power.
     pub fn powi(&self, n: i32) -> Result<Quantity, UnitError> {
-        Ok(Quantity::new(self.si.powi(n), self.dim.powi(n), Kind::Plain))
+        Ok(Quantity::new(
+            self.si.powi(n),
+            self.dim.powi(n),
+            Kind::Plain,
+        ))
     }
 
     /// Real power: dimensionless base, or an exact root of a dimensioned one.
@@ -130,12 +154,18 @@ impl Quantity {
                 return Ok(Quantity::new(self.si.powf(x), d, Kind::Plain));
             }
         }
-        Err(UnitError::new(format!("cannot raise {} to the power {x}", words(self.dim))))
+        Err(UnitError::new(format!(
+            "cannot raise {} to the power {x}",
+            words(self.dim)
+        )))
     }
 
     /// Checked comparison.
+    #[allow(clippy::should_implement_trait)]
     pub fn cmp(&self, other: &Quantity) -> Result<Ordering, UnitError> {
         self.same_dim(other, "compare")?;
-        self.si.partial_cmp(&other.si).ok_or_else(|| UnitError::new("cannot compare NaN"))
+        self.si
+            .partial_cmp(&other.si)
+            .ok_or_else(|| UnitError::new("cannot compare NaN"))
     }
 }

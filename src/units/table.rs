@@ -35,8 +35,20 @@ const BASE: &[(&str, f64, f64, Dim, Kind)] = &[
     ("W", 1.0, 0.0, Dim::POWER, Kind::Plain),
     ("kW", 1e3, 0.0, Dim::POWER, Kind::Plain),
     ("K", 1.0, 0.0, Dim::TEMPERATURE, Kind::Plain),
-    ("degC", 1.0, 273.15, Dim::TEMPERATURE, Kind::AbsoluteTemperature),
-    ("degF", 5.0 / 9.0, 255.372_222_222_222_2, Dim::TEMPERATURE, Kind::AbsoluteTemperature),
+    (
+        "degC",
+        1.0,
+        273.15,
+        Dim::TEMPERATURE,
+        Kind::AbsoluteTemperature,
+    ),
+    (
+        "degF",
+        5.0 / 9.0,
+        255.372_222_222_222_2,
+        Dim::TEMPERATURE,
+        Kind::AbsoluteTemperature,
+    ),
     ("%", 0.01, 0.0, Dim::NONE, Kind::Fraction),
     ("db", 1.0, 0.0, Dim::NONE, Kind::Moisture),
     ("wb", 1.0, 0.0, Dim::NONE, Kind::Moisture),
@@ -44,13 +56,15 @@ const BASE: &[(&str, f64, f64, Dim, Kind)] = &[
 
 /// Look up a unit symbol, with SI prefixes (`kPa`, `mm`, `kJ`).
 pub fn lookup_unit(symbol: &str) -> Option<Unit> {
-    BASE.iter().find(|u| u.0 == symbol).map(|&(s, factor, offset, dim, kind)| Unit {
-        symbol: s.into(),
-        factor,
-        offset,
-        dim,
-        kind,
-    })
+    BASE.iter()
+        .find(|u| u.0 == symbol)
+        .map(|&(s, factor, offset, dim, kind)| Unit {
+            symbol: s.into(),
+            factor,
+            offset,
+            dim,
+            kind,
+        })
 }
 
 /// The closest known unit symbol to a misspelt one.
@@ -79,28 +93,54 @@ pub fn describe_dim(dim: Dim) -> String {
 
 impl Unit {
     fn compound(symbol: String, factor: f64, dim: Dim) -> Unit {
-        Unit { symbol, factor, offset: 0.0, dim, kind: Kind::Plain }
+        Unit {
+            symbol,
+            factor,
+            offset: 0.0,
+            dim,
+            kind: Kind::Plain,
+        }
     }
 
     /// Product of two units.
     pub fn mul(&self, other: &Unit) -> Unit {
-        Unit::compound(format!("{}*{}", self.symbol, other.symbol), self.factor * other.factor, self.dim * other.dim)
+        Unit::compound(
+            format!("{}*{}", self.symbol, other.symbol),
+            self.factor * other.factor,
+            self.dim * other.dim,
+        )
     }
 
     /// Quotient of two units.
     pub fn div(&self, other: &Unit) -> Unit {
-        let den = if other.symbol.contains(['*', '/']) { format!("({})", other.symbol) } else { other.symbol.clone() };
-        Unit::compound(format!("{}/{den}", self.symbol), self.factor / other.factor, self.dim / other.dim)
+        let den = if other.symbol.contains(['*', '/']) {
+            format!("({})", other.symbol)
+        } else {
+            other.symbol.clone()
+        };
+        Unit::compound(
+            format!("{}/{den}", self.symbol),
+            self.factor / other.factor,
+            self.dim / other.dim,
+        )
     }
 
     /// Integer power.
     pub fn powi(&self, n: i32) -> Unit {
-        Unit::compound(format!("{}^{n}", self.symbol), self.factor.powi(n), self.dim.powi(n))
+        Unit::compound(
+            format!("{}^{n}", self.symbol),
+            self.factor.powi(n),
+            self.dim.powi(n),
+        )
     }
 
     /// A number written in this unit, as a quantity.
     pub fn to_si(&self, x: f64) -> Quantity {
-        let x = if self.symbol == "wb" { x / (1.0 - x) } else { x };
+        let x = if self.symbol == "wb" {
+            x / (1.0 - x)
+        } else {
+            x
+        };
         Quantity::new(x * self.factor + self.offset, self.dim, self.kind)
     }
 
@@ -112,9 +152,17 @@ impl Unit {
                 hints: vec![],
             });
         }
-        let offset = if q.kind == Kind::AbsoluteTemperature { self.offset } else { 0.0 };
+        let offset = if q.kind == Kind::AbsoluteTemperature {
+            self.offset
+        } else {
+            0.0
+        };
         let x = (q.si - offset) / self.factor;
-        Ok(if self.symbol == "wb" { x / (1.0 + x) } else { x })
+        Ok(if self.symbol == "wb" {
+            x / (1.0 + x)
+        } else {
+            x
+        })
     }
 }
 
@@ -130,7 +178,9 @@ pub fn format_quantity(q: &Quantity, unit: Option<&Unit>) -> String {
             Ok(x) => format!("{} {}", sig4(x), u.symbol),
             Err(_) => format!("{} {}", sig4(q.si), q.dim.si_unit()),
         },
-        None => format!("{} {}", sig4(q.si), q.dim.si_unit()).trim_end().to_string(),
+        None => format!("{} {}", sig4(q.si), q.dim.si_unit())
+            .trim_end()
+            .to_string(),
     }
 }
 
