@@ -28,7 +28,7 @@ use uom::si::f64::{
 use uom::si::specific_heat_capacity::joule_per_kilogram_kelvin;
 use uom::si::thermal_conductivity::watt_per_meter_kelvin;
 
-use crate::engine::air::thermo::{dry_air_cp, vapour_cp, EPSILON, M_DRY_AIR, M_WATER};
+use crate::engine::air::thermo::{EPSILON, M_DRY_AIR, M_WATER};
 use crate::engine::air::{AirError, AirState};
 
 /// Dilute-gas viscosity of dry air, Pa s (Lemmon & Jacobsen 2004 eqs. 2-4).
@@ -128,7 +128,7 @@ impl Transport {
         Transport {
             viscosity_pa_s: wilke_mix(x_w, mu_a, mu_w, mu_a, mu_w),
             conductivity_w_per_m_k: wilke_mix(x_w, k_a, k_w, mu_a, mu_w),
-            cp_j_per_kg_k: (dry_air_cp(t) + w * vapour_cp(t)) / (1.0 + w),
+            cp_j_per_kg_k: air.humid_heat_j_per_kg_da_k() / (1.0 + w),
             density_kg_per_m3: (1.0 + w) / air.humid_volume_m3_per_kg_da(),
             diffusivity_m2_per_s: fuller_diffusivity_m2_per_s(t, p),
         }
@@ -192,8 +192,9 @@ pub fn thermal_conductivity(
     ))
 }
 
-/// Isobaric specific heat per kg of humid air (ideal-gas mixture: Lemmon et al.
-/// 2000 air, IAPWS-IF97 vapour). For the humid heat per kg of dry air use
+/// Isobaric specific heat per kg of humid air, `(dh/dT)_(w,p) / (1 + w)` from the
+/// enthalpy of [`AirState::enthalpy`] (Lemmon et al. 2000 ideal-gas air, IAPWS-IF97
+/// vapour, second-virial real-gas terms). For the humid heat per kg of dry air use
 /// [`AirState::humid_heat`].
 pub fn specific_heat(
     t: ThermodynamicTemperature,

@@ -124,21 +124,23 @@ pub(crate) fn ws_of(t: f64, p: f64) -> Option<f64> {
 
 /// Enthalpy per kg dry air, J/kg, on the ASHRAE reference.
 pub(crate) fn h_of(t: f64, w: f64, p: f64) -> f64 {
-    thermo::dry_air_enthalpy(t) + w * thermo::vapour_enthalpy(t, pv_of(w, p))
+    let pv = pv_of(w, p);
+    thermo::air_part_enthalpy(t, p - pv, pv) + w * thermo::vapour_enthalpy(t, pv)
 }
 
-/// Humidity ratio with enthalpy `h` at (T, p): fixed point of `w = (h - h_da) / h_v(T, pv(w))`.
+/// Humidity ratio w at (T, p) with `h(T, w, p) - w h_c = target` (J/kg dry air).
 ///
-/// `base` is the enthalpy that does not scale with w; `offset` is subtracted from
-/// `h_v` (the condensed-phase enthalpy in the wet-bulb balance).
-fn w_for_enthalpy(t: f64, p: f64, rhs: f64, offset: f64) -> Result<f64, AirError> {
-    let mut w = rhs / (thermo::vapour_enthalpy(t, 0.0) - offset);
+/// Newton-like iteration with the slope `h_v - h_c` (the real-gas terms make the
+/// exact slope differ by well under 1 %), to machine precision.
+fn w_for_enthalpy(t: f64, p: f64, target: f64, hc: f64) -> Result<f64, AirError> {
+    let mut w = 0.0;
     for _ in 0..60 {
-        let next = rhs / (thermo::vapour_enthalpy(t, pv_of(w.max(0.0), p)) - offset);
-        if (next - w).abs() <= 4.0 * f64::EPSILON * next.abs() {
-            return Ok(next);
+        let slope = thermo::vapour_enthalpy(t, pv_of(w, p)) - hc;
+        let step = (target - (h_of(t, w, p) - w * hc)) / slope;
+        w += step;
+        if step.abs() <= 8.0 * f64::EPSILON * w.abs() {
+            return Ok(w);
         }
-        w = next;
     }
     Err(AirError::NotConverged {
         what: "humidity ratio from enthalpy",
@@ -282,8 +284,8 @@ impl AirState {
             dry_bulb_k: t,
         })?;
         let hc = thermo::condensed_enthalpy(twb);
-        let rhs = h_of(twb, ws_star, p) - ws_star * hc - thermo::dry_air_enthalpy(t);
-        if rhs < 0.0 {
+        let target = h_of(twb, ws_star, p) - ws_star * hc;
+        if target < h_of(t, 0.0, p) {
             let min_k = AirState {
                 t_k: t,
                 p_pa: p,
@@ -296,7 +298,7 @@ impl AirState {
                 min_k,
             });
         }
-        let w = w_for_enthalpy(t, p, rhs, hc)?;
+        let w = w_for_enthalpy(t, p, target, hc)?;
         AirState::new_checked(t, w, p, "wetbulb")
     }
 
@@ -315,7 +317,7 @@ impl AirState {
         );
         check_dry_bulb("T", t)?;
         check_pressure(p)?;
-        let h_dry = thermo::dry_air_enthalpy(t);
+        let h_dry = h_of(t, 0.0, p);
         let h_sat = ws_of(t, p).map_or(f64::INFINITY, |ws| h_of(t, ws, p));
         if !(h.is_finite() && h >= h_dry && h <= h_sat + SLACK * h_sat.abs()) {
             return Err(AirError::EnthalpyOutOfRange {
@@ -429,9 +431,8 @@ impl AirState {
     }
 
     pub(crate) fn humid_volume_m3_per_kg_da(&self) -> f64 {
-        let pv = pv_of(self.w, self.p_pa);
         let x_w = self.w / (EPSILON + self.w);
-        let z = 1.0 + x_w * thermo::vapour_compressibility_excess(self.t_k, pv);
+        let z = 1.0 + thermo::mixture_compressibility_excess(self.t_k, self.p_pa, x_w);
         thermo::R_DRY_AIR * self.t_k * (1.0 + self.w / EPSILON) / self.p_pa * z
     }
 
@@ -442,11 +443,17 @@ impl AirState {
         )
     }
 
-    /// Humid heat `c_pa + w c_pv`, J/(kg dry air K): the ideal-gas heat needed to warm
-    /// the air carrying 1 kg of dry air by 1 K.
+    /// Humid heat `(dh/dT)` at constant w and p, J/(kg dry air K): the heat needed to
+    /// warm the air carrying 1 kg of dry air by 1 K (about `c_pa + w c_pv`,
+    /// including the real-gas terms of the enthalpy).
     pub fn humid_heat(&self) -> SpecificHeatCapacity {
-        let cp = thermo::dry_air_cp(self.t_k) + self.w * thermo::vapour_cp(self.t_k);
-        SpecificHeatCapacity::new::<joule_per_kilogram_kelvin>(cp)
+        SpecificHeatCapacity::new::<joule_per_kilogram_kelvin>(self.humid_heat_j_per_kg_da_k())
+    }
+
+    pub(crate) fn humid_heat_j_per_kg_da_k(&self) -> f64 {
+        let dt = 1e-3;
+        (h_of(self.t_k + dt, self.w, self.p_pa) - h_of(self.t_k - dt, self.w, self.p_pa))
+            / (2.0 * dt)
     }
 
     /// Dew point (frost point below 0 degC): where saturated air has this vapour pressure.

@@ -8,6 +8,11 @@
 //! - Water vapour: IAPWS-IF97 region 2, ideal-gas part plus the five residual
 //!   terms linear in pressure (the second-virial level), evaluated at the vapour
 //!   partial pressure (water-water interactions; cross terms with air neglected).
+//! - Air-air and air-water second virial coefficients: Hyland & Wexler (1983),
+//!   "Formulations for the thermodynamic properties of dry air from 173.15 K to
+//!   473.15 K, and of saturated moist air from 173.15 K to 372.15 K, at pressures
+//!   to 5 MPa", ASHRAE Trans. 89(2A), 520-535 (coefficients from memory, checked
+//!   against CoolProp's humid-air volume and enthalpy in tests/air_coolprop.rs).
 //! - Liquid water and ice: ASHRAE Handbook - Fundamentals (2017) ch. 1 eqs. 35-36.
 
 /// Molar mass of dry air, kg/mol (ASHRAE Fundamentals 2017 ch. 1).
@@ -26,6 +31,59 @@ pub const R_WATER_IF97: f64 = 461.526;
 /// point with u = s = 0), J/kg; about cp * (-0.01 K). Subtracted to move IF97
 /// vapour enthalpies to the ASHRAE reference.
 const H_LIQUID_0C_IF97: f64 = -41.6;
+
+/// Standard pressure of the enthalpy reference state, Pa.
+pub const P_REFERENCE: f64 = 101_325.0;
+
+/// A second virial coefficient `B(T)` and `T dB/dT`, both m^3/mol, from
+/// `B = c0 + c1/T + c2/T^2 + c3/T^3 + c4/T^4`.
+fn virial(t: f64, c: &[f64; 5]) -> (f64, f64) {
+    let x = 1.0 / t;
+    let b = c[0] + x * (c[1] + x * (c[2] + x * (c[3] + x * c[4])));
+    let t_db = -x * (c[1] + x * (2.0 * c[2] + x * (3.0 * c[3] + x * 4.0 * c[4])));
+    (b, t_db)
+}
+
+/// Hyland-Wexler (1983) B_aa of dry air.
+const B_AIR_AIR: [f64; 5] = [0.349_568e-4, -0.668_772e-2, -0.210_141e1, 0.924_746e2, 0.0];
+/// Hyland-Wexler (1983) B_aw, air-water cross coefficient.
+const B_AIR_WATER: [f64; 5] = [
+    0.323_660_97e-4,
+    -0.141_138e-1,
+    -0.124_453_5e1,
+    0.0,
+    -0.234_878_9e4,
+];
+
+/// Residual enthalpy per kg dry air of the air-air and air-water interactions at
+/// air partial pressure `pa` and vapour partial pressure `pv`, J/kg dry air
+/// (second-virial level: `H_res = p sum x_i x_j (B_ij - T B_ij')`).
+pub fn air_residual_enthalpy(t: f64, pa: f64, pv: f64) -> f64 {
+    let (baa, t_dbaa) = virial(t, &B_AIR_AIR);
+    let (baw, t_dbaw) = virial(t, &B_AIR_WATER);
+    (pa * (baa - t_dbaa) + 2.0 * pv * (baw - t_dbaw)) / M_DRY_AIR
+}
+
+/// Residual enthalpy of dry air at the reference state (0 degC, 101.325 kPa), J/kg.
+fn air_residual_reference() -> f64 {
+    air_residual_enthalpy(super::saturation::T_ZERO_C, P_REFERENCE, 0.0)
+}
+
+/// Compressibility excess `Z - 1` of humid air at (T, p) with water mole fraction x_w:
+/// `(p / RT)(x_a^2 B_aa + 2 x_a x_w B_aw) + x_w (Z_w(pv) - 1)`.
+pub fn mixture_compressibility_excess(t: f64, p: f64, x_w: f64) -> f64 {
+    let x_a = 1.0 - x_w;
+    let (baa, _) = virial(t, &B_AIR_AIR);
+    let (baw, _) = virial(t, &B_AIR_WATER);
+    p / (R_MOLAR * t) * (x_a * x_a * baa + 2.0 * x_a * x_w * baw)
+        + x_w * vapour_compressibility_excess(t, x_w * p)
+}
+
+/// Enthalpy of the dry air and the air-water interaction per kg dry air, relative
+/// to dry air at 0 degC and 101.325 kPa, J/kg (all of h except `w h_v`).
+pub fn air_part_enthalpy(t: f64, pa: f64, pv: f64) -> f64 {
+    dry_air_enthalpy(t) + air_residual_enthalpy(t, pa, pv) - air_residual_reference()
+}
 
 /// Lemmon et al. (2000) ideal-gas coefficients for air, N1..N13, and reducing temperature.
 const LEMMON_N: [f64; 13] = [
