@@ -187,9 +187,9 @@ pub fn mix(
 
 /// Saturated outlet of a supersaturated mix, with the fog (liquid) it carries.
 fn foggy_mix(h: f64, w: f64, p: f64) -> Result<ProcessOutcome, AirError> {
-    let residual = |t: f64| match ws_of(t, p) {
-        Some(ws) if ws <= w => h_of(t, ws, p) + (w - ws) * thermo::condensed_enthalpy(t) - h,
-        _ => f64::INFINITY,
+    let residual = |t: f64| {
+        let ws = ws_of(t, p).unwrap_or(w).min(w);
+        h_of(t, ws, p) + (w - ws) * thermo::condensed_enthalpy(t) - h
     };
     // The clear-air dry-bulb is below the dew point of w, where the residual is positive.
     let probe = AirState::from_w(
