@@ -113,7 +113,12 @@ fn sig(x: f64) -> String {
         return format!("{mantissa}e{magnitude}");
     }
     let digits = (3 - magnitude).max(0) as usize;
-    format!("{x:.digits$}")
+    let text = format!("{x:.digits$}");
+    if text.contains('.') {
+        text.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        text
+    }
 }
 
 /// Check `value` against `[low, high]` and record a warning when outside.
@@ -192,11 +197,54 @@ mod tests {
 
     #[test]
     fn warning_text_is_readable() {
-        let w = RangeWarning { correlation: "c", input: "Re", value: 1.0e5, low: 5.0e5, high: 1.0e8, unit: "" };
-        assert_eq!(w.to_string(), "c: Re = 1e5 is outside the fitted range 5e5-1e8; the value is an extrapolation");
-        let w = RangeWarning { correlation: "c", input: "G", value: 2400.0, low: 2450.0, high: 29300.0, unit: "kg/(m^2 h)" };
-        assert!(w.to_string().contains("G = 2400 kg/(m^2 h) is outside the fitted range 2450-29300 kg/(m^2 h)"));
-        let w = RangeWarning { correlation: "c", input: "Re Pr", value: 0.1234, low: 0.2, high: f64::INFINITY, unit: "" };
-        assert!(w.to_string().contains("Re Pr = 0.1234 is outside the fitted range at least 0.2"), "{w}");
+        let w = RangeWarning {
+            correlation: "c",
+            input: "Re",
+            value: 1.0e5,
+            low: 5.0e5,
+            high: 1.0e8,
+            unit: "",
+        };
+        assert_eq!(
+            w.to_string(),
+            "c: Re = 1e5 is outside the fitted range 5e5-1e8; the value is an extrapolation"
+        );
+        let w = RangeWarning {
+            correlation: "c",
+            input: "G",
+            value: 2400.0,
+            low: 2450.0,
+            high: 29300.0,
+            unit: "kg/(m^2 h)",
+        };
+        assert!(w
+            .to_string()
+            .contains("G = 2400 kg/(m^2 h) is outside the fitted range 2450-29300 kg/(m^2 h)"));
+        let w = RangeWarning {
+            correlation: "c",
+            input: "Re Pr",
+            value: 0.1234,
+            low: 0.2,
+            high: f64::INFINITY,
+            unit: "",
+        };
+        assert!(
+            w.to_string()
+                .contains("Re Pr = 0.1234 is outside the fitted range at least 0.2"),
+            "{w}"
+        );
+        let w = RangeWarning {
+            correlation: "c",
+            input: "T",
+            value: 30.0,
+            low: 45.0,
+            high: 150.0,
+            unit: "degC",
+        };
+        assert!(
+            w.to_string()
+                .contains("T = 30 degC is outside the fitted range 45-150 degC"),
+            "{w}"
+        );
     }
 }

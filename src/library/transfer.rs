@@ -22,7 +22,8 @@ use crate::engine::transfer::{
     WetSurface,
 };
 use crate::engine::transport::Transport;
-use crate::units::{Dim, Kind, Quantity};
+use crate::library::air::AirPayload;
+use crate::units::{parse_unit, Dim, Kind, Quantity};
 use crate::value::{Payload, Record, Value};
 
 mod params;
@@ -239,30 +240,6 @@ pub const BUILTINS: &[Builtin] = &[
         func: reynolds,
     },
     Builtin {
-        name: "prandtl",
-        family: "transfer",
-        params: AIR_ONLY,
-        returns: "Prandtl number (plain)",
-        doc: "Prandtl number cp mu / k of humid air.",
-        method: "definition; properties from the air engine",
-        source: "definition (Incropera and DeWitt, ch. 6)",
-        validity: "as the air engine's transport properties",
-        example: "prandtl(air(T: 70 degC, rh: 4 %))",
-        func: prandtl,
-    },
-    Builtin {
-        name: "schmidt",
-        family: "transfer",
-        params: AIR_ONLY,
-        returns: "Schmidt number (plain)",
-        doc: "Schmidt number mu / (rho D) of water vapour in humid air.",
-        method: "definition; properties from the air engine",
-        source: "definition (Incropera and DeWitt, ch. 6)",
-        validity: "as the air engine's transport properties",
-        example: "schmidt(air(T: 70 degC, rh: 4 %))",
-        func: schmidt,
-    },
-    Builtin {
         name: "nusselt",
         family: "transfer",
         params: NUSSELT,
@@ -345,8 +322,8 @@ pub const BUILTINS: &[Builtin] = &[
 fn air_arg(args: &mut Args, name: &str) -> Result<AirState, Diagnostic> {
     let span = args.span_of(name);
     let record = args.record(name, "air")?;
-    if let Some(state) = record.payload::<AirState>() {
-        return Ok(*state);
+    if let Some(state) = record.payload::<AirPayload>() {
+        return Ok(state.0);
     }
     air_from_fields(&record).ok_or_else(|| {
         Diagnostic::error(span, "this air record has no T, w and p to read")
@@ -477,6 +454,12 @@ fn quantity(si: f64, dim: Dim) -> Value {
     Value::Quantity(Quantity::new(si, dim, Kind::Plain), None)
 }
 
+/// A quantity shown in the trade's usual unit (`text` parsed by the unit
+/// table; the value itself stays SI).
+fn shown(si: f64, dim: Dim, text: &str) -> Value {
+    Value::Quantity(Quantity::new(si, dim, Kind::Plain), parse_unit(text).ok())
+}
+
 fn number(x: f64) -> Value {
     Value::Quantity(Quantity::number(x), None)
 }
@@ -540,9 +523,10 @@ fn mass_velocity(args: &mut Args) -> Result<Value, Diagnostic> {
     }
     .map_err(|e| engine_error(args, e))?;
     args.finish()?;
-    Ok(quantity(
+    Ok(shown(
         g.get::<uom::si::mass_flux::kilogram_per_square_meter_second>(),
         Dim::MASS_FLUX,
+        "kg/(m^2*h)",
     ))
 }
 
@@ -839,18 +823,6 @@ fn reynolds(args: &mut Args) -> Result<Value, Diagnostic> {
     Ok(number(flow.re))
 }
 
-fn prandtl(args: &mut Args) -> Result<Value, Diagnostic> {
-    let air = air_arg(args, "air")?;
-    args.finish()?;
-    Ok(number(Transport::of(&air).prandtl()))
-}
-
-fn schmidt(args: &mut Args) -> Result<Value, Diagnostic> {
-    let air = air_arg(args, "air")?;
-    args.finish()?;
-    Ok(number(Transport::of(&air).schmidt()))
-}
-
 fn nusselt(args: &mut Args) -> Result<Value, Diagnostic> {
     let h = positive(args, "h", Dim::HEAT_TRANSFER_COEFFICIENT)?;
     let length = positive(args, "length", Dim::LENGTH)?;
@@ -1039,7 +1011,15 @@ fn surface_record(s: WetSurface, h: f64) -> Record {
                 None,
             ),
         )
-        .with("Rc", kg_m2_s(s.rate))
+        .with(
+            "Rc",
+            shown(
+                s.rate
+                    .get::<uom::si::mass_flux::kilogram_per_square_meter_second>(),
+                Dim::MASS_FLUX,
+                "kg/(m^2*h)",
+            ),
+        )
         .with("q", q(s.heat_flux))
         .with("q_conv", q(s.convective))
         .with("q_rad", q(s.radiative))
@@ -1103,7 +1083,7 @@ fn constant_rate_time(args: &mut Args) -> Result<Value, Diagnostic> {
         ArealMassDensity::new::<uom::si::areal_mass_density::kilogram_per_square_meter>(load);
     let t = engine::constant_rate_time(load, x1, x2, mass_flux_si(rc.si))
         .map_err(|e| engine_error(args, e))?;
-    Ok(quantity(t.get::<uom::si::time::second>(), Dim::TIME))
+    Ok(shown(t.get::<uom::si::time::second>(), Dim::TIME, "h"))
 }
 
 #[cfg(test)]
