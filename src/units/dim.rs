@@ -104,7 +104,11 @@ impl Dim {
                 den.push(part(-e));
             }
         }
-        let n = if num.is_empty() { "1".to_string() } else { num.join("*") };
+        let n = if num.is_empty() {
+            "1".to_string()
+        } else {
+            num.join("*")
+        };
         match den.len() {
             0 => {
                 if num.is_empty() {

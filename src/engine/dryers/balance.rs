@@ -32,7 +32,11 @@ pub struct EnergyFlows {
 impl EnergyFlows {
     /// Sum of the places the energy went.
     pub fn outflows(&self) -> f64 {
-        self.exhaust_air_sensible + self.evaporation + self.vapour_superheat + self.product_sensible + self.losses
+        self.exhaust_air_sensible
+            + self.evaporation
+            + self.vapour_superheat
+            + self.product_sensible
+            + self.losses
     }
 
     /// Specific energy: heater plus fan per kg of water, J/kg.
@@ -88,7 +92,13 @@ pub(crate) struct Ledger {
 impl Ledger {
     /// Book the exhaust leaving against the fresh air that came in, each per kg dry air,
     /// for `dry_air` kg (or kg/s) of purged air.
-    pub fn book_exhaust(&mut self, dry_air: f64, fresh: (f64, f64), exhaust: (f64, f64), exhaust_at_fresh_w: f64) {
+    pub fn book_exhaust(
+        &mut self,
+        dry_air: f64,
+        fresh: (f64, f64),
+        exhaust: (f64, f64),
+        exhaust_at_fresh_w: f64,
+    ) {
         let (h_f, w_f) = fresh;
         let (h_e, w_e) = exhaust;
         self.air_out_minus_in += dry_air * (h_e - h_f);
@@ -114,7 +124,8 @@ impl Ledger {
         f.vapour_superheat = vapour_carried - f.evaporation - (f.product_sensible - product_change);
         let out = self.air_out_minus_in + product_change + f.losses;
         let closure = Closure {
-            water_relative: (water_removed - self.water_by_air) / water_removed.abs().max(f64::MIN_POSITIVE),
+            water_relative: (water_removed - self.water_by_air)
+                / water_removed.abs().max(f64::MIN_POSITIVE),
             energy_relative: (f.heater - out) / f.heater.abs().max(f64::MIN_POSITIVE),
         };
         (self.flows, closure)

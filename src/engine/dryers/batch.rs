@@ -15,7 +15,7 @@ use uom::si::thermodynamic_temperature::kelvin;
 
 use super::balance::{Closure, EnergyFlows, Ledger};
 use super::product::{exchange, surface_humidity_ratio, Product, Surface};
-use super::{non_negative, positive, DryerError};
+use super::{non_negative, positive, settle_recirculation, DryerError};
 use crate::engine::air::AirState;
 
 /// One element on the air path: a tray, or a layer of a bed.
@@ -92,7 +92,11 @@ pub struct BatchResult {
 impl BatchDryer {
     fn validate(&self) -> Result<(), DryerError> {
         if self.elements.is_empty() {
-            return Err(DryerError::Invalid { name: "elements", value: 0.0, expected: "at least one tray or layer" });
+            return Err(DryerError::Invalid {
+                name: "elements",
+                value: 0.0,
+                expected: "at least one tray or layer",
+            });
         }
         for e in &self.elements {
             positive("area", e.area_m2)?;
@@ -104,27 +108,47 @@ impl BatchDryer {
         positive("initial moisture", self.x_initial_db)?;
         non_negative("target moisture", self.x_target_db)?;
         if self.x_target_db >= self.x_initial_db {
-            return Err(DryerError::Invalid { name: "target moisture", value: self.x_target_db, expected: "below the initial moisture" });
+            return Err(DryerError::Invalid {
+                name: "target moisture",
+                value: self.x_target_db,
+                expected: "below the initial moisture",
+            });
         }
         positive("air flow", self.dry_air_kg_per_s)?;
         if !(0.0..=0.95).contains(&self.recirculated) {
-            return Err(DryerError::Invalid { name: "recirculated fraction", value: self.recirculated, expected: "0 to 0.95 of the exhaust" });
+            return Err(DryerError::Invalid {
+                name: "recirculated fraction",
+                value: self.recirculated,
+                expected: "0 to 0.95 of the exhaust",
+            });
         }
         non_negative("wall loss conductance", self.loss_w_per_k)?;
         non_negative("fan pressure rise", self.fan.pressure_rise_pa)?;
         if !(self.fan.efficiency > 0.0 && self.fan.efficiency <= 1.0) {
-            return Err(DryerError::Invalid { name: "fan efficiency", value: self.fan.efficiency, expected: "a fraction in (0, 1]" });
+            return Err(DryerError::Invalid {
+                name: "fan efficiency",
+                value: self.fan.efficiency,
+                expected: "a fraction in (0, 1]",
+            });
         }
         positive("maximum time", self.max_time_s)?;
         if self.supply_t_k < self.fresh_air.t_kelvin() {
-            return Err(DryerError::Invalid { name: "supply temperature", value: self.supply_t_k, expected: "at or above the fresh-air temperature" });
+            return Err(DryerError::Invalid {
+                name: "supply temperature",
+                value: self.supply_t_k,
+                expected: "at or above the fresh-air temperature",
+            });
         }
         Ok(())
     }
 
     /// Air after the heater for an intake of humidity `w` (sensible heating only).
     fn heated(&self, w: f64) -> Result<AirState, DryerError> {
-        Ok(AirState::from_w(ThermodynamicTemperature::new::<kelvin>(self.supply_t_k), w, self.fresh_air.pressure())?)
+        Ok(AirState::from_w(
+            ThermodynamicTemperature::new::<kelvin>(self.supply_t_k),
+            w,
+            self.fresh_air.pressure(),
+        )?)
     }
 
     /// Simulate the batch until every element reaches the target moisture.
@@ -133,7 +157,10 @@ impl BatchDryer {
         let first_supply = self.heated(self.fresh_air.humidity_ratio())?;
         let x_eq = self.product.equilibrium_db(&first_supply);
         if self.x_target_db <= x_eq {
-            return Err(DryerError::BelowEquilibrium { target_db: self.x_target_db, equilibrium_db: x_eq });
+            return Err(DryerError::BelowEquilibrium {
+                target_db: self.x_target_db,
+                equilibrium_db: x_eq,
+            });
         }
         Run::new(self, first_supply)?.run()
     }
@@ -166,7 +193,9 @@ struct Pass {
 impl<'a> Run<'a> {
     fn new(d: &'a BatchDryer, supply: AirState) -> Result<Run<'a>, DryerError> {
         let n = d.elements.len();
-        let h0 = d.product.enthalpy_j_per_kg(d.x_initial_db, d.t_product_initial_k);
+        let h0 = d
+            .product
+            .enthalpy_j_per_kg(d.x_initial_db, d.t_product_initial_k);
         Ok(Run {
             d,
             x: vec![d.x_initial_db; n],
@@ -190,19 +219,13 @@ impl<'a> Run<'a> {
         (h, w)
     }
 
-    /// Send the air along the path once, with the recirculation loop closed by fixed-point iteration.
+    /// Send the air along the path once, with the recirculation loop closed.
     fn pass(&self) -> Result<Pass, DryerError> {
-        let mut exhaust = self.exhaust;
-        for _ in 0..500 {
-            let p = self.pass_with(&exhaust)?;
-            let dw = (p.exhaust.humidity_ratio() - exhaust.humidity_ratio()).abs();
-            let dh = (p.exhaust.enthalpy().value - exhaust.enthalpy().value).abs();
-            if self.d.recirculated == 0.0 || (dw <= 1e-14 && dh <= 1e-9) {
-                return Ok(p);
-            }
-            exhaust = p.exhaust;
-        }
-        Err(DryerError::NotConverged { what: "recirculation loop", detail: "exhaust state did not settle in 500 passes".into() })
+        settle_recirculation(self.exhaust, self.d.recirculated, |guess| {
+            let p = self.pass_with(guess)?;
+            let exhaust = p.exhaust;
+            Ok((p, exhaust))
+        })
     }
 
     fn pass_with(&self, exhaust_guess: &AirState) -> Result<Pass, DryerError> {
@@ -219,15 +242,38 @@ impl<'a> Run<'a> {
         let mut air = supply;
         let mut elements = Vec::with_capacity(d.elements.len());
         for (i, el) in d.elements.iter().enumerate() {
-            let ex = exchange(&d.product, self.x[i], self.t_p[i], &air, d.dry_air_kg_per_s, el.area_m2, el.surface)?;
+            let ex = exchange(
+                &d.product,
+                self.x[i],
+                self.t_p[i],
+                &air,
+                d.dry_air_kg_per_s,
+                el.area_m2,
+                el.surface,
+            )?;
             let net = ex.heat_w - ex.water_kg_per_s * ex.vapour_j_per_kg;
-            elements.push((ex.water_kg_per_s, net, ex.latent_j_per_kg, ex.vapour_j_per_kg - ex.latent_j_per_kg));
+            elements.push((
+                ex.water_kg_per_s,
+                net,
+                ex.latent_j_per_kg,
+                ex.vapour_j_per_kg - ex.latent_j_per_kg,
+            ));
             air = ex.air_out;
         }
         let loss_w = d.loss_w_per_k * (air.t_kelvin() - d.ambient_t_k);
         let h_after = air.enthalpy().value - loss_w / d.dry_air_kg_per_s;
-        let exhaust = AirState::from_enthalpy_and_w(AvailableEnergy::new::<joule_per_kilogram>(h_after), air.humidity_ratio(), air.pressure())?;
-        Ok(Pass { supply, mixed_h, exhaust, loss_w, elements })
+        let exhaust = AirState::from_enthalpy_and_w(
+            AvailableEnergy::new::<joule_per_kilogram>(h_after),
+            air.humidity_ratio(),
+            air.pressure(),
+        )?;
+        Ok(Pass {
+            supply,
+            mixed_h,
+            exhaust,
+            loss_w,
+            elements,
+        })
     }
 
     /// Largest stable time step: a fifth of the fastest element time constant,
@@ -239,7 +285,9 @@ impl<'a> Run<'a> {
         for (i, el) in d.elements.iter().enumerate() {
             let (water, ..) = pass.elements[i];
             let p = pass.supply.p_pascal();
-            let dws = (surface_humidity_ratio(self.t_p[i] + 0.5, p) - surface_humidity_ratio(self.t_p[i] - 0.5, p)).max(0.0);
+            let dws = (surface_humidity_ratio(self.t_p[i] + 0.5, p)
+                - surface_humidity_ratio(self.t_p[i] - 0.5, p))
+            .max(0.0);
             let cs = pass.supply.humid_heat().value;
             let conductance = el.surface.h_w_per_m2_k * el.area_m2 * (1.0 + 2.5e6 * dws / cs);
             let capacity = el.dry_solid_kg * (d.product.cp_solid_j_per_kg_k + 4186.0 * self.x[i]);
@@ -256,8 +304,18 @@ impl<'a> Run<'a> {
         let mut t = 0.0;
         let mut next_sample = 0.0;
         let sample_every = d.max_time_s / 2000.0;
-        let start_h: f64 = self.h_p.iter().zip(&d.elements).map(|(h, e)| h * e.dry_solid_kg).sum();
-        let start_water: f64 = self.x.iter().zip(&d.elements).map(|(x, e)| x * e.dry_solid_kg).sum();
+        let start_h: f64 = self
+            .h_p
+            .iter()
+            .zip(&d.elements)
+            .map(|(h, e)| h * e.dry_solid_kg)
+            .sum();
+        let start_water: f64 = self
+            .x
+            .iter()
+            .zip(&d.elements)
+            .map(|(x, e)| x * e.dry_solid_kg)
+            .sum();
         let latent_minimum = latent_minimum(&self.heated_supply()?)?;
         loop {
             let pass = self.pass()?;
@@ -275,8 +333,18 @@ impl<'a> Run<'a> {
             self.advance(&pass, t, dt)?;
             t += dt;
         }
-        let end_h: f64 = self.h_p.iter().zip(&d.elements).map(|(h, e)| h * e.dry_solid_kg).sum();
-        let end_water: f64 = self.x.iter().zip(&d.elements).map(|(x, e)| x * e.dry_solid_kg).sum();
+        let end_h: f64 = self
+            .h_p
+            .iter()
+            .zip(&d.elements)
+            .map(|(h, e)| h * e.dry_solid_kg)
+            .sum();
+        let end_water: f64 = self
+            .x
+            .iter()
+            .zip(&d.elements)
+            .map(|(x, e)| x * e.dry_solid_kg)
+            .sum();
         let (mut flows, closure) = self.ledger.close(end_h - start_h, start_water - end_water);
         flows.fan = self.fan_work(t);
         self.check_temperatures();
@@ -320,7 +388,10 @@ impl<'a> Run<'a> {
         let purge = m * (1.0 - d.recirculated) * dt;
         let fresh = (d.fresh_air.enthalpy().value, d.fresh_air.humidity_ratio());
         let ex = (pass.exhaust.enthalpy().value, pass.exhaust.humidity_ratio());
-        let ex_at_fresh_w = AirState::from_w(pass.exhaust.temperature(), fresh.1, pass.exhaust.pressure())?.enthalpy().value;
+        let ex_at_fresh_w =
+            AirState::from_w(pass.exhaust.temperature(), fresh.1, pass.exhaust.pressure())?
+                .enthalpy()
+                .value;
         self.ledger.book_exhaust(purge, fresh, ex, ex_at_fresh_w);
         self.ledger.flows.heater += m * (pass.supply.enthalpy().value - pass.mixed_h) * dt;
         self.ledger.flows.losses += pass.loss_w * dt;
@@ -352,7 +423,11 @@ impl<'a> Run<'a> {
 
     fn fan_work(&self, t: f64) -> f64 {
         let fan = self.d.fan;
-        let v = self.d.dry_air_kg_per_s * self.heated_supply().map(|s| s.humid_volume().value).unwrap_or(0.0);
+        let v = self.d.dry_air_kg_per_s
+            * self
+                .heated_supply()
+                .map(|s| s.humid_volume().value)
+                .unwrap_or(0.0);
         fan.pressure_rise_pa * v / fan.efficiency * t
     }
 
@@ -366,7 +441,11 @@ impl<'a> Run<'a> {
                 ));
             }
         }
-        let near = self.history.iter().map(|s| s.exhaust.relative_humidity()).fold(0.0, f64::max);
+        let near = self
+            .history
+            .iter()
+            .map(|s| s.exhaust.relative_humidity())
+            .fold(0.0, f64::max);
         if near > 0.9 {
             self.warnings.push(format!(
                 "the exhaust reaches {:.0} % relative humidity: it will condense in cooler ducts (common practice: keep exhaust well above its dew point)",

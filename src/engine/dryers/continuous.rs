@@ -17,7 +17,7 @@ use uom::si::thermodynamic_temperature::kelvin;
 use super::balance::{Closure, EnergyFlows, Ledger};
 use super::batch::{latent_minimum, Fan};
 use super::product::{exchange, Exchange, Product, Surface};
-use super::{non_negative, positive, DryerError};
+use super::{non_negative, positive, settle_recirculation, DryerError};
 use crate::engine::air::AirState;
 use crate::engine::solve::{brent, Tolerance};
 
@@ -123,7 +123,11 @@ struct ZoneRun {
 impl Belt {
     fn validate(&self) -> Result<(), DryerError> {
         if self.zones.is_empty() {
-            return Err(DryerError::Invalid { name: "zones", value: 0.0, expected: "at least one zone" });
+            return Err(DryerError::Invalid {
+                name: "zones",
+                value: 0.0,
+                expected: "at least one zone",
+            });
         }
         self.product.validate()?;
         positive("throughput", self.dry_solid_kg_per_s)?;
@@ -133,22 +137,38 @@ impl Belt {
         positive("inlet moisture", self.x_in_db)?;
         non_negative("target moisture", self.x_target_db)?;
         if self.x_target_db >= self.x_in_db {
-            return Err(DryerError::Invalid { name: "target moisture", value: self.x_target_db, expected: "below the inlet moisture" });
+            return Err(DryerError::Invalid {
+                name: "target moisture",
+                value: self.x_target_db,
+                expected: "below the inlet moisture",
+            });
         }
         for (i, z) in self.zones.iter().enumerate() {
             if let Some(l) = z.length_m {
                 positive("zone length", l)?;
             } else if i + 1 != self.zones.len() {
-                return Err(DryerError::Invalid { name: "zone length", value: f64::NAN, expected: "a length on every zone but the last" });
+                return Err(DryerError::Invalid {
+                    name: "zone length",
+                    value: f64::NAN,
+                    expected: "a length on every zone but the last",
+                });
             }
             positive("zone air flow", z.dry_air_kg_per_s)?;
             if !(0.0..=0.95).contains(&z.recirculated) {
-                return Err(DryerError::Invalid { name: "recirculated fraction", value: z.recirculated, expected: "0 to 0.95 of the zone exhaust" });
+                return Err(DryerError::Invalid {
+                    name: "recirculated fraction",
+                    value: z.recirculated,
+                    expected: "0 to 0.95 of the zone exhaust",
+                });
             }
             positive("heat transfer coefficient", z.surface.h_w_per_m2_k)?;
             non_negative("wall loss", z.loss_w_per_m_k)?;
             if z.supply_t_k < z.fresh_air.t_kelvin() {
-                return Err(DryerError::Invalid { name: "supply temperature", value: z.supply_t_k, expected: "at or above the zone's fresh air" });
+                return Err(DryerError::Invalid {
+                    name: "supply temperature",
+                    value: z.supply_t_k,
+                    expected: "at or above the zone's fresh air",
+                });
             }
         }
         Ok(())
@@ -190,9 +210,12 @@ impl Belt {
         let supply = heated(zone, zone.fresh_air.humidity_ratio())?;
         let x_eq = self.product.equilibrium_db(&supply);
         if self.x_target_db <= x_eq {
-            return Err(DryerError::BelowEquilibrium { target_db: self.x_target_db, equilibrium_db: x_eq });
+            return Err(DryerError::BelowEquilibrium {
+                target_db: self.x_target_db,
+                equilibrium_db: x_eq,
+            });
         }
-        let mut miss = |l: f64| -> Result<f64, DryerError> {
+        let miss = |l: f64| -> Result<f64, DryerError> {
             let run = self.run_zone(zone, inlet, l)?;
             Ok(run.product.last().map_or(inlet.0, |p| p.0) - self.x_target_db)
         };
@@ -221,12 +244,16 @@ impl Belt {
         if let Some(e) = err {
             return Err(e);
         }
-        root.map_err(|e| DryerError::NotConverged { what: "belt length for the target moisture", detail: e.to_string() })
+        root.map_err(|e| DryerError::NotConverged {
+            what: "belt length for the target moisture",
+            detail: e.to_string(),
+        })
     }
 
     fn segments(&self, zone: &Zone, length: f64) -> usize {
         let speed = self.belt_speed();
-        let capacity = self.load_kg_per_m2 * (self.product.cp_solid_j_per_kg_k + 4186.0 * self.x_in_db);
+        let capacity =
+            self.load_kg_per_m2 * (self.product.cp_solid_j_per_kg_k + 4186.0 * self.x_in_db);
         let tau_s = capacity / (zone.surface.h_w_per_m2_k * self.area_per_belt_area * 4.0);
         let dz_max = 0.2 * tau_s * speed;
         ((length / dz_max).ceil() as usize).clamp(MIN_SEGMENTS, 20_000)
@@ -235,28 +262,29 @@ impl Belt {
     /// Run one zone of length `length` from product state `inlet`, with its recirculation loop closed.
     fn run_zone(&self, zone: &Zone, inlet: (f64, f64), length: f64) -> Result<ZoneRun, DryerError> {
         let n = self.segments(zone, length);
-        let mut exhaust = heated(zone, zone.fresh_air.humidity_ratio())?;
+        let start = heated(zone, zone.fresh_air.humidity_ratio())?;
         let mut air_guess: Option<Vec<AirState>> = None;
-        for _ in 0..500 {
-            let (mixed_h, mixed_w) = mix(zone, &exhaust);
+        settle_recirculation(start, zone.recirculated, |exhaust| {
+            let (mixed_h, mixed_w) = mix(zone, exhaust);
             let supply = heated(zone, mixed_w)?;
             if supply.enthalpy().value < mixed_h - 1e-9 {
-                return Err(DryerError::Invalid { name: "supply temperature", value: zone.supply_t_k, expected: "above the mixed intake air" });
+                return Err(DryerError::Invalid {
+                    name: "supply temperature",
+                    value: zone.supply_t_k,
+                    expected: "above the mixed intake air",
+                });
             }
             let mut run = match zone.flow {
                 Flow::Cocurrent => self.march_cocurrent(zone, inlet, length, n, supply)?,
-                Flow::Countercurrent => self.sweep_countercurrent(zone, inlet, length, n, supply, air_guess.take())?,
+                Flow::Countercurrent => {
+                    self.sweep_countercurrent(zone, inlet, length, n, supply, air_guess.take())?
+                }
             };
             run.mixed_h = mixed_h;
-            let settled = (run.exhaust.humidity_ratio() - exhaust.humidity_ratio()).abs() <= 1e-14
-                && (run.exhaust.enthalpy().value - exhaust.enthalpy().value).abs() <= 1e-9;
-            if zone.recirculated == 0.0 || settled {
-                return Ok(run);
-            }
-            exhaust = run.exhaust;
-            air_guess = Some(run.air);
-        }
-        Err(DryerError::NotConverged { what: "zone recirculation loop", detail: "exhaust state did not settle in 500 passes".into() })
+            air_guess = Some(run.air.clone());
+            let exhaust = run.exhaust;
+            Ok((run, exhaust))
+        })
     }
 
     fn area_per_segment(&self, length: f64, n: usize) -> f64 {
@@ -264,7 +292,11 @@ impl Belt {
     }
 
     /// Product state after a segment with exchange `ex`.
-    fn step_product(&self, p: (f64, f64, f64), ex: &Exchange) -> Result<(f64, f64, f64), DryerError> {
+    fn step_product(
+        &self,
+        p: (f64, f64, f64),
+        ex: &Exchange,
+    ) -> Result<(f64, f64, f64), DryerError> {
         let ms = self.dry_solid_kg_per_s;
         let x = p.0 - ex.water_kg_per_s / ms;
         let h = p.2 + (ex.heat_w - ex.water_kg_per_s * ex.vapour_j_per_kg) / ms;
@@ -272,7 +304,14 @@ impl Belt {
         Ok((x, t, h))
     }
 
-    fn march_cocurrent(&self, zone: &Zone, inlet: (f64, f64), length: f64, n: usize, supply: AirState) -> Result<ZoneRun, DryerError> {
+    fn march_cocurrent(
+        &self,
+        zone: &Zone,
+        inlet: (f64, f64),
+        length: f64,
+        n: usize,
+        supply: AirState,
+    ) -> Result<ZoneRun, DryerError> {
         let area = self.area_per_segment(length, n);
         let h0 = self.product.enthalpy_j_per_kg(inlet.0, inlet.1);
         let mut product = vec![(inlet.0, inlet.1, h0)];
@@ -280,14 +319,30 @@ impl Belt {
         let mut exchanges = Vec::with_capacity(n);
         for j in 0..n {
             let p = product[j];
-            let ex = exchange(&self.product, p.0, p.1, &air[j], zone.dry_air_kg_per_s, area, zone.surface)?;
+            let ex = exchange(
+                &self.product,
+                p.0,
+                p.1,
+                &air[j],
+                zone.dry_air_kg_per_s,
+                area,
+                zone.surface,
+            )?;
             product.push(self.step_product(p, &ex)?);
             air.push(ex.air_out);
             exchanges.push(ex);
         }
         let end = air[n];
         let (exhaust, loss_w) = self.after_loss(zone, &end, length)?;
-        Ok(ZoneRun { supply, mixed_h: 0.0, exhaust, product, air, exchanges, loss_w })
+        Ok(ZoneRun {
+            supply,
+            mixed_h: 0.0,
+            exhaust,
+            product,
+            air,
+            exchanges,
+            loss_w,
+        })
     }
 
     fn sweep_countercurrent(
@@ -310,24 +365,43 @@ impl Belt {
             // Product forward with the air entering each segment from its far end.
             let mut product = vec![(inlet.0, inlet.1, h0)];
             for j in 0..n {
-                let ex = exchange(&self.product, product[j].0, product[j].1, &air[j + 1], zone.dry_air_kg_per_s, area, zone.surface)?;
+                let ex = exchange(
+                    &self.product,
+                    product[j].0,
+                    product[j].1,
+                    &air[j + 1],
+                    zone.dry_air_kg_per_s,
+                    area,
+                    zone.surface,
+                )?;
                 product.push(self.step_product(product[j], &ex)?);
             }
             // Air backward with that product profile.
             let mut new_air = air.clone();
             let mut exchanges = vec![None; n];
             for j in (0..n).rev() {
-                let ex = exchange(&self.product, product[j].0, product[j].1, &new_air[j + 1], zone.dry_air_kg_per_s, area, zone.surface)?;
+                let ex = exchange(
+                    &self.product,
+                    product[j].0,
+                    product[j].1,
+                    &new_air[j + 1],
+                    zone.dry_air_kg_per_s,
+                    area,
+                    zone.surface,
+                )?;
                 new_air[j] = ex.air_out;
                 exchanges[j] = Some(ex);
             }
             let change = air
                 .iter()
                 .zip(&new_air)
-                .map(|(a, b)| (a.humidity_ratio() - b.humidity_ratio()).abs() * 1e5 + (a.enthalpy().value - b.enthalpy().value).abs())
+                .map(|(a, b)| {
+                    (a.humidity_ratio() - b.humidity_ratio()).abs() * 1e5
+                        + (a.enthalpy().value - b.enthalpy().value).abs()
+                })
                 .fold(0.0, f64::max);
             air = new_air;
-            if change <= 1e-9 {
+            if change <= 1e-6 {
                 let exchanges: Vec<Exchange> = exchanges.into_iter().flatten().collect();
                 // Rebuild the product with the final exchanges so both sides agree exactly.
                 let mut product = vec![(inlet.0, inlet.1, h0)];
@@ -336,17 +410,40 @@ impl Belt {
                     product.push(self.step_product(last, ex)?);
                 }
                 let (exhaust, loss_w) = self.after_loss(zone, &air[0], length)?;
-                return Ok(ZoneRun { supply, mixed_h: 0.0, exhaust, product, air, exchanges, loss_w });
+                return Ok(ZoneRun {
+                    supply,
+                    mixed_h: 0.0,
+                    exhaust,
+                    product,
+                    air,
+                    exchanges,
+                    loss_w,
+                });
             }
         }
-        Err(DryerError::NotConverged { what: "countercurrent zone", detail: "air profile did not settle in 5000 sweeps".into() })
+        Err(DryerError::NotConverged {
+            what: "countercurrent zone",
+            detail: "air profile did not settle in 5000 sweeps".into(),
+        })
     }
 
     /// Air leaving a zone after its wall loss, and the loss, W.
-    fn after_loss(&self, zone: &Zone, air: &AirState, length: f64) -> Result<(AirState, f64), DryerError> {
+    fn after_loss(
+        &self,
+        zone: &Zone,
+        air: &AirState,
+        length: f64,
+    ) -> Result<(AirState, f64), DryerError> {
         let loss = zone.loss_w_per_m_k * length * (air.t_kelvin() - self.ambient_t_k);
         let h = air.enthalpy().value - loss / zone.dry_air_kg_per_s;
-        let out = AirState::from_enthalpy_and_w(AvailableEnergy::new::<joule_per_kilogram>(h), air.humidity_ratio(), air.pressure())?;
+        let out = AirState::from_enthalpy_and_w(AvailableEnergy::new::<joule_per_kilogram>(h), air.humidity_ratio(), air.pressure())
+            .map_err(|_| DryerError::AirSaturates {
+                what: format!(
+                    "the exhaust of a {length:.1} m zone would cool below its dew point ({:.1} degC air losing {:.1} kW through the walls): use more or hotter air, less recirculation or better insulation",
+                    air.t_kelvin() - 273.15,
+                    loss / 1000.0
+                ),
+            })?;
         Ok((out, loss))
     }
 
@@ -362,25 +459,40 @@ impl Belt {
             let zone = &self.zones[i];
             let m = zone.dry_air_kg_per_s;
             let heater_w = m * (run.supply.enthalpy().value - run.mixed_h);
-            let fan_w = zone.fan.pressure_rise_pa * m * run.supply.humid_volume().value / zone.fan.efficiency;
+            let fan_w = zone.fan.pressure_rise_pa * m * run.supply.humid_volume().value
+                / zone.fan.efficiency;
             ledger.flows.heater += heater_w;
             ledger.flows.fan += fan_w;
             ledger.flows.losses += run.loss_w;
             let purge = m * (1.0 - zone.recirculated);
-            let fresh = (zone.fresh_air.enthalpy().value, zone.fresh_air.humidity_ratio());
+            let fresh = (
+                zone.fresh_air.enthalpy().value,
+                zone.fresh_air.humidity_ratio(),
+            );
             let ex = (run.exhaust.enthalpy().value, run.exhaust.humidity_ratio());
-            let at_fresh_w = AirState::from_w(run.exhaust.temperature(), fresh.1, run.exhaust.pressure())
-                .map(|s| s.enthalpy().value)
-                .unwrap_or(fresh.0);
+            let at_fresh_w =
+                AirState::from_w(run.exhaust.temperature(), fresh.1, run.exhaust.pressure())
+                    .map(|s| s.enthalpy().value)
+                    .unwrap_or(fresh.0);
             ledger.book_exhaust(purge, fresh, ex, at_fresh_w);
             for e in &run.exchanges {
-                ledger.book_evaporation(e.water_kg_per_s, e.latent_j_per_kg, e.vapour_j_per_kg - e.latent_j_per_kg);
+                ledger.book_evaporation(
+                    e.water_kg_per_s,
+                    e.latent_j_per_kg,
+                    e.vapour_j_per_kg - e.latent_j_per_kg,
+                );
             }
             let n = run.exchanges.len();
             for (j, p) in run.product.iter().enumerate() {
                 t_max = t_max.max(p.1);
                 if j % (n / 50).max(1) == 0 || j == n {
-                    profile.push(ProfilePoint { z_m: z0 + len * j as f64 / n as f64, zone: i, x_db: p.0, t_product_k: p.1, air: run.air[j] });
+                    profile.push(ProfilePoint {
+                        z_m: z0 + len * j as f64 / n as f64,
+                        zone: i,
+                        x_db: p.0,
+                        t_product_k: p.1,
+                        air: run.air[j],
+                    });
                 }
             }
             if run.exhaust.relative_humidity() > 0.9 {
@@ -390,10 +502,20 @@ impl Belt {
                     run.exhaust.relative_humidity() * 100.0
                 ));
             }
-            zones.push(ZoneResult { length_m: len, residence_s: len / speed, supply: run.supply, exhaust: run.exhaust, heater_w, fan_w });
+            zones.push(ZoneResult {
+                length_m: len,
+                residence_s: len / speed,
+                supply: run.supply,
+                exhaust: run.exhaust,
+                heater_w,
+                fan_w,
+            });
             z0 += len;
         }
-        let (x_out, t_out, h_out) = runs.last().and_then(|r| r.product.last().copied()).unwrap_or((self.x_in_db, self.t_in_k, 0.0));
+        let (x_out, t_out, h_out) = runs
+            .last()
+            .and_then(|r| r.product.last().copied())
+            .unwrap_or((self.x_in_db, self.t_in_k, 0.0));
         let ms = self.dry_solid_kg_per_s;
         let h_in = self.product.enthalpy_j_per_kg(self.x_in_db, self.t_in_k);
         let (flows, closure) = ledger.close(ms * (h_out - h_in), ms * (self.x_in_db - x_out));
@@ -408,7 +530,13 @@ impl Belt {
         }
         let latent = match runs.first() {
             Some(r) => latent_minimum(&r.supply)?,
-            None => return Err(DryerError::Invalid { name: "zones", value: 0.0, expected: "at least one zone" }),
+            None => {
+                return Err(DryerError::Invalid {
+                    name: "zones",
+                    value: 0.0,
+                    expected: "at least one zone",
+                })
+            }
         };
         Ok(BeltResult {
             periods_m: self.periods(&profile),
@@ -434,15 +562,26 @@ impl Belt {
         let falling_start = profile.iter().find(|p| p.x_db < xc).map_or(end, |p| p.z_m);
         let preheat_end = profile
             .windows(2)
-            .find(|w| (w[1].t_product_k - w[0].t_product_k).abs() < 0.05 * (w[1].z_m - w[0].z_m).max(1e-12) * 10.0)
+            .find(|w| {
+                (w[1].t_product_k - w[0].t_product_k).abs()
+                    < 0.05 * (w[1].z_m - w[0].z_m).max(1e-12) * 10.0
+            })
             .map_or(0.0, |w| w[0].z_m)
             .min(falling_start);
-        [preheat_end, falling_start - preheat_end, end - falling_start]
+        [
+            preheat_end,
+            falling_start - preheat_end,
+            end - falling_start,
+        ]
     }
 }
 
 fn heated(zone: &Zone, w: f64) -> Result<AirState, DryerError> {
-    Ok(AirState::from_w(ThermodynamicTemperature::new::<kelvin>(zone.supply_t_k), w, zone.fresh_air.pressure())?)
+    Ok(AirState::from_w(
+        ThermodynamicTemperature::new::<kelvin>(zone.supply_t_k),
+        w,
+        zone.fresh_air.pressure(),
+    )?)
 }
 
 fn mix(zone: &Zone, exhaust: &AirState) -> (f64, f64) {

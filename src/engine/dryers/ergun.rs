@@ -25,7 +25,11 @@ pub fn pressure_drop(
     let l = positive("bed depth", depth.value)?;
     let d = positive("particle diameter", particle_diameter.value)?;
     if !(voidage > 0.0 && voidage < 1.0) {
-        return Err(DryerError::Invalid { name: "voidage", value: voidage, expected: "a fraction between 0 and 1" });
+        return Err(DryerError::Invalid {
+            name: "voidage",
+            value: voidage,
+            expected: "a fraction between 0 and 1",
+        });
     }
     let e3 = voidage.powi(3);
     let viscous = 150.0 * viscosity.value * u * (1.0 - voidage).powi(2) / (e3 * d * d);
@@ -73,6 +77,12 @@ mod tests {
             MassDensity::new::<kilogram_per_cubic_meter>(1.0),
             DynamicViscosity::new::<pascal_second>(2e-5),
         );
-        assert!(matches!(r, Err(DryerError::Invalid { name: "voidage", .. })));
+        assert!(matches!(
+            r,
+            Err(DryerError::Invalid {
+                name: "voidage",
+                ..
+            })
+        ));
     }
 }

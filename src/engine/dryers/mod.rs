@@ -31,7 +31,10 @@ pub mod rotary;
 
 use std::fmt;
 
-use crate::engine::air::AirError;
+use uom::si::available_energy::joule_per_kilogram;
+use uom::si::f64::AvailableEnergy;
+
+use crate::engine::air::{AirError, AirState};
 
 pub use balance::{Closure, EnergyFlows};
 
@@ -48,7 +51,11 @@ pub const CAUTIONS: &[&str] = &[
 #[derive(Clone, Debug, PartialEq)]
 pub enum DryerError {
     /// An input is outside its physical range.
-    Invalid { name: &'static str, value: f64, expected: &'static str },
+    Invalid {
+        name: &'static str,
+        value: f64,
+        expected: &'static str,
+    },
     /// The target moisture is at or below what the air can reach.
     BelowEquilibrium { target_db: f64, equilibrium_db: f64 },
     /// The air cannot carry the water: it saturates before the product is dry.
@@ -82,12 +89,69 @@ impl fmt::Display for DryerError {
 
 impl std::error::Error for DryerError {}
 
+/// Close a recirculation loop: find the exhaust state that, recirculated, gives
+/// itself back. `run` maps an assumed exhaust to (result, actual exhaust). Fixed-point
+/// iteration with Aitken's delta-squared acceleration on humidity ratio and enthalpy.
+pub(crate) fn settle_recirculation<T>(
+    start: AirState,
+    recirculated: f64,
+    mut run: impl FnMut(&AirState) -> Result<(T, AirState), DryerError>,
+) -> Result<T, DryerError> {
+    let settled = |a: &AirState, b: &AirState| {
+        (a.humidity_ratio() - b.humidity_ratio()).abs() <= 1e-13
+            && (a.enthalpy().value - b.enthalpy().value).abs() <= 1e-6
+    };
+    let mut x0 = start;
+    for _ in 0..200 {
+        let (r1, x1) = run(&x0)?;
+        if recirculated == 0.0 || settled(&x0, &x1) {
+            return Ok(r1);
+        }
+        let (r2, x2) = run(&x1)?;
+        if settled(&x1, &x2) {
+            return Ok(r2);
+        }
+        let aitken = |a: f64, b: f64, c: f64| {
+            let d = c - 2.0 * b + a;
+            if d.abs() > 1e-300 {
+                a - (b - a).powi(2) / d
+            } else {
+                c
+            }
+        };
+        let w = aitken(
+            x0.humidity_ratio(),
+            x1.humidity_ratio(),
+            x2.humidity_ratio(),
+        );
+        let h = aitken(
+            x0.enthalpy().value,
+            x1.enthalpy().value,
+            x2.enthalpy().value,
+        );
+        x0 = AirState::from_enthalpy_and_w(
+            AvailableEnergy::new::<joule_per_kilogram>(h),
+            w,
+            x2.pressure(),
+        )
+        .unwrap_or(x2);
+    }
+    Err(DryerError::NotConverged {
+        what: "recirculation loop",
+        detail: "the exhaust state did not settle in 400 passes".into(),
+    })
+}
+
 /// Check that `value` is finite and positive.
 pub(crate) fn positive(name: &'static str, value: f64) -> Result<f64, DryerError> {
     if value.is_finite() && value > 0.0 {
         Ok(value)
     } else {
-        Err(DryerError::Invalid { name, value, expected: "a positive value" })
+        Err(DryerError::Invalid {
+            name,
+            value,
+            expected: "a positive value",
+        })
     }
 }
 
@@ -96,7 +160,11 @@ pub(crate) fn non_negative(name: &'static str, value: f64) -> Result<f64, DryerE
     if value.is_finite() && value >= 0.0 {
         Ok(value)
     } else {
-        Err(DryerError::Invalid { name, value, expected: "zero or a positive value" })
+        Err(DryerError::Invalid {
+            name,
+            value,
+            expected: "zero or a positive value",
+        })
     }
 }
 #[cfg(test)]

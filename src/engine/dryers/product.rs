@@ -102,18 +102,27 @@ impl Product {
     }
 
     /// Product temperature with enthalpy `h` (J/kg dry solid) at moisture `x`, by Newton's method.
-    pub fn temperature_k(&self, x_db: f64, h_j_per_kg: f64, guess_k: f64) -> Result<f64, DryerError> {
+    pub fn temperature_k(
+        &self,
+        x_db: f64,
+        h_j_per_kg: f64,
+        guess_k: f64,
+    ) -> Result<f64, DryerError> {
         let mut t = guess_k;
         for _ in 0..50 {
             let f = self.enthalpy_j_per_kg(x_db, t) - h_j_per_kg;
-            let slope = self.cp_solid_j_per_kg_k + x_db * (liquid_enthalpy(t + 0.5) - liquid_enthalpy(t - 0.5));
+            let slope = self.cp_solid_j_per_kg_k
+                + x_db * (liquid_enthalpy(t + 0.5) - liquid_enthalpy(t - 0.5));
             let step = f / slope;
             t -= step;
             if step.abs() < 1e-10 {
                 return Ok(t);
             }
         }
-        Err(DryerError::NotConverged { what: "product temperature from enthalpy", detail: format!("h = {h_j_per_kg} J/kg") })
+        Err(DryerError::NotConverged {
+            what: "product temperature from enthalpy",
+            detail: format!("h = {h_j_per_kg} J/kg"),
+        })
     }
 }
 
@@ -166,8 +175,10 @@ pub fn wet_surface_k(air: &AirState, lewis: f64) -> Result<f64, DryerError> {
     if residual(t) >= 0.0 {
         return Ok(t);
     }
-    brent(residual, lo, t, Tolerance::new(1e-10, 1e-12))
-        .map_err(|e| DryerError::NotConverged { what: "wet-surface temperature", detail: e.to_string() })
+    brent(residual, lo, t, Tolerance::new(1e-10, 1e-12)).map_err(|e| DryerError::NotConverged {
+        what: "wet-surface temperature",
+        detail: e.to_string(),
+    })
 }
 
 /// Exchange between a product (moisture `x_db`, temperature `t_k`) with area `area_m2`
@@ -204,9 +215,19 @@ pub fn exchange(
     let hv = vapour_enthalpy(t_k, 0.0);
     let w_out = air_in.humidity_ratio() + water / m;
     let h_out = air_in.enthalpy().value + (water * hv - heat_w) / m;
-    let air_out = AirState::from_enthalpy_and_w(AvailableEnergy::new::<joule_per_kilogram>(h_out), w_out, air_in.pressure())
-        .map_err(|e| saturation_error(e, air_in))?;
-    Ok(Exchange { heat_w, water_kg_per_s: water, vapour_j_per_kg: hv, latent_j_per_kg: hv - liquid_enthalpy(t_k), air_out })
+    let air_out = AirState::from_enthalpy_and_w(
+        AvailableEnergy::new::<joule_per_kilogram>(h_out),
+        w_out,
+        air_in.pressure(),
+    )
+    .map_err(|e| saturation_error(e, air_in))?;
+    Ok(Exchange {
+        heat_w,
+        water_kg_per_s: water,
+        vapour_j_per_kg: hv,
+        latent_j_per_kg: hv - liquid_enthalpy(t_k),
+        air_out,
+    })
 }
 
 fn saturation_error(e: AirError, air_in: &AirState) -> DryerError {

@@ -87,17 +87,33 @@ pub fn volumetric_coefficient(g: MassFlux, d: Length) -> f64 {
         let btu = uom::si::f64::Energy::new::<uom::si::energy::btu_it>(1.0).value;
         let hour = Time::new::<uom::si::time::hour>(1.0).value;
         let ft3 = uom::si::f64::Volume::new::<uom::si::volume::cubic_foot>(1.0).value;
-        let degf = uom::si::f64::TemperatureInterval::new::<uom::si::temperature_interval::degree_fahrenheit>(1.0).value;
+        let degf = uom::si::f64::TemperatureInterval::new::<
+            uom::si::temperature_interval::degree_fahrenheit,
+        >(1.0)
+        .value;
         btu / (hour * ft3 * degf)
     };
     0.5 * lb_per_h_ft2(g).powf(0.67) / ft(d) * btu_per_h_ft3_f
 }
 
 /// Friedman-Marshall retention time.
-pub fn retention_time(length: Length, slope: f64, rpm: f64, d: Length, dp: Length, gas: MassFlux, solids: MassFlux, flow: Flow) -> Time {
+pub fn retention_time(
+    length: Length,
+    slope: f64,
+    rpm: f64,
+    d: Length,
+    dp: Length,
+    gas: MassFlux,
+    solids: MassFlux,
+    flow: Flow,
+) -> Time {
     let b = 5.0 * dp.get::<micrometer>().powf(-0.5);
     let gas_term = 0.6 * b * ft(length) * lb_per_h_ft2(gas) / lb_per_h_ft2(solids);
-    let sign = if flow == Flow::Countercurrent { 1.0 } else { -1.0 };
+    let sign = if flow == Flow::Countercurrent {
+        1.0
+    } else {
+        -1.0
+    };
     let minutes = 0.23 * ft(length) / (slope * rpm.powf(0.9) * ft(d)) + sign * gas_term;
     Time::new::<minute>(minutes)
 }
@@ -112,13 +128,25 @@ impl Rotary {
         positive("particle diameter", self.particle_diameter_m)?;
         non_negative("outlet moisture", self.x_out_db)?;
         if self.x_out_db >= self.x_in_db {
-            return Err(DryerError::Invalid { name: "outlet moisture", value: self.x_out_db, expected: "below the inlet moisture" });
+            return Err(DryerError::Invalid {
+                name: "outlet moisture",
+                value: self.x_out_db,
+                expected: "below the inlet moisture",
+            });
         }
         if !(0.0..0.5).contains(&self.loss_fraction) {
-            return Err(DryerError::Invalid { name: "loss fraction", value: self.loss_fraction, expected: "0 to 0.5" });
+            return Err(DryerError::Invalid {
+                name: "loss fraction",
+                value: self.loss_fraction,
+                expected: "0 to 0.5",
+            });
         }
         if self.t_gas_out_k >= self.gas_in.t_kelvin() {
-            return Err(DryerError::Invalid { name: "gas outlet temperature", value: self.t_gas_out_k, expected: "below the gas inlet temperature" });
+            return Err(DryerError::Invalid {
+                name: "gas outlet temperature",
+                value: self.t_gas_out_k,
+                expected: "below the gas inlet temperature",
+            });
         }
         Ok(())
     }
@@ -135,12 +163,22 @@ impl Rotary {
         let to_product = self.dry_solid_kg_per_s * (h_out - h_in) + water * hv_out;
         let gas_out_for = |m: f64| -> Result<AirState, DryerError> {
             let w = self.gas_in.humidity_ratio() + water / m;
-            Ok(AirState::from_w(uom::si::f64::ThermodynamicTemperature::new::<uom::si::thermodynamic_temperature::kelvin>(self.t_gas_out_k), w, self.gas_in.pressure())?)
+            Ok(AirState::from_w(
+                uom::si::f64::ThermodynamicTemperature::new::<
+                    uom::si::thermodynamic_temperature::kelvin,
+                >(self.t_gas_out_k),
+                w,
+                self.gas_in.pressure(),
+            )?)
         };
         // Gas flow: m (h_in - h_out(m)) (1 - loss) = to_product, with h_out counting the vapour at gas temperature.
         let gas_release = |m: f64| -> f64 {
             match gas_out_for(m) {
-                Ok(out) => m * (self.gas_in.enthalpy().value - (out.enthalpy().value - (out.humidity_ratio() - self.gas_in.humidity_ratio()) * hv_out)),
+                Ok(out) => {
+                    m * (self.gas_in.enthalpy().value
+                        - (out.enthalpy().value
+                            - (out.humidity_ratio() - self.gas_in.humidity_ratio()) * hv_out))
+                }
                 Err(_) => f64::NAN,
             }
         };
@@ -151,12 +189,19 @@ impl Rotary {
         self.geometry(m, gas_out, to_product, loss_w, water)
     }
 
-    fn solve_gas_flow(&self, release: &dyn Fn(f64) -> f64, target: f64, water: f64) -> Result<f64, DryerError> {
+    fn solve_gas_flow(
+        &self,
+        release: &dyn Fn(f64) -> f64,
+        target: f64,
+        water: f64,
+    ) -> Result<f64, DryerError> {
         let mut lo = water / 0.5;
         while !(release(lo) - target).is_finite() {
             lo *= 1.5;
             if lo > 1e6 {
-                return Err(DryerError::AirSaturates { what: "no gas flow carries the water at that outlet temperature".into() });
+                return Err(DryerError::AirSaturates {
+                    what: "no gas flow carries the water at that outlet temperature".into(),
+                });
             }
         }
         let mut hi = lo * 2.0;
@@ -171,24 +216,57 @@ impl Rotary {
                 what: "the gas leaving would be above saturation at the outlet temperature: raise the outlet temperature".into(),
             });
         }
-        brent(|m| release(m) - target, lo, hi, Tolerance::new(1e-12, 1e-12))
-            .map_err(|e| DryerError::NotConverged { what: "rotary gas flow", detail: e.to_string() })
+        brent(
+            |m| release(m) - target,
+            lo,
+            hi,
+            Tolerance::new(1e-12, 1e-12),
+        )
+        .map_err(|e| DryerError::NotConverged {
+            what: "rotary gas flow",
+            detail: e.to_string(),
+        })
     }
 
-    fn geometry(&self, m: f64, gas_out: AirState, to_product: f64, loss_w: f64, water: f64) -> Result<RotaryResult, DryerError> {
+    fn geometry(
+        &self,
+        m: f64,
+        gas_out: AirState,
+        to_product: f64,
+        loss_w: f64,
+        water: f64,
+    ) -> Result<RotaryResult, DryerError> {
         let d = Length::new::<meter>(self.diameter_m);
         let section = std::f64::consts::PI * self.diameter_m.powi(2) / 4.0;
-        let g = MassFlux::new::<kilogram_per_square_meter_second>(m * (1.0 + self.gas_in.humidity_ratio()) / section);
-        let f_solids = MassFlux::new::<kilogram_per_square_meter_second>(self.dry_solid_kg_per_s * (1.0 + self.x_in_db) / section);
+        let g = MassFlux::new::<kilogram_per_square_meter_second>(
+            m * (1.0 + self.gas_in.humidity_ratio()) / section,
+        );
+        let f_solids = MassFlux::new::<kilogram_per_square_meter_second>(
+            self.dry_solid_kg_per_s * (1.0 + self.x_in_db) / section,
+        );
         let ua = volumetric_coefficient(g, d);
         let (a, b) = match self.flow {
-            Flow::Countercurrent => (self.gas_in.t_kelvin() - self.t_solid_out_k, self.t_gas_out_k - self.t_solid_in_k),
-            Flow::Cocurrent => (self.gas_in.t_kelvin() - self.t_solid_in_k, self.t_gas_out_k - self.t_solid_out_k),
+            Flow::Countercurrent => (
+                self.gas_in.t_kelvin() - self.t_solid_out_k,
+                self.t_gas_out_k - self.t_solid_in_k,
+            ),
+            Flow::Cocurrent => (
+                self.gas_in.t_kelvin() - self.t_solid_in_k,
+                self.t_gas_out_k - self.t_solid_out_k,
+            ),
         };
         if a <= 0.0 || b <= 0.0 {
-            return Err(DryerError::Invalid { name: "temperatures", value: a.min(b), expected: "gas hotter than the solids at both ends" });
+            return Err(DryerError::Invalid {
+                name: "temperatures",
+                value: a.min(b),
+                expected: "gas hotter than the solids at both ends",
+            });
         }
-        let lmtd = if (a - b).abs() < 1e-9 { a } else { (a - b) / (a / b).ln() };
+        let lmtd = if (a - b).abs() < 1e-9 {
+            a
+        } else {
+            (a - b) / (a / b).ln()
+        };
         let volume = to_product / (ua * lmtd);
         let length = volume / section;
         let theta = retention_time(
@@ -244,7 +322,10 @@ mod tests {
     #[test]
     fn ua_matches_si_form_from_memory() {
         for (g, d) in [(1.0, 1.0), (2.5, 1.5), (4.0, 2.0)] {
-            let ua = volumetric_coefficient(MassFlux::new::<kilogram_per_square_meter_second>(g), Length::new::<meter>(d));
+            let ua = volumetric_coefficient(
+                MassFlux::new::<kilogram_per_square_meter_second>(g),
+                Length::new::<meter>(d),
+            );
             let si = 237.0 * g.powf(0.67) / d;
             assert!((ua / si - 1.0).abs() < 0.01, "g {g} d {d}: {ua} vs {si}");
         }
