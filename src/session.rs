@@ -294,6 +294,12 @@ impl Session {
         units::lookup_unit(name).map(|u| format!("unit `{}`: {}", u.symbol, eval::dim_words(u.dim)))
     }
 
+    /// The evaluation limits (call depth, step budget), for front ends that
+    /// need other bounds.
+    pub fn limits_mut(&mut self) -> &mut Limits {
+        &mut self.limits
+    }
+
     /// A flag that stops a running evaluation when set (from another thread).
     pub fn interrupt_handle(&self) -> Arc<AtomicBool> {
         self.limits.interrupt.clone()
