@@ -205,6 +205,21 @@ impl Session {
         self.sheet.defs.get(name).map(|d| d.deps.as_slice())
     }
 
+    /// Every defined name (values, inputs, functions) in definition order.
+    pub fn names(&self) -> &[String] {
+        &self.sheet.order
+    }
+
+    /// The computed value of a name, if it has been computed.
+    pub fn value(&self, name: &str) -> Option<&Value> {
+        self.sheet.cache.get(name)
+    }
+
+    /// Is this name an input (overridable with `--set` or by `load`)?
+    pub fn is_input(&self, name: &str) -> bool {
+        self.sheet.defs.get(name).is_some_and(|d| d.kind == DefKind::Input)
+    }
+
     /// The source map (for front ends that render spans themselves).
     pub fn sources(&self) -> &Sources {
         &self.sources
