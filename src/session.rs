@@ -131,10 +131,11 @@ impl Session {
             ctx.load_stack.push(p);
         }
         let items = eval::run_statements(&mut ctx, &stmts);
-        let (errors, warnings) = (
+        let (mut errors, warnings) = (
             std::mem::take(&mut ctx.errors),
             std::mem::take(&mut ctx.warnings),
         );
+        errors.sort_by_key(|d| (d.span.file, d.span.start));
         if errors.is_empty() {
             Ok(Output { items, warnings })
         } else {
@@ -217,7 +218,10 @@ impl Session {
 
     /// Is this name an input (overridable with `--set` or by `load`)?
     pub fn is_input(&self, name: &str) -> bool {
-        self.sheet.defs.get(name).is_some_and(|d| d.kind == DefKind::Input)
+        self.sheet
+            .defs
+            .get(name)
+            .is_some_and(|d| d.kind == DefKind::Input)
     }
 
     /// The source map (for front ends that render spans themselves).

@@ -59,7 +59,12 @@ pub struct Ctx<'a> {
     pub load_stack: Vec<PathBuf>,
     /// Depth of user-function calls and loads.
     pub depth: usize,
+    /// Expressions being evaluated, nested (guards the native stack).
+    nesting: usize,
 }
+
+/// Most expression evaluations nested inside one another (across calls).
+pub const MAX_NESTING: usize = 1500;
 
 impl<'a> Ctx<'a> {
     /// A context evaluating `sheet`.
@@ -82,6 +87,7 @@ impl<'a> Ctx<'a> {
             failed: HashSet::new(),
             load_stack: Vec::new(),
             depth: 0,
+            nesting: 0,
         }
     }
 
@@ -180,6 +186,19 @@ impl<'a> Ctx<'a> {
     /// Evaluate an expression.
     pub fn expr(&mut self, e: &Expr) -> Flow<Value> {
         self.tick(e.span)?;
+        if self.nesting >= MAX_NESTING {
+            let msg = "evaluation nested too deeply";
+            return Err(Diagnostic::error(e.span, msg)
+                .with_hint("does a function call itself without end?")
+                .into());
+        }
+        self.nesting += 1;
+        let result = self.expr_kind(e);
+        self.nesting -= 1;
+        result
+    }
+
+    fn expr_kind(&mut self, e: &Expr) -> Flow<Value> {
         match &e.kind {
             ExprKind::Quantity { value, unit } => self.quantity(*value, unit.as_ref()),
             ExprKind::Bool(b) => Ok(Value::Bool(*b)),

@@ -148,20 +148,24 @@ impl Sheet {
 
     /// Forget cached values of `names` and of everything that depends on them.
     pub fn invalidate(&mut self, names: &[String]) {
-        let mut dirty: HashSet<String> = names.iter().cloned().collect();
-        loop {
-            let more: Vec<String> = self
-                .defs
-                .values()
-                .filter(|d| {
-                    !dirty.contains(&d.name.name) && d.deps.iter().any(|x| dirty.contains(x))
-                })
-                .map(|d| d.name.name.clone())
-                .collect();
-            if more.is_empty() {
-                break;
+        if self.cache.is_empty() {
+            return;
+        }
+        let mut readers: HashMap<&str, Vec<&str>> = HashMap::new();
+        for d in self.defs.values() {
+            for dep in &d.deps {
+                readers
+                    .entry(dep.as_str())
+                    .or_default()
+                    .push(d.name.name.as_str());
             }
-            dirty.extend(more);
+        }
+        let mut dirty: HashSet<String> = HashSet::new();
+        let mut queue: Vec<&str> = names.iter().map(String::as_str).collect();
+        while let Some(n) = queue.pop() {
+            if dirty.insert(n.to_string()) {
+                queue.extend(readers.get(n).into_iter().flatten().copied());
+            }
         }
         self.cache.retain(|k, _| !dirty.contains(k));
     }
