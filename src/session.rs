@@ -120,13 +120,27 @@ impl Session {
     pub fn eval(&mut self, text: &str) -> Result<Output, Vec<Diagnostic>> {
         self.limits.reset();
         let file = self.add_source(text);
-        let (stmts, errors) = syntax::parse(text, file);
-        if !errors.is_empty() {
-            return Err(errors);
+        let parsed = syntax::parse_recovering(text, file);
+        let mut early = parsed.errors;
+        let mut skip = parsed.broken;
+        if self.strict {
+            // A worksheet file: report every error of the run at once.
+            let defined = self.sheet.define_all(&parsed.stmts);
+            early.extend(defined.errors);
+            skip.extend(defined.cyclic);
+        } else {
+            if !early.is_empty() {
+                return Err(early);
+            }
+            self.sheet.define(&parsed.stmts, false)?;
         }
-        self.sheet.define(&stmts, self.strict)?;
-        self.apply_pending(file)?;
+        if let Err(e) = self.apply_pending(file) {
+            early.extend(e);
+        }
+        let stmts = parsed.stmts;
         let mut ctx = Ctx::new(&mut self.sheet, &mut self.sources, &self.limits, self.mode);
+        ctx.mark_failed(&skip);
+        ctx.errors = early;
         if let Some(p) = self.path.as_ref().and_then(|p| p.canonicalize().ok()) {
             ctx.load_stack.push(p);
         }

@@ -91,6 +91,12 @@ impl<'a> Ctx<'a> {
         }
     }
 
+    /// Treat these names as already failed and reported (e.g. caught in a
+    /// cycle, or on a line that did not parse), so uses of them stay silent.
+    pub fn mark_failed<'n>(&mut self, names: impl IntoIterator<Item = &'n String>) {
+        self.failed.extend(names.into_iter().cloned());
+    }
+
     /// Count one step against the budget; check the interrupt flag now and then.
     fn tick(&mut self, span: Span) -> Flow<()> {
         self.ops += 1;

@@ -18,7 +18,7 @@ pub use ctx::{resolve_unit, Ctx, Flow, Mode, Stop};
 pub use graph::{cycles, dependencies};
 pub use limits::Limits;
 pub use ops::dim_words;
-pub use sheet::{definition, Def, DefKind, Sheet};
+pub use sheet::{definition, Def, DefKind, Defined, Sheet};
 pub use sources::{SourceFile, Sources};
 
 use crate::syntax::{Stmt, StmtKind};
