@@ -14,7 +14,7 @@ use codespan_reporting::term::{self, termcolor::Ansi};
 
 use crate::diag::{Diagnostic, Severity, Span};
 use crate::eval::{self, Ctx, DefKind, Limits, Mode, Sheet, Sources};
-use crate::library::{self, closest};
+use crate::library;
 use crate::syntax::{self, split};
 use crate::units;
 use crate::value::Value;
@@ -185,7 +185,7 @@ impl Session {
                 format!("`--set {name}`: `{name}` is not an input of this worksheet"),
             );
             let names: Vec<&str> = inputs.iter().map(String::as_str).collect();
-            if let Some(best) = closest(&name, &names) {
+            if let Some(best) = eval::suggest(&name, &names) {
                 d = d.with_hint(format!("did you mean `{best}`?"));
             }
             let list = if inputs.is_empty() {

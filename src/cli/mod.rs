@@ -228,7 +228,7 @@ fn help(name: Option<&str>, markdown: bool) -> i32 {
             }
             None => {
                 let names: Vec<&str> = library::registry().iter().map(|b| b.name).collect();
-                let hint = library::closest(n, &names)
+                let hint = crate::eval::suggest(n, &names)
                     .map_or(String::new(), |b| format!(" (did you mean `{b}`?)"));
                 eprintln!("error: no built-in function or unit named `{n}`{hint}");
                 EXIT_USAGE

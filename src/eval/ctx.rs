@@ -7,7 +7,7 @@ use std::path::PathBuf;
 use super::ops::{self, dim_words, OpError};
 use super::{DefKind, Limits, Sheet, Sources};
 use crate::diag::{Diagnostic, Span};
-use crate::library::{closest, type_word};
+use crate::library::type_word;
 use crate::syntax::{BinaryOp, Expr, ExprKind, UnaryOp, UnitExpr, UnitKind};
 use crate::units::{lookup_unit, suggest_unit, Quantity, Unit};
 use crate::value::{Record, Value};
@@ -183,7 +183,7 @@ impl<'a> Ctx<'a> {
             d = d.with_hint(format!(
                 "`{name}` is a unit; write a number before it (`1 {name}`), and compound units without spaces (`14 kg/m^2`)"
             ));
-        } else if let Some(best) = closest(name, &names) {
+        } else if let Some(best) = super::suggest(name, &names) {
             d = d.with_hint(format!("did you mean `{best}`?"));
         }
         Stop::Error(d)
@@ -377,7 +377,7 @@ fn no_field(r: &Record, field: &crate::syntax::Ident) -> Diagnostic {
         field.span,
         format!("{} has no field `{}`", record_word(r), field.name),
     );
-    if let Some(best) = closest(&field.name, &names) {
+    if let Some(best) = super::suggest(&field.name, &names) {
         d = d.with_hint(format!("did you mean `{best}`?"));
     }
     d.with_hint(format!("fields: {}", names.join(", ")))

@@ -13,6 +13,7 @@ mod load;
 mod ops;
 mod sheet;
 mod sources;
+mod suggest;
 
 pub use ctx::{resolve_unit, Ctx, Flow, Mode, Stop};
 pub use graph::{cycles, dependencies};
@@ -20,6 +21,7 @@ pub use limits::Limits;
 pub use ops::dim_words;
 pub use sheet::{definition, Def, DefKind, Defined, Sheet};
 pub use sources::{SourceFile, Sources};
+pub use suggest::suggest;
 
 use crate::syntax::{Stmt, StmtKind};
 use crate::value::Value;
