@@ -84,7 +84,10 @@ impl Ctx<'_> {
     }
 
     fn call_user(&mut self, callee: &Ident, args: &[CallArg], span: Span) -> Flow<Value> {
-        let def = self.sheet.defs[&callee.name].clone();
+        let (params, body) = match self.sheet.defs.get(&callee.name) {
+            Some(d) => (d.params.clone(), d.expr.clone()),
+            None => return Err(self.unknown_function(callee).into()),
+        };
         if self.depth >= self.limits.max_call_depth {
             let msg = format!(
                 "calls nested deeper than {} levels",
@@ -95,10 +98,10 @@ impl Ctx<'_> {
                 .into());
         }
         let values = self.arguments(args)?;
-        let frame = bind_params(&callee.name, &def.params, values, span)?;
+        let frame = bind_params(&callee.name, &params, values, span)?;
         self.depth += 1;
         let saved = self.frame.replace(frame);
-        let result = self.expr(&def.expr);
+        let result = self.expr(&body);
         self.frame = saved;
         self.depth -= 1;
         result

@@ -135,13 +135,11 @@ impl<'a> Ctx<'a> {
         if self.failed.contains(name) {
             return Err(Stop::Reported);
         }
-        let def = self
-            .sheet
-            .defs
-            .get(name)
-            .cloned()
-            .ok_or_else(|| self.undefined(name, use_span))?;
-        if def.kind == DefKind::Function {
+        let (kind, expr) = match self.sheet.defs.get(name) {
+            Some(d) => (d.kind, d.expr.clone()),
+            None => return Err(self.undefined(name, use_span)),
+        };
+        if kind == DefKind::Function {
             let msg = format!("`{name}` is a function; call it with arguments, e.g. `{name}(...)`");
             return Err(Diagnostic::error(use_span, msg).into());
         }
@@ -149,14 +147,14 @@ impl<'a> Ctx<'a> {
             let chain = format!("{} -> {name}", self.active.join(" -> "));
             return Err(Diagnostic::error(use_span, format!("cycle: {chain}")).into());
         }
-        let overridden = (def.kind == DefKind::Input)
+        let overridden = (kind == DefKind::Input)
             .then(|| self.sheet.overrides.get(name).cloned())
             .flatten();
         self.active.push(name.to_string());
         let saved = self.frame.take();
         let result = match overridden {
             Some(v) => Ok(v),
-            None => self.expr(&def.expr),
+            None => self.expr(&expr),
         };
         self.frame = saved;
         self.active.pop();
@@ -245,13 +243,17 @@ impl<'a> Ctx<'a> {
 
     /// Resolve a unit expression (cached per source position).
     pub fn unit(&mut self, u: &UnitExpr) -> Flow<Unit> {
+        self.unit_ref(u).cloned()
+    }
+
+    /// The resolved unit, borrowed from the cache (no copy).
+    fn unit_ref(&mut self, u: &UnitExpr) -> Flow<&Unit> {
         let key = (u.span.file, u.span.start);
-        if let Some(unit) = self.sheet.units.get(&key) {
-            return Ok(unit.clone());
+        if !self.sheet.units.contains_key(&key) {
+            let unit = resolve_unit(u)?;
+            self.sheet.units.insert(key, unit);
         }
-        let unit = resolve_unit(u)?;
-        self.sheet.units.insert(key, unit.clone());
-        Ok(unit)
+        self.sheet.units.get(&key).ok_or(Stop::Reported)
     }
 
     fn record(&mut self, fields: &[(crate::syntax::Ident, Expr)]) -> Flow<Value> {
@@ -335,8 +337,8 @@ impl<'a> Ctx<'a> {
 
     fn shown_as(&mut self, a: &Expr, u: &UnitExpr) -> Flow<Value> {
         let v = self.expr(a)?;
-        let unit = self.unit(u)?;
-        show_in(v, &unit).map_err(|msg| {
+        let unit = self.unit_ref(u)?;
+        show_in(v, unit).map_err(|msg| {
             let mut d = Diagnostic::error(u.span, msg);
             d.hints.push((Some(a.span), "this value".into()));
             d.into()
