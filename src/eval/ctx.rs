@@ -223,6 +223,34 @@ impl<'a> Ctx<'a> {
         }
     }
 
+    /// Evaluate an operand, leaving a named value in place instead of copying it.
+    fn operand<'e>(&mut self, e: &'e Expr) -> Flow<Operand<'e>> {
+        if let ExprKind::Name(n) = &e.kind {
+            if self.frame.as_ref().is_some_and(|f| f.contains_key(n)) {
+                return Ok(Operand::Param(n));
+            }
+            if !self.sheet.cache.contains_key(n) {
+                self.force(n, e.span)?;
+            }
+            return Ok(Operand::Global(n));
+        }
+        self.expr(e).map(Operand::Owned)
+    }
+
+    /// The value an operand stands for.
+    fn view<'s>(&'s self, o: &'s Operand) -> &'s Value {
+        static MISSING: Value = Value::Bool(false);
+        match o {
+            Operand::Owned(v) => v,
+            Operand::Param(n) => self
+                .frame
+                .as_ref()
+                .and_then(|f| f.get(*n))
+                .unwrap_or(&MISSING),
+            Operand::Global(n) => self.sheet.cache.get(*n).unwrap_or(&MISSING),
+        }
+    }
+
     fn name(&mut self, n: &str, span: Span) -> Flow<Value> {
         if let Some(v) = self.frame.as_ref().and_then(|f| f.get(n)) {
             return Ok(v.clone());
@@ -274,11 +302,12 @@ impl<'a> Ctx<'a> {
         if matches!(op, BinaryOp::And | BinaryOp::Or) {
             return self.logic(op, a, b);
         }
-        let x = self.expr(a)?;
-        let y = self.expr(b)?;
-        ops::binary(op, &x, &y).map_err(|e| {
+        let x = self.operand(a)?;
+        let y = self.operand(b)?;
+        let (x, y) = (self.view(&x), self.view(&y));
+        ops::binary(op, x, y).map_err(|e| {
             let mut d = op_error(e, span, a.span, b.span);
-            if op == BinaryOp::Add && ops::is_absolute(&x) && ops::is_absolute(&y) {
+            if op == BinaryOp::Add && ops::is_absolute(x) && ops::is_absolute(y) {
                 d.hints.push((
                     Some(b.span),
                     "this is an absolute temperature too; use a difference such as `10 K`".into(),
@@ -336,9 +365,14 @@ impl<'a> Ctx<'a> {
     }
 
     fn shown_as(&mut self, a: &Expr, u: &UnitExpr) -> Flow<Value> {
-        let v = self.expr(a)?;
-        let unit = self.unit_ref(u)?;
-        show_in(v, unit).map_err(|msg| {
+        let v = self.operand(a)?;
+        self.unit_ref(u)?;
+        let unit = self.sheet.units.get(&(u.span.file, u.span.start));
+        let shown = match unit {
+            Some(unit) => show_in(self.view(&v), unit),
+            None => return Err(Stop::Reported),
+        };
+        shown.map_err(|msg| {
             let mut d = Diagnostic::error(u.span, msg);
             d.hints.push((Some(a.span), "this value".into()));
             d.into()
@@ -346,10 +380,18 @@ impl<'a> Ctx<'a> {
     }
 }
 
+/// An evaluated operand: a fresh value, or a name whose value stays where it is.
+enum Operand<'e> {
+    Owned(Value),
+    Param(&'e str),
+    Global(&'e str),
+}
+
 /// Attach a display unit to a quantity (or every quantity in a list).
-fn show_in(v: Value, unit: &Unit) -> Result<Value, String> {
+fn show_in(v: &Value, unit: &Unit) -> Result<Value, String> {
     match v {
         Value::Quantity(q, _) => {
+            let q = *q;
             if q.dim != unit.dim {
                 return Err(format!(
                     "cannot show {} in `{}`, which is {}",
@@ -362,13 +404,13 @@ fn show_in(v: Value, unit: &Unit) -> Result<Value, String> {
             Ok(Value::Quantity(q, Some(unit.clone())))
         }
         Value::List(items) => items
-            .into_iter()
+            .iter()
             .map(|i| show_in(i, unit))
             .collect::<Result<_, _>>()
             .map(Value::List),
         other => Err(format!(
             "`as` shows a quantity in a unit, but this is {}",
-            type_word(&other)
+            type_word(other)
         )),
     }
 }
