@@ -153,7 +153,7 @@ impl<'a> Ctx<'a> {
         self.active.push(name.to_string());
         let saved = self.frame.take();
         let result = match overridden {
-            Some(v) => Ok(v),
+            Some(v) => self.checked_override(name, &expr, v),
             None => self.expr(&expr),
         };
         self.frame = saved;
@@ -168,6 +168,31 @@ impl<'a> Ctx<'a> {
                 let skip = self.report(stop);
                 Err(if skip { Stop::Skip } else { Stop::Reported })
             }
+        }
+    }
+
+    /// An input's overriding value must have the dimension of its default.
+    fn checked_override(&mut self, name: &str, default: &Expr, v: Value) -> Flow<Value> {
+        let expected = match self.expr(default) {
+            Ok(Value::Quantity(d, _)) => d.dim,
+            _ => return Ok(v),
+        };
+        match &v {
+            Value::Quantity(q, _) if q.dim != expected => {
+                let span = self
+                    .sheet
+                    .defs
+                    .get(name)
+                    .map_or(default.span, |d| d.name.span);
+                let msg = format!(
+                    "input `{name}` is {}, but the value given for it is {}",
+                    dim_words(expected),
+                    dim_words(q.dim)
+                );
+                let hint = format!("the default is `{}`", self.sources.slice(default.span));
+                Err(Diagnostic::error(span, msg).with_hint(hint).into())
+            }
+            _ => Ok(v),
         }
     }
 
