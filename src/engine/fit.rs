@@ -708,14 +708,14 @@ fn invert_symmetric(m: DMatrix<f64>) -> Option<DMatrix<f64>> {
     let svd = m.svd(true, true);
     let largest = svd.singular_values.max();
     let smallest = svd.singular_values.min();
-    if !(largest > 0.0) || smallest <= largest * 1e-14 {
+    if largest.is_nan() || largest <= 0.0 || smallest <= largest * 1e-14 {
         return None;
     }
     svd.pseudo_inverse(0.0).ok()
 }
 
 fn mean_relative_deviation(y: &[f64], residuals: &[f64]) -> Option<f64> {
-    if y.iter().any(|v| *v == 0.0) {
+    if y.contains(&0.0) {
         return None;
     }
     let sum: f64 = y.iter().zip(residuals).map(|(v, r)| (r / v).abs()).sum();

@@ -1,3 +1,4 @@
 //! The physics, typed with uom. Engine code never sees syntax, strings or
 //! dynamic units: it takes and returns uom quantities and plain structs.
 pub mod fit;
+pub mod sorption;
