@@ -5,6 +5,8 @@
 //! boundary, converts them to uom quantities and calls typed engine code.
 
 pub mod data;
+pub mod fit;
+pub mod sorption;
 
 use crate::diag::{Diagnostic, Span};
 use crate::units::{describe_dim, Dim, Quantity};
@@ -236,6 +238,8 @@ pub fn registry() -> &'static [&'static Builtin] {
         const FAMILIES: &[&[Builtin]] = &[
             // one line per family, e.g. air::BUILTINS,
             data::BUILTINS,
+            fit::BUILTINS,
+            sorption::BUILTINS,
         ];
         let mut all: Vec<&'static Builtin> = FAMILIES.iter().flat_map(|f| f.iter()).collect();
         all.sort_by_key(|b| b.name);
