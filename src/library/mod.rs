@@ -7,6 +7,7 @@
 pub mod data;
 pub mod fit;
 pub mod sorption;
+pub mod math;
 
 use crate::diag::{Diagnostic, Span};
 use crate::units::{describe_dim, Dim, Quantity};
@@ -240,6 +241,7 @@ pub fn registry() -> &'static [&'static Builtin] {
             data::BUILTINS,
             fit::BUILTINS,
             sorption::BUILTINS,
+            math::BUILTINS,
         ];
         let mut all: Vec<&'static Builtin> = FAMILIES.iter().flat_map(|f| f.iter()).collect();
         all.sort_by_key(|b| b.name);
