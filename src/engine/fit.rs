@@ -193,7 +193,7 @@ impl fmt::Display for FitError {
             FitError::NotIdentifiable => write!(
                 f,
                 "the parameters cannot be told apart from these data (the Jacobian is singular); \
-                 fix or drop a parameter, add points over a wider range, or use a simpler model"
+                 fix or drop a parameter, try other start values, add points over a wider range, or use a simpler model"
             ),
         }
     }

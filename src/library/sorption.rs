@@ -16,7 +16,7 @@ use super::fit::{comparison_table, fit_record, FitPayload, QuantitySpec};
 use crate::diag::{Diagnostic, Span};
 use crate::engine::sorption::{
     demo_materials, fit_isotherm as engine_fit, Geometry, Isotherm, IsothermFit, IsothermKind,
-    Material, Reading, ALL_KINDS,
+    Material, Reading, SorptionError, ALL_KINDS,
 };
 use crate::library::{type_word, Args, Builtin, Param};
 use crate::units::{lookup_unit, Dim, Kind, Quantity};
@@ -60,9 +60,9 @@ pub fn param_spec(kind: IsothermKind, index: usize) -> QuantitySpec {
             (Dim::NONE, Kind::Moisture, "db")
         }
         (M::Gab, "dHc" | "dHk") => (Dim::MOLAR_ENERGY, Kind::Plain, "kJ/mol"),
-        (M::ModifiedOswin, "B") => (per_kelvin, Kind::Plain, "1/K"),
+        (M::ModifiedOswin, "B") => (per_kelvin, Kind::Plain, "K^-1"),
         (M::Henderson, "k") | (M::ModifiedHenderson, "A") | (M::ModifiedHalsey, "B") => {
-            (per_kelvin, Kind::Plain, "1/K")
+            (per_kelvin, Kind::Plain, "K^-1")
         }
         (M::ModifiedHenderson, "B") | (M::ModifiedChungPfost, "A" | "B") => {
             (Dim::TEMPERATURE, Kind::TemperatureDifference, "K")
@@ -100,12 +100,13 @@ pub fn isotherm_record(iso: Isotherm) -> Record {
 
 /// A dimensionless argument of the given kind (a plain number is accepted).
 fn ratio(args: &mut Args, name: &str, kind: Kind) -> Result<Option<f64>, Diagnostic> {
+    let span = args.span_of(name);
     let Some(q) = args.opt_quantity(name, Dim::NONE)? else {
         return Ok(None);
     };
     q.expect_kind(Dim::NONE, kind)
         .map(|q| Some(q.si))
-        .map_err(|e| args.error_at(name, format!("argument `{name}`: {}", e.message)))
+        .map_err(|e| Diagnostic::error(span, format!("argument `{name}`: {}", e.message)))
 }
 
 fn required_ratio(args: &mut Args, name: &str, kind: Kind) -> Result<f64, Diagnostic> {
@@ -119,12 +120,13 @@ fn required_ratio(args: &mut Args, name: &str, kind: Kind) -> Result<f64, Diagno
 }
 
 fn temperature(args: &mut Args, name: &str) -> Result<Option<f64>, Diagnostic> {
+    let span = args.span_of(name);
     let Some(q) = args.opt_quantity(name, Dim::TEMPERATURE)? else {
         return Ok(None);
     };
     q.absolute_kelvin()
         .map(Some)
-        .map_err(|e| args.error_at(name, format!("argument `{name}`: {}", e.message)))
+        .map_err(|e| Diagnostic::error(span, format!("argument `{name}`: {}", e.message)))
 }
 
 fn required_temperature(args: &mut Args, name: &str) -> Result<f64, Diagnostic> {
@@ -139,6 +141,7 @@ fn required_temperature(args: &mut Args, name: &str) -> Result<f64, Diagnostic> 
 
 /// A parameter argument checked against its spec's dimension and kind.
 fn spec_arg(args: &mut Args, spec: &QuantitySpec) -> Result<Option<f64>, Diagnostic> {
+    let span = args.span_of(&spec.name);
     let Some(q) = args.opt_quantity(&spec.name, spec.dim)? else {
         return Ok(None);
     };
@@ -146,7 +149,7 @@ fn spec_arg(args: &mut Args, spec: &QuantitySpec) -> Result<Option<f64>, Diagnos
         Kind::Plain => q,
         k => q
             .expect_kind(spec.dim, k)
-            .map_err(|e| args.error_at(&spec.name, e.message))?,
+            .map_err(|e| Diagnostic::error(span, e.message))?,
     };
     Ok(Some(q.si))
 }
@@ -243,8 +246,17 @@ fn air_fields(
     Ok((rh.si, t_k))
 }
 
-fn engine_error(args: &Args, name: &str, e: impl std::fmt::Display) -> Diagnostic {
-    args.error_at(name, e.to_string())
+fn engine_error(span: Span, e: impl std::fmt::Display) -> Diagnostic {
+    Diagnostic::error(span, e.to_string())
+}
+
+/// The span to blame for bad air conditions: `air` if given, else `aw`.
+fn conditions_span(args: &Args) -> Span {
+    if args.has("air") {
+        args.span_of("air")
+    } else {
+        args.span_of("aw")
+    }
 }
 
 fn warn_all(args: &mut Args, reading: &Reading) {
@@ -267,6 +279,7 @@ fn warn_hot(args: &mut Args, material: &Option<Material>, t_k: f64) {
 /// Build an isotherm of `kind` from its named parameters.
 fn construct(args: &mut Args, kind: IsothermKind) -> Result<Value, Diagnostic> {
     let mut kind = kind;
+    let spans: Vec<Span> = kind.param_names().iter().map(|n| args.span_of(n)).collect();
     let mut params = Vec::new();
     for i in 0..kind.param_names().len() {
         let spec = param_spec(kind, i);
@@ -298,8 +311,17 @@ fn construct(args: &mut Args, kind: IsothermKind) -> Result<Value, Diagnostic> {
         required_temperature(args, "T")?
     };
     args.finish()?;
-    let mut iso = Isotherm::new(kind, &params, kelvin_t(t_k))
-        .map_err(|e| Diagnostic::error(args.call_span, e.to_string()))?;
+    let mut iso = Isotherm::new(kind, &params, kelvin_t(t_k)).map_err(|e| {
+        let span = match &e {
+            SorptionError::BadParameter { name, .. } => kind
+                .param_names()
+                .iter()
+                .position(|n| n == name)
+                .map_or(args.call_span, |i| spans[i]),
+            _ => args.call_span,
+        };
+        Diagnostic::error(span, e.to_string())
+    })?;
     if gab_isothermal {
         iso = iso.at_one_temperature();
     }
@@ -341,12 +363,13 @@ fn smith(args: &mut Args) -> Result<Value, Diagnostic> {
 
 fn equilibrium_moisture(args: &mut Args) -> Result<Value, Diagnostic> {
     let p = product(args)?;
+    let span = conditions_span(args);
     let (aw, t_k) = conditions(args)?;
     args.finish()?;
     let reading = p
         .isotherm
         .equilibrium_moisture(aw, kelvin_t(t_k))
-        .map_err(|e| engine_error(args, "aw", e))?;
+        .map_err(|e| engine_error(span, e))?;
     warn_all(args, &reading);
     warn_hot(args, &p.material, t_k);
     Ok(moisture_value(reading.value))
@@ -354,13 +377,14 @@ fn equilibrium_moisture(args: &mut Args) -> Result<Value, Diagnostic> {
 
 fn water_activity(args: &mut Args) -> Result<Value, Diagnostic> {
     let p = product(args)?;
+    let span = args.span_of("X");
     let x = required_ratio(args, "X", Kind::Moisture)?;
     let t_k = required_temperature(args, "T")?;
     args.finish()?;
     let reading = p
         .isotherm
         .water_activity(x, kelvin_t(t_k))
-        .map_err(|e| engine_error(args, "X", e))?;
+        .map_err(|e| engine_error(span, e))?;
     warn_all(args, &reading);
     Ok(Value::Quantity(
         Quantity::new(reading.value, Dim::NONE, Kind::Activity),
@@ -370,13 +394,14 @@ fn water_activity(args: &mut Args) -> Result<Value, Diagnostic> {
 
 fn free_moisture(args: &mut Args) -> Result<Value, Diagnostic> {
     let p = product(args)?;
+    let span = conditions_span(args);
     let x = required_ratio(args, "X", Kind::Moisture)?;
     let (aw, t_k) = conditions(args)?;
     args.finish()?;
     let reading = p
         .isotherm
         .free_moisture(x, aw, kelvin_t(t_k))
-        .map_err(|e| engine_error(args, "X", e))?;
+        .map_err(|e| engine_error(span, e))?;
     warn_all(args, &reading);
     Ok(moisture_value(reading.value))
 }
@@ -439,9 +464,13 @@ fn text(args: &mut Args, name: &str) -> Result<Option<String>, Diagnostic> {
 }
 
 fn positive(args: &mut Args, name: &str, dim: Dim) -> Result<Option<f64>, Diagnostic> {
+    let span = args.span_of(name);
     match args.opt_quantity(name, dim)? {
         Some(q) if q.si > 0.0 => Ok(Some(q.si)),
-        Some(q) => Err(args.error_at(name, format!("`{name}` must be positive, found {}", q.si))),
+        Some(q) => Err(Diagnostic::error(
+            span,
+            format!("`{name}` must be positive, found {}", q.si),
+        )),
         None => Ok(None),
     }
 }
@@ -879,49 +908,49 @@ pub const BUILTINS: &[Builtin] = &[
     Builtin {
         name: "modified_oswin",
         family: "sorption",
-        params: &[param!("A", "db", "moisture term"), param!("B", "1/K", "temperature slope (per degC)"), param!("C", "-", "exponent divisor")],
+        params: &[param!("A", "db", "moisture term"), param!("B", "K^-1", "temperature slope (per degC)"), param!("C", "-", "exponent divisor")],
         returns: "isotherm",
         doc: "The modified Oswin isotherm X = (A + B T) (aw / (1 - aw))^(1/C), T in degC.",
         method: "modified Oswin (ASABE standard form)",
         source: ISO_SOURCE,
         validity: "aw 0.05..0.9",
-        example: "modified_oswin(A: 0.15 db, B: -0.001 1/K, C: 2.5)",
+        example: "modified_oswin(A: 0.15 db, B: -0.001 K^-1, C: 2.5)",
         func: modified_oswin,
     },
     Builtin {
         name: "henderson",
         family: "sorption",
-        params: &[param!("k", "1/K", "coefficient"), param!("n", "-", "exponent")],
+        params: &[param!("k", "K^-1", "coefficient"), param!("n", "-", "exponent")],
         returns: "isotherm",
         doc: "The Henderson isotherm 1 - aw = exp(-k T X^n), T absolute.",
         method: "Henderson (1952)",
         source: "Henderson (1952), Agricultural Engineering 33, 29",
         validity: "aw 0.1..0.9",
-        example: "henderson(k: 0.02 1/K, n: 1.8)",
+        example: "henderson(k: 0.02 K^-1, n: 1.8)",
         func: henderson,
     },
     Builtin {
         name: "modified_henderson",
         family: "sorption",
-        params: &[param!("A", "1/K", "coefficient"), param!("B", "K", "temperature offset"), param!("C", "-", "exponent")],
+        params: &[param!("A", "K^-1", "coefficient"), param!("B", "K", "temperature offset"), param!("C", "-", "exponent")],
         returns: "isotherm",
         doc: "The modified Henderson isotherm 1 - aw = exp(-A (T + B) X^C), T in degC.",
         method: "modified Henderson (Thompson)",
         source: ISO_SOURCE,
         validity: "aw 0.1..0.9",
-        example: "modified_henderson(A: 0.035 1/K, B: 60 K, C: 1.9)",
+        example: "modified_henderson(A: 0.035 K^-1, B: 60 K, C: 1.9)",
         func: modified_henderson,
     },
     Builtin {
         name: "modified_halsey",
         family: "sorption",
-        params: &[param!("A", "-", "constant"), param!("B", "1/K", "temperature slope"), param!("C", "-", "exponent")],
+        params: &[param!("A", "-", "constant"), param!("B", "K^-1", "temperature slope"), param!("C", "-", "exponent")],
         returns: "isotherm",
         doc: "The modified Halsey isotherm aw = exp(-exp(A + B T) / X^C), T in degC.",
         method: "modified Halsey (Iglesias & Chirife)",
         source: ISO_SOURCE,
         validity: "aw 0.05..0.9",
-        example: "modified_halsey(A: -3, B: -0.01 1/K, C: 1.6)",
+        example: "modified_halsey(A: -3, B: -0.01 K^-1, C: 1.6)",
         func: modified_halsey,
     },
     Builtin {
