@@ -218,7 +218,7 @@ fn basis_unit(ratio: &str, basis: &str, whole: &str) -> Result<Option<Unit>, Dat
     }
     let mut unit = lookup_unit(kind_unit)
         .ok_or_else(|| DataError::new(format!("unit table lacks `{kind_unit}`")))?;
-    unit.factor = ratio_unit.factor * unit.factor;
+    unit.factor *= ratio_unit.factor;
     unit.kind = kind;
     unit.symbol = whole.to_string();
     Ok(Some(unit))
