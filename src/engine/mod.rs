@@ -2,3 +2,7 @@
 //! dynamic units: it takes and returns uom quantities and plain structs.
 pub mod fit;
 pub mod sorption;
+
+pub mod air;
+pub mod solve;
+pub mod transport;

@@ -7,6 +7,7 @@
 pub mod data;
 pub mod fit;
 pub mod sorption;
+pub mod air;
 pub mod math;
 
 use crate::diag::{Diagnostic, Span};
@@ -241,6 +242,7 @@ pub fn registry() -> &'static [&'static Builtin] {
             data::BUILTINS,
             fit::BUILTINS,
             sorption::BUILTINS,
+            air::BUILTINS,
             math::BUILTINS,
         ];
         let mut all: Vec<&'static Builtin> = FAMILIES.iter().flat_map(|f| f.iter()).collect();
