@@ -1,5 +1,7 @@
 //! The physics, typed with uom. Engine code never sees syntax, strings or
 //! dynamic units: it takes and returns uom quantities and plain structs.
+pub mod fit;
+pub mod sorption;
 
 pub mod air;
 pub mod dryers;

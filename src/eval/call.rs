@@ -66,6 +66,7 @@ impl Ctx<'_> {
         check_arg_names(b, args)?;
         let values = self.arguments(args)?;
         let mut bound = Args::bind(b, span, values)?;
+        bound.dir = Some(self.sheet.dir.clone());
         if self.mode == Mode::CheckOnly {
             return Err(Stop::Skip);
         }

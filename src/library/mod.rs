@@ -4,6 +4,9 @@
 //! A built-in receives spanned arguments, checks their dimensions here at the
 //! boundary, converts them to uom quantities and calls typed engine code.
 
+pub mod data;
+pub mod fit;
+pub mod sorption;
 pub mod air;
 pub mod math;
 
@@ -65,6 +68,8 @@ pub struct Args {
     bound: Vec<Option<Arg>>,
     /// Warnings attached to the call (validity ranges and the like).
     pub warnings: Vec<Diagnostic>,
+    /// Folder of the calling worksheet, for relative file paths (None: current folder).
+    pub dir: Option<std::path::PathBuf>,
 }
 
 impl Args {
@@ -102,7 +107,7 @@ impl Args {
             }
             bound[index] = Some(arg);
         }
-        Ok(Args { builtin, call_span, bound, warnings: Vec::new() })
+        Ok(Args { builtin, call_span, bound, warnings: Vec::new(), dir: None })
     }
 
     fn index(&self, name: &str) -> usize {
@@ -236,6 +241,9 @@ pub fn registry() -> &'static [&'static Builtin] {
     REGISTRY.get_or_init(|| {
         const FAMILIES: &[&[Builtin]] = &[
             // one line per family, e.g. air::BUILTINS,
+            data::BUILTINS,
+            fit::BUILTINS,
+            sorption::BUILTINS,
             air::BUILTINS,
             math::BUILTINS,
             transfer::BUILTINS,
