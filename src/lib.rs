@@ -6,5 +6,7 @@
 pub mod diag;
 pub mod engine;
 pub mod library;
+pub mod record;
+pub mod render;
 pub mod units;
 pub mod value;

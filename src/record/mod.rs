@@ -1,0 +1,1 @@
+//! The audit record of a run.

@@ -1,0 +1,233 @@
+//! Number formatting for tables, plots and records: fixed significant figures,
+//! one format per column so decimal points line up, and the conversion of a
+//! quantity into the unit it is shown in.
+//!
+//! Formatting goes through Rust's correctly rounded `{:.N}` / `{:.Ne}`
+//! formatting, so the same number always prints the same text on every platform.
+
+use crate::units::{Dim, Kind, Quantity, Unit};
+
+use super::error::RenderError;
+
+/// Significant figures shown in tables and records.
+pub const SIG_FIGS: usize = 4;
+
+/// How the numbers of one column (or one value) are written.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum NumberFormat {
+    /// Fixed point with this many decimals.
+    Fixed(usize),
+    /// Scientific notation with this many decimals in the mantissa.
+    Scientific(usize),
+}
+
+impl NumberFormat {
+    /// Choose a format showing `sig` significant figures of the largest value.
+    ///
+    /// Whole numbers below 10^6 print without decimals; magnitudes of 10^6 and
+    /// above, or below 10^-3, switch to scientific notation.
+    pub fn for_values(values: &[f64], sig: usize) -> NumberFormat {
+        let sig = sig.max(1);
+        let finite = values.iter().copied().filter(|v| v.is_finite());
+        let max_abs = finite.clone().fold(0.0_f64, |m, v| m.max(v.abs()));
+        if max_abs == 0.0 {
+            return NumberFormat::Fixed(0);
+        }
+        let whole = finite.clone().all(is_whole);
+        if whole && max_abs < 1e6 {
+            return NumberFormat::Fixed(0);
+        }
+        if !(1e-3..1e6).contains(&max_abs) {
+            return NumberFormat::Scientific(sig - 1);
+        }
+        let exponent = libm::floor(libm::log10(max_abs)) as i32;
+        let decimals = (sig as i32 - 1 - exponent).clamp(0, 12);
+        NumberFormat::Fixed(decimals as usize)
+    }
+
+    /// Like [`for_values`](Self::for_values), then drop decimals that are
+    /// zero in every value (0.0, 0.5, 1.0 rather than 0.000, 0.500, 1.000).
+    pub fn for_column(values: &[f64], sig: usize) -> NumberFormat {
+        let format = NumberFormat::for_values(values, sig);
+        let decimals = match format {
+            NumberFormat::Fixed(d) | NumberFormat::Scientific(d) => d,
+        };
+        let spare = values.iter().filter(|v| v.is_finite()).map(|v| zero_tail(&format.write(*v))).min().unwrap_or(0);
+        let keep = decimals - spare.min(decimals);
+        let keep = if matches!(format, NumberFormat::Fixed(_)) && decimals > 0 { keep.max(1) } else { keep };
+        match format {
+            NumberFormat::Fixed(_) => NumberFormat::Fixed(keep),
+            NumberFormat::Scientific(_) => NumberFormat::Scientific(keep),
+        }
+    }
+
+    /// Write one number in this format (no `-0`, exponents as `e-5`).
+    pub fn write(self, x: f64) -> String {
+        let text = match self {
+            NumberFormat::Fixed(d) => format!("{x:.d$}"),
+            NumberFormat::Scientific(d) => format!("{x:.d$e}"),
+        };
+        strip_negative_zero(text)
+    }
+}
+
+/// Trailing zeros after the decimal point of a formatted number's mantissa.
+fn zero_tail(text: &str) -> usize {
+    let mantissa = text.split('e').next().unwrap_or(text);
+    match mantissa.split_once('.') {
+        Some((_, decimals)) => decimals.len() - decimals.trim_end_matches('0').len(),
+        None => 0,
+    }
+}
+
+/// A number rounded to 12 significant figures, written in the shortest text
+/// that reads back as that number: exact data for CSV without the noise of
+/// unit conversion (38.2, not 38.19999999999999).
+pub fn exact_text(x: f64) -> String {
+    let rounded: f64 = format!("{x:.11e}").parse().unwrap_or(x);
+    strip_negative_zero(format!("{rounded}"))
+}
+
+/// Whole up to rounding noise (80.00000000000006 from 353.15 K - 273.15 K).
+fn is_whole(v: f64) -> bool {
+    (v - libm::round(v)).abs() <= 1e-9 * v.abs().max(1.0)
+}
+
+fn strip_negative_zero(text: String) -> String {
+    match text.strip_prefix('-') {
+        Some(rest) if rest.chars().all(|c| matches!(c, '0' | '.' | 'e')) => rest.to_string(),
+        _ => text,
+    }
+}
+
+/// One number with at most `sig` significant figures and no trailing zeros,
+/// e.g. `format_sig(1234.567, 4) == "1235"`, `format_sig(61.2, 4) == "61.2"`.
+pub fn format_sig(x: f64, sig: usize) -> String {
+    let text = NumberFormat::for_values(&[x], sig).write(x);
+    trim_zeros(text)
+}
+
+fn trim_zeros(text: String) -> String {
+    let (mantissa, exponent) = match text.find('e') {
+        Some(i) => (&text[..i], &text[i..]),
+        None => (text.as_str(), ""),
+    };
+    if !mantissa.contains('.') {
+        return text;
+    }
+    let trimmed = mantissa.trim_end_matches('0').trim_end_matches('.');
+    format!("{trimmed}{exponent}")
+}
+
+/// The number a quantity shows in `unit`.
+///
+/// Absolute temperatures use the unit's offset; temperature differences and
+/// plain kelvin values do not. Moisture shown in `wb` is converted from the dry
+/// basis, X/(1+X). Errors when the dimensions differ.
+pub fn in_unit(q: &Quantity, unit: &Unit) -> Result<f64, String> {
+    if q.dim != unit.dim {
+        return Err(format!("{} cannot be shown in {}", dim_words(q.dim), unit.symbol));
+    }
+    if q.kind == Kind::Moisture && unit.symbol == "wb" {
+        return Ok(q.si / (1.0 + q.si));
+    }
+    let offset = if q.kind == Kind::AbsoluteTemperature { unit.offset } else { 0.0 };
+    Ok((q.si - offset) / unit.factor)
+}
+
+/// The unit a quantity is shown in when none was chosen: its own `as` unit,
+/// else the coherent SI unit of its dimension.
+pub fn default_unit(q: &Quantity, shown: Option<&Unit>) -> Unit {
+    match shown {
+        Some(u) if u.dim == q.dim => u.clone(),
+        _ => si_unit(q.dim, q.kind),
+    }
+}
+
+/// The coherent SI unit of a dimension, named for the kind of a dimensionless ratio.
+pub fn si_unit(dim: Dim, kind: Kind) -> Unit {
+    let symbol = match (dim.is_dimensionless(), kind) {
+        (true, Kind::Moisture) => "kg/kg_db".to_string(),
+        (true, Kind::HumidityRatio) => "kg/kg_da".to_string(),
+        (true, _) => String::new(),
+        (false, _) => dim.si_unit(),
+    };
+    Unit { symbol, factor: 1.0, offset: 0.0, dim, kind }
+}
+
+/// A dimension in words with its SI unit, for messages: `time [s]`.
+pub fn dim_words(dim: Dim) -> String {
+    if dim.is_dimensionless() {
+        "a dimensionless number".to_string()
+    } else {
+        format!("{} [{}]", crate::units::describe_dim(dim), dim.si_unit())
+    }
+}
+
+/// A quantity as text with its unit, `sig` significant figures: `61.2 degC`.
+pub fn quantity_text(q: &Quantity, shown: Option<&Unit>, sig: usize) -> Result<String, RenderError> {
+    let unit = default_unit(q, shown);
+    let x = in_unit(q, &unit).map_err(RenderError::Invalid)?;
+    if !x.is_finite() {
+        return Err(RenderError::NotFinite { what: "the value".into() });
+    }
+    let number = format_sig(x, sig);
+    Ok(if unit.symbol.is_empty() { number } else { format!("{number} {}", unit.symbol) })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn fixed_decimals_follow_largest_magnitude() {
+        assert_eq!(NumberFormat::for_values(&[0.05, 2.5], 4), NumberFormat::Fixed(3));
+        assert_eq!(NumberFormat::for_values(&[1234.5], 4), NumberFormat::Fixed(0));
+        assert_eq!(NumberFormat::for_values(&[0.01234], 4), NumberFormat::Fixed(5));
+    }
+
+    #[test]
+    fn column_drops_shared_zero_decimals() {
+        assert_eq!(NumberFormat::for_column(&[0.0, 0.5, 4.0], 4), NumberFormat::Fixed(1));
+        assert_eq!(NumberFormat::for_column(&[1.85, 0.0912], 4), NumberFormat::Fixed(3));
+        assert_eq!(NumberFormat::for_column(&[2.0, 2.5e7], 4), NumberFormat::Scientific(1));
+    }
+
+    #[test]
+    fn exact_text_hides_conversion_noise() {
+        assert_eq!(exact_text(311.34999999999997 - 273.15), "38.2");
+        assert_eq!(exact_text(0.1 + 0.2), "0.3");
+        assert_eq!(exact_text(1.0 / 3.0), "0.333333333333");
+    }
+
+    #[test]
+    fn extremes_go_scientific() {
+        assert_eq!(format_sig(1.23456e7, 4), "1.235e7");
+        assert_eq!(format_sig(2.5e-5, 3), "2.5e-5");
+        assert_eq!(NumberFormat::for_values(&[2.5e-5], 3).write(2.5e-5), "2.50e-5");
+    }
+
+    #[test]
+    fn whole_numbers_and_zero() {
+        assert_eq!(format_sig(3.0, 4), "3");
+        assert_eq!(format_sig(353.15 - 273.15, 4), "80");
+        assert_eq!(format_sig(61.2, 4), "61.2");
+        assert_eq!(format_sig(0.0, 4), "0");
+        assert_eq!(NumberFormat::Fixed(2).write(-0.001), "0.00");
+    }
+
+    #[test]
+    fn absolute_temperature_uses_offset_difference_does_not() {
+        let degc = Unit { symbol: "degC".into(), factor: 1.0, offset: 273.15, dim: Dim::TEMPERATURE, kind: Kind::AbsoluteTemperature };
+        let abs = Quantity { si: 353.15, dim: Dim::TEMPERATURE, kind: Kind::AbsoluteTemperature };
+        let diff = Quantity { si: 10.0, dim: Dim::TEMPERATURE, kind: Kind::Plain };
+        assert!((in_unit(&abs, &degc).unwrap() - 80.0).abs() < 1e-9);
+        assert_eq!(in_unit(&diff, &degc).unwrap(), 10.0);
+    }
+
+    #[test]
+    fn wrong_dimension_is_an_error() {
+        let q = Quantity { si: 1.0, dim: Dim::TIME, kind: Kind::Plain };
+        assert!(in_unit(&q, &si_unit(Dim::LENGTH, Kind::Plain)).is_err());
+    }
+}
