@@ -124,3 +124,116 @@ fn records_become_rows() {
     let t = table::from_records(None, &rows).unwrap();
     insta::assert_snapshot!(table::text(&t).unwrap());
 }
+
+mod plots {
+    use super::*;
+    use siccant::render::plot::{self, AxisUnits, Curve, Grid, RatePeriods};
+    use siccant::value::{Plot, SeriesStyle};
+
+    fn time(h: &[f64]) -> Vec<Quantity> {
+        h.iter().map(|h| Quantity { si: h * 3600.0, dim: Dim::TIME, kind: Kind::Plain }).collect()
+    }
+
+    fn moisture(x: &[f64]) -> Vec<Quantity> {
+        x.iter().map(|x| Quantity { si: *x, dim: Dim::NONE, kind: Kind::Moisture }).collect()
+    }
+
+    fn plain(v: &[f64], dim: Dim) -> Vec<Quantity> {
+        v.iter().map(|v| Quantity { si: *v, dim, kind: Kind::Plain }).collect()
+    }
+
+    fn hours_axis() -> AxisUnits {
+        AxisUnits { x: Some(hours()), y: None }
+    }
+
+    /// Invented drying run and an invented exponential model through it.
+    pub fn drying() -> Plot {
+        let data = Curve::new("run 3 (invented)", time(&[0.0, 0.5, 1.0, 2.0, 3.0, 4.0]), moisture(&[1.85, 1.52, 1.21, 0.64, 0.31, 0.12]));
+        let t: Vec<f64> = (0..=40).map(|i| i as f64 * 0.1).collect();
+        let x: Vec<f64> = t.iter().map(|t| 0.05 + 1.8 * (-0.62 * t).exp()).collect();
+        let model = Curve::new("model (invented)", time(&t), moisture(&x));
+        plot::drying_curve("Drying curve, tray 3", &[data], &[model], hours_axis()).unwrap()
+    }
+
+    pub fn rate() -> Plot {
+        let x = [0.05, 0.2, 0.4, 0.6, 0.8, 1.0, 1.4, 1.85];
+        let r = [0.0, 0.21, 0.42, 0.63, 0.8, 0.8, 0.8, 0.8];
+        let flux = Dim::MASS_FLUX;
+        let curve = Curve::new("rate (invented)", moisture(&x), plain(&r.map(|r| r / 3600.0), flux));
+        let periods = RatePeriods { critical: Some(moisture(&[0.78])[0]), equilibrium: Some(moisture(&[0.05])[0]) };
+        let per_h = Unit { symbol: "kg/(m^2*h)".into(), factor: 1.0 / 3600.0, offset: 0.0, dim: flux, kind: Kind::Plain };
+        plot::rate_curve("Rate curve", &[curve], &periods, AxisUnits { x: None, y: Some(per_h) }).unwrap()
+    }
+
+    pub fn heat() -> Plot {
+        let xs = [50.0, 60.0, 70.0, 80.0];
+        let ys = [1.0, 1.5, 2.0];
+        let z: Vec<f64> = ys.iter().flat_map(|v| xs.iter().map(move |t| 10.0 / (v * (t - 20.0) / 30.0))).collect();
+        let grid = Grid {
+            x_name: "air temperature".into(),
+            y_name: "air velocity".into(),
+            z_name: "batch time".into(),
+            x: xs.iter().map(|c| Quantity { si: c + 273.15, dim: Dim::TEMPERATURE, kind: Kind::AbsoluteTemperature }).collect(),
+            y: plain(&ys, Dim::VELOCITY),
+            z: time(&z),
+            z_unit: Some(hours()),
+        };
+        plot::sweep_heat("Batch time over a two-input sweep (invented)", &grid, AxisUnits { x: Some(deg_c()), y: None }).unwrap()
+    }
+
+    #[test]
+    fn svg_is_deterministic_and_png_decodes() {
+        let dir = std::path::Path::new(env!("CARGO_TARGET_TMPDIR")).join("render-gallery");
+        std::fs::create_dir_all(&dir).unwrap();
+        for (name, p) in [("drying", drying()), ("rate", rate()), ("heat", heat())] {
+            let a = siccant::render::svg(&p).unwrap();
+            assert_eq!(a, siccant::render::svg(&p).unwrap());
+            assert!(a.starts_with("<svg"), "{name}");
+            let png = siccant::render::png(&p).unwrap();
+            assert_eq!(&png[1..4], b"PNG");
+            std::fs::write(dir.join(format!("{name}.svg")), &a).unwrap();
+            std::fs::write(dir.join(format!("{name}.png")), &png).unwrap();
+        }
+    }
+
+    #[test]
+    fn axis_labels_carry_units() {
+        let p = drying();
+        assert_eq!(p.x_label, "time [h]");
+        assert_eq!(p.y_label, "moisture content X [kg/kg_db]");
+    }
+
+    #[test]
+    fn series_of_different_lengths_is_an_error() {
+        let c = Curve::new("short", time(&[0.0, 1.0]), moisture(&[1.0]));
+        let err = plot::drying_curve("t", &[c], &[], AxisUnits::default()).unwrap_err();
+        assert_eq!(err.to_string(), "series `short` has 2 x values but 1 y values");
+    }
+
+    #[test]
+    fn incompatible_units_on_one_axis_is_an_error() {
+        let a = Curve::new("a", time(&[0.0, 1.0]), moisture(&[1.0, 0.5]));
+        let b = Curve::new("b", plain(&[0.0, 1.0], Dim::LENGTH), moisture(&[1.0, 0.5]));
+        let err = plot::sweep_lines("t", "x", "y", &[a, b], AxisUnits::default()).unwrap_err().to_string();
+        assert!(err.starts_with("the x axis already shows"), "{err}");
+        assert!(err.contains("series `b`"), "{err}");
+    }
+
+    #[test]
+    fn raw_plot_checks() {
+        let mut p = drying();
+        p.series[0].y.pop();
+        assert!(matches!(siccant::render::svg(&p), Err(RenderError::SeriesLength { .. })));
+        let mut p = drying();
+        p.series[1].y[3] = f64::NAN;
+        assert!(matches!(siccant::render::png(&p), Err(RenderError::NotFinite { .. })));
+        let empty = Plot { title: "nothing".into(), ..Plot::default() };
+        assert_eq!(siccant::render::svg(&empty).unwrap_err().to_string(), "the plot `nothing` has no data to draw");
+        let mut h = heat();
+        if let Some(grid) = h.heat.as_mut() {
+            grid.z.pop();
+        }
+        assert!(matches!(siccant::render::svg(&h), Err(RenderError::HeatGrid { nx: 4, ny: 3, nz: 11 })));
+        let _ = SeriesStyle::Dotted;
+    }
+}
