@@ -182,6 +182,11 @@ impl Session {
         self.sheet.defs.get(name).map(|d| d.deps.as_slice())
     }
 
+    /// A definition with its kind, statement span and dependencies (for the audit record).
+    pub fn definition(&self, name: &str) -> Option<&eval::Def> {
+        self.sheet.defs.get(name)
+    }
+
     /// The source map (for front ends that render spans themselves).
     pub fn sources(&self) -> &Sources {
         &self.sources

@@ -19,10 +19,16 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), RenderError> {
         Some(p) if !p.as_os_str().is_empty() => p,
         _ => Path::new("."),
     };
-    let mut tmp = tempfile::Builder::new().prefix(".siccant-").suffix(".tmp").tempfile_in(dir).map_err(fail)?;
+    if !dir.is_dir() {
+        let missing = format!("the folder {} does not exist", dir.display());
+        return Err(fail(std::io::Error::new(std::io::ErrorKind::NotFound, missing)));
+    }
+    // tempfile names its random file in errors; report only what went wrong.
+    let plain = |e: std::io::Error| fail(std::io::Error::from(e.kind()));
+    let mut tmp = tempfile::Builder::new().prefix(".siccant-").suffix(".tmp").tempfile_in(dir).map_err(plain)?;
     tmp.write_all(bytes).map_err(fail)?;
     tmp.as_file().sync_all().map_err(fail)?;
-    tmp.persist(path).map_err(|e| fail(e.error))?;
+    tmp.persist(path).map_err(|e| plain(e.error))?;
     Ok(())
 }
 
