@@ -4,6 +4,8 @@
 //! A built-in receives spanned arguments, checks their dimensions here at the
 //! boundary, converts them to uom quantities and calls typed engine code.
 
+pub mod plot;
+
 use crate::diag::{Diagnostic, Span};
 use crate::units::{describe_dim, Dim, Quantity};
 use crate::value::{Record, Value};
@@ -231,6 +233,7 @@ pub fn registry() -> &'static [&'static Builtin] {
     REGISTRY.get_or_init(|| {
         const FAMILIES: &[&[Builtin]] = &[
             // one line per family, e.g. air::BUILTINS,
+            plot::BUILTINS,
         ];
         let mut all: Vec<&'static Builtin> = FAMILIES.iter().flat_map(|f| f.iter()).collect();
         all.sort_by_key(|b| b.name);

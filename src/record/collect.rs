@@ -72,7 +72,13 @@ fn entry(session: &Session, run: &RunInfo, stmt: &Stmt, name: Option<&str>, valu
     let name = name.map_or_else(|| source.clone(), str::to_string);
     let overridden = kind == EntryKind::Input && run.overrides.iter().any(|o| override_name(o) == name);
     let depends_on = reads.iter().filter(|d| session.definition(d).is_some()).cloned().collect();
-    let builtins = reads.iter().filter(|d| session.definition(d).is_none()).filter_map(|d| library::find(d)).collect();
+    // Display built-ins (the `plot` family) compute nothing and carry no method.
+    let builtins = reads
+        .iter()
+        .filter(|d| session.definition(d).is_none())
+        .filter_map(|d| library::find(d))
+        .filter(|b| b.family != "plot")
+        .collect();
     Entry { name, kind, source, line, depends_on, value, overridden, builtins, warnings: Vec::new() }
 }
 

@@ -18,12 +18,15 @@ pub struct Curve {
     pub label: String,
     pub x: Vec<Quantity>,
     pub y: Vec<Quantity>,
+    /// Units the values were shown in (`as`), used when the axis has none yet.
+    pub x_unit: Option<Unit>,
+    pub y_unit: Option<Unit>,
 }
 
 impl Curve {
     /// A curve from a label and paired x and y values.
     pub fn new(label: impl Into<String>, x: Vec<Quantity>, y: Vec<Quantity>) -> Curve {
-        Curve { label: label.into(), x, y }
+        Curve { label: label.into(), x, y, x_unit: None, y_unit: None }
     }
 }
 
@@ -103,8 +106,8 @@ impl PlotBuilder {
         if curve.x.len() != curve.y.len() {
             return Err(RenderError::SeriesLength { series: curve.label.clone(), x_len: curve.x.len(), y_len: curve.y.len() });
         }
-        let x = self.x.numbers(&curve.label, &curve.x, None)?;
-        let y = self.y.numbers(&curve.label, &curve.y, None)?;
+        let x = self.x.numbers(&curve.label, &curve.x, curve.x_unit.as_ref())?;
+        let y = self.y.numbers(&curve.label, &curve.y, curve.y_unit.as_ref())?;
         self.plot.series.push(Series { label: curve.label.clone(), x, y, style });
         Ok(self)
     }
