@@ -42,7 +42,9 @@ pub struct Completion {
 pub enum Completeness {
     Complete,
     /// Brackets are still open; continue on the next line with this indent.
-    Incomplete { indent: String },
+    Incomplete {
+        indent: String,
+    },
     /// It can never become valid by adding text (e.g. an unmatched `)`).
     Invalid,
 }
@@ -90,7 +92,11 @@ impl Session {
         let path = path.as_ref();
         let dir = path.parent().map(Path::to_path_buf).unwrap_or_default();
         let mut s = Session::new();
-        s.sheet.dir = if dir.as_os_str().is_empty() { PathBuf::from(".") } else { dir };
+        s.sheet.dir = if dir.as_os_str().is_empty() {
+            PathBuf::from(".")
+        } else {
+            dir
+        };
         s.strict = true;
         s.path = Some(path.to_path_buf());
         s
@@ -125,7 +131,10 @@ impl Session {
             ctx.load_stack.push(p);
         }
         let items = eval::run_statements(&mut ctx, &stmts);
-        let (errors, warnings) = (std::mem::take(&mut ctx.errors), std::mem::take(&mut ctx.warnings));
+        let (errors, warnings) = (
+            std::mem::take(&mut ctx.errors),
+            std::mem::take(&mut ctx.warnings),
+        );
         if errors.is_empty() {
             Ok(Output { items, warnings })
         } else {
@@ -151,13 +160,24 @@ impl Session {
                 self.sheet.invalidate(&[name]);
                 continue;
             }
-            let span = Span { file, start: 0, end: 0 };
-            let mut d = Diagnostic::error(span, format!("`--set {name}`: `{name}` is not an input of this worksheet"));
+            let span = Span {
+                file,
+                start: 0,
+                end: 0,
+            };
+            let mut d = Diagnostic::error(
+                span,
+                format!("`--set {name}`: `{name}` is not an input of this worksheet"),
+            );
             let names: Vec<&str> = inputs.iter().map(String::as_str).collect();
             if let Some(best) = closest(&name, &names) {
                 d = d.with_hint(format!("did you mean `{best}`?"));
             }
-            let list = if inputs.is_empty() { "none".to_string() } else { inputs.join(", ") };
+            let list = if inputs.is_empty() {
+                "none".to_string()
+            } else {
+                inputs.join(", ")
+            };
             errors.push(d.with_hint(format!("inputs declared with `input`: {list}")));
         }
         if errors.is_empty() {
@@ -174,7 +194,10 @@ impl Session {
 
     /// The source text of a definition, e.g. `area = 2.4 m * 1.8 m`, for records.
     pub fn definition_text(&self, name: &str) -> Option<&str> {
-        self.sheet.defs.get(name).map(|d| self.sources.slice(d.span))
+        self.sheet
+            .defs
+            .get(name)
+            .map(|d| self.sources.slice(d.span))
     }
 
     /// The names a definition reads.
@@ -203,24 +226,40 @@ impl Session {
             let names = self.sheet.order.iter().map(String::as_str);
             let builtins = library::registry().iter().map(|b| b.name);
             let units = units::unit_names().into_iter();
-            let keywords = ["input", "check", "as", "and", "or", "not", "true", "false", "if", "then", "else", "load"];
+            let keywords = [
+                "input", "check", "as", "and", "or", "not", "true", "false", "if", "then", "else",
+                "load",
+            ];
             for m in names.chain(builtins).chain(keywords).chain(units) {
                 if m.starts_with(prefix) && !matches.iter().any(|x| x == m) {
                     matches.push(m.to_string());
                 }
             }
         }
-        Completion { start, end: cursor, matches }
+        Completion {
+            start,
+            end: cursor,
+            matches,
+        }
     }
 
     /// Can `text` be evaluated now, or are brackets still open?
     pub fn is_complete(&self, text: &str) -> Completeness {
         let scan = split::scan(text, 0);
-        let only_unclosed = scan.errors.iter().all(|d| d.message.starts_with("unclosed"));
+        let only_unclosed = scan
+            .errors
+            .iter()
+            .all(|d| d.message.starts_with("unclosed"));
         if scan.open_at_end > 0 && only_unclosed {
-            return Completeness::Incomplete { indent: "    ".repeat(scan.open_at_end.min(8)) };
+            return Completeness::Incomplete {
+                indent: "    ".repeat(scan.open_at_end.min(8)),
+            };
         }
-        if scan.errors.iter().any(|d| d.message.starts_with("unexpected") || d.message.contains("does not match")) {
+        if scan
+            .errors
+            .iter()
+            .any(|d| d.message.starts_with("unexpected") || d.message.contains("does not match"))
+        {
             return Completeness::Invalid;
         }
         Completeness::Complete
@@ -231,7 +270,10 @@ impl Session {
     pub fn inspect(&self, text: &str, cursor: usize) -> Option<String> {
         let cursor = floor_char_boundary(text, cursor.min(text.len()));
         let start = word_start(text, cursor);
-        let end = cursor + text[cursor..].find(|c: char| !is_word_char(c)).unwrap_or(text.len() - cursor);
+        let end = cursor
+            + text[cursor..]
+                .find(|c: char| !is_word_char(c))
+                .unwrap_or(text.len() - cursor);
         let word = &text[start..end];
         if word.is_empty() {
             return None;
@@ -300,17 +342,23 @@ fn to_report(d: &Diagnostic, sources: &Sources) -> Report<usize> {
     let mut labels = Vec::new();
     let mut notes = Vec::new();
     if sources.get(d.span.file).is_some() {
-        labels.push(Label::primary(d.span.file as usize, d.span.start as usize..d.span.end as usize));
+        labels.push(Label::primary(
+            d.span.file as usize,
+            d.span.start as usize..d.span.end as usize,
+        ));
     }
     for (span, hint) in &d.hints {
         match span {
-            Some(s) if sources.get(s.file).is_some() => {
-                labels.push(Label::secondary(s.file as usize, s.start as usize..s.end as usize).with_message(hint))
-            }
+            Some(s) if sources.get(s.file).is_some() => labels.push(
+                Label::secondary(s.file as usize, s.start as usize..s.end as usize)
+                    .with_message(hint),
+            ),
             _ => notes.push(format!("hint: {hint}")),
         }
     }
-    base.with_message(&d.message).with_labels(labels).with_notes(notes)
+    base.with_message(&d.message)
+        .with_labels(labels)
+        .with_notes(notes)
 }
 
 fn severity_word(s: Severity) -> &'static str {
@@ -325,7 +373,11 @@ fn is_word_char(c: char) -> bool {
 }
 
 fn word_start(text: &str, cursor: usize) -> usize {
-    text[..cursor].rfind(|c: char| !is_word_char(c)).map_or(0, |i| i + text[i..].chars().next().map_or(1, char::len_utf8))
+    text[..cursor]
+        .rfind(|c: char| !is_word_char(c))
+        .map_or(0, |i| {
+            i + text[i..].chars().next().map_or(1, char::len_utf8)
+        })
 }
 
 fn floor_char_boundary(text: &str, mut i: usize) -> usize {

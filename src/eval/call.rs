@@ -34,7 +34,11 @@ impl Ctx<'_> {
     fn unknown_function(&self, callee: &Ident) -> Diagnostic {
         let mut names: Vec<&str> = library::registry().iter().map(|b| b.name).collect();
         names.extend(
-            self.sheet.order.iter().filter(|n| self.sheet.defs[*n].kind == DefKind::Function).map(String::as_str),
+            self.sheet
+                .order
+                .iter()
+                .filter(|n| self.sheet.defs[*n].kind == DefKind::Function)
+                .map(String::as_str),
         );
         names.push("load");
         let mut d = Diagnostic::error(callee.span, format!("unknown function `{}`", callee.name));
@@ -49,7 +53,11 @@ impl Ctx<'_> {
         let mut out = Vec::with_capacity(args.len());
         for a in args {
             let value = self.expr(&a.value)?;
-            out.push(Arg { name: a.name.as_ref().map(|n| n.name.clone()), value, span: a.span });
+            out.push(Arg {
+                name: a.name.as_ref().map(|n| n.name.clone()),
+                value,
+                span: a.span,
+            });
         }
         Ok(out)
     }
@@ -66,17 +74,25 @@ impl Ctx<'_> {
         match result {
             Ok(Ok(v)) => check_finite(v, b, span),
             Ok(Err(d)) => Err(d.into()),
-            Err(_) => Err(Diagnostic::error(span, format!("internal error in built-in `{}`", b.name))
-                .with_hint("this is a bug in siccant; please report it with the worksheet")
-                .into()),
+            Err(_) => Err(Diagnostic::error(
+                span,
+                format!("internal error in built-in `{}`", b.name),
+            )
+            .with_hint("this is a bug in siccant; please report it with the worksheet")
+            .into()),
         }
     }
 
     fn call_user(&mut self, callee: &Ident, args: &[CallArg], span: Span) -> Flow<Value> {
         let def = self.sheet.defs[&callee.name].clone();
         if self.depth >= self.limits.max_call_depth {
-            let msg = format!("calls nested deeper than {} levels", self.limits.max_call_depth);
-            return Err(Diagnostic::error(span, msg).with_hint("does the function call itself without end?").into());
+            let msg = format!(
+                "calls nested deeper than {} levels",
+                self.limits.max_call_depth
+            );
+            return Err(Diagnostic::error(span, msg)
+                .with_hint("does the function call itself without end?")
+                .into());
         }
         let values = self.arguments(args)?;
         let frame = bind_params(&callee.name, &def.params, values, span)?;
@@ -95,7 +111,10 @@ fn check_arg_names(b: &Builtin, args: &[CallArg]) -> Result<(), Diagnostic> {
     for a in args {
         let Some(n) = &a.name else { continue };
         if !names.contains(&n.name.as_str()) {
-            let mut d = Diagnostic::error(n.span, format!("`{}` has no argument named `{}`", b.name, n.name));
+            let mut d = Diagnostic::error(
+                n.span,
+                format!("`{}` has no argument named `{}`", b.name, n.name),
+            );
             if let Some(best) = closest(&n.name, &names) {
                 d = d.with_hint(format!("did you mean `{best}`?"));
             }
@@ -118,7 +137,12 @@ fn check_finite(v: Value, b: &Builtin, span: Span) -> Flow<Value> {
 }
 
 /// Bind arguments to a user function's parameters: positional, then by name.
-fn bind_params(name: &str, params: &[String], args: Vec<Arg>, span: Span) -> Result<HashMap<String, Value>, Diagnostic> {
+fn bind_params(
+    name: &str,
+    params: &[String],
+    args: Vec<Arg>,
+    span: Span,
+) -> Result<HashMap<String, Value>, Diagnostic> {
     let mut frame = HashMap::new();
     let mut next = 0;
     for a in args {
@@ -126,7 +150,8 @@ fn bind_params(name: &str, params: &[String], args: Vec<Arg>, span: Span) -> Res
             Some(n) if params.contains(n) => n.clone(),
             Some(n) => {
                 let names: Vec<&str> = params.iter().map(String::as_str).collect();
-                let mut d = Diagnostic::error(a.span, format!("`{name}` has no parameter named `{n}`"));
+                let mut d =
+                    Diagnostic::error(a.span, format!("`{name}` has no parameter named `{n}`"));
                 if let Some(best) = closest(n, &names) {
                     d = d.with_hint(format!("did you mean `{best}`?"));
                 }
@@ -141,12 +166,16 @@ fn bind_params(name: &str, params: &[String], args: Vec<Arg>, span: Span) -> Res
             }
         };
         if frame.insert(p.clone(), a.value).is_some() {
-            return Err(Diagnostic::error(a.span, format!("parameter `{p}` of `{name}` is given twice")));
+            return Err(Diagnostic::error(
+                a.span,
+                format!("parameter `{p}` of `{name}` is given twice"),
+            ));
         }
     }
     if let Some(missing) = params.iter().find(|p| !frame.contains_key(*p)) {
         let msg = format!("`{name}` needs the argument `{missing}`");
-        return Err(Diagnostic::error(span, msg).with_hint(format!("call it as {name}({})", params.join(", "))));
+        return Err(Diagnostic::error(span, msg)
+            .with_hint(format!("call it as {name}({})", params.join(", "))));
     }
     Ok(frame)
 }

@@ -63,7 +63,12 @@ pub struct Ctx<'a> {
 
 impl<'a> Ctx<'a> {
     /// A context evaluating `sheet`.
-    pub fn new(sheet: &'a mut Sheet, sources: &'a mut Sources, limits: &'a Limits, mode: Mode) -> Ctx<'a> {
+    pub fn new(
+        sheet: &'a mut Sheet,
+        sources: &'a mut Sources,
+        limits: &'a Limits,
+        mode: Mode,
+    ) -> Ctx<'a> {
         Ctx {
             sheet,
             sources,
@@ -84,8 +89,13 @@ impl<'a> Ctx<'a> {
     fn tick(&mut self, span: Span) -> Flow<()> {
         self.ops += 1;
         if self.ops > self.limits.max_operations {
-            let msg = format!("evaluation stopped after {} steps", self.limits.max_operations);
-            return Err(Diagnostic::error(span, msg).with_hint("is a function calling itself without end?").into());
+            let msg = format!(
+                "evaluation stopped after {} steps",
+                self.limits.max_operations
+            );
+            return Err(Diagnostic::error(span, msg)
+                .with_hint("is a function calling itself without end?")
+                .into());
         }
         if self.ops % 1024 == 0 && self.limits.interrupted() {
             return Err(Diagnostic::error(span, "interrupted").into());
@@ -113,7 +123,12 @@ impl<'a> Ctx<'a> {
         if self.failed.contains(name) {
             return Err(Stop::Reported);
         }
-        let def = self.sheet.defs.get(name).cloned().ok_or_else(|| self.undefined(name, use_span))?;
+        let def = self
+            .sheet
+            .defs
+            .get(name)
+            .cloned()
+            .ok_or_else(|| self.undefined(name, use_span))?;
         if def.kind == DefKind::Function {
             let msg = format!("`{name}` is a function; call it with arguments, e.g. `{name}(...)`");
             return Err(Diagnostic::error(use_span, msg).into());
@@ -122,7 +137,9 @@ impl<'a> Ctx<'a> {
             let chain = format!("{} -> {name}", self.active.join(" -> "));
             return Err(Diagnostic::error(use_span, format!("cycle: {chain}")).into());
         }
-        let overridden = (def.kind == DefKind::Input).then(|| self.sheet.overrides.get(name).cloned()).flatten();
+        let overridden = (def.kind == DefKind::Input)
+            .then(|| self.sheet.overrides.get(name).cloned())
+            .flatten();
         self.active.push(name.to_string());
         let saved = self.frame.take();
         let result = match overridden {
@@ -153,7 +170,9 @@ impl<'a> Ctx<'a> {
         if let Some(best) = closest(name, &names) {
             d = d.with_hint(format!("did you mean `{best}`?"));
         } else if lookup_unit(name).is_some() {
-            d = d.with_hint(format!("`{name}` is a unit; write a number before it, e.g. `1 {name}`"));
+            d = d.with_hint(format!(
+                "`{name}` is a unit; write a number before it, e.g. `1 {name}`"
+            ));
         }
         Stop::Error(d)
     }
@@ -166,7 +185,11 @@ impl<'a> Ctx<'a> {
             ExprKind::Bool(b) => Ok(Value::Bool(*b)),
             ExprKind::Str(s) => Ok(Value::Str(s.clone())),
             ExprKind::Name(n) => self.name(n, e.span),
-            ExprKind::List(items) => items.iter().map(|i| self.expr(i)).collect::<Flow<_>>().map(Value::List),
+            ExprKind::List(items) => items
+                .iter()
+                .map(|i| self.expr(i))
+                .collect::<Flow<_>>()
+                .map(Value::List),
             ExprKind::Record(fields) => self.record(fields),
             ExprKind::Unary(op, a) => self.unary(*op, a, e.span),
             ExprKind::Binary(op, a, b) => self.binary(*op, a, b, e.span),
@@ -229,7 +252,10 @@ impl<'a> Ctx<'a> {
         ops::binary(op, &x, &y).map_err(|e| {
             let mut d = op_error(e, span, a.span, b.span);
             if op == BinaryOp::Add && ops::is_absolute(&x) && ops::is_absolute(&y) {
-                d.hints.push((Some(b.span), "this is an absolute temperature too; use a difference such as `10 K`".into()));
+                d.hints.push((
+                    Some(b.span),
+                    "this is an absolute temperature too; use a difference such as `10 K`".into(),
+                ));
             }
             d.into()
         })
@@ -248,7 +274,10 @@ impl<'a> Ctx<'a> {
         match self.expr(e)? {
             Value::Bool(b) => Ok(b),
             other => {
-                let msg = format!("`{what}` needs a truth value (a comparison), found {}", type_word(&other));
+                let msg = format!(
+                    "`{what}` needs a truth value (a comparison), found {}",
+                    type_word(&other)
+                );
                 Err(Diagnostic::error(e.span, msg).into())
             }
         }
@@ -264,9 +293,16 @@ impl<'a> Ctx<'a> {
 
     fn field(&mut self, a: &Expr, field: &crate::syntax::Ident) -> Flow<Value> {
         match self.expr(a)? {
-            Value::Record(r) => r.get(&field.name).cloned().ok_or_else(|| no_field(&r, field).into()),
+            Value::Record(r) => r
+                .get(&field.name)
+                .cloned()
+                .ok_or_else(|| no_field(&r, field).into()),
             other => {
-                let msg = format!("`.{}` reads a field of a record, but this is {}", field.name, type_word(&other));
+                let msg = format!(
+                    "`.{}` reads a field of a record, but this is {}",
+                    field.name,
+                    type_word(&other)
+                );
                 Err(Diagnostic::error(a.span, msg).into())
             }
         }
@@ -298,14 +334,24 @@ fn show_in(v: Value, unit: &Unit) -> Result<Value, String> {
             unit.from_si(&q).map_err(|e| e.message)?;
             Ok(Value::Quantity(q, Some(unit.clone())))
         }
-        Value::List(items) => items.into_iter().map(|i| show_in(i, unit)).collect::<Result<_, _>>().map(Value::List),
-        other => Err(format!("`as` shows a quantity in a unit, but this is {}", type_word(&other))),
+        Value::List(items) => items
+            .into_iter()
+            .map(|i| show_in(i, unit))
+            .collect::<Result<_, _>>()
+            .map(Value::List),
+        other => Err(format!(
+            "`as` shows a quantity in a unit, but this is {}",
+            type_word(&other)
+        )),
     }
 }
 
 fn no_field(r: &Record, field: &crate::syntax::Ident) -> Diagnostic {
     let names: Vec<&str> = r.fields.iter().map(|(n, _)| n.as_str()).collect();
-    let mut d = Diagnostic::error(field.span, format!("{} has no field `{}`", record_word(r), field.name));
+    let mut d = Diagnostic::error(
+        field.span,
+        format!("{} has no field `{}`", record_word(r), field.name),
+    );
     if let Some(best) = closest(&field.name, &names) {
         d = d.with_hint(format!("did you mean `{best}`?"));
     }
@@ -325,8 +371,10 @@ fn record_word(r: &Record) -> String {
 fn op_error(e: OpError, span: Span, a: Span, b: Span) -> Diagnostic {
     let mut d = Diagnostic::error(span, e.message);
     if let Some((da, db)) = e.dims {
-        d.hints.push((Some(a), format!("this is {}", dim_words(da))));
-        d.hints.push((Some(b), format!("this is {}", dim_words(db))));
+        d.hints
+            .push((Some(a), format!("this is {}", dim_words(da))));
+        d.hints
+            .push((Some(b), format!("this is {}", dim_words(db))));
     }
     for h in e.hints {
         d.hints.push((None, h));

@@ -61,7 +61,8 @@ pub fn cycles(names: &[String], deps: &HashMap<String, Vec<String>>) -> Vec<Vec<
                     }
                     Some(Mark::Active) => {
                         let from = path.iter().position(|(n, _)| *n == dep).unwrap_or(0);
-                        let mut cycle: Vec<String> = path[from..].iter().map(|(n, _)| n.to_string()).collect();
+                        let mut cycle: Vec<String> =
+                            path[from..].iter().map(|(n, _)| n.to_string()).collect();
                         cycle.push(dep.clone());
                         found.push(cycle);
                     }

@@ -40,12 +40,18 @@ pub fn run_statements(ctx: &mut Ctx, stmts: &[Stmt]) -> Vec<OutputItem> {
         let item = match &stmt.kind {
             StmtKind::Binding { name, .. } | StmtKind::Input { name, .. } => ctx
                 .force(&name.name, name.span)
-                .map(|value| OutputItem::Value { name: Some(name.name.clone()), value }),
+                .map(|value| OutputItem::Value {
+                    name: Some(name.name.clone()),
+                    value,
+                }),
             StmtKind::Function { .. } => continue,
-            StmtKind::Show(e) => ctx.expr(e).map(|value| OutputItem::Value { name: None, value }),
-            StmtKind::Check(e) => ctx
-                .truth(e, "check")
-                .map(|passed| OutputItem::Check { text: ctx.sources.slice(e.span).to_string(), passed }),
+            StmtKind::Show(e) => ctx
+                .expr(e)
+                .map(|value| OutputItem::Value { name: None, value }),
+            StmtKind::Check(e) => ctx.truth(e, "check").map(|passed| OutputItem::Check {
+                text: ctx.sources.slice(e.span).to_string(),
+                passed,
+            }),
         };
         match item {
             Ok(i) => items.push(i),

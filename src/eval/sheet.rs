@@ -52,7 +52,10 @@ pub struct Sheet {
 impl Sheet {
     /// An empty sheet whose loads are relative to `dir`.
     pub fn new(dir: PathBuf) -> Sheet {
-        Sheet { dir, ..Sheet::default() }
+        Sheet {
+            dir,
+            ..Sheet::default()
+        }
     }
 
     /// Add the definitions in `stmts`. With `strict`, redefining a name that
@@ -64,7 +67,9 @@ impl Sheet {
         let mut seen: HashMap<&str, Span> = HashMap::new();
         let mut new_defs = Vec::new();
         for stmt in stmts {
-            let Some(def) = definition(stmt) else { continue };
+            let Some(def) = definition(stmt) else {
+                continue;
+            };
             let earlier = seen.get(def.name.name.as_str()).copied().or_else(|| {
                 if strict {
                     self.defs.get(&def.name.name).map(|d| d.name.span)
@@ -76,7 +81,10 @@ impl Sheet {
                 errors.push(duplicate(&def.name, first));
                 continue;
             }
-            seen.insert(&stmt.defined_name().map_or("", |n| n.name.as_str()), def.name.span);
+            seen.insert(
+                stmt.defined_name().map_or("", |n| n.name.as_str()),
+                def.name.span,
+            );
             new_defs.push(def);
         }
         if !errors.is_empty() {
@@ -100,14 +108,28 @@ impl Sheet {
     }
 
     fn cycle_errors(&self, new: &[String]) -> Vec<Diagnostic> {
-        let deps: HashMap<String, Vec<String>> =
-            self.defs.iter().map(|(n, d)| (n.clone(), d.deps.iter().filter(|x| self.defs.contains_key(*x)).cloned().collect())).collect();
+        let deps: HashMap<String, Vec<String>> = self
+            .defs
+            .iter()
+            .map(|(n, d)| {
+                (
+                    n.clone(),
+                    d.deps
+                        .iter()
+                        .filter(|x| self.defs.contains_key(*x))
+                        .cloned()
+                        .collect(),
+                )
+            })
+            .collect();
         let mut out = Vec::new();
         for cycle in graph::cycles(&self.order, &deps) {
             if !cycle.iter().any(|n| new.contains(n)) {
                 continue;
             }
-            let Some(first) = self.defs.get(&cycle[0]) else { continue };
+            let Some(first) = self.defs.get(&cycle[0]) else {
+                continue;
+            };
             let msg = if cycle.len() == 2 {
                 format!("`{}` depends on itself", cycle[0])
             } else {
@@ -125,7 +147,9 @@ impl Sheet {
             let more: Vec<String> = self
                 .defs
                 .values()
-                .filter(|d| !dirty.contains(&d.name.name) && d.deps.iter().any(|x| dirty.contains(x)))
+                .filter(|d| {
+                    !dirty.contains(&d.name.name) && d.deps.iter().any(|x| dirty.contains(x))
+                })
                 .map(|d| d.name.name.clone())
                 .collect();
             if more.is_empty() {
@@ -138,7 +162,11 @@ impl Sheet {
 
     /// Names of the inputs, in definition order.
     pub fn inputs(&self) -> Vec<&str> {
-        self.order.iter().filter(|n| self.defs.get(*n).is_some_and(|d| d.kind == DefKind::Input)).map(String::as_str).collect()
+        self.order
+            .iter()
+            .filter(|n| self.defs.get(*n).is_some_and(|d| d.kind == DefKind::Input))
+            .map(String::as_str)
+            .collect()
     }
 }
 
@@ -153,11 +181,21 @@ pub fn definition(stmt: &Stmt) -> Option<Def> {
     let (name, kind, params, expr) = match &stmt.kind {
         StmtKind::Binding { name, expr } => (name, DefKind::Value, Vec::new(), expr),
         StmtKind::Input { name, expr } => (name, DefKind::Input, Vec::new(), expr),
-        StmtKind::Function { name, params, body } => {
-            (name, DefKind::Function, params.iter().map(|p| p.name.clone()).collect(), body)
-        }
+        StmtKind::Function { name, params, body } => (
+            name,
+            DefKind::Function,
+            params.iter().map(|p| p.name.clone()).collect(),
+            body,
+        ),
         StmtKind::Check(_) | StmtKind::Show(_) => return None,
     };
     let deps = graph::dependencies(expr, &params);
-    Some(Def { name: name.clone(), kind, params, expr: Arc::new(expr.clone()), deps, span: stmt.span })
+    Some(Def {
+        name: name.clone(),
+        kind,
+        params,
+        expr: Arc::new(expr.clone()),
+        deps,
+        span: stmt.span,
+    })
 }

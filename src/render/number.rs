@@ -5,9 +5,7 @@
 //! Formatting goes through Rust's correctly rounded `{:.N}` / `{:.Ne}`
 //! formatting, so the same number always prints the same text on every platform.
 
-use crate::units::{Dim, Kind, Quantity, Unit};
-
-use super::error::RenderError;
+use crate::units::{Dim, Quantity, Unit};
 
 /// Significant figures shown in tables and records.
 pub const SIG_FIGS: usize = 4;
@@ -119,60 +117,25 @@ fn trim_zeros(text: String) -> String {
     format!("{trimmed}{exponent}")
 }
 
-/// The number a quantity shows in `unit`.
-///
-/// Absolute temperatures use the unit's offset; temperature differences and
-/// plain kelvin values do not. Moisture shown in `wb` is converted from the dry
-/// basis, X/(1+X). Errors when the dimensions differ.
+/// The number a quantity shows in `unit` (see [`Unit::from_si`]): absolute
+/// temperatures use the unit's offset, wet-basis moisture is converted from
+/// the dry basis; an error names a dimension or kind that does not fit.
 pub fn in_unit(q: &Quantity, unit: &Unit) -> Result<f64, String> {
-    if q.dim != unit.dim {
-        return Err(format!("{} cannot be shown in {}", dim_words(q.dim), unit.symbol));
-    }
-    if q.kind == Kind::Moisture && unit.symbol == "wb" {
-        return Ok(q.si / (1.0 + q.si));
-    }
-    let offset = if q.kind == Kind::AbsoluteTemperature { unit.offset } else { 0.0 };
-    Ok((q.si - offset) / unit.factor)
+    unit.from_si(q).map_err(|e| e.message)
 }
 
-/// The unit a quantity is shown in when none was chosen: its own `as` unit,
-/// else the coherent SI unit of its dimension.
+/// The unit a quantity is shown in: its own `as` unit when that fits, else
+/// the default unit of its kind and dimension (degC, db, kg/kg_da, kPa...).
 pub fn default_unit(q: &Quantity, shown: Option<&Unit>) -> Unit {
     match shown {
-        Some(u) if u.dim == q.dim => u.clone(),
-        _ => si_unit(q.dim, q.kind),
+        Some(u) if u.from_si(q).is_ok() => u.clone(),
+        _ => crate::units::default_unit(q),
     }
-}
-
-/// The coherent SI unit of a dimension, named for the kind of a dimensionless ratio.
-pub fn si_unit(dim: Dim, kind: Kind) -> Unit {
-    let symbol = match (dim.is_dimensionless(), kind) {
-        (true, Kind::Moisture) => "kg/kg_db".to_string(),
-        (true, Kind::HumidityRatio) => "kg/kg_da".to_string(),
-        (true, _) => String::new(),
-        (false, _) => dim.si_unit(),
-    };
-    Unit { symbol, factor: 1.0, offset: 0.0, dim, kind }
 }
 
 /// A dimension in words with its SI unit, for messages: `time [s]`.
 pub fn dim_words(dim: Dim) -> String {
-    if dim.is_dimensionless() {
-        "a dimensionless number".to_string()
-    } else {
-        format!("{} [{}]", crate::units::describe_dim(dim), dim.si_unit())
-    }
-}
-
-/// A quantity as text with its unit, `sig` significant figures: `61.2 degC`.
-pub fn quantity_text(q: &Quantity, shown: Option<&Unit>, sig: usize) -> Result<String, RenderError> {
-    let unit = default_unit(q, shown);
-    let x = in_unit(q, &unit).map_err(RenderError::Invalid)?;
-    if !x.is_finite() {
-        return Err(RenderError::NotFinite { what: "the value".into() });
-    }
-    let number = format_sig(x, sig);
-    Ok(if unit.symbol.is_empty() { number } else { format!("{number} {}", unit.symbol) })
+    crate::units::describe_dim_with_si(dim)
 }
 
 #[cfg(test)]
@@ -218,16 +181,18 @@ mod tests {
 
     #[test]
     fn absolute_temperature_uses_offset_difference_does_not() {
-        let degc = Unit { symbol: "degC".into(), factor: 1.0, offset: 273.15, dim: Dim::TEMPERATURE, kind: Kind::AbsoluteTemperature };
+        use crate::units::{lookup_unit, Kind};
+        let degc = lookup_unit("degC").unwrap();
         let abs = Quantity { si: 353.15, dim: Dim::TEMPERATURE, kind: Kind::AbsoluteTemperature };
-        let diff = Quantity { si: 10.0, dim: Dim::TEMPERATURE, kind: Kind::Plain };
+        let diff = Quantity { si: 10.0, dim: Dim::TEMPERATURE, kind: Kind::TemperatureDifference };
         assert!((in_unit(&abs, &degc).unwrap() - 80.0).abs() < 1e-9);
-        assert_eq!(in_unit(&diff, &degc).unwrap(), 10.0);
+        assert!(in_unit(&diff, &degc).is_err());
+        assert_eq!(in_unit(&diff, &lookup_unit("K").unwrap()).unwrap(), 10.0);
     }
 
     #[test]
     fn wrong_dimension_is_an_error() {
-        let q = Quantity { si: 1.0, dim: Dim::TIME, kind: Kind::Plain };
-        assert!(in_unit(&q, &si_unit(Dim::LENGTH, Kind::Plain)).is_err());
+        let q = Quantity::new(1.0, Dim::TIME, crate::units::Kind::Plain);
+        assert!(in_unit(&q, &crate::units::lookup_unit("m").unwrap()).is_err());
     }
 }

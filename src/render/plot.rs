@@ -52,6 +52,9 @@ impl Axis {
     }
 
     fn number(&mut self, series: &str, q: &Quantity, shown: Option<&Unit>) -> Result<f64, RenderError> {
+        if !q.si.is_finite() {
+            return Err(RenderError::NotFinite { what: format!("a {} value of `{series}`", self.which) });
+        }
         let unit = self.unit.get_or_insert_with(|| default_unit(q, shown));
         if unit.dim != q.dim {
             return Err(RenderError::AxisUnits {

@@ -128,6 +128,9 @@ fn cell_value(column: &Column, row: usize, cell: &Value, unit: Option<&Unit>) ->
 }
 
 fn quantity_cell(column: &Column, row: usize, q: &Quantity, unit: &Unit) -> Result<Cell, RenderError> {
+    if !q.si.is_finite() {
+        return finite(column, row, q.si);
+    }
     if q.dim != unit.dim {
         return Err(RenderError::CellUnit {
             column: column.name.clone(),

@@ -18,8 +18,11 @@ pub const MAX_CHAIN: usize = 256;
 /// Parse one statement chunk starting at byte `offset` of file `file`.
 pub fn parse_statement(text: &str, offset: usize, file: u32) -> Result<Option<Stmt>, Diagnostic> {
     let lower = Lower { offset, file };
-    let mut pairs = WorksheetParser::parse(Rule::statement_line, text).map_err(|e| lower.parse_error(e, text))?;
-    let line = pairs.next().ok_or_else(|| Diagnostic::error(lower.at(0, text.len()), "empty statement"))?;
+    let mut pairs = WorksheetParser::parse(Rule::statement_line, text)
+        .map_err(|e| lower.parse_error(e, text))?;
+    let line = pairs
+        .next()
+        .ok_or_else(|| Diagnostic::error(lower.at(0, text.len()), "empty statement"))?;
     match line.into_inner().find(|p| p.as_rule() != Rule::EOI) {
         Some(stmt) => lower.statement(stmt).map(Some),
         None => Ok(None),
@@ -35,7 +38,11 @@ type Lowered<T> = Result<T, Diagnostic>;
 
 impl Lower {
     fn at(&self, start: usize, end: usize) -> Span {
-        Span { file: self.file, start: (self.offset + start) as u32, end: (self.offset + end) as u32 }
+        Span {
+            file: self.file,
+            start: (self.offset + start) as u32,
+            end: (self.offset + end) as u32,
+        }
     }
 
     fn span(&self, pair: &Pair<Rule>) -> Span {
@@ -64,16 +71,24 @@ impl Lower {
     fn statement(&self, pair: Pair<Rule>) -> Lowered<Stmt> {
         let span = self.span(&pair);
         let rule = pair.as_rule();
-        let mut inner = pair.into_inner().filter(|p| !matches!(p.as_rule(), Rule::kw_input | Rule::kw_check));
+        let mut inner = pair
+            .into_inner()
+            .filter(|p| !matches!(p.as_rule(), Rule::kw_input | Rule::kw_check));
         let kind = match rule {
             Rule::input_stmt => {
                 let name = self.ident(next(&mut inner)?);
-                StmtKind::Input { name, expr: self.expr(next(&mut inner)?)? }
+                StmtKind::Input {
+                    name,
+                    expr: self.expr(next(&mut inner)?)?,
+                }
             }
             Rule::check_stmt => StmtKind::Check(self.expr(next(&mut inner)?)?),
             Rule::binding => {
                 let name = self.ident(next(&mut inner)?);
-                StmtKind::Binding { name, expr: self.expr(next(&mut inner)?)? }
+                StmtKind::Binding {
+                    name,
+                    expr: self.expr(next(&mut inner)?)?,
+                }
             }
             Rule::function_def => self.function_def(inner.collect())?,
             _ => StmtKind::Show(self.expr(next(&mut inner)?)?),
@@ -97,7 +112,10 @@ impl Lower {
     }
 
     fn ident(&self, pair: Pair<Rule>) -> Ident {
-        Ident { name: pair.as_str().to_string(), span: self.span(&pair) }
+        Ident {
+            name: pair.as_str().to_string(),
+            span: self.span(&pair),
+        }
     }
 
     /// Lower any expression-level pair.
@@ -105,24 +123,44 @@ impl Lower {
         let span = self.span(&pair);
         match pair.as_rule() {
             Rule::expr => self.as_expr(pair),
-            Rule::disjunction | Rule::conjunction | Rule::comparison | Rule::sum | Rule::product => {
-                self.chain(pair)
-            }
+            Rule::disjunction
+            | Rule::conjunction
+            | Rule::comparison
+            | Rule::sum
+            | Rule::product => self.chain(pair),
             Rule::negation | Rule::unary => self.prefixed(pair),
             Rule::power => self.power(pair),
             Rule::postfix => self.postfix(pair),
             Rule::group => self.expr(first(pair)?),
             Rule::quantity => self.quantity(pair),
-            Rule::string => Ok(Expr { kind: ExprKind::Str(unescape(first(pair)?.as_str())), span }),
-            Rule::boolean => Ok(Expr { kind: ExprKind::Bool(pair.as_str() == "true"), span }),
-            Rule::name => Ok(Expr { kind: ExprKind::Name(pair.as_str().to_string()), span }),
+            Rule::string => Ok(Expr {
+                kind: ExprKind::Str(unescape(first(pair)?.as_str())),
+                span,
+            }),
+            Rule::boolean => Ok(Expr {
+                kind: ExprKind::Bool(pair.as_str() == "true"),
+                span,
+            }),
+            Rule::name => Ok(Expr {
+                kind: ExprKind::Name(pair.as_str().to_string()),
+                span,
+            }),
             Rule::list => {
-                let items = pair.into_inner().map(|p| self.expr(p)).collect::<Lowered<Vec<_>>>()?;
-                Ok(Expr { kind: ExprKind::List(items), span })
+                let items = pair
+                    .into_inner()
+                    .map(|p| self.expr(p))
+                    .collect::<Lowered<Vec<_>>>()?;
+                Ok(Expr {
+                    kind: ExprKind::List(items),
+                    span,
+                })
             }
             Rule::record => self.record(pair),
             Rule::if_expr => self.if_expr(pair),
-            other => Err(Diagnostic::error(span, format!("internal: unexpected {other:?} in an expression"))),
+            other => Err(Diagnostic::error(
+                span,
+                format!("internal: unexpected {other:?} in an expression"),
+            )),
         }
     }
 
@@ -132,7 +170,10 @@ impl Lower {
         let value = self.expr(next(&mut inner)?)?;
         let _kw = inner.next();
         match inner.next() {
-            Some(unit) => Ok(Expr { kind: ExprKind::As(Box::new(value), self.unit(unit)?), span }),
+            Some(unit) => Ok(Expr {
+                kind: ExprKind::As(Box::new(value), self.unit(unit)?),
+                span,
+            }),
             None => Ok(value),
         }
     }
@@ -146,12 +187,22 @@ impl Lower {
         while let Some(op) = inner.next() {
             count += 1;
             if count > MAX_CHAIN {
-                return Err(Diagnostic::error(span, format!("more than {MAX_CHAIN} terms in one expression"))
-                    .with_hint("split it into named values"));
+                return Err(Diagnostic::error(
+                    span,
+                    format!("more than {MAX_CHAIN} terms in one expression"),
+                )
+                .with_hint("split it into named values"));
             }
             let rhs = self.expr(next(&mut inner)?)?;
-            let s = Span { file: self.file, start: acc.span.start, end: rhs.span.end };
-            acc = Expr { kind: ExprKind::Binary(binary_op(op.as_str()), Box::new(acc), Box::new(rhs)), span: s };
+            let s = Span {
+                file: self.file,
+                start: acc.span.start,
+                end: rhs.span.end,
+            };
+            acc = Expr {
+                kind: ExprKind::Binary(binary_op(op.as_str()), Box::new(acc), Box::new(rhs)),
+                span: s,
+            };
         }
         Ok(acc)
     }
@@ -167,13 +218,20 @@ impl Lower {
                 _ => operand = Some(self.expr(p)?),
             }
         }
-        let mut acc = operand.ok_or_else(|| Diagnostic::error(self.at(0, 0), "operator without operand"))?;
+        let mut acc =
+            operand.ok_or_else(|| Diagnostic::error(self.at(0, 0), "operator without operand"))?;
         if ops.len() > MAX_CHAIN {
             return Err(Diagnostic::error(acc.span, "too many prefix operators"));
         }
         for (op, s) in ops.into_iter().rev() {
-            let span = Span { end: acc.span.end, ..s };
-            acc = Expr { kind: ExprKind::Unary(op, Box::new(acc)), span };
+            let span = Span {
+                end: acc.span.end,
+                ..s
+            };
+            acc = Expr {
+                kind: ExprKind::Unary(op, Box::new(acc)),
+                span,
+            };
         }
         Ok(acc)
     }
@@ -186,7 +244,10 @@ impl Lower {
         match inner.next() {
             Some(exp) => {
                 let exp = self.expr(exp)?;
-                Ok(Expr { kind: ExprKind::Binary(BinaryOp::Pow, Box::new(base), Box::new(exp)), span })
+                Ok(Expr {
+                    kind: ExprKind::Binary(BinaryOp::Pow, Box::new(base), Box::new(exp)),
+                    span,
+                })
             }
             None => Ok(base),
         }
@@ -197,9 +258,15 @@ impl Lower {
         let mut inner = pair.into_inner();
         let mut acc = self.expr(next(&mut inner)?)?;
         for p in inner {
-            let span = Span { end: self.span(&p).end, ..start };
+            let span = Span {
+                end: self.span(&p).end,
+                ..start
+            };
             acc = match p.as_rule() {
-                Rule::field => Expr { kind: ExprKind::Field(Box::new(acc), self.ident(first(p)?)), span },
+                Rule::field => Expr {
+                    kind: ExprKind::Field(Box::new(acc), self.ident(first(p)?)),
+                    span,
+                },
                 _ => self.call(acc, p, span)?,
             };
         }
@@ -208,14 +275,25 @@ impl Lower {
 
     fn call(&self, callee: Expr, args: Pair<Rule>, span: Span) -> Lowered<Expr> {
         let callee = match callee.kind {
-            ExprKind::Name(name) => Ident { name, span: callee.span },
+            ExprKind::Name(name) => Ident {
+                name,
+                span: callee.span,
+            },
             _ => {
-                return Err(Diagnostic::error(callee.span, "only a named function can be called")
-                    .with_hint("write `name(arguments)`, e.g. `sqrt(x)`"))
+                return Err(
+                    Diagnostic::error(callee.span, "only a named function can be called")
+                        .with_hint("write `name(arguments)`, e.g. `sqrt(x)`"),
+                )
             }
         };
-        let args = args.into_inner().map(|a| self.call_arg(a)).collect::<Lowered<Vec<_>>>()?;
-        Ok(Expr { kind: ExprKind::Call { callee, args }, span })
+        let args = args
+            .into_inner()
+            .map(|a| self.call_arg(a))
+            .collect::<Lowered<Vec<_>>>()?;
+        Ok(Expr {
+            kind: ExprKind::Call { callee, args },
+            span,
+        })
     }
 
     fn call_arg(&self, pair: Pair<Rule>) -> Lowered<CallArg> {
@@ -225,9 +303,17 @@ impl Lower {
             let mut parts = inner.into_inner();
             let name = self.ident(next(&mut parts)?);
             let value = self.expr(next(&mut parts)?)?;
-            return Ok(CallArg { name: Some(name), value, span });
+            return Ok(CallArg {
+                name: Some(name),
+                value,
+                span,
+            });
         }
-        Ok(CallArg { name: None, value: self.expr(inner)?, span })
+        Ok(CallArg {
+            name: None,
+            value: self.expr(inner)?,
+            span,
+        })
     }
 
     fn record(&self, pair: Pair<Rule>) -> Lowered<Expr> {
@@ -237,20 +323,31 @@ impl Lower {
             let mut parts = f.into_inner();
             let name = self.ident(next(&mut parts)?);
             if fields.iter().any(|(n, _)| n.name == name.name) {
-                return Err(Diagnostic::error(name.span, format!("field `{}` is given twice", name.name)));
+                return Err(Diagnostic::error(
+                    name.span,
+                    format!("field `{}` is given twice", name.name),
+                ));
             }
             fields.push((name, self.expr(next(&mut parts)?)?));
         }
-        Ok(Expr { kind: ExprKind::Record(fields), span })
+        Ok(Expr {
+            kind: ExprKind::Record(fields),
+            span,
+        })
     }
 
     fn if_expr(&self, pair: Pair<Rule>) -> Lowered<Expr> {
         let span = self.span(&pair);
-        let mut parts = pair.into_inner().filter(|p| !matches!(p.as_rule(), Rule::kw_if | Rule::kw_then | Rule::kw_else));
+        let mut parts = pair
+            .into_inner()
+            .filter(|p| !matches!(p.as_rule(), Rule::kw_if | Rule::kw_then | Rule::kw_else));
         let c = self.expr(next(&mut parts)?)?;
         let a = self.expr(next(&mut parts)?)?;
         let b = self.expr(next(&mut parts)?)?;
-        Ok(Expr { kind: ExprKind::If(Box::new(c), Box::new(a), Box::new(b)), span })
+        Ok(Expr {
+            kind: ExprKind::If(Box::new(c), Box::new(a), Box::new(b)),
+            span,
+        })
     }
 
     fn quantity(&self, pair: Pair<Rule>) -> Lowered<Expr> {
@@ -259,16 +356,24 @@ impl Lower {
         let number = next(&mut inner)?;
         let value = self.number(&number)?;
         let unit = inner.next().map(|u| self.unit(u)).transpose()?;
-        Ok(Expr { kind: ExprKind::Quantity { value, unit }, span })
+        Ok(Expr {
+            kind: ExprKind::Quantity { value, unit },
+            span,
+        })
     }
 
     fn number(&self, pair: &Pair<Rule>) -> Lowered<f64> {
         let text = pair.as_str();
         match text.parse::<f64>() {
             Ok(x) if x.is_finite() => Ok(x),
-            Ok(_) => Err(Diagnostic::error(self.span(pair), format!("number `{text}` is too large"))),
-            Err(_) => Err(Diagnostic::error(self.span(pair), format!("malformed number `{text}`"))
-                .with_hint("write numbers like `12`, `0.5`, `1.5e-3`")),
+            Ok(_) => Err(Diagnostic::error(
+                self.span(pair),
+                format!("number `{text}` is too large"),
+            )),
+            Err(_) => Err(
+                Diagnostic::error(self.span(pair), format!("malformed number `{text}`"))
+                    .with_hint("write numbers like `12`, `0.5`, `1.5e-3`"),
+            ),
         }
     }
 
@@ -278,7 +383,10 @@ impl Lower {
         match pair.as_rule() {
             Rule::unit | Rule::unit_inner => self.unit_chain(pair),
             Rule::unit_group => self.unit(first(pair)?),
-            Rule::unit_name => Ok(UnitExpr { kind: UnitKind::Name(pair.as_str().to_string()), span }),
+            Rule::unit_name => Ok(UnitExpr {
+                kind: UnitKind::Name(pair.as_str().to_string()),
+                span,
+            }),
             Rule::unit_factor => {
                 let mut inner = pair.into_inner();
                 let base = self.unit(next(&mut inner)?)?;
@@ -286,14 +394,23 @@ impl Lower {
                     Some(pow) => {
                         let exp = first(pow)?;
                         let n: i32 = exp.as_str().parse().map_err(|_| {
-                            Diagnostic::error(self.span(&exp), format!("exponent `{}` is too large", exp.as_str()))
+                            Diagnostic::error(
+                                self.span(&exp),
+                                format!("exponent `{}` is too large", exp.as_str()),
+                            )
                         })?;
-                        Ok(UnitExpr { kind: UnitKind::Pow(Box::new(base), n), span })
+                        Ok(UnitExpr {
+                            kind: UnitKind::Pow(Box::new(base), n),
+                            span,
+                        })
                     }
                     None => Ok(base),
                 }
             }
-            other => Err(Diagnostic::error(span, format!("internal: unexpected {other:?} in a unit"))),
+            other => Err(Diagnostic::error(
+                span,
+                format!("internal: unexpected {other:?} in a unit"),
+            )),
         }
     }
 
@@ -302,7 +419,11 @@ impl Lower {
         let mut acc = self.unit(next(&mut inner)?)?;
         while let Some(op) = inner.next() {
             let rhs = self.unit(next(&mut inner)?)?;
-            let span = Span { file: self.file, start: acc.span.start, end: rhs.span.end };
+            let span = Span {
+                file: self.file,
+                start: acc.span.start,
+                end: rhs.span.end,
+            };
             let kind = if op.as_str() == "*" {
                 UnitKind::Mul(Box::new(acc), Box::new(rhs))
             } else {
@@ -315,7 +436,8 @@ impl Lower {
 }
 
 fn next<'i>(it: &mut impl Iterator<Item = Pair<'i, Rule>>) -> Lowered<Pair<'i, Rule>> {
-    it.next().ok_or_else(|| Diagnostic::error(Span::default(), "internal: parse tree is missing a part"))
+    it.next()
+        .ok_or_else(|| Diagnostic::error(Span::default(), "internal: parse tree is missing a part"))
 }
 
 fn first(pair: Pair<Rule>) -> Lowered<Pair<Rule>> {
@@ -361,11 +483,18 @@ fn unescape(s: &str) -> String {
 fn found_token(text: &str, pos: usize) -> String {
     let rest = text.get(pos..).unwrap_or("");
     let rest = rest.split('#').next().unwrap_or("");
-    let word: String = rest.chars().take_while(|c| c.is_alphanumeric() || *c == '_' || *c == '.').collect();
+    let word: String = rest
+        .chars()
+        .take_while(|c| c.is_alphanumeric() || *c == '_' || *c == '.')
+        .collect();
     if !word.is_empty() {
         return word;
     }
-    rest.chars().next().filter(|c| !c.is_whitespace()).map(String::from).unwrap_or_default()
+    rest.chars()
+        .next()
+        .filter(|c| !c.is_whitespace())
+        .map(String::from)
+        .unwrap_or_default()
 }
 
 /// Human names of grammar rules, for "expected ..." messages.
@@ -374,8 +503,9 @@ fn rule_name(rule: Rule) -> &'static str {
     match rule {
         EOI => "the end of the line",
         ident | name | params => "a name",
-        expr | disjunction | conjunction | negation | comparison | sum | product | unary | power | postfix
-        | quantity | number | group | list | record | boolean | if_expr | string => "a value",
+        expr | disjunction | conjunction | negation | comparison | sum | product | unary
+        | power | postfix | quantity | number | group | list | record | boolean | if_expr
+        | string => "a value",
         cmp_op | add_op | mul_op | op_pow | op_and | op_or => "an operator",
         call_args => "`(`",
         field => "`.`",
@@ -403,7 +533,11 @@ fn expected_message(positives: &[Rule], found: &str) -> String {
     let expected = match names.len() {
         0 => String::new(),
         1 => names[0].to_string(),
-        _ => format!("{} or {}", names[..names.len() - 1].join(", "), names[names.len() - 1]),
+        _ => format!(
+            "{} or {}",
+            names[..names.len() - 1].join(", "),
+            names[names.len() - 1]
+        ),
     };
     match (expected.is_empty(), found.is_empty()) {
         (true, true) => "unexpected end of the line".into(),
@@ -421,7 +555,9 @@ fn parse_hint(text: &str, pos: usize) -> Option<String> {
         return Some("to compare, write `==`; to define a name, put it alone left of `=`".into());
     }
     if before.ends_with(['*', '/']) || rest.starts_with(['*', '/']) {
-        return Some("write compound units without spaces, e.g. `14 kg/m^2`, or in parentheses".into());
+        return Some(
+            "write compound units without spaces, e.g. `14 kg/m^2`, or in parentheses".into(),
+        );
     }
     if let Some(first) = rest.chars().next() {
         if first.is_alphabetic() && before.chars().last().is_some_and(|c| c.is_alphanumeric()) {

@@ -41,9 +41,22 @@ pub fn parse_expr(text: &str, file: u32) -> Result<Expr, Vec<Diagnostic>> {
         return Err(errors);
     }
     match stmts.into_iter().next() {
-        Some(Stmt { kind: StmtKind::Show(e), .. }) => Ok(e),
-        Some(s) => Err(vec![Diagnostic::error(s.span, "expected a value here, not a statement")]),
-        None => Err(vec![Diagnostic::error(Span { file, start: 0, end: 0 }, "expected a value, found nothing")]),
+        Some(Stmt {
+            kind: StmtKind::Show(e),
+            ..
+        }) => Ok(e),
+        Some(s) => Err(vec![Diagnostic::error(
+            s.span,
+            "expected a value here, not a statement",
+        )]),
+        None => Err(vec![Diagnostic::error(
+            Span {
+                file,
+                start: 0,
+                end: 0,
+            },
+            "expected a value, found nothing",
+        )]),
     }
 }
 
@@ -51,14 +64,20 @@ pub fn parse_expr(text: &str, file: u32) -> Result<Expr, Vec<Diagnostic>> {
 /// itself cannot overflow the stack).
 fn check_depth(stmt: &Stmt) -> Result<(), Diagnostic> {
     let root = match &stmt.kind {
-        StmtKind::Binding { expr, .. } | StmtKind::Input { expr, .. } | StmtKind::Check(expr) | StmtKind::Show(expr) => expr,
+        StmtKind::Binding { expr, .. }
+        | StmtKind::Input { expr, .. }
+        | StmtKind::Check(expr)
+        | StmtKind::Show(expr) => expr,
         StmtKind::Function { body, .. } => body,
     };
     let mut stack = vec![(root, 1usize)];
     while let Some((e, d)) = stack.pop() {
         if d > MAX_DEPTH {
-            return Err(Diagnostic::error(e.span, format!("expression nested deeper than {MAX_DEPTH} levels"))
-                .with_hint("split it into named values"));
+            return Err(Diagnostic::error(
+                e.span,
+                format!("expression nested deeper than {MAX_DEPTH} levels"),
+            )
+            .with_hint("split it into named values"));
         }
         for child in children(e) {
             stack.push((child, d + 1));
@@ -70,7 +89,9 @@ fn check_depth(stmt: &Stmt) -> Result<(), Diagnostic> {
 /// The direct sub-expressions of an expression.
 pub fn children(e: &Expr) -> Vec<&Expr> {
     match &e.kind {
-        ExprKind::Quantity { .. } | ExprKind::Bool(_) | ExprKind::Str(_) | ExprKind::Name(_) => vec![],
+        ExprKind::Quantity { .. } | ExprKind::Bool(_) | ExprKind::Str(_) | ExprKind::Name(_) => {
+            vec![]
+        }
         ExprKind::List(items) => items.iter().collect(),
         ExprKind::Record(fields) => fields.iter().map(|(_, e)| e).collect(),
         ExprKind::Unary(_, a) | ExprKind::Field(a, _) | ExprKind::As(a, _) => vec![a],

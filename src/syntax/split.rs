@@ -51,7 +51,11 @@ pub fn scan(text: &str, file: u32) -> Scan {
 
 impl Scanner<'_> {
     fn span(&self, start: usize, end: usize) -> Span {
-        Span { file: self.file, start: start as u32, end: end as u32 }
+        Span {
+            file: self.file,
+            start: start as u32,
+            end: end as u32,
+        }
     }
 
     fn error(&mut self, start: usize, end: usize, message: String, hint: &str) {
@@ -106,14 +110,24 @@ impl Scanner<'_> {
             }
         }
         let end = j.min(self.bytes.len());
-        self.error(i, end, "unterminated string".into(), "close the text with `\"` on the same line");
+        self.error(
+            i,
+            end,
+            "unterminated string".into(),
+            "close the text with `\"` on the same line",
+        );
         end
     }
 
     fn open(&mut self, i: usize) {
         self.stack.push((self.bytes[i], i));
         if self.stack.len() == MAX_NESTING + 1 {
-            self.error(i, i + 1, format!("brackets nested deeper than {MAX_NESTING} levels"), "split the expression into named values");
+            self.error(
+                i,
+                i + 1,
+                format!("brackets nested deeper than {MAX_NESTING} levels"),
+                "split the expression into named values",
+            );
         }
     }
 
@@ -134,7 +148,12 @@ impl Scanner<'_> {
                 let _ = at;
                 self.stack.pop();
             }
-            None => self.error(i, i + 1, format!("unexpected `{}` with no open bracket", c as char), "remove it"),
+            None => self.error(
+                i,
+                i + 1,
+                format!("unexpected `{}` with no open bracket", c as char),
+                "remove it",
+            ),
         }
     }
 
@@ -146,7 +165,12 @@ impl Scanner<'_> {
                 b'[' => ']',
                 _ => '}',
             };
-            self.error(at, at + 1, format!("unclosed `{}`", open as char), &format!("add `{close}` to close it"));
+            self.error(
+                at,
+                at + 1,
+                format!("unclosed `{}`", open as char),
+                &format!("add `{close}` to close it"),
+            );
         }
         self.stack.clear();
         self.finish_chunk(self.bytes.len());
@@ -156,7 +180,10 @@ impl Scanner<'_> {
         let text = &self.bytes[self.chunk_start..end];
         let blank = text.iter().all(|b| b.is_ascii_whitespace());
         if !blank && !self.chunk_bad {
-            self.scan.chunks.push(Chunk { start: self.chunk_start, end });
+            self.scan.chunks.push(Chunk {
+                start: self.chunk_start,
+                end,
+            });
         }
         self.chunk_bad = false;
     }
@@ -176,7 +203,10 @@ mod tests {
     #[test]
     fn reports_unclosed_bracket_and_string() {
         assert_eq!(scan("a = (1 + 2", 0).errors[0].message, "unclosed `(`");
-        assert_eq!(scan("a = \"abc\nb = 2", 0).errors[0].message, "unterminated string");
+        assert_eq!(
+            scan("a = \"abc\nb = 2", 0).errors[0].message,
+            "unterminated string"
+        );
         assert_eq!(scan("a = (1 + 2", 0).open_at_end, 1);
     }
 }
