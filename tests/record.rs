@@ -25,12 +25,20 @@ fn record_of(overrides: &[&str], reproducible: bool) -> RecordData {
     }
     let out = session.eval(&text).unwrap();
     let overrides: Vec<String> = overrides.iter().map(|s| s.to_string()).collect();
-    let run = RunInfo { path: Path::new(SHEET), text: &text, overrides: &overrides, reproducible };
+    let run = RunInfo {
+        path: Path::new(SHEET),
+        text: &text,
+        overrides: &overrides,
+        reproducible,
+    };
     record::collect(&session, &out, &run)
 }
 
 fn siccant(args: &[&str]) -> std::process::Output {
-    Command::new(env!("CARGO_BIN_EXE_siccant")).args(args).output().unwrap()
+    Command::new(env!("CARGO_BIN_EXE_siccant"))
+        .args(args)
+        .output()
+        .unwrap()
 }
 
 #[test]
@@ -48,7 +56,16 @@ fn json_snapshot() {
 fn html_is_self_contained_and_complete() {
     let html = record::html(&record_of(&[], true));
     assert!(html.starts_with("<!DOCTYPE html>"));
-    for needle in ["SHA-256", "tray_unit.sicc", "<svg", "@media print", "Cautions", "carbon monoxide", "FAIL", "Depends on:"] {
+    for needle in [
+        "SHA-256",
+        "tray_unit.sicc",
+        "<svg",
+        "@media print",
+        "Cautions",
+        "carbon monoxide",
+        "FAIL",
+        "Depends on:",
+    ] {
         assert!(html.contains(needle), "missing {needle}");
     }
     for outside in ["<script", "src=\"http", "href=\"http", "@import", "url("] {
@@ -60,10 +77,23 @@ fn html_is_self_contained_and_complete() {
 fn reproducible_records_are_byte_identical() {
     let dir = tempfile::tempdir().unwrap();
     let mut bodies = Vec::new();
-    for (i, ext) in ["html", "html", "md", "md", "json", "json"].iter().enumerate() {
+    for (i, ext) in ["html", "html", "md", "md", "json", "json"]
+        .iter()
+        .enumerate()
+    {
         let path = dir.path().join(format!("r{i}.{ext}"));
-        let out = siccant(&["record", SHEET, "-o", path.to_str().unwrap(), "--reproducible"]);
-        assert_eq!(out.status.code(), Some(3), "one check of the sheet fails on purpose");
+        let out = siccant(&[
+            "record",
+            SHEET,
+            "-o",
+            path.to_str().unwrap(),
+            "--reproducible",
+        ]);
+        assert_eq!(
+            out.status.code(),
+            Some(3),
+            "one check of the sheet fails on purpose"
+        );
         bodies.push(std::fs::read(&path).unwrap());
     }
     assert_eq!(bodies[0], bodies[1]);
@@ -82,7 +112,10 @@ fn timestamp_only_without_reproducible() {
 
 /// Shown text of every entry, by name.
 fn results(r: &RecordData) -> BTreeMap<String, String> {
-    r.entries.iter().map(|e| (e.name.clone(), siccant::render::text(&e.value))).collect()
+    r.entries
+        .iter()
+        .map(|e| (e.name.clone(), siccant::render::text(&e.value)))
+        .collect()
 }
 
 /// `start` and every entry that reads it, directly or through others.
@@ -110,7 +143,10 @@ fn changing_one_input_changes_exactly_its_dependents() {
         let (a, b) = (results(&base), results(&changed));
         let differs: BTreeSet<String> = a.keys().filter(|k| a[*k] != b[*k]).cloned().collect();
         assert_eq!(differs, dependents(&base, input), "after --set {set}");
-        assert!(changed.entries.iter().any(|e| e.name == input && e.overridden));
+        assert!(changed
+            .entries
+            .iter()
+            .any(|e| e.name == input && e.overridden));
     }
 }
 
@@ -125,7 +161,10 @@ fn dependencies_methods_and_loaded_files_are_recorded() {
     assert_eq!(r.loaded[0].path, "tray_unit.sicc");
     let text = std::fs::read("tests/record/tray_unit.sicc").unwrap();
     assert_eq!(r.loaded[0].sha256, record::sha256_hex(&text));
-    assert_eq!(r.checks.iter().map(|c| c.passed).collect::<Vec<_>>(), [false, true]);
+    assert_eq!(
+        r.checks.iter().map(|c| c.passed).collect::<Vec<_>>(),
+        [false, true]
+    );
 }
 
 #[test]
@@ -136,12 +175,25 @@ fn failures_leave_no_file() {
     assert_eq!(out.status.code(), Some(2));
     assert!(String::from_utf8_lossy(&out.stderr).contains("does not exist"));
     let bad_ext = dir.path().join("review.pdf");
-    assert_eq!(siccant(&["record", SHEET, "-o", bad_ext.to_str().unwrap()]).status.code(), Some(2));
+    assert_eq!(
+        siccant(&["record", SHEET, "-o", bad_ext.to_str().unwrap()])
+            .status
+            .code(),
+        Some(2)
+    );
     let broken = dir.path().join("broken.sicc");
     std::fs::write(&broken, "a = 1 m + 1 s\n").unwrap();
     let target = dir.path().join("broken.html");
-    let out = siccant(&["record", broken.to_str().unwrap(), "-o", target.to_str().unwrap()]);
+    let out = siccant(&[
+        "record",
+        broken.to_str().unwrap(),
+        "-o",
+        target.to_str().unwrap(),
+    ]);
     assert_eq!(out.status.code(), Some(1));
-    let left: Vec<_> = std::fs::read_dir(dir.path()).unwrap().map(|e| e.unwrap().file_name()).collect();
+    let left: Vec<_> = std::fs::read_dir(dir.path())
+        .unwrap()
+        .map(|e| e.unwrap().file_name())
+        .collect();
     assert_eq!(left, vec![std::ffi::OsString::from("broken.sicc")]);
 }

@@ -29,14 +29,35 @@ fn drying_run() -> Table {
     Table {
         title: Some("Tray run 3 (invented)".into()),
         columns: vec![
-            Column { name: "t".into(), unit: Some(hours()), cells: t_h.iter().map(|h| q(h * 3600.0, Dim::TIME, Kind::Plain)).collect() },
-            Column { name: "X".into(), unit: None, cells: x_db.iter().map(|x| q(*x, Dim::NONE, Kind::Moisture)).collect() },
+            Column {
+                name: "t".into(),
+                unit: Some(hours()),
+                cells: t_h
+                    .iter()
+                    .map(|h| q(h * 3600.0, Dim::TIME, Kind::Plain))
+                    .collect(),
+            },
+            Column {
+                name: "X".into(),
+                unit: None,
+                cells: x_db
+                    .iter()
+                    .map(|x| q(*x, Dim::NONE, Kind::Moisture))
+                    .collect(),
+            },
             Column {
                 name: "T_product".into(),
                 unit: Some(deg_c()),
-                cells: t_c.iter().map(|c| q(c + 273.15, Dim::TEMPERATURE, Kind::AbsoluteTemperature)).collect(),
+                cells: t_c
+                    .iter()
+                    .map(|c| q(c + 273.15, Dim::TEMPERATURE, Kind::AbsoluteTemperature))
+                    .collect(),
             },
-            Column { name: "note".into(), unit: None, cells: notes.iter().map(|n| Value::Str(n.to_string())).collect() },
+            Column {
+                name: "note".into(),
+                unit: None,
+                cells: notes.iter().map(|n| Value::Str(n.to_string())).collect(),
+            },
         ],
     }
 }
@@ -63,18 +84,37 @@ fn table_csv_keeps_full_precision() {
 
 #[test]
 fn empty_table_is_a_clear_error() {
-    let empty = Table { title: Some("nothing".into()), columns: vec![] };
+    let empty = Table {
+        title: Some("nothing".into()),
+        columns: vec![],
+    };
     let err = table::text(&empty).unwrap_err();
-    assert_eq!(err.to_string(), "the table `nothing` is empty: there is nothing to show");
-    let no_rows = Table { title: None, columns: vec![Column { name: "a".into(), unit: None, cells: vec![] }] };
-    assert!(matches!(table::markdown(&no_rows), Err(RenderError::EmptyTable { .. })));
+    assert_eq!(
+        err.to_string(),
+        "the table `nothing` is empty: there is nothing to show"
+    );
+    let no_rows = Table {
+        title: None,
+        columns: vec![Column {
+            name: "a".into(),
+            unit: None,
+            cells: vec![],
+        }],
+    };
+    assert!(matches!(
+        table::markdown(&no_rows),
+        Err(RenderError::EmptyTable { .. })
+    ));
 }
 
 #[test]
 fn ragged_table_is_an_error() {
     let mut t = drying_run();
     t.columns[1].cells.pop();
-    assert_eq!(table::html(&t).unwrap_err().to_string(), "column `X` has 4 rows but column `t` has 5");
+    assert_eq!(
+        table::html(&t).unwrap_err().to_string(),
+        "column `X` has 4 rows but column `t` has 5"
+    );
 }
 
 #[test]
@@ -99,14 +139,26 @@ fn export_writes_atomically_by_extension() {
     let path = dir.path().join("run.csv");
     table::export(&drying_run(), &path).unwrap();
     let written = std::fs::read_to_string(&path).unwrap();
-    assert!(written.starts_with("t [h],X [db],T_product [degC],note\n"), "{written}");
+    assert!(
+        written.starts_with("t [h],X [db],T_product [degC],note\n"),
+        "{written}"
+    );
     let bad = dir.path().join("run.xyz");
-    assert!(matches!(table::export(&drying_run(), &bad), Err(RenderError::Format { .. })));
+    assert!(matches!(
+        table::export(&drying_run(), &bad),
+        Err(RenderError::Format { .. })
+    ));
     let unwritable = dir.path().join("missing/run.csv");
-    assert!(matches!(table::export(&drying_run(), &unwritable), Err(RenderError::Write { .. })));
+    assert!(matches!(
+        table::export(&drying_run(), &unwritable),
+        Err(RenderError::Write { .. })
+    ));
     let empty = Table::default();
     assert!(table::export(&empty, &dir.path().join("e.csv")).is_err());
-    let names: Vec<_> = std::fs::read_dir(dir.path()).unwrap().map(|e| e.unwrap().file_name()).collect();
+    let names: Vec<_> = std::fs::read_dir(dir.path())
+        .unwrap()
+        .map(|e| e.unwrap().file_name())
+        .collect();
     assert_eq!(names, vec![std::ffi::OsString::from("run.csv")]);
 }
 
@@ -117,7 +169,9 @@ fn records_become_rows() {
         .iter()
         .map(|(aw, t)| {
             Value::Record(
-                Record::new("point").with("aw", q(*aw, Dim::NONE, Kind::Activity)).with("T", q(*t, Dim::TEMPERATURE, Kind::AbsoluteTemperature)),
+                Record::new("point")
+                    .with("aw", q(*aw, Dim::NONE, Kind::Activity))
+                    .with("T", q(*t, Dim::TEMPERATURE, Kind::AbsoluteTemperature)),
             )
         })
         .collect();
@@ -131,24 +185,49 @@ mod plots {
     use siccant::value::{Plot, SeriesStyle};
 
     fn time(h: &[f64]) -> Vec<Quantity> {
-        h.iter().map(|h| Quantity { si: h * 3600.0, dim: Dim::TIME, kind: Kind::Plain }).collect()
+        h.iter()
+            .map(|h| Quantity {
+                si: h * 3600.0,
+                dim: Dim::TIME,
+                kind: Kind::Plain,
+            })
+            .collect()
     }
 
     fn moisture(x: &[f64]) -> Vec<Quantity> {
-        x.iter().map(|x| Quantity { si: *x, dim: Dim::NONE, kind: Kind::Moisture }).collect()
+        x.iter()
+            .map(|x| Quantity {
+                si: *x,
+                dim: Dim::NONE,
+                kind: Kind::Moisture,
+            })
+            .collect()
     }
 
     fn plain(v: &[f64], dim: Dim) -> Vec<Quantity> {
-        v.iter().map(|v| Quantity { si: *v, dim, kind: Kind::Plain }).collect()
+        v.iter()
+            .map(|v| Quantity {
+                si: *v,
+                dim,
+                kind: Kind::Plain,
+            })
+            .collect()
     }
 
     fn hours_axis() -> AxisUnits {
-        AxisUnits { x: Some(hours()), y: None }
+        AxisUnits {
+            x: Some(hours()),
+            y: None,
+        }
     }
 
     /// Invented drying run and an invented exponential model through it.
     pub fn drying() -> Plot {
-        let data = Curve::new("run 3 (invented)", time(&[0.0, 0.5, 1.0, 2.0, 3.0, 4.0]), moisture(&[1.85, 1.52, 1.21, 0.64, 0.31, 0.12]));
+        let data = Curve::new(
+            "run 3 (invented)",
+            time(&[0.0, 0.5, 1.0, 2.0, 3.0, 4.0]),
+            moisture(&[1.85, 1.52, 1.21, 0.64, 0.31, 0.12]),
+        );
         let t: Vec<f64> = (0..=40).map(|i| i as f64 * 0.1).collect();
         let x: Vec<f64> = t.iter().map(|t| 0.05 + 1.8 * (-0.62 * t).exp()).collect();
         let model = Curve::new("model (invented)", time(&t), moisture(&x));
@@ -159,26 +238,60 @@ mod plots {
         let x = [0.05, 0.2, 0.4, 0.6, 0.8, 1.0, 1.4, 1.85];
         let r = [0.0, 0.21, 0.42, 0.63, 0.8, 0.8, 0.8, 0.8];
         let flux = Dim::MASS_FLUX;
-        let curve = Curve::new("rate (invented)", moisture(&x), plain(&r.map(|r| r / 3600.0), flux));
-        let periods = RatePeriods { critical: Some(moisture(&[0.78])[0]), equilibrium: Some(moisture(&[0.05])[0]) };
+        let curve = Curve::new(
+            "rate (invented)",
+            moisture(&x),
+            plain(&r.map(|r| r / 3600.0), flux),
+        );
+        let periods = RatePeriods {
+            critical: Some(moisture(&[0.78])[0]),
+            equilibrium: Some(moisture(&[0.05])[0]),
+        };
         let per_h = unit("kg").div(&unit("m").powi(2)).div(&unit("h"));
-        plot::rate_curve("Rate curve", &[curve], &periods, AxisUnits { x: None, y: Some(per_h) }).unwrap()
+        plot::rate_curve(
+            "Rate curve",
+            &[curve],
+            &periods,
+            AxisUnits {
+                x: None,
+                y: Some(per_h),
+            },
+        )
+        .unwrap()
     }
 
     pub fn heat() -> Plot {
         let xs = [50.0, 60.0, 70.0, 80.0];
         let ys = [1.0, 1.5, 2.0];
-        let z: Vec<f64> = ys.iter().flat_map(|v| xs.iter().map(move |t| 10.0 / (v * (t - 20.0) / 30.0))).collect();
+        let z: Vec<f64> = ys
+            .iter()
+            .flat_map(|v| xs.iter().map(move |t| 10.0 / (v * (t - 20.0) / 30.0)))
+            .collect();
         let grid = Grid {
             x_name: "air temperature".into(),
             y_name: "air velocity".into(),
             z_name: "batch time".into(),
-            x: xs.iter().map(|c| Quantity { si: c + 273.15, dim: Dim::TEMPERATURE, kind: Kind::AbsoluteTemperature }).collect(),
+            x: xs
+                .iter()
+                .map(|c| Quantity {
+                    si: c + 273.15,
+                    dim: Dim::TEMPERATURE,
+                    kind: Kind::AbsoluteTemperature,
+                })
+                .collect(),
             y: plain(&ys, Dim::VELOCITY),
             z: time(&z),
             z_unit: Some(hours()),
         };
-        plot::sweep_heat("Batch time over a two-input sweep (invented)", &grid, AxisUnits { x: Some(deg_c()), y: None }).unwrap()
+        plot::sweep_heat(
+            "Batch time over a two-input sweep (invented)",
+            &grid,
+            AxisUnits {
+                x: Some(deg_c()),
+                y: None,
+            },
+        )
+        .unwrap()
     }
 
     #[test]
@@ -207,14 +320,19 @@ mod plots {
     fn series_of_different_lengths_is_an_error() {
         let c = Curve::new("short", time(&[0.0, 1.0]), moisture(&[1.0]));
         let err = plot::drying_curve("t", &[c], &[], AxisUnits::default()).unwrap_err();
-        assert_eq!(err.to_string(), "series `short` has 2 x values but 1 y values");
+        assert_eq!(
+            err.to_string(),
+            "series `short` has 2 x values but 1 y values"
+        );
     }
 
     #[test]
     fn incompatible_units_on_one_axis_is_an_error() {
         let a = Curve::new("a", time(&[0.0, 1.0]), moisture(&[1.0, 0.5]));
         let b = Curve::new("b", plain(&[0.0, 1.0], Dim::LENGTH), moisture(&[1.0, 0.5]));
-        let err = plot::sweep_lines("t", "x", "y", &[a, b], AxisUnits::default()).unwrap_err().to_string();
+        let err = plot::sweep_lines("t", "x", "y", &[a, b], AxisUnits::default())
+            .unwrap_err()
+            .to_string();
         assert!(err.starts_with("the x axis already shows"), "{err}");
         assert!(err.contains("series `b`"), "{err}");
     }
@@ -223,17 +341,36 @@ mod plots {
     fn raw_plot_checks() {
         let mut p = drying();
         p.series[0].y.pop();
-        assert!(matches!(siccant::render::svg(&p), Err(RenderError::SeriesLength { .. })));
+        assert!(matches!(
+            siccant::render::svg(&p),
+            Err(RenderError::SeriesLength { .. })
+        ));
         let mut p = drying();
         p.series[1].y[3] = f64::NAN;
-        assert!(matches!(siccant::render::png(&p), Err(RenderError::NotFinite { .. })));
-        let empty = Plot { title: "nothing".into(), ..Plot::default() };
-        assert_eq!(siccant::render::svg(&empty).unwrap_err().to_string(), "the plot `nothing` has no data to draw");
+        assert!(matches!(
+            siccant::render::png(&p),
+            Err(RenderError::NotFinite { .. })
+        ));
+        let empty = Plot {
+            title: "nothing".into(),
+            ..Plot::default()
+        };
+        assert_eq!(
+            siccant::render::svg(&empty).unwrap_err().to_string(),
+            "the plot `nothing` has no data to draw"
+        );
         let mut h = heat();
         if let Some(grid) = h.heat.as_mut() {
             grid.z.pop();
         }
-        assert!(matches!(siccant::render::svg(&h), Err(RenderError::HeatGrid { nx: 4, ny: 3, nz: 11 })));
+        assert!(matches!(
+            siccant::render::svg(&h),
+            Err(RenderError::HeatGrid {
+                nx: 4,
+                ny: 3,
+                nz: 11
+            })
+        ));
         let _ = SeriesStyle::Dotted;
     }
 }

@@ -89,15 +89,34 @@ fn curve(args: &mut Args) -> Result<Value, Diagnostic> {
         Some("dashed") => SeriesStyle::Dashed,
         Some("thin") => SeriesStyle::Thin,
         Some("dotted") => SeriesStyle::Dotted,
-        Some(other) => return Err(args.error_at("style", format!("unknown style `{other}`; use line, points, dashed, thin or dotted"))),
+        Some(other) => {
+            return Err(args.error_at(
+                "style",
+                format!("unknown style `{other}`; use line, points, dashed, thin or dotted"),
+            ))
+        }
     };
     if x.len() != y.len() {
-        return Err(args.error_at("y", format!("`y` has {} values but `x` has {}", y.len(), x.len())));
+        return Err(args.error_at(
+            "y",
+            format!("`y` has {} values but `x` has {}", y.len(), x.len()),
+        ));
     }
     args.finish()?;
     let count = Value::Quantity(Quantity::number(x.len() as f64), None);
-    let data = CurveData { curve: Curve { label: label.clone(), x, y, x_unit, y_unit }, style };
-    let mut record = Record::new("curve").with("label", Value::Str(label)).with("points", count);
+    let data = CurveData {
+        curve: Curve {
+            label: label.clone(),
+            x,
+            y,
+            x_unit,
+            y_unit,
+        },
+        style,
+    };
+    let mut record = Record::new("curve")
+        .with("label", Value::Str(label))
+        .with("points", count);
     record.payload = Some(Arc::new(data));
     Ok(Value::Record(record))
 }
@@ -107,7 +126,15 @@ fn quantities(args: &mut Args, name: &str) -> Result<(Vec<Quantity>, Option<Unit
     let arg = args.required(name)?;
     let items = match arg.value {
         Value::List(items) => items,
-        other => return Err(Diagnostic::error(arg.span, format!("`{name}` must be a list of quantities, found {}", type_word(&other)))),
+        other => {
+            return Err(Diagnostic::error(
+                arg.span,
+                format!(
+                    "`{name}` must be a list of quantities, found {}",
+                    type_word(&other)
+                ),
+            ))
+        }
     };
     let mut unit = None;
     let mut out = Vec::with_capacity(items.len());
@@ -120,7 +147,11 @@ fn quantities(args: &mut Args, name: &str) -> Result<(Vec<Quantity>, Option<Unit
                 out.push(q);
             }
             other => {
-                let msg = format!("item {} of `{name}` is {}, not a quantity", i + 1, type_word(&other));
+                let msg = format!(
+                    "item {} of `{name}` is {}, not a quantity",
+                    i + 1,
+                    type_word(&other)
+                );
                 return Err(Diagnostic::error(arg.span, msg));
             }
         }
@@ -133,7 +164,13 @@ fn opt_text(args: &mut Args, name: &str) -> Result<Option<String>, Diagnostic> {
         None => Ok(None),
         Some(arg) => match arg.value {
             Value::Str(s) => Ok(Some(s)),
-            other => Err(Diagnostic::error(arg.span, format!("`{name}` must be text in quotes, found {}", type_word(&other)))),
+            other => Err(Diagnostic::error(
+                arg.span,
+                format!(
+                    "`{name}` must be text in quotes, found {}",
+                    type_word(&other)
+                ),
+            )),
         },
     }
 }
@@ -148,9 +185,13 @@ fn plot(args: &mut Args) -> Result<Value, Diagnostic> {
     args.finish()?;
     let mut builder = PlotBuilder::new(title, x_name, y_name);
     for data in &curves {
-        builder.series(&data.curve, data.style).map_err(|e| Diagnostic::error(series_span, e.to_string()))?;
+        builder
+            .series(&data.curve, data.style)
+            .map_err(|e| Diagnostic::error(series_span, e.to_string()))?;
     }
-    let plot = builder.build().map_err(|e| Diagnostic::error(series_span, e.to_string()))?;
+    let plot = builder
+        .build()
+        .map_err(|e| Diagnostic::error(series_span, e.to_string()))?;
     Ok(Value::Plot(Arc::new(plot)))
 }
 
@@ -168,7 +209,8 @@ fn curves_of(value: Value, span: crate::diag::Span) -> Result<Vec<CurveData>, Di
         .enumerate()
         .map(|(i, c)| {
             c.ok_or_else(|| {
-                Diagnostic::error(span, format!("item {} of `series` is not a curve", i + 1)).with_hint("make one with curve(x, y)")
+                Diagnostic::error(span, format!("item {} of `series` is not a curve", i + 1))
+                    .with_hint("make one with curve(x, y)")
             })
         })
         .collect()
@@ -181,9 +223,18 @@ fn table_of(args: &mut Args) -> Result<Value, Diagnostic> {
     args.finish()?;
     let rows = match rows.value {
         Value::List(items) => items,
-        other => return Err(Diagnostic::error(rows_span, format!("`rows` must be a list of records, found {}", type_word(&other)))),
+        other => {
+            return Err(Diagnostic::error(
+                rows_span,
+                format!(
+                    "`rows` must be a list of records, found {}",
+                    type_word(&other)
+                ),
+            ))
+        }
     };
-    let t = table::from_records(title, &rows).map_err(|e| Diagnostic::error(rows_span, e.to_string()))?;
+    let t = table::from_records(title, &rows)
+        .map_err(|e| Diagnostic::error(rows_span, e.to_string()))?;
     table::Layout::new(&t).map_err(|e| Diagnostic::error(rows_span, e.to_string()))?;
     Ok(Value::Table(t))
 }

@@ -34,14 +34,19 @@ pub struct RunInfo<'a> {
 pub fn collect(session: &Session, output: &Output, run: &RunInfo) -> RecordData {
     let (stmts, _) = syntax::parse(run.text, 0);
     let mut record = RecordData {
-        worksheet: FileDigest { path: run.path.display().to_string(), sha256: sha256_hex(run.text.as_bytes()) },
+        worksheet: FileDigest {
+            path: run.path.display().to_string(),
+            sha256: sha256_hex(run.text.as_bytes()),
+        },
         loaded: loaded_files(session),
         tool_version: env!("CARGO_PKG_VERSION").to_string(),
         overrides: run.overrides.to_vec(),
         timestamp: (!run.reproducible).then(utc_now),
         ..RecordData::default()
     };
-    let statements = stmts.iter().filter(|s| !matches!(s.kind, StmtKind::Function { .. }));
+    let statements = stmts
+        .iter()
+        .filter(|s| !matches!(s.kind, StmtKind::Function { .. }));
     let mut spans = Vec::new();
     for (stmt, item) in statements.zip(&output.items) {
         let line = session.sources().line_col(stmt.span).0;
@@ -52,7 +57,11 @@ pub fn collect(session: &Session, output: &Output, run: &RunInfo) -> RecordData 
                 spans.push((stmt.span, Some(record.entries.len() - 1)));
             }
             OutputItem::Check { text, passed } => {
-                record.checks.push(CheckEntry { text: text.clone(), line, passed: *passed });
+                record.checks.push(CheckEntry {
+                    text: text.clone(),
+                    line,
+                    passed: *passed,
+                });
                 spans.push((stmt.span, None));
             }
         }
@@ -61,7 +70,14 @@ pub fn collect(session: &Session, output: &Output, run: &RunInfo) -> RecordData 
     record
 }
 
-fn entry(session: &Session, run: &RunInfo, stmt: &Stmt, name: Option<&str>, value: crate::value::Value, line: usize) -> Entry {
+fn entry(
+    session: &Session,
+    run: &RunInfo,
+    stmt: &Stmt,
+    name: Option<&str>,
+    value: crate::value::Value,
+    line: usize,
+) -> Entry {
     let source = session.sources().slice(stmt.span).trim().to_string();
     let (kind, reads) = match (&stmt.kind, name.and_then(|n| session.definition(n))) {
         (_, Some(def)) if def.kind == DefKind::Input => (EntryKind::Input, def.deps.clone()),
@@ -70,8 +86,13 @@ fn entry(session: &Session, run: &RunInfo, stmt: &Stmt, name: Option<&str>, valu
         _ => (EntryKind::Shown, Vec::new()),
     };
     let name = name.map_or_else(|| source.clone(), str::to_string);
-    let overridden = kind == EntryKind::Input && run.overrides.iter().any(|o| override_name(o) == name);
-    let depends_on = reads.iter().filter(|d| session.definition(d).is_some()).cloned().collect();
+    let overridden =
+        kind == EntryKind::Input && run.overrides.iter().any(|o| override_name(o) == name);
+    let depends_on = reads
+        .iter()
+        .filter(|d| session.definition(d).is_some())
+        .cloned()
+        .collect();
     // Display built-ins (the `plot` family) compute nothing and carry no method.
     let builtins = reads
         .iter()
@@ -79,19 +100,40 @@ fn entry(session: &Session, run: &RunInfo, stmt: &Stmt, name: Option<&str>, valu
         .filter_map(|d| library::find(d))
         .filter(|b| b.family != "plot")
         .collect();
-    Entry { name, kind, source, line, depends_on, value, overridden, builtins, warnings: Vec::new() }
+    Entry {
+        name,
+        kind,
+        source,
+        line,
+        depends_on,
+        value,
+        overridden,
+        builtins,
+        warnings: Vec::new(),
+    }
 }
 
 /// The name part of `NAME=EXPR`.
 fn override_name(assignment: &str) -> &str {
-    assignment.split_once('=').map_or(assignment, |(n, _)| n).trim()
+    assignment
+        .split_once('=')
+        .map_or(assignment, |(n, _)| n)
+        .trim()
 }
 
 /// Put each warning on the entry whose statement contains it; the rest go to
 /// `other_warnings` with their place.
-fn attach_warnings(record: &mut RecordData, session: &Session, warnings: &[Diagnostic], spans: &[(Span, Option<usize>)]) {
+fn attach_warnings(
+    record: &mut RecordData,
+    session: &Session,
+    warnings: &[Diagnostic],
+    spans: &[(Span, Option<usize>)],
+) {
     for w in warnings {
-        let owner = spans.iter().find(|(s, _)| contains(*s, w.span)).and_then(|(_, e)| *e);
+        let owner = spans
+            .iter()
+            .find(|(s, _)| contains(*s, w.span))
+            .and_then(|(_, e)| *e);
         match owner {
             Some(i) => record.entries[i].warnings.push(w.message.clone()),
             None => record.other_warnings.push(placed(session, w)),
@@ -121,7 +163,10 @@ fn placed(session: &Session, w: &Diagnostic) -> String {
 fn loaded_files(session: &Session) -> Vec<FileDigest> {
     let mut out: Vec<FileDigest> = Vec::new();
     for file in session.sources().files().iter().skip(1) {
-        let digest = FileDigest { path: file.name.clone(), sha256: sha256_hex(file.text.as_bytes()) };
+        let digest = FileDigest {
+            path: file.name.clone(),
+            sha256: sha256_hex(file.text.as_bytes()),
+        };
         if !out.contains(&digest) {
             out.push(digest);
         }
@@ -131,12 +176,17 @@ fn loaded_files(session: &Session) -> Vec<FileDigest> {
 
 /// Lower-case hex SHA-256 of `bytes`.
 pub fn sha256_hex(bytes: &[u8]) -> String {
-    Sha256::digest(bytes).iter().map(|b| format!("{b:02x}")).collect()
+    Sha256::digest(bytes)
+        .iter()
+        .map(|b| format!("{b:02x}"))
+        .collect()
 }
 
 /// The current UTC time as `YYYY-MM-DDTHH:MM:SSZ`.
 pub fn utc_now() -> String {
-    let secs = std::time::SystemTime::now().duration_since(std::time::UNIX_EPOCH).map_or(0, |d| d.as_secs());
+    let secs = std::time::SystemTime::now()
+        .duration_since(std::time::UNIX_EPOCH)
+        .map_or(0, |d| d.as_secs());
     utc_text(secs)
 }
 
@@ -144,7 +194,12 @@ pub fn utc_now() -> String {
 pub fn utc_text(secs: u64) -> String {
     let (days, rest) = ((secs / 86_400) as i64, secs % 86_400);
     let (y, m, d) = civil_from_days(days);
-    format!("{y:04}-{m:02}-{d:02}T{:02}:{:02}:{:02}Z", rest / 3600, rest % 3600 / 60, rest % 60)
+    format!(
+        "{y:04}-{m:02}-{d:02}T{:02}:{:02}:{:02}Z",
+        rest / 3600,
+        rest % 3600 / 60,
+        rest % 60
+    )
 }
 
 /// Year, month, day of a day count since 1970-01-01 (H. Hinnant's civil-from-days algorithm).
@@ -175,6 +230,9 @@ mod tests {
     #[test]
     fn sha256_of_abc() {
         // FIPS 180-2, appendix B.1.
-        assert_eq!(sha256_hex(b"abc"), "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad");
+        assert_eq!(
+            sha256_hex(b"abc"),
+            "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad"
+        );
     }
 }

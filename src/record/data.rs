@@ -84,7 +84,11 @@ impl RecordData {
 
     /// Every built-in used anywhere, each once, sorted by name.
     pub fn builtins_used(&self) -> Vec<&'static Builtin> {
-        let mut all: Vec<&'static Builtin> = self.entries.iter().flat_map(|e| e.builtins.iter().copied()).collect();
+        let mut all: Vec<&'static Builtin> = self
+            .entries
+            .iter()
+            .flat_map(|e| e.builtins.iter().copied())
+            .collect();
         all.sort_by_key(|b| b.name);
         all.dedup_by_key(|b| b.name);
         all

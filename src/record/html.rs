@@ -15,8 +15,13 @@ pub fn html(r: &RecordData) -> String {
     let mut s = String::with_capacity(64 * 1024);
     s.push_str("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n");
     s.push_str("<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n");
-    s.push_str(&format!("<title>Audit record: {}</title>\n", esc(&r.worksheet.path)));
-    s.push_str(&format!("<style>\n{STYLE}</style>\n</head>\n<body>\n<main>\n"));
+    s.push_str(&format!(
+        "<title>Audit record: {}</title>\n",
+        esc(&r.worksheet.path)
+    ));
+    s.push_str(&format!(
+        "<style>\n{STYLE}</style>\n</head>\n<body>\n<main>\n"
+    ));
     header(&mut s, r);
     summary(&mut s, r);
     inputs(&mut s, r);
@@ -30,17 +35,40 @@ pub fn html(r: &RecordData) -> String {
 }
 
 fn header(s: &mut String, r: &RecordData) {
-    s.push_str(&format!("<header>\n<p class=\"kicker\">siccant audit record</p>\n<h1>{}</h1>\n", esc(&r.worksheet.path)));
+    s.push_str(&format!(
+        "<header>\n<p class=\"kicker\">siccant audit record</p>\n<h1>{}</h1>\n",
+        esc(&r.worksheet.path)
+    ));
     s.push_str("<table class=\"facts\">\n");
-    fact(s, "Worksheet", &format!("{} <span class=\"hash\">SHA-256 {}</span>", esc(&r.worksheet.path), esc(&r.worksheet.sha256)));
+    fact(
+        s,
+        "Worksheet",
+        &format!(
+            "{} <span class=\"hash\">SHA-256 {}</span>",
+            esc(&r.worksheet.path),
+            esc(&r.worksheet.sha256)
+        ),
+    );
     for f in &r.loaded {
-        fact(s, "Loaded", &format!("{} <span class=\"hash\">SHA-256 {}</span>", esc(&f.path), esc(&f.sha256)));
+        fact(
+            s,
+            "Loaded",
+            &format!(
+                "{} <span class=\"hash\">SHA-256 {}</span>",
+                esc(&f.path),
+                esc(&f.sha256)
+            ),
+        );
     }
     fact(s, "Tool", &format!("siccant {}", esc(&r.tool_version)));
     let overrides = if r.overrides.is_empty() {
         "none".to_string()
     } else {
-        r.overrides.iter().map(|o| format!("<code>--set {}</code>", esc(o))).collect::<Vec<_>>().join(" ")
+        r.overrides
+            .iter()
+            .map(|o| format!("<code>--set {}</code>", esc(o)))
+            .collect::<Vec<_>>()
+            .join(" ")
     };
     fact(s, "Overrides", &overrides);
     let when = match &r.timestamp {
@@ -52,7 +80,9 @@ fn header(s: &mut String, r: &RecordData) {
 }
 
 fn fact(s: &mut String, label: &str, html: &str) {
-    s.push_str(&format!("<tr><th scope=\"row\">{label}</th><td>{html}</td></tr>\n"));
+    s.push_str(&format!(
+        "<tr><th scope=\"row\">{label}</th><td>{html}</td></tr>\n"
+    ));
 }
 
 fn summary(s: &mut String, r: &RecordData) {
@@ -79,7 +109,11 @@ fn inputs(s: &mut String, r: &RecordData) {
     } else {
         s.push_str("<table class=\"inputs\">\n<thead><tr><th>Name</th><th>Value</th><th>As written</th><th>Line</th></tr></thead>\n<tbody>\n");
         for e in list {
-            let note = if e.overridden { " <span class=\"badge set\">set by --set</span>" } else { "" };
+            let note = if e.overridden {
+                " <span class=\"badge set\">set by --set</span>"
+            } else {
+                ""
+            };
             s.push_str(&format!(
                 "<tr id=\"{}\"><th scope=\"row\"><code>{}</code></th><td>{}{note}</td><td><code>{}</code></td><td>{}</td></tr>\n",
                 anchor(&e.name),
@@ -108,15 +142,35 @@ fn values(s: &mut String, r: &RecordData) {
 }
 
 fn value_entry(s: &mut String, e: &Entry, r: &RecordData) {
-    let id = if e.kind == EntryKind::Shown { String::new() } else { format!(" id=\"{}\"", anchor(&e.name)) };
+    let id = if e.kind == EntryKind::Shown {
+        String::new()
+    } else {
+        format!(" id=\"{}\"", anchor(&e.name))
+    };
     s.push_str(&format!("<article class=\"entry\"{id}>\n"));
-    let title = if e.kind == EntryKind::Shown { "shown".to_string() } else { format!("<code>{}</code>", esc(&e.name)) };
-    s.push_str(&format!("<h3>{title} <span class=\"line\">line {}</span></h3>\n", e.line));
-    s.push_str(&format!("<pre class=\"source\"><code>{}</code></pre>\n", esc(&e.source)));
-    s.push_str(&format!("<div class=\"result\">{}</div>\n", crate::render::html(&e.value)));
+    let title = if e.kind == EntryKind::Shown {
+        "shown".to_string()
+    } else {
+        format!("<code>{}</code>", esc(&e.name))
+    };
+    s.push_str(&format!(
+        "<h3>{title} <span class=\"line\">line {}</span></h3>\n",
+        e.line
+    ));
+    s.push_str(&format!(
+        "<pre class=\"source\"><code>{}</code></pre>\n",
+        esc(&e.source)
+    ));
+    s.push_str(&format!(
+        "<div class=\"result\">{}</div>\n",
+        crate::render::html(&e.value)
+    ));
     if !e.depends_on.is_empty() {
         let links: Vec<String> = e.depends_on.iter().map(|d| dependency_link(d, r)).collect();
-        s.push_str(&format!("<p class=\"deps\">Depends on: {}</p>\n", links.join(", ")));
+        s.push_str(&format!(
+            "<p class=\"deps\">Depends on: {}</p>\n",
+            links.join(", ")
+        ));
     }
     for b in &e.builtins {
         s.push_str(&format!(
@@ -127,23 +181,42 @@ fn value_entry(s: &mut String, e: &Entry, r: &RecordData) {
         ));
     }
     for w in &e.warnings {
-        s.push_str(&format!("<p class=\"warning\"><strong>Warning:</strong> {}</p>\n", esc(w)));
+        s.push_str(&format!(
+            "<p class=\"warning\"><strong>Warning:</strong> {}</p>\n",
+            esc(w)
+        ));
     }
     s.push_str("</article>\n");
 }
 
 /// A link to a named value's entry (user functions have none).
 fn dependency_link(name: &str, r: &RecordData) -> String {
-    let named = r.entries.iter().any(|e| e.kind != EntryKind::Shown && e.name == name);
+    let named = r
+        .entries
+        .iter()
+        .any(|e| e.kind != EntryKind::Shown && e.name == name);
     match named {
-        true => format!("<a href=\"#{}\"><code>{}</code></a>", anchor(name), esc(name)),
+        true => format!(
+            "<a href=\"#{}\"><code>{}</code></a>",
+            anchor(name),
+            esc(name)
+        ),
         false => format!("<code>{}</code>", esc(name)),
     }
 }
 
 /// A fragment id for a name (names are letters, digits and `_`; anything else is escaped).
 fn anchor(name: &str) -> String {
-    let safe: String = name.chars().map(|c| if c.is_ascii_alphanumeric() || c == '_' { c } else { '-' }).collect();
+    let safe: String = name
+        .chars()
+        .map(|c| {
+            if c.is_ascii_alphanumeric() || c == '_' {
+                c
+            } else {
+                '-'
+            }
+        })
+        .collect();
     format!("v-{safe}")
 }
 
@@ -154,8 +227,16 @@ fn checks(s: &mut String, list: &[CheckEntry]) {
     } else {
         s.push_str("<table class=\"checks\">\n<thead><tr><th>Check</th><th>Line</th><th>Outcome</th></tr></thead>\n<tbody>\n");
         for c in list {
-            let badge = if c.passed { "<span class=\"badge pass\">pass</span>" } else { "<span class=\"badge fail\">FAIL</span>" };
-            s.push_str(&format!("<tr><td><code>{}</code></td><td>{}</td><td>{badge}</td></tr>\n", esc(&c.text), c.line));
+            let badge = if c.passed {
+                "<span class=\"badge pass\">pass</span>"
+            } else {
+                "<span class=\"badge fail\">FAIL</span>"
+            };
+            s.push_str(&format!(
+                "<tr><td><code>{}</code></td><td>{}</td><td>{badge}</td></tr>\n",
+                esc(&c.text),
+                c.line
+            ));
         }
         s.push_str("</tbody>\n</table>\n");
     }
@@ -168,7 +249,11 @@ fn methods(s: &mut String, list: &[&'static Builtin]) {
     }
     s.push_str("<section>\n<h2>Methods and sources</h2>\n<dl class=\"methods\">\n");
     for b in list {
-        s.push_str(&format!("<dt><code>{}</code> ({})</dt>\n", esc(b.name), esc(b.family)));
+        s.push_str(&format!(
+            "<dt><code>{}</code> ({})</dt>\n",
+            esc(b.name),
+            esc(b.family)
+        ));
         s.push_str(&format!(
             "<dd><p>{}</p><p><strong>Method:</strong> {}</p><p><strong>Source:</strong> {}</p><p><strong>Valid for:</strong> {}</p></dd>\n",
             esc(b.doc),

@@ -32,14 +32,30 @@ pub fn markdown(r: &RecordData) -> String {
 
 fn header(s: &mut String, r: &RecordData) {
     s.push_str("| | |\n| --- | --- |\n");
-    s.push_str(&format!("| Worksheet | `{}` (SHA-256 `{}`) |\n", r.worksheet.path, r.worksheet.sha256));
+    s.push_str(&format!(
+        "| Worksheet | `{}` (SHA-256 `{}`) |\n",
+        r.worksheet.path, r.worksheet.sha256
+    ));
     for f in &r.loaded {
-        s.push_str(&format!("| Loaded | `{}` (SHA-256 `{}`) |\n", f.path, f.sha256));
+        s.push_str(&format!(
+            "| Loaded | `{}` (SHA-256 `{}`) |\n",
+            f.path, f.sha256
+        ));
     }
     s.push_str(&format!("| Tool | siccant {} |\n", r.tool_version));
     let overrides: Vec<String> = r.overrides.iter().map(|o| format!("`--set {o}`")).collect();
-    s.push_str(&format!("| Overrides | {} |\n", if overrides.is_empty() { "none".to_string() } else { overrides.join(" ") }));
-    let when = r.timestamp.clone().unwrap_or_else(|| "omitted (reproducible record)".into());
+    s.push_str(&format!(
+        "| Overrides | {} |\n",
+        if overrides.is_empty() {
+            "none".to_string()
+        } else {
+            overrides.join(" ")
+        }
+    ));
+    let when = r
+        .timestamp
+        .clone()
+        .unwrap_or_else(|| "omitted (reproducible record)".into());
     s.push_str(&format!("| Run at | {when} |\n\n"));
     let failed = r.failed_checks();
     s.push_str(&format!(
@@ -60,14 +76,22 @@ fn inputs(s: &mut String, r: &RecordData) {
     s.push_str("| Name | Value | As written | Line |\n| --- | --- | --- | ---: |\n");
     for e in list {
         let note = if e.overridden { " (set by --set)" } else { "" };
-        s.push_str(&format!("| `{}` | {}{note} | `{}` | {} |\n", e.name, inline(e), e.source.replace('|', "\\|"), e.line));
+        s.push_str(&format!(
+            "| `{}` | {}{note} | `{}` | {} |\n",
+            e.name,
+            inline(e),
+            e.source.replace('|', "\\|"),
+            e.line
+        ));
     }
     s.push('\n');
 }
 
 /// A value short enough for a table cell.
 fn inline(e: &Entry) -> String {
-    crate::render::markdown(&e.value).replace('\n', " ").replace('|', "\\|")
+    crate::render::markdown(&e.value)
+        .replace('\n', " ")
+        .replace('|', "\\|")
 }
 
 fn value_entry(s: &mut String, e: &Entry) {
@@ -75,14 +99,25 @@ fn value_entry(s: &mut String, e: &Entry) {
         EntryKind::Shown => "shown".to_string(),
         _ => format!("`{}`", e.name),
     };
-    s.push_str(&format!("### {title} (line {})\n\n```\n{}\n```\n\n", e.line, e.source));
-    s.push_str(&format!("{}\n\n", crate::render::markdown(&e.value).trim_end()));
+    s.push_str(&format!(
+        "### {title} (line {})\n\n```\n{}\n```\n\n",
+        e.line, e.source
+    ));
+    s.push_str(&format!(
+        "{}\n\n",
+        crate::render::markdown(&e.value).trim_end()
+    ));
     if !e.depends_on.is_empty() {
         let deps: Vec<String> = e.depends_on.iter().map(|d| format!("`{d}`")).collect();
         s.push_str(&format!("Depends on: {}\n\n", deps.join(", ")));
     }
     for b in &e.builtins {
-        s.push_str(&format!("- `{}`: {} Source: {}\n", b.name, esc(b.method), esc(b.source)));
+        s.push_str(&format!(
+            "- `{}`: {} Source: {}\n",
+            b.name,
+            esc(b.method),
+            esc(b.source)
+        ));
     }
     for w in &e.warnings {
         s.push_str(&format!("- **Warning:** {}\n", esc(w)));
@@ -101,7 +136,11 @@ fn checks(s: &mut String, r: &RecordData) {
     s.push_str("| Check | Line | Outcome |\n| --- | ---: | --- |\n");
     for c in &r.checks {
         let outcome = if c.passed { "pass" } else { "**FAIL**" };
-        s.push_str(&format!("| `{}` | {} | {outcome} |\n", c.text.replace('|', "\\|"), c.line));
+        s.push_str(&format!(
+            "| `{}` | {} | {outcome} |\n",
+            c.text.replace('|', "\\|"),
+            c.line
+        ));
     }
     s.push('\n');
 }

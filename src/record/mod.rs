@@ -26,16 +26,23 @@ use crate::render::RenderError;
 
 /// The record in the format named by `path`'s extension (`.html`/`.htm`, `.md`, `.json`).
 pub fn render_for(r: &RecordData, path: &Path) -> Result<String, RenderError> {
-    let ext = path.extension().and_then(|e| e.to_str()).map(|e| e.to_ascii_lowercase());
+    let ext = path
+        .extension()
+        .and_then(|e| e.to_str())
+        .map(|e| e.to_ascii_lowercase());
     match ext.as_deref() {
         Some("html" | "htm") => Ok(html(r)),
         Some("md") => Ok(markdown(r)),
         Some("json") => {
-            let mut s = serde_json::to_string_pretty(&json(r)).map_err(|e| RenderError::Draw(e.to_string()))?;
+            let mut s = serde_json::to_string_pretty(&json(r))
+                .map_err(|e| RenderError::Draw(e.to_string()))?;
             s.push('\n');
             Ok(s)
         }
-        _ => Err(RenderError::Format { path: path.to_path_buf(), expected: ".html, .md or .json" }),
+        _ => Err(RenderError::Format {
+            path: path.to_path_buf(),
+            expected: ".html, .md or .json",
+        }),
     }
 }
 

@@ -13,19 +13,38 @@ pub enum RenderError {
     EmptyTable { title: Option<String> },
     /// Table columns of different lengths.
     #[error("column `{column}` has {found} rows but column `{first}` has {expected}")]
-    RaggedTable { first: String, expected: usize, column: String, found: usize },
+    RaggedTable {
+        first: String,
+        expected: usize,
+        column: String,
+        found: usize,
+    },
     /// A cell whose dimension does not match its column's unit.
     #[error("column `{column}`, row {row}: {found} cannot be shown in {unit}")]
-    CellUnit { column: String, row: usize, unit: String, found: String },
+    CellUnit {
+        column: String,
+        row: usize,
+        unit: String,
+        found: String,
+    },
     /// A number that is not finite (NaN or infinite) where a result is shown.
     #[error("{what} is not a finite number")]
     NotFinite { what: String },
     /// A plot series whose x and y lists differ in length.
     #[error("series `{series}` has {x_len} x values but {y_len} y values")]
-    SeriesLength { series: String, x_len: usize, y_len: usize },
+    SeriesLength {
+        series: String,
+        x_len: usize,
+        y_len: usize,
+    },
     /// Two series (or a series and the axis) in incompatible units on one axis.
     #[error("the {axis} axis already shows {expected}; series `{series}` is {found}")]
-    AxisUnits { axis: &'static str, expected: String, series: String, found: String },
+    AxisUnits {
+        axis: &'static str,
+        expected: String,
+        series: String,
+        found: String,
+    },
     /// A plot with nothing to draw.
     #[error("the plot `{title}` has no data to draw")]
     EmptyPlot { title: String },
@@ -40,10 +59,16 @@ pub enum RenderError {
     Draw(String),
     /// The output file could not be written; nothing was left at `path`.
     #[error("cannot write {}: {source}", .path.display())]
-    Write { path: PathBuf, source: std::io::Error },
+    Write {
+        path: PathBuf,
+        source: std::io::Error,
+    },
     /// The file extension does not name a format we write.
     #[error("cannot tell the format of {} from its extension; use {expected}", .path.display())]
-    Format { path: PathBuf, expected: &'static str },
+    Format {
+        path: PathBuf,
+        expected: &'static str,
+    },
 }
 
 fn title_suffix(title: &Option<String>) -> String {

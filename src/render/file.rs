@@ -11,9 +11,15 @@ use super::error::RenderError;
 ///
 /// On any error the target is untouched and the temporary file is removed.
 pub fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), RenderError> {
-    let fail = |source: std::io::Error| RenderError::Write { path: path.to_path_buf(), source };
+    let fail = |source: std::io::Error| RenderError::Write {
+        path: path.to_path_buf(),
+        source,
+    };
     if path.file_name().is_none() || path.is_dir() {
-        return Err(fail(std::io::Error::new(std::io::ErrorKind::InvalidInput, "the path names a folder, not a file")));
+        return Err(fail(std::io::Error::new(
+            std::io::ErrorKind::InvalidInput,
+            "the path names a folder, not a file",
+        )));
     }
     let dir = match path.parent() {
         Some(p) if !p.as_os_str().is_empty() => p,
@@ -21,11 +27,18 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), RenderError> {
     };
     if !dir.is_dir() {
         let missing = format!("the folder {} does not exist", dir.display());
-        return Err(fail(std::io::Error::new(std::io::ErrorKind::NotFound, missing)));
+        return Err(fail(std::io::Error::new(
+            std::io::ErrorKind::NotFound,
+            missing,
+        )));
     }
     // tempfile names its random file in errors; report only what went wrong.
     let plain = |e: std::io::Error| fail(std::io::Error::from(e.kind()));
-    let mut tmp = tempfile::Builder::new().prefix(".siccant-").suffix(".tmp").tempfile_in(dir).map_err(plain)?;
+    let mut tmp = tempfile::Builder::new()
+        .prefix(".siccant-")
+        .suffix(".tmp")
+        .tempfile_in(dir)
+        .map_err(plain)?;
     tmp.write_all(bytes).map_err(fail)?;
     tmp.as_file().sync_all().map_err(fail)?;
     tmp.persist(path).map_err(|e| plain(e.error))?;

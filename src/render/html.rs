@@ -16,10 +16,16 @@ pub fn html(value: &Value) -> String {
             Err(e) => problem(&e.to_string()),
         },
         Value::List(items) if items.iter().any(is_block) => {
-            let parts: Vec<String> = items.iter().map(|v| format!("<li>{}</li>", html(v))).collect();
+            let parts: Vec<String> = items
+                .iter()
+                .map(|v| format!("<li>{}</li>", html(v)))
+                .collect();
             format!("<ol class=\"siccant-list\">{}</ol>\n", parts.join(""))
         }
-        other => format!("<span class=\"siccant-value\">{}</span>", escape_html(&super::text(other))),
+        other => format!(
+            "<span class=\"siccant-value\">{}</span>",
+            escape_html(&super::text(other))
+        ),
     }
 }
 
@@ -29,14 +35,24 @@ fn is_block(v: &Value) -> bool {
 }
 
 fn record(r: &Record) -> String {
-    let mut s = format!("<table class=\"siccant-record\">\n<caption>{}</caption>\n", escape_html(&r.type_name));
+    let mut s = format!(
+        "<table class=\"siccant-record\">\n<caption>{}</caption>\n",
+        escape_html(&r.type_name)
+    );
     for (name, v) in &r.fields {
-        s.push_str(&format!("<tr><th scope=\"row\">{}</th><td>{}</td></tr>\n", escape_html(name), html(v)));
+        s.push_str(&format!(
+            "<tr><th scope=\"row\">{}</th><td>{}</td></tr>\n",
+            escape_html(name),
+            html(v)
+        ));
     }
     s.push_str("</table>\n");
     s
 }
 
 fn problem(message: &str) -> String {
-    format!("<p class=\"siccant-problem\">cannot show this value: {}</p>\n", escape_html(message))
+    format!(
+        "<p class=\"siccant-problem\">cannot show this value: {}</p>\n",
+        escape_html(message)
+    )
 }

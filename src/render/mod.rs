@@ -26,7 +26,6 @@ pub use svg::svg;
 pub use json::{json, named as json_named};
 pub use text::{help_markdown, help_text, text};
 
-
 /// Escape text for HTML.
 pub fn escape(s: &str) -> String {
     s.replace('&', "&amp;")

@@ -50,9 +50,18 @@ impl NumberFormat {
         let decimals = match format {
             NumberFormat::Fixed(d) | NumberFormat::Scientific(d) => d,
         };
-        let spare = values.iter().filter(|v| v.is_finite()).map(|v| zero_tail(&format.write(*v))).min().unwrap_or(0);
+        let spare = values
+            .iter()
+            .filter(|v| v.is_finite())
+            .map(|v| zero_tail(&format.write(*v)))
+            .min()
+            .unwrap_or(0);
         let keep = decimals - spare.min(decimals);
-        let keep = if matches!(format, NumberFormat::Fixed(_)) && decimals > 0 { keep.max(1) } else { keep };
+        let keep = if matches!(format, NumberFormat::Fixed(_)) && decimals > 0 {
+            keep.max(1)
+        } else {
+            keep
+        };
         match format {
             NumberFormat::Fixed(_) => NumberFormat::Fixed(keep),
             NumberFormat::Scientific(_) => NumberFormat::Scientific(keep),
@@ -144,16 +153,34 @@ mod tests {
 
     #[test]
     fn fixed_decimals_follow_largest_magnitude() {
-        assert_eq!(NumberFormat::for_values(&[0.05, 2.5], 4), NumberFormat::Fixed(3));
-        assert_eq!(NumberFormat::for_values(&[1234.5], 4), NumberFormat::Fixed(0));
-        assert_eq!(NumberFormat::for_values(&[0.01234], 4), NumberFormat::Fixed(5));
+        assert_eq!(
+            NumberFormat::for_values(&[0.05, 2.5], 4),
+            NumberFormat::Fixed(3)
+        );
+        assert_eq!(
+            NumberFormat::for_values(&[1234.5], 4),
+            NumberFormat::Fixed(0)
+        );
+        assert_eq!(
+            NumberFormat::for_values(&[0.01234], 4),
+            NumberFormat::Fixed(5)
+        );
     }
 
     #[test]
     fn column_drops_shared_zero_decimals() {
-        assert_eq!(NumberFormat::for_column(&[0.0, 0.5, 4.0], 4), NumberFormat::Fixed(1));
-        assert_eq!(NumberFormat::for_column(&[1.85, 0.0912], 4), NumberFormat::Fixed(3));
-        assert_eq!(NumberFormat::for_column(&[2.0, 2.5e7], 4), NumberFormat::Scientific(1));
+        assert_eq!(
+            NumberFormat::for_column(&[0.0, 0.5, 4.0], 4),
+            NumberFormat::Fixed(1)
+        );
+        assert_eq!(
+            NumberFormat::for_column(&[1.85, 0.0912], 4),
+            NumberFormat::Fixed(3)
+        );
+        assert_eq!(
+            NumberFormat::for_column(&[2.0, 2.5e7], 4),
+            NumberFormat::Scientific(1)
+        );
     }
 
     #[test]
@@ -167,7 +194,10 @@ mod tests {
     fn extremes_go_scientific() {
         assert_eq!(format_sig(1.23456e7, 4), "1.235e7");
         assert_eq!(format_sig(2.5e-5, 3), "2.5e-5");
-        assert_eq!(NumberFormat::for_values(&[2.5e-5], 3).write(2.5e-5), "2.50e-5");
+        assert_eq!(
+            NumberFormat::for_values(&[2.5e-5], 3).write(2.5e-5),
+            "2.50e-5"
+        );
     }
 
     #[test]
@@ -183,8 +213,16 @@ mod tests {
     fn absolute_temperature_uses_offset_difference_does_not() {
         use crate::units::{lookup_unit, Kind};
         let degc = lookup_unit("degC").unwrap();
-        let abs = Quantity { si: 353.15, dim: Dim::TEMPERATURE, kind: Kind::AbsoluteTemperature };
-        let diff = Quantity { si: 10.0, dim: Dim::TEMPERATURE, kind: Kind::TemperatureDifference };
+        let abs = Quantity {
+            si: 353.15,
+            dim: Dim::TEMPERATURE,
+            kind: Kind::AbsoluteTemperature,
+        };
+        let diff = Quantity {
+            si: 10.0,
+            dim: Dim::TEMPERATURE,
+            kind: Kind::TemperatureDifference,
+        };
         assert!((in_unit(&abs, &degc).unwrap() - 80.0).abs() < 1e-9);
         assert!(in_unit(&diff, &degc).is_err());
         assert_eq!(in_unit(&diff, &lookup_unit("K").unwrap()).unwrap(), 10.0);

@@ -26,7 +26,13 @@ pub struct Curve {
 impl Curve {
     /// A curve from a label and paired x and y values.
     pub fn new(label: impl Into<String>, x: Vec<Quantity>, y: Vec<Quantity>) -> Curve {
-        Curve { label: label.into(), x, y, x_unit: None, y_unit: None }
+        Curve {
+            label: label.into(),
+            x,
+            y,
+            x_unit: None,
+            y_unit: None,
+        }
     }
 }
 
@@ -47,13 +53,28 @@ struct Axis {
 
 impl Axis {
     /// Numbers of `values` in this axis' unit; the first quantity fixes the unit.
-    fn numbers(&mut self, series: &str, values: &[Quantity], shown: Option<&Unit>) -> Result<Vec<f64>, RenderError> {
-        values.iter().map(|q| self.number(series, q, shown)).collect()
+    fn numbers(
+        &mut self,
+        series: &str,
+        values: &[Quantity],
+        shown: Option<&Unit>,
+    ) -> Result<Vec<f64>, RenderError> {
+        values
+            .iter()
+            .map(|q| self.number(series, q, shown))
+            .collect()
     }
 
-    fn number(&mut self, series: &str, q: &Quantity, shown: Option<&Unit>) -> Result<f64, RenderError> {
+    fn number(
+        &mut self,
+        series: &str,
+        q: &Quantity,
+        shown: Option<&Unit>,
+    ) -> Result<f64, RenderError> {
         if !q.si.is_finite() {
-            return Err(RenderError::NotFinite { what: format!("a {} value of `{series}`", self.which) });
+            return Err(RenderError::NotFinite {
+                what: format!("a {} value of `{series}`", self.which),
+            });
         }
         let unit = self.unit.get_or_insert_with(|| default_unit(q, shown));
         if unit.dim != q.dim {
@@ -89,11 +110,26 @@ pub struct PlotBuilder {
 
 impl PlotBuilder {
     /// A plot titled `title` with axes named `x_name` and `y_name` (units are added to the labels).
-    pub fn new(title: impl Into<String>, x_name: impl Into<String>, y_name: impl Into<String>) -> PlotBuilder {
+    pub fn new(
+        title: impl Into<String>,
+        x_name: impl Into<String>,
+        y_name: impl Into<String>,
+    ) -> PlotBuilder {
         PlotBuilder {
-            plot: Plot { title: title.into(), ..Plot::default() },
-            x: Axis { which: "x", name: x_name.into(), unit: None },
-            y: Axis { which: "y", name: y_name.into(), unit: None },
+            plot: Plot {
+                title: title.into(),
+                ..Plot::default()
+            },
+            x: Axis {
+                which: "x",
+                name: x_name.into(),
+                unit: None,
+            },
+            y: Axis {
+                which: "y",
+                name: y_name.into(),
+                unit: None,
+            },
         }
     }
 
@@ -105,18 +141,39 @@ impl PlotBuilder {
     }
 
     /// Add a series; errors for unequal lengths or units that do not fit the axes.
-    pub fn series(&mut self, curve: &Curve, style: SeriesStyle) -> Result<&mut PlotBuilder, RenderError> {
+    pub fn series(
+        &mut self,
+        curve: &Curve,
+        style: SeriesStyle,
+    ) -> Result<&mut PlotBuilder, RenderError> {
         if curve.x.len() != curve.y.len() {
-            return Err(RenderError::SeriesLength { series: curve.label.clone(), x_len: curve.x.len(), y_len: curve.y.len() });
+            return Err(RenderError::SeriesLength {
+                series: curve.label.clone(),
+                x_len: curve.x.len(),
+                y_len: curve.y.len(),
+            });
         }
-        let x = self.x.numbers(&curve.label, &curve.x, curve.x_unit.as_ref())?;
-        let y = self.y.numbers(&curve.label, &curve.y, curve.y_unit.as_ref())?;
-        self.plot.series.push(Series { label: curve.label.clone(), x, y, style });
+        let x = self
+            .x
+            .numbers(&curve.label, &curve.x, curve.x_unit.as_ref())?;
+        let y = self
+            .y
+            .numbers(&curve.label, &curve.y, curve.y_unit.as_ref())?;
+        self.plot.series.push(Series {
+            label: curve.label.clone(),
+            x,
+            y,
+            style,
+        });
         Ok(self)
     }
 
     /// A vertical line at `x`, labelled.
-    pub fn vline(&mut self, x: &Quantity, label: impl Into<String>) -> Result<&mut PlotBuilder, RenderError> {
+    pub fn vline(
+        &mut self,
+        x: &Quantity,
+        label: impl Into<String>,
+    ) -> Result<&mut PlotBuilder, RenderError> {
         let label = label.into();
         let x = self.x.number(&label, x, None)?;
         self.plot.marks.push(Mark::VLine { x, label });
@@ -124,7 +181,11 @@ impl PlotBuilder {
     }
 
     /// A horizontal line at `y`, labelled.
-    pub fn hline(&mut self, y: &Quantity, label: impl Into<String>) -> Result<&mut PlotBuilder, RenderError> {
+    pub fn hline(
+        &mut self,
+        y: &Quantity,
+        label: impl Into<String>,
+    ) -> Result<&mut PlotBuilder, RenderError> {
         let label = label.into();
         let y = self.y.number(&label, y, None)?;
         self.plot.marks.push(Mark::HLine { y, label });
@@ -132,40 +193,82 @@ impl PlotBuilder {
     }
 
     /// A shaded band between `x0` and `x1`, labelled at the top.
-    pub fn span(&mut self, x0: &Quantity, x1: &Quantity, label: impl Into<String>) -> Result<&mut PlotBuilder, RenderError> {
+    pub fn span(
+        &mut self,
+        x0: &Quantity,
+        x1: &Quantity,
+        label: impl Into<String>,
+    ) -> Result<&mut PlotBuilder, RenderError> {
         let label = label.into();
-        let (x0, x1) = (self.x.number(&label, x0, None)?, self.x.number(&label, x1, None)?);
-        self.plot.marks.push(Mark::Span { x0: x0.min(x1), x1: x0.max(x1), label });
+        let (x0, x1) = (
+            self.x.number(&label, x0, None)?,
+            self.x.number(&label, x1, None)?,
+        );
+        self.plot.marks.push(Mark::Span {
+            x0: x0.min(x1),
+            x1: x0.max(x1),
+            label,
+        });
         Ok(self)
     }
 
     /// A labelled dot at (`x`, `y`).
-    pub fn point(&mut self, x: &Quantity, y: &Quantity, label: impl Into<String>) -> Result<&mut PlotBuilder, RenderError> {
+    pub fn point(
+        &mut self,
+        x: &Quantity,
+        y: &Quantity,
+        label: impl Into<String>,
+    ) -> Result<&mut PlotBuilder, RenderError> {
         let label = label.into();
-        let (x, y) = (self.x.number(&label, x, None)?, self.y.number(&label, y, None)?);
+        let (x, y) = (
+            self.x.number(&label, x, None)?,
+            self.y.number(&label, y, None)?,
+        );
         self.plot.marks.push(Mark::Point { x, y, label });
         Ok(self)
     }
 
     /// A small text label at (`x`, `y`).
-    pub fn text(&mut self, x: &Quantity, y: &Quantity, label: impl Into<String>) -> Result<&mut PlotBuilder, RenderError> {
+    pub fn text(
+        &mut self,
+        x: &Quantity,
+        y: &Quantity,
+        label: impl Into<String>,
+    ) -> Result<&mut PlotBuilder, RenderError> {
         let label = label.into();
-        let (x, y) = (self.x.number(&label, x, None)?, self.y.number(&label, y, None)?);
+        let (x, y) = (
+            self.x.number(&label, x, None)?,
+            self.y.number(&label, y, None)?,
+        );
         self.plot.marks.push(Mark::Text { x, y, label });
         Ok(self)
     }
 
     /// A heat map of `z` over the grid `x` by `y` (z row-major over (y, x)), coloured
     /// on a scale labelled `z_name [z_unit]`.
-    pub fn heat(&mut self, x: &[Quantity], y: &[Quantity], z: &[Quantity], z_name: &str, z_unit: Option<Unit>) -> Result<&mut PlotBuilder, RenderError> {
-        let mut z_axis = Axis { which: "colour", name: z_name.to_string(), unit: z_unit };
+    pub fn heat(
+        &mut self,
+        x: &[Quantity],
+        y: &[Quantity],
+        z: &[Quantity],
+        z_name: &str,
+        z_unit: Option<Unit>,
+    ) -> Result<&mut PlotBuilder, RenderError> {
+        let mut z_axis = Axis {
+            which: "colour",
+            name: z_name.to_string(),
+            unit: z_unit,
+        };
         let heat = HeatMap {
             x: self.x.numbers(z_name, x, None)?,
             y: self.y.numbers(z_name, y, None)?,
             z: z_axis.numbers(z_name, z, None)?,
             z_label: String::new(),
         };
-        self.plot.heat = Some(HeatMap { z_label: z_axis.label(), ..heat });
+        self.plot.heat = Some(HeatMap {
+            z_label: z_axis.label(),
+            ..heat
+        });
         Ok(self)
     }
 
@@ -183,7 +286,11 @@ impl PlotBuilder {
 pub fn validate(plot: &Plot) -> Result<(), RenderError> {
     for s in &plot.series {
         if s.x.len() != s.y.len() {
-            return Err(RenderError::SeriesLength { series: s.label.clone(), x_len: s.x.len(), y_len: s.y.len() });
+            return Err(RenderError::SeriesLength {
+                series: s.label.clone(),
+                x_len: s.x.len(),
+                y_len: s.y.len(),
+            });
         }
         finite_all(&s.x, || format!("an x value of series `{}`", s.label))?;
         finite_all(&s.y, || format!("a y value of series `{}`", s.label))?;
@@ -196,7 +303,9 @@ pub fn validate(plot: &Plot) -> Result<(), RenderError> {
     }
     let has_points = plot.series.iter().any(|s| !s.x.is_empty());
     if !has_points && plot.heat.is_none() {
-        return Err(RenderError::EmptyPlot { title: plot.title.clone() });
+        return Err(RenderError::EmptyPlot {
+            title: plot.title.clone(),
+        });
     }
     Ok(())
 }
@@ -243,7 +352,12 @@ pub fn heat_edges(points: &[f64]) -> Vec<f64> {
 }
 
 /// Drying curve: moisture content against time, measured points and model lines.
-pub fn drying_curve(title: &str, data: &[Curve], models: &[Curve], units: AxisUnits) -> Result<Plot, RenderError> {
+pub fn drying_curve(
+    title: &str,
+    data: &[Curve],
+    models: &[Curve],
+    units: AxisUnits,
+) -> Result<Plot, RenderError> {
     let mut b = PlotBuilder::new(title, "time", "moisture content X").units(units);
     add_all(&mut b, data, SeriesStyle::Points)?;
     add_all(&mut b, models, SeriesStyle::Line)?;
@@ -261,7 +375,12 @@ pub struct RatePeriods {
 
 /// Rate curve R(X): drying rate against moisture content, with the constant-rate
 /// period (above the critical moisture) and the falling-rate period shaded.
-pub fn rate_curve(title: &str, rate: &[Curve], periods: &RatePeriods, units: AxisUnits) -> Result<Plot, RenderError> {
+pub fn rate_curve(
+    title: &str,
+    rate: &[Curve],
+    periods: &RatePeriods,
+    units: AxisUnits,
+) -> Result<Plot, RenderError> {
     let mut b = PlotBuilder::new(title, "moisture content X", "drying rate").units(units);
     add_all(&mut b, rate, SeriesStyle::Line)?;
     let (lowest, highest) = extremes(rate.iter().flat_map(|c| c.x.iter()));
@@ -278,7 +397,9 @@ pub fn rate_curve(title: &str, rate: &[Curve], periods: &RatePeriods, units: Axi
 }
 
 /// Smallest and largest quantity by SI magnitude.
-fn extremes<'a>(values: impl Iterator<Item = &'a Quantity>) -> (Option<Quantity>, Option<Quantity>) {
+fn extremes<'a>(
+    values: impl Iterator<Item = &'a Quantity>,
+) -> (Option<Quantity>, Option<Quantity>) {
     let mut lo: Option<Quantity> = None;
     let mut hi: Option<Quantity> = None;
     for q in values {
@@ -293,22 +414,39 @@ fn extremes<'a>(values: impl Iterator<Item = &'a Quantity>) -> (Option<Quantity>
 }
 
 /// Sorption isotherms: equilibrium moisture against water activity, data and fitted models.
-pub fn isotherms(title: &str, data: &[Curve], models: &[Curve], units: AxisUnits) -> Result<Plot, RenderError> {
-    let mut b = PlotBuilder::new(title, "water activity a_w", "equilibrium moisture X_e").units(units);
+pub fn isotherms(
+    title: &str,
+    data: &[Curve],
+    models: &[Curve],
+    units: AxisUnits,
+) -> Result<Plot, RenderError> {
+    let mut b =
+        PlotBuilder::new(title, "water activity a_w", "equilibrium moisture X_e").units(units);
     add_all(&mut b, data, SeriesStyle::Points)?;
     add_all(&mut b, models, SeriesStyle::Line)?;
     b.build()
 }
 
 /// Profiles along a continuous dryer: each curve is one quantity against position.
-pub fn profile(title: &str, y_name: &str, curves: &[Curve], units: AxisUnits) -> Result<Plot, RenderError> {
+pub fn profile(
+    title: &str,
+    y_name: &str,
+    curves: &[Curve],
+    units: AxisUnits,
+) -> Result<Plot, RenderError> {
     let mut b = PlotBuilder::new(title, "position along the dryer", y_name).units(units);
     add_all(&mut b, curves, SeriesStyle::Line)?;
     b.build()
 }
 
 /// Sweep result as lines: one output against the swept input, one curve per case.
-pub fn sweep_lines(title: &str, x_name: &str, y_name: &str, curves: &[Curve], units: AxisUnits) -> Result<Plot, RenderError> {
+pub fn sweep_lines(
+    title: &str,
+    x_name: &str,
+    y_name: &str,
+    curves: &[Curve],
+    units: AxisUnits,
+) -> Result<Plot, RenderError> {
     let mut b = PlotBuilder::new(title, x_name, y_name).units(units);
     add_all(&mut b, curves, SeriesStyle::Line)?;
     b.build()

@@ -40,11 +40,31 @@ pub fn png(plot: &Plot) -> Result<Vec<u8>, RenderError> {
 
 /// Rasterise an SVG document with the embedded font.
 pub fn svg_to_png(svg: &str) -> Result<Vec<u8>, RenderError> {
-    let options = usvg::Options { fontdb: font_database(), font_family: "DejaVu Sans".into(), ..usvg::Options::default() };
-    let tree = usvg::Tree::from_str(svg, &options).map_err(|e| RenderError::Draw(format!("reading the SVG: {e}")))?;
-    let size = tree.size().to_int_size().scale_by(SCALE).ok_or_else(|| RenderError::Draw("image size overflow".into()))?;
-    let mut pixmap = tiny_skia::Pixmap::new(size.width(), size.height())
-        .ok_or_else(|| RenderError::Draw(format!("cannot allocate a {}x{} image", size.width(), size.height())))?;
-    resvg::render(&tree, tiny_skia::Transform::from_scale(SCALE, SCALE), &mut pixmap.as_mut());
-    pixmap.encode_png().map_err(|e| RenderError::Draw(format!("encoding PNG: {e}")))
+    let options = usvg::Options {
+        fontdb: font_database(),
+        font_family: "DejaVu Sans".into(),
+        ..usvg::Options::default()
+    };
+    let tree = usvg::Tree::from_str(svg, &options)
+        .map_err(|e| RenderError::Draw(format!("reading the SVG: {e}")))?;
+    let size = tree
+        .size()
+        .to_int_size()
+        .scale_by(SCALE)
+        .ok_or_else(|| RenderError::Draw("image size overflow".into()))?;
+    let mut pixmap = tiny_skia::Pixmap::new(size.width(), size.height()).ok_or_else(|| {
+        RenderError::Draw(format!(
+            "cannot allocate a {}x{} image",
+            size.width(),
+            size.height()
+        ))
+    })?;
+    resvg::render(
+        &tree,
+        tiny_skia::Transform::from_scale(SCALE, SCALE),
+        &mut pixmap.as_mut(),
+    );
+    pixmap
+        .encode_png()
+        .map_err(|e| RenderError::Draw(format!("encoding PNG: {e}")))
 }

@@ -43,12 +43,20 @@ pub const SPAN_FILLS: [RGBColor; 2] = [RGBColor(0xe3, 0xee, 0xf1), RGBColor(0xf5
 pub const MARK: RGBColor = RGBColor(0x4a, 0x4f, 0x55);
 
 /// Heat-map ramp stops, low to high: sand, amber, brick, plum.
-const RAMP: [(f64, (u8, u8, u8)); 4] =
-    [(0.0, (0xf6, 0xf0, 0xd8)), (0.35, (0xe8, 0xb0, 0x4a)), (0.7, (0xc0, 0x4f, 0x2c)), (1.0, (0x5a, 0x22, 0x4e))];
+const RAMP: [(f64, (u8, u8, u8)); 4] = [
+    (0.0, (0xf6, 0xf0, 0xd8)),
+    (0.35, (0xe8, 0xb0, 0x4a)),
+    (0.7, (0xc0, 0x4f, 0x2c)),
+    (1.0, (0x5a, 0x22, 0x4e)),
+];
 
 /// Colour of a heat-map cell at fraction `t` (0..1) of the z range.
 pub fn ramp(t: f64) -> RGBColor {
-    let t = if t.is_finite() { t.clamp(0.0, 1.0) } else { 0.0 };
+    let t = if t.is_finite() {
+        t.clamp(0.0, 1.0)
+    } else {
+        0.0
+    };
     for pair in RAMP.windows(2) {
         let ((t0, c0), (t1, c1)) = (pair[0], pair[1]);
         if t <= t1 {

@@ -21,7 +21,11 @@ use super::plot::{heat_edges, validate};
 use super::style::*;
 
 type Area<'a> = DrawingArea<SVGBackend<'a>, Shift>;
-type Chart<'a, 'b> = ChartContext<'b, SVGBackend<'a>, Cartesian2d<plotters::coord::types::RangedCoordf64, plotters::coord::types::RangedCoordf64>>;
+type Chart<'a, 'b> = ChartContext<
+    'b,
+    SVGBackend<'a>,
+    Cartesian2d<plotters::coord::types::RangedCoordf64, plotters::coord::types::RangedCoordf64>,
+>;
 
 /// Render a plot as an SVG document (760 x 480 px).
 ///
@@ -44,11 +48,15 @@ fn draw_err(e: impl std::fmt::Display) -> RenderError {
 
 /// A font of `px` pixels (plotters writes size/1.24 into the SVG).
 fn font(px: f64, colour: RGBColor) -> TextStyle<'static> {
-    (FontFamily::SansSerif, px * 1.24).into_font().color(&colour)
+    (FontFamily::SansSerif, px * 1.24)
+        .into_font()
+        .color(&colour)
 }
 
 fn title_font() -> TextStyle<'static> {
-    (FontFamily::SansSerif, TITLE_PX * 1.24, FontStyle::Bold).into_font().color(&INK)
+    (FontFamily::SansSerif, TITLE_PX * 1.24, FontStyle::Bold)
+        .into_font()
+        .color(&INK)
 }
 
 fn draw_plot(root: &Area, plot: &Plot) -> Result<(), RenderError> {
@@ -87,7 +95,11 @@ fn draw_chart(area: &Area, plot: &Plot) -> Result<(), RenderError> {
     draw_mesh(&mut chart, plot)?;
     let mut palette_index = 0;
     for series in &plot.series {
-        draw_series(&mut chart, series, series_colour(series.style, &mut palette_index))?;
+        draw_series(
+            &mut chart,
+            series,
+            series_colour(series.style, &mut palette_index),
+        )?;
     }
     draw_marks(&mut chart, &plot.marks, &xr, &yr)
 }
@@ -123,11 +135,21 @@ fn series_colour(style: SeriesStyle, palette_index: &mut usize) -> RGBColor {
 fn draw_series(chart: &mut Chart, series: &Series, colour: RGBColor) -> Result<(), RenderError> {
     let points = series.x.iter().copied().zip(series.y.iter().copied());
     let result = match series.style {
-        SeriesStyle::Line => chart.draw_series(LineSeries::new(points, colour.stroke_width(2))).map(|_| ()),
-        SeriesStyle::Thin => chart.draw_series(LineSeries::new(points, colour.stroke_width(1))).map(|_| ()),
-        SeriesStyle::Points => chart.draw_series(points.map(|p| Circle::new(p, 4, colour.stroke_width(2)))).map(|_| ()),
-        SeriesStyle::Dashed => chart.draw_series(DashedLineSeries::new(points, 7, 4, colour.stroke_width(1))).map(|_| ()),
-        SeriesStyle::Dotted => chart.draw_series(DashedLineSeries::new(points, 2, 3, colour.stroke_width(1))).map(|_| ()),
+        SeriesStyle::Line => chart
+            .draw_series(LineSeries::new(points, colour.stroke_width(2)))
+            .map(|_| ()),
+        SeriesStyle::Thin => chart
+            .draw_series(LineSeries::new(points, colour.stroke_width(1)))
+            .map(|_| ()),
+        SeriesStyle::Points => chart
+            .draw_series(points.map(|p| Circle::new(p, 4, colour.stroke_width(2))))
+            .map(|_| ()),
+        SeriesStyle::Dashed => chart
+            .draw_series(DashedLineSeries::new(points, 7, 4, colour.stroke_width(1)))
+            .map(|_| ()),
+        SeriesStyle::Dotted => chart
+            .draw_series(DashedLineSeries::new(points, 2, 3, colour.stroke_width(1)))
+            .map(|_| ()),
     };
     result.map_err(draw_err)
 }
@@ -139,15 +161,26 @@ fn draw_spans(chart: &mut Chart, marks: &[Mark], yr: &Range<f64>) -> Result<(), 
     });
     for (i, (x0, x1, label)) in spans.enumerate() {
         let fill = SPAN_FILLS[i % SPAN_FILLS.len()].mix(0.85).filled();
-        chart.draw_series(std::iter::once(Rectangle::new([(x0, yr.start), (x1, yr.end)], fill))).map_err(draw_err)?;
+        chart
+            .draw_series(std::iter::once(Rectangle::new(
+                [(x0, yr.start), (x1, yr.end)],
+                fill,
+            )))
+            .map_err(draw_err)?;
         let anchor = font(NOTE_PX, MUTED_INK).pos(Pos::new(HPos::Center, VPos::Top));
-        let text = EmptyElement::at(((x0 + x1) / 2.0, yr.end)) + Text::new(label.clone(), (0, 6), anchor);
+        let text =
+            EmptyElement::at(((x0 + x1) / 2.0, yr.end)) + Text::new(label.clone(), (0, 6), anchor);
         chart.draw_series(std::iter::once(text)).map_err(draw_err)?;
     }
     Ok(())
 }
 
-fn draw_marks(chart: &mut Chart, marks: &[Mark], xr: &Range<f64>, yr: &Range<f64>) -> Result<(), RenderError> {
+fn draw_marks(
+    chart: &mut Chart,
+    marks: &[Mark],
+    xr: &Range<f64>,
+    yr: &Range<f64>,
+) -> Result<(), RenderError> {
     for mark in marks {
         match mark {
             Mark::VLine { x, label } => draw_vline(chart, *x, label, yr)?,
@@ -159,7 +192,8 @@ fn draw_marks(chart: &mut Chart, marks: &[Mark], xr: &Range<f64>, yr: &Range<f64
                 chart.draw_series(std::iter::once(dot)).map_err(draw_err)?;
             }
             Mark::Text { x, y, label } => {
-                let text = EmptyElement::at((*x, *y)) + Text::new(label.clone(), (2, -14), font(NOTE_PX - 1.5, MUTED_INK));
+                let text = EmptyElement::at((*x, *y))
+                    + Text::new(label.clone(), (2, -14), font(NOTE_PX - 1.5, MUTED_INK));
                 chart.draw_series(std::iter::once(text)).map_err(draw_err)?;
             }
             Mark::Span { .. } => {}
@@ -171,8 +205,12 @@ fn draw_marks(chart: &mut Chart, marks: &[Mark], xr: &Range<f64>, yr: &Range<f64
 fn draw_vline(chart: &mut Chart, x: f64, label: &str, yr: &Range<f64>) -> Result<(), RenderError> {
     let path = DashedPathElement::new(vec![(x, yr.start), (x, yr.end)], 5, 3, MARK.stroke_width(1));
     chart.draw_series(std::iter::once(path)).map_err(draw_err)?;
-    let text = EmptyElement::at((x, yr.end)) + Text::new(label.to_string(), (5, 24), font(NOTE_PX, MARK));
-    chart.draw_series(std::iter::once(text)).map(|_| ()).map_err(draw_err)
+    let text =
+        EmptyElement::at((x, yr.end)) + Text::new(label.to_string(), (5, 24), font(NOTE_PX, MARK));
+    chart
+        .draw_series(std::iter::once(text))
+        .map(|_| ())
+        .map_err(draw_err)
 }
 
 fn draw_hline(chart: &mut Chart, y: f64, label: &str, xr: &Range<f64>) -> Result<(), RenderError> {
@@ -180,7 +218,10 @@ fn draw_hline(chart: &mut Chart, y: f64, label: &str, xr: &Range<f64>) -> Result
     chart.draw_series(std::iter::once(path)).map_err(draw_err)?;
     let anchor = font(NOTE_PX, MARK).pos(Pos::new(HPos::Right, VPos::Bottom));
     let text = EmptyElement::at((xr.end, y)) + Text::new(label.to_string(), (-4, -3), anchor);
-    chart.draw_series(std::iter::once(text)).map(|_| ()).map_err(draw_err)
+    chart
+        .draw_series(std::iter::once(text))
+        .map(|_| ())
+        .map_err(draw_err)
 }
 
 fn draw_heat(chart: &mut Chart, heat: &HeatMap) -> Result<(), RenderError> {
@@ -211,19 +252,35 @@ fn draw_colour_bar(area: &Area, heat: &HeatMap) -> Result<(), RenderError> {
     let (top, bottom, x0, x1) = (10i32, HEIGHT as i32 - 130, 6i32, 24i32);
     let steps = 48;
     for s in 0..steps {
-        let (y0, y1) = (bottom - (bottom - top) * s / steps, bottom - (bottom - top) * (s + 1) / steps);
+        let (y0, y1) = (
+            bottom - (bottom - top) * s / steps,
+            bottom - (bottom - top) * (s + 1) / steps,
+        );
         let colour = ramp((s as f64 + 0.5) / steps as f64);
-        area.draw(&Rectangle::new([(x0, y1), (x1, y0)], colour.filled())).map_err(draw_err)?;
+        area.draw(&Rectangle::new([(x0, y1), (x1, y0)], colour.filled()))
+            .map_err(draw_err)?;
     }
-    area.draw(&Rectangle::new([(x0, top), (x1, bottom)], INK.stroke_width(1))).map_err(draw_err)?;
+    area.draw(&Rectangle::new(
+        [(x0, top), (x1, bottom)],
+        INK.stroke_width(1),
+    ))
+    .map_err(draw_err)?;
     let anchor = font(TICK_PX - 1.0, MUTED_INK).pos(Pos::new(HPos::Left, VPos::Center));
     for k in 0..=4 {
         let y = bottom - (bottom - top) * k / 4;
         let z = lo + (hi - lo) * k as f64 / 4.0;
-        area.draw(&Text::new(format_sig(z, 3), (x1 + 5, y), anchor.clone())).map_err(draw_err)?;
+        area.draw(&Text::new(format_sig(z, 3), (x1 + 5, y), anchor.clone()))
+            .map_err(draw_err)?;
     }
-    let label = font(LABEL_PX - 1.0, INK).transform(FontTransform::Rotate270).pos(Pos::new(HPos::Center, VPos::Top));
-    area.draw(&Text::new(heat.z_label.clone(), (78, (top + bottom) / 2), label)).map_err(draw_err)
+    let label = font(LABEL_PX - 1.0, INK)
+        .transform(FontTransform::Rotate270)
+        .pos(Pos::new(HPos::Center, VPos::Top));
+    area.draw(&Text::new(
+        heat.z_label.clone(),
+        (78, (top + bottom) / 2),
+        label,
+    ))
+    .map_err(draw_err)
 }
 
 /// Legend entries placed in rows across the header.
@@ -245,7 +302,13 @@ fn legend_layout(plot: &Plot) -> LegendLayout {
             row += 1;
             x = 18;
         }
-        items.push((x, 44 + 22 * row as i32, series.label.clone(), series.style, colour));
+        items.push((
+            x,
+            44 + 22 * row as i32,
+            series.label.clone(),
+            series.style,
+            colour,
+        ));
         x += width;
     }
     let rows = if items.is_empty() { 0 } else { row + 1 };
@@ -256,19 +319,30 @@ fn draw_legend(area: &Area, legend: &LegendLayout) -> Result<(), RenderError> {
     let anchor = font(NOTE_PX, INK).pos(Pos::new(HPos::Left, VPos::Center));
     for (x, y, label, style, colour) in &legend.items {
         draw_swatch(area, *x, *y, *style, *colour)?;
-        area.draw(&Text::new(label.clone(), (x + 30, *y), anchor.clone())).map_err(draw_err)?;
+        area.draw(&Text::new(label.clone(), (x + 30, *y), anchor.clone()))
+            .map_err(draw_err)?;
     }
     Ok(())
 }
 
-fn draw_swatch(area: &Area, x: i32, y: i32, style: SeriesStyle, colour: RGBColor) -> Result<(), RenderError> {
+fn draw_swatch(
+    area: &Area,
+    x: i32,
+    y: i32,
+    style: SeriesStyle,
+    colour: RGBColor,
+) -> Result<(), RenderError> {
     let ends = vec![(x, y), (x + 24, y)];
     let result = match style {
         SeriesStyle::Line => area.draw(&PathElement::new(ends, colour.stroke_width(2))),
         SeriesStyle::Thin => area.draw(&PathElement::new(ends, colour.stroke_width(1))),
         SeriesStyle::Points => area.draw(&Circle::new((x + 12, y), 4, colour.stroke_width(2))),
-        SeriesStyle::Dashed => area.draw(&DashedPathElement::new(ends, 7, 4, colour.stroke_width(1))),
-        SeriesStyle::Dotted => area.draw(&DashedPathElement::new(ends, 2, 3, colour.stroke_width(1))),
+        SeriesStyle::Dashed => {
+            area.draw(&DashedPathElement::new(ends, 7, 4, colour.stroke_width(1)))
+        }
+        SeriesStyle::Dotted => {
+            area.draw(&DashedPathElement::new(ends, 2, 3, colour.stroke_width(1)))
+        }
     };
     result.map_err(draw_err)
 }
@@ -298,7 +372,10 @@ fn ranges(plot: &Plot) -> (Range<f64>, Range<f64>) {
             ys.extend(heat_edges(&heat.y));
             (span_of(&xs, 0.0), span_of(&ys, 0.0))
         }
-        None => (span_of(&xs, 0.03), headroom(span_of(&ys, 0.03), &plot.marks)),
+        None => (
+            span_of(&xs, 0.03),
+            headroom(span_of(&ys, 0.03), &plot.marks),
+        ),
     }
 }
 

@@ -55,7 +55,16 @@ impl Layout {
     fn add_column(&mut self, column: &Column) -> Result<(), RenderError> {
         let unit = column_unit(column);
         let cells = column_cells(column, unit.as_ref())?;
-        let numbers: Vec<f64> = cells.iter().filter_map(|c| if let Cell::Number(x) = c { Some(*x) } else { None }).collect();
+        let numbers: Vec<f64> = cells
+            .iter()
+            .filter_map(|c| {
+                if let Cell::Number(x) = c {
+                    Some(*x)
+                } else {
+                    None
+                }
+            })
+            .collect();
         let format = NumberFormat::for_column(&numbers, SIG_FIGS);
         for (i, cell) in cells.iter().enumerate() {
             let (shown, exact) = match cell {
@@ -67,7 +76,8 @@ impl Layout {
         }
         let symbol = unit.map(|u| u.symbol).unwrap_or_default();
         self.headers.push((column.name.clone(), symbol));
-        self.numeric.push(!numbers.is_empty() && numbers.len() == cells.len());
+        self.numeric
+            .push(!numbers.is_empty() && numbers.len() == cells.len());
         Ok(())
     }
 
@@ -84,10 +94,17 @@ impl Layout {
 
 /// Rows in the table; errors for an empty or ragged table.
 fn check_shape(table: &Table) -> Result<usize, RenderError> {
-    let first = table.columns.first().ok_or_else(|| RenderError::EmptyTable { title: table.title.clone() })?;
+    let first = table
+        .columns
+        .first()
+        .ok_or_else(|| RenderError::EmptyTable {
+            title: table.title.clone(),
+        })?;
     let rows = first.cells.len();
     if rows == 0 {
-        return Err(RenderError::EmptyTable { title: table.title.clone() });
+        return Err(RenderError::EmptyTable {
+            title: table.title.clone(),
+        });
     }
     for column in &table.columns[1..] {
         if column.cells.len() != rows {
@@ -114,20 +131,38 @@ fn column_unit(column: &Column) -> Option<Unit> {
 }
 
 fn column_cells(column: &Column, unit: Option<&Unit>) -> Result<Vec<Cell>, RenderError> {
-    column.cells.iter().enumerate().map(|(row, cell)| cell_value(column, row + 1, cell, unit)).collect()
+    column
+        .cells
+        .iter()
+        .enumerate()
+        .map(|(row, cell)| cell_value(column, row + 1, cell, unit))
+        .collect()
 }
 
-fn cell_value(column: &Column, row: usize, cell: &Value, unit: Option<&Unit>) -> Result<Cell, RenderError> {
+fn cell_value(
+    column: &Column,
+    row: usize,
+    cell: &Value,
+    unit: Option<&Unit>,
+) -> Result<Cell, RenderError> {
     match (cell, unit) {
         (Value::Quantity(q, _), Some(unit)) => quantity_cell(column, row, q, unit),
         (Value::Quantity(q, _), None) => finite(column, row, q.si),
         (Value::Bool(b), _) => Ok(Cell::Text(if *b { "yes" } else { "no" }.into())),
         (Value::Str(s), _) => Ok(Cell::Text(s.clone())),
-        (other, _) => Ok(Cell::Text(format!("({})", crate::library::type_word(other)))),
+        (other, _) => Ok(Cell::Text(format!(
+            "({})",
+            crate::library::type_word(other)
+        ))),
     }
 }
 
-fn quantity_cell(column: &Column, row: usize, q: &Quantity, unit: &Unit) -> Result<Cell, RenderError> {
+fn quantity_cell(
+    column: &Column,
+    row: usize,
+    q: &Quantity,
+    unit: &Unit,
+) -> Result<Cell, RenderError> {
     if !q.si.is_finite() {
         return finite(column, row, q.si);
     }
@@ -147,14 +182,18 @@ fn finite(column: &Column, row: usize, x: f64) -> Result<Cell, RenderError> {
     if x.is_finite() {
         Ok(Cell::Number(x))
     } else {
-        Err(RenderError::NotFinite { what: format!("column `{}`, row {row}", column.name) })
+        Err(RenderError::NotFinite {
+            what: format!("column `{}`, row {row}", column.name),
+        })
     }
 }
 
 /// Aligned plain text for the terminal: title, header, a rule, then rows.
 pub fn text(table: &Table) -> Result<String, RenderError> {
     let layout = Layout::new(table)?;
-    let headers: Vec<String> = (0..layout.headers.len()).map(|i| layout.header(i)).collect();
+    let headers: Vec<String> = (0..layout.headers.len())
+        .map(|i| layout.header(i))
+        .collect();
     let widths = column_widths(&headers, &layout.rows);
     let mut out = String::new();
     if let Some(title) = &layout.title {
@@ -186,7 +225,13 @@ fn push_text_row(out: &mut String, cells: &[String], widths: &[usize], numeric: 
         .iter()
         .zip(widths)
         .zip(numeric)
-        .map(|((cell, w), right)| if *right { format!("{cell:>w$}") } else { format!("{cell:<w$}") })
+        .map(|((cell, w), right)| {
+            if *right {
+                format!("{cell:>w$}")
+            } else {
+                format!("{cell:<w$}")
+            }
+        })
         .collect();
     out.push_str(parts.join("  ").trim_end());
     out.push('\n');
@@ -201,15 +246,27 @@ pub fn html(table: &Table) -> Result<String, RenderError> {
     }
     out.push_str("<thead><tr>");
     for (i, (name, unit)) in layout.headers.iter().enumerate() {
-        let align = if layout.numeric[i] { " style=\"text-align:right\"" } else { "" };
-        let unit = if unit.is_empty() { String::new() } else { format!(" <span class=\"unit\">[{}]</span>", escape_html(unit)) };
+        let align = if layout.numeric[i] {
+            " style=\"text-align:right\""
+        } else {
+            ""
+        };
+        let unit = if unit.is_empty() {
+            String::new()
+        } else {
+            format!(" <span class=\"unit\">[{}]</span>", escape_html(unit))
+        };
         out.push_str(&format!("<th{align}>{}{unit}</th>", escape_html(name)));
     }
     out.push_str("</tr></thead>\n<tbody>\n");
     for row in &layout.rows {
         out.push_str("<tr>");
         for (cell, right) in row.iter().zip(&layout.numeric) {
-            let align = if *right { " style=\"text-align:right\"" } else { "" };
+            let align = if *right {
+                " style=\"text-align:right\""
+            } else {
+                ""
+            };
             out.push_str(&format!("<td{align}>{}</td>", escape_html(cell)));
         }
         out.push_str("</tr>\n");
@@ -225,9 +282,15 @@ pub fn markdown(table: &Table) -> Result<String, RenderError> {
     if let Some(title) = &layout.title {
         out.push_str(&format!("**{}**\n\n", escape_markdown(title)));
     }
-    let headers: Vec<String> = (0..layout.headers.len()).map(|i| escape_markdown(&layout.header(i))).collect();
+    let headers: Vec<String> = (0..layout.headers.len())
+        .map(|i| escape_markdown(&layout.header(i)))
+        .collect();
     out.push_str(&format!("| {} |\n", headers.join(" | ")));
-    let rule: Vec<&str> = layout.numeric.iter().map(|n| if *n { "---:" } else { "---" }).collect();
+    let rule: Vec<&str> = layout
+        .numeric
+        .iter()
+        .map(|n| if *n { "---:" } else { "---" })
+        .collect();
     out.push_str(&format!("| {} |\n", rule.join(" | ")));
     for row in &layout.rows {
         let cells: Vec<String> = row.iter().map(|c| escape_markdown(c)).collect();
@@ -240,26 +303,38 @@ pub fn markdown(table: &Table) -> Result<String, RenderError> {
 pub fn csv(table: &Table) -> Result<String, RenderError> {
     let layout = Layout::new(table)?;
     let mut writer = csv::Writer::from_writer(Vec::new());
-    let headers: Vec<String> = (0..layout.headers.len()).map(|i| layout.header(i)).collect();
+    let headers: Vec<String> = (0..layout.headers.len())
+        .map(|i| layout.header(i))
+        .collect();
     let draw = |e: csv::Error| RenderError::Draw(e.to_string());
     writer.write_record(&headers).map_err(draw)?;
     for row in &layout.exact {
         writer.write_record(row).map_err(draw)?;
     }
-    let bytes = writer.into_inner().map_err(|e| RenderError::Draw(e.to_string()))?;
+    let bytes = writer
+        .into_inner()
+        .map_err(|e| RenderError::Draw(e.to_string()))?;
     String::from_utf8(bytes).map_err(|e| RenderError::Draw(e.to_string()))
 }
 
 /// Write a table to `path` atomically, in the format its extension names
 /// (`.csv`, `.md`, `.html`/`.htm`, `.txt`).
 pub fn export(table: &Table, path: &Path) -> Result<(), RenderError> {
-    let ext = path.extension().and_then(|e| e.to_str()).map(|e| e.to_ascii_lowercase());
+    let ext = path
+        .extension()
+        .and_then(|e| e.to_str())
+        .map(|e| e.to_ascii_lowercase());
     let body = match ext.as_deref() {
         Some("csv") => csv(table)?,
         Some("md") => markdown(table)?,
         Some("html" | "htm") => html(table)?,
         Some("txt") => text(table)?,
-        _ => return Err(RenderError::Format { path: path.to_path_buf(), expected: ".csv, .md, .html or .txt" }),
+        _ => {
+            return Err(RenderError::Format {
+                path: path.to_path_buf(),
+                expected: ".csv, .md, .html or .txt",
+            })
+        }
     };
     write_atomic(path, body.as_bytes())
 }
@@ -267,12 +342,26 @@ pub fn export(table: &Table, path: &Path) -> Result<(), RenderError> {
 /// A table from a list of records (one row each), columns in the order the
 /// first record's fields appear; every record must have those fields.
 pub fn from_records(title: Option<String>, rows: &[Value]) -> Result<Table, RenderError> {
-    let records = rows.iter().enumerate().map(|(i, v)| as_record(i, v)).collect::<Result<Vec<_>, _>>()?;
-    let first = records.first().ok_or(RenderError::EmptyTable { title: title.clone() })?;
+    let records = rows
+        .iter()
+        .enumerate()
+        .map(|(i, v)| as_record(i, v))
+        .collect::<Result<Vec<_>, _>>()?;
+    let first = records.first().ok_or(RenderError::EmptyTable {
+        title: title.clone(),
+    })?;
     let mut columns = Vec::new();
     for (name, _) in &first.fields {
-        let cells = records.iter().enumerate().map(|(i, r)| field_of(i, r, name)).collect::<Result<Vec<_>, _>>()?;
-        columns.push(Column { name: name.clone(), unit: None, cells });
+        let cells = records
+            .iter()
+            .enumerate()
+            .map(|(i, r)| field_of(i, r, name))
+            .collect::<Result<Vec<_>, _>>()?;
+        columns.push(Column {
+            name: name.clone(),
+            unit: None,
+            cells,
+        });
     }
     Ok(Table { title, columns })
 }
@@ -289,9 +378,12 @@ fn as_record(i: usize, v: &Value) -> Result<&Record, RenderError> {
 }
 
 fn field_of(i: usize, r: &Record, name: &str) -> Result<Value, RenderError> {
-    r.get(name)
-        .cloned()
-        .ok_or_else(|| RenderError::Invalid(format!("row {} has no field `{name}`, which the first row has", i + 1)))
+    r.get(name).cloned().ok_or_else(|| {
+        RenderError::Invalid(format!(
+            "row {} has no field `{name}`, which the first row has",
+            i + 1
+        ))
+    })
 }
 
 /// Escape text for HTML element content and attribute values.
