@@ -1,2 +1,6 @@
 //! The physics, typed with uom. Engine code never sees syntax, strings or
 //! dynamic units: it takes and returns uom quantities and plain structs.
+
+pub mod air;
+pub mod solve;
+pub mod transport;

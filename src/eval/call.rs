@@ -159,7 +159,14 @@ fn bind_params(
             }
             None => {
                 let p = params.get(next).cloned().ok_or_else(|| {
-                    Diagnostic::error(a.span, format!("`{name}` takes {} arguments", params.len()))
+                    Diagnostic::error(
+                        a.span,
+                        format!(
+                            "`{name}` takes {} argument{}",
+                            params.len(),
+                            if params.len() == 1 { "" } else { "s" }
+                        ),
+                    )
                 })?;
                 next += 1;
                 p

@@ -167,12 +167,12 @@ impl<'a> Ctx<'a> {
         if let Some(frame) = &self.frame {
             names.extend(frame.keys().map(String::as_str));
         }
-        if let Some(best) = closest(name, &names) {
-            d = d.with_hint(format!("did you mean `{best}`?"));
-        } else if lookup_unit(name).is_some() {
+        if lookup_unit(name).is_some() {
             d = d.with_hint(format!(
-                "`{name}` is a unit; write a number before it, e.g. `1 {name}`"
+                "`{name}` is a unit; write a number before it (`1 {name}`), and compound units without spaces (`14 kg/m^2`)"
             ));
+        } else if let Some(best) = closest(name, &names) {
+            d = d.with_hint(format!("did you mean `{best}`?"));
         }
         Stop::Error(d)
     }

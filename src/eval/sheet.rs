@@ -124,7 +124,13 @@ impl Sheet {
             .collect();
         let mut out = Vec::new();
         for cycle in graph::cycles(&self.order, &deps) {
-            if !cycle.iter().any(|n| new.contains(n)) {
+            // A cycle of functions only is recursion, limited at run time.
+            let has_value = cycle.iter().any(|n| {
+                self.defs
+                    .get(n)
+                    .is_some_and(|d| d.kind != DefKind::Function)
+            });
+            if !has_value || !cycle.iter().any(|n| new.contains(n)) {
                 continue;
             }
             let Some(first) = self.defs.get(&cycle[0]) else {

@@ -4,6 +4,7 @@
 //! A built-in receives spanned arguments, checks their dimensions here at the
 //! boundary, converts them to uom quantities and calls typed engine code.
 
+pub mod air;
 pub mod math;
 pub mod plot;
 
@@ -234,6 +235,7 @@ pub fn registry() -> &'static [&'static Builtin] {
     REGISTRY.get_or_init(|| {
         const FAMILIES: &[&[Builtin]] = &[
             // one line per family, e.g. air::BUILTINS,
+            air::BUILTINS,
             math::BUILTINS,
             plot::BUILTINS,
         ];
