@@ -374,3 +374,65 @@ mod plots {
         let _ = SeriesStyle::Dotted;
     }
 }
+
+mod chart {
+    use siccant::session::{OutputItem, Session};
+    use siccant::value::Value;
+
+    /// Invented states: ambient air heated, then cooled along its wet-bulb in a dryer.
+    const SHEET: &str = r#"
+amb = air(T: 24 degC, rh: 55 %)
+hot = heat(amb, to: 45 degC)
+out = saturate(hot, effectiveness: 0.8)
+chart = psychrometric_chart(states: [amb, hot, out], labels: ["ambient", "heated", "exhaust"], path: [amb, hot, out])
+"#;
+
+    #[test]
+    fn psychrometric_chart_renders_with_states_and_path() {
+        let out = Session::new().eval(SHEET).unwrap();
+        let plot = out
+            .items
+            .iter()
+            .find_map(|i| match i {
+                OutputItem::Value {
+                    value: Value::Plot(p),
+                    ..
+                } => Some(p.clone()),
+                _ => None,
+            })
+            .expect("a plot");
+        assert_eq!(plot.x_label, "dry-bulb temperature [degC]");
+        assert!(plot
+            .series
+            .iter()
+            .any(|s| s.label == "process" && s.x.len() == 3));
+        let svg = siccant::render::svg(&plot).unwrap();
+        for label in ["ambient", "heated", "exhaust", "saturation", "40 %"] {
+            assert!(svg.contains(label), "{label}");
+        }
+        let dir = std::path::Path::new(env!("CARGO_TARGET_TMPDIR")).join("render-gallery");
+        std::fs::create_dir_all(&dir).unwrap();
+        std::fs::write(dir.join("chart.svg"), &svg).unwrap();
+        std::fs::write(dir.join("chart.png"), siccant::render::png(&plot).unwrap()).unwrap();
+    }
+
+    #[test]
+    fn chart_window_errors_are_clear() {
+        let err = Session::new()
+            .eval("c = psychrometric_chart(T_max: 900 degC)")
+            .unwrap_err();
+        assert!(
+            err[0].message.starts_with("cannot draw the chart:"),
+            "{}",
+            err[0].message
+        );
+        let err = Session::new()
+            .eval("c = psychrometric_chart(states: [1 m])")
+            .unwrap_err();
+        assert!(
+            err[0].message.contains("not an air state"),
+            "{}",
+            err[0].message
+        );
+    }
+}

@@ -2,5 +2,6 @@
 //! dynamic units: it takes and returns uom quantities and plain structs.
 
 pub mod air;
+pub mod psychrometric_chart;
 pub mod solve;
 pub mod transport;

@@ -5,6 +5,7 @@
 //! boundary, converts them to uom quantities and calls typed engine code.
 
 pub mod air;
+pub mod chart;
 pub mod math;
 pub mod plot;
 
@@ -236,6 +237,7 @@ pub fn registry() -> &'static [&'static Builtin] {
         const FAMILIES: &[&[Builtin]] = &[
             // one line per family, e.g. air::BUILTINS,
             air::BUILTINS,
+            chart::BUILTINS,
             math::BUILTINS,
             plot::BUILTINS,
         ];

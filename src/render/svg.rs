@@ -35,11 +35,32 @@ pub fn svg(plot: &Plot) -> Result<String, RenderError> {
     validate(plot)?;
     let mut out = String::new();
     {
-        let root = SVGBackend::with_string(&mut out, (WIDTH, HEIGHT)).into_drawing_area();
+        let canvas = (px_u(WIDTH), px_u(HEIGHT));
+        let root = SVGBackend::with_string(&mut out, canvas).into_drawing_area();
         draw_plot(&root, plot)?;
         root.present().map_err(draw_err)?;
     }
-    Ok(out)
+    Ok(display_size(out))
+}
+
+/// Drawing resolution: plotters places everything on whole pixels, so we draw
+/// at `RES` times the display size (smooth curves) and let the viewBox scale it.
+const RES: i32 = 2;
+
+/// A length in display pixels, in drawing pixels.
+fn px(v: i32) -> i32 {
+    v * RES
+}
+
+fn px_u(v: u32) -> u32 {
+    v * RES as u32
+}
+
+/// Give the document its display size; the viewBox keeps the drawing's.
+fn display_size(svg: String) -> String {
+    let drawn = format!("width=\"{}\" height=\"{}\"", px_u(WIDTH), px_u(HEIGHT));
+    let shown = format!("width=\"{WIDTH}\" height=\"{HEIGHT}\"");
+    svg.replacen(&drawn, &shown, 1)
 }
 
 fn draw_err(e: impl std::fmt::Display) -> RenderError {
@@ -48,13 +69,17 @@ fn draw_err(e: impl std::fmt::Display) -> RenderError {
 
 /// A font of `px` pixels (plotters writes size/1.24 into the SVG).
 fn font(px: f64, colour: RGBColor) -> TextStyle<'static> {
-    (FontFamily::SansSerif, px * 1.24)
+    (FontFamily::SansSerif, px * 1.24 * f64::from(RES))
         .into_font()
         .color(&colour)
 }
 
 fn title_font() -> TextStyle<'static> {
-    (FontFamily::SansSerif, TITLE_PX * 1.24, FontStyle::Bold)
+    (
+        FontFamily::SansSerif,
+        TITLE_PX * 1.24 * f64::from(RES),
+        FontStyle::Bold,
+    )
         .into_font()
         .color(&INK)
 }
@@ -62,14 +87,18 @@ fn title_font() -> TextStyle<'static> {
 fn draw_plot(root: &Area, plot: &Plot) -> Result<(), RenderError> {
     root.fill(&PAPER).map_err(draw_err)?;
     let legend = legend_layout(plot);
-    let head_px = 40 + 22 * legend.rows;
+    let head_px = px_u(40 + 22 * legend.rows);
     let (head, body) = root.split_vertically(head_px);
-    head.draw(&Text::new(plot.title.clone(), (18, 12), title_font()))
-        .map_err(draw_err)?;
+    head.draw(&Text::new(
+        plot.title.clone(),
+        (px(18), px(12)),
+        title_font(),
+    ))
+    .map_err(draw_err)?;
     draw_legend(&head, &legend)?;
     match &plot.heat {
         Some(heat) => {
-            let (chart_area, bar_area) = body.split_horizontally(WIDTH - 104);
+            let (chart_area, bar_area) = body.split_horizontally(px_u(WIDTH - 104));
             draw_chart(&chart_area, plot)?;
             draw_colour_bar(&bar_area, heat)
         }
@@ -80,12 +109,12 @@ fn draw_plot(root: &Area, plot: &Plot) -> Result<(), RenderError> {
 fn draw_chart(area: &Area, plot: &Plot) -> Result<(), RenderError> {
     let (xr, yr) = ranges(plot);
     let mut chart = ChartBuilder::on(area)
-        .margin_top(6)
-        .margin_right(22)
-        .margin_left(8)
-        .margin_bottom(8)
-        .x_label_area_size(50)
-        .y_label_area_size(74)
+        .margin_top(px(6))
+        .margin_right(px(22))
+        .margin_left(px(8))
+        .margin_bottom(px(8))
+        .x_label_area_size(px(50))
+        .y_label_area_size(px(74))
         .build_cartesian_2d(xr.clone(), yr.clone())
         .map_err(draw_err)?;
     if let Some(heat) = &plot.heat {
@@ -108,9 +137,10 @@ fn draw_mesh(chart: &mut Chart, plot: &Plot) -> Result<(), RenderError> {
     let tick = |v: &f64| format_sig(*v, 4);
     chart
         .configure_mesh()
-        .bold_line_style(GRID.stroke_width(1))
+        .bold_line_style(GRID.stroke_width(px_u(1)))
+        .set_all_tick_mark_size(px(5))
         .light_line_style(TRANSPARENT)
-        .axis_style(INK.stroke_width(1))
+        .axis_style(INK.stroke_width(px_u(1)))
         .label_style(font(TICK_PX, MUTED_INK))
         .axis_desc_style(font(LABEL_PX, INK))
         .x_desc(plot.x_label.clone())
@@ -136,19 +166,29 @@ fn draw_series(chart: &mut Chart, series: &Series, colour: RGBColor) -> Result<(
     let points = series.x.iter().copied().zip(series.y.iter().copied());
     let result = match series.style {
         SeriesStyle::Line => chart
-            .draw_series(LineSeries::new(points, colour.stroke_width(2)))
+            .draw_series(LineSeries::new(points, colour.stroke_width(px_u(2))))
             .map(|_| ()),
         SeriesStyle::Thin => chart
-            .draw_series(LineSeries::new(points, colour.stroke_width(1)))
+            .draw_series(LineSeries::new(points, colour.stroke_width(px_u(1))))
             .map(|_| ()),
         SeriesStyle::Points => chart
-            .draw_series(points.map(|p| Circle::new(p, 4, colour.stroke_width(2))))
+            .draw_series(points.map(|p| Circle::new(p, px(4), colour.stroke_width(px_u(2)))))
             .map(|_| ()),
         SeriesStyle::Dashed => chart
-            .draw_series(DashedLineSeries::new(points, 7, 4, colour.stroke_width(1)))
+            .draw_series(DashedLineSeries::new(
+                points,
+                px(7),
+                px(4),
+                colour.stroke_width(px_u(1)),
+            ))
             .map(|_| ()),
         SeriesStyle::Dotted => chart
-            .draw_series(DashedLineSeries::new(points, 2, 3, colour.stroke_width(1)))
+            .draw_series(DashedLineSeries::new(
+                points,
+                px(2),
+                px(3),
+                colour.stroke_width(px_u(1)),
+            ))
             .map(|_| ()),
     };
     result.map_err(draw_err)
@@ -168,8 +208,8 @@ fn draw_spans(chart: &mut Chart, marks: &[Mark], yr: &Range<f64>) -> Result<(), 
             )))
             .map_err(draw_err)?;
         let anchor = font(NOTE_PX, MUTED_INK).pos(Pos::new(HPos::Center, VPos::Top));
-        let text =
-            EmptyElement::at(((x0 + x1) / 2.0, yr.end)) + Text::new(label.clone(), (0, 6), anchor);
+        let text = EmptyElement::at(((x0 + x1) / 2.0, yr.end))
+            + Text::new(label.clone(), (0, px(6)), anchor);
         chart.draw_series(std::iter::once(text)).map_err(draw_err)?;
     }
     Ok(())
@@ -187,13 +227,17 @@ fn draw_marks(
             Mark::HLine { y, label } => draw_hline(chart, *y, label, xr)?,
             Mark::Point { x, y, label } => {
                 let dot = EmptyElement::at((*x, *y))
-                    + Circle::new((0, 0), 4, MARK.filled())
-                    + Text::new(label.clone(), (7, -16), font(NOTE_PX, MARK));
+                    + Circle::new((0, 0), px(4), MARK.filled())
+                    + Text::new(label.clone(), (px(7), px(-16)), font(NOTE_PX, MARK));
                 chart.draw_series(std::iter::once(dot)).map_err(draw_err)?;
             }
             Mark::Text { x, y, label } => {
                 let text = EmptyElement::at((*x, *y))
-                    + Text::new(label.clone(), (2, -14), font(NOTE_PX - 1.5, MUTED_INK));
+                    + Text::new(
+                        label.clone(),
+                        (px(2), px(-14)),
+                        font(NOTE_PX - 1.5, MUTED_INK),
+                    );
                 chart.draw_series(std::iter::once(text)).map_err(draw_err)?;
             }
             Mark::Span { .. } => {}
@@ -203,10 +247,15 @@ fn draw_marks(
 }
 
 fn draw_vline(chart: &mut Chart, x: f64, label: &str, yr: &Range<f64>) -> Result<(), RenderError> {
-    let path = DashedPathElement::new(vec![(x, yr.start), (x, yr.end)], 5, 3, MARK.stroke_width(1));
+    let path = DashedPathElement::new(
+        vec![(x, yr.start), (x, yr.end)],
+        px(5),
+        px(3),
+        MARK.stroke_width(px_u(1)),
+    );
     chart.draw_series(std::iter::once(path)).map_err(draw_err)?;
-    let text =
-        EmptyElement::at((x, yr.end)) + Text::new(label.to_string(), (5, 24), font(NOTE_PX, MARK));
+    let text = EmptyElement::at((x, yr.end))
+        + Text::new(label.to_string(), (px(5), px(24)), font(NOTE_PX, MARK));
     chart
         .draw_series(std::iter::once(text))
         .map(|_| ())
@@ -214,10 +263,16 @@ fn draw_vline(chart: &mut Chart, x: f64, label: &str, yr: &Range<f64>) -> Result
 }
 
 fn draw_hline(chart: &mut Chart, y: f64, label: &str, xr: &Range<f64>) -> Result<(), RenderError> {
-    let path = DashedPathElement::new(vec![(xr.start, y), (xr.end, y)], 5, 3, MARK.stroke_width(1));
+    let path = DashedPathElement::new(
+        vec![(xr.start, y), (xr.end, y)],
+        px(5),
+        px(3),
+        MARK.stroke_width(px_u(1)),
+    );
     chart.draw_series(std::iter::once(path)).map_err(draw_err)?;
     let anchor = font(NOTE_PX, MARK).pos(Pos::new(HPos::Right, VPos::Bottom));
-    let text = EmptyElement::at((xr.end, y)) + Text::new(label.to_string(), (-4, -3), anchor);
+    let text =
+        EmptyElement::at((xr.end, y)) + Text::new(label.to_string(), (px(-4), px(-3)), anchor);
     chart
         .draw_series(std::iter::once(text))
         .map(|_| ())
@@ -249,7 +304,7 @@ fn z_range(heat: &HeatMap) -> (f64, f64) {
 
 fn draw_colour_bar(area: &Area, heat: &HeatMap) -> Result<(), RenderError> {
     let (lo, hi) = z_range(heat);
-    let (top, bottom, x0, x1) = (10i32, HEIGHT as i32 - 130, 6i32, 24i32);
+    let (top, bottom, x0, x1) = (px(10), px(HEIGHT as i32 - 130), px(6), px(24));
     let steps = 48;
     for s in 0..steps {
         let (y0, y1) = (
@@ -262,22 +317,26 @@ fn draw_colour_bar(area: &Area, heat: &HeatMap) -> Result<(), RenderError> {
     }
     area.draw(&Rectangle::new(
         [(x0, top), (x1, bottom)],
-        INK.stroke_width(1),
+        INK.stroke_width(px_u(1)),
     ))
     .map_err(draw_err)?;
     let anchor = font(TICK_PX - 1.0, MUTED_INK).pos(Pos::new(HPos::Left, VPos::Center));
     for k in 0..=4 {
         let y = bottom - (bottom - top) * k / 4;
         let z = lo + (hi - lo) * k as f64 / 4.0;
-        area.draw(&Text::new(format_sig(z, 3), (x1 + 5, y), anchor.clone()))
-            .map_err(draw_err)?;
+        area.draw(&Text::new(
+            format_sig(z, 3),
+            (x1 + px(5), y),
+            anchor.clone(),
+        ))
+        .map_err(draw_err)?;
     }
     let label = font(LABEL_PX - 1.0, INK)
         .transform(FontTransform::Rotate270)
         .pos(Pos::new(HPos::Center, VPos::Top));
     area.draw(&Text::new(
         heat.z_label.clone(),
-        (78, (top + bottom) / 2),
+        (px(78), (top + bottom) / 2),
         label,
     ))
     .map_err(draw_err)
@@ -318,9 +377,13 @@ fn legend_layout(plot: &Plot) -> LegendLayout {
 fn draw_legend(area: &Area, legend: &LegendLayout) -> Result<(), RenderError> {
     let anchor = font(NOTE_PX, INK).pos(Pos::new(HPos::Left, VPos::Center));
     for (x, y, label, style, colour) in &legend.items {
-        draw_swatch(area, *x, *y, *style, *colour)?;
-        area.draw(&Text::new(label.clone(), (x + 30, *y), anchor.clone()))
-            .map_err(draw_err)?;
+        draw_swatch(area, px(*x), px(*y), *style, *colour)?;
+        area.draw(&Text::new(
+            label.clone(),
+            (px(x + 30), px(*y)),
+            anchor.clone(),
+        ))
+        .map_err(draw_err)?;
     }
     Ok(())
 }
@@ -332,17 +395,27 @@ fn draw_swatch(
     style: SeriesStyle,
     colour: RGBColor,
 ) -> Result<(), RenderError> {
-    let ends = vec![(x, y), (x + 24, y)];
+    let ends = vec![(x, y), (x + px(24), y)];
     let result = match style {
-        SeriesStyle::Line => area.draw(&PathElement::new(ends, colour.stroke_width(2))),
-        SeriesStyle::Thin => area.draw(&PathElement::new(ends, colour.stroke_width(1))),
-        SeriesStyle::Points => area.draw(&Circle::new((x + 12, y), 4, colour.stroke_width(2))),
-        SeriesStyle::Dashed => {
-            area.draw(&DashedPathElement::new(ends, 7, 4, colour.stroke_width(1)))
-        }
-        SeriesStyle::Dotted => {
-            area.draw(&DashedPathElement::new(ends, 2, 3, colour.stroke_width(1)))
-        }
+        SeriesStyle::Line => area.draw(&PathElement::new(ends, colour.stroke_width(px_u(2)))),
+        SeriesStyle::Thin => area.draw(&PathElement::new(ends, colour.stroke_width(px_u(1)))),
+        SeriesStyle::Points => area.draw(&Circle::new(
+            (x + px(12), y),
+            px(4),
+            colour.stroke_width(px_u(2)),
+        )),
+        SeriesStyle::Dashed => area.draw(&DashedPathElement::new(
+            ends,
+            px(7),
+            px(4),
+            colour.stroke_width(px_u(1)),
+        )),
+        SeriesStyle::Dotted => area.draw(&DashedPathElement::new(
+            ends,
+            px(2),
+            px(3),
+            colour.stroke_width(px_u(1)),
+        )),
     };
     result.map_err(draw_err)
 }
