@@ -55,7 +55,7 @@ page="file://$root/$out/record.html"
 timeout 120 chromium --headless --no-sandbox --disable-gpu --disable-quic --no-first-run \
     --disable-background-networking --disable-component-update --disable-sync \
     --user-data-dir="$profile" --enable-logging=stderr --v=0 \
-    --window-size=1100,2600 --screenshot="$root/$out/record.png" "$page" 2>"$log" || true
+    --window-size=1100,5200 --screenshot="$root/$out/record.png" "$page" 2>"$log" || true
 
 if [ -s "$out/record.png" ]; then pass "screenshot saved to $out/record.png"; else fail "no screenshot"; fi
 if grep -q 'CONSOLE' "$log"; then
