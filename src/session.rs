@@ -210,6 +210,21 @@ impl Session {
         self.sheet.defs.get(name)
     }
 
+    /// Every defined name (values, inputs, functions) in definition order.
+    pub fn names(&self) -> &[String] {
+        &self.sheet.order
+    }
+
+    /// The computed value of a name, if it has been computed.
+    pub fn value(&self, name: &str) -> Option<&Value> {
+        self.sheet.cache.get(name)
+    }
+
+    /// Is this name an input (overridable with `--set` or by `load`)?
+    pub fn is_input(&self, name: &str) -> bool {
+        self.sheet.defs.get(name).is_some_and(|d| d.kind == DefKind::Input)
+    }
+
     /// The source map (for front ends that render spans themselves).
     pub fn sources(&self) -> &Sources {
         &self.sources
@@ -297,6 +312,12 @@ impl Session {
             return Some(crate::render::help_text(b));
         }
         units::lookup_unit(name).map(|u| format!("unit `{}`: {}", u.symbol, eval::dim_words(u.dim)))
+    }
+
+    /// The evaluation limits (call depth, step budget), for front ends that
+    /// need other bounds.
+    pub fn limits_mut(&mut self) -> &mut Limits {
+        &mut self.limits
     }
 
     /// A flag that stops a running evaluation when set (from another thread).
