@@ -80,6 +80,7 @@ impl Payload for CurveData {
 }
 
 fn curve(args: &mut Args) -> Result<Value, Diagnostic> {
+    let (y_span, style_span) = (args.span_of("y"), args.span_of("style"));
     let (x, x_unit) = quantities(args, "x")?;
     let (y, y_unit) = quantities(args, "y")?;
     let label = opt_text(args, "label")?.unwrap_or_default();
@@ -90,15 +91,15 @@ fn curve(args: &mut Args) -> Result<Value, Diagnostic> {
         Some("thin") => SeriesStyle::Thin,
         Some("dotted") => SeriesStyle::Dotted,
         Some(other) => {
-            return Err(args.error_at(
-                "style",
+            return Err(Diagnostic::error(
+                style_span,
                 format!("unknown style `{other}`; use line, points, dashed, thin or dotted"),
             ))
         }
     };
     if x.len() != y.len() {
-        return Err(args.error_at(
-            "y",
+        return Err(Diagnostic::error(
+            y_span,
             format!("`y` has {} values but `x` has {}", y.len(), x.len()),
         ));
     }
