@@ -99,7 +99,12 @@ pub fn main() -> i32 {
     };
     match cli.command {
         Command::Run { file, set, format } => run(&file, &set, format),
-        Command::Record { file, output, set, reproducible } => record(&file, &output, &set, reproducible),
+        Command::Record {
+            file,
+            output,
+            set,
+            reproducible,
+        } => record(&file, &output, &set, reproducible),
         Command::Check { file } => check(&file),
         Command::Repl => crate::repl::run(),
         Command::Help { name, markdown } => help(name.as_deref(), markdown),
@@ -181,18 +186,33 @@ fn record(file: &Path, output: &Path, set: &[String], reproducible: bool) -> i32
         Err(diags) => {
             print_diagnostics(&session, &diags);
             eprintln!("error: no record written: the worksheet has errors");
-            return if diags.iter().any(|d| d.message.starts_with("`--set")) { EXIT_USAGE } else { EXIT_WORKSHEET };
+            return if diags.iter().any(|d| d.message.starts_with("`--set")) {
+                EXIT_USAGE
+            } else {
+                EXIT_WORKSHEET
+            };
         }
     };
     print_diagnostics(&session, &out.warnings);
-    let run = crate::record::RunInfo { path: file, text: &text, overrides: set, reproducible };
+    let run = crate::record::RunInfo {
+        path: file,
+        text: &text,
+        overrides: set,
+        reproducible,
+    };
     let data = crate::record::collect(&session, &out, &run);
     if let Err(e) = crate::record::write(&data, output) {
         eprintln!("error: {e}");
         return EXIT_USAGE;
     }
     let failed = data.failed_checks();
-    println!("wrote {} ({} values, {} of {} checks pass)", output.display(), data.entries.len(), data.checks.len() - failed, data.checks.len());
+    println!(
+        "wrote {} ({} values, {} of {} checks pass)",
+        output.display(),
+        data.entries.len(),
+        data.checks.len() - failed,
+        data.checks.len()
+    );
     if failed > 0 {
         EXIT_CHECK
     } else {
