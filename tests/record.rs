@@ -197,3 +197,38 @@ fn failures_leave_no_file() {
         .collect();
     assert_eq!(left, vec![std::ffi::OsString::from("broken.sicc")]);
 }
+
+#[test]
+fn warnings_attach_to_the_value_that_raised_them() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("warn.sicc");
+    // Invented: a hot state outside the default chart window raises a warning.
+    let text = "hot = air(T: 90 degC, rh: 5 %)\nchart = psychrometric_chart(states: [hot])\n";
+    std::fs::write(&path, text).unwrap();
+    let mut session = Session::with_file(&path);
+    let out = session.eval(text).unwrap();
+    let run = RunInfo {
+        path: &path,
+        text,
+        overrides: &[],
+        reproducible: true,
+    };
+    let r = record::collect(&session, &out, &run);
+    let chart = r.entries.iter().find(|e| e.name == "chart").unwrap();
+    assert_eq!(chart.warnings.len(), 1, "{:?}", chart.warnings);
+    assert!(chart.warnings[0].contains("outside the chart window"));
+    assert!(r
+        .entries
+        .iter()
+        .find(|e| e.name == "hot")
+        .unwrap()
+        .warnings
+        .is_empty());
+    assert_eq!(
+        chart.builtins.iter().map(|b| b.name).collect::<Vec<_>>(),
+        ["psychrometric_chart"]
+    );
+    let html = record::html(&r);
+    assert!(html.contains("<strong>Warning:</strong> state 1 lies outside the chart window"));
+    assert!(html.contains("Methods and sources"));
+}

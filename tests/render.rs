@@ -83,6 +83,12 @@ fn table_csv_keeps_full_precision() {
 }
 
 #[test]
+fn table_json() {
+    let json = siccant::render::json(&Value::Table(drying_run()));
+    insta::assert_snapshot!(serde_json::to_string_pretty(&json).unwrap());
+}
+
+#[test]
 fn empty_table_is_a_clear_error() {
     let empty = Table {
         title: Some("nothing".into()),
@@ -260,6 +266,71 @@ mod plots {
         .unwrap()
     }
 
+    /// Invented sorption data at two temperatures and invented smooth model curves through them.
+    pub fn isotherm() -> Plot {
+        let aw = |v: &[f64]| {
+            v.iter()
+                .map(|a| Quantity {
+                    si: *a,
+                    dim: Dim::NONE,
+                    kind: Kind::Activity,
+                })
+                .collect::<Vec<_>>()
+        };
+        let d30 = Curve::new(
+            "30 degC data",
+            aw(&[0.11, 0.33, 0.53, 0.75, 0.85]),
+            moisture(&[0.04, 0.07, 0.10, 0.17, 0.25]),
+        );
+        let d50 = Curve::new(
+            "50 degC data",
+            aw(&[0.11, 0.33, 0.53, 0.75, 0.85]),
+            moisture(&[0.03, 0.055, 0.085, 0.15, 0.22]),
+        );
+        let grid: Vec<f64> = (1..=18).map(|i| i as f64 * 0.05).collect();
+        let model = |k: f64| {
+            grid.iter()
+                .map(|a| k * a / ((1.0 - 0.9 * a) * (1.0 + 2.0 * a)))
+                .collect::<Vec<_>>()
+        };
+        let m30 = Curve::new("30 degC model", aw(&grid), moisture(&model(0.115)));
+        let m50 = Curve::new("50 degC model", aw(&grid), moisture(&model(0.1)));
+        plot::isotherms(
+            "Sorption isotherms (invented)",
+            &[d30, d50],
+            &[m30, m50],
+            AxisUnits::default(),
+        )
+        .unwrap()
+    }
+
+    /// Invented air and product temperatures along a belt dryer.
+    pub fn profile() -> Plot {
+        let z: Vec<f64> = (0..=20).map(|i| i as f64 * 0.5).collect();
+        let temp = |f: &dyn Fn(f64) -> f64| {
+            z.iter()
+                .map(|z| Quantity {
+                    si: f(*z) + 273.15,
+                    dim: Dim::TEMPERATURE,
+                    kind: Kind::AbsoluteTemperature,
+                })
+                .collect::<Vec<_>>()
+        };
+        let air = Curve::new("air", plain(&z, Dim::LENGTH), temp(&|z| 80.0 - 2.0 * z));
+        let product = Curve::new(
+            "product",
+            plain(&z, Dim::LENGTH),
+            temp(&|z| 20.0 + 40.0 * (1.0 - (-0.4 * z).exp())),
+        );
+        plot::profile(
+            "Belt dryer profile (invented)",
+            "temperature",
+            &[air, product],
+            AxisUnits::default(),
+        )
+        .unwrap()
+    }
+
     pub fn heat() -> Plot {
         let xs = [50.0, 60.0, 70.0, 80.0];
         let ys = [1.0, 1.5, 2.0];
@@ -298,7 +369,13 @@ mod plots {
     fn svg_is_deterministic_and_png_decodes() {
         let dir = std::path::Path::new(env!("CARGO_TARGET_TMPDIR")).join("render-gallery");
         std::fs::create_dir_all(&dir).unwrap();
-        for (name, p) in [("drying", drying()), ("rate", rate()), ("heat", heat())] {
+        for (name, p) in [
+            ("drying", drying()),
+            ("rate", rate()),
+            ("heat", heat()),
+            ("isotherm", isotherm()),
+            ("profile", profile()),
+        ] {
             let a = siccant::render::svg(&p).unwrap();
             assert_eq!(a, siccant::render::svg(&p).unwrap());
             assert!(a.starts_with("<svg"), "{name}");

@@ -420,6 +420,11 @@ pub fn isotherms(
     models: &[Curve],
     units: AxisUnits,
 ) -> Result<Plot, RenderError> {
+    // Water activity reads as a fraction 0..1 unless the caller chose %rh.
+    let units = AxisUnits {
+        x: units.x.or_else(|| crate::units::lookup_unit("aw")),
+        ..units
+    };
     let mut b =
         PlotBuilder::new(title, "water activity a_w", "equilibrium moisture X_e").units(units);
     add_all(&mut b, data, SeriesStyle::Points)?;
