@@ -513,3 +513,61 @@ chart = psychrometric_chart(states: [amb, hot, out], labels: ["ambient", "heated
         );
     }
 }
+
+#[test]
+fn extreme_values_are_refused_and_tiny_ranges_draw() {
+    use siccant::value::{Plot, Series};
+    let plot = |x: Vec<f64>, y: Vec<f64>| {
+        let series = Series {
+            label: "s".into(),
+            x,
+            y,
+            ..Series::default()
+        };
+        Plot {
+            title: "extremes".into(),
+            series: vec![series],
+            ..Plot::default()
+        }
+    };
+    let huge = siccant::render::svg(&plot(vec![-1e308, 1e308], vec![0.0, 1.0])).unwrap_err();
+    assert!(huge.to_string().contains("too large to plot"), "{huge}");
+    assert!(siccant::render::svg(&plot(vec![0.0, 1e-20], vec![3e-9, 3e-9])).is_ok());
+    assert!(siccant::render::svg(&plot(vec![5.0], vec![0.0])).is_ok());
+}
+
+mod robustness {
+    use proptest::prelude::*;
+    use siccant::value::{Mark, Plot, Series, SeriesStyle};
+
+    fn style(i: u8) -> SeriesStyle {
+        [
+            SeriesStyle::Line,
+            SeriesStyle::Points,
+            SeriesStyle::Dashed,
+            SeriesStyle::Thin,
+            SeriesStyle::Dotted,
+        ][i as usize % 5]
+    }
+
+    proptest! {
+        #![proptest_config(ProptestConfig::with_cases(24))]
+        /// Any finite data within the plot limit draws (or is refused) without panicking.
+        #[test]
+        fn any_finite_plot_draws(
+            xs in prop::collection::vec(-1e12f64..1e12, 0..12),
+            scale in -30i32..30,
+            s in 0u8..5,
+            vline in -1e3f64..1e3,
+        ) {
+            let ys: Vec<f64> = xs.iter().map(|x| x * 10f64.powi(scale)).collect();
+            let series = Series { label: "data".into(), x: xs.clone(), y: ys, style: style(s) };
+            let marks = vec![Mark::VLine { x: vline, label: "m".into() }, Mark::Span { x0: vline, x1: vline + 1.0, label: "band".into() }];
+            let plot = Plot { title: "random".into(), series: vec![series], marks, ..Plot::default() };
+            match siccant::render::svg(&plot) {
+                Ok(svg) => prop_assert!(svg.ends_with("</svg>\n")),
+                Err(e) => prop_assert!(!e.to_string().is_empty()),
+            }
+        }
+    }
+}

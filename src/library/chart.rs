@@ -188,55 +188,65 @@ fn build(
     };
     let mut b = PlotBuilder::new(title, "dry-bulb temperature", "humidity ratio").units(units);
     b.series(&curve("saturation", &lines.saturation), SeriesStyle::Line)?;
+    add_rh_lines(&mut b, lines)?;
+    add_wet_bulb_lines(&mut b, lines)?;
+    add_volume_lines(&mut b, lines)?;
+    add_states(&mut b, states, labels, path)?;
+    b.build()
+}
+
+/// The legend names a family of lines once, on its first member.
+fn family_label(i: usize, label: &'static str) -> &'static str {
+    if i == 0 {
+        label
+    } else {
+        ""
+    }
+}
+
+fn add_rh_lines(b: &mut PlotBuilder, lines: &ChartLines) -> Result<(), RenderError> {
     for (i, (rh, line)) in lines.relative_humidity.iter().enumerate() {
-        b.series(
-            &curve(
-                if i == 0 {
-                    "relative humidity, 10 % steps"
-                } else {
-                    ""
-                },
-                line,
-            ),
-            SeriesStyle::Thin,
-        )?;
+        let label = family_label(i, "relative humidity, 10 % steps");
+        b.series(&curve(label, line), SeriesStyle::Thin)?;
         // Every other line is labelled, so labels do not crowd near saturation.
         if i % 2 == 1 || i == 0 {
-            end_label(&mut b, line.last(), &format!("{:.0} %", rh * 100.0))?;
+            end_label(b, line.last(), &format!("{:.0} %", rh * 100.0))?;
         }
     }
+    Ok(())
+}
+
+fn add_wet_bulb_lines(b: &mut PlotBuilder, lines: &ChartLines) -> Result<(), RenderError> {
     for (i, (twb, line)) in lines.wet_bulb.iter().enumerate() {
-        b.series(
-            &curve(if i == 0 { "wet-bulb, 5 degC steps" } else { "" }, line),
-            SeriesStyle::Dashed,
-        )?;
-        end_label(&mut b, line.first(), &format!("{:.0}", twb - 273.15))?;
+        let label = family_label(i, "wet-bulb, 5 degC steps");
+        b.series(&curve(label, line), SeriesStyle::Dashed)?;
+        end_label(b, line.first(), &format!("{:.0}", twb - 273.15))?;
     }
+    Ok(())
+}
+
+fn add_volume_lines(b: &mut PlotBuilder, lines: &ChartLines) -> Result<(), RenderError> {
+    let w_top = lines.saturation.iter().map(|q| q.1).fold(0.0, f64::max);
     for (i, (v, line)) in lines.humid_volume.iter().enumerate() {
-        b.series(
-            &curve(
-                if i == 0 {
-                    "humid volume [m^3/kg_da]"
-                } else {
-                    ""
-                },
-                line,
-            ),
-            SeriesStyle::Dotted,
-        )?;
+        let label = family_label(i, "humid volume [m^3/kg_da]");
+        b.series(&curve(label, line), SeriesStyle::Dotted)?;
         // Labelled where the line reaches dry air at the bottom of the chart.
-        let bottom = line
-            .last()
-            .filter(|p| p.1 < 0.05 * lines.saturation.iter().map(|q| q.1).fold(0.0, f64::max));
-        end_label(&mut b, bottom, &format!("{v:.2}"))?;
+        let bottom = line.last().filter(|p| p.1 < 0.05 * w_top);
+        end_label(b, bottom, &format!("{v:.2}"))?;
     }
+    Ok(())
+}
+
+fn add_states(
+    b: &mut PlotBuilder,
+    states: &[(Quantity, Quantity)],
+    labels: &[String],
+    path: &[(Quantity, Quantity)],
+) -> Result<(), RenderError> {
     if path.len() >= 2 {
-        let process = Curve::new(
-            "process",
-            path.iter().map(|s| s.0).collect(),
-            path.iter().map(|s| s.1).collect(),
-        );
-        b.series(&process, SeriesStyle::Line)?;
+        let x = path.iter().map(|s| s.0).collect();
+        let y = path.iter().map(|s| s.1).collect();
+        b.series(&Curve::new("process", x, y), SeriesStyle::Line)?;
     }
     for (i, (t, w)) in states.iter().enumerate() {
         let label = labels
@@ -245,7 +255,7 @@ fn build(
             .unwrap_or_else(|| (i + 1).to_string());
         b.point(t, w, label)?;
     }
-    b.build()
+    Ok(())
 }
 
 fn end_label(b: &mut PlotBuilder, at: Option<&(f64, f64)>, text: &str) -> Result<(), RenderError> {

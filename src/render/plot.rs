@@ -329,10 +329,19 @@ fn mark_numbers(mark: &Mark) -> Vec<f64> {
     }
 }
 
+/// Largest magnitude an axis can show (beyond it the axis arithmetic overflows).
+pub const PLOT_LIMIT: f64 = 1e150;
+
 fn finite_all(values: &[f64], what: impl Fn() -> String) -> Result<(), RenderError> {
-    match values.iter().all(|v| v.is_finite()) {
-        true => Ok(()),
-        false => Err(RenderError::NotFinite { what: what() }),
+    if !values.iter().all(|v| v.is_finite()) {
+        return Err(RenderError::NotFinite { what: what() });
+    }
+    match values.iter().find(|v| v.abs() > PLOT_LIMIT) {
+        Some(v) => Err(RenderError::Invalid(format!(
+            "{} is too large to plot ({v:e})",
+            what()
+        ))),
+        None => Ok(()),
     }
 }
 

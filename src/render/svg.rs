@@ -466,8 +466,8 @@ fn span_of(values: &[f64], pad: f64) -> Range<f64> {
     if !lo.is_finite() || !hi.is_finite() {
         return 0.0..1.0;
     }
-    if hi - lo <= f64::EPSILON * hi.abs().max(1.0) {
-        let half = (lo.abs() * 0.1).max(1.0);
+    if hi - lo <= 4.0 * f64::EPSILON * hi.abs().max(lo.abs()) {
+        let half = if lo == 0.0 { 1.0 } else { lo.abs() * 0.1 };
         return (lo - half)..(hi + half);
     }
     let margin = (hi - lo) * pad;
