@@ -40,3 +40,9 @@ fn every_parse_error_is_reported() {
 fn cycles_and_duplicates() {
     insta::assert_snapshot!(rendered("a = b + 1\nb = a * 2\nc = 1\nc = 2\n"));
 }
+
+#[test]
+fn parse_and_unit_errors_are_reported_together_without_cascades() {
+    // `c` uses `a`, whose line did not parse: only the two real errors show.
+    insta::assert_snapshot!(rendered("a = 1.2.3\nb = 2 m + 3 s\nc = a * 2\n"));
+}
