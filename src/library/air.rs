@@ -19,7 +19,7 @@ use uom::si::thermodynamic_temperature::kelvin;
 use uom::si::volume_rate::cubic_meter_per_second;
 
 use super::{type_word, Args, Builtin, Param};
-use crate::diag::Diagnostic;
+use crate::diag::{Diagnostic, Span};
 use crate::engine::air::{self, AirError, AirState, ProcessOutcome, Stream};
 use crate::engine::transport::Transport;
 use crate::units::{Dim, Kind, Quantity};
@@ -568,9 +568,42 @@ fn opt_stream(args: &mut Args, name: &str, state: &AirState) -> Result<Option<St
         .map_err(|e| Diagnostic::error(arg.span, format!("`{name}`: {e}")))
 }
 
-/// An engine error as a diagnostic on the argument it names (else on the call).
-fn blame(args: &Args, e: AirError) -> Diagnostic {
-    let name = match &e {
+/// Where each parameter was given (captured before arguments are consumed).
+struct Spans {
+    call: Span,
+    given: Vec<(&'static str, Span)>,
+}
+
+impl Spans {
+    fn of(args: &Args) -> Spans {
+        let given = args
+            .builtin
+            .params
+            .iter()
+            .filter(|p| args.has(p.name))
+            .map(|p| (p.name, args.span_of(p.name)))
+            .collect();
+        Spans {
+            call: args.call_span,
+            given,
+        }
+    }
+
+    /// An engine error as a diagnostic on the argument it names (else on the call).
+    fn blame(&self, e: AirError) -> Diagnostic {
+        let name = error_argument(&e);
+        let span = self
+            .given
+            .iter()
+            .find(|(n, _)| *n == name)
+            .map_or(self.call, |(_, s)| *s);
+        Diagnostic::error(span, e.to_string())
+    }
+}
+
+/// The language argument an engine error is about.
+fn error_argument(e: &AirError) -> &'static str {
+    match e {
         AirError::TemperatureOutOfRange { name, .. }
         | AirError::PressureNotPositive { name, .. }
         | AirError::PressureOutOfRange { name, .. }
@@ -579,18 +612,11 @@ fn blame(args: &Args, e: AirError) -> Diagnostic {
         | AirError::AboveDryBulb { name, .. }
         | AirError::EnthalpyOutOfRange { name, .. }
         | AirError::NotPositive { name, .. }
-        | AirError::FractionOutOfRange { name, .. } => *name,
+        | AirError::FractionOutOfRange { name, .. } => name,
         AirError::RelativeHumidityOutOfRange { .. }
         | AirError::RelativeHumidityAboveBoiling { .. } => "rh",
         AirError::WetBulbTooLow { .. } => "wetbulb",
         _ => "",
-    };
-    let known = args.builtin.params.iter().any(|p| p.name == name);
-    let message = e.to_string();
-    if known {
-        args.error_at(name, message)
-    } else {
-        Diagnostic::error(args.call_span, message)
     }
 }
 
@@ -615,7 +641,9 @@ pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
         Ok(td) => r = r.with("dewpoint", abs_t(td.get::<kelvin>())),
         Err(e) => args.warn(format!("no dew point field: {e}")),
     }
-    let twb = s.wet_bulb().map_err(|e| blame(args, e))?;
+    let twb = s
+        .wet_bulb()
+        .map_err(|e| Diagnostic::error(args.call_span, e.to_string()))?;
     r = r
         .with("wetbulb", abs_t(twb.get::<kelvin>()))
         .with(
@@ -655,6 +683,7 @@ pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
 // ---- air(...) ------------------------------------------------------------------------
 
 fn air_state(args: &mut Args) -> Result<Value, Diagnostic> {
+    let spans = Spans::of(args);
     let t = temperature(args, "T")?;
     let given: Vec<&str> = ["rh", "w", "wetbulb", "dewpoint", "h"]
         .into_iter()
@@ -695,7 +724,7 @@ fn air_state(args: &mut Args) -> Result<Value, Diagnostic> {
             AirState::from_enthalpy(t, AvailableEnergy::new::<joule_per_kilogram>(h), p)
         }
     }
-    .map_err(|e| blame(args, e))?;
+    .map_err(|e| spans.blame(e))?;
     args.finish()?;
     Ok(Value::Record(air_record(args, &state)?))
 }
@@ -719,7 +748,8 @@ fn process_record(
     }
     if let Some(s) = stream {
         let m = s.dry_air.get::<kilogram_per_second>();
-        let out = Stream::from_dry_air_flow(o.outlet, s.dry_air).map_err(|e| blame(args, e))?;
+        let out = Stream::from_dry_air_flow(o.outlet, s.dry_air)
+            .map_err(|e| Diagnostic::error(args.call_span, e.to_string()))?;
         r = r
             .with("flow", q(m, Dim::MASS_FLOW, Kind::Plain))
             .with("duty", q(s.duty(o).value, Dim::POWER, Kind::Plain))
@@ -786,6 +816,7 @@ fn heat_or_cool(
     by_fn: ByFn,
     cooling: bool,
 ) -> Result<Value, Diagnostic> {
+    let spans = Spans::of(args);
     let state = air_arg(args, "air")?;
     let stream = opt_stream(args, "flow", &state)?;
     let to = opt_temperature(args, "to")?;
@@ -802,7 +833,7 @@ fn heat_or_cool(
             .with_hint(format!("call it as {}", args.builtin.example)))
         }
     }
-    .map_err(|e| blame(args, e))?;
+    .map_err(|e| spans.blame(e))?;
     let water = cooling.then_some(("condensate", -1.0));
     process_record(args, &outcome, stream.as_ref(), water)
 }
@@ -816,6 +847,7 @@ fn cool(args: &mut Args) -> Result<Value, Diagnostic> {
 }
 
 fn mix(args: &mut Args) -> Result<Value, Diagnostic> {
+    let spans = Spans::of(args);
     let a = air_arg(args, "a")?;
     let b = air_arg(args, "b")?;
     let sa = opt_stream(args, "flow_a", &a)?
@@ -823,7 +855,7 @@ fn mix(args: &mut Args) -> Result<Value, Diagnostic> {
     let sb = opt_stream(args, "flow_b", &b)?
         .ok_or_else(|| args.error_at("flow_b", "`mix` needs `flow_b`"))?;
     args.finish()?;
-    let o = air::mix(&a, sa.dry_air, &b, sb.dry_air).map_err(|e| blame(args, e))?;
+    let o = air::mix(&a, sa.dry_air, &b, sb.dry_air).map_err(|e| spans.blame(e))?;
     let m = sa.dry_air.get::<kilogram_per_second>() + sb.dry_air.get::<kilogram_per_second>();
     let mut r = air_record(args, &o.outlet)?.with("flow", q(m, Dim::MASS_FLOW, Kind::Plain));
     if o.water_kg_per_kg_da < 0.0 {
@@ -837,11 +869,12 @@ fn mix(args: &mut Args) -> Result<Value, Diagnostic> {
 }
 
 fn saturate(args: &mut Args) -> Result<Value, Diagnostic> {
+    let spans = Spans::of(args);
     let state = air_arg(args, "air")?;
     let e = opt_kind(args, "effectiveness", Dim::NONE, Kind::Fraction)?.unwrap_or(1.0);
     let stream = opt_stream(args, "flow", &state)?;
     args.finish()?;
-    let o = air::saturate(&state, e).map_err(|err| blame(args, err))?;
+    let o = air::saturate(&state, e).map_err(|err| spans.blame(err))?;
     process_record(args, &o, stream.as_ref(), Some(("water", 1.0)))
 }
 
@@ -945,13 +978,14 @@ fn add_generic(
     t_default_k: f64,
     add: AddFn,
 ) -> Result<Value, Diagnostic> {
+    let spans = Spans::of(args);
     let state = air_arg(args, "air")?;
     let stream = opt_stream(args, "flow", &state)?;
     let target = water_target(args, stream.as_ref())?;
     let t_k = opt_temperature(args, t_name)?.map_or(t_default_k, |t| t.get::<kelvin>());
     args.finish()?;
-    let dw = solve_amount(&state, target, t_k, add).map_err(|e| blame(args, e))?;
-    let o = add(&state, dw, t_k).map_err(|e| blame(args, e))?;
+    let dw = solve_amount(&state, target, t_k, add).map_err(|e| spans.blame(e))?;
+    let o = add(&state, dw, t_k).map_err(|e| spans.blame(e))?;
     process_record(args, &o, stream.as_ref(), Some(("water", 1.0)))
 }
 
@@ -966,24 +1000,27 @@ fn add_steam(args: &mut Args) -> Result<Value, Diagnostic> {
 // ---- single quantities -------------------------------------------------------------------
 
 fn altitude_pressure(args: &mut Args) -> Result<Value, Diagnostic> {
+    let span = args.span_of("z");
     let z = args.quantity("z", Dim::LENGTH)?.si;
     args.finish()?;
     let p = air::standard_atmosphere_pressure(Length::new::<meter>(z))
-        .map_err(|e| args.error_at("z", e.to_string()))?;
+        .map_err(|e| Diagnostic::error(span, e.to_string()))?;
     Ok(q(p.get::<pascal>(), Dim::PRESSURE, Kind::Plain))
 }
 
 fn saturation_pressure(args: &mut Args) -> Result<Value, Diagnostic> {
+    let spans = Spans::of(args);
     let t = temperature(args, "T")?;
     args.finish()?;
-    let p = air::saturation_pressure(t).map_err(|e| blame(args, e))?;
+    let p = air::saturation_pressure(t).map_err(|e| spans.blame(e))?;
     Ok(q(p.get::<pascal>(), Dim::PRESSURE, Kind::Plain))
 }
 
 fn latent_heat(args: &mut Args) -> Result<Value, Diagnostic> {
+    let spans = Spans::of(args);
     let t = temperature(args, "T")?;
     args.finish()?;
-    air::saturation_pressure_over_water(t).map_err(|e| blame(args, e))?;
+    air::saturation_pressure_over_water(t).map_err(|e| spans.blame(e))?;
     let t_k = t.get::<kelvin>();
     if !(273.15..=573.15).contains(&t_k) {
         args.warn(format!(
@@ -999,9 +1036,10 @@ fn latent_heat(args: &mut Args) -> Result<Value, Diagnostic> {
 }
 
 fn boiling_point(args: &mut Args) -> Result<Value, Diagnostic> {
+    let spans = Spans::of(args);
     let p = args.quantity("p", Dim::PRESSURE)?.si;
     args.finish()?;
-    let t = air::boiling_point(Pressure::new::<pascal>(p)).map_err(|e| blame(args, e))?;
+    let t = air::boiling_point(Pressure::new::<pascal>(p)).map_err(|e| spans.blame(e))?;
     Ok(abs_t(t.get::<kelvin>()))
 }
 
