@@ -64,6 +64,26 @@ pub const BUILTINS: &[Builtin] = &[
         example: "table([air(T: 20 degC, rh: 50 %), air(T: 60 degC, rh: 10 %)], title: \"states\")",
         func: table_of,
     },
+    Builtin {
+        name: "heat_map",
+        family: "plot",
+        params: &[
+            Param { name: "x", unit: "list", default: None, doc: "grid values of the first input" },
+            Param { name: "y", unit: "list", default: None, doc: "grid values of the second input" },
+            Param { name: "z", unit: "list of lists", default: None, doc: "results, one list per y value, each as long as x" },
+            Param { name: "title", unit: "text", default: Some("\"\""), doc: "title above the plot" },
+            Param { name: "x_name", unit: "text", default: Some("\"x\""), doc: "x-axis name; the unit is added" },
+            Param { name: "y_name", unit: "text", default: Some("\"y\""), doc: "y-axis name; the unit is added" },
+            Param { name: "z_name", unit: "text", default: Some("\"z\""), doc: "colour-scale name; the unit is added" },
+        ],
+        returns: "plot",
+        doc: "A heat map of a two-input sweep: z[j][i] is the result at x[i] and y[j], coloured on a scale with its unit.",
+        method: NO_METHOD,
+        source: "siccant",
+        validity: "a full grid of finite values",
+        example: "heat_map(T, v, [t_at(T, v1), t_at(T, v2)], title: \"batch time\", x_name: \"air temperature\", y_name: \"air velocity\", z_name: \"batch time\")",
+        func: heat_map,
+    },
 ];
 
 /// The typed data of a `curve` record.
@@ -238,4 +258,75 @@ fn table_of(args: &mut Args) -> Result<Value, Diagnostic> {
         .map_err(|e| Diagnostic::error(rows_span, e.to_string()))?;
     table::Layout::new(&t).map_err(|e| Diagnostic::error(rows_span, e.to_string()))?;
     Ok(Value::Table(t))
+}
+
+fn heat_map(args: &mut Args) -> Result<Value, Diagnostic> {
+    let z_span = args.span_of("z");
+    let (x, x_unit) = quantities(args, "x")?;
+    let (y, y_unit) = quantities(args, "y")?;
+    let (z, z_unit) = grid_rows(args, x.len(), y.len())?;
+    let title = opt_text(args, "title")?.unwrap_or_default();
+    let x_name = opt_text(args, "x_name")?.unwrap_or_else(|| "x".into());
+    let y_name = opt_text(args, "y_name")?.unwrap_or_else(|| "y".into());
+    let z_name = opt_text(args, "z_name")?.unwrap_or_else(|| "z".into());
+    args.finish()?;
+    let units = crate::render::plot::AxisUnits {
+        x: x_unit,
+        y: y_unit,
+    };
+    let mut builder = PlotBuilder::new(title, x_name, y_name).units(units);
+    let fail = |e: crate::render::RenderError| Diagnostic::error(z_span, e.to_string());
+    builder.heat(&x, &y, &z, &z_name, z_unit).map_err(fail)?;
+    Ok(Value::Plot(Arc::new(builder.build().map_err(fail)?)))
+}
+
+/// The z rows of a heat map, flattened row-major, with the first value's unit.
+fn grid_rows(
+    args: &mut Args,
+    nx: usize,
+    ny: usize,
+) -> Result<(Vec<Quantity>, Option<Unit>), Diagnostic> {
+    let arg = args.required("z")?;
+    let rows = match arg.value {
+        Value::List(rows) if rows.len() == ny => rows,
+        Value::List(rows) => {
+            let msg = format!("`z` has {} rows but `y` has {ny} values", rows.len());
+            return Err(Diagnostic::error(arg.span, msg));
+        }
+        other => {
+            let msg = format!("`z` must be a list of lists, found {}", type_word(&other));
+            return Err(Diagnostic::error(arg.span, msg));
+        }
+    };
+    let mut out = Vec::with_capacity(nx * ny);
+    let mut unit = None;
+    for (j, row) in rows.into_iter().enumerate() {
+        let cells = match row {
+            Value::List(cells) if cells.len() == nx => cells,
+            _ => {
+                let msg = format!(
+                    "row {} of `z` must be a list of {nx} values, one per x",
+                    j + 1
+                );
+                return Err(Diagnostic::error(arg.span, msg));
+            }
+        };
+        for cell in cells {
+            match cell {
+                Value::Quantity(q, shown) => {
+                    unit = unit.or(shown);
+                    out.push(q);
+                }
+                other => {
+                    let msg = format!(
+                        "row {} of `z` holds {}, not a quantity",
+                        j + 1,
+                        type_word(&other)
+                    );
+                    return Err(Diagnostic::error(arg.span, msg));
+                }
+            }
+        }
+    }
+    Ok((out, unit))
 }
