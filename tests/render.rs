@@ -571,3 +571,51 @@ mod robustness {
         }
     }
 }
+
+#[test]
+fn mixed_cells_negative_and_scientific_columns() {
+    let flux = |v: f64| q(v, Dim::HEAT_FLUX, Kind::Plain);
+    let t = Table {
+        title: None,
+        columns: vec![
+            Column {
+                name: "case".into(),
+                unit: None,
+                cells: vec![
+                    Value::Str("a".into()),
+                    Value::Str("b".into()),
+                    Value::Str("c".into()),
+                ],
+            },
+            Column {
+                name: "q_loss".into(),
+                unit: None,
+                cells: vec![flux(-12.5), flux(0.0), flux(3.25)],
+            },
+            Column {
+                name: "D_eff".into(),
+                unit: None,
+                cells: vec![
+                    q(2.1e-10, Dim::DIFFUSIVITY, Kind::Plain),
+                    q(3.35e-10, Dim::DIFFUSIVITY, Kind::Plain),
+                    q(1e-9, Dim::DIFFUSIVITY, Kind::Plain),
+                ],
+            },
+            Column {
+                name: "ok".into(),
+                unit: None,
+                cells: vec![Value::Bool(true), Value::Bool(false), Value::Bool(true)],
+            },
+            Column {
+                name: "mixed".into(),
+                unit: None,
+                cells: vec![
+                    q(1.5, Dim::LENGTH, Kind::Plain),
+                    Value::Str("n/a".into()),
+                    q(2.0, Dim::LENGTH, Kind::Plain),
+                ],
+            },
+        ],
+    };
+    insta::assert_snapshot!(table::text(&t).unwrap());
+}

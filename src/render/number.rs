@@ -97,7 +97,7 @@ pub fn exact_text(x: f64) -> String {
 
 /// Whole up to rounding noise (80.00000000000006 from 353.15 K - 273.15 K).
 fn is_whole(v: f64) -> bool {
-    (v - libm::round(v)).abs() <= 1e-9 * v.abs().max(1.0)
+    (v - libm::round(v)).abs() <= 1e-9 * v.abs()
 }
 
 fn strip_negative_zero(text: String) -> String {
@@ -203,6 +203,7 @@ mod tests {
     #[test]
     fn whole_numbers_and_zero() {
         assert_eq!(format_sig(3.0, 4), "3");
+        assert_eq!(format_sig(2.1e-10, 4), "2.1e-10");
         assert_eq!(format_sig(353.15 - 273.15, 4), "80");
         assert_eq!(format_sig(61.2, 4), "61.2");
         assert_eq!(format_sig(0.0, 4), "0");
