@@ -71,6 +71,13 @@ fn html_is_self_contained_and_complete() {
     for outside in ["<script", "src=\"http", "href=\"http", "@import", "url("] {
         assert!(!html.contains(outside), "refers outside: {outside}");
     }
+    for link in html.split("href=\"#").skip(1) {
+        let target = &link[..link.find('"').unwrap()];
+        assert!(
+            html.contains(&format!("id=\"{target}\"")),
+            "dangling link #{target}"
+        );
+    }
 }
 
 #[test]

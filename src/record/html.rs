@@ -10,6 +10,8 @@ use super::data::{CheckEntry, Entry, EntryKind, RecordData, CAUTIONS};
 
 const STYLE: &str = include_str!("record.css");
 
+const NAV: &str = "<nav class=\"toc\"><a href=\"#inputs\">Inputs</a> <a href=\"#values\">Values</a> <a href=\"#checks\">Checks</a> <a href=\"#methods\">Methods</a> <a href=\"#cautions\">Cautions</a></nav>\n";
+
 /// Render the record as a complete HTML document.
 pub fn html(r: &RecordData) -> String {
     let mut s = String::with_capacity(64 * 1024);
@@ -23,6 +25,7 @@ pub fn html(r: &RecordData) -> String {
         "<style>\n{STYLE}</style>\n</head>\n<body>\n<main>\n"
     ));
     header(&mut s, r);
+    s.push_str(NAV);
     summary(&mut s, r);
     inputs(&mut s, r);
     values(&mut s, r);
@@ -102,7 +105,7 @@ fn summary(s: &mut String, r: &RecordData) {
 }
 
 fn inputs(s: &mut String, r: &RecordData) {
-    s.push_str("<section>\n<h2>Inputs</h2>\n");
+    s.push_str("<section id=\"inputs\">\n<h2>Inputs</h2>\n");
     let list: Vec<&Entry> = r.entries_of(EntryKind::Input).collect();
     if list.is_empty() {
         s.push_str("<p class=\"empty\">This worksheet declares no inputs.</p>\n");
@@ -129,7 +132,7 @@ fn inputs(s: &mut String, r: &RecordData) {
 }
 
 fn values(s: &mut String, r: &RecordData) {
-    s.push_str("<section>\n<h2>Values</h2>\n");
+    s.push_str("<section id=\"values\">\n<h2>Values</h2>\n");
     let mut any = false;
     for e in r.entries.iter().filter(|e| e.kind != EntryKind::Input) {
         value_entry(s, e, r);
@@ -221,7 +224,7 @@ fn anchor(name: &str) -> String {
 }
 
 fn checks(s: &mut String, list: &[CheckEntry]) {
-    s.push_str("<section>\n<h2>Checks</h2>\n");
+    s.push_str("<section id=\"checks\">\n<h2>Checks</h2>\n");
     if list.is_empty() {
         s.push_str("<p class=\"empty\">This worksheet has no checks.</p>\n");
     } else {
@@ -244,10 +247,12 @@ fn checks(s: &mut String, list: &[CheckEntry]) {
 }
 
 fn methods(s: &mut String, list: &[&'static Builtin]) {
+    s.push_str("<section id=\"methods\">\n<h2>Methods and sources</h2>\n");
     if list.is_empty() {
+        s.push_str("<p class=\"empty\">No built-in methods were used.</p>\n</section>\n");
         return;
     }
-    s.push_str("<section>\n<h2>Methods and sources</h2>\n<dl class=\"methods\">\n");
+    s.push_str("<dl class=\"methods\">\n");
     for b in list {
         s.push_str(&format!(
             "<dt><code>{}</code> ({})</dt>\n",
@@ -277,7 +282,7 @@ fn other_warnings(s: &mut String, list: &[String]) {
 }
 
 fn cautions(s: &mut String) {
-    s.push_str("<section class=\"cautions\">\n<h2>Cautions</h2>\n<ul>\n");
+    s.push_str("<section class=\"cautions\" id=\"cautions\">\n<h2>Cautions</h2>\n<ul>\n");
     for c in CAUTIONS {
         s.push_str(&format!("<li>{}</li>\n", esc(c)));
     }
