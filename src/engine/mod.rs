@@ -5,6 +5,7 @@ pub mod sorption;
 
 pub mod air;
 pub mod dryers;
+pub mod psychrometric_chart;
 pub mod solve;
 pub mod transfer;
 pub mod transport;

@@ -1,7 +1,7 @@
 //! The evaluator: forces named values through the dependency graph and
 //! evaluates expressions, attaching spans to span-less unit errors.
 
-use std::collections::{HashMap, HashSet};
+use std::collections::HashSet;
 use std::path::PathBuf;
 
 use super::ops::{self, dim_words, OpError};
@@ -50,7 +50,7 @@ pub struct Ctx<'a> {
     pub warnings: Vec<Diagnostic>,
     pub errors: Vec<Diagnostic>,
     /// Parameters of the user function being evaluated.
-    pub(super) frame: Option<HashMap<String, Value>>,
+    pub(super) frame: Option<super::FastMap<String, Value>>,
     /// Names being computed right now (catches cycles the static check could not see).
     active: Vec<String>,
     /// Names whose evaluation failed in this run.

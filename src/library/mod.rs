@@ -8,7 +8,9 @@ pub mod data;
 pub mod fit;
 pub mod sorption;
 pub mod air;
+pub mod chart;
 pub mod math;
+pub mod plot;
 
 use crate::diag::{Diagnostic, Span};
 use crate::units::{describe_dim, Dim, Quantity};
@@ -245,8 +247,10 @@ pub fn registry() -> &'static [&'static Builtin] {
             fit::BUILTINS,
             sorption::BUILTINS,
             air::BUILTINS,
+            chart::BUILTINS,
             math::BUILTINS,
             transfer::BUILTINS,
+            plot::BUILTINS,
         ];
         let mut all: Vec<&'static Builtin> = FAMILIES.iter().flat_map(|f| f.iter()).collect();
         all.sort_by_key(|b| b.name);
