@@ -1,2 +1,6 @@
 //! The physics, typed with uom. Engine code never sees syntax, strings or
 //! dynamic units: it takes and returns uom quantities and plain structs.
+pub mod diffusion;
+pub mod integrate;
+pub mod kinetics;
+pub mod thin_layer;

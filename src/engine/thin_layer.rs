@@ -1,0 +1,1 @@
+//! Thin-layer drying models (in progress).
