@@ -1,6 +1,8 @@
 //! The physics, typed with uom. Engine code never sees syntax, strings or
 //! dynamic units: it takes and returns uom quantities and plain structs.
 pub mod diffusion;
+pub mod fit;
 pub mod integrate;
 pub mod kinetics;
+pub mod sorption;
 pub mod thin_layer;

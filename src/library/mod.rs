@@ -4,6 +4,11 @@
 //! A built-in receives spanned arguments, checks their dimensions here at the
 //! boundary, converts them to uom quantities and calls typed engine code.
 
+pub mod data;
+pub mod fit;
+pub mod sorption;
+pub mod math;
+
 use crate::diag::{Diagnostic, Span};
 use crate::units::{describe_dim, Dim, Quantity};
 use crate::value::{Record, Value};
@@ -60,6 +65,8 @@ pub struct Args {
     bound: Vec<Option<Arg>>,
     /// Warnings attached to the call (validity ranges and the like).
     pub warnings: Vec<Diagnostic>,
+    /// Folder of the calling worksheet, for relative file paths (None: current folder).
+    pub dir: Option<std::path::PathBuf>,
 }
 
 impl Args {
@@ -97,7 +104,7 @@ impl Args {
             }
             bound[index] = Some(arg);
         }
-        Ok(Args { builtin, call_span, bound, warnings: Vec::new() })
+        Ok(Args { builtin, call_span, bound, warnings: Vec::new(), dir: None })
     }
 
     fn index(&self, name: &str) -> usize {
@@ -231,6 +238,10 @@ pub fn registry() -> &'static [&'static Builtin] {
     REGISTRY.get_or_init(|| {
         const FAMILIES: &[&[Builtin]] = &[
             // one line per family, e.g. air::BUILTINS,
+            data::BUILTINS,
+            fit::BUILTINS,
+            sorption::BUILTINS,
+            math::BUILTINS,
         ];
         let mut all: Vec<&'static Builtin> = FAMILIES.iter().flat_map(|f| f.iter()).collect();
         all.sort_by_key(|b| b.name);
@@ -243,3 +254,10 @@ pub fn find(name: &str) -> Option<&'static Builtin> {
     registry().iter().copied().find(|b| b.name == name)
 }
 
+
+/// Every built-in, grouped by family (families alphabetical), then by name.
+pub fn registry_by_family() -> Vec<&'static Builtin> {
+    let mut all: Vec<&'static Builtin> = registry().to_vec();
+    all.sort_by_key(|b| (b.family, b.name));
+    all
+}
