@@ -13,6 +13,8 @@ use crate::diag::{Diagnostic, Span};
 use crate::units::{describe_dim, Dim, Quantity};
 use crate::value::{Record, Value};
 
+pub mod transfer;
+
 /// What a parameter accepts, for docs, completion and checking.
 #[derive(Clone, Copy, Debug)]
 pub struct Param {
@@ -242,6 +244,7 @@ pub fn registry() -> &'static [&'static Builtin] {
             fit::BUILTINS,
             sorption::BUILTINS,
             math::BUILTINS,
+            transfer::BUILTINS,
         ];
         let mut all: Vec<&'static Builtin> = FAMILIES.iter().flat_map(|f| f.iter()).collect();
         all.sort_by_key(|b| b.name);

@@ -382,7 +382,7 @@ impl Lower {
         let span = self.span(&pair);
         match pair.as_rule() {
             Rule::unit | Rule::unit_inner => self.unit_chain(pair),
-            Rule::unit_group => self.unit(first(pair)?),
+            Rule::unit_group => Ok(UnitExpr { span, ..self.unit(first(pair)?)? }),
             Rule::unit_name => Ok(UnitExpr {
                 kind: UnitKind::Name(pair.as_str().to_string()),
                 span,
@@ -565,4 +565,69 @@ fn parse_hint(text: &str, pos: usize) -> Option<String> {
         }
     }
     None
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn stmt(text: &str) -> Stmt {
+        match parse_statement(text, 0, 0) {
+            Ok(Some(s)) => s,
+            other => panic!("`{text}` did not parse: {other:?}"),
+        }
+    }
+
+    fn show(text: &str) -> ExprKind {
+        match stmt(text).kind {
+            StmtKind::Show(e) => e.kind,
+            other => panic!("`{text}` is not a bare expression: {other:?}"),
+        }
+    }
+
+    #[test]
+    fn statement_forms() {
+        assert!(matches!(stmt("input L = 12 mm").kind, StmtKind::Input { .. }));
+        assert!(matches!(stmt("check q > 1 kW/m^2").kind, StmtKind::Check(_)));
+        assert!(matches!(stmt("f(x, y) = x * y").kind, StmtKind::Function { ref params, .. } if params.len() == 2));
+        assert!(matches!(stmt("area = 2 m * 3 m").kind, StmtKind::Binding { .. }));
+        assert!(matches!(stmt("f(2)").kind, StmtKind::Show(_)));
+        assert!(matches!(stmt("f(x) == 3").kind, StmtKind::Show(_)));
+    }
+
+    #[test]
+    fn unit_after_number_without_spaces_is_compound() {
+        let ExprKind::Quantity { unit: Some(u), .. } = show("14 kg/m^2") else { panic!("no unit") };
+        assert!(matches!(u.kind, UnitKind::Div(..)));
+        let ExprKind::Binary(BinaryOp::Mul, a, b) = show("2.4 m * 1.8 m") else { panic!("not a product") };
+        assert!(matches!(a.kind, ExprKind::Quantity { unit: Some(_), .. }));
+        assert!(matches!(b.kind, ExprKind::Quantity { unit: Some(_), .. }));
+    }
+
+    #[test]
+    fn spaces_allowed_inside_unit_parentheses() {
+        let ExprKind::Quantity { unit: Some(u), .. } = show("5 BTU/(h * ft^2 * degF)") else { panic!("no unit") };
+        assert_eq!(u.span.end as usize, "5 BTU/(h * ft^2 * degF)".len());
+    }
+
+    #[test]
+    fn as_binds_loosest_and_power_is_right_associative() {
+        assert!(matches!(show("q * t as kWh"), ExprKind::As(..)));
+        let ExprKind::Unary(UnaryOp::Neg, inner) = show("-2^2") else { panic!("not a negation") };
+        assert!(matches!(inner.kind, ExprKind::Binary(BinaryOp::Pow, ..)));
+    }
+
+    #[test]
+    fn spans_are_offset_by_the_chunk_start() {
+        let s = parse_statement("x = 1", 10, 3).ok().flatten().map(|s| s.span);
+        assert_eq!(s, Some(Span { file: 3, start: 10, end: 15 }));
+    }
+
+    #[test]
+    fn errors_use_human_rule_names() {
+        let e = parse_statement("x = ", 0, 0).err().map(|d| d.message).unwrap_or_default();
+        assert_eq!(e, "expected a value, found the end of the line");
+        let e = parse_statement("x = 2 m 3", 0, 0).err().map(|d| d.message).unwrap_or_default();
+        assert!(e.contains("expected") && e.contains("found `3`"), "{e}");
+    }
 }
