@@ -146,7 +146,7 @@ MODELS = {
     "modified_page": (lambda t, k, n: np.exp(-(k * t) ** n), [0.3, 1.0]),
     "henderson_pabis": (lambda t, a, k: a * np.exp(-k * t), [1.0, 0.3]),
     "logarithmic": (lambda t, a, k, c: a * np.exp(-k * t) + c, [1.0, 0.3, 0.0]),
-    "two_term": (lambda t, a, k0, b, k1: a * np.exp(-k0 * t) + b * np.exp(-k1 * t), [0.5, 0.2, 0.5, 1.0]),
+    "two_term": (lambda t, a, k0, b, k1: a * np.exp(-k0 * t) + b * np.exp(-k1 * t), [1.5, 0.45, -0.5, 0.8]),
     "two_term_exponential": (lambda t, a, k: a * np.exp(-k * t) + (1 - a) * np.exp(-k * a * t), [0.5, 0.5]),
     "wang_singh": (lambda t, a, b: 1 + a * t + b * t * t, [-0.1, 0.001]),
     "midilli": (lambda t, a, k, n, b: a * np.exp(-k * t ** n) + b * t, [1.0, 0.3, 1.0, 0.0]),
