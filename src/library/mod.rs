@@ -6,6 +6,7 @@
 
 pub mod data;
 pub mod fit;
+pub mod kinetics;
 pub mod sorption;
 pub mod math;
 
@@ -242,6 +243,7 @@ pub fn registry() -> &'static [&'static Builtin] {
             // one line per family, e.g. air::BUILTINS,
             data::BUILTINS,
             fit::BUILTINS,
+            kinetics::BUILTINS,
             sorption::BUILTINS,
             math::BUILTINS,
             transfer::BUILTINS,
