@@ -47,10 +47,10 @@ struct Worst {
 
 impl Worst {
     fn see(&mut self, error: f64, tol: f64, at: &str) {
-        if !(error <= tol) {
+        if error.is_nan() || error > tol {
             self.failures += 1;
         }
-        if !(error <= self.error) {
+        if error.is_nan() || error > self.error {
             self.error = error;
             self.at = at.to_string();
         }

@@ -4,6 +4,7 @@
 //! A built-in receives spanned arguments, checks their dimensions here at the
 //! boundary, converts them to uom quantities and calls typed engine code.
 
+pub mod air;
 pub mod data;
 pub mod fit;
 pub mod kinetics;
@@ -241,6 +242,7 @@ pub fn registry() -> &'static [&'static Builtin] {
     REGISTRY.get_or_init(|| {
         const FAMILIES: &[&[Builtin]] = &[
             // one line per family, e.g. air::BUILTINS,
+            air::BUILTINS,
             data::BUILTINS,
             fit::BUILTINS,
             kinetics::BUILTINS,

@@ -530,6 +530,10 @@ fn expected_message(positives: &[Rule], found: &str) -> String {
             names.push(n);
         }
     }
+    // After a complete value, "an operator" says enough; drop the postfix noise.
+    if names.contains(&"an operator") {
+        names.retain(|n| !matches!(*n, "`(`" | "`.`" | "a whole-number exponent" | "`*` or `/`" | "`as`"));
+    }
     let expected = match names.len() {
         0 => String::new(),
         1 => names[0].to_string(),
@@ -560,7 +564,7 @@ fn parse_hint(text: &str, pos: usize) -> Option<String> {
         );
     }
     if let Some(first) = rest.chars().next() {
-        if first.is_alphabetic() && before.chars().last().is_some_and(|c| c.is_alphanumeric()) {
+        if (first.is_alphanumeric() || first == '(') && before.chars().last().is_some_and(|c| c.is_alphanumeric() || c == ')') {
             return Some("two values side by side need an operator between them, e.g. `*`".into());
         }
     }

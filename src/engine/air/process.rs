@@ -187,9 +187,9 @@ pub fn mix(
 
 /// Saturated outlet of a supersaturated mix, with the fog (liquid) it carries.
 fn foggy_mix(h: f64, w: f64, p: f64) -> Result<ProcessOutcome, AirError> {
-    let residual = |t: f64| match ws_of(t, p) {
-        Some(ws) if ws <= w => h_of(t, ws, p) + (w - ws) * thermo::condensed_enthalpy(t) - h,
-        _ => f64::INFINITY,
+    let residual = |t: f64| {
+        let ws = ws_of(t, p).unwrap_or(w).min(w);
+        h_of(t, ws, p) + (w - ws) * thermo::condensed_enthalpy(t) - h
     };
     // The clear-air dry-bulb is below the dew point of w, where the residual is positive.
     let probe = AirState::from_w(
@@ -300,19 +300,29 @@ fn add_enthalpy_and_water(
         return Err(AirError::NotPositive { name, value: dw });
     }
     let (t1, w1, p) = (air.t_kelvin(), air.humidity_ratio(), air.p_pascal());
-    let h2 = h_of(t1, w1, p) + dw * h_water;
-    match AirState::from_enthalpy_and_w(AvailableEnergy::new::<joule_per_kilogram>(h2), w1 + dw, air.pressure()) {
-        Ok(outlet) => Ok(outcome(outlet, 0.0, dw)),
-        Err(AirError::HumidityRatioAboveSaturation { saturation, t_k, .. }) => Err(AirError::ProcessOutOfRange {
+    let (h2, w2) = (h_of(t1, w1, p) + dw * h_water, w1 + dw);
+    // Supersaturated when the clear-air enthalpy at the dew point of w2 exceeds h2.
+    let probe = AirState::from_w(
+        ThermodynamicTemperature::new::<kelvin>(super::state::T_MAX_K),
+        w2,
+        air.pressure(),
+    )?;
+    let t_dew = probe.dew_point_k()?;
+    if h2 < h_of(t_dew, w2, p) {
+        return Err(AirError::ProcessOutOfRange {
             what: format!(
-                "adding {dw:.6} kg {name}/kg dry air would supersaturate the air (w {:.6} above saturation {saturation:.6} at {:.2} degC); \
-                 not all of it can evaporate",
-                w1 + dw,
-                t_k - 273.15
+                "adding {dw:.6} kg {name}/kg dry air would supersaturate the air (w {w2:.6} kg/kg needs a dry-bulb \
+                 above its dew point {:.2} degC); not all of it can evaporate",
+                t_dew - 273.15
             ),
-        }),
-        Err(e) => Err(e),
+        });
     }
+    let outlet = AirState::from_enthalpy_and_w(
+        AvailableEnergy::new::<joule_per_kilogram>(h2),
+        w2,
+        air.pressure(),
+    )?;
+    Ok(outcome(outlet, 0.0, dw))
 }
 
 /// A stream of humid air: its state and its dry-air mass flow.

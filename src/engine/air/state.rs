@@ -39,7 +39,7 @@ pub const P_MAX_PA: f64 = 200e3;
 const P_HARD_MIN_PA: f64 = 1e3;
 const P_HARD_MAX_PA: f64 = 10e6;
 /// Tolerance on temperatures solved by Brent's method, K.
-const T_TOL: Tolerance = Tolerance::new(1e-10, 1e-15);
+const T_TOL: Tolerance = Tolerance::new(1e-13, 1e-15);
 /// Relative slack when comparing a round-tripped value with a limit.
 const SLACK: f64 = 1e-12;
 
@@ -73,8 +73,11 @@ pub(crate) fn check_pressure(p: f64) -> Result<(), AirError> {
     Ok(())
 }
 
+/// Slack on the temperature range, K, so that -40 degC converted through degC is accepted.
+const T_SLACK: f64 = 1e-9;
+
 pub(crate) fn check_dry_bulb(name: &'static str, t: f64) -> Result<(), AirError> {
-    if t.is_finite() && (T_MIN_K..=T_MAX_K).contains(&t) {
+    if t.is_finite() && (T_MIN_K - T_SLACK..=T_MAX_K + T_SLACK).contains(&t) {
         Ok(())
     } else {
         Err(AirError::TemperatureOutOfRange {
@@ -88,7 +91,7 @@ pub(crate) fn check_dry_bulb(name: &'static str, t: f64) -> Result<(), AirError>
 
 /// A second temperature (wet-bulb, dew point) must lie in the saturation range and not above the dry-bulb.
 fn check_below_dry_bulb(name: &'static str, value: f64, dry_bulb: f64) -> Result<(), AirError> {
-    if !(value.is_finite() && value >= T_MIN_SATURATION) {
+    if !(value.is_finite() && value >= T_MIN_SATURATION - T_SLACK) {
         return Err(AirError::TemperatureOutOfRange {
             name,
             value_k: value,
@@ -138,7 +141,8 @@ fn w_for_enthalpy(t: f64, p: f64, target: f64, hc: f64) -> Result<f64, AirError>
         let slope = thermo::vapour_enthalpy(t, pv_of(w, p)) - hc;
         let step = (target - (h_of(t, w, p) - w * hc)) / slope;
         w += step;
-        if step.abs() <= 8.0 * f64::EPSILON * w.abs() {
+        // Rounding of h itself limits the step to about eps |h| / slope.
+        if step.abs() <= 8.0 * f64::EPSILON * (w.abs() + (target.abs() + hc.abs()) / slope.abs()) {
             return Ok(w);
         }
     }
@@ -216,9 +220,10 @@ impl AirState {
         let (t, p) = (t.get::<kelvin>(), p.get::<pascal>());
         check_dry_bulb("T", t)?;
         check_pressure(p)?;
-        if !(rh.is_finite() && (0.0..=1.0).contains(&rh)) {
+        if !(rh.is_finite() && (0.0..=1.0 + SLACK).contains(&rh)) {
             return Err(AirError::RelativeHumidityOutOfRange { value: rh });
         }
+        let rh = rh.min(1.0);
         let pvs = sat::saturated_vapour_pressure(t, p);
         let pv = rh * pvs;
         if pv >= p {
@@ -330,7 +335,7 @@ impl AirState {
         let w = if h == h_dry {
             0.0
         } else {
-            w_for_enthalpy(t, p, h - h_dry, 0.0)?
+            w_for_enthalpy(t, p, h, 0.0)?
         };
         AirState::new_checked(t, w, p, "h")
     }
@@ -499,7 +504,7 @@ impl AirState {
         let hi = self.wet_bulb_upper_k()?;
         let lo = self.dew_point_k().unwrap_or(T_MIN_SATURATION).min(hi);
         if hi >= T_ZERO_C
-            && residual(lo.max(T_ZERO_C), thermo::liquid_enthalpy(lo.max(T_ZERO_C))) <= 0.0
+            && (lo >= T_ZERO_C || residual(T_ZERO_C, thermo::liquid_enthalpy(T_ZERO_C)) <= 0.0)
         {
             let f = |ts: f64| residual(ts, thermo::liquid_enthalpy(ts));
             return root_in(f, lo.max(T_ZERO_C), hi, "wet-bulb temperature");
