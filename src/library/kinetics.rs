@@ -29,6 +29,8 @@ pub struct CurvePayload {
     pub curve: RateCurve,
     /// Reference constant rate, kg/(m^2 s), used by `at_constant_rate`.
     pub rc_reference: f64,
+    /// Critical moisture found in a test, for a measured curve.
+    pub critical: Option<f64>,
 }
 
 impl Payload for CurvePayload {
@@ -268,7 +270,7 @@ fn test_record(run: BatchRun, period: ConstantRatePeriod, curve: RateCurve) -> R
             column("R", "kg/(m^2*h)", run.points.iter().map(|p| rate(p.rate)).collect()),
         ],
     };
-    let curve_record = curve_record(CurvePayload { curve, rc_reference: period.rate }, "measured (monotone cubic through the test's smoothed rates)");
+    let curve_record = curve_record(CurvePayload { curve, rc_reference: period.rate, critical: Some(period.critical_moisture) }, "measured (monotone cubic through the test's smoothed rates)");
     let mut r = Record::new("drying_test")
         .with("load", shown(run.load_kg_per_m2, Dim::AREAL_DENSITY, Kind::Plain, "kg/m^2"))
         .with("Rc", rate(period.rate))
@@ -284,8 +286,9 @@ fn test_record(run: BatchRun, period: ConstantRatePeriod, curve: RateCurve) -> R
 }
 
 fn curve_record(payload: CurvePayload, model: &str) -> Record {
-    let mut r = Record::new("rate_curve").with("model", Value::Str(model.into())).with("Rc", rate(payload.rc_reference)).with("Xe", moisture(payload.curve.equilibrium()));
-    if let Some(xc) = payload.curve.critical() {
+    let low = if matches!(payload.curve, RateCurve::Table(_)) { "X_low" } else { "Xe" };
+    let mut r = Record::new("rate_curve").with("model", Value::Str(model.into())).with("Rc", rate(payload.rc_reference)).with(low, moisture(payload.curve.equilibrium()));
+    if let Some(xc) = payload.critical.or(payload.curve.critical()) {
         r = r.with("Xc", moisture(xc));
     }
     if let RateCurve::ConstantPower { n, .. } = payload.curve {
@@ -311,7 +314,7 @@ fn measured_rate_curve(args: &mut Args) -> Result<Value, Diagnostic> {
     let r = column_si(&table, &r_name, r_span, Dim::MASS_FLUX, Kind::Plain)?;
     let curve = RateCurve::table(&x, &r).map_err(|e| kinetics_error(args.call_span, e))?;
     let rc = r.iter().copied().fold(0.0, f64::max);
-    Ok(Value::Record(curve_record(CurvePayload { curve, rc_reference: rc }, "measured (monotone cubic through the table)")))
+    Ok(Value::Record(curve_record(CurvePayload { curve, rc_reference: rc, critical: None }, "measured (monotone cubic through the table)")))
 }
 
 fn falling_rate_curve(args: &mut Args) -> Result<Value, Diagnostic> {
@@ -326,7 +329,7 @@ fn falling_rate_curve(args: &mut Args) -> Result<Value, Diagnostic> {
         (RateCurve::constant_power(rc, xc, xe, n), "constant rate, then falling as a power of free moisture")
     };
     let curve = curve.map_err(|e| kinetics_error(args.call_span, e))?;
-    Ok(Value::Record(curve_record(CurvePayload { curve, rc_reference: rc }, model)))
+    Ok(Value::Record(curve_record(CurvePayload { curve, rc_reference: rc, critical: None }, model)))
 }
 
 fn at_constant_rate(args: &mut Args) -> Result<Value, Diagnostic> {
@@ -338,7 +341,7 @@ fn at_constant_rate(args: &mut Args) -> Result<Value, Diagnostic> {
     }
     let factor = rc / payload.rc_reference;
     let curve = payload.curve.scaled(factor).map_err(|e| kinetics_error(args.call_span, e))?;
-    Ok(Value::Record(curve_record(CurvePayload { curve, rc_reference: rc }, &format!("rescaled to Rc (rates x {factor:.4})"))))
+    Ok(Value::Record(curve_record(CurvePayload { curve, rc_reference: rc, critical: payload.critical }, &format!("rescaled to Rc (rates x {factor:.4})"))))
 }
 
 fn span_args(args: &mut Args) -> Result<(CurvePayload, f64, f64, f64), Diagnostic> {
@@ -362,7 +365,7 @@ fn drying_stages(args: &mut Args) -> Result<Value, Diagnostic> {
     let conditions = opt_text(args, "conditions")?.map(|c| c.0).unwrap_or_default();
     args.finish()?;
     let span = args.span_of("to");
-    let chain = stages(&payload.curve, load, from, to, &conditions).map_err(|e| kinetics_error(span, e))?;
+    let chain = stages(&payload.curve, load, from, to, payload.critical, &conditions).map_err(|e| kinetics_error(span, e))?;
     let columns = vec![
         Column { name: "stage".into(), unit: None, cells: chain.iter().map(|s| Value::Str(s.kind.name().into())).collect() },
         column("X start", "db", chain.iter().map(|s| moisture(s.x_start)).collect()),

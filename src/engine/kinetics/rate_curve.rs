@@ -232,6 +232,11 @@ fn check_span(curve: &RateCurve, load: f64, x_start: f64, x_end: f64) -> Result<
     positive("dry-solid load per area", load)?;
     positive("start moisture", x_start)?;
     let xe = curve.equilibrium();
+    if let RateCurve::Table(t) = curve {
+        if x_end < t.x[0] && t.y[0] > 0.0 {
+            return Err(KineticsError::OutOfRange { name: "target moisture", value: x_end, reason: "is below the lowest moisture of the measured rate curve; extend the test or use a falling-rate model" });
+        }
+    }
     if !(x_end > xe) || curve.rate(x_end) <= 0.0 {
         return Err(KineticsError::TargetAtOrBelowEquilibrium { target: x_end, equilibrium: xe });
     }

@@ -52,16 +52,29 @@ impl DryingStage {
 }
 
 /// Split a drying run from `x_start` to `x_end` on `curve` into its
-/// constant-rate and falling-rate stages (only the stages that occur).
-pub fn stages(curve: &RateCurve, load_kg_per_m2: f64, x_start: f64, x_end: f64, conditions: &str) -> Result<Vec<DryingStage>, KineticsError> {
-    let time = drying_time(curve, load_kg_per_m2, x_start, x_end)?;
-    let xc = curve.critical().unwrap_or(f64::INFINITY).clamp(x_end, x_start);
+/// constant-rate and falling-rate stages (only the stages that occur), at
+/// `critical` when given (e.g. the critical moisture found in a test for a
+/// measured curve), else at the curve's own critical moisture. A curve with
+/// neither is one falling-rate stage.
+pub fn stages(curve: &RateCurve, load_kg_per_m2: f64, x_start: f64, x_end: f64, critical: Option<f64>, conditions: &str) -> Result<Vec<DryingStage>, KineticsError> {
+    // Validates the whole span first (target above equilibrium and so on).
+    drying_time(curve, load_kg_per_m2, x_start, x_end)?;
     let mut out = Vec::new();
-    if time.constant_s > 0.0 {
-        out.push(stage(StageKind::ConstantRate, curve, x_start, xc, time.constant_s, conditions));
-    }
-    if time.falling_s > 0.0 {
-        out.push(stage(StageKind::FallingRate, curve, xc.min(x_start), x_end, time.falling_s, conditions));
+    match critical.or(curve.critical()) {
+        Some(xc) if xc > x_end && xc < x_start => {
+            let constant = drying_time(curve, load_kg_per_m2, x_start, xc)?.total_s;
+            let falling = drying_time(curve, load_kg_per_m2, xc, x_end)?.total_s;
+            out.push(stage(StageKind::ConstantRate, curve, x_start, xc, constant, conditions));
+            out.push(stage(StageKind::FallingRate, curve, xc, x_end, falling, conditions));
+        }
+        Some(xc) if xc <= x_end => {
+            let t = drying_time(curve, load_kg_per_m2, x_start, x_end)?.total_s;
+            out.push(stage(StageKind::ConstantRate, curve, x_start, x_end, t, conditions));
+        }
+        _ => {
+            let t = drying_time(curve, load_kg_per_m2, x_start, x_end)?.total_s;
+            out.push(stage(StageKind::FallingRate, curve, x_start, x_end, t, conditions));
+        }
     }
     Ok(out)
 }
@@ -89,7 +102,7 @@ mod tests {
     #[test]
     fn stages_split_at_critical_moisture_and_sum_to_total() {
         let c = RateCurve::constant_linear(1e-3, 0.6, 0.05).unwrap();
-        let chain = stages(&c, 18.0, 1.3, 0.12, "invented lab air").unwrap();
+        let chain = stages(&c, 18.0, 1.3, 0.12, None, "invented lab air").unwrap();
         assert_eq!(chain.len(), 2);
         assert_eq!(chain[0].kind, StageKind::ConstantRate);
         assert!((chain[0].x_end - 0.6).abs() < 1e-12 && (chain[1].x_start - 0.6).abs() < 1e-12);
@@ -97,7 +110,7 @@ mod tests {
         assert!((chain_duration(&chain).unwrap() - total).abs() < 1e-9 * total);
         // Constant period only: (1.3 - 0.6) * 18 / 1e-3 s.
         assert!((chain[0].duration_s - 0.7 * 18.0 / 1e-3).abs() < 1e-6);
-        let only_falling = stages(&c, 18.0, 0.5, 0.12, "").unwrap();
+        let only_falling = stages(&c, 18.0, 0.5, 0.12, None, "").unwrap();
         assert_eq!(only_falling.len(), 1);
         assert_eq!(only_falling[0].kind, StageKind::FallingRate);
     }
