@@ -27,22 +27,22 @@ use super::integrate::IntegrateError;
 #[derive(Debug, Clone, PartialEq, Error)]
 pub enum KineticsError {
     /// A sample mass below the dry-solid mass (negative moisture).
-    #[error("mass {mass_kg} kg at point {index} is below the dry-solid mass {dry_solid_kg} kg")]
+    #[error("mass {} kg at reading {} is below the dry-solid mass {} kg", show(*.mass_kg), .index + 1, show(*.dry_solid_kg))]
     BelowDrySolid { index: usize, mass_kg: f64, dry_solid_kg: f64 },
     /// Times must increase strictly.
-    #[error("time {time_s} s at point {index} does not follow the previous time {previous_s} s (times must increase)")]
+    #[error("time {} s at reading {} does not follow the previous time {} s (times must increase)", show(*.time_s), .index + 1, show(*.previous_s))]
     TimeNotIncreasing { index: usize, previous_s: f64, time_s: f64 },
     /// Too few points for a method.
     #[error("{what} needs at least {needed} points, found {found}")]
     TooFewPoints { what: &'static str, needed: usize, found: usize },
     /// Target moisture at or below equilibrium: the time would be infinite.
-    #[error("target moisture {target} db is at or below the equilibrium moisture {equilibrium} db; the drying time would be infinite")]
+    #[error("target moisture {} db is at or below the equilibrium moisture {} db; the drying time would be infinite", show(*.target), show(*.equilibrium))]
     TargetAtOrBelowEquilibrium { target: f64, equilibrium: f64 },
     /// A diffusivity that is zero, negative or not finite.
-    #[error("diffusivity {value} m^2/s is not positive")]
+    #[error("diffusivity {value:e} m^2/s is not positive")]
     NegativeDiffusivity { value: f64 },
     /// Any other argument out of its domain.
-    #[error("{name} = {value} is out of range: {reason}")]
+    #[error("{name} = {} is out of range: {reason}", show(*.value))]
     OutOfRange { name: &'static str, value: f64, reason: &'static str },
     /// A solver or fit that did not converge.
     #[error("{what} did not converge: {detail}")]
@@ -50,6 +50,28 @@ pub enum KineticsError {
     /// Numerical integration or root finding failed.
     #[error(transparent)]
     Numerics(#[from] IntegrateError),
+}
+
+/// A number for a message: up to 6 significant digits, no float noise.
+pub fn show(x: f64) -> String {
+    if x == 0.0 || !x.is_finite() {
+        return format!("{x}");
+    }
+    let magnitude = x.abs().log10().floor() as i32;
+    if (-3..7).contains(&magnitude) {
+        let decimals = (5 - magnitude).max(0) as usize;
+        let text = format!("{x:.decimals$}");
+        if text.contains('.') {
+            text.trim_end_matches('0').trim_end_matches('.').to_string()
+        } else {
+            text
+        }
+    } else {
+        let text = format!("{x:.5e}");
+        let (mantissa, exponent) = text.split_once('e').unwrap_or((&text, "0"));
+        let mantissa = if mantissa.contains('.') { mantissa.trim_end_matches('0').trim_end_matches('.') } else { mantissa };
+        format!("{mantissa}e{exponent}")
+    }
 }
 
 /// Check that a named value is finite and strictly positive.

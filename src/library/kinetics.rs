@@ -135,10 +135,11 @@ fn opt_text(args: &mut Args, name: &str) -> Result<Option<(String, Span)>, Diagn
 }
 
 fn opt_count(args: &mut Args, name: &str, default: usize) -> Result<usize, Diagnostic> {
+    let span = args.span_of(name);
     match kind_arg(args, name, Dim::NONE, Kind::Plain)? {
         None => Ok(default),
         Some(v) if v >= 1.0 && v.fract() == 0.0 && v <= 1e6 => Ok(v as usize),
-        Some(v) => Err(args.error_at(name, format!("`{name}` must be a whole number of at least 1, got {v}"))),
+        Some(v) => Err(Diagnostic::error(span, format!("`{name}` must be a whole number of at least 1, got {v}"))),
     }
 }
 
@@ -202,15 +203,16 @@ fn body_arg(args: &mut Args) -> Result<Body, Diagnostic> {
         "sphere" => Shape::Sphere,
         other => return Err(Diagnostic::error(span, format!("unknown shape `{other}`")).with_hint("shapes: \"slab\", \"cylinder\", \"sphere\"")),
     };
+    let (faces_span, thickness_span) = (args.span_of("faces"), args.span_of("thickness"));
     let thickness = args.opt_quantity("thickness", Dim::LENGTH)?;
     let radius = args.opt_quantity("radius", Dim::LENGTH)?;
     let faces = opt_count(args, "faces", 2)?;
     let length = match (shape, thickness, radius) {
         (Shape::Slab, Some(t), None) if faces == 1 || faces == 2 => if faces == 2 { 0.5 * t.si } else { t.si },
-        (Shape::Slab, _, None) if faces > 2 => return Err(args.error_at("faces", "a slab dries from 1 or 2 faces")),
+        (Shape::Slab, _, None) if faces > 2 => return Err(Diagnostic::error(faces_span, "a slab dries from 1 or 2 faces")),
         (Shape::Slab, None, _) => return Err(Diagnostic::error(args.call_span, "a slab needs `thickness`").with_hint("thickness: 6 mm, faces: 2 (or 1 with the other face sealed)")),
         (_, None, Some(r)) => r.si,
-        (_, Some(_), _) => return Err(args.error_at("thickness", "a cylinder or sphere takes `radius`, not `thickness`")),
+        (_, Some(_), _) => return Err(Diagnostic::error(thickness_span, "a cylinder or sphere takes `radius`, not `thickness`")),
         (_, None, None) => return Err(Diagnostic::error(args.call_span, format!("a {} needs `radius`", shape.name()))),
     };
     if !(length.is_finite() && length > 0.0) {
@@ -220,18 +222,20 @@ fn body_arg(args: &mut Args) -> Result<Body, Diagnostic> {
 }
 
 fn diffusivity_value(args: &mut Args, name: &str) -> Result<f64, Diagnostic> {
+    let span = args.span_of(name);
     let d = args.quantity(name, Dim::DIFFUSIVITY)?;
     if d.si.is_finite() && d.si > 0.0 {
         Ok(d.si)
     } else {
-        Err(kinetics_error(args.span_of(name), KineticsError::NegativeDiffusivity { value: d.si }))
+        Err(kinetics_error(span, KineticsError::NegativeDiffusivity { value: d.si }))
     }
 }
 
 fn biot_arg(args: &mut Args) -> Result<Option<f64>, Diagnostic> {
+    let span = args.span_of("Bi");
     match kind_arg(args, "Bi", Dim::NONE, Kind::Plain)? {
         Some(b) if b.is_finite() && b > 0.0 => Ok(Some(b)),
-        Some(b) => Err(args.error_at("Bi", format!("the Biot number must be positive, got {b}"))),
+        Some(b) => Err(Diagnostic::error(span, format!("the Biot number must be positive, got {b}"))),
         None => Ok(None),
     }
 }
@@ -318,6 +322,7 @@ fn measured_rate_curve(args: &mut Args) -> Result<Value, Diagnostic> {
 }
 
 fn falling_rate_curve(args: &mut Args) -> Result<Value, Diagnostic> {
+    let spans = spans_of(args, &["Rc", "Xc", "Xe", "n"]);
     let rc = args.quantity("Rc", Dim::MASS_FLUX)?.si;
     let xc = required_moisture(args, "Xc")?;
     let xe = opt_moisture(args, "Xe")?.unwrap_or(0.0);
@@ -328,16 +333,17 @@ fn falling_rate_curve(args: &mut Args) -> Result<Value, Diagnostic> {
     } else {
         (RateCurve::constant_power(rc, xc, xe, n), "constant rate, then falling as a power of free moisture")
     };
-    let curve = curve.map_err(|e| kinetics_error(args.call_span, e))?;
+    let curve = curve.map_err(|e| blame(&spans, args.call_span, e))?;
     Ok(Value::Record(curve_record(CurvePayload { curve, rc_reference: rc, critical: None }, model)))
 }
 
 fn at_constant_rate(args: &mut Args) -> Result<Value, Diagnostic> {
+    let rc_span = args.span_of("Rc");
     let payload = curve_arg(args, "curve")?;
     let rc = args.quantity("Rc", Dim::MASS_FLUX)?.si;
     args.finish()?;
     if !(rc.is_finite() && rc > 0.0) {
-        return Err(args.error_at("Rc", format!("the constant drying rate must be positive, got {rc} kg/(m^2*s)")));
+        return Err(Diagnostic::error(rc_span, format!("the constant drying rate must be positive, got {rc} kg/(m^2*s)")));
     }
     let factor = rc / payload.rc_reference;
     let curve = payload.curve.scaled(factor).map_err(|e| kinetics_error(args.call_span, e))?;
@@ -352,20 +358,45 @@ fn span_args(args: &mut Args) -> Result<(CurvePayload, f64, f64, f64), Diagnosti
     Ok((payload, load, from, to))
 }
 
+/// The argument an engine error is about, from its kind and name.
+fn blame(spans: &[(&'static str, Span)], fallback: Span, e: KineticsError) -> Diagnostic {
+    let name = match &e {
+        KineticsError::TargetAtOrBelowEquilibrium { .. } => "to",
+        KineticsError::OutOfRange { name, .. } => match *name {
+            "start moisture" => "from",
+            "target moisture" => "to",
+            "dry-solid load per area" => "load",
+            "critical moisture" => "Xc",
+            "equilibrium moisture" => "Xe",
+            "constant drying rate" => "Rc",
+            "falling-rate exponent" => "n",
+            "rate scale factor" => "Rc",
+            _ => "",
+        },
+        _ => "",
+    };
+    let span = spans.iter().find(|(n, _)| *n == name).map_or(fallback, |(_, s)| *s);
+    kinetics_error(span, e)
+}
+
+fn spans_of(args: &Args, names: &[&'static str]) -> Vec<(&'static str, Span)> {
+    names.iter().map(|n| (*n, args.span_of(n))).collect()
+}
+
 fn drying_time(args: &mut Args) -> Result<Value, Diagnostic> {
+    let spans = spans_of(args, &["load", "from", "to"]);
     let (payload, load, from, to) = span_args(args)?;
     args.finish()?;
-    let span = args.span_of("to");
-    let t = engine_drying_time(&payload.curve, load, from, to).map_err(|e| kinetics_error(span, e))?;
+    let t = engine_drying_time(&payload.curve, load, from, to).map_err(|e| blame(&spans, args.call_span, e))?;
     Ok(hours(t.total_s))
 }
 
 fn drying_stages(args: &mut Args) -> Result<Value, Diagnostic> {
+    let spans = spans_of(args, &["load", "from", "to"]);
     let (payload, load, from, to) = span_args(args)?;
     let conditions = opt_text(args, "conditions")?.map(|c| c.0).unwrap_or_default();
     args.finish()?;
-    let span = args.span_of("to");
-    let chain = stages(&payload.curve, load, from, to, payload.critical, &conditions).map_err(|e| kinetics_error(span, e))?;
+    let chain = stages(&payload.curve, load, from, to, payload.critical, &conditions).map_err(|e| blame(&spans, args.call_span, e))?;
     let columns = vec![
         Column { name: "stage".into(), unit: None, cells: chain.iter().map(|s| Value::Str(s.kind.name().into())).collect() },
         column("X start", "db", chain.iter().map(|s| moisture(s.x_start)).collect()),
@@ -382,13 +413,14 @@ fn drying_stages(args: &mut Args) -> Result<Value, Diagnostic> {
 // ---------------------------------------------------------------------------
 
 fn crank_ratio(args: &mut Args) -> Result<Value, Diagnostic> {
+    let t_span = args.span_of("t");
     let d = diffusivity_value(args, "D")?;
     let t = args.quantity("t", Dim::TIME)?.si;
     let body = body_arg(args)?;
     let biot = biot_arg(args)?;
     args.finish()?;
     if !(t.is_finite() && t >= 0.0) {
-        return Err(args.error_at("t", format!("time must not be negative, got {t} s")));
+        return Err(Diagnostic::error(t_span, format!("time must not be negative, got {t} s")));
     }
     let fo = body.fourier(d, t);
     let series = CrankSeries::new(body.shape, biot, fo.clamp(1e-8, 1e-4)).map_err(|e| kinetics_error(args.call_span, e))?;
@@ -396,17 +428,19 @@ fn crank_ratio(args: &mut Args) -> Result<Value, Diagnostic> {
 }
 
 fn crank_time(args: &mut Args) -> Result<Value, Diagnostic> {
+    let mr_span = args.span_of("MR");
     let d = diffusivity_value(args, "D")?;
     let mr = required_kind(args, "MR", Dim::NONE, Kind::Plain)?;
     let body = body_arg(args)?;
     let biot = biot_arg(args)?;
     args.finish()?;
     let series = CrankSeries::new(body.shape, biot, 1e-6).map_err(|e| kinetics_error(args.call_span, e))?;
-    let fo = series.fourier_for_ratio(mr).map_err(|e| kinetics_error(args.span_of("MR"), e))?;
+    let fo = series.fourier_for_ratio(mr).map_err(|e| kinetics_error(mr_span, e))?;
     Ok(hours(fo * body.length_m * body.length_m / d))
 }
 
 fn diffusion_drying(args: &mut Args) -> Result<Value, Diagnostic> {
+    let ea_span = args.span_of("Ea");
     let body = body_arg(args)?;
     let x0 = required_moisture(args, "X0")?;
     let xe = required_moisture(args, "Xe")?;
@@ -421,7 +455,7 @@ fn diffusion_drying(args: &mut Args) -> Result<Value, Diagnostic> {
     let cells = opt_count(args, "cells", 100)?;
     args.finish()?;
     if ea != 0.0 && temperature.is_none() {
-        return Err(args.error_at("Ea", "an activation energy needs the product temperature `T`"));
+        return Err(Diagnostic::error(ea_span, "an activation energy needs the product temperature `T`"));
     }
     let t_k = temperature.unwrap_or(293.15);
     let diffusivity = Diffusivity {
@@ -540,8 +574,8 @@ fn thin_layer_payload(fit: &ThinLayerFit, times: &[f64], ratios: &[f64]) -> Resu
     let result = least_squares(&f, &in_unit, ratios, &fit.params, &bounds).map_err(|e| KineticsError::NoConvergence { what: "thin-layer fit", detail: e.to_string() })?;
     let unit_word = time_unit_word(fit.time_unit_s);
     Ok(FitPayload {
-        model: model.name().to_string(),
-        params: model.parameter_names().iter().map(|n| QuantitySpec::new(format!("{n}{}", param_suffix(model, n, &unit_word)), Dim::NONE, Kind::Plain)).collect(),
+        model: format!("{} (t in {unit_word})", model.name()),
+        params: model.parameter_names().iter().map(|n| QuantitySpec::new(*n, Dim::NONE, Kind::Plain)).collect(),
         x: QuantitySpec::new("t", Dim::TIME, Kind::Plain).shown_in("h"),
         y: QuantitySpec::new("MR", Dim::NONE, Kind::Plain),
         x_si: times.to_vec(),
@@ -556,18 +590,6 @@ fn time_unit_word(unit_s: f64) -> String {
         u if u == 1.0 => "s".into(),
         u if u == 86400.0 => "d".into(),
         u => format!("({u} s)"),
-    }
-}
-
-/// Parameters that carry time are plain numbers in the fit's time unit; the
-/// name says which (`k [1/h^n]` and the like).
-fn param_suffix(model: ThinLayerModel, name: &str, unit: &str) -> String {
-    match (model, name) {
-        (ThinLayerModel::Page | ThinLayerModel::Midilli, "k") => format!(" [1/{unit}^n]"),
-        (_, "k" | "k0" | "k1") => format!(" [1/{unit}]"),
-        (ThinLayerModel::WangSingh, "a") | (ThinLayerModel::Midilli, "b") => format!(" [1/{unit}]"),
-        (ThinLayerModel::WangSingh, "b") => format!(" [1/{unit}^2]"),
-        _ => String::new(),
     }
 }
 
@@ -852,7 +874,7 @@ pub const BUILTINS: &[Builtin] = &[
         family: "kinetics",
         params: THIN_LAYER_PARAMS,
         returns: "fit record (parameters, R2, RMSE, chi2, AIC, BIC, residuals)",
-        doc: "Fit a thin-layer drying model to moisture-ratio readings. Rate constants are plain numbers in `time_unit` (their names say so, e.g. `k [1/h^n]`).",
+        doc: "Fit a thin-layer drying model to moisture-ratio readings. Rate constants are plain numbers for time in `time_unit` (the model name says which, e.g. `Page (t in h)`: k in 1/h^n).",
         method: "Levenberg-Marquardt (shared fitter) from linearised starts",
         source: "Lewis 1921; Page 1949; Overhults et al. 1973; Henderson & Pabis 1961; Yagcioglu et al. 1999; Henderson 1974; Sharaf-Eldeen et al. 1980; Wang & Singh 1978; Midilli et al. 2002",
         validity: "thin layers at constant air conditions; empirical, not for extrapolation",

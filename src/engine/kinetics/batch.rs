@@ -279,7 +279,7 @@ mod tests {
         let (t, mut m) = synthetic(0.0);
         m[7] = 0.09;
         let e = BatchRun::from_masses(&t, &m, 0.1, 0.02, 5, 2).unwrap_err();
-        assert!(e.to_string().contains("0.09 kg at point 7"), "{e}");
+        assert!(e.to_string().contains("0.09 kg at reading 8"), "{e}");
         let (mut t, m) = synthetic(0.0);
         t[4] = t[3];
         let e = BatchRun::from_masses(&t, &m, 0.1, 0.02, 5, 2).unwrap_err();

@@ -18,6 +18,7 @@ import scipy
 from scipy import integrate, interpolate, optimize, special
 
 OUT = pathlib.Path(__file__).with_name("fixture.json")
+SUITE_DATA = pathlib.Path(__file__).resolve().parents[2] / "suite" / "kinetics" / "data"
 FOURIER = [1e-4, 1e-3, 0.01, 0.05, 0.1, 0.2, 0.4, 0.7, 1.0, 1.5, 2.5]
 BIOTS = [None, 0.5, 5.0, 50.0]
 TERMS = 3000
@@ -168,6 +169,13 @@ def thin_layer_cases():
         fits.append({"model": name, "params_hour_units": [float(v) for v in p], "sse": sse,
                      "r_squared": 1 - sse / sst, "rmse": (sse / n) ** 0.5,
                      "reduced_chi_square": sse / (n - k), "aic": n * np.log(sse / n) + 2 * k})
+    SUITE_DATA.mkdir(parents=True, exist_ok=True)
+    with open(SUITE_DATA / "invented_thin_layer.csv", "w") as f:
+        f.write("# INVENTED thin-layer readings (seeded scatter around a Page curve), written by\n")
+        f.write("# tests/reference/scipy_kinetics/make_fixture.py; fits in fixture.json\n")
+        f.write("t [h], MR [-]\n")
+        for a, b in zip(t_h, mr):
+            f.write(f"{float(a)!r}, {float(b)!r}\n")
     return {"time_s": (t_h * 3600.0).tolist(), "ratio": mr.tolist(), "fits": fits}
 
 
@@ -181,6 +189,12 @@ def diffusivity_case():
     mr_of = lambda tt, d: np.array([np.sum(a * np.exp(-b * b * d * x / l ** 2)) for x in np.atleast_1d(tt)])
     mr = mr_of(t, 3.1e-10) * (1 + 0.01 * rng.standard_normal(t.size))
     (d_fit,), cov = optimize.curve_fit(lambda tt, d: mr_of(tt, d * 1e-10), t, mr, p0=[1.0], xtol=1e-14, ftol=1e-14)
+    with open(SUITE_DATA / "invented_slab_ratios.csv", "w") as f:
+        f.write("# INVENTED moisture ratios of a 6 mm slab (both faces), seeded 1 % scatter, written by\n")
+        f.write("# tests/reference/scipy_kinetics/make_fixture.py; D fit in fixture.json\n")
+        f.write("t [s], MR [-]\n")
+        for a, b in zip(t, mr):
+            f.write(f"{float(a)!r}, {float(b)!r}\n")
     return {"half_thickness_m": l, "time_s": t.tolist(), "ratio": mr.tolist(), "d_m2_per_s": d_fit * 1e-10,
             "d_std_error": float(np.sqrt(cov[0, 0])) * 1e-10}
 
