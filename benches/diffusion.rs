@@ -15,12 +15,18 @@ use std::hint::black_box;
 use std::time::Instant;
 
 use siccant::engine::diffusion::finite_volume::face_radii;
-use siccant::engine::diffusion::{solve_drying, Body, DiffusionProblem, Diffusivity, ProductTemperature, Shape, SolverSettings, Surface};
+use siccant::engine::diffusion::{
+    solve_drying, Body, DiffusionProblem, Diffusivity, ProductTemperature, Shape, SolverSettings,
+    Surface,
+};
 
 /// The benchmark problem (shared with benches/diffusion_compare.py).
 pub fn problem() -> DiffusionProblem {
     DiffusionProblem {
-        body: Body { shape: Shape::Slab, length_m: 0.005 },
+        body: Body {
+            shape: Shape::Slab,
+            length_m: 0.005,
+        },
         x_initial: 3.0,
         x_equilibrium: 0.1,
         diffusivity: Diffusivity {
@@ -39,7 +45,9 @@ pub fn problem() -> DiffusionProblem {
 fn bench(c: &mut Criterion) {
     let p = problem();
     let s = SolverSettings::default();
-    c.bench_function("slab_100_cells_d_of_x", |b| b.iter(|| solve_drying(black_box(&p), black_box(&s)).map(|r| r.time_to_target_s)));
+    c.bench_function("slab_100_cells_d_of_x", |b| {
+        b.iter(|| solve_drying(black_box(&p), black_box(&s)).map(|r| r.time_to_target_s))
+    });
 }
 
 /// Figures for the Python comparison: drying time, steps and best-of-N wall time.

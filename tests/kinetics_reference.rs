@@ -8,12 +8,20 @@ use siccant::engine::kinetics::{drying_time, numerical_time, MonotoneCubic, Rate
 use siccant::engine::thin_layer::{fit_thin_layer, ThinLayerModel};
 
 fn fixture() -> Value {
-    let text = std::fs::read_to_string(concat!(env!("CARGO_MANIFEST_DIR"), "/tests/reference/scipy_kinetics/fixture.json")).expect("fixture present");
+    let text = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/tests/reference/scipy_kinetics/fixture.json"
+    ))
+    .expect("fixture present");
     serde_json::from_str(&text).expect("fixture is JSON")
 }
 
 fn floats(v: &Value) -> Vec<f64> {
-    v.as_array().expect("array").iter().map(|x| x.as_f64().expect("number")).collect()
+    v.as_array()
+        .expect("array")
+        .iter()
+        .map(|x| x.as_f64().expect("number"))
+        .collect()
 }
 
 fn shape(name: &str) -> Shape {
@@ -50,10 +58,17 @@ fn crank_series_match_scipy() {
         let biot = case["biot"].as_f64();
         let series = CrankSeries::new(s, biot, 1e-6).unwrap();
         for (i, root) in floats(&case["roots"]).iter().enumerate() {
-            assert!(rel(series.roots[i], *root) < 1e-12, "{s:?} {biot:?} root {i}");
+            assert!(
+                rel(series.roots[i], *root) < 1e-12,
+                "{s:?} {biot:?} root {i}"
+            );
         }
         for (fo, mr) in floats(&case["fourier"]).iter().zip(floats(&case["ratio"])) {
-            assert!(rel(series.moisture_ratio(*fo), mr) < 1e-9, "{s:?} {biot:?} Fo {fo}: {} vs {mr}", series.moisture_ratio(*fo));
+            assert!(
+                rel(series.moisture_ratio(*fo), mr) < 1e-9,
+                "{s:?} {biot:?} Fo {fo}: {} vs {mr}",
+                series.moisture_ratio(*fo)
+            );
         }
         let fo = series.fourier_for_ratio(0.01).unwrap();
         assert!(rel(fo, case["fourier_at_ratio_0_01"].as_f64().unwrap()) < 1e-9);
@@ -67,8 +82,12 @@ fn constant_linear_drying_time_matches_closed_form_and_quad() {
     for c in f["drying_time"]["constant_linear"].as_array().unwrap() {
         let g = |k: &str| c[k].as_f64().unwrap();
         let curve = RateCurve::constant_linear(g("rc"), g("xc"), g("xe")).unwrap();
-        let ours = drying_time(&curve, g("load"), g("x1"), g("x2")).unwrap().total_s;
-        let quad = numerical_time(&curve, g("load"), g("x1"), g("x2")).unwrap().total_s;
+        let ours = drying_time(&curve, g("load"), g("x1"), g("x2"))
+            .unwrap()
+            .total_s;
+        let quad = numerical_time(&curve, g("load"), g("x1"), g("x2"))
+            .unwrap()
+            .total_s;
         assert!(rel(ours, g("closed_form_s")) < 1e-12);
         assert!(rel(ours, g("quad_s")) < 1e-9);
         assert!(rel(quad, g("quad_s")) < 1e-9);
@@ -76,7 +95,9 @@ fn constant_linear_drying_time_matches_closed_form_and_quad() {
     for c in f["drying_time"]["constant_power"].as_array().unwrap() {
         let g = |k: &str| c[k].as_f64().unwrap();
         let curve = RateCurve::constant_power(g("rc"), g("xc"), g("xe"), g("n")).unwrap();
-        let ours = drying_time(&curve, g("load"), g("x1"), g("x2")).unwrap().total_s;
+        let ours = drying_time(&curve, g("load"), g("x1"), g("x2"))
+            .unwrap()
+            .total_s;
         assert!(rel(ours, g("quad_s")) < 1e-9, "{ours} vs {}", g("quad_s"));
     }
 }
@@ -91,14 +112,24 @@ fn tabulated_drying_time_matches_quad() {
         let r = floats(&t["rate"]);
         let pchip = MonotoneCubic::new(x.clone(), r.clone()).unwrap();
         for (px, py) in floats(&t["probe_x"]).iter().zip(floats(&t["probe_pchip"])) {
-            assert!((pchip.value(*px) - py).abs() <= 1e-12 * py.abs().max(1e-6), "PCHIP at {px}: {} vs {py}", pchip.value(*px));
+            assert!(
+                (pchip.value(*px) - py).abs() <= 1e-12 * py.abs().max(1e-6),
+                "PCHIP at {px}: {} vs {py}",
+                pchip.value(*px)
+            );
         }
         let curve = RateCurve::table(&x, &r).unwrap();
         let load = t["load"].as_f64().unwrap();
         for span in t["spans"].as_array().unwrap() {
             let g = |k: &str| span[k].as_f64().unwrap();
             let ours = drying_time(&curve, load, g("x1"), g("x2")).unwrap().total_s;
-            assert!(rel(ours, g("quad_s")) < 1e-6, "{} -> {}: {ours} vs {}", g("x1"), g("x2"), g("quad_s"));
+            assert!(
+                rel(ours, g("quad_s")) < 1e-6,
+                "{} -> {}: {ours} vs {}",
+                g("x1"),
+                g("x2"),
+                g("quad_s")
+            );
         }
     }
 }
@@ -115,12 +146,25 @@ fn thin_layer_fits_match_curve_fit() {
     for reference in data["fits"].as_array().unwrap() {
         let key = reference["model"].as_str().unwrap();
         let model = ThinLayerModel::from_key(key).unwrap();
-        let fit = fit_thin_layer(model, &times, &ratios, 3600.0).unwrap_or_else(|e| panic!("{key}: {e}"));
+        let fit =
+            fit_thin_layer(model, &times, &ratios, 3600.0).unwrap_or_else(|e| panic!("{key}: {e}"));
         let sse = reference["sse"].as_f64().unwrap();
-        assert!(fit.sse <= sse * (1.0 + 1e-6), "{key}: SSE {} vs scipy {sse}", fit.sse);
+        assert!(
+            fit.sse <= sse * (1.0 + 1e-6),
+            "{key}: SSE {} vs scipy {sse}",
+            fit.sse
+        );
         if (fit.sse / sse - 1.0).abs() < 1e-6 {
-            for (ours, theirs) in fit.params.iter().zip(floats(&reference["params_hour_units"])) {
-                assert!((ours - theirs).abs() <= 1e-3 * theirs.abs().max(1e-3), "{key}: {:?} vs {theirs}", fit.params);
+            for (ours, theirs) in fit
+                .params
+                .iter()
+                .zip(floats(&reference["params_hour_units"]))
+            {
+                assert!(
+                    (ours - theirs).abs() <= 1e-3 * theirs.abs().max(1e-3),
+                    "{key}: {:?} vs {theirs}",
+                    fit.params
+                );
             }
             for name in ["r_squared", "rmse", "reduced_chi_square"] {
                 let theirs = reference[name].as_f64().unwrap();
@@ -131,7 +175,10 @@ fn thin_layer_fits_match_curve_fit() {
                 };
                 assert!(rel(ours, theirs) < 1e-5, "{key} {name}: {ours} vs {theirs}");
             }
-            assert!((fit.aic - reference["aic"].as_f64().unwrap()).abs() < 1e-4, "{key} AIC");
+            assert!(
+                (fit.aic - reference["aic"].as_f64().unwrap()).abs() < 1e-4,
+                "{key} AIC"
+            );
         }
     }
 }
@@ -142,8 +189,18 @@ fn thin_layer_fits_match_curve_fit() {
 fn diffusivity_fit_matches_curve_fit() {
     let f = fixture();
     let d = &f["diffusivity"];
-    let body = Body { shape: Shape::Slab, length_m: d["half_thickness_m"].as_f64().unwrap() };
-    let fit = diffusivity_nonlinear(&body, &floats(&d["time_s"]), &floats(&d["ratio"]), 1e-9).unwrap();
-    assert!(rel(fit.d_m2_per_s, d["d_m2_per_s"].as_f64().unwrap()) < 1e-5, "{fit:?}");
-    assert!(rel(fit.std_error_m2_per_s, d["d_std_error"].as_f64().unwrap()) < 0.02, "{fit:?}");
+    let body = Body {
+        shape: Shape::Slab,
+        length_m: d["half_thickness_m"].as_f64().unwrap(),
+    };
+    let fit =
+        diffusivity_nonlinear(&body, &floats(&d["time_s"]), &floats(&d["ratio"]), 1e-9).unwrap();
+    assert!(
+        rel(fit.d_m2_per_s, d["d_m2_per_s"].as_f64().unwrap()) < 1e-5,
+        "{fit:?}"
+    );
+    assert!(
+        rel(fit.std_error_m2_per_s, d["d_std_error"].as_f64().unwrap()) < 0.02,
+        "{fit:?}"
+    );
 }

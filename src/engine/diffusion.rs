@@ -14,7 +14,9 @@ pub mod estimate;
 pub mod finite_volume;
 pub mod series;
 
-pub use estimate::{arrhenius_fit, diffusivity_from_slope, diffusivity_nonlinear, ArrheniusFit, DiffusivityFit};
+pub use estimate::{
+    arrhenius_fit, diffusivity_from_slope, diffusivity_nonlinear, ArrheniusFit, DiffusivityFit,
+};
 pub use finite_volume::{solve_drying, DiffusionProblem, DiffusionRun, SolverSettings, Surface};
 pub use series::CrankSeries;
 
@@ -76,17 +78,26 @@ impl Body {
     /// A slab of `thickness` drying from one face (`both_faces = false`) or both.
     pub fn slab(thickness: Length, both_faces: bool) -> Result<Body, KineticsError> {
         let t = positive("thickness", thickness.get::<meter>())?;
-        Ok(Body { shape: Shape::Slab, length_m: if both_faces { 0.5 * t } else { t } })
+        Ok(Body {
+            shape: Shape::Slab,
+            length_m: if both_faces { 0.5 * t } else { t },
+        })
     }
 
     /// An infinite cylinder of `radius`.
     pub fn cylinder(radius: Length) -> Result<Body, KineticsError> {
-        Ok(Body { shape: Shape::Cylinder, length_m: positive("radius", radius.get::<meter>())? })
+        Ok(Body {
+            shape: Shape::Cylinder,
+            length_m: positive("radius", radius.get::<meter>())?,
+        })
     }
 
     /// A sphere of `radius`.
     pub fn sphere(radius: Length) -> Result<Body, KineticsError> {
-        Ok(Body { shape: Shape::Sphere, length_m: positive("radius", radius.get::<meter>())? })
+        Ok(Body {
+            shape: Shape::Sphere,
+            length_m: positive("radius", radius.get::<meter>())?,
+        })
     }
 
     /// Fourier number `D t / l^2` for diffusivity `d` (m^2/s) and time `t` (s).
@@ -135,16 +146,34 @@ impl Diffusivity {
 
     /// Add an Arrhenius temperature dependence with `activation_energy`,
     /// the reference value holding at `reference_temperature`.
-    pub fn with_arrhenius(mut self, activation_energy: MolarEnergy, reference_temperature: ThermodynamicTemperature) -> Result<Diffusivity, KineticsError> {
-        self.activation_energy_j_per_mol = super::kinetics::non_negative("activation energy", activation_energy.get::<joule_per_mole>())?;
-        self.reference_temperature_k = positive("reference temperature", reference_temperature.get::<kelvin>())?;
+    pub fn with_arrhenius(
+        mut self,
+        activation_energy: MolarEnergy,
+        reference_temperature: ThermodynamicTemperature,
+    ) -> Result<Diffusivity, KineticsError> {
+        self.activation_energy_j_per_mol = super::kinetics::non_negative(
+            "activation energy",
+            activation_energy.get::<joule_per_mole>(),
+        )?;
+        self.reference_temperature_k = positive(
+            "reference temperature",
+            reference_temperature.get::<kelvin>(),
+        )?;
         Ok(self)
     }
 
     /// Add an exponential moisture dependence `exp(a (X - X_ref))`.
-    pub fn with_moisture_dependence(mut self, coefficient: f64, reference_moisture: f64) -> Result<Diffusivity, KineticsError> {
+    pub fn with_moisture_dependence(
+        mut self,
+        coefficient: f64,
+        reference_moisture: f64,
+    ) -> Result<Diffusivity, KineticsError> {
         if !coefficient.is_finite() || !reference_moisture.is_finite() {
-            return Err(KineticsError::OutOfRange { name: "moisture coefficient", value: coefficient, reason: "must be finite" });
+            return Err(KineticsError::OutOfRange {
+                name: "moisture coefficient",
+                value: coefficient,
+                reason: "must be finite",
+            });
         }
         self.moisture_coefficient = coefficient;
         self.reference_moisture = reference_moisture;
@@ -156,9 +185,15 @@ impl Diffusivity {
         let thermal = if self.activation_energy_j_per_mol == 0.0 {
             1.0
         } else {
-            (-self.activation_energy_j_per_mol / GAS_CONSTANT_J_PER_MOL_K * (1.0 / t_k - 1.0 / self.reference_temperature_k)).exp()
+            (-self.activation_energy_j_per_mol / GAS_CONSTANT_J_PER_MOL_K
+                * (1.0 / t_k - 1.0 / self.reference_temperature_k))
+                .exp()
         };
-        let moisture = if self.moisture_coefficient == 0.0 { 1.0 } else { (self.moisture_coefficient * (x - self.reference_moisture)).exp() };
+        let moisture = if self.moisture_coefficient == 0.0 {
+            1.0
+        } else {
+            (self.moisture_coefficient * (x - self.reference_moisture)).exp()
+        };
         self.reference_m2_per_s * thermal * moisture
     }
 
@@ -193,14 +228,24 @@ impl ProductTemperature {
             ProductTemperature::Constant(t) => positive("product temperature", *t).map(|_| ()),
             ProductTemperature::Schedule(points) => {
                 if points.is_empty() {
-                    return Err(KineticsError::TooFewPoints { what: "a temperature schedule", needed: 1, found: 0 });
+                    return Err(KineticsError::TooFewPoints {
+                        what: "a temperature schedule",
+                        needed: 1,
+                        found: 0,
+                    });
                 }
                 for (i, pair) in points.windows(2).enumerate() {
                     if pair[1].0 <= pair[0].0 {
-                        return Err(KineticsError::TimeNotIncreasing { index: i + 1, previous_s: pair[0].0, time_s: pair[1].0 });
+                        return Err(KineticsError::TimeNotIncreasing {
+                            index: i + 1,
+                            previous_s: pair[0].0,
+                            time_s: pair[1].0,
+                        });
                     }
                 }
-                points.iter().try_for_each(|p| positive("product temperature", p.1).map(|_| ()))
+                points
+                    .iter()
+                    .try_for_each(|p| positive("product temperature", p.1).map(|_| ()))
             }
         }
     }

@@ -18,10 +18,19 @@ pub enum IntegrateError {
     NotFinite { x: f64, value: f64 },
     /// The error target was not met within the subdivision budget.
     #[error("adaptive quadrature did not reach relative error {rel_tol:.1e} after {intervals} subdivisions (estimate {estimate:.3e})")]
-    NoConvergence { rel_tol: f64, intervals: usize, estimate: f64 },
+    NoConvergence {
+        rel_tol: f64,
+        intervals: usize,
+        estimate: f64,
+    },
     /// A root search was given a bracket without a sign change.
     #[error("no sign change between {lo:.6e} (f = {f_lo:.3e}) and {hi:.6e} (f = {f_hi:.3e})")]
-    NoBracket { lo: f64, hi: f64, f_lo: f64, f_hi: f64 },
+    NoBracket {
+        lo: f64,
+        hi: f64,
+        f_lo: f64,
+        f_hi: f64,
+    },
     /// A root search did not converge.
     #[error("root search did not converge in {iterations} iterations")]
     RootNoConvergence { iterations: usize },
@@ -76,7 +85,11 @@ fn panel<F: FnMut(f64) -> f64>(f: &mut F, a: f64, b: f64) -> Result<(f64, f64), 
     let mut kronrod = 0.0;
     let mut gauss = 0.0;
     for (i, (&node, &wk)) in KRONROD_NODES.iter().zip(&KRONROD_WEIGHTS).enumerate() {
-        let points: &[f64] = if node == 0.0 { &[centre] } else { &[centre - half * node, centre + half * node] };
+        let points: &[f64] = if node == 0.0 {
+            &[centre]
+        } else {
+            &[centre - half * node, centre + half * node]
+        };
         for &x in points {
             let value = f(x);
             if !value.is_finite() {
@@ -97,13 +110,26 @@ fn panel<F: FnMut(f64) -> f64>(f: &mut F, a: f64, b: f64) -> Result<(f64, f64), 
 /// Returns an error (never a silent number) when the integrand is not finite
 /// or the target is not met within 2000 subdivisions. `a > b` gives the
 /// negated integral. Source: Piessens et al., QUADPACK (1983), routine QAG.
-pub fn gauss_kronrod<F: FnMut(f64) -> f64>(mut f: F, a: f64, b: f64, rel_tol: f64, abs_tol: f64) -> Result<Quadrature, IntegrateError> {
+pub fn gauss_kronrod<F: FnMut(f64) -> f64>(
+    mut f: F,
+    a: f64,
+    b: f64,
+    rel_tol: f64,
+    abs_tol: f64,
+) -> Result<Quadrature, IntegrateError> {
     if a == b {
-        return Ok(Quadrature { value: 0.0, error: 0.0, evaluations: 0 });
+        return Ok(Quadrature {
+            value: 0.0,
+            error: 0.0,
+            evaluations: 0,
+        });
     }
     if a > b {
         let q = gauss_kronrod(f, b, a, rel_tol, abs_tol)?;
-        return Ok(Quadrature { value: -q.value, ..q });
+        return Ok(Quadrature {
+            value: -q.value,
+            ..q
+        });
     }
     const MAX_INTERVALS: usize = 2000;
     let (value, error) = panel(&mut f, a, b)?;
@@ -113,17 +139,29 @@ pub fn gauss_kronrod<F: FnMut(f64) -> f64>(mut f: F, a: f64, b: f64, rel_tol: f6
         let total: f64 = intervals.iter().map(|p| p.2).sum();
         let total_error: f64 = intervals.iter().map(|p| p.3).sum();
         if total_error <= abs_tol.max(rel_tol * total.abs()) {
-            return Ok(Quadrature { value: total, error: total_error, evaluations });
+            return Ok(Quadrature {
+                value: total,
+                error: total_error,
+                evaluations,
+            });
         }
         if intervals.len() >= MAX_INTERVALS {
-            return Err(IntegrateError::NoConvergence { rel_tol, intervals: intervals.len(), estimate: total });
+            return Err(IntegrateError::NoConvergence {
+                rel_tol,
+                intervals: intervals.len(),
+                estimate: total,
+            });
         }
         let worst = worst_interval(&intervals);
         let (lo, hi, _, _) = intervals.swap_remove(worst);
         let mid = 0.5 * (lo + hi);
         if mid <= lo || mid >= hi {
             // Interval cannot be split further in floating point.
-            return Err(IntegrateError::NoConvergence { rel_tol, intervals: intervals.len(), estimate: total });
+            return Err(IntegrateError::NoConvergence {
+                rel_tol,
+                intervals: intervals.len(),
+                estimate: total,
+            });
         }
         let (v1, e1) = panel(&mut f, lo, mid)?;
         let (v2, e2) = panel(&mut f, mid, hi)?;
@@ -148,7 +186,12 @@ fn worst_interval(intervals: &[(f64, f64, f64, f64)]) -> usize {
 /// `f(lo)` and `f(hi)` must differ in sign (or one be zero), otherwise
 /// [`IntegrateError::NoBracket`]. Converges to `x_tol` absolute plus four
 /// machine epsilons relative. Source: Brent (1973), ch. 4, algorithm `zero`.
-pub fn brent_root<F: FnMut(f64) -> f64>(mut f: F, lo: f64, hi: f64, x_tol: f64) -> Result<f64, IntegrateError> {
+pub fn brent_root<F: FnMut(f64) -> f64>(
+    mut f: F,
+    lo: f64,
+    hi: f64,
+    x_tol: f64,
+) -> Result<f64, IntegrateError> {
     let (mut a, mut b) = (lo, hi);
     let (mut fa, mut fb) = (f(a), f(b));
     if fa == 0.0 {
@@ -158,7 +201,12 @@ pub fn brent_root<F: FnMut(f64) -> f64>(mut f: F, lo: f64, hi: f64, x_tol: f64) 
         return Ok(b);
     }
     if !(fa.is_finite() && fb.is_finite()) || fa.signum() == fb.signum() {
-        return Err(IntegrateError::NoBracket { lo, hi, f_lo: fa, f_hi: fb });
+        return Err(IntegrateError::NoBracket {
+            lo,
+            hi,
+            f_lo: fa,
+            f_hi: fb,
+        });
     }
     let (mut c, mut fc) = (a, fa);
     let mut d = b - a;
@@ -234,12 +282,18 @@ mod tests {
             let mut f = |x: f64| x.powi(degree);
             let (k, _) = panel(&mut f, 0.0, 1.0).unwrap();
             let exact = 1.0 / (degree as f64 + 1.0);
-            assert!((k - exact).abs() < 1e-14, "K15 degree {degree}: {k} vs {exact}");
+            assert!(
+                (k - exact).abs() < 1e-14,
+                "K15 degree {degree}: {k} vs {exact}"
+            );
         }
         for degree in 0..=13 {
             let mut f = |x: f64| x.powi(degree);
             let (k, diff) = panel(&mut f, 0.0, 1.0).unwrap();
-            assert!(diff < 1e-14, "G7 degree {degree}: gauss differs from kronrod {k} by {diff}");
+            assert!(
+                diff < 1e-14,
+                "G7 degree {degree}: gauss differs from kronrod {k} by {diff}"
+            );
         }
         let mut f = |x: f64| x.powi(14);
         let (_, diff) = panel(&mut f, -1.0, 1.0).unwrap();
@@ -249,15 +303,25 @@ mod tests {
     /// Closed-form integrals (calculus facts), relative 1e-6 or better.
     #[test]
     fn adaptive_meets_relative_tolerance() {
-        let cases: [(fn(f64) -> f64, f64, f64, f64); 4] = [
+        type Case = (fn(f64) -> f64, f64, f64, f64);
+        let cases: [Case; 4] = [
             (|x| x.exp(), 0.0, 3.0, 3f64.exp() - 1.0),
             (|x| 1.0 / x, 1e-3, 1.0, 1e3f64.ln()),
             (|x| x.sqrt(), 0.0, 2.0, 2.0 / 3.0 * 2f64.powf(1.5)),
-            (|x| 1.0 / (1.0 + 100.0 * x * x), -1.0, 1.0, 0.2 * 10f64.atan()),
+            (
+                |x| 1.0 / (1.0 + 100.0 * x * x),
+                -1.0,
+                1.0,
+                0.2 * 10f64.atan(),
+            ),
         ];
         for (f, a, b, exact) in cases {
             let q = gauss_kronrod(f, a, b, 1e-8, 0.0).unwrap();
-            assert!(((q.value - exact) / exact).abs() < 1e-6, "{} vs {exact}", q.value);
+            assert!(
+                ((q.value - exact) / exact).abs() < 1e-6,
+                "{} vs {exact}",
+                q.value
+            );
         }
         let q = gauss_kronrod(|x: f64| x.exp(), 1.0, 0.0, 1e-10, 0.0).unwrap();
         assert!((q.value + (1f64.exp() - 1.0)).abs() < 1e-12);
@@ -268,7 +332,10 @@ mod tests {
         let r = gauss_kronrod(|x: f64| 1.0 / (x - 0.5), 0.0, 1.0, 1e-8, 0.0);
         assert!(r.is_err());
         let r = gauss_kronrod(|x: f64| 1.0 / x, 0.0, 1.0, 1e-8, 0.0);
-        assert!(r.is_err(), "divergent integral must not return a number: {r:?}");
+        assert!(
+            r.is_err(),
+            "divergent integral must not return a number: {r:?}"
+        );
     }
 
     #[test]
@@ -277,6 +344,9 @@ mod tests {
         assert!((r - 0.739_085_133_215_160_6).abs() < 1e-12);
         let r = brent_root(|x: f64| x * x * x - 2.0, 0.0, 5.0, 1e-14).unwrap();
         assert!((r - 2f64.cbrt()).abs() < 1e-12);
-        assert!(matches!(brent_root(|x: f64| x * x + 1.0, -1.0, 1.0, 1e-12), Err(IntegrateError::NoBracket { .. })));
+        assert!(matches!(
+            brent_root(|x: f64| x * x + 1.0, -1.0, 1.0, 1e-12),
+            Err(IntegrateError::NoBracket { .. })
+        ));
     }
 }

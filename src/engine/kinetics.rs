@@ -28,13 +28,25 @@ use super::integrate::IntegrateError;
 pub enum KineticsError {
     /// A sample mass below the dry-solid mass (negative moisture).
     #[error("mass {} kg at reading {} is below the dry-solid mass {} kg", show(*.mass_kg), .index + 1, show(*.dry_solid_kg))]
-    BelowDrySolid { index: usize, mass_kg: f64, dry_solid_kg: f64 },
+    BelowDrySolid {
+        index: usize,
+        mass_kg: f64,
+        dry_solid_kg: f64,
+    },
     /// Times must increase strictly.
     #[error("time {} s at reading {} does not follow the previous time {} s (times must increase)", show(*.time_s), .index + 1, show(*.previous_s))]
-    TimeNotIncreasing { index: usize, previous_s: f64, time_s: f64 },
+    TimeNotIncreasing {
+        index: usize,
+        previous_s: f64,
+        time_s: f64,
+    },
     /// Too few points for a method.
     #[error("{what} needs at least {needed} points, found {found}")]
-    TooFewPoints { what: &'static str, needed: usize, found: usize },
+    TooFewPoints {
+        what: &'static str,
+        needed: usize,
+        found: usize,
+    },
     /// Target moisture at or below equilibrium: the time would be infinite.
     #[error("target moisture {} db is at or below the equilibrium moisture {} db; the drying time would be infinite", show(*.target), show(*.equilibrium))]
     TargetAtOrBelowEquilibrium { target: f64, equilibrium: f64 },
@@ -43,7 +55,11 @@ pub enum KineticsError {
     NegativeDiffusivity { value: f64 },
     /// Any other argument out of its domain.
     #[error("{name} = {} is out of range: {reason}", show(*.value))]
-    OutOfRange { name: &'static str, value: f64, reason: &'static str },
+    OutOfRange {
+        name: &'static str,
+        value: f64,
+        reason: &'static str,
+    },
     /// A solver or fit that did not converge.
     #[error("{what} did not converge: {detail}")]
     NoConvergence { what: &'static str, detail: String },
@@ -69,9 +85,18 @@ pub fn show(x: f64) -> String {
     } else {
         let text = format!("{x:.5e}");
         let (mantissa, exponent) = text.split_once('e').unwrap_or((&text, "0"));
-        let mantissa = if mantissa.contains('.') { mantissa.trim_end_matches('0').trim_end_matches('.') } else { mantissa };
+        let mantissa = if mantissa.contains('.') {
+            mantissa.trim_end_matches('0').trim_end_matches('.')
+        } else {
+            mantissa
+        };
         format!("{mantissa}e{exponent}")
     }
+}
+
+/// `a > b`, false when either is NaN (so `!above(a, b)` catches NaN too).
+pub(crate) fn above(a: f64, b: f64) -> bool {
+    a > b
 }
 
 /// Check that a named value is finite and strictly positive.
@@ -79,7 +104,11 @@ pub(crate) fn positive(name: &'static str, value: f64) -> Result<f64, KineticsEr
     if value.is_finite() && value > 0.0 {
         Ok(value)
     } else {
-        Err(KineticsError::OutOfRange { name, value, reason: "must be positive and finite" })
+        Err(KineticsError::OutOfRange {
+            name,
+            value,
+            reason: "must be positive and finite",
+        })
     }
 }
 
@@ -88,6 +117,10 @@ pub(crate) fn non_negative(name: &'static str, value: f64) -> Result<f64, Kineti
     if value.is_finite() && value >= 0.0 {
         Ok(value)
     } else {
-        Err(KineticsError::OutOfRange { name, value, reason: "must be zero or positive and finite" })
+        Err(KineticsError::OutOfRange {
+            name,
+            value,
+            reason: "must be zero or positive and finite",
+        })
     }
 }

@@ -128,7 +128,9 @@ impl ThinLayerModel {
             ThinLayerModel::HendersonPabis => p[0] * (-p[1] * t).exp(),
             ThinLayerModel::Logarithmic => p[0] * (-p[1] * t).exp() + p[2],
             ThinLayerModel::TwoTerm => p[0] * (-p[1] * t).exp() + p[2] * (-p[3] * t).exp(),
-            ThinLayerModel::TwoTermExponential => p[0] * (-p[1] * t).exp() + (1.0 - p[0]) * (-p[1] * p[0] * t).exp(),
+            ThinLayerModel::TwoTermExponential => {
+                p[0] * (-p[1] * t).exp() + (1.0 - p[0]) * (-p[1] * p[0] * t).exp()
+            }
             ThinLayerModel::WangSingh => 1.0 + p[0] * t + p[1] * t * t,
             ThinLayerModel::Midilli => p[0] * (-p[1] * t.powf(p[2])).exp() + p[3] * t,
         }
@@ -175,8 +177,14 @@ impl ThinLayerModel {
             ThinLayerModel::ModifiedPage => vec![vec![kp.powf(1.0 / n), n]],
             ThinLayerModel::HendersonPabis => vec![vec![a, k]],
             ThinLayerModel::Logarithmic => vec![vec![a, k, 0.0], vec![a, 0.5 * k, 0.05]],
-            ThinLayerModel::TwoTerm => vec![vec![0.8 * a, 0.8 * k, 0.2 * a, 4.0 * k], vec![0.5 * a, 0.5 * k, 0.5 * a, 2.0 * k], vec![1.2 * a, k, -0.2 * a, 6.0 * k]],
-            ThinLayerModel::TwoTermExponential => vec![vec![0.5, k], vec![1.5, k], vec![0.1, k], vec![3.0, k]],
+            ThinLayerModel::TwoTerm => vec![
+                vec![0.8 * a, 0.8 * k, 0.2 * a, 4.0 * k],
+                vec![0.5 * a, 0.5 * k, 0.5 * a, 2.0 * k],
+                vec![1.2 * a, k, -0.2 * a, 6.0 * k],
+            ],
+            ThinLayerModel::TwoTermExponential => {
+                vec![vec![0.5, k], vec![1.5, k], vec![0.1, k], vec![3.0, k]]
+            }
             ThinLayerModel::WangSingh => vec![guess.quadratic.to_vec()],
             ThinLayerModel::Midilli => vec![vec![a, kp, n, 0.0], vec![1.0, kp, n, -0.001]],
         }
@@ -193,18 +201,54 @@ struct Linearised {
 }
 
 fn linearised(t: &[f64], mr: &[f64]) -> Linearised {
-    let usable: Vec<(f64, f64)> = t.iter().zip(mr).filter(|(ti, m)| **ti > 0.0 && **m > 0.0 && **m < 1.0).map(|(a, b)| (*a, *b)).collect();
-    let (slope, intercept) = line(&usable.iter().map(|(ti, m)| (*ti, m.ln())).collect::<Vec<_>>()).unwrap_or((-1.0, 0.0));
-    let (n, ln_k) = line(&usable.iter().map(|(ti, m)| (ti.ln(), (-m.ln()).ln())).collect::<Vec<_>>()).unwrap_or((1.0, 0.0));
+    let usable: Vec<(f64, f64)> = t
+        .iter()
+        .zip(mr)
+        .filter(|(ti, m)| **ti > 0.0 && **m > 0.0 && **m < 1.0)
+        .map(|(a, b)| (*a, *b))
+        .collect();
+    let (slope, intercept) = line(
+        &usable
+            .iter()
+            .map(|(ti, m)| (*ti, m.ln()))
+            .collect::<Vec<_>>(),
+    )
+    .unwrap_or((-1.0, 0.0));
+    let (n, ln_k) = line(
+        &usable
+            .iter()
+            .map(|(ti, m)| (ti.ln(), (-m.ln()).ln()))
+            .collect::<Vec<_>>(),
+    )
+    .unwrap_or((1.0, 0.0));
     let k = (-slope).max(1e-3);
     let n = n.clamp(0.1, 10.0);
     // Wang-Singh is linear in (a, b): least squares of (MR - 1) on (t, t^2).
-    let (s11, s12, s22, r1, r2) = t.iter().zip(mr).fold((0.0, 0.0, 0.0, 0.0, 0.0), |s, (ti, m)| {
-        (s.0 + ti * ti, s.1 + ti.powi(3), s.2 + ti.powi(4), s.3 + ti * (m - 1.0), s.4 + ti * ti * (m - 1.0))
-    });
+    let (s11, s12, s22, r1, r2) = t
+        .iter()
+        .zip(mr)
+        .fold((0.0, 0.0, 0.0, 0.0, 0.0), |s, (ti, m)| {
+            (
+                s.0 + ti * ti,
+                s.1 + ti.powi(3),
+                s.2 + ti.powi(4),
+                s.3 + ti * (m - 1.0),
+                s.4 + ti * ti * (m - 1.0),
+            )
+        });
     let det = s11 * s22 - s12 * s12;
-    let quadratic = if det.abs() > 1e-300 { [(r1 * s22 - r2 * s12) / det, (s11 * r2 - s12 * r1) / det] } else { [-1.0, 0.0] };
-    Linearised { a: intercept.exp(), k, k_page: ln_k.exp().max(1e-3), n, quadratic }
+    let quadratic = if det.abs() > 1e-300 {
+        [(r1 * s22 - r2 * s12) / det, (s11 * r2 - s12 * r1) / det]
+    } else {
+        [-1.0, 0.0]
+    };
+    Linearised {
+        a: intercept.exp(),
+        k,
+        k_page: ln_k.exp().max(1e-3),
+        n,
+        quadratic,
+    }
 }
 
 fn line(points: &[(f64, f64)]) -> Option<(f64, f64)> {
@@ -246,7 +290,12 @@ impl ThinLayerFit {
 
 /// Fit `model` to moisture ratios at times (s), reporting parameters with
 /// time in units of `time_unit_s` seconds.
-pub fn fit_thin_layer(model: ThinLayerModel, times_s: &[f64], ratios: &[f64], time_unit_s: f64) -> Result<ThinLayerFit, KineticsError> {
+pub fn fit_thin_layer(
+    model: ThinLayerModel,
+    times_s: &[f64],
+    ratios: &[f64],
+    time_unit_s: f64,
+) -> Result<ThinLayerFit, KineticsError> {
     check_data(times_s, ratios)?;
     positive("time unit", time_unit_s)?;
     let scale = times_s.iter().copied().fold(0.0, f64::max);
@@ -267,11 +316,18 @@ pub fn fit_thin_layer(model: ThinLayerModel, times_s: &[f64], ratios: &[f64], ti
     }
     let Some(scaled_fit) = best else {
         let detail = last_error.map_or_else(|| "no start converged".to_string(), |e| e.to_string());
-        return Err(KineticsError::NoConvergence { what: "thin-layer fit", detail: format!("{}: {detail}", model.name()) });
+        return Err(KineticsError::NoConvergence {
+            what: "thin-layer fit",
+            detail: format!("{}: {detail}", model.name()),
+        });
     };
     let in_unit: Vec<f64> = times_s.iter().map(|t| t / time_unit_s).collect();
-    let start = clamp_start(&model.rescale(&scaled_fit.params, time_unit_s / scale), &bounds);
-    let polished = least_squares(&f, &in_unit, ratios, &start, &bounds).unwrap_or_else(|_| rescaled_result(model, &scaled_fit, time_unit_s / scale));
+    let start = clamp_start(
+        &model.rescale(&scaled_fit.params, time_unit_s / scale),
+        &bounds,
+    );
+    let polished = least_squares(&f, &in_unit, ratios, &start, &bounds)
+        .unwrap_or_else(|_| rescaled_result(model, &scaled_fit, time_unit_s / scale));
     Ok(summary(model, time_unit_s, polished))
 }
 
@@ -290,8 +346,16 @@ fn clamp_start(start: &[f64], bounds: &[(f64, f64)]) -> Vec<f64> {
         .zip(bounds)
         .map(|(v, (lo, hi))| {
             let v = if v.is_finite() { *v } else { 1.0 };
-            let lo_in = if lo.is_finite() { lo + 1e-9 * (1.0 + lo.abs()) } else { f64::NEG_INFINITY };
-            let hi_in = if hi.is_finite() { hi - 1e-9 * (1.0 + hi.abs()) } else { f64::INFINITY };
+            let lo_in = if lo.is_finite() {
+                lo + 1e-9 * (1.0 + lo.abs())
+            } else {
+                f64::NEG_INFINITY
+            };
+            let hi_in = if hi.is_finite() {
+                hi - 1e-9 * (1.0 + hi.abs())
+            } else {
+                f64::INFINITY
+            };
             v.clamp(lo_in, hi_in)
         })
         .collect()
@@ -314,29 +378,56 @@ fn summary(model: ThinLayerModel, time_unit_s: f64, r: FitResult) -> ThinLayerFi
 
 fn check_data(times_s: &[f64], ratios: &[f64]) -> Result<(), KineticsError> {
     if times_s.len() != ratios.len() {
-        return Err(KineticsError::OutOfRange { name: "number of moisture ratios", value: ratios.len() as f64, reason: "must equal the number of times" });
+        return Err(KineticsError::OutOfRange {
+            name: "number of moisture ratios",
+            value: ratios.len() as f64,
+            reason: "must equal the number of times",
+        });
     }
     if times_s.len() < 3 {
-        return Err(KineticsError::TooFewPoints { what: "a thin-layer fit", needed: 3, found: times_s.len() });
+        return Err(KineticsError::TooFewPoints {
+            what: "a thin-layer fit",
+            needed: 3,
+            found: times_s.len(),
+        });
     }
     for (i, pair) in times_s.windows(2).enumerate() {
-        if !(pair[1] > pair[0]) {
-            return Err(KineticsError::TimeNotIncreasing { index: i + 1, previous_s: pair[0], time_s: pair[1] });
+        if !super::kinetics::above(pair[1], pair[0]) {
+            return Err(KineticsError::TimeNotIncreasing {
+                index: i + 1,
+                previous_s: pair[0],
+                time_s: pair[1],
+            });
         }
     }
     if let Some(bad) = times_s.iter().chain(ratios).find(|v| !v.is_finite()) {
-        return Err(KineticsError::OutOfRange { name: "reading", value: *bad, reason: "must be finite" });
+        return Err(KineticsError::OutOfRange {
+            name: "reading",
+            value: *bad,
+            reason: "must be finite",
+        });
     }
     if let Some(t) = times_s.iter().find(|t| **t < 0.0) {
-        return Err(KineticsError::OutOfRange { name: "time", value: *t, reason: "must not be negative" });
+        return Err(KineticsError::OutOfRange {
+            name: "time",
+            value: *t,
+            reason: "must not be negative",
+        });
     }
     Ok(())
 }
 
 /// Fit every model; results ordered by AIC (best first), failures last.
-pub fn compare_thin_layer(times_s: &[f64], ratios: &[f64], time_unit_s: f64) -> Result<Vec<Result<ThinLayerFit, KineticsError>>, KineticsError> {
+pub fn compare_thin_layer(
+    times_s: &[f64],
+    ratios: &[f64],
+    time_unit_s: f64,
+) -> Result<Vec<Result<ThinLayerFit, KineticsError>>, KineticsError> {
     check_data(times_s, ratios)?;
-    let mut fits: Vec<Result<ThinLayerFit, KineticsError>> = ThinLayerModel::ALL.iter().map(|m| fit_thin_layer(*m, times_s, ratios, time_unit_s)).collect();
+    let mut fits: Vec<Result<ThinLayerFit, KineticsError>> = ThinLayerModel::ALL
+        .iter()
+        .map(|m| fit_thin_layer(*m, times_s, ratios, time_unit_s))
+        .collect();
     fits.sort_by(|a, b| match (a, b) {
         (Ok(x), Ok(y)) => x.aic.total_cmp(&y.aic),
         (Ok(_), Err(_)) => std::cmp::Ordering::Less,
@@ -353,12 +444,21 @@ mod tests {
     #[test]
     fn recovers_exact_page_parameters() {
         let times: Vec<f64> = (0..25).map(|i| i as f64 * 1800.0).collect();
-        let ratios: Vec<f64> = times.iter().map(|t| (-0.4 * (t / 3600.0).powf(1.2)).exp()).collect();
+        let ratios: Vec<f64> = times
+            .iter()
+            .map(|t| (-0.4 * (t / 3600.0).powf(1.2)).exp())
+            .collect();
         let fit = fit_thin_layer(ThinLayerModel::Page, &times, &ratios, 3600.0).unwrap();
-        assert!((fit.params[0] - 0.4).abs() < 1e-6 && (fit.params[1] - 1.2).abs() < 1e-6, "{fit:?}");
+        assert!(
+            (fit.params[0] - 0.4).abs() < 1e-6 && (fit.params[1] - 1.2).abs() < 1e-6,
+            "{fit:?}"
+        );
         // Same curve in minutes: k_min = 0.4 / 60^1.2.
         let fit = fit_thin_layer(ThinLayerModel::Page, &times, &ratios, 60.0).unwrap();
-        assert!((fit.params[0] / (0.4 / 60f64.powf(1.2)) - 1.0).abs() < 1e-5, "{fit:?}");
+        assert!(
+            (fit.params[0] / (0.4 / 60f64.powf(1.2)) - 1.0).abs() < 1e-5,
+            "{fit:?}"
+        );
     }
 
     #[test]
@@ -367,14 +467,29 @@ mod tests {
             assert_eq!(ThinLayerModel::from_key(m.key()), Some(m));
             assert_eq!(m.parameter_names().len(), m.bounds().len());
         }
-        assert_eq!(ThinLayerModel::from_key("Newton"), Some(ThinLayerModel::Lewis));
-        assert_eq!(ThinLayerModel::from_key("Modified Page"), Some(ThinLayerModel::ModifiedPage));
+        assert_eq!(
+            ThinLayerModel::from_key("Newton"),
+            Some(ThinLayerModel::Lewis)
+        );
+        assert_eq!(
+            ThinLayerModel::from_key("Modified Page"),
+            Some(ThinLayerModel::ModifiedPage)
+        );
     }
 
     #[test]
     fn bad_data_is_an_error() {
         assert!(fit_thin_layer(ThinLayerModel::Lewis, &[0.0, 1.0], &[1.0, 0.5], 1.0).is_err());
-        let e = fit_thin_layer(ThinLayerModel::Lewis, &[0.0, 2.0, 1.0], &[1.0, 0.5, 0.4], 1.0).unwrap_err();
-        assert!(matches!(e, KineticsError::TimeNotIncreasing { index: 2, .. }));
+        let e = fit_thin_layer(
+            ThinLayerModel::Lewis,
+            &[0.0, 2.0, 1.0],
+            &[1.0, 0.5, 0.4],
+            1.0,
+        )
+        .unwrap_err();
+        assert!(matches!(
+            e,
+            KineticsError::TimeNotIncreasing { index: 2, .. }
+        ));
     }
 }

@@ -13,10 +13,14 @@ use super::data::{find_column, table_arg};
 use super::fit::{comparison_table, fit_record, FitPayload, QuantitySpec};
 use crate::diag::{Diagnostic, Span};
 use crate::engine::diffusion::{
-    arrhenius_fit, diffusivity_from_slope, diffusivity_nonlinear, solve_drying, Body, CrankSeries, DiffusionProblem, Diffusivity, ProductTemperature, Shape, SolverSettings, Surface,
+    arrhenius_fit, diffusivity_from_slope, diffusivity_nonlinear, solve_drying, Body, CrankSeries,
+    DiffusionProblem, Diffusivity, ProductTemperature, Shape, SolverSettings, Surface,
 };
 use crate::engine::fit::least_squares;
-use crate::engine::kinetics::{drying_time as engine_drying_time, stages, BatchRun, ConstantRatePeriod, KineticsError, RateCurve};
+use crate::engine::kinetics::{
+    drying_time as engine_drying_time, stages, BatchRun, ConstantRatePeriod, KineticsError,
+    RateCurve,
+};
 use crate::engine::thin_layer::{fit_thin_layer, ThinLayerFit, ThinLayerModel};
 use crate::library::{type_word, Args, Builtin, Param};
 use crate::units::{parse_unit, Dim, Kind, Quantity};
@@ -77,14 +81,24 @@ fn hours(t: f64) -> Value {
 }
 
 fn column(name: &str, unit: &str, cells: Vec<Value>) -> Column {
-    Column { name: name.into(), unit: parse_unit(unit).ok(), cells }
+    Column {
+        name: name.into(),
+        unit: parse_unit(unit).ok(),
+        cells,
+    }
 }
 
 fn kinetics_error(span: Span, e: KineticsError) -> Diagnostic {
     let hint = match &e {
-        KineticsError::TargetAtOrBelowEquilibrium { .. } => Some("choose a final moisture above the equilibrium moisture"),
-        KineticsError::TooFewPoints { .. } => Some("use a shorter smoothing window or more readings"),
-        KineticsError::NegativeDiffusivity { .. } => Some("a diffusivity is positive, typically 1e-12 to 1e-8 m^2/s for foods"),
+        KineticsError::TargetAtOrBelowEquilibrium { .. } => {
+            Some("choose a final moisture above the equilibrium moisture")
+        }
+        KineticsError::TooFewPoints { .. } => {
+            Some("use a shorter smoothing window or more readings")
+        }
+        KineticsError::NegativeDiffusivity { .. } => {
+            Some("a diffusivity is positive, typically 1e-12 to 1e-8 m^2/s for foods")
+        }
         _ => None,
     };
     let d = Diagnostic::error(span, e.to_string());
@@ -99,20 +113,38 @@ fn kinetics_error(span: Span, e: KineticsError) -> Diagnostic {
 // ---------------------------------------------------------------------------
 
 fn kind_arg(args: &mut Args, name: &str, dim: Dim, kind: Kind) -> Result<Option<f64>, Diagnostic> {
-    let Some(arg) = args.take(name) else { return Ok(None) };
+    let Some(arg) = args.take(name) else {
+        return Ok(None);
+    };
     match &arg.value {
-        Value::Quantity(q, _) => q
-            .expect_kind(dim, kind)
-            .map(|q| Some(q.si))
-            .map_err(|e| Diagnostic::error(arg.span, format!("argument `{name}` of `{}`: {}", args.builtin.name, e.message))),
-        other => Err(Diagnostic::error(arg.span, format!("argument `{name}` of `{}` expects a quantity, found {}", args.builtin.name, type_word(other)))),
+        Value::Quantity(q, _) => q.expect_kind(dim, kind).map(|q| Some(q.si)).map_err(|e| {
+            Diagnostic::error(
+                arg.span,
+                format!(
+                    "argument `{name}` of `{}`: {}",
+                    args.builtin.name, e.message
+                ),
+            )
+        }),
+        other => Err(Diagnostic::error(
+            arg.span,
+            format!(
+                "argument `{name}` of `{}` expects a quantity, found {}",
+                args.builtin.name,
+                type_word(other)
+            ),
+        )),
     }
 }
 
 fn required_kind(args: &mut Args, name: &str, dim: Dim, kind: Kind) -> Result<f64, Diagnostic> {
     let span = args.call_span;
     kind_arg(args, name, dim, kind)?.ok_or_else(|| {
-        Diagnostic::error(span, format!("`{}` needs the argument `{name}`", args.builtin.name)).with_hint(format!("call it as {}", args.builtin.example))
+        Diagnostic::error(
+            span,
+            format!("`{}` needs the argument `{name}`", args.builtin.name),
+        )
+        .with_hint(format!("call it as {}", args.builtin.example))
     })
 }
 
@@ -129,7 +161,10 @@ fn opt_text(args: &mut Args, name: &str) -> Result<Option<(String, Span)>, Diagn
         None => Ok(None),
         Some(a) => match a.value {
             Value::Str(s) => Ok(Some((s, a.span))),
-            other => Err(Diagnostic::error(a.span, format!("`{name}` is text in quotes, found {}", type_word(&other)))),
+            other => Err(Diagnostic::error(
+                a.span,
+                format!("`{name}` is text in quotes, found {}", type_word(&other)),
+            )),
         },
     }
 }
@@ -139,19 +174,40 @@ fn opt_count(args: &mut Args, name: &str, default: usize) -> Result<usize, Diagn
     match kind_arg(args, name, Dim::NONE, Kind::Plain)? {
         None => Ok(default),
         Some(v) if v >= 1.0 && v.fract() == 0.0 && v <= 1e6 => Ok(v as usize),
-        Some(v) => Err(Diagnostic::error(span, format!("`{name}` must be a whole number of at least 1, got {v}"))),
+        Some(v) => Err(Diagnostic::error(
+            span,
+            format!("`{name}` must be a whole number of at least 1, got {v}"),
+        )),
     }
 }
 
 /// The SI values of one table column, checked for dimension and kind.
-fn column_si(table: &Table, name: &str, span: Span, dim: Dim, kind: Kind) -> Result<Vec<f64>, Diagnostic> {
+fn column_si(
+    table: &Table,
+    name: &str,
+    span: Span,
+    dim: Dim,
+    kind: Kind,
+) -> Result<Vec<f64>, Diagnostic> {
     let col = find_column(table, name, span)?;
     col.cells
         .iter()
         .enumerate()
         .map(|(row, v)| match v {
-            Value::Quantity(q, _) => q.expect_kind(dim, kind).map(|q| q.si).map_err(|e| Diagnostic::error(span, format!("column `{name}`, row {}: {}", row + 1, e.message))),
-            other => Err(Diagnostic::error(span, format!("column `{name}`, row {}: {} is not a number", row + 1, type_word(other)))),
+            Value::Quantity(q, _) => q.expect_kind(dim, kind).map(|q| q.si).map_err(|e| {
+                Diagnostic::error(
+                    span,
+                    format!("column `{name}`, row {}: {}", row + 1, e.message),
+                )
+            }),
+            other => Err(Diagnostic::error(
+                span,
+                format!(
+                    "column `{name}`, row {}: {} is not a number",
+                    row + 1,
+                    type_word(other)
+                ),
+            )),
         })
         .collect()
 }
@@ -163,17 +219,34 @@ fn column_name(args: &mut Args, name: &str, default: &str) -> Result<(String, Sp
 }
 
 /// A list argument of quantities of one dimension and kind.
-fn quantity_list(args: &mut Args, name: &str, dim: Dim, kind: Kind) -> Result<Vec<f64>, Diagnostic> {
+fn quantity_list(
+    args: &mut Args,
+    name: &str,
+    dim: Dim,
+    kind: Kind,
+) -> Result<Vec<f64>, Diagnostic> {
     let arg = args.required(name)?;
     let Value::List(items) = arg.value else {
-        return Err(Diagnostic::error(arg.span, format!("`{name}` must be a list such as [40 degC, 50 degC]")));
+        return Err(Diagnostic::error(
+            arg.span,
+            format!("`{name}` must be a list such as [40 degC, 50 degC]"),
+        ));
     };
     items
         .iter()
         .enumerate()
         .map(|(i, v)| match v {
-            Value::Quantity(q, _) => q.expect_kind(dim, kind).map(|q| q.si).map_err(|e| Diagnostic::error(arg.span, format!("`{name}` item {}: {}", i + 1, e.message))),
-            other => Err(Diagnostic::error(arg.span, format!("`{name}` item {} is {}, not a quantity", i + 1, type_word(other)))),
+            Value::Quantity(q, _) => q.expect_kind(dim, kind).map(|q| q.si).map_err(|e| {
+                Diagnostic::error(arg.span, format!("`{name}` item {}: {}", i + 1, e.message))
+            }),
+            other => Err(Diagnostic::error(
+                arg.span,
+                format!(
+                    "`{name}` item {} is {}, not a quantity",
+                    i + 1,
+                    type_word(other)
+                ),
+            )),
         })
         .collect()
 }
@@ -184,14 +257,25 @@ fn curve_arg(args: &mut Args, name: &str) -> Result<CurvePayload, Diagnostic> {
         Value::Record(r) if r.type_name == "rate_curve" => r.clone(),
         Value::Record(r) if r.type_name == "drying_test" => match r.get("curve") {
             Some(Value::Record(c)) => c.clone(),
-            _ => return Err(Diagnostic::error(arg.span, "this drying test has no rate curve")),
+            _ => {
+                return Err(Diagnostic::error(
+                    arg.span,
+                    "this drying test has no rate curve",
+                ))
+            }
         },
-        other => {
-            return Err(Diagnostic::error(arg.span, format!("`{name}` must be a rate curve, found {}", type_word(other)))
-                .with_hint("make one with drying_test(...), measured_rate_curve(...) or falling_rate_curve(...)"))
-        }
+        other => return Err(Diagnostic::error(
+            arg.span,
+            format!("`{name}` must be a rate curve, found {}", type_word(other)),
+        )
+        .with_hint(
+            "make one with drying_test(...), measured_rate_curve(...) or falling_rate_curve(...)",
+        )),
     };
-    record.payload::<CurvePayload>().cloned().ok_or_else(|| Diagnostic::error(arg.span, "this rate curve record carries no curve"))
+    record
+        .payload::<CurvePayload>()
+        .cloned()
+        .ok_or_else(|| Diagnostic::error(arg.span, "this rate curve record carries no curve"))
 }
 
 /// Shape and diffusion length from `shape`, `thickness` + `faces`, or `radius`.
@@ -201,24 +285,59 @@ fn body_arg(args: &mut Args) -> Result<Body, Diagnostic> {
         "slab" | "plate" | "sheet" => Shape::Slab,
         "cylinder" => Shape::Cylinder,
         "sphere" => Shape::Sphere,
-        other => return Err(Diagnostic::error(span, format!("unknown shape `{other}`")).with_hint("shapes: \"slab\", \"cylinder\", \"sphere\"")),
+        other => {
+            return Err(Diagnostic::error(span, format!("unknown shape `{other}`"))
+                .with_hint("shapes: \"slab\", \"cylinder\", \"sphere\""))
+        }
     };
     let (faces_span, thickness_span) = (args.span_of("faces"), args.span_of("thickness"));
     let thickness = args.opt_quantity("thickness", Dim::LENGTH)?;
     let radius = args.opt_quantity("radius", Dim::LENGTH)?;
     let faces = opt_count(args, "faces", 2)?;
     let length = match (shape, thickness, radius) {
-        (Shape::Slab, Some(t), None) if faces == 1 || faces == 2 => if faces == 2 { 0.5 * t.si } else { t.si },
-        (Shape::Slab, _, None) if faces > 2 => return Err(Diagnostic::error(faces_span, "a slab dries from 1 or 2 faces")),
-        (Shape::Slab, None, _) => return Err(Diagnostic::error(args.call_span, "a slab needs `thickness`").with_hint("thickness: 6 mm, faces: 2 (or 1 with the other face sealed)")),
+        (Shape::Slab, Some(t), None) if faces == 1 || faces == 2 => {
+            if faces == 2 {
+                0.5 * t.si
+            } else {
+                t.si
+            }
+        }
+        (Shape::Slab, _, None) if faces > 2 => {
+            return Err(Diagnostic::error(
+                faces_span,
+                "a slab dries from 1 or 2 faces",
+            ))
+        }
+        (Shape::Slab, None, _) => {
+            return Err(
+                Diagnostic::error(args.call_span, "a slab needs `thickness`")
+                    .with_hint("thickness: 6 mm, faces: 2 (or 1 with the other face sealed)"),
+            )
+        }
         (_, None, Some(r)) => r.si,
-        (_, Some(_), _) => return Err(Diagnostic::error(thickness_span, "a cylinder or sphere takes `radius`, not `thickness`")),
-        (_, None, None) => return Err(Diagnostic::error(args.call_span, format!("a {} needs `radius`", shape.name()))),
+        (_, Some(_), _) => {
+            return Err(Diagnostic::error(
+                thickness_span,
+                "a cylinder or sphere takes `radius`, not `thickness`",
+            ))
+        }
+        (_, None, None) => {
+            return Err(Diagnostic::error(
+                args.call_span,
+                format!("a {} needs `radius`", shape.name()),
+            ))
+        }
     };
     if !(length.is_finite() && length > 0.0) {
-        return Err(Diagnostic::error(span, format!("the diffusion length must be positive, got {length} m")));
+        return Err(Diagnostic::error(
+            span,
+            format!("the diffusion length must be positive, got {length} m"),
+        ));
     }
-    Ok(Body { shape, length_m: length })
+    Ok(Body {
+        shape,
+        length_m: length,
+    })
 }
 
 fn diffusivity_value(args: &mut Args, name: &str) -> Result<f64, Diagnostic> {
@@ -227,7 +346,10 @@ fn diffusivity_value(args: &mut Args, name: &str) -> Result<f64, Diagnostic> {
     if d.si.is_finite() && d.si > 0.0 {
         Ok(d.si)
     } else {
-        Err(kinetics_error(span, KineticsError::NegativeDiffusivity { value: d.si }))
+        Err(kinetics_error(
+            span,
+            KineticsError::NegativeDiffusivity { value: d.si },
+        ))
     }
 }
 
@@ -235,7 +357,10 @@ fn biot_arg(args: &mut Args) -> Result<Option<f64>, Diagnostic> {
     let span = args.span_of("Bi");
     match kind_arg(args, "Bi", Dim::NONE, Kind::Plain)? {
         Some(b) if b.is_finite() && b > 0.0 => Ok(Some(b)),
-        Some(b) => Err(Diagnostic::error(span, format!("the Biot number must be positive, got {b}"))),
+        Some(b) => Err(Diagnostic::error(
+            span,
+            format!("the Biot number must be positive, got {b}"),
+        )),
         None => Ok(None),
     }
 }
@@ -255,28 +380,73 @@ fn drying_test(args: &mut Args) -> Result<Value, Diagnostic> {
     args.finish()?;
     let times = column_si(&table, &t_name, t_span, Dim::TIME, Kind::Plain)?;
     let masses = column_si(&table, &m_name, m_span, Dim::MASS, Kind::Plain)?;
-    let run = BatchRun::from_masses(&times, &masses, solid.si, area.si, window, order).map_err(|e| kinetics_error(args.call_span, e))?;
-    let period = run.constant_rate_period().map_err(|e| kinetics_error(args.call_span, e))?;
-    let curve = run.rate_curve().map_err(|e| kinetics_error(args.call_span, e))?;
+    let run = BatchRun::from_masses(&times, &masses, solid.si, area.si, window, order)
+        .map_err(|e| kinetics_error(args.call_span, e))?;
+    let period = run
+        .constant_rate_period()
+        .map_err(|e| kinetics_error(args.call_span, e))?;
+    let curve = run
+        .rate_curve()
+        .map_err(|e| kinetics_error(args.call_span, e))?;
     if period.points_constant < 3 {
-        args.warn(format!("only {} readings lie in the constant-rate period; Rc and Xc are uncertain", period.points_constant));
+        args.warn(format!(
+            "only {} readings lie in the constant-rate period; Rc and Xc are uncertain",
+            period.points_constant
+        ));
     }
     Ok(Value::Record(test_record(run, period, curve)))
 }
 
 fn test_record(run: BatchRun, period: ConstantRatePeriod, curve: RateCurve) -> Record {
     let points = Table {
-        title: Some(format!("drying test (Savitzky-Golay window {}, order {})", run.window, run.order)),
+        title: Some(format!(
+            "drying test (Savitzky-Golay window {}, order {})",
+            run.window, run.order
+        )),
         columns: vec![
-            column("t", "min", run.points.iter().map(|p| shown(p.time_s, Dim::TIME, Kind::Plain, "min")).collect()),
-            column("X", "db", run.points.iter().map(|p| moisture(p.moisture)).collect()),
-            column("X smoothed", "db", run.points.iter().map(|p| moisture(p.smoothed)).collect()),
-            column("R", "kg/(m^2*h)", run.points.iter().map(|p| rate(p.rate)).collect()),
+            column(
+                "t",
+                "min",
+                run.points
+                    .iter()
+                    .map(|p| shown(p.time_s, Dim::TIME, Kind::Plain, "min"))
+                    .collect(),
+            ),
+            column(
+                "X",
+                "db",
+                run.points.iter().map(|p| moisture(p.moisture)).collect(),
+            ),
+            column(
+                "X smoothed",
+                "db",
+                run.points.iter().map(|p| moisture(p.smoothed)).collect(),
+            ),
+            column(
+                "R",
+                "kg/(m^2*h)",
+                run.points.iter().map(|p| rate(p.rate)).collect(),
+            ),
         ],
     };
-    let curve_record = curve_record(CurvePayload { curve, rc_reference: period.rate, critical: Some(period.critical_moisture) }, "measured (monotone cubic through the test's smoothed rates)");
+    let curve_record = curve_record(
+        CurvePayload {
+            curve,
+            rc_reference: period.rate,
+            critical: Some(period.critical_moisture),
+        },
+        "measured (monotone cubic through the test's smoothed rates)",
+    );
     let mut r = Record::new("drying_test")
-        .with("load", shown(run.load_kg_per_m2, Dim::AREAL_DENSITY, Kind::Plain, "kg/m^2"))
+        .with(
+            "load",
+            shown(
+                run.load_kg_per_m2,
+                Dim::AREAL_DENSITY,
+                Kind::Plain,
+                "kg/m^2",
+            ),
+        )
         .with("Rc", rate(period.rate))
         .with("Rc_se", rate(period.rate_std_error))
         .with("Xc", moisture(period.critical_moisture))
@@ -290,8 +460,15 @@ fn test_record(run: BatchRun, period: ConstantRatePeriod, curve: RateCurve) -> R
 }
 
 fn curve_record(payload: CurvePayload, model: &str) -> Record {
-    let low = if matches!(payload.curve, RateCurve::Table(_)) { "X_low" } else { "Xe" };
-    let mut r = Record::new("rate_curve").with("model", Value::Str(model.into())).with("Rc", rate(payload.rc_reference)).with(low, moisture(payload.curve.equilibrium()));
+    let low = if matches!(payload.curve, RateCurve::Table(_)) {
+        "X_low"
+    } else {
+        "Xe"
+    };
+    let mut r = Record::new("rate_curve")
+        .with("model", Value::Str(model.into()))
+        .with("Rc", rate(payload.rc_reference))
+        .with(low, moisture(payload.curve.equilibrium()));
     if let Some(xc) = payload.critical.or(payload.curve.critical()) {
         r = r.with("Xc", moisture(xc));
     }
@@ -301,7 +478,10 @@ fn curve_record(payload: CurvePayload, model: &str) -> Record {
     if let RateCurve::Table(t) = &payload.curve {
         let table = Table {
             title: Some("rate curve".into()),
-            columns: vec![column("X", "db", t.x.iter().map(|x| moisture(*x)).collect()), column("R", "kg/(m^2*h)", t.y.iter().map(|y| rate(*y)).collect())],
+            columns: vec![
+                column("X", "db", t.x.iter().map(|x| moisture(*x)).collect()),
+                column("R", "kg/(m^2*h)", t.y.iter().map(|y| rate(*y)).collect()),
+            ],
         };
         r = r.with("points", Value::Table(table));
     }
@@ -318,7 +498,14 @@ fn measured_rate_curve(args: &mut Args) -> Result<Value, Diagnostic> {
     let r = column_si(&table, &r_name, r_span, Dim::MASS_FLUX, Kind::Plain)?;
     let curve = RateCurve::table(&x, &r).map_err(|e| kinetics_error(args.call_span, e))?;
     let rc = r.iter().copied().fold(0.0, f64::max);
-    Ok(Value::Record(curve_record(CurvePayload { curve, rc_reference: rc, critical: None }, "measured (monotone cubic through the table)")))
+    Ok(Value::Record(curve_record(
+        CurvePayload {
+            curve,
+            rc_reference: rc,
+            critical: None,
+        },
+        "measured (monotone cubic through the table)",
+    )))
 }
 
 fn falling_rate_curve(args: &mut Args) -> Result<Value, Diagnostic> {
@@ -329,12 +516,25 @@ fn falling_rate_curve(args: &mut Args) -> Result<Value, Diagnostic> {
     let n = kind_arg(args, "n", Dim::NONE, Kind::Plain)?.unwrap_or(1.0);
     args.finish()?;
     let (curve, model) = if n == 1.0 {
-        (RateCurve::constant_linear(rc, xc, xe), "constant rate, then falling linearly in free moisture")
+        (
+            RateCurve::constant_linear(rc, xc, xe),
+            "constant rate, then falling linearly in free moisture",
+        )
     } else {
-        (RateCurve::constant_power(rc, xc, xe, n), "constant rate, then falling as a power of free moisture")
+        (
+            RateCurve::constant_power(rc, xc, xe, n),
+            "constant rate, then falling as a power of free moisture",
+        )
     };
     let curve = curve.map_err(|e| blame(&spans, args.call_span, e))?;
-    Ok(Value::Record(curve_record(CurvePayload { curve, rc_reference: rc, critical: None }, model)))
+    Ok(Value::Record(curve_record(
+        CurvePayload {
+            curve,
+            rc_reference: rc,
+            critical: None,
+        },
+        model,
+    )))
 }
 
 fn at_constant_rate(args: &mut Args) -> Result<Value, Diagnostic> {
@@ -343,11 +543,24 @@ fn at_constant_rate(args: &mut Args) -> Result<Value, Diagnostic> {
     let rc = args.quantity("Rc", Dim::MASS_FLUX)?.si;
     args.finish()?;
     if !(rc.is_finite() && rc > 0.0) {
-        return Err(Diagnostic::error(rc_span, format!("the constant drying rate must be positive, got {rc} kg/(m^2*s)")));
+        return Err(Diagnostic::error(
+            rc_span,
+            format!("the constant drying rate must be positive, got {rc} kg/(m^2*s)"),
+        ));
     }
     let factor = rc / payload.rc_reference;
-    let curve = payload.curve.scaled(factor).map_err(|e| kinetics_error(args.call_span, e))?;
-    Ok(Value::Record(curve_record(CurvePayload { curve, rc_reference: rc, critical: payload.critical }, &format!("rescaled to Rc (rates x {factor:.4})"))))
+    let curve = payload
+        .curve
+        .scaled(factor)
+        .map_err(|e| kinetics_error(args.call_span, e))?;
+    Ok(Value::Record(curve_record(
+        CurvePayload {
+            curve,
+            rc_reference: rc,
+            critical: payload.critical,
+        },
+        &format!("rescaled to Rc (rates x {factor:.4})"),
+    )))
 }
 
 fn span_args(args: &mut Args) -> Result<(CurvePayload, f64, f64, f64), Diagnostic> {
@@ -375,7 +588,10 @@ fn blame(spans: &[(&'static str, Span)], fallback: Span, e: KineticsError) -> Di
         },
         _ => "",
     };
-    let span = spans.iter().find(|(n, _)| *n == name).map_or(fallback, |(_, s)| *s);
+    let span = spans
+        .iter()
+        .find(|(n, _)| *n == name)
+        .map_or(fallback, |(_, s)| *s);
     kinetics_error(span, e)
 }
 
@@ -387,25 +603,66 @@ fn drying_time(args: &mut Args) -> Result<Value, Diagnostic> {
     let spans = spans_of(args, &["load", "from", "to"]);
     let (payload, load, from, to) = span_args(args)?;
     args.finish()?;
-    let t = engine_drying_time(&payload.curve, load, from, to).map_err(|e| blame(&spans, args.call_span, e))?;
+    let t = engine_drying_time(&payload.curve, load, from, to)
+        .map_err(|e| blame(&spans, args.call_span, e))?;
     Ok(hours(t.total_s))
 }
 
 fn drying_stages(args: &mut Args) -> Result<Value, Diagnostic> {
     let spans = spans_of(args, &["load", "from", "to"]);
     let (payload, load, from, to) = span_args(args)?;
-    let conditions = opt_text(args, "conditions")?.map(|c| c.0).unwrap_or_default();
+    let conditions = opt_text(args, "conditions")?
+        .map(|c| c.0)
+        .unwrap_or_default();
     args.finish()?;
-    let chain = stages(&payload.curve, load, from, to, payload.critical, &conditions).map_err(|e| blame(&spans, args.call_span, e))?;
+    let chain = stages(
+        &payload.curve,
+        load,
+        from,
+        to,
+        payload.critical,
+        &conditions,
+    )
+    .map_err(|e| blame(&spans, args.call_span, e))?;
     let columns = vec![
-        Column { name: "stage".into(), unit: None, cells: chain.iter().map(|s| Value::Str(s.kind.name().into())).collect() },
-        column("X start", "db", chain.iter().map(|s| moisture(s.x_start)).collect()),
-        column("X end", "db", chain.iter().map(|s| moisture(s.x_end)).collect()),
-        column("duration", "h", chain.iter().map(|s| hours(s.duration_s)).collect()),
-        column("R start", "kg/(m^2*h)", chain.iter().map(|s| rate(s.rate_start)).collect()),
-        column("R end", "kg/(m^2*h)", chain.iter().map(|s| rate(s.rate_end)).collect()),
+        Column {
+            name: "stage".into(),
+            unit: None,
+            cells: chain
+                .iter()
+                .map(|s| Value::Str(s.kind.name().into()))
+                .collect(),
+        },
+        column(
+            "X start",
+            "db",
+            chain.iter().map(|s| moisture(s.x_start)).collect(),
+        ),
+        column(
+            "X end",
+            "db",
+            chain.iter().map(|s| moisture(s.x_end)).collect(),
+        ),
+        column(
+            "duration",
+            "h",
+            chain.iter().map(|s| hours(s.duration_s)).collect(),
+        ),
+        column(
+            "R start",
+            "kg/(m^2*h)",
+            chain.iter().map(|s| rate(s.rate_start)).collect(),
+        ),
+        column(
+            "R end",
+            "kg/(m^2*h)",
+            chain.iter().map(|s| rate(s.rate_end)).collect(),
+        ),
     ];
-    Ok(Value::Table(Table { title: Some(format!("drying stages {conditions}").trim().to_string()), columns }))
+    Ok(Value::Table(Table {
+        title: Some(format!("drying stages {conditions}").trim().to_string()),
+        columns,
+    }))
 }
 
 // ---------------------------------------------------------------------------
@@ -420,10 +677,14 @@ fn crank_ratio(args: &mut Args) -> Result<Value, Diagnostic> {
     let biot = biot_arg(args)?;
     args.finish()?;
     if !(t.is_finite() && t >= 0.0) {
-        return Err(Diagnostic::error(t_span, format!("time must not be negative, got {t} s")));
+        return Err(Diagnostic::error(
+            t_span,
+            format!("time must not be negative, got {t} s"),
+        ));
     }
     let fo = body.fourier(d, t);
-    let series = CrankSeries::new(body.shape, biot, fo.clamp(1e-8, 1e-4)).map_err(|e| kinetics_error(args.call_span, e))?;
+    let series = CrankSeries::new(body.shape, biot, fo.clamp(1e-8, 1e-4))
+        .map_err(|e| kinetics_error(args.call_span, e))?;
     Ok(number(series.moisture_ratio(fo)))
 }
 
@@ -434,8 +695,11 @@ fn crank_time(args: &mut Args) -> Result<Value, Diagnostic> {
     let body = body_arg(args)?;
     let biot = biot_arg(args)?;
     args.finish()?;
-    let series = CrankSeries::new(body.shape, biot, 1e-6).map_err(|e| kinetics_error(args.call_span, e))?;
-    let fo = series.fourier_for_ratio(mr).map_err(|e| kinetics_error(mr_span, e))?;
+    let series =
+        CrankSeries::new(body.shape, biot, 1e-6).map_err(|e| kinetics_error(args.call_span, e))?;
+    let fo = series
+        .fourier_for_ratio(mr)
+        .map_err(|e| kinetics_error(mr_span, e))?;
     Ok(hours(fo * body.length_m * body.length_m / d))
 }
 
@@ -446,7 +710,9 @@ fn diffusion_drying(args: &mut Args) -> Result<Value, Diagnostic> {
     let xe = required_moisture(args, "Xe")?;
     let d = diffusivity_value(args, "D")?;
     let temperature = kind_arg(args, "T", Dim::TEMPERATURE, Kind::AbsoluteTemperature)?;
-    let ea = args.opt_quantity("Ea", Dim::MOLAR_ENERGY)?.map_or(0.0, |q| q.si);
+    let ea = args
+        .opt_quantity("Ea", Dim::MOLAR_ENERGY)?
+        .map_or(0.0, |q| q.si);
     let t_ref = kind_arg(args, "T_ref", Dim::TEMPERATURE, Kind::AbsoluteTemperature)?;
     let a = kind_arg(args, "moisture_coefficient", Dim::NONE, Kind::Plain)?.unwrap_or(0.0);
     let alpha = args.opt_quantity("alpha", Dim::VELOCITY)?.map(|q| q.si);
@@ -455,7 +721,10 @@ fn diffusion_drying(args: &mut Args) -> Result<Value, Diagnostic> {
     let cells = opt_count(args, "cells", 100)?;
     args.finish()?;
     if ea != 0.0 && temperature.is_none() {
-        return Err(Diagnostic::error(ea_span, "an activation energy needs the product temperature `T`"));
+        return Err(Diagnostic::error(
+            ea_span,
+            "an activation energy needs the product temperature `T`",
+        ));
     }
     let t_k = temperature.unwrap_or(293.15);
     let diffusivity = Diffusivity {
@@ -471,27 +740,54 @@ fn diffusion_drying(args: &mut Args) -> Result<Value, Diagnostic> {
         x_equilibrium: xe,
         diffusivity,
         temperature: ProductTemperature::Constant(t_k),
-        surface: alpha.map_or(Surface::Equilibrium, |alpha_m_per_s| Surface::Film { alpha_m_per_s }),
+        surface: alpha.map_or(Surface::Equilibrium, |alpha_m_per_s| Surface::Film {
+            alpha_m_per_s,
+        }),
         shrinkage,
     };
     if cells < 20 {
-        args.warn(format!("{cells} cells is a coarse mesh; use 50 or more for 0.1 % accuracy"));
+        args.warn(format!(
+            "{cells} cells is a coarse mesh; use 50 or more for 0.1 % accuracy"
+        ));
     }
-    let settings = SolverSettings { cells, target_ratio: target, ..SolverSettings::default() };
+    let settings = SolverSettings {
+        cells,
+        target_ratio: target,
+        ..SolverSettings::default()
+    };
     let run = solve_drying(&problem, &settings).map_err(|e| kinetics_error(args.call_span, e))?;
     let curve = Table {
-        title: Some(format!("diffusion drying, {} ({} cells, {} steps)", body.shape.name(), cells, run.steps)),
+        title: Some(format!(
+            "diffusion drying, {} ({} cells, {} steps)",
+            body.shape.name(),
+            cells,
+            run.steps
+        )),
         columns: vec![
             column("t", "h", run.times_s.iter().map(|t| hours(*t)).collect()),
-            Column { name: "MR".into(), unit: None, cells: run.ratios.iter().map(|r| number(*r)).collect() },
-            column("X", "db", run.ratios.iter().map(|r| moisture(xe + r * (x0 - xe))).collect()),
+            Column {
+                name: "MR".into(),
+                unit: None,
+                cells: run.ratios.iter().map(|r| number(*r)).collect(),
+            },
+            column(
+                "X",
+                "db",
+                run.ratios
+                    .iter()
+                    .map(|r| moisture(xe + r * (x0 - xe)))
+                    .collect(),
+            ),
         ],
     };
     Ok(Value::Record(
         Record::new("diffusion_run")
             .with("t", hours(run.time_to_target_s))
             .with("MR", number(target))
-            .with("L_end", shown(run.final_length_m, Dim::LENGTH, Kind::Plain, "mm"))
+            .with(
+                "L_end",
+                shown(run.final_length_m, Dim::LENGTH, Kind::Plain, "mm"),
+            )
             .with("steps", number(run.steps as f64))
             .with("curve", Value::Table(curve)),
     ))
@@ -508,17 +804,38 @@ fn fit_diffusivity(args: &mut Args) -> Result<Value, Diagnostic> {
     let ratios = column_si(&table, &r_name, r_span, Dim::NONE, Kind::Plain)?;
     let slope = diffusivity_from_slope(&body, &times, &ratios, 0.6);
     let (fit, words) = match method.as_ref().map(|m| (m.0.as_str(), m.1)) {
-        Some(("slope", _)) => (slope.map_err(|e| kinetics_error(args.call_span, e))?, "slope of ln MR against time (MR <= 0.6), first term of Crank's series"),
+        Some(("slope", _)) => (
+            slope.map_err(|e| kinetics_error(args.call_span, e))?,
+            "slope of ln MR against time (MR <= 0.6), first term of Crank's series",
+        ),
         None | Some(("series", _)) => {
             let start = slope.map(|s| s.d_m2_per_s).unwrap_or(1e-10);
-            (diffusivity_nonlinear(&body, &times, &ratios, start).map_err(|e| kinetics_error(args.call_span, e))?, "nonlinear least squares of Crank's full series")
+            (
+                diffusivity_nonlinear(&body, &times, &ratios, start)
+                    .map_err(|e| kinetics_error(args.call_span, e))?,
+                "nonlinear least squares of Crank's full series",
+            )
         }
-        Some((other, span)) => return Err(Diagnostic::error(span, format!("unknown method `{other}`")).with_hint("methods: \"series\" (default), \"slope\"")),
+        Some((other, span)) => {
+            return Err(Diagnostic::error(span, format!("unknown method `{other}`"))
+                .with_hint("methods: \"series\" (default), \"slope\""))
+        }
     };
     Ok(Value::Record(
         Record::new("diffusivity_fit")
-            .with("D", shown(fit.d_m2_per_s, Dim::DIFFUSIVITY, Kind::Plain, "m^2/s"))
-            .with("D_se", shown(fit.std_error_m2_per_s, Dim::DIFFUSIVITY, Kind::Plain, "m^2/s"))
+            .with(
+                "D",
+                shown(fit.d_m2_per_s, Dim::DIFFUSIVITY, Kind::Plain, "m^2/s"),
+            )
+            .with(
+                "D_se",
+                shown(
+                    fit.std_error_m2_per_s,
+                    Dim::DIFFUSIVITY,
+                    Kind::Plain,
+                    "m^2/s",
+                ),
+            )
             .with("R2", number(fit.r_squared))
             .with("n", number(fit.points as f64))
             .with("method", Value::Str(words.into())),
@@ -533,7 +850,10 @@ fn arrhenius_diffusivity(args: &mut Args) -> Result<Value, Diagnostic> {
     let ea = |v: f64| shown(v, Dim::MOLAR_ENERGY, Kind::Plain, "kJ/mol");
     Ok(Value::Record(
         Record::new("arrhenius_fit")
-            .with("D0", shown(fit.d0_m2_per_s, Dim::DIFFUSIVITY, Kind::Plain, "m^2/s"))
+            .with(
+                "D0",
+                shown(fit.d0_m2_per_s, Dim::DIFFUSIVITY, Kind::Plain, "m^2/s"),
+            )
             .with("Ea", ea(fit.activation_energy_j_per_mol))
             .with("Ea_se", ea(fit.activation_energy_std_error))
             .with("R2", number(fit.r_squared)),
@@ -545,8 +865,14 @@ fn arrhenius_diffusivity(args: &mut Args) -> Result<Value, Diagnostic> {
 // ---------------------------------------------------------------------------
 
 fn model_arg(args: &mut Args) -> Result<ThinLayerModel, Diagnostic> {
-    let (name, span) = opt_text(args, "model")?.ok_or_else(|| Diagnostic::error(args.call_span, "`fit_drying_model` needs `model`").with_hint(model_names()))?;
-    ThinLayerModel::from_key(&name).ok_or_else(|| Diagnostic::error(span, format!("unknown thin-layer model `{name}`")).with_hint(model_names()))
+    let (name, span) = opt_text(args, "model")?.ok_or_else(|| {
+        Diagnostic::error(args.call_span, "`fit_drying_model` needs `model`")
+            .with_hint(model_names())
+    })?;
+    ThinLayerModel::from_key(&name).ok_or_else(|| {
+        Diagnostic::error(span, format!("unknown thin-layer model `{name}`"))
+            .with_hint(model_names())
+    })
 }
 
 fn model_names() -> String {
@@ -558,24 +884,39 @@ fn thin_layer_data(args: &mut Args) -> Result<(Vec<f64>, Vec<f64>, f64), Diagnos
     let table = table_arg(args, "data")?;
     let (t_name, t_span) = column_name(args, "time", "t")?;
     let (r_name, r_span) = column_name(args, "ratio", "MR")?;
-    let unit = args.opt_quantity("time_unit", Dim::TIME)?.map_or(3600.0, |q| q.si);
+    let unit = args
+        .opt_quantity("time_unit", Dim::TIME)?
+        .map_or(3600.0, |q| q.si);
     let times = column_si(&table, &t_name, t_span, Dim::TIME, Kind::Plain)?;
     let ratios = column_si(&table, &r_name, r_span, Dim::NONE, Kind::Plain)?;
     Ok((times, ratios, unit))
 }
 
-fn thin_layer_payload(fit: &ThinLayerFit, times: &[f64], ratios: &[f64]) -> Result<FitPayload, KineticsError> {
+fn thin_layer_payload(
+    fit: &ThinLayerFit,
+    times: &[f64],
+    ratios: &[f64],
+) -> Result<FitPayload, KineticsError> {
     // Re-run the shared fitter once from the converged point to get its full
     // result (covariance, intervals, residuals) for the fit record.
     let in_unit: Vec<f64> = times.iter().map(|t| t / fit.time_unit_s).collect();
     let model = fit.model;
     let f = |p: &[f64], t: f64| model.ratio(p, t);
     let bounds = vec![(f64::NEG_INFINITY, f64::INFINITY); fit.params.len()];
-    let result = least_squares(&f, &in_unit, ratios, &fit.params, &bounds).map_err(|e| KineticsError::NoConvergence { what: "thin-layer fit", detail: e.to_string() })?;
+    let result = least_squares(&f, &in_unit, ratios, &fit.params, &bounds).map_err(|e| {
+        KineticsError::NoConvergence {
+            what: "thin-layer fit",
+            detail: e.to_string(),
+        }
+    })?;
     let unit_word = time_unit_word(fit.time_unit_s);
     Ok(FitPayload {
         model: format!("{} (t in {unit_word})", model.name()),
-        params: model.parameter_names().iter().map(|n| QuantitySpec::new(*n, Dim::NONE, Kind::Plain)).collect(),
+        params: model
+            .parameter_names()
+            .iter()
+            .map(|n| QuantitySpec::new(*n, Dim::NONE, Kind::Plain))
+            .collect(),
         x: QuantitySpec::new("t", Dim::TIME, Kind::Plain).shown_in("h"),
         y: QuantitySpec::new("MR", Dim::NONE, Kind::Plain),
         x_si: times.to_vec(),
@@ -585,10 +926,10 @@ fn thin_layer_payload(fit: &ThinLayerFit, times: &[f64], ratios: &[f64]) -> Resu
 
 fn time_unit_word(unit_s: f64) -> String {
     match unit_s {
-        u if u == 3600.0 => "h".into(),
-        u if u == 60.0 => "min".into(),
-        u if u == 1.0 => "s".into(),
-        u if u == 86400.0 => "d".into(),
+        3600.0 => "h".into(),
+        60.0 => "min".into(),
+        1.0 => "s".into(),
+        86400.0 => "d".into(),
         u => format!("({u} s)"),
     }
 }
@@ -597,8 +938,10 @@ fn fit_drying_model(args: &mut Args) -> Result<Value, Diagnostic> {
     let model = model_arg(args)?;
     let (times, ratios, unit) = thin_layer_data(args)?;
     args.finish()?;
-    let fit = fit_thin_layer(model, &times, &ratios, unit).map_err(|e| kinetics_error(args.call_span, e))?;
-    let payload = thin_layer_payload(&fit, &times, &ratios).map_err(|e| kinetics_error(args.call_span, e))?;
+    let fit = fit_thin_layer(model, &times, &ratios, unit)
+        .map_err(|e| kinetics_error(args.call_span, e))?;
+    let payload =
+        thin_layer_payload(&fit, &times, &ratios).map_err(|e| kinetics_error(args.call_span, e))?;
     Ok(Value::Record(fit_record(payload)))
 }
 
@@ -607,19 +950,36 @@ fn compare_drying_models(args: &mut Args) -> Result<Value, Diagnostic> {
     args.finish()?;
     let mut payloads = Vec::new();
     for model in ThinLayerModel::ALL {
-        match fit_thin_layer(model, &times, &ratios, unit).and_then(|f| thin_layer_payload(&f, &times, &ratios)) {
+        match fit_thin_layer(model, &times, &ratios, unit)
+            .and_then(|f| thin_layer_payload(&f, &times, &ratios))
+        {
             Ok(p) => payloads.push(p),
             Err(e) => args.warn(format!("{} left out of the comparison: {e}", model.name())),
         }
     }
     if payloads.is_empty() {
-        return Err(Diagnostic::error(args.call_span, "no thin-layer model could be fitted to these data"));
+        return Err(Diagnostic::error(
+            args.call_span,
+            "no thin-layer model could be fitted to these data",
+        ));
     }
     let refs: Vec<&FitPayload> = payloads.iter().collect();
     let table = comparison_table(&refs);
-    let best = payloads.iter().min_by(|a, b| a.result.aic.total_cmp(&b.result.aic)).map(|p| p.model.clone()).unwrap_or_default();
-    let fits: Vec<Value> = payloads.into_iter().map(|p| Value::Record(fit_record(p))).collect();
-    Ok(Value::Record(Record::new("drying_model_comparison").with("table", Value::Table(table)).with("best", Value::Str(best)).with("fits", Value::List(fits))))
+    let best = payloads
+        .iter()
+        .min_by(|a, b| a.result.aic.total_cmp(&b.result.aic))
+        .map(|p| p.model.clone())
+        .unwrap_or_default();
+    let fits: Vec<Value> = payloads
+        .into_iter()
+        .map(|p| Value::Record(fit_record(p)))
+        .collect();
+    Ok(Value::Record(
+        Record::new("drying_model_comparison")
+            .with("table", Value::Table(table))
+            .with("best", Value::Str(best))
+            .with("fits", Value::List(fits)),
+    ))
 }
 
 // ---------------------------------------------------------------------------
@@ -627,27 +987,102 @@ fn compare_drying_models(args: &mut Args) -> Result<Value, Diagnostic> {
 // ---------------------------------------------------------------------------
 
 const SHAPE_PARAMS: [Param; 4] = [
-    Param { name: "shape", unit: "text", default: Some("\"slab\""), doc: "\"slab\", \"cylinder\" (infinite) or \"sphere\"" },
-    Param { name: "thickness", unit: "mm", default: None, doc: "slab thickness" },
-    Param { name: "faces", unit: "-", default: Some("2"), doc: "slab faces drying: 2, or 1 with the other sealed" },
-    Param { name: "radius", unit: "mm", default: None, doc: "cylinder or sphere radius" },
+    Param {
+        name: "shape",
+        unit: "text",
+        default: Some("\"slab\""),
+        doc: "\"slab\", \"cylinder\" (infinite) or \"sphere\"",
+    },
+    Param {
+        name: "thickness",
+        unit: "mm",
+        default: None,
+        doc: "slab thickness",
+    },
+    Param {
+        name: "faces",
+        unit: "-",
+        default: Some("2"),
+        doc: "slab faces drying: 2, or 1 with the other sealed",
+    },
+    Param {
+        name: "radius",
+        unit: "mm",
+        default: None,
+        doc: "cylinder or sphere radius",
+    },
 ];
 
 const DRYING_TEST_PARAMS: &[Param] = &[
-    Param { name: "data", unit: "table", default: None, doc: "readings: a time column and a sample-mass column" },
-    Param { name: "time", unit: "text", default: Some("\"t\""), doc: "name of the time column" },
-    Param { name: "mass", unit: "text", default: Some("\"m\""), doc: "name of the sample-mass column" },
-    Param { name: "solid", unit: "kg", default: None, doc: "dry-solid mass of the sample" },
-    Param { name: "area", unit: "m^2", default: None, doc: "exposed drying area of the sample" },
-    Param { name: "window", unit: "-", default: Some("7"), doc: "Savitzky-Golay window, odd number of readings" },
-    Param { name: "order", unit: "-", default: Some("2"), doc: "Savitzky-Golay polynomial order" },
+    Param {
+        name: "data",
+        unit: "table",
+        default: None,
+        doc: "readings: a time column and a sample-mass column",
+    },
+    Param {
+        name: "time",
+        unit: "text",
+        default: Some("\"t\""),
+        doc: "name of the time column",
+    },
+    Param {
+        name: "mass",
+        unit: "text",
+        default: Some("\"m\""),
+        doc: "name of the sample-mass column",
+    },
+    Param {
+        name: "solid",
+        unit: "kg",
+        default: None,
+        doc: "dry-solid mass of the sample",
+    },
+    Param {
+        name: "area",
+        unit: "m^2",
+        default: None,
+        doc: "exposed drying area of the sample",
+    },
+    Param {
+        name: "window",
+        unit: "-",
+        default: Some("7"),
+        doc: "Savitzky-Golay window, odd number of readings",
+    },
+    Param {
+        name: "order",
+        unit: "-",
+        default: Some("2"),
+        doc: "Savitzky-Golay polynomial order",
+    },
 ];
 
 const SPAN_PARAMS: &[Param] = &[
-    Param { name: "curve", unit: "rate_curve", default: None, doc: "rate curve (or a drying test)" },
-    Param { name: "load", unit: "kg/m^2", default: None, doc: "dry solid per exposed area, Ls/A" },
-    Param { name: "from", unit: "db", default: None, doc: "start moisture" },
-    Param { name: "to", unit: "db", default: None, doc: "final moisture (above equilibrium)" },
+    Param {
+        name: "curve",
+        unit: "rate_curve",
+        default: None,
+        doc: "rate curve (or a drying test)",
+    },
+    Param {
+        name: "load",
+        unit: "kg/m^2",
+        default: None,
+        doc: "dry solid per exposed area, Ls/A",
+    },
+    Param {
+        name: "from",
+        unit: "db",
+        default: None,
+        doc: "start moisture",
+    },
+    Param {
+        name: "to",
+        unit: "db",
+        default: None,
+        doc: "final moisture (above equilibrium)",
+    },
 ];
 
 const STAGE_PARAMS: &[Param] = &[
@@ -655,27 +1090,62 @@ const STAGE_PARAMS: &[Param] = &[
     SPAN_PARAMS[1],
     SPAN_PARAMS[2],
     SPAN_PARAMS[3],
-    Param { name: "conditions", unit: "text", default: Some("\"\""), doc: "words describing the air and product, kept with the stages" },
+    Param {
+        name: "conditions",
+        unit: "text",
+        default: Some("\"\""),
+        doc: "words describing the air and product, kept with the stages",
+    },
 ];
 
 const CRANK_RATIO_PARAMS: &[Param] = &[
-    Param { name: "D", unit: "m^2/s", default: None, doc: "effective moisture diffusivity" },
-    Param { name: "t", unit: "h", default: None, doc: "drying time" },
+    Param {
+        name: "D",
+        unit: "m^2/s",
+        default: None,
+        doc: "effective moisture diffusivity",
+    },
+    Param {
+        name: "t",
+        unit: "h",
+        default: None,
+        doc: "drying time",
+    },
     SHAPE_PARAMS[0],
     SHAPE_PARAMS[1],
     SHAPE_PARAMS[2],
     SHAPE_PARAMS[3],
-    Param { name: "Bi", unit: "-", default: Some("none (surface at equilibrium)"), doc: "mass-transfer Biot number alpha L / D" },
+    Param {
+        name: "Bi",
+        unit: "-",
+        default: Some("none (surface at equilibrium)"),
+        doc: "mass-transfer Biot number alpha L / D",
+    },
 ];
 
 const CRANK_TIME_PARAMS: &[Param] = &[
-    Param { name: "D", unit: "m^2/s", default: None, doc: "effective moisture diffusivity" },
-    Param { name: "MR", unit: "-", default: None, doc: "target moisture ratio (X - Xe)/(X0 - Xe), 0..1" },
+    Param {
+        name: "D",
+        unit: "m^2/s",
+        default: None,
+        doc: "effective moisture diffusivity",
+    },
+    Param {
+        name: "MR",
+        unit: "-",
+        default: None,
+        doc: "target moisture ratio (X - Xe)/(X0 - Xe), 0..1",
+    },
     SHAPE_PARAMS[0],
     SHAPE_PARAMS[1],
     SHAPE_PARAMS[2],
     SHAPE_PARAMS[3],
-    Param { name: "Bi", unit: "-", default: Some("none (surface at equilibrium)"), doc: "mass-transfer Biot number alpha L / D" },
+    Param {
+        name: "Bi",
+        unit: "-",
+        default: Some("none (surface at equilibrium)"),
+        doc: "mass-transfer Biot number alpha L / D",
+    },
 ];
 
 const DIFFUSION_PARAMS: &[Param] = &[
@@ -683,28 +1153,103 @@ const DIFFUSION_PARAMS: &[Param] = &[
     SHAPE_PARAMS[1],
     SHAPE_PARAMS[2],
     SHAPE_PARAMS[3],
-    Param { name: "X0", unit: "db", default: None, doc: "initial uniform moisture" },
-    Param { name: "Xe", unit: "db", default: None, doc: "equilibrium moisture with the air" },
-    Param { name: "D", unit: "m^2/s", default: None, doc: "diffusivity at T_ref and X = Xe" },
-    Param { name: "T", unit: "degC", default: Some("20 degC"), doc: "product temperature" },
-    Param { name: "Ea", unit: "kJ/mol", default: Some("0 kJ/mol"), doc: "activation energy of D" },
-    Param { name: "T_ref", unit: "degC", default: Some("T"), doc: "temperature at which D is given" },
-    Param { name: "moisture_coefficient", unit: "-", default: Some("0"), doc: "a in D = D exp(a (X - Xe))" },
-    Param { name: "alpha", unit: "m/s", default: Some("none (surface at equilibrium)"), doc: "surface mass-transfer coefficient on the solid side" },
-    Param { name: "shrinkage", unit: "-", default: Some("0"), doc: "b in V/V0 = (1 + b X)/(1 + b X0)" },
-    Param { name: "MR", unit: "-", default: Some("0.01"), doc: "stop at this moisture ratio" },
-    Param { name: "cells", unit: "-", default: Some("100"), doc: "finite-volume cells" },
+    Param {
+        name: "X0",
+        unit: "db",
+        default: None,
+        doc: "initial uniform moisture",
+    },
+    Param {
+        name: "Xe",
+        unit: "db",
+        default: None,
+        doc: "equilibrium moisture with the air",
+    },
+    Param {
+        name: "D",
+        unit: "m^2/s",
+        default: None,
+        doc: "diffusivity at T_ref and X = Xe",
+    },
+    Param {
+        name: "T",
+        unit: "degC",
+        default: Some("20 degC"),
+        doc: "product temperature",
+    },
+    Param {
+        name: "Ea",
+        unit: "kJ/mol",
+        default: Some("0 kJ/mol"),
+        doc: "activation energy of D",
+    },
+    Param {
+        name: "T_ref",
+        unit: "degC",
+        default: Some("T"),
+        doc: "temperature at which D is given",
+    },
+    Param {
+        name: "moisture_coefficient",
+        unit: "-",
+        default: Some("0"),
+        doc: "a in D = D exp(a (X - Xe))",
+    },
+    Param {
+        name: "alpha",
+        unit: "m/s",
+        default: Some("none (surface at equilibrium)"),
+        doc: "surface mass-transfer coefficient on the solid side",
+    },
+    Param {
+        name: "shrinkage",
+        unit: "-",
+        default: Some("0"),
+        doc: "b in V/V0 = (1 + b X)/(1 + b X0)",
+    },
+    Param {
+        name: "MR",
+        unit: "-",
+        default: Some("0.01"),
+        doc: "stop at this moisture ratio",
+    },
+    Param {
+        name: "cells",
+        unit: "-",
+        default: Some("100"),
+        doc: "finite-volume cells",
+    },
 ];
 
 const FIT_D_PARAMS: &[Param] = &[
-    Param { name: "data", unit: "table", default: None, doc: "readings: time and moisture ratio columns" },
-    Param { name: "time", unit: "text", default: Some("\"t\""), doc: "name of the time column" },
-    Param { name: "ratio", unit: "text", default: Some("\"MR\""), doc: "name of the moisture-ratio column" },
+    Param {
+        name: "data",
+        unit: "table",
+        default: None,
+        doc: "readings: time and moisture ratio columns",
+    },
+    Param {
+        name: "time",
+        unit: "text",
+        default: Some("\"t\""),
+        doc: "name of the time column",
+    },
+    Param {
+        name: "ratio",
+        unit: "text",
+        default: Some("\"MR\""),
+        doc: "name of the moisture-ratio column",
+    },
     SHAPE_PARAMS[0],
     SHAPE_PARAMS[1],
     SHAPE_PARAMS[2],
     SHAPE_PARAMS[3],
-    Param { name: "method", unit: "text", default: Some("\"series\""), doc: "\"series\" (full nonlinear) or \"slope\" (ln MR slope)" },
+    Param {
+        name: "method",
+        unit: "text",
+        default: Some("\"series\""),
+        doc: "\"series\" (full nonlinear) or \"slope\" (ln MR slope)",
+    },
 ];
 
 const THIN_LAYER_PARAMS: &[Param] = &[
@@ -715,7 +1260,12 @@ const THIN_LAYER_PARAMS: &[Param] = &[
     Param { name: "time_unit", unit: "h", default: Some("1 h"), doc: "time unit of the rate constants" },
 ];
 
-const COMPARE_PARAMS: &[Param] = &[THIN_LAYER_PARAMS[0], THIN_LAYER_PARAMS[2], THIN_LAYER_PARAMS[3], THIN_LAYER_PARAMS[4]];
+const COMPARE_PARAMS: &[Param] = &[
+    THIN_LAYER_PARAMS[0],
+    THIN_LAYER_PARAMS[2],
+    THIN_LAYER_PARAMS[3],
+    THIN_LAYER_PARAMS[4],
+];
 
 const CURVE_SOURCE: &str = "McCabe, Smith & Harriott, Unit Operations of Chemical Engineering, 7th ed., ch. 24; Treybal, Mass-Transfer Operations, 3rd ed., ch. 12";
 const CRANK_SOURCE: &str = "J. Crank, The Mathematics of Diffusion, 2nd ed., Oxford 1975, ch. 4-6";

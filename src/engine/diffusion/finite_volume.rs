@@ -67,7 +67,14 @@ pub struct SolverSettings {
 
 impl Default for SolverSettings {
     fn default() -> Self {
-        SolverSettings { cells: 100, grading: 30.0, rel_tol: 2e-6, target_ratio: 0.01, max_time_s: 1e9, max_steps: 100_000 }
+        SolverSettings {
+            cells: 100,
+            grading: 30.0,
+            rel_tol: 2e-6,
+            target_ratio: 0.01,
+            max_time_s: 1e9,
+            max_steps: 100_000,
+        }
     }
 }
 
@@ -91,7 +98,10 @@ pub struct DiffusionRun {
 }
 
 /// Solve the problem until the mean moisture ratio reaches the target.
-pub fn solve_drying(problem: &DiffusionProblem, settings: &SolverSettings) -> Result<DiffusionRun, KineticsError> {
+pub fn solve_drying(
+    problem: &DiffusionProblem,
+    settings: &SolverSettings,
+) -> Result<DiffusionRun, KineticsError> {
     validate(problem, settings)?;
     let mut grid = Grid::new(problem, settings.cells, settings.grading);
     Stepper::new(problem, settings, &mut grid).run()
@@ -100,7 +110,11 @@ pub fn solve_drying(problem: &DiffusionProblem, settings: &SolverSettings) -> Re
 fn validate(p: &DiffusionProblem, s: &SolverSettings) -> Result<(), KineticsError> {
     non_negative("equilibrium moisture", p.x_equilibrium)?;
     if !(p.x_initial.is_finite() && p.x_initial > p.x_equilibrium) {
-        return Err(KineticsError::OutOfRange { name: "initial moisture", value: p.x_initial, reason: "must exceed the equilibrium moisture" });
+        return Err(KineticsError::OutOfRange {
+            name: "initial moisture",
+            value: p.x_initial,
+            reason: "must exceed the equilibrium moisture",
+        });
     }
     let d = p.diffusivity.reference_m2_per_s;
     if !(d.is_finite() && d > 0.0) {
@@ -112,14 +126,26 @@ fn validate(p: &DiffusionProblem, s: &SolverSettings) -> Result<(), KineticsErro
     }
     non_negative("shrinkage coefficient", p.shrinkage)?;
     if s.cells < 3 || s.cells > 100_000 {
-        return Err(KineticsError::OutOfRange { name: "cells", value: s.cells as f64, reason: "use 3 to 100000 cells" });
+        return Err(KineticsError::OutOfRange {
+            name: "cells",
+            value: s.cells as f64,
+            reason: "use 3 to 100000 cells",
+        });
     }
     positive("relative tolerance", s.rel_tol)?;
     if !(s.grading.is_finite() && (1.0..=1e4).contains(&s.grading)) {
-        return Err(KineticsError::OutOfRange { name: "mesh grading", value: s.grading, reason: "use a ratio from 1 to 10000" });
+        return Err(KineticsError::OutOfRange {
+            name: "mesh grading",
+            value: s.grading,
+            reason: "use a ratio from 1 to 10000",
+        });
     }
     if !(s.target_ratio > 0.0 && s.target_ratio < 1.0) {
-        return Err(KineticsError::OutOfRange { name: "target moisture ratio", value: s.target_ratio, reason: "must lie strictly between 0 and 1" });
+        return Err(KineticsError::OutOfRange {
+            name: "target moisture ratio",
+            value: s.target_ratio,
+            reason: "must lie strictly between 0 and 1",
+        });
     }
     positive("maximum time", s.max_time_s).map(|_| ())
 }
@@ -151,7 +177,15 @@ impl Grid {
             inner = outer;
         }
         let total_solid = solid.iter().sum();
-        Grid { exponent: s, solid, total_solid, faces, centres, x0: p.x_initial, shrinkage: p.shrinkage }
+        Grid {
+            exponent: s,
+            solid,
+            total_solid,
+            faces,
+            centres,
+            x0: p.x_initial,
+            shrinkage: p.shrinkage,
+        }
     }
 
     /// Relative specific volume `v(X)` and dry-solid density `1/v`.
@@ -175,8 +209,8 @@ impl Grid {
         let s1 = f64::from(self.exponent + 1);
         let mut cumulative = 0.0;
         let mut inner = 0.0;
-        for i in 0..x.len() {
-            cumulative += self.solid[i] * self.volume(x[i]);
+        for (i, &xi) in x.iter().enumerate() {
+            cumulative += self.solid[i] * self.volume(xi);
             let outer = (s1 * cumulative).powf(1.0 / s1);
             self.faces[i] = outer;
             self.centres[i] = 0.5 * (inner + outer);
@@ -196,12 +230,22 @@ impl Grid {
 /// Outer face radii of `cells` cells on [0, length], sizes growing
 /// geometrically from the surface inward so that largest/smallest = `grading`.
 pub fn face_radii(length: f64, cells: usize, grading: f64) -> Vec<f64> {
-    let q = if cells > 1 { grading.powf(1.0 / (cells - 1) as f64) } else { 1.0 };
+    let q = if cells > 1 {
+        grading.powf(1.0 / (cells - 1) as f64)
+    } else {
+        1.0
+    };
     // sizes from the centre outward: h_i = h_surface * q^(cells - 1 - i)
     let sizes: Vec<f64> = (0..cells).map(|i| q.powi((cells - 1 - i) as i32)).collect();
     let total: f64 = sizes.iter().sum();
     let mut r = 0.0;
-    let mut faces: Vec<f64> = sizes.iter().map(|h| { r += h * length / total; r }).collect();
+    let mut faces: Vec<f64> = sizes
+        .iter()
+        .map(|h| {
+            r += h * length / total;
+            r
+        })
+        .collect();
     if let Some(last) = faces.last_mut() {
         *last = length;
     }
@@ -220,20 +264,31 @@ struct Rhs {
 
 impl Rhs {
     fn new(n: usize) -> Rhs {
-        Rhs { f: vec![0.0; n], lower: vec![0.0; n], diag: vec![0.0; n], upper: vec![0.0; n], d: vec![0.0; n], dd: vec![0.0; n] }
+        Rhs {
+            f: vec![0.0; n],
+            lower: vec![0.0; n],
+            diag: vec![0.0; n],
+            upper: vec![0.0; n],
+            d: vec![0.0; n],
+            dd: vec![0.0; n],
+        }
     }
 
     /// Evaluate f and its Jacobian at `x`, time `t` (s).
     fn eval(&mut self, p: &DiffusionProblem, grid: &Grid, x: &[f64], t: f64) {
         let n = x.len();
         let temp = p.temperature.at(t);
-        for i in 0..n {
-            self.d[i] = p.diffusivity.at(x[i], temp);
-            self.dd[i] = p.diffusivity.slope(x[i], temp);
-            self.f[i] = 0.0;
-            self.lower[i] = 0.0;
-            self.diag[i] = 0.0;
-            self.upper[i] = 0.0;
+        for (i, &xi) in x.iter().enumerate() {
+            self.d[i] = p.diffusivity.at(xi, temp);
+            self.dd[i] = p.diffusivity.slope(xi, temp);
+        }
+        for v in [
+            &mut self.f,
+            &mut self.lower,
+            &mut self.diag,
+            &mut self.upper,
+        ] {
+            v.fill(0.0);
         }
         for j in 0..n - 1 {
             let (flux, d_left, d_right) = self.interior_flux(grid, x, j);
@@ -275,7 +330,9 @@ impl Rhs {
                 let resistance = half / self.d[n] + 1.0 / alpha_m_per_s;
                 let rho = grid.density(x[n]);
                 let q = rho / resistance;
-                let dq = grid.density_slope(x[n]) / resistance + rho * (half * self.dd[n] / (self.d[n] * self.d[n])) / (resistance * resistance);
+                let dq = grid.density_slope(x[n]) / resistance
+                    + rho * (half * self.dd[n] / (self.d[n] * self.d[n]))
+                        / (resistance * resistance);
                 (area * q * gap, area * (q + gap * dq))
             }
         }
@@ -297,7 +354,13 @@ impl Rhs {
 }
 
 /// Solve a tridiagonal system in place (Thomas algorithm); `rhs` becomes the solution.
-fn solve_tridiagonal(lower: &[f64], diag: &[f64], upper: &[f64], rhs: &mut [f64], scratch: &mut [f64]) -> bool {
+fn solve_tridiagonal(
+    lower: &[f64],
+    diag: &[f64],
+    upper: &[f64],
+    rhs: &mut [f64],
+    scratch: &mut [f64],
+) -> bool {
     let n = rhs.len();
     let mut beta = diag[0];
     if beta == 0.0 {
@@ -371,14 +434,23 @@ impl<'a> Stepper<'a> {
 
     fn run(mut self) -> Result<DiffusionRun, KineticsError> {
         let l = self.p.body.length_m;
-        let d0 = self.p.diffusivity.at(self.p.x_initial, self.p.temperature.at(0.0));
+        let d0 = self
+            .p
+            .diffusivity
+            .at(self.p.x_initial, self.p.temperature.at(0.0));
         let mut h = 1e-7 * l * l / d0;
         loop {
             let (t, _) = self.last();
             if self.run.steps >= self.s.max_steps || t > self.s.max_time_s {
                 return Err(KineticsError::NoConvergence {
                     what: "diffusion solver",
-                    detail: format!("moisture ratio {:.4} after {} steps and {:.4e} s; target {}", self.run.ratios.last().copied().unwrap_or(1.0), self.run.steps, t, self.s.target_ratio),
+                    detail: format!(
+                        "moisture ratio {:.4} after {} steps and {:.4e} s; target {}",
+                        self.run.ratios.last().copied().unwrap_or(1.0),
+                        self.run.steps,
+                        t,
+                        self.s.target_ratio
+                    ),
                 });
             }
             match self.attempt(h) {
@@ -398,7 +470,10 @@ impl<'a> Stepper<'a> {
                 }
             }
             if !(h.is_finite() && h > 1e-14 * (t + l * l / d0)) {
-                return Err(KineticsError::NoConvergence { what: "diffusion solver", detail: format!("step size collapsed at t = {t:.4e} s") });
+                return Err(KineticsError::NoConvergence {
+                    what: "diffusion solver",
+                    detail: format!("step size collapsed at t = {t:.4e} s"),
+                });
             }
         }
     }
@@ -412,7 +487,10 @@ impl<'a> Stepper<'a> {
     fn accept(&mut self, t: f64, x: Vec<f64>) -> bool {
         self.run.steps += 1;
         let ratio = self.ratio(&x);
-        let (t_prev, r_prev) = (self.run.times_s[self.run.times_s.len() - 1], self.run.ratios[self.run.ratios.len() - 1]);
+        let (t_prev, r_prev) = (
+            self.run.times_s[self.run.times_s.len() - 1],
+            self.run.ratios[self.run.ratios.len() - 1],
+        );
         self.run.times_s.push(t);
         self.run.ratios.push(ratio);
         if self.history.len() == 3 {
@@ -422,7 +500,11 @@ impl<'a> Stepper<'a> {
         if ratio <= self.s.target_ratio {
             let target = self.s.target_ratio.ln();
             let (a, b) = (r_prev.max(1e-300).ln(), ratio.max(1e-300).ln());
-            self.run.time_to_target_s = if a == b { t } else { t_prev + (t - t_prev) * (a - target) / (a - b) };
+            self.run.time_to_target_s = if a == b {
+                t
+            } else {
+                t_prev + (t - t_prev) * (a - target) / (a - b)
+            };
             return true;
         }
         false
@@ -446,7 +528,12 @@ impl<'a> Stepper<'a> {
     }
 
     fn norm(&self, v: &[f64]) -> f64 {
-        (v.iter().zip(&self.weights).map(|(a, w)| (a / w).powi(2)).sum::<f64>() / v.len() as f64).sqrt()
+        (v.iter()
+            .zip(&self.weights)
+            .map(|(a, w)| (a / w).powi(2))
+            .sum::<f64>()
+            / v.len() as f64)
+            .sqrt()
     }
 
     /// Try one step of size h from the newest state.
@@ -476,7 +563,11 @@ impl<'a> Stepper<'a> {
             let x_n = x_n.to_vec();
             self.grid.update(&x_n);
             self.rhs.eval(self.p, self.grid, &x_n, t);
-            return x_n.iter().zip(&self.rhs.f).map(|(x, f)| x + h * f).collect();
+            return x_n
+                .iter()
+                .zip(&self.rhs.f)
+                .map(|(x, f)| x + h * f)
+                .collect();
         }
         let mut out = vec![0.0; x_n.len()];
         for (weight, (_, state)) in scheme.extrapolation.iter().zip(&self.history) {
@@ -530,7 +621,9 @@ impl<'a> Stepper<'a> {
             } else {
                 self.contraction = (size / previous).max(1e-8);
                 self.since_check = 0;
-                if size < 1e-3 || self.contraction * size / (1.0 - self.contraction).max(1e-3) < 1e-3 {
+                if size < 1e-3
+                    || self.contraction * size / (1.0 - self.contraction).max(1e-3) < 1e-3
+                {
                     return Some(x);
                 }
             }
@@ -556,14 +649,26 @@ impl Scheme {
     fn new(history: &[(f64, Vec<f64>)], h: f64) -> Scheme {
         let times: Vec<f64> = history.iter().map(|(t, _)| *t).collect();
         match times.len() {
-            1 => Scheme { h, gamma: 1.0, history_weights: vec![1.0], extrapolation: vec![1.0], milne: 0.5 },
+            1 => Scheme {
+                h,
+                gamma: 1.0,
+                history_weights: vec![1.0],
+                extrapolation: vec![1.0],
+                milne: 0.5,
+            },
             2 => {
                 // Backward Euler with a linear predictor: errors h^2/2 and h(h+h1)/2.
                 let h1 = times[1] - times[0];
                 let w = h / h1;
                 let extrapolation = vec![-w, 1.0 + w];
                 let milne = h / (h + (h + h1));
-                Scheme { h, gamma: 1.0, history_weights: vec![0.0, 1.0], extrapolation, milne }
+                Scheme {
+                    h,
+                    gamma: 1.0,
+                    history_weights: vec![0.0, 1.0],
+                    extrapolation,
+                    milne,
+                }
             }
             _ => Scheme::bdf2(&times, h),
         }
@@ -583,7 +688,13 @@ impl Scheme {
         let l1 = (t - t0) * (t - t2) / ((t1 - t0) * (t1 - t2));
         let l2 = (t - t0) * (t - t1) / ((t2 - t0) * (t2 - t1));
         let milne = gamma * h / (gamma * h + h + h1 + h2);
-        Scheme { h, gamma, history_weights: vec![0.0, a2, a1], extrapolation: vec![l0, l1, l2], milne }
+        Scheme {
+            h,
+            gamma,
+            history_weights: vec![0.0, a2, a1],
+            extrapolation: vec![l0, l1, l2],
+            milne,
+        }
     }
 }
 
@@ -603,10 +714,19 @@ mod tests {
 
     fn problem(shape: Shape, surface: Surface) -> DiffusionProblem {
         DiffusionProblem {
-            body: Body { shape, length_m: 0.004 },
+            body: Body {
+                shape,
+                length_m: 0.004,
+            },
             x_initial: 2.0,
             x_equilibrium: 0.1,
-            diffusivity: Diffusivity { reference_m2_per_s: 5e-10, activation_energy_j_per_mol: 0.0, reference_temperature_k: 300.0, moisture_coefficient: 0.0, reference_moisture: 0.0 },
+            diffusivity: Diffusivity {
+                reference_m2_per_s: 5e-10,
+                activation_energy_j_per_mol: 0.0,
+                reference_temperature_k: 300.0,
+                moisture_coefficient: 0.0,
+                reference_moisture: 0.0,
+            },
             temperature: ProductTemperature::Constant(330.0),
             surface,
             shrinkage: 0.0,
@@ -635,10 +755,18 @@ mod tests {
         for shape in [Shape::Slab, Shape::Cylinder, Shape::Sphere] {
             let p = problem(shape, Surface::Equilibrium);
             let (worst, run) = worst_error(&p, None);
-            assert!(worst < 1e-3, "{shape:?}: worst relative MR error {worst:.2e} over {} steps", run.steps);
+            assert!(
+                worst < 1e-3,
+                "{shape:?}: worst relative MR error {worst:.2e} over {} steps",
+                run.steps
+            );
             let series = CrankSeries::new(shape, None, 1e-8).unwrap();
             let t_exact = series.fourier_for_ratio(0.01).unwrap() * 0.004f64.powi(2) / 5e-10;
-            assert!((run.time_to_target_s / t_exact - 1.0).abs() < 1e-3, "{shape:?}: {} vs {t_exact}", run.time_to_target_s);
+            assert!(
+                (run.time_to_target_s / t_exact - 1.0).abs() < 1e-3,
+                "{shape:?}: {} vs {t_exact}",
+                run.time_to_target_s
+            );
         }
     }
 
@@ -647,9 +775,18 @@ mod tests {
         for shape in [Shape::Slab, Shape::Cylinder, Shape::Sphere] {
             for biot in [0.5, 5.0, 50.0] {
                 let alpha = biot * 5e-10 / 0.004;
-                let p = problem(shape, Surface::Film { alpha_m_per_s: alpha });
+                let p = problem(
+                    shape,
+                    Surface::Film {
+                        alpha_m_per_s: alpha,
+                    },
+                );
                 let (worst, run) = worst_error(&p, Some(biot));
-                assert!(worst < 1e-3, "{shape:?} Bi {biot}: worst relative MR error {worst:.2e} over {} steps", run.steps);
+                assert!(
+                    worst < 1e-3,
+                    "{shape:?} Bi {biot}: worst relative MR error {worst:.2e} over {} steps",
+                    run.steps
+                );
             }
         }
     }

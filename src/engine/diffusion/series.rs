@@ -46,18 +46,32 @@ pub struct CrankSeries {
 impl CrankSeries {
     /// Build the series with enough terms for Fourier numbers down to
     /// `min_fourier` (clamped to 1e-8, at most about 21 000 terms).
-    pub fn new(shape: Shape, biot: Option<f64>, min_fourier: f64) -> Result<CrankSeries, KineticsError> {
+    pub fn new(
+        shape: Shape,
+        biot: Option<f64>,
+        min_fourier: f64,
+    ) -> Result<CrankSeries, KineticsError> {
         if let Some(b) = biot {
             super::super::kinetics::positive("Biot number", b)?;
         }
-        let min_fourier = super::super::kinetics::positive("minimum Fourier number", min_fourier)?.max(1e-8);
+        let min_fourier =
+            super::super::kinetics::positive("minimum Fourier number", min_fourier)?.max(1e-8);
         let terms = ((EXPONENT_CUTOFF / min_fourier).sqrt() / PI).ceil() as usize + 2;
         let roots = match biot {
             None => equilibrium_roots(shape, terms),
             Some(b) => film_roots(shape, b, terms)?,
         };
-        let coefficients = roots.iter().map(|&beta| coefficient(shape, biot, beta)).collect();
-        Ok(CrankSeries { shape, biot, roots, coefficients, min_fourier })
+        let coefficients = roots
+            .iter()
+            .map(|&beta| coefficient(shape, biot, beta))
+            .collect();
+        Ok(CrankSeries {
+            shape,
+            biot,
+            roots,
+            coefficients,
+            min_fourier,
+        })
     }
 
     /// Mean moisture ratio at Fourier number `fo` (>= 0).
@@ -74,7 +88,10 @@ impl CrankSeries {
     /// `dMR/dFo` at `fo` (> 0).
     pub fn slope(&self, fo: f64) -> f64 {
         let fo = fo.max(self.min_fourier);
-        self.terms(fo).zip(&self.roots).map(|((a, e), b)| -a * b * b * e).sum()
+        self.terms(fo)
+            .zip(&self.roots)
+            .map(|((a, e), b)| -a * b * b * e)
+            .sum()
     }
 
     fn terms(&self, fo: f64) -> impl Iterator<Item = (f64, f64)> + '_ {
@@ -107,7 +124,11 @@ impl CrankSeries {
     /// coefficients sum to 1), then Brent's method on `ln MR`.
     pub fn fourier_for_ratio(&self, ratio: f64) -> Result<f64, KineticsError> {
         if !(ratio > 0.0 && ratio < 1.0) {
-            return Err(KineticsError::OutOfRange { name: "target moisture ratio", value: ratio, reason: "must lie strictly between 0 and 1" });
+            return Err(KineticsError::OutOfRange {
+                name: "target moisture ratio",
+                value: ratio,
+                reason: "must lie strictly between 0 and 1",
+            });
         }
         let b1 = self.roots[0];
         let upper = (1.0 / ratio).ln() / (b1 * b1);
@@ -145,14 +166,29 @@ fn film_roots(shape: Shape, biot: f64, terms: usize) -> Result<Vec<f64>, Kinetic
         let k = n as f64;
         let root = match shape {
             // beta sin(beta) - L cos(beta) on ((n-1) pi, (n-1/2) pi)
-            Shape::Slab => brent_root(|b: f64| b * b.sin() - biot * b.cos(), (k - 1.0) * PI, (k - 0.5) * PI, 1e-15 * k)?,
+            Shape::Slab => brent_root(
+                |b: f64| b * b.sin() - biot * b.cos(),
+                (k - 1.0) * PI,
+                (k - 0.5) * PI,
+                1e-15 * k,
+            )?,
             // beta J1 - L J0 between the (n-1)-th zero of J1 and the n-th zero of J0
             Shape::Cylinder => {
                 let lo = if n == 1 { 0.0 } else { bessel_j1_zero(n - 1) };
-                brent_root(|b: f64| b * libm::j1(b) - biot * libm::j0(b), lo, bessel_j0_zero(n), 1e-15 * k)?
+                brent_root(
+                    |b: f64| b * libm::j1(b) - biot * libm::j0(b),
+                    lo,
+                    bessel_j0_zero(n),
+                    1e-15 * k,
+                )?
             }
             // cos(beta) + (L - 1) sin(beta)/beta on ((n-1) pi, n pi)
-            Shape::Sphere => brent_root(|b: f64| b.cos() + (biot - 1.0) * sinc(b), (k - 1.0) * PI, k * PI, 1e-15 * k)?,
+            Shape::Sphere => brent_root(
+                |b: f64| b.cos() + (biot - 1.0) * sinc(b),
+                (k - 1.0) * PI,
+                k * PI,
+                1e-15 * k,
+            )?,
         };
         roots.push(root);
     }
@@ -229,7 +265,10 @@ mod tests {
             let fo = 2e-5;
             let series = s.moisture_ratio(fo);
             let short = s.short_time(fo);
-            assert!((series - short).abs() < 1e-7, "{shape:?}: {series} vs {short}");
+            assert!(
+                (series - short).abs() < 1e-7,
+                "{shape:?}: {series} vs {short}"
+            );
         }
     }
 

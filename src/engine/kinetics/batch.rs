@@ -70,24 +70,48 @@ impl BatchRun {
     /// Process readings of sample mass (kg) at times (s) for a sample with
     /// `dry_solid_kg` of dry solid exposing `area_m2`, differentiated by a
     /// Savitzky-Golay window of `window` points (odd) and degree `order`.
-    pub fn from_masses(times_s: &[f64], masses_kg: &[f64], dry_solid_kg: f64, area_m2: f64, window: usize, order: usize) -> Result<BatchRun, KineticsError> {
+    pub fn from_masses(
+        times_s: &[f64],
+        masses_kg: &[f64],
+        dry_solid_kg: f64,
+        area_m2: f64,
+        window: usize,
+        order: usize,
+    ) -> Result<BatchRun, KineticsError> {
         check_readings(times_s, masses_kg, dry_solid_kg, area_m2)?;
         check_window(times_s.len(), window, order)?;
-        let moistures: Vec<f64> = masses_kg.iter().map(|m| (m - dry_solid_kg) / dry_solid_kg).collect();
+        let moistures: Vec<f64> = masses_kg
+            .iter()
+            .map(|m| (m - dry_solid_kg) / dry_solid_kg)
+            .collect();
         let load = dry_solid_kg / area_m2;
         let mut points = Vec::with_capacity(times_s.len());
         for i in 0..times_s.len() {
             let (value, slope) = local_polynomial(times_s, &moistures, i, window, order)?;
-            points.push(RatePoint { time_s: times_s[i], moisture: moistures[i], smoothed: value, rate: -load * slope });
+            points.push(RatePoint {
+                time_s: times_s[i],
+                moisture: moistures[i],
+                smoothed: value,
+                rate: -load * slope,
+            });
         }
-        Ok(BatchRun { points, load_kg_per_m2: load, window, order })
+        Ok(BatchRun {
+            points,
+            load_kg_per_m2: load,
+            window,
+            order,
+        })
     }
 
     /// Find the constant-rate period and the critical moisture.
     pub fn constant_rate_period(&self) -> Result<ConstantRatePeriod, KineticsError> {
         let used = self.after_settling();
         if used.len() < 6 {
-            return Err(KineticsError::TooFewPoints { what: "finding the critical moisture (after the settling period)", needed: 6, found: used.len() });
+            return Err(KineticsError::TooFewPoints {
+                what: "finding the critical moisture (after the settling period)",
+                needed: 6,
+                found: used.len(),
+            });
         }
         let x: Vec<f64> = used.iter().map(|p| p.smoothed).collect();
         let r: Vec<f64> = used.iter().map(|p| p.rate).collect();
@@ -97,8 +121,16 @@ impl BatchRun {
     /// Readings from the first one whose rate reaches 90 % of the largest
     /// rate: earlier ones belong to the settling (warm-up) period.
     fn after_settling(&self) -> &[RatePoint] {
-        let max = self.points.iter().map(|p| p.rate).fold(f64::NEG_INFINITY, f64::max);
-        let start = self.points.iter().position(|p| p.rate >= 0.9 * max).unwrap_or(0);
+        let max = self
+            .points
+            .iter()
+            .map(|p| p.rate)
+            .fold(f64::NEG_INFINITY, f64::max);
+        let start = self
+            .points
+            .iter()
+            .position(|p| p.rate >= 0.9 * max)
+            .unwrap_or(0);
         &self.points[start..]
     }
 
@@ -112,20 +144,37 @@ impl BatchRun {
     }
 }
 
-fn check_readings(times_s: &[f64], masses_kg: &[f64], dry_solid_kg: f64, area_m2: f64) -> Result<(), KineticsError> {
+fn check_readings(
+    times_s: &[f64],
+    masses_kg: &[f64],
+    dry_solid_kg: f64,
+    area_m2: f64,
+) -> Result<(), KineticsError> {
     positive("dry-solid mass", dry_solid_kg)?;
     positive("exposed area", area_m2)?;
     if times_s.len() != masses_kg.len() {
-        return Err(KineticsError::OutOfRange { name: "number of masses", value: masses_kg.len() as f64, reason: "must equal the number of times" });
+        return Err(KineticsError::OutOfRange {
+            name: "number of masses",
+            value: masses_kg.len() as f64,
+            reason: "must equal the number of times",
+        });
     }
     for (i, pair) in times_s.windows(2).enumerate() {
-        if !(pair[1] > pair[0]) {
-            return Err(KineticsError::TimeNotIncreasing { index: i + 1, previous_s: pair[0], time_s: pair[1] });
+        if !super::above(pair[1], pair[0]) {
+            return Err(KineticsError::TimeNotIncreasing {
+                index: i + 1,
+                previous_s: pair[0],
+                time_s: pair[1],
+            });
         }
     }
     for (index, &m) in masses_kg.iter().enumerate() {
         if !m.is_finite() || m < dry_solid_kg {
-            return Err(KineticsError::BelowDrySolid { index, mass_kg: m, dry_solid_kg });
+            return Err(KineticsError::BelowDrySolid {
+                index,
+                mass_kg: m,
+                dry_solid_kg,
+            });
         }
     }
     Ok(())
@@ -133,28 +182,52 @@ fn check_readings(times_s: &[f64], masses_kg: &[f64], dry_solid_kg: f64, area_m2
 
 fn check_window(points: usize, window: usize, order: usize) -> Result<(), KineticsError> {
     if window % 2 == 0 || window < 3 {
-        return Err(KineticsError::OutOfRange { name: "smoothing window", value: window as f64, reason: "must be an odd number of points, at least 3" });
+        return Err(KineticsError::OutOfRange {
+            name: "smoothing window",
+            value: window as f64,
+            reason: "must be an odd number of points, at least 3",
+        });
     }
     if order < 1 || order >= window {
-        return Err(KineticsError::OutOfRange { name: "smoothing polynomial order", value: order as f64, reason: "must be at least 1 and below the window length" });
+        return Err(KineticsError::OutOfRange {
+            name: "smoothing polynomial order",
+            value: order as f64,
+            reason: "must be at least 1 and below the window length",
+        });
     }
     if points < window {
-        return Err(KineticsError::TooFewPoints { what: "the smoothing window", needed: window, found: points });
+        return Err(KineticsError::TooFewPoints {
+            what: "the smoothing window",
+            needed: window,
+            found: points,
+        });
     }
     Ok(())
 }
 
 /// Least-squares polynomial over the window around point `i`: (value, slope) at t_i.
-fn local_polynomial(t: &[f64], y: &[f64], i: usize, window: usize, order: usize) -> Result<(f64, f64), KineticsError> {
+fn local_polynomial(
+    t: &[f64],
+    y: &[f64],
+    i: usize,
+    window: usize,
+    order: usize,
+) -> Result<(f64, f64), KineticsError> {
     let half = window / 2;
     let start = i.saturating_sub(half).min(t.len() - window);
     let span = t[start + window - 1] - t[start];
-    let design = DMatrix::from_fn(window, order + 1, |row, col| ((t[start + row] - t[i]) / span).powi(col as i32));
+    let design = DMatrix::from_fn(window, order + 1, |row, col| {
+        ((t[start + row] - t[i]) / span).powi(col as i32)
+    });
     let values = DVector::from_fn(window, |row, _| y[start + row]);
-    let coefficients = design
-        .svd(true, true)
-        .solve(&values, 1e-13)
-        .map_err(|e| KineticsError::NoConvergence { what: "Savitzky-Golay fit", detail: e.to_string() })?;
+    let coefficients =
+        design
+            .svd(true, true)
+            .solve(&values, 1e-13)
+            .map_err(|e| KineticsError::NoConvergence {
+                what: "Savitzky-Golay fit",
+                detail: e.to_string(),
+            })?;
     Ok((coefficients[0], coefficients[1] / span))
 }
 
@@ -163,14 +236,21 @@ fn hinge_at(x: &[f64], r: &[f64], xc: f64) -> Option<(f64, f64, f64, f64)> {
     let n = x.len() as f64;
     let u: Vec<f64> = x.iter().map(|v| (xc - v).max(0.0)).collect();
     let (su, suu) = (u.iter().sum::<f64>(), u.iter().map(|v| v * v).sum::<f64>());
-    let (sr, sur) = (r.iter().sum::<f64>(), u.iter().zip(r).map(|(a, b)| a * b).sum::<f64>());
+    let (sr, sur) = (
+        r.iter().sum::<f64>(),
+        u.iter().zip(r).map(|(a, b)| a * b).sum::<f64>(),
+    );
     let det = n * suu - su * su;
     if det.abs() <= 1e-300 {
         return None;
     }
     let rc = (sr * suu - su * sur) / det;
     let slope = (su * sr - n * sur) / det;
-    let sse: f64 = u.iter().zip(r).map(|(ui, ri)| (ri - rc + slope * ui).powi(2)).sum();
+    let sse: f64 = u
+        .iter()
+        .zip(r)
+        .map(|(ui, ri)| (ri - rc + slope * ui).powi(2))
+        .sum();
     Some((rc, slope, sse, suu / det))
 }
 
@@ -181,16 +261,29 @@ fn hinge_fit(x: &[f64], r: &[f64]) -> Result<ConstantRatePeriod, KineticsError> 
     // At least 3 points on each side of the break.
     let (lo, hi) = (sorted[2], sorted[n - 3]);
     let sse = |xc: f64| hinge_at(x, r, xc).map_or(f64::INFINITY, |h| h.2);
-    let grid: Vec<f64> = (0..=400).map(|k| lo + (hi - lo) * k as f64 / 400.0).collect();
+    let grid: Vec<f64> = (0..=400)
+        .map(|k| lo + (hi - lo) * k as f64 / 400.0)
+        .collect();
     let profile: Vec<f64> = grid.iter().map(|&xc| sse(xc)).collect();
-    let best = (0..grid.len()).min_by(|&a, &b| profile[a].total_cmp(&profile[b])).unwrap_or(0);
+    let best = (0..grid.len())
+        .min_by(|&a, &b| profile[a].total_cmp(&profile[b]))
+        .unwrap_or(0);
     let a = grid[best.saturating_sub(1)];
     let b = grid[(best + 1).min(grid.len() - 1)];
     let xc = golden_min(&sse, a, b);
-    let (rc, slope, sse_min, var_factor) = hinge_at(x, r, xc).ok_or_else(|| KineticsError::NoConvergence { what: "critical moisture fit", detail: "singular regression".into() })?;
+    let (rc, slope, sse_min, var_factor) =
+        hinge_at(x, r, xc).ok_or_else(|| KineticsError::NoConvergence {
+            what: "critical moisture fit",
+            detail: "singular regression".into(),
+        })?;
     let dof = (n as f64 - 3.0).max(1.0);
     let limit = sse_min * (1.0 + 1.0 / dof);
-    let inside: Vec<f64> = grid.iter().zip(&profile).filter(|(_, s)| **s <= limit).map(|(g, _)| *g).collect();
+    let inside: Vec<f64> = grid
+        .iter()
+        .zip(&profile)
+        .filter(|(_, s)| **s <= limit)
+        .map(|(g, _)| *g)
+        .collect();
     let step = (hi - lo) / 400.0;
     let low = inside.iter().copied().fold(xc, f64::min) - step;
     let high = inside.iter().copied().fold(xc, f64::max) + step;
@@ -202,7 +295,11 @@ fn hinge_fit(x: &[f64], r: &[f64]) -> Result<ConstantRatePeriod, KineticsError> 
         critical_low: low.max(sorted[0]),
         critical_high: high.min(sorted[n - 1]),
         falling_slope: slope,
-        zero_rate_moisture: if slope > 0.0 { xc - rc / slope } else { f64::NAN },
+        zero_rate_moisture: if slope > 0.0 {
+            xc - rc / slope
+        } else {
+            f64::NAN
+        },
         points_used: n,
         points_constant: x.iter().filter(|v| **v >= xc).count(),
         residual_std: sigma2.sqrt(),
@@ -232,7 +329,11 @@ impl ConstantRatePeriod {
     pub fn rate_curve(&self, equilibrium: Option<f64>) -> Result<RateCurve, KineticsError> {
         let xe = equilibrium.unwrap_or(self.zero_rate_moisture);
         if !xe.is_finite() {
-            return Err(KineticsError::OutOfRange { name: "falling-rate slope", value: self.falling_slope, reason: "must be positive to extrapolate an equilibrium moisture; give one" });
+            return Err(KineticsError::OutOfRange {
+                name: "falling-rate slope",
+                value: self.falling_slope,
+                reason: "must be positive to extrapolate an equilibrium moisture; give one",
+            });
         }
         RateCurve::constant_linear(self.rate, self.critical_moisture, xe.max(0.0))
     }
@@ -270,8 +371,14 @@ mod tests {
         let period = run.constant_rate_period().unwrap();
         assert!((period.rate / 5e-4 - 1.0).abs() < 0.01, "{period:?}");
         assert!((period.critical_moisture - 0.8).abs() < 0.03, "{period:?}");
-        assert!(period.critical_low <= period.critical_moisture && period.critical_high >= period.critical_moisture);
-        assert!((period.zero_rate_moisture - 0.08).abs() < 0.03, "{period:?}");
+        assert!(
+            period.critical_low <= period.critical_moisture
+                && period.critical_high >= period.critical_moisture
+        );
+        assert!(
+            (period.zero_rate_moisture - 0.08).abs() < 0.03,
+            "{period:?}"
+        );
     }
 
     #[test]
@@ -283,9 +390,22 @@ mod tests {
         let (mut t, m) = synthetic(0.0);
         t[4] = t[3];
         let e = BatchRun::from_masses(&t, &m, 0.1, 0.02, 5, 2).unwrap_err();
-        assert!(matches!(e, KineticsError::TimeNotIncreasing { index: 4, .. }), "{e}");
+        assert!(
+            matches!(e, KineticsError::TimeNotIncreasing { index: 4, .. }),
+            "{e}"
+        );
         let e = BatchRun::from_masses(&t[..3], &m[..3], 0.1, 0.02, 5, 2).unwrap_err();
-        assert!(matches!(e, KineticsError::TooFewPoints { needed: 5, found: 3, .. }), "{e}");
+        assert!(
+            matches!(
+                e,
+                KineticsError::TooFewPoints {
+                    needed: 5,
+                    found: 3,
+                    ..
+                }
+            ),
+            "{e}"
+        );
         assert!(BatchRun::from_masses(&t, &m, 0.1, 0.02, 4, 2).is_err());
     }
 
@@ -295,7 +415,10 @@ mod tests {
     #[test]
     fn matches_classic_savitzky_golay_weights() {
         let t: Vec<f64> = (0..9).map(|i| i as f64).collect();
-        let y: Vec<f64> = t.iter().map(|v| (0.3 * v).sin() + 0.01 * v * v * v).collect();
+        let y: Vec<f64> = t
+            .iter()
+            .map(|v| (0.3 * v).sin() + 0.01 * v * v * v)
+            .collect();
         let (_, slope) = local_polynomial(&t, &y, 4, 5, 2).unwrap();
         let classic = (-2.0 * y[2] - y[3] + y[5] + 2.0 * y[6]) / 10.0;
         assert!((slope - classic).abs() < 1e-12, "{slope} vs {classic}");

@@ -28,18 +28,34 @@ impl MonotoneCubic {
     /// Build from points with strictly increasing `x` (at least 2).
     pub fn new(x: Vec<f64>, y: Vec<f64>) -> Result<MonotoneCubic, KineticsError> {
         if x.len() != y.len() {
-            return Err(KineticsError::OutOfRange { name: "number of rates", value: y.len() as f64, reason: "must equal the number of moistures" });
+            return Err(KineticsError::OutOfRange {
+                name: "number of rates",
+                value: y.len() as f64,
+                reason: "must equal the number of moistures",
+            });
         }
         if x.len() < 2 {
-            return Err(KineticsError::TooFewPoints { what: "a rate table", needed: 2, found: x.len() });
+            return Err(KineticsError::TooFewPoints {
+                what: "a rate table",
+                needed: 2,
+                found: x.len(),
+            });
         }
         for pair in x.windows(2) {
-            if !(pair[1] > pair[0]) {
-                return Err(KineticsError::OutOfRange { name: "moisture in rate table", value: pair[1], reason: "appears twice; moistures must be distinct" });
+            if !super::above(pair[1], pair[0]) {
+                return Err(KineticsError::OutOfRange {
+                    name: "moisture in rate table",
+                    value: pair[1],
+                    reason: "appears twice; moistures must be distinct",
+                });
             }
         }
         if let Some(bad) = x.iter().chain(&y).find(|v| !v.is_finite()) {
-            return Err(KineticsError::OutOfRange { name: "rate table entry", value: *bad, reason: "must be finite" });
+            return Err(KineticsError::OutOfRange {
+                name: "rate table entry",
+                value: *bad,
+                reason: "must be finite",
+            });
         }
         let slopes = pchip_slopes(&x, &y);
         Ok(MonotoneCubic { x, y, slopes })
@@ -61,7 +77,10 @@ impl MonotoneCubic {
         let h10 = s * (1.0 - s) * (1.0 - s);
         let h01 = s * s * (3.0 - 2.0 * s);
         let h11 = s * s * (s - 1.0);
-        h00 * self.y[k] + h10 * h * self.slopes[k] + h01 * self.y[k + 1] + h11 * h * self.slopes[k + 1]
+        h00 * self.y[k]
+            + h10 * h * self.slopes[k]
+            + h01 * self.y[k + 1]
+            + h11 * h * self.slopes[k + 1]
     }
 }
 
@@ -126,9 +145,17 @@ impl RateCurve {
 
     /// A measured table: moistures (any order) and rates (kg/(m^2 s), >= 0).
     pub fn table(moistures: &[f64], rates: &[f64]) -> Result<RateCurve, KineticsError> {
-        let mut pairs: Vec<(f64, f64)> = moistures.iter().copied().zip(rates.iter().copied()).collect();
+        let mut pairs: Vec<(f64, f64)> = moistures
+            .iter()
+            .copied()
+            .zip(rates.iter().copied())
+            .collect();
         if moistures.len() != rates.len() {
-            return Err(KineticsError::OutOfRange { name: "number of rates", value: rates.len() as f64, reason: "must equal the number of moistures" });
+            return Err(KineticsError::OutOfRange {
+                name: "number of rates",
+                value: rates.len() as f64,
+                reason: "must equal the number of moistures",
+            });
         }
         for &(x, r) in &pairs {
             non_negative("moisture in rate table", x)?;
@@ -173,9 +200,21 @@ impl RateCurve {
     pub fn scaled(&self, factor: f64) -> Result<RateCurve, KineticsError> {
         positive("rate scale factor", factor)?;
         Ok(match self.clone() {
-            RateCurve::Table(t) => RateCurve::Table(MonotoneCubic::new(t.x, t.y.iter().map(|r| r * factor).collect())?),
-            RateCurve::ConstantLinear { rc, xc, xe } => RateCurve::ConstantLinear { rc: rc * factor, xc, xe },
-            RateCurve::ConstantPower { rc, xc, xe, n } => RateCurve::ConstantPower { rc: rc * factor, xc, xe, n },
+            RateCurve::Table(t) => RateCurve::Table(MonotoneCubic::new(
+                t.x,
+                t.y.iter().map(|r| r * factor).collect(),
+            )?),
+            RateCurve::ConstantLinear { rc, xc, xe } => RateCurve::ConstantLinear {
+                rc: rc * factor,
+                xc,
+                xe,
+            },
+            RateCurve::ConstantPower { rc, xc, xe, n } => RateCurve::ConstantPower {
+                rc: rc * factor,
+                xc,
+                xe,
+                n,
+            },
         })
     }
 }
@@ -184,7 +223,11 @@ fn check_constant_falling(rc: f64, xc: f64, xe: f64) -> Result<(), KineticsError
     positive("constant drying rate", rc)?;
     non_negative("equilibrium moisture", xe)?;
     if !(xc.is_finite() && xc > xe) {
-        return Err(KineticsError::OutOfRange { name: "critical moisture", value: xc, reason: "must exceed the equilibrium moisture" });
+        return Err(KineticsError::OutOfRange {
+            name: "critical moisture",
+            value: xc,
+            reason: "must exceed the equilibrium moisture",
+        });
     }
     Ok(())
 }
@@ -219,12 +262,21 @@ pub struct DryingTime {
 /// Closed forms for the constant + falling models, adaptive quadrature
 /// (relative 1e-9) for a table. Errors: target at or below equilibrium,
 /// start below target, or moistures outside a table.
-pub fn drying_time(curve: &RateCurve, load_kg_per_m2: f64, x_start: f64, x_end: f64) -> Result<DryingTime, KineticsError> {
+pub fn drying_time(
+    curve: &RateCurve,
+    load_kg_per_m2: f64,
+    x_start: f64,
+    x_end: f64,
+) -> Result<DryingTime, KineticsError> {
     check_span(curve, load_kg_per_m2, x_start, x_end)?;
     match *curve {
         RateCurve::Table(_) => numerical_time(curve, load_kg_per_m2, x_start, x_end),
-        RateCurve::ConstantLinear { rc, xc, xe } => Ok(closed_time(rc, xc, xe, 1.0, load_kg_per_m2, x_start, x_end)),
-        RateCurve::ConstantPower { rc, xc, xe, n } => Ok(closed_time(rc, xc, xe, n, load_kg_per_m2, x_start, x_end)),
+        RateCurve::ConstantLinear { rc, xc, xe } => {
+            Ok(closed_time(rc, xc, xe, 1.0, load_kg_per_m2, x_start, x_end))
+        }
+        RateCurve::ConstantPower { rc, xc, xe, n } => {
+            Ok(closed_time(rc, xc, xe, n, load_kg_per_m2, x_start, x_end))
+        }
     }
 }
 
@@ -237,16 +289,27 @@ fn check_span(curve: &RateCurve, load: f64, x_start: f64, x_end: f64) -> Result<
             return Err(KineticsError::OutOfRange { name: "target moisture", value: x_end, reason: "is below the lowest moisture of the measured rate curve; extend the test or use a falling-rate model" });
         }
     }
-    if !(x_end > xe) || curve.rate(x_end) <= 0.0 {
-        return Err(KineticsError::TargetAtOrBelowEquilibrium { target: x_end, equilibrium: xe });
+    if !super::above(x_end, xe) || curve.rate(x_end) <= 0.0 {
+        return Err(KineticsError::TargetAtOrBelowEquilibrium {
+            target: x_end,
+            equilibrium: xe,
+        });
     }
-    if !(x_start > x_end) {
-        return Err(KineticsError::OutOfRange { name: "start moisture", value: x_start, reason: "must exceed the target moisture" });
+    if !super::above(x_start, x_end) {
+        return Err(KineticsError::OutOfRange {
+            name: "start moisture",
+            value: x_start,
+            reason: "must exceed the target moisture",
+        });
     }
     if let RateCurve::Table(t) = curve {
         let top = t.x[t.x.len() - 1];
         if x_start > top {
-            return Err(KineticsError::OutOfRange { name: "start moisture", value: x_start, reason: "is above the highest moisture in the rate table" });
+            return Err(KineticsError::OutOfRange {
+                name: "start moisture",
+                value: x_start,
+                reason: "is above the highest moisture in the rate table",
+            });
         }
     }
     Ok(())
@@ -258,16 +321,30 @@ fn closed_time(rc: f64, xc: f64, xe: f64, n: f64, load: f64, x1: f64, x2: f64) -
     let falling = if x2 < xc {
         let f1 = (x1.min(xc) - xe) / (xc - xe);
         let f2 = (x2 - xe) / (xc - xe);
-        let integral = if (n - 1.0).abs() < 1e-12 { (f1 / f2).ln() } else { (f1.powf(1.0 - n) - f2.powf(1.0 - n)) / (1.0 - n) };
+        let integral = if (n - 1.0).abs() < 1e-12 {
+            (f1 / f2).ln()
+        } else {
+            (f1.powf(1.0 - n) - f2.powf(1.0 - n)) / (1.0 - n)
+        };
         (xc - xe) / rc * integral
     } else {
         0.0
     };
-    DryingTime { total_s: load * (constant + falling), constant_s: load * constant, falling_s: load * falling, error_s: 0.0 }
+    DryingTime {
+        total_s: load * (constant + falling),
+        constant_s: load * constant,
+        falling_s: load * falling,
+        error_s: 0.0,
+    }
 }
 
 /// Drying time by adaptive quadrature of `1/R(X)`, for any curve.
-pub fn numerical_time(curve: &RateCurve, load_kg_per_m2: f64, x_start: f64, x_end: f64) -> Result<DryingTime, KineticsError> {
+pub fn numerical_time(
+    curve: &RateCurve,
+    load_kg_per_m2: f64,
+    x_start: f64,
+    x_end: f64,
+) -> Result<DryingTime, KineticsError> {
     check_span(curve, load_kg_per_m2, x_start, x_end)?;
     let inverse = |x: f64| 1.0 / curve.rate(x);
     let split = curve.critical().filter(|xc| *xc > x_end && *xc < x_start);
@@ -286,7 +363,12 @@ pub fn numerical_time(curve: &RateCurve, load_kg_per_m2: f64, x_start: f64, x_en
         }
     };
     let load = load_kg_per_m2;
-    Ok(DryingTime { total_s: load * (constant + falling), constant_s: load * constant, falling_s: load * falling, error_s: load * error })
+    Ok(DryingTime {
+        total_s: load * (constant + falling),
+        constant_s: load * constant,
+        falling_s: load * falling,
+        error_s: load * error,
+    })
 }
 
 #[cfg(test)]
@@ -301,7 +383,10 @@ mod tests {
             for (x1, x2) in [(1.3, 0.12), (0.5, 0.1), (1.3, 0.8), (2.0, 0.051)] {
                 let a = drying_time(&curve, 18.0, x1, x2).unwrap();
                 let b = numerical_time(&curve, 18.0, x1, x2).unwrap();
-                assert!((a.total_s / b.total_s - 1.0).abs() < 1e-8, "{curve:?} {x1}->{x2}: {a:?} {b:?}");
+                assert!(
+                    (a.total_s / b.total_s - 1.0).abs() < 1e-8,
+                    "{curve:?} {x1}->{x2}: {a:?} {b:?}"
+                );
                 assert!((a.constant_s - b.constant_s).abs() <= 1e-8 * a.total_s);
             }
         }
@@ -314,8 +399,14 @@ mod tests {
         assert!(e.to_string().contains("0.05"), "{e}");
         assert!(drying_time(&c, 10.0, 1.0, 0.01).is_err());
         let t = RateCurve::table(&[0.05, 0.3, 0.6, 1.0], &[0.0, 5e-4, 1e-3, 1e-3]).unwrap();
-        assert!(matches!(drying_time(&t, 10.0, 0.9, 0.05), Err(KineticsError::TargetAtOrBelowEquilibrium { .. })));
-        assert!(drying_time(&t, 10.0, 1.5, 0.1).is_err(), "start above the table");
+        assert!(matches!(
+            drying_time(&t, 10.0, 0.9, 0.05),
+            Err(KineticsError::TargetAtOrBelowEquilibrium { .. })
+        ));
+        assert!(
+            drying_time(&t, 10.0, 1.5, 0.1).is_err(),
+            "start above the table"
+        );
     }
 
     /// Common practice: the last part of the moisture takes the longest to
@@ -325,8 +416,14 @@ mod tests {
     fn last_part_takes_longest() {
         let c = RateCurve::constant_linear(1e-3, 0.6, 0.05).unwrap();
         let edges: Vec<f64> = (0..=10).map(|i| 1.3 - 0.118 * i as f64).collect();
-        let times: Vec<f64> = edges.windows(2).map(|w| drying_time(&c, 18.0, w[0], w[1]).unwrap().total_s).collect();
-        assert!(times.windows(2).all(|w| w[1] >= w[0] * (1.0 - 1e-12)), "{times:?}");
+        let times: Vec<f64> = edges
+            .windows(2)
+            .map(|w| drying_time(&c, 18.0, w[0], w[1]).unwrap().total_s)
+            .collect();
+        assert!(
+            times.windows(2).all(|w| w[1] >= w[0] * (1.0 - 1e-12)),
+            "{times:?}"
+        );
         assert!(times[9] > 2.0 * times[0], "{times:?}");
         let split = drying_time(&c, 18.0, 1.3, 0.12).unwrap();
         assert!(split.falling_s > split.constant_s, "{split:?}");

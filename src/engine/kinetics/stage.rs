@@ -56,7 +56,14 @@ impl DryingStage {
 /// `critical` when given (e.g. the critical moisture found in a test for a
 /// measured curve), else at the curve's own critical moisture. A curve with
 /// neither is one falling-rate stage.
-pub fn stages(curve: &RateCurve, load_kg_per_m2: f64, x_start: f64, x_end: f64, critical: Option<f64>, conditions: &str) -> Result<Vec<DryingStage>, KineticsError> {
+pub fn stages(
+    curve: &RateCurve,
+    load_kg_per_m2: f64,
+    x_start: f64,
+    x_end: f64,
+    critical: Option<f64>,
+    conditions: &str,
+) -> Result<Vec<DryingStage>, KineticsError> {
     // Validates the whole span first (target above equilibrium and so on).
     drying_time(curve, load_kg_per_m2, x_start, x_end)?;
     let mut out = Vec::new();
@@ -64,23 +71,66 @@ pub fn stages(curve: &RateCurve, load_kg_per_m2: f64, x_start: f64, x_end: f64, 
         Some(xc) if xc > x_end && xc < x_start => {
             let constant = drying_time(curve, load_kg_per_m2, x_start, xc)?.total_s;
             let falling = drying_time(curve, load_kg_per_m2, xc, x_end)?.total_s;
-            out.push(stage(StageKind::ConstantRate, curve, x_start, xc, constant, conditions));
-            out.push(stage(StageKind::FallingRate, curve, xc, x_end, falling, conditions));
+            out.push(stage(
+                StageKind::ConstantRate,
+                curve,
+                x_start,
+                xc,
+                constant,
+                conditions,
+            ));
+            out.push(stage(
+                StageKind::FallingRate,
+                curve,
+                xc,
+                x_end,
+                falling,
+                conditions,
+            ));
         }
         Some(xc) if xc <= x_end => {
             let t = drying_time(curve, load_kg_per_m2, x_start, x_end)?.total_s;
-            out.push(stage(StageKind::ConstantRate, curve, x_start, x_end, t, conditions));
+            out.push(stage(
+                StageKind::ConstantRate,
+                curve,
+                x_start,
+                x_end,
+                t,
+                conditions,
+            ));
         }
         _ => {
             let t = drying_time(curve, load_kg_per_m2, x_start, x_end)?.total_s;
-            out.push(stage(StageKind::FallingRate, curve, x_start, x_end, t, conditions));
+            out.push(stage(
+                StageKind::FallingRate,
+                curve,
+                x_start,
+                x_end,
+                t,
+                conditions,
+            ));
         }
     }
     Ok(out)
 }
 
-fn stage(kind: StageKind, curve: &RateCurve, x_start: f64, x_end: f64, duration_s: f64, conditions: &str) -> DryingStage {
-    DryingStage { kind, x_start, x_end, duration_s, rate_start: curve.rate(x_start), rate_end: curve.rate(x_end), conditions: conditions.to_string() }
+fn stage(
+    kind: StageKind,
+    curve: &RateCurve,
+    x_start: f64,
+    x_end: f64,
+    duration_s: f64,
+    conditions: &str,
+) -> DryingStage {
+    DryingStage {
+        kind,
+        x_start,
+        x_end,
+        duration_s,
+        rate_start: curve.rate(x_start),
+        rate_end: curve.rate(x_end),
+        conditions: conditions.to_string(),
+    }
 }
 
 /// Total duration of a chain of stages, s; errors when consecutive stages
@@ -89,7 +139,11 @@ fn stage(kind: StageKind, curve: &RateCurve, x_start: f64, x_end: f64, duration_
 pub fn chain_duration(chain: &[DryingStage]) -> Result<f64, KineticsError> {
     for pair in chain.windows(2) {
         if (pair[0].x_end - pair[1].x_start).abs() > 1e-9 {
-            return Err(KineticsError::OutOfRange { name: "stage start moisture", value: pair[1].x_start, reason: "does not match the end moisture of the previous stage" });
+            return Err(KineticsError::OutOfRange {
+                name: "stage start moisture",
+                value: pair[1].x_start,
+                reason: "does not match the end moisture of the previous stage",
+            });
         }
     }
     Ok(chain.iter().map(|s| s.duration_s).sum())
