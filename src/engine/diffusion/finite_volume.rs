@@ -791,3 +791,115 @@ mod tests {
         }
     }
 }
+
+#[cfg(test)]
+mod time_and_shrinkage_tests {
+    use super::super::super::integrate::gauss_kronrod;
+    use super::super::{CrankSeries, Shape};
+    use super::*;
+
+    /// Fo(t) = integral of D(T(t')) dt' / L^2 by adaptive quadrature.
+    fn fourier_integral(p: &DiffusionProblem, t: f64) -> f64 {
+        let d = |tau: f64| p.diffusivity.at(p.x_equilibrium, p.temperature.at(tau));
+        let split = 10_800f64.min(t);
+        let a = gauss_kronrod(d, 0.0, split, 1e-12, 0.0).map_or(f64::NAN, |q| q.value);
+        let b = gauss_kronrod(d, split, t, 1e-12, 0.0).map_or(f64::NAN, |q| q.value);
+        (a + b) / (p.body.length_m * p.body.length_m)
+    }
+
+    fn base() -> DiffusionProblem {
+        DiffusionProblem {
+            body: Body {
+                shape: Shape::Slab,
+                length_m: 0.004,
+            },
+            x_initial: 2.0,
+            x_equilibrium: 0.1,
+            diffusivity: Diffusivity {
+                reference_m2_per_s: 3e-10,
+                activation_energy_j_per_mol: 35_000.0,
+                reference_temperature_k: 323.15,
+                moisture_coefficient: 0.0,
+                reference_moisture: 0.1,
+            },
+            temperature: ProductTemperature::Constant(323.15),
+            surface: Surface::Equilibrium,
+            shrinkage: 0.0,
+        }
+    }
+
+    /// A D that depends on time only keeps Crank's solution with
+    /// Fo = integral of D dt / L^2 (Crank 1975, sec. 7.1, time-dependent
+    /// diffusion coefficient). Product heated from 40 to 80 degC over 3 h.
+    #[test]
+    fn temperature_schedule_matches_series_in_integrated_time() {
+        let mut p = base();
+        p.temperature = ProductTemperature::Schedule(vec![(0.0, 313.15), (10_800.0, 353.15)]);
+        let run = solve_drying(&p, &SolverSettings::default()).unwrap();
+        let series = CrankSeries::new(Shape::Slab, None, 1e-8).unwrap();
+        let worst = run
+            .times_s
+            .iter()
+            .zip(&run.ratios)
+            .filter(|(_, r)| **r >= 0.01)
+            .map(|(t, r)| {
+                let fo = fourier_integral(&p, *t);
+                (r / series.moisture_ratio(fo) - 1.0).abs()
+            })
+            .fold(0.0, f64::max);
+        assert!(worst < 1e-3, "worst relative MR error {worst:.2e}");
+    }
+
+    /// Shrinkage shortens the diffusion path: drying is faster than for a
+    /// rigid body with the same D, the final size follows the volume law,
+    /// and the result converges under mesh and tolerance refinement.
+    #[test]
+    fn shrinkage_speeds_drying_and_converges() {
+        let mut p = base();
+        p.diffusivity.activation_energy_j_per_mol = 0.0;
+        let rigid = solve_drying(&p, &SolverSettings::default()).unwrap();
+        p.shrinkage = 1.3;
+        let coarse = solve_drying(&p, &SolverSettings::default()).unwrap();
+        let fine = solve_drying(
+            &p,
+            &SolverSettings {
+                cells: 300,
+                rel_tol: 2e-7,
+                ..SolverSettings::default()
+            },
+        )
+        .unwrap();
+        assert!(
+            coarse.time_to_target_s < 0.9 * rigid.time_to_target_s,
+            "{} vs {}",
+            coarse.time_to_target_s,
+            rigid.time_to_target_s
+        );
+        assert!((coarse.time_to_target_s / fine.time_to_target_s - 1.0).abs() < 1e-3);
+        let mean = 0.1 + 0.01 * (2.0 - 0.1);
+        let expected = 0.004 * (1.0 + 1.3 * mean) / (1.0 + 1.3 * 2.0);
+        assert!(
+            (coarse.final_length_m / expected - 1.0).abs() < 0.02,
+            "{} vs {expected}",
+            coarse.final_length_m
+        );
+    }
+
+    #[test]
+    fn bad_problems_are_errors() {
+        let mut p = base();
+        p.diffusivity.reference_m2_per_s = -1e-10;
+        assert!(matches!(
+            solve_drying(&p, &SolverSettings::default()),
+            Err(KineticsError::NegativeDiffusivity { .. })
+        ));
+        let mut p = base();
+        p.x_initial = 0.05;
+        assert!(solve_drying(&p, &SolverSettings::default()).is_err());
+        let s = SolverSettings {
+            target_ratio: 0.0,
+            ..SolverSettings::default()
+        };
+        assert!(solve_drying(&base(), &s).is_err());
+    }
+}

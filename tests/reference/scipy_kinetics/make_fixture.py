@@ -16,6 +16,7 @@ import pathlib
 import numpy as np
 import scipy
 from scipy import integrate, interpolate, optimize, special
+from scipy.integrate import solve_ivp
 
 OUT = pathlib.Path(__file__).with_name("fixture.json")
 SUITE_DATA = pathlib.Path(__file__).resolve().parents[2] / "suite" / "kinetics" / "data"
@@ -199,6 +200,50 @@ def diffusivity_case():
             "d_std_error": float(np.sqrt(cov[0, 0])) * 1e-10}
 
 
+def graded_faces(length, cells, grading):
+    """Outer face radii, cell sizes growing geometrically from the surface inward."""
+    q = grading ** (1.0 / (cells - 1))
+    sizes = q ** np.arange(cells - 1, -1, -1, dtype=float)
+    faces = np.cumsum(sizes * length / sizes.sum())
+    faces[-1] = length
+    return faces
+
+
+def method_of_lines_cases():
+    """The finite-volume equations of src/engine/diffusion/finite_volume.rs
+    (no shrinkage, surface at equilibrium, D(X) = D exp(a (X - Xe))) solved
+    by scipy's solve_ivp (BDF, rtol 1e-10): time to MR = 0.01. An outside
+    check of our time integration on a nonlinear problem."""
+    cases = []
+    for shape, s_exp, length in [("slab", 0, 0.005), ("sphere", 2, 0.004)]:
+        x0, xe, d_ref, a, cells, grading = 3.0, 0.1, 2e-10, 0.6, 100, 30.0
+        r = graded_faces(length, cells, grading)
+        inner = np.concatenate([[0.0], r[:-1]])
+        c = 0.5 * (inner + r)
+        solid = (r ** (s_exp + 1) - inner ** (s_exp + 1)) / (s_exp + 1)
+        area = r ** s_exp
+        gap = np.diff(c)
+        half = r[-1] - c[-1]
+        d = lambda x: d_ref * np.exp(a * (x - xe))
+
+        def rhs(_t, x):
+            dx = d(x)
+            flux = np.empty_like(x)
+            flux[:-1] = area[:-1] * 0.5 * (dx[:-1] + dx[1:]) * (x[:-1] - x[1:]) / gap
+            flux[-1] = area[-1] * 0.5 * (dx[-1] + d(xe)) * (x[-1] - xe) / half
+            out = -flux / solid
+            out[1:] += flux[:-1] / solid[1:]
+            return out
+
+        ratio = lambda x: (np.dot(solid, x) / solid.sum() - xe) / (x0 - xe)
+        event = lambda _t, x: ratio(x) - 0.01
+        event.terminal = True
+        sol = solve_ivp(rhs, (0.0, 1e8), np.full(cells, x0), method="BDF", rtol=1e-10, atol=1e-12, events=event)
+        cases.append({"shape": shape, "length_m": length, "x0": x0, "xe": xe, "d_ref": d_ref, "a": a, "cells": cells,
+                      "grading": grading, "time_to_0_01_s": float(sol.t_events[0][0])})
+    return cases
+
+
 def main():
     fixture = {
         "generator": "tests/reference/scipy_kinetics/make_fixture.py",
@@ -209,6 +254,7 @@ def main():
         "drying_time": drying_time_cases(),
         "thin_layer": thin_layer_cases(),
         "diffusivity": diffusivity_case(),
+        "method_of_lines": method_of_lines_cases(),
     }
     OUT.write_text(json.dumps(fixture, indent=1) + "\n")
     print(f"wrote {OUT}")
