@@ -100,13 +100,25 @@ impl fmt::Display for RangeWarning {
     }
 }
 
-/// Four significant figures, without trailing noise.
+/// Four significant figures, without trailing noise; powers of ten for very
+/// large or small magnitudes (Reynolds numbers read as 5e5, not 500000).
 fn sig(x: f64) -> String {
     if x == 0.0 || !x.is_finite() {
         return format!("{x}");
     }
-    let digits = (3 - x.abs().log10().floor() as i32).max(0) as usize;
-    format!("{x:.digits$}")
+    let magnitude = x.abs().log10().floor() as i32;
+    if !(-3..5).contains(&magnitude) {
+        let mantissa = format!("{:.3}", x / 10f64.powi(magnitude));
+        let mantissa = mantissa.trim_end_matches('0').trim_end_matches('.');
+        return format!("{mantissa}e{magnitude}");
+    }
+    let digits = (3 - magnitude).max(0) as usize;
+    let text = format!("{x:.digits$}");
+    if text.contains('.') {
+        text.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        text
+    }
 }
 
 /// Check `value` against `[low, high]` and record a warning when outside.
@@ -176,5 +188,63 @@ pub(crate) fn positive(
         Ok(value)
     } else {
         Err(TransferError::NotPositive { name, value, unit })
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn warning_text_is_readable() {
+        let w = RangeWarning {
+            correlation: "c",
+            input: "Re",
+            value: 1.0e5,
+            low: 5.0e5,
+            high: 1.0e8,
+            unit: "",
+        };
+        assert_eq!(
+            w.to_string(),
+            "c: Re = 1e5 is outside the fitted range 5e5-1e8; the value is an extrapolation"
+        );
+        let w = RangeWarning {
+            correlation: "c",
+            input: "G",
+            value: 2400.0,
+            low: 2450.0,
+            high: 29300.0,
+            unit: "kg/(m^2 h)",
+        };
+        assert!(w
+            .to_string()
+            .contains("G = 2400 kg/(m^2 h) is outside the fitted range 2450-29300 kg/(m^2 h)"));
+        let w = RangeWarning {
+            correlation: "c",
+            input: "Re Pr",
+            value: 0.1234,
+            low: 0.2,
+            high: f64::INFINITY,
+            unit: "",
+        };
+        assert!(
+            w.to_string()
+                .contains("Re Pr = 0.1234 is outside the fitted range at least 0.2"),
+            "{w}"
+        );
+        let w = RangeWarning {
+            correlation: "c",
+            input: "T",
+            value: 30.0,
+            low: 45.0,
+            high: 150.0,
+            unit: "degC",
+        };
+        assert!(
+            w.to_string()
+                .contains("T = 30 degC is outside the fitted range 45-150 degC"),
+            "{w}"
+        );
     }
 }

@@ -15,14 +15,15 @@ use uom::si::f64::{
 };
 
 use super::{Args, Builtin};
-use crate::diag::Diagnostic;
+use crate::diag::{Diagnostic, Span};
 use crate::engine::air::AirState;
 use crate::engine::transfer::{
     self as engine, Correlated, ExtraHeat, Layer, PlateFlow, Radiation, TransferError, TrayBottom,
     WetSurface,
 };
 use crate::engine::transport::Transport;
-use crate::units::{Dim, Kind, Quantity};
+use crate::library::air::AirPayload;
+use crate::units::{parse_unit, Dim, Kind, Quantity};
 use crate::value::{Payload, Record, Value};
 
 mod params;
@@ -239,30 +240,6 @@ pub const BUILTINS: &[Builtin] = &[
         func: reynolds,
     },
     Builtin {
-        name: "prandtl",
-        family: "transfer",
-        params: AIR_ONLY,
-        returns: "Prandtl number (plain)",
-        doc: "Prandtl number cp mu / k of humid air.",
-        method: "definition; properties from the air engine",
-        source: "definition (Incropera and DeWitt, ch. 6)",
-        validity: "as the air engine's transport properties",
-        example: "prandtl(air(T: 70 degC, rh: 4 %))",
-        func: prandtl,
-    },
-    Builtin {
-        name: "schmidt",
-        family: "transfer",
-        params: AIR_ONLY,
-        returns: "Schmidt number (plain)",
-        doc: "Schmidt number mu / (rho D) of water vapour in humid air.",
-        method: "definition; properties from the air engine",
-        source: "definition (Incropera and DeWitt, ch. 6)",
-        validity: "as the air engine's transport properties",
-        example: "schmidt(air(T: 70 degC, rh: 4 %))",
-        func: schmidt,
-    },
-    Builtin {
         name: "nusselt",
         family: "transfer",
         params: NUSSELT,
@@ -345,8 +322,8 @@ pub const BUILTINS: &[Builtin] = &[
 fn air_arg(args: &mut Args, name: &str) -> Result<AirState, Diagnostic> {
     let span = args.span_of(name);
     let record = args.record(name, "air")?;
-    if let Some(state) = record.payload::<AirState>() {
-        return Ok(*state);
+    if let Some(state) = record.payload::<AirPayload>() {
+        return Ok(state.0);
     }
     air_from_fields(&record).ok_or_else(|| {
         Diagnostic::error(span, "this air record has no T, w and p to read")
@@ -375,24 +352,26 @@ fn opt_air(args: &mut Args, name: &str) -> Result<Option<AirState>, Diagnostic> 
 
 /// A required quantity of `dim` that must be positive and finite; SI magnitude.
 fn positive(args: &mut Args, name: &str, dim: Dim) -> Result<f64, Diagnostic> {
+    let span = args.span_of(name);
     let q = args.quantity(name, dim)?;
-    check_positive(args, name, q)
+    check_positive(span, name, q)
 }
 
 fn opt_positive(args: &mut Args, name: &str, dim: Dim) -> Result<Option<f64>, Diagnostic> {
+    let span = args.span_of(name);
     match args.opt_quantity(name, dim)? {
-        Some(q) => check_positive(args, name, q).map(Some),
+        Some(q) => check_positive(span, name, q).map(Some),
         None => Ok(None),
     }
 }
 
-fn check_positive(args: &Args, name: &str, q: Quantity) -> Result<f64, Diagnostic> {
+fn check_positive(span: Span, name: &str, q: Quantity) -> Result<f64, Diagnostic> {
     if q.si > 0.0 && q.si.is_finite() {
         Ok(q.si)
     } else {
         let unit = q.dim.si_unit();
-        Err(args.error_at(
-            name,
+        Err(Diagnostic::error(
+            span,
             format!("`{name}` must be positive, got {} {unit}", q.si),
         ))
     }
@@ -400,20 +379,25 @@ fn check_positive(args: &Args, name: &str, q: Quantity) -> Result<f64, Diagnosti
 
 /// A plain (dimensionless) number.
 fn plain(args: &mut Args, name: &str) -> Result<f64, Diagnostic> {
+    let span = args.span_of(name);
     let q = args.quantity(name, Dim::NONE)?;
     if q.si.is_finite() {
         Ok(q.si)
     } else {
-        Err(args.error_at(name, format!("`{name}` must be a finite number")))
+        Err(Diagnostic::error(
+            span,
+            format!("`{name}` must be a finite number"),
+        ))
     }
 }
 
 /// An optional absolute temperature, kelvin.
 fn opt_temperature(args: &mut Args, name: &str) -> Result<Option<f64>, Diagnostic> {
+    let span = args.span_of(name);
     match args.opt_quantity(name, Dim::TEMPERATURE)? {
         Some(q) if q.si > 0.0 && q.si.is_finite() => Ok(Some(q.si)),
-        Some(q) => Err(args.error_at(
-            name,
+        Some(q) => Err(Diagnostic::error(
+            span,
             format!("`{name}` must be above absolute zero, got {} K", q.si),
         )),
         None => Ok(None),
@@ -470,6 +454,12 @@ fn quantity(si: f64, dim: Dim) -> Value {
     Value::Quantity(Quantity::new(si, dim, Kind::Plain), None)
 }
 
+/// A quantity shown in the trade's usual unit (`text` parsed by the unit
+/// table; the value itself stays SI).
+fn shown(si: f64, dim: Dim, text: &str) -> Value {
+    Value::Quantity(Quantity::new(si, dim, Kind::Plain), parse_unit(text).ok())
+}
+
 fn number(x: f64) -> Value {
     Value::Quantity(Quantity::number(x), None)
 }
@@ -502,8 +492,12 @@ fn film_properties(
         None => *air,
         Some(ts) => {
             let t_film = kelvin(0.5 * (air.t_kelvin() + ts));
-            AirState::from_w(t_film, air.humidity_ratio(), air.pressure())
-                .map_err(|e| args.error_at("surface", format!("film temperature: {e}")))?
+            AirState::from_w(t_film, air.humidity_ratio(), air.pressure()).map_err(|e| {
+                Diagnostic::error(
+                    args.call_span,
+                    format!("film temperature from `surface`: {e}"),
+                )
+            })?
         }
     };
     Ok(Transport::of(&state))
@@ -529,9 +523,10 @@ fn mass_velocity(args: &mut Args) -> Result<Value, Diagnostic> {
     }
     .map_err(|e| engine_error(args, e))?;
     args.finish()?;
-    Ok(quantity(
+    Ok(shown(
         g.get::<uom::si::mass_flux::kilogram_per_square_meter_second>(),
         Dim::MASS_FLUX,
+        "kg/(m^2*h)",
     ))
 }
 
@@ -540,8 +535,8 @@ fn velocity_from_flows(args: &mut Args, air: &AirState) -> Result<f64, Diagnosti
     let mass = opt_positive(args, "mass_flow", Dim::MASS_FLOW)?;
     let volume = opt_positive(args, "volume_flow", Dim::VOLUME_FLOW)?;
     let need = "give `velocity`, or `mass_flow` or `volume_flow` with `area`";
-    let area = match args.opt_quantity("area", Dim::AREA)? {
-        Some(q) => check_positive(args, "area", q)?,
+    let area = match opt_positive(args, "area", Dim::AREA)? {
+        Some(a) => a,
         None => {
             return Err(Diagnostic::error(
                 args.call_span,
@@ -828,18 +823,6 @@ fn reynolds(args: &mut Args) -> Result<Value, Diagnostic> {
     Ok(number(flow.re))
 }
 
-fn prandtl(args: &mut Args) -> Result<Value, Diagnostic> {
-    let air = air_arg(args, "air")?;
-    args.finish()?;
-    Ok(number(Transport::of(&air).prandtl()))
-}
-
-fn schmidt(args: &mut Args) -> Result<Value, Diagnostic> {
-    let air = air_arg(args, "air")?;
-    args.finish()?;
-    Ok(number(Transport::of(&air).schmidt()))
-}
-
 fn nusselt(args: &mut Args) -> Result<Value, Diagnostic> {
     let h = positive(args, "h", Dim::HEAT_TRANSFER_COEFFICIENT)?;
     let length = positive(args, "length", Dim::LENGTH)?;
@@ -917,11 +900,12 @@ impl Payload for WetSurface {
 }
 
 fn radiation_arg(args: &mut Args) -> Result<Option<Radiation>, Diagnostic> {
+    let eps_span = args.span_of("emissivity");
     let eps = match args.opt_quantity("emissivity", Dim::NONE)? {
         Some(q) if (0.0..=1.0).contains(&q.si) => Some(q.si),
         Some(q) => {
-            return Err(args.error_at(
-                "emissivity",
+            return Err(Diagnostic::error(
+                eps_span,
                 format!("`emissivity` must be between 0 and 1, got {}", q.si),
             ))
         }
@@ -934,8 +918,8 @@ fn radiation_arg(args: &mut Args) -> Result<Option<Radiation>, Diagnostic> {
             emissivity: eps.unwrap_or(0.92),
             wall: kelvin(tw),
         })),
-        (Some(_), None) => Err(args.error_at(
-            "emissivity",
+        (Some(_), None) => Err(Diagnostic::error(
+            eps_span,
             "radiation needs the temperature of the surroundings, `wall`",
         )),
     }
@@ -963,6 +947,7 @@ fn layer_arg(
     thickness: &str,
     conductivity: &str,
 ) -> Result<Option<Layer>, Diagnostic> {
+    let (z_span, k_span) = (args.span_of(thickness), args.span_of(conductivity));
     let z = opt_positive(args, thickness, Dim::LENGTH)?;
     let k = opt_positive(args, conductivity, Dim::THERMAL_CONDUCTIVITY)?;
     match (z, k) {
@@ -973,12 +958,12 @@ fn layer_arg(
                 uom::si::thermal_conductivity::watt_per_meter_kelvin,
             >(k),
         })),
-        (Some(_), None) => Err(args.error_at(
-            thickness,
+        (Some(_), None) => Err(Diagnostic::error(
+            z_span,
             format!("give `{conductivity}` with `{thickness}`"),
         )),
-        (None, Some(_)) => Err(args.error_at(
-            conductivity,
+        (None, Some(_)) => Err(Diagnostic::error(
+            k_span,
             format!("give `{thickness}` with `{conductivity}`"),
         )),
     }
@@ -1026,7 +1011,15 @@ fn surface_record(s: WetSurface, h: f64) -> Record {
                 None,
             ),
         )
-        .with("Rc", kg_m2_s(s.rate))
+        .with(
+            "Rc",
+            shown(
+                s.rate
+                    .get::<uom::si::mass_flux::kilogram_per_square_meter_second>(),
+                Dim::MASS_FLUX,
+                "kg/(m^2*h)",
+            ),
+        )
         .with("q", q(s.heat_flux))
         .with("q_conv", q(s.convective))
         .with("q_rad", q(s.radiative))
@@ -1047,25 +1040,36 @@ fn surface_record(s: WetSurface, h: f64) -> Record {
 
 /// A dry-basis moisture content: kind Moisture or a plain number.
 fn moisture(args: &mut Args, name: &str) -> Result<f64, Diagnostic> {
+    let span = args.span_of(name);
     let q = args.quantity(name, Dim::NONE)?;
     match q.kind {
         Kind::Moisture | Kind::Plain if q.si.is_finite() && q.si >= 0.0 => Ok(q.si),
-        Kind::Moisture | Kind::Plain => Err(args.error_at(
-            name,
+        Kind::Moisture | Kind::Plain => Err(Diagnostic::error(
+            span,
             format!(
                 "`{name}` must be a moisture content of at least 0, got {}",
                 q.si
             ),
         )),
-        _ => Err(args
-            .error_at(
-                name,
-                format!(
-                    "`{name}` must be a solid moisture content (dry basis), not {:?}",
-                    q.kind
-                ),
-            )
-            .with_hint("write moisture on the dry basis, e.g. `1.6 db`")),
+        other => Err(Diagnostic::error(
+            span,
+            format!(
+                "`{name}` must be a solid moisture content (dry basis), not {}",
+                kind_words(other)
+            ),
+        )
+        .with_hint("write moisture on the dry basis, e.g. `1.6 db`")),
+    }
+}
+
+fn kind_words(kind: Kind) -> &'static str {
+    match kind {
+        Kind::HumidityRatio => "an air humidity ratio",
+        Kind::Activity => "a relative humidity or water activity",
+        Kind::Fraction => "a plain fraction or percentage",
+        Kind::AbsoluteTemperature => "an absolute temperature",
+        Kind::TemperatureDifference => "a temperature difference",
+        Kind::Moisture | Kind::Plain => "a plain number",
     }
 }
 
@@ -1079,7 +1083,7 @@ fn constant_rate_time(args: &mut Args) -> Result<Value, Diagnostic> {
         ArealMassDensity::new::<uom::si::areal_mass_density::kilogram_per_square_meter>(load);
     let t = engine::constant_rate_time(load, x1, x2, mass_flux_si(rc.si))
         .map_err(|e| engine_error(args, e))?;
-    Ok(quantity(t.get::<uom::si::time::second>(), Dim::TIME))
+    Ok(shown(t.get::<uom::si::time::second>(), Dim::TIME, "h"))
 }
 
 #[cfg(test)]

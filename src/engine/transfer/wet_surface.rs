@@ -632,6 +632,17 @@ mod tests {
         }
     }
 
+    /// Cold dry air puts the wet-bulb below 0 degC: a value with a warning
+    /// that the surface would freeze.
+    #[test]
+    fn frozen_surface_is_warned() {
+        let a = air_rh(3.0, 0.2);
+        let s = wet_surface(&a, h(20.0), &ExtraHeat::default()).unwrap();
+        assert!(c(s.temperature) < 0.0, "{}", c(s.temperature));
+        assert_eq!(s.warnings.len(), 1);
+        assert!(s.warnings[0].to_string().contains("surface temperature"));
+    }
+
     /// Air hotter than the boiling point still gives a surface below boiling.
     #[test]
     fn superheated_air_surface_stays_below_boiling() {

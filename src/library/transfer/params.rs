@@ -172,8 +172,6 @@ pub const REYNOLDS: &[Param] = &[
     SURFACE,
 ];
 
-pub const AIR_ONLY: &[Param] = &[AIR];
-
 pub const NUSSELT: &[Param] = &[
     req("h", "W/(m^2*K)", "heat-transfer coefficient"),
     req("length", "m", "characteristic length"),
