@@ -83,3 +83,17 @@ fn every_factor_matches_pint() {
         failures.join("\n")
     );
 }
+
+#[test]
+fn every_catalogued_unit_is_in_the_fixture() {
+    let rows = rows();
+    let missing: Vec<&str> = siccant::units::unit_names()
+        .into_iter()
+        .filter(|n| !matches!(*n, "wb" | "%wb")) // not linear; see the README
+        .filter(|n| !rows.iter().any(|r| r.siccant == *n))
+        .collect();
+    assert!(
+        missing.is_empty(),
+        "units missing from the pint fixture: {missing:?}"
+    );
+}

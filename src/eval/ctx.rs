@@ -7,7 +7,7 @@ use std::path::PathBuf;
 use super::ops::{self, dim_words, OpError};
 use super::{DefKind, Limits, Sheet, Sources};
 use crate::diag::{Diagnostic, Span};
-use crate::library::{closest, type_word};
+use crate::library::type_word;
 use crate::syntax::{BinaryOp, Expr, ExprKind, UnaryOp, UnitExpr, UnitKind};
 use crate::units::{lookup_unit, suggest_unit, Quantity, Unit};
 use crate::value::{Record, Value};
@@ -59,7 +59,12 @@ pub struct Ctx<'a> {
     pub load_stack: Vec<PathBuf>,
     /// Depth of user-function calls and loads.
     pub depth: usize,
+    /// Expressions being evaluated, nested (guards the native stack).
+    nesting: usize,
 }
+
+/// Most expression evaluations nested inside one another (across calls).
+pub const MAX_NESTING: usize = 1500;
 
 impl<'a> Ctx<'a> {
     /// A context evaluating `sheet`.
@@ -82,7 +87,14 @@ impl<'a> Ctx<'a> {
             failed: HashSet::new(),
             load_stack: Vec::new(),
             depth: 0,
+            nesting: 0,
         }
+    }
+
+    /// Treat these names as already failed and reported (e.g. caught in a
+    /// cycle, or on a line that did not parse), so uses of them stay silent.
+    pub fn mark_failed<'n>(&mut self, names: impl IntoIterator<Item = &'n String>) {
+        self.failed.extend(names.into_iter().cloned());
     }
 
     /// Count one step against the budget; check the interrupt flag now and then.
@@ -123,13 +135,11 @@ impl<'a> Ctx<'a> {
         if self.failed.contains(name) {
             return Err(Stop::Reported);
         }
-        let def = self
-            .sheet
-            .defs
-            .get(name)
-            .cloned()
-            .ok_or_else(|| self.undefined(name, use_span))?;
-        if def.kind == DefKind::Function {
+        let (kind, expr) = match self.sheet.defs.get(name) {
+            Some(d) => (d.kind, d.expr.clone()),
+            None => return Err(self.undefined(name, use_span)),
+        };
+        if kind == DefKind::Function {
             let msg = format!("`{name}` is a function; call it with arguments, e.g. `{name}(...)`");
             return Err(Diagnostic::error(use_span, msg).into());
         }
@@ -137,14 +147,14 @@ impl<'a> Ctx<'a> {
             let chain = format!("{} -> {name}", self.active.join(" -> "));
             return Err(Diagnostic::error(use_span, format!("cycle: {chain}")).into());
         }
-        let overridden = (def.kind == DefKind::Input)
+        let overridden = (kind == DefKind::Input)
             .then(|| self.sheet.overrides.get(name).cloned())
             .flatten();
         self.active.push(name.to_string());
         let saved = self.frame.take();
         let result = match overridden {
             Some(v) => Ok(v),
-            None => self.expr(&def.expr),
+            None => self.expr(&expr),
         };
         self.frame = saved;
         self.active.pop();
@@ -171,7 +181,7 @@ impl<'a> Ctx<'a> {
             d = d.with_hint(format!(
                 "`{name}` is a unit; write a number before it (`1 {name}`), and compound units without spaces (`14 kg/m^2`)"
             ));
-        } else if let Some(best) = closest(name, &names) {
+        } else if let Some(best) = super::suggest(name, &names) {
             d = d.with_hint(format!("did you mean `{best}`?"));
         }
         Stop::Error(d)
@@ -180,6 +190,19 @@ impl<'a> Ctx<'a> {
     /// Evaluate an expression.
     pub fn expr(&mut self, e: &Expr) -> Flow<Value> {
         self.tick(e.span)?;
+        if self.nesting >= MAX_NESTING {
+            let msg = "evaluation nested too deeply";
+            return Err(Diagnostic::error(e.span, msg)
+                .with_hint("does a function call itself without end?")
+                .into());
+        }
+        self.nesting += 1;
+        let result = self.expr_kind(e);
+        self.nesting -= 1;
+        result
+    }
+
+    fn expr_kind(&mut self, e: &Expr) -> Flow<Value> {
         match &e.kind {
             ExprKind::Quantity { value, unit } => self.quantity(*value, unit.as_ref()),
             ExprKind::Bool(b) => Ok(Value::Bool(*b)),
@@ -220,13 +243,17 @@ impl<'a> Ctx<'a> {
 
     /// Resolve a unit expression (cached per source position).
     pub fn unit(&mut self, u: &UnitExpr) -> Flow<Unit> {
+        self.unit_ref(u).cloned()
+    }
+
+    /// The resolved unit, borrowed from the cache (no copy).
+    fn unit_ref(&mut self, u: &UnitExpr) -> Flow<&Unit> {
         let key = (u.span.file, u.span.start);
-        if let Some(unit) = self.sheet.units.get(&key) {
-            return Ok(unit.clone());
+        if !self.sheet.units.contains_key(&key) {
+            let unit = resolve_unit(u)?;
+            self.sheet.units.insert(key, unit);
         }
-        let unit = resolve_unit(u)?;
-        self.sheet.units.insert(key, unit.clone());
-        Ok(unit)
+        self.sheet.units.get(&key).ok_or(Stop::Reported)
     }
 
     fn record(&mut self, fields: &[(crate::syntax::Ident, Expr)]) -> Flow<Value> {
@@ -310,8 +337,8 @@ impl<'a> Ctx<'a> {
 
     fn shown_as(&mut self, a: &Expr, u: &UnitExpr) -> Flow<Value> {
         let v = self.expr(a)?;
-        let unit = self.unit(u)?;
-        show_in(v, &unit).map_err(|msg| {
+        let unit = self.unit_ref(u)?;
+        show_in(v, unit).map_err(|msg| {
             let mut d = Diagnostic::error(u.span, msg);
             d.hints.push((Some(a.span), "this value".into()));
             d.into()
@@ -352,7 +379,7 @@ fn no_field(r: &Record, field: &crate::syntax::Ident) -> Diagnostic {
         field.span,
         format!("{} has no field `{}`", record_word(r), field.name),
     );
-    if let Some(best) = closest(&field.name, &names) {
+    if let Some(best) = super::suggest(&field.name, &names) {
         d = d.with_hint(format!("did you mean `{best}`?"));
     }
     d.with_hint(format!("fields: {}", names.join(", ")))

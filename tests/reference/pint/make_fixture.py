@@ -33,6 +33,7 @@ ROWS = [
     # mass
     ("kg", "kilogram"), ("g", "gram"), ("mg", "milligram"), ("t", "metric_ton"),
     ("lb", "pound"), ("oz", "ounce"), ("gr", "grain"),
+    ("kg_da", "kilogram"), ("lb_da", "pound"), ("kg_ds", "kilogram"), ("lb_ds", "pound"),
     # time
     ("s", "second"), ("ms", "millisecond"), ("min", "minute"), ("h", "hour"), ("d", "day"),
     # amount, current, angle
