@@ -45,6 +45,35 @@ pub struct DryingStage {
 }
 
 impl DryingStage {
+    /// A diffusion-controlled stage from `x_start` to `x_end` (dry basis)
+    /// lasting `duration_s`, e.g. from a [`crate::engine::diffusion::DiffusionRun`]
+    /// (`x_end = Xe + MR (X0 - Xe)`); its rates are not defined per area
+    /// (NaN) because a diffusion run is per body, not per tray area.
+    pub fn diffusion(
+        x_start: f64,
+        x_end: f64,
+        duration_s: f64,
+        conditions: &str,
+    ) -> Result<DryingStage, KineticsError> {
+        super::non_negative("stage duration", duration_s)?;
+        if !super::above(x_start, x_end) {
+            return Err(KineticsError::OutOfRange {
+                name: "stage start moisture",
+                value: x_start,
+                reason: "must exceed the end moisture",
+            });
+        }
+        Ok(DryingStage {
+            kind: StageKind::Diffusion,
+            x_start,
+            x_end,
+            duration_s,
+            rate_start: f64::NAN,
+            rate_end: f64::NAN,
+            conditions: conditions.to_string(),
+        })
+    }
+
     /// Water removed per kg of dry solid.
     pub fn water_removed_per_kg_solid(&self) -> f64 {
         self.x_start - self.x_end
@@ -164,6 +193,11 @@ mod tests {
         assert!((chain_duration(&chain).unwrap() - total).abs() < 1e-9 * total);
         // Constant period only: (1.3 - 0.6) * 18 / 1e-3 s.
         assert!((chain[0].duration_s - 0.7 * 18.0 / 1e-3).abs() < 1e-6);
+        let mut chained = chain.clone();
+        chained.push(DryingStage::diffusion(0.12, 0.08, 3600.0, "tempering bin").unwrap());
+        assert!((chain_duration(&chained).unwrap() - total - 3600.0).abs() < 1e-6);
+        chained.push(DryingStage::diffusion(0.07, 0.06, 60.0, "gap").unwrap());
+        assert!(chain_duration(&chained).is_err(), "stages that do not join");
         let only_falling = stages(&c, 18.0, 0.5, 0.12, None, "").unwrap();
         assert_eq!(only_falling.len(), 1);
         assert_eq!(only_falling[0].kind, StageKind::FallingRate);
