@@ -24,7 +24,7 @@ use crate::engine::kinetics::{
 use crate::engine::thin_layer::{fit_thin_layer, ThinLayerFit, ThinLayerModel};
 use crate::library::{type_word, Args, Builtin, Param};
 use crate::units::{parse_unit, Dim, Kind, Quantity};
-use crate::value::{Column, Payload, Record, Table, Value};
+use crate::value::{Column, Mark, Payload, Plot, Record, Series, SeriesStyle, Table, Value};
 
 /// The engine rate curve behind a `rate_curve` record, with the constant
 /// rate it refers to (its own `Rc`, or the test's `Rc` for a measured table).
@@ -35,6 +35,8 @@ pub struct CurvePayload {
     pub rc_reference: f64,
     /// Critical moisture found in a test, for a measured curve.
     pub critical: Option<f64>,
+    /// Load Ls/A (kg/m^2) of the test the curve was measured on, if any.
+    pub measured_load: Option<f64>,
 }
 
 impl Payload for CurvePayload {
@@ -434,6 +436,7 @@ fn test_record(run: BatchRun, period: ConstantRatePeriod, curve: RateCurve) -> R
             curve,
             rc_reference: period.rate,
             critical: Some(period.critical_moisture),
+            measured_load: Some(run.load_kg_per_m2),
         },
         "measured (monotone cubic through the test's smoothed rates)",
     );
@@ -454,9 +457,59 @@ fn test_record(run: BatchRun, period: ConstantRatePeriod, curve: RateCurve) -> R
         .with("Xc_high", moisture(period.critical_high))
         .with("X_zero_rate", moisture(period.zero_rate_moisture))
         .with("points", Value::Table(points))
+        .with("plot", Value::Plot(Arc::new(rate_plot(&run, &period))))
         .with("curve", Value::Record(curve_record));
     r.payload = Some(Arc::new(TestPayload { run, period }));
     r
+}
+
+/// Drying-rate curve of a test: readings, the two-segment fit and Xc.
+fn rate_plot(run: &BatchRun, period: &ConstantRatePeriod) -> Plot {
+    let per_hour = 3600.0;
+    let readings = Series {
+        label: "readings (smoothed X, R)".into(),
+        x: run.points.iter().map(|p| p.smoothed).collect(),
+        y: run.points.iter().map(|p| p.rate * per_hour).collect(),
+        style: SeriesStyle::Points,
+    };
+    let low = run
+        .points
+        .iter()
+        .map(|p| p.smoothed)
+        .fold(f64::INFINITY, f64::min);
+    let high = run
+        .points
+        .iter()
+        .map(|p| p.smoothed)
+        .fold(f64::NEG_INFINITY, f64::max);
+    let fit = |x: f64| {
+        (period.rate - period.falling_slope * (period.critical_moisture - x).max(0.0)) * per_hour
+    };
+    let xs = [low, period.critical_moisture, high];
+    let model = Series {
+        label: "constant + linear falling fit".into(),
+        x: xs.to_vec(),
+        y: xs.iter().map(|x| fit(*x)).collect(),
+        style: SeriesStyle::Dashed,
+    };
+    Plot {
+        title: "drying-rate curve".into(),
+        x_label: "moisture X [db]".into(),
+        y_label: "drying rate R [kg/(m^2*h)]".into(),
+        series: vec![readings, model],
+        marks: vec![
+            Mark::VLine {
+                x: period.critical_moisture,
+                label: "Xc".into(),
+            },
+            Mark::Span {
+                x0: period.critical_low,
+                x1: period.critical_high,
+                label: "Xc +- 1 s.e.".into(),
+            },
+        ],
+        heat: None,
+    }
 }
 
 fn curve_record(payload: CurvePayload, model: &str) -> Record {
@@ -503,6 +556,7 @@ fn measured_rate_curve(args: &mut Args) -> Result<Value, Diagnostic> {
             curve,
             rc_reference: rc,
             critical: None,
+            measured_load: None,
         },
         "measured (monotone cubic through the table)",
     )))
@@ -532,6 +586,7 @@ fn falling_rate_curve(args: &mut Args) -> Result<Value, Diagnostic> {
             curve,
             rc_reference: rc,
             critical: None,
+            measured_load: None,
         },
         model,
     )))
@@ -558,6 +613,7 @@ fn at_constant_rate(args: &mut Args) -> Result<Value, Diagnostic> {
             curve,
             rc_reference: rc,
             critical: payload.critical,
+            measured_load: payload.measured_load,
         },
         &format!("rescaled to Rc (rates x {factor:.4})"),
     )))
@@ -599,10 +655,27 @@ fn spans_of(args: &Args, names: &[&'static str]) -> Vec<(&'static str, Span)> {
     names.iter().map(|n| (*n, args.span_of(n))).collect()
 }
 
+/// Warn when a curve measured on a test is used at a quite different load:
+/// the constant-rate period carries over per area, but a falling period
+/// governed by internal diffusion lengthens with the layer depth.
+fn warn_load(args: &mut Args, payload: &CurvePayload, load: f64) {
+    if let Some(measured) = payload.measured_load {
+        let ratio = load / measured;
+        if !(0.8..=1.25).contains(&ratio) {
+            args.warn(format!(
+                "the rate curve was measured at a load of {} kg/m^2 and is used at {} kg/m^2; this assumes the falling rate per area does not depend on the layer depth (true for surface-controlled drying, not for internal diffusion, where time grows with depth)",
+                crate::engine::kinetics::show(measured),
+                crate::engine::kinetics::show(load)
+            ));
+        }
+    }
+}
+
 fn drying_time(args: &mut Args) -> Result<Value, Diagnostic> {
     let spans = spans_of(args, &["load", "from", "to"]);
     let (payload, load, from, to) = span_args(args)?;
     args.finish()?;
+    warn_load(args, &payload, load);
     let t = engine_drying_time(&payload.curve, load, from, to)
         .map_err(|e| blame(&spans, args.call_span, e))?;
     Ok(hours(t.total_s))
@@ -615,6 +688,7 @@ fn drying_stages(args: &mut Args) -> Result<Value, Diagnostic> {
         .map(|c| c.0)
         .unwrap_or_default();
     args.finish()?;
+    warn_load(args, &payload, load);
     let chain = stages(
         &payload.curve,
         load,
