@@ -182,13 +182,22 @@ impl Diffusivity {
 
     /// `D` in m^2/s at dry-basis moisture `x` and temperature `t_k` (K).
     pub fn at(&self, x: f64, t_k: f64) -> f64 {
-        let thermal = if self.activation_energy_j_per_mol == 0.0 {
+        self.at_scaled(x, self.thermal_factor(t_k))
+    }
+
+    /// The Arrhenius factor `exp(-Ea/R (1/T - 1/T_ref))` at `t_k` (K).
+    pub fn thermal_factor(&self, t_k: f64) -> f64 {
+        if self.activation_energy_j_per_mol == 0.0 {
             1.0
         } else {
             (-self.activation_energy_j_per_mol / GAS_CONSTANT_J_PER_MOL_K
                 * (1.0 / t_k - 1.0 / self.reference_temperature_k))
                 .exp()
-        };
+        }
+    }
+
+    /// `D` at moisture `x` with a precomputed [`Diffusivity::thermal_factor`].
+    pub fn at_scaled(&self, x: f64, thermal: f64) -> f64 {
         let moisture = if self.moisture_coefficient == 0.0 {
             1.0
         } else {

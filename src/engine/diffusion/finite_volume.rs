@@ -278,9 +278,12 @@ impl Rhs {
     fn eval(&mut self, p: &DiffusionProblem, grid: &Grid, x: &[f64], t: f64) {
         let n = x.len();
         let temp = p.temperature.at(t);
+        let thermal = p.diffusivity.thermal_factor(temp);
+        let a = p.diffusivity.moisture_coefficient;
         for (i, &xi) in x.iter().enumerate() {
-            self.d[i] = p.diffusivity.at(xi, temp);
-            self.dd[i] = p.diffusivity.slope(xi, temp);
+            let d = p.diffusivity.at_scaled(xi, thermal);
+            self.d[i] = d;
+            self.dd[i] = a * d;
         }
         for v in [
             &mut self.f,
@@ -390,6 +393,8 @@ struct Stepper<'a> {
     /// Last three accepted (t, X) states, newest last.
     history: Vec<(f64, Vec<f64>)>,
     weights: Vec<f64>,
+    /// Newton scratch space.
+    work: Work,
     /// Last measured Newton contraction rate and steps since it was measured.
     contraction: f64,
     since_check: usize,
@@ -413,6 +418,7 @@ impl<'a> Stepper<'a> {
             rhs: Rhs::new(s.cells),
             history: vec![(0.0, x0)],
             weights: vec![0.0; s.cells],
+            work: Work::default(),
             contraction: 1.0,
             since_check: 0,
             run: DiffusionRun {
@@ -520,11 +526,24 @@ impl<'a> Stepper<'a> {
     }
 
     /// Error weights: rel_tol times the free moisture, floored at 1e-3 of the initial free moisture.
-    fn set_weights(&mut self, x: &[f64]) {
+    fn set_weights(&mut self) {
         let span = self.p.x_initial - self.p.x_equilibrium;
+        let (xe, rel_tol) = (self.p.x_equilibrium, self.s.rel_tol);
+        let x = &self.history[self.history.len() - 1].1;
         for (w, xi) in self.weights.iter_mut().zip(x) {
-            *w = self.s.rel_tol * ((xi - self.p.x_equilibrium).abs() + 1e-3 * span);
+            *w = rel_tol * ((xi - xe).abs() + 1e-3 * span);
         }
+    }
+
+    /// Weighted RMS norm of `a - b`.
+    fn norm_between(&self, a: &[f64], b: &[f64]) -> f64 {
+        let sum: f64 = a
+            .iter()
+            .zip(b)
+            .zip(&self.weights)
+            .map(|((x, y), w)| ((x - y) / w).powi(2))
+            .sum();
+        (sum / a.len() as f64).sqrt()
     }
 
     fn norm(&self, v: &[f64]) -> f64 {
@@ -538,16 +557,14 @@ impl<'a> Stepper<'a> {
 
     /// Try one step of size h from the newest state.
     fn attempt(&mut self, h: f64) -> Attempt {
-        let (t, x_n) = self.last();
-        let x_n = x_n.to_vec();
-        self.set_weights(&x_n);
+        let (t, _) = self.last();
+        self.set_weights();
         let scheme = Scheme::new(&self.history, h);
         let predictor = self.predict(&scheme, h);
         let Some(x) = self.newton(&scheme, t + h, predictor.clone()) else {
             return Attempt::NewtonFailed;
         };
-        let diff: Vec<f64> = x.iter().zip(&predictor).map(|(a, b)| a - b).collect();
-        let error = scheme.milne * self.norm(&diff);
+        let error = scheme.milne * self.norm_between(&x, &predictor);
         if error <= 1.0 && x.iter().all(|v| v.is_finite()) {
             Attempt::Accepted { x, error }
         } else {
@@ -579,18 +596,37 @@ impl<'a> Stepper<'a> {
     }
 
     /// Newton iteration on `X - sum(a_k X_k) - gamma h f(X) = 0`.
-    fn newton(&mut self, scheme: &Scheme, t_new: f64, mut x: Vec<f64>) -> Option<Vec<f64>> {
+    fn newton(&mut self, scheme: &Scheme, t_new: f64, x: Vec<f64>) -> Option<Vec<f64>> {
+        let mut work = std::mem::take(&mut self.work);
+        let out = self.newton_in(&mut work, scheme, t_new, x);
+        self.work = work;
+        out
+    }
+
+    fn newton_in(
+        &mut self,
+        w: &mut Work,
+        scheme: &Scheme,
+        t_new: f64,
+        mut x: Vec<f64>,
+    ) -> Option<Vec<f64>> {
         let n = x.len();
-        let mut base = vec![0.0; n];
+        w.resize(n);
+        let Work {
+            base,
+            scratch,
+            residual,
+            lower,
+            diag,
+            upper,
+        } = w;
+        base.fill(0.0);
         for (a, (_, state)) in scheme.history_weights.iter().zip(&self.history) {
             for (b, v) in base.iter_mut().zip(state) {
                 *b += a * v;
             }
         }
         let gh = scheme.gamma * scheme.h;
-        let mut scratch = vec![0.0; n];
-        let mut residual = vec![0.0; n];
-        let (mut lower, mut diag, mut upper) = (vec![0.0; n], vec![0.0; n], vec![0.0; n]);
         let mut previous = f64::INFINITY;
         for iteration in 0..8 {
             self.run.newton_iterations += 1;
@@ -602,11 +638,11 @@ impl<'a> Stepper<'a> {
                 diag[i] = 1.0 - gh * self.rhs.diag[i];
                 upper[i] = -gh * self.rhs.upper[i];
             }
-            if !solve_tridiagonal(&lower, &diag, &upper, &mut residual, &mut scratch) {
+            if !solve_tridiagonal(lower, diag, upper, residual, scratch) {
                 return None;
             }
-            x.iter_mut().zip(&residual).for_each(|(a, d)| *a += d);
-            let size = self.norm(&residual);
+            x.iter_mut().zip(residual.iter()).for_each(|(a, d)| *a += d);
+            let size = self.norm(residual);
             if !size.is_finite() || (size > previous && size > 1.0) {
                 return None;
             }
@@ -630,6 +666,32 @@ impl<'a> Stepper<'a> {
             previous = size;
         }
         None
+    }
+}
+
+/// Scratch vectors of the Newton iteration, reused between steps.
+#[derive(Default)]
+struct Work {
+    base: Vec<f64>,
+    scratch: Vec<f64>,
+    residual: Vec<f64>,
+    lower: Vec<f64>,
+    diag: Vec<f64>,
+    upper: Vec<f64>,
+}
+
+impl Work {
+    fn resize(&mut self, n: usize) {
+        for v in [
+            &mut self.base,
+            &mut self.scratch,
+            &mut self.residual,
+            &mut self.lower,
+            &mut self.diag,
+            &mut self.upper,
+        ] {
+            v.resize(n, 0.0);
+        }
     }
 }
 
