@@ -6,6 +6,14 @@ pub mod sorption;
 pub mod air;
 pub mod dryers;
 pub mod psychrometric_chart;
+
+pub mod air;
+pub mod diffusion;
+pub mod fit;
+pub mod integrate;
+pub mod kinetics;
 pub mod solve;
+pub mod sorption;
+pub mod thin_layer;
 pub mod transfer;
 pub mod transport;

@@ -4,8 +4,10 @@
 //! A built-in receives spanned arguments, checks their dimensions here at the
 //! boundary, converts them to uom quantities and calls typed engine code.
 
+pub mod air;
 pub mod data;
 pub mod fit;
+pub mod kinetics;
 pub mod sorption;
 pub mod air;
 pub mod chart;
@@ -243,8 +245,10 @@ pub fn registry() -> &'static [&'static Builtin] {
     REGISTRY.get_or_init(|| {
         const FAMILIES: &[&[Builtin]] = &[
             // one line per family, e.g. air::BUILTINS,
+            air::BUILTINS,
             data::BUILTINS,
             fit::BUILTINS,
+            kinetics::BUILTINS,
             sorption::BUILTINS,
             air::BUILTINS,
             chart::BUILTINS,
