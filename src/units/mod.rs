@@ -11,4 +11,4 @@ mod table;
 pub use dim::Dim;
 pub use kind::Kind;
 pub use quantity::{Quantity, UnitError};
-pub use table::{describe_dim, lookup_unit, suggest_unit, unit_names, Unit};
+pub use table::{describe_dim, format_quantity, lookup_unit, suggest_unit, unit_names, Unit};

@@ -1,0 +1,252 @@
+//! The `siccant` command line: `run`, `check`, `repl`, `help`.
+//!
+//! Exit codes: 0 ok, 1 worksheet error, 2 usage error, 3 a check failed.
+
+mod format;
+
+use std::io::IsTerminal;
+use std::path::{Path, PathBuf};
+
+use clap::{Parser, Subcommand, ValueEnum};
+
+use crate::diag::Diagnostic;
+use crate::library;
+use crate::session::{OutputItem, Session};
+use crate::value::Value;
+
+/// Exit code: everything ran and every check passed.
+pub const EXIT_OK: i32 = 0;
+/// Exit code: the worksheet has an error.
+pub const EXIT_WORKSHEET: i32 = 1;
+/// Exit code: the command line was wrong.
+pub const EXIT_USAGE: i32 = 2;
+/// Exit code: a `check` failed.
+pub const EXIT_CHECK: i32 = 3;
+
+#[derive(Parser, Debug)]
+#[command(name = "siccant", version, about = "Unit-checked worksheets for convective dryer design", disable_help_subcommand = true)]
+struct Cli {
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Subcommand, Debug)]
+enum Command {
+    /// Run a worksheet and print its values and checks.
+    Run {
+        /// The worksheet (.sicc).
+        file: PathBuf,
+        /// Override an input: NAME=EXPR, e.g. --set L=15mm (repeatable).
+        #[arg(long = "set", value_name = "NAME=EXPR")]
+        set: Vec<String>,
+        /// Output format.
+        #[arg(long, value_enum, default_value_t = Format::Text)]
+        format: Format,
+    },
+    /// Parse and check names, units and dimensions without running engine work.
+    Check {
+        /// The worksheet (.sicc).
+        file: PathBuf,
+    },
+    /// Interactive worksheet.
+    Repl,
+    /// Help on a built-in function or unit; without NAME, list them.
+    Help {
+        /// A built-in function, a unit, or `units`.
+        name: Option<String>,
+        /// Print the whole built-in reference as Markdown (docs/builtins.md).
+        #[arg(long)]
+        markdown: bool,
+    },
+}
+
+/// Output formats of `run`.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
+pub enum Format {
+    Text,
+    Json,
+    Markdown,
+    Html,
+}
+
+/// Run the command line; returns the exit code.
+pub fn main() -> i32 {
+    let cli = match Cli::try_parse() {
+        Ok(c) => c,
+        Err(e) => {
+            let _ = e.print();
+            return if e.use_stderr() { EXIT_USAGE } else { EXIT_OK };
+        }
+    };
+    match cli.command {
+        Command::Run { file, set, format } => run(&file, &set, format),
+        Command::Check { file } => check(&file),
+        Command::Repl => crate::repl::run(),
+        Command::Help { name, markdown } => help(name.as_deref(), markdown),
+    }
+}
+
+fn color() -> bool {
+    std::io::stderr().is_terminal() && std::env::var_os("NO_COLOR").is_none()
+}
+
+fn print_diagnostics(session: &Session, diags: &[Diagnostic]) {
+    for d in diags {
+        eprint!("{}", session.render_diagnostic(d, color()));
+    }
+}
+
+fn read(file: &Path) -> Result<String, i32> {
+    std::fs::read_to_string(file).map_err(|e| {
+        eprintln!("error: cannot read `{}`: {e}", file.display());
+        EXIT_USAGE
+    })
+}
+
+/// `siccant run`.
+fn run(file: &Path, set: &[String], format: Format) -> i32 {
+    let text = match read(file) {
+        Ok(t) => t,
+        Err(code) => return code,
+    };
+    let mut session = Session::with_file(file);
+    for assignment in set {
+        match parse_set(assignment) {
+            Ok((name, value)) => session.set_input(name, value),
+            Err(code) => return code,
+        }
+    }
+    let output = match session.eval(&text) {
+        Ok(o) => o,
+        Err(diags) => {
+            print_diagnostics(&session, &diags);
+            let usage = diags.iter().any(|d| d.message.starts_with("`--set"));
+            return if usage { EXIT_USAGE } else { EXIT_WORKSHEET };
+        }
+    };
+    print_diagnostics(&session, &output.warnings);
+    let shown = format::shown_texts(&text);
+    print!("{}", format::render(&session, &output, &shown, format));
+    let failed = output.items.iter().any(|i| matches!(i, OutputItem::Check { passed: false, .. }));
+    if failed {
+        EXIT_CHECK
+    } else {
+        EXIT_OK
+    }
+}
+
+/// Parse `NAME=EXPR` and evaluate EXPR on its own.
+fn parse_set(assignment: &str) -> Result<(String, Value), i32> {
+    let Some((name, expr)) = assignment.split_once('=') else {
+        eprintln!("error: `--set {assignment}` must look like NAME=EXPR, e.g. --set L=15mm");
+        return Err(EXIT_USAGE);
+    };
+    let name = name.trim();
+    let valid = name.chars().next().is_some_and(|c| c.is_alphabetic() || c == '_')
+        && name.chars().all(|c| c.is_alphanumeric() || c == '_');
+    if !valid {
+        eprintln!("error: `--set {assignment}`: `{name}` is not a name");
+        return Err(EXIT_USAGE);
+    }
+    let mut scratch = Session::new();
+    match scratch.eval(expr) {
+        Ok(out) => match out.items.into_iter().next() {
+            Some(OutputItem::Value { name: None, value }) => Ok((name.to_string(), value)),
+            _ => {
+                eprintln!("error: `--set {assignment}`: expected a value after `=`");
+                Err(EXIT_USAGE)
+            }
+        },
+        Err(diags) => {
+            eprintln!("error: in `--set {assignment}`:");
+            print_diagnostics(&scratch, &diags);
+            Err(EXIT_USAGE)
+        }
+    }
+}
+
+/// `siccant check`.
+fn check(file: &Path) -> i32 {
+    let text = match read(file) {
+        Ok(t) => t,
+        Err(code) => return code,
+    };
+    let mut session = Session::with_file(file).check_only();
+    match session.eval(&text) {
+        Ok(out) => {
+            print_diagnostics(&session, &out.warnings);
+            let checked = out.items.len();
+            println!("{}: no errors found ({checked} statements evaluated without engine work)", file.display());
+            EXIT_OK
+        }
+        Err(diags) => {
+            print_diagnostics(&session, &diags);
+            EXIT_WORKSHEET
+        }
+    }
+}
+
+/// `siccant help [NAME]`.
+fn help(name: Option<&str>, markdown: bool) -> i32 {
+    if markdown {
+        print!("{}", builtins_markdown());
+        return EXIT_OK;
+    }
+    match name {
+        None => {
+            print!("{}", overview());
+            EXIT_OK
+        }
+        Some("units") => {
+            println!("Units (SI prefixes apply where sensible):\n{}", crate::units::unit_names().join(" "));
+            EXIT_OK
+        }
+        Some(n) => match Session::new().help(n) {
+            Some(text) => {
+                println!("{text}");
+                EXIT_OK
+            }
+            None => {
+                let names: Vec<&str> = library::registry().iter().map(|b| b.name).collect();
+                let hint = library::closest(n, &names).map_or(String::new(), |b| format!(" (did you mean `{b}`?)"));
+                eprintln!("error: no built-in function or unit named `{n}`{hint}");
+                EXIT_USAGE
+            }
+        },
+    }
+}
+
+/// The list printed by `siccant help`.
+pub fn overview() -> String {
+    let mut s = String::from("siccant: unit-checked worksheets for convective dryer design\n\n");
+    s.push_str("Commands: run FILE [--set NAME=EXPR] [--format text|json|markdown|html], check FILE, repl, help [NAME]\n\n");
+    let mut family = "";
+    for b in library::registry_by_family() {
+        if b.family != family {
+            family = b.family;
+            s.push_str(&format!("\n{family}:\n"));
+        }
+        let summary = b.doc.split(". ").next().unwrap_or("");
+        s.push_str(&format!("  {:<22} {summary}\n", b.name));
+    }
+    s.push_str("\nAlso: load(\"file.sicc\", input: value, ...) loads another worksheet as a record.\n");
+    s.push_str("`siccant help NAME` shows one function; `siccant help units` lists units.\n");
+    s
+}
+
+/// The generated built-in reference (docs/builtins.md).
+pub fn builtins_markdown() -> String {
+    let mut s = String::from(
+        "# Built-in functions\n\n<!-- Generated by `siccant help --markdown` from the library registry; do not edit. -->\n\n",
+    );
+    s.push_str("`load(\"file.sicc\", NAME: value, ...)` is part of the language; see docs/language.md.\n\n");
+    let mut family = "";
+    for b in library::registry_by_family() {
+        if b.family != family {
+            family = b.family;
+            s.push_str(&format!("## {family}\n\n"));
+        }
+        s.push_str(&crate::render::help_markdown(b));
+    }
+    s
+}

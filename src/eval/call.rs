@@ -1,0 +1,152 @@
+//! Calls: user functions, built-ins from the library registry, and `load`.
+
+use std::collections::HashMap;
+use std::panic::{catch_unwind, AssertUnwindSafe};
+
+use super::ctx::{Ctx, Flow, Mode, Stop};
+use super::DefKind;
+use crate::diag::{Diagnostic, Span};
+use crate::library::{self, closest, Arg, Args, Builtin};
+use crate::syntax::{CallArg, Ident};
+use crate::value::Value;
+
+impl Ctx<'_> {
+    /// Evaluate `callee(args)`.
+    pub fn call(&mut self, callee: &Ident, args: &[CallArg], span: Span) -> Flow<Value> {
+        let name = callee.name.as_str();
+        match self.sheet.defs.get(name).map(|d| d.kind) {
+            Some(DefKind::Function) => return self.call_user(callee, args, span),
+            Some(_) if name != "load" && library::find(name).is_none() => {
+                let msg = format!("`{name}` is a value, not a function");
+                return Err(Diagnostic::error(callee.span, msg).into());
+            }
+            _ => {}
+        }
+        if name == "load" {
+            return self.load(args, span);
+        }
+        match library::find(name) {
+            Some(b) => self.call_builtin(b, args, span),
+            None => Err(self.unknown_function(callee).into()),
+        }
+    }
+
+    fn unknown_function(&self, callee: &Ident) -> Diagnostic {
+        let mut names: Vec<&str> = library::registry().iter().map(|b| b.name).collect();
+        names.extend(
+            self.sheet.order.iter().filter(|n| self.sheet.defs[*n].kind == DefKind::Function).map(String::as_str),
+        );
+        names.push("load");
+        let mut d = Diagnostic::error(callee.span, format!("unknown function `{}`", callee.name));
+        if let Some(best) = closest(&callee.name, &names) {
+            d = d.with_hint(format!("did you mean `{best}`?"));
+        }
+        d.with_hint("`siccant help` lists the built-in functions")
+    }
+
+    /// Evaluate call-site arguments in order.
+    pub fn arguments(&mut self, args: &[CallArg]) -> Flow<Vec<Arg>> {
+        let mut out = Vec::with_capacity(args.len());
+        for a in args {
+            let value = self.expr(&a.value)?;
+            out.push(Arg { name: a.name.as_ref().map(|n| n.name.clone()), value, span: a.span });
+        }
+        Ok(out)
+    }
+
+    fn call_builtin(&mut self, b: &'static Builtin, args: &[CallArg], span: Span) -> Flow<Value> {
+        check_arg_names(b, args)?;
+        let values = self.arguments(args)?;
+        let mut bound = Args::bind(b, span, values)?;
+        if self.mode == Mode::CheckOnly {
+            return Err(Stop::Skip);
+        }
+        let result = catch_unwind(AssertUnwindSafe(|| (b.func)(&mut bound)));
+        self.warnings.append(&mut bound.warnings);
+        match result {
+            Ok(Ok(v)) => check_finite(v, b, span),
+            Ok(Err(d)) => Err(d.into()),
+            Err(_) => Err(Diagnostic::error(span, format!("internal error in built-in `{}`", b.name))
+                .with_hint("this is a bug in siccant; please report it with the worksheet")
+                .into()),
+        }
+    }
+
+    fn call_user(&mut self, callee: &Ident, args: &[CallArg], span: Span) -> Flow<Value> {
+        let def = self.sheet.defs[&callee.name].clone();
+        if self.depth >= self.limits.max_call_depth {
+            let msg = format!("calls nested deeper than {} levels", self.limits.max_call_depth);
+            return Err(Diagnostic::error(span, msg).with_hint("does the function call itself without end?").into());
+        }
+        let values = self.arguments(args)?;
+        let frame = bind_params(&callee.name, &def.params, values, span)?;
+        self.depth += 1;
+        let saved = self.frame.replace(frame);
+        let result = self.expr(&def.expr);
+        self.frame = saved;
+        self.depth -= 1;
+        result
+    }
+}
+
+/// Report a misspelt argument name before evaluating anything.
+fn check_arg_names(b: &Builtin, args: &[CallArg]) -> Result<(), Diagnostic> {
+    let names: Vec<&str> = b.params.iter().map(|p| p.name).collect();
+    for a in args {
+        let Some(n) = &a.name else { continue };
+        if !names.contains(&n.name.as_str()) {
+            let mut d = Diagnostic::error(n.span, format!("`{}` has no argument named `{}`", b.name, n.name));
+            if let Some(best) = closest(&n.name, &names) {
+                d = d.with_hint(format!("did you mean `{best}`?"));
+            }
+            return Err(d.with_hint(format!("arguments: {}", names.join(", "))));
+        }
+    }
+    Ok(())
+}
+
+fn check_finite(v: Value, b: &Builtin, span: Span) -> Flow<Value> {
+    let bad = match &v {
+        Value::Quantity(q, _) => !q.si.is_finite(),
+        _ => false,
+    };
+    if bad {
+        let msg = format!("`{}` gave a result that is not a finite number", b.name);
+        return Err(Diagnostic::error(span, msg).into());
+    }
+    Ok(v)
+}
+
+/// Bind arguments to a user function's parameters: positional, then by name.
+fn bind_params(name: &str, params: &[String], args: Vec<Arg>, span: Span) -> Result<HashMap<String, Value>, Diagnostic> {
+    let mut frame = HashMap::new();
+    let mut next = 0;
+    for a in args {
+        let p = match &a.name {
+            Some(n) if params.contains(n) => n.clone(),
+            Some(n) => {
+                let names: Vec<&str> = params.iter().map(String::as_str).collect();
+                let mut d = Diagnostic::error(a.span, format!("`{name}` has no parameter named `{n}`"));
+                if let Some(best) = closest(n, &names) {
+                    d = d.with_hint(format!("did you mean `{best}`?"));
+                }
+                return Err(d.with_hint(format!("parameters: {}", names.join(", "))));
+            }
+            None => {
+                let p = params.get(next).cloned().ok_or_else(|| {
+                    Diagnostic::error(a.span, format!("`{name}` takes {} arguments", params.len()))
+                })?;
+                next += 1;
+                p
+            }
+        };
+        if frame.insert(p.clone(), a.value).is_some() {
+            return Err(Diagnostic::error(a.span, format!("parameter `{p}` of `{name}` is given twice")));
+        }
+    }
+    if let Some(missing) = params.iter().find(|p| !frame.contains_key(*p)) {
+        let msg = format!("`{name}` needs the argument `{missing}`");
+        return Err(Diagnostic::error(span, msg).with_hint(format!("call it as {name}({})", params.join(", "))));
+    }
+    Ok(frame)
+}

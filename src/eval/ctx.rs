@@ -1,0 +1,353 @@
+//! The evaluator: forces named values through the dependency graph and
+//! evaluates expressions, attaching spans to span-less unit errors.
+
+use std::collections::{HashMap, HashSet};
+use std::path::PathBuf;
+
+use super::ops::{self, dim_words, OpError};
+use super::{DefKind, Limits, Sheet, Sources};
+use crate::diag::{Diagnostic, Span};
+use crate::library::{closest, type_word};
+use crate::syntax::{BinaryOp, Expr, ExprKind, UnaryOp, UnitExpr, UnitKind};
+use crate::units::{lookup_unit, suggest_unit, Quantity, Unit};
+use crate::value::{Record, Value};
+
+/// Why evaluation of an expression stopped.
+#[derive(Debug)]
+pub enum Stop {
+    /// A new error to report.
+    Error(Diagnostic),
+    /// An error already reported (a value this one depends on failed).
+    Reported,
+    /// `siccant check`: the value needs engine work, which is not run.
+    Skip,
+}
+
+impl From<Diagnostic> for Stop {
+    fn from(d: Diagnostic) -> Stop {
+        Stop::Error(d)
+    }
+}
+
+/// The result of evaluating something.
+pub type Flow<T> = Result<T, Stop>;
+
+/// Run the engine, or only check names, units and dimensions.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Mode {
+    Run,
+    CheckOnly,
+}
+
+/// Evaluation state for one `eval` of one sheet.
+pub struct Ctx<'a> {
+    pub sheet: &'a mut Sheet,
+    pub sources: &'a mut Sources,
+    pub limits: &'a Limits,
+    pub mode: Mode,
+    /// Expression steps taken so far (shared with nested loads).
+    pub ops: u64,
+    pub warnings: Vec<Diagnostic>,
+    pub errors: Vec<Diagnostic>,
+    /// Parameters of the user function being evaluated.
+    pub(super) frame: Option<HashMap<String, Value>>,
+    /// Names being computed right now (catches cycles the static check could not see).
+    active: Vec<String>,
+    /// Names whose evaluation failed in this run.
+    failed: HashSet<String>,
+    /// Canonical paths of the worksheets being loaded, outermost first.
+    pub load_stack: Vec<PathBuf>,
+    /// Depth of user-function calls and loads.
+    pub depth: usize,
+}
+
+impl<'a> Ctx<'a> {
+    /// A context evaluating `sheet`.
+    pub fn new(sheet: &'a mut Sheet, sources: &'a mut Sources, limits: &'a Limits, mode: Mode) -> Ctx<'a> {
+        Ctx {
+            sheet,
+            sources,
+            limits,
+            mode,
+            ops: 0,
+            warnings: Vec::new(),
+            errors: Vec::new(),
+            frame: None,
+            active: Vec::new(),
+            failed: HashSet::new(),
+            load_stack: Vec::new(),
+            depth: 0,
+        }
+    }
+
+    /// Count one step against the budget; check the interrupt flag now and then.
+    fn tick(&mut self, span: Span) -> Flow<()> {
+        self.ops += 1;
+        if self.ops > self.limits.max_operations {
+            let msg = format!("evaluation stopped after {} steps", self.limits.max_operations);
+            return Err(Diagnostic::error(span, msg).with_hint("is a function calling itself without end?").into());
+        }
+        if self.ops % 1024 == 0 && self.limits.interrupted() {
+            return Err(Diagnostic::error(span, "interrupted").into());
+        }
+        Ok(())
+    }
+
+    /// Record a stop as an error of this run (once), returning whether it was a skip.
+    pub fn report(&mut self, stop: Stop) -> bool {
+        match stop {
+            Stop::Error(d) => {
+                self.errors.push(d);
+                false
+            }
+            Stop::Reported => false,
+            Stop::Skip => true,
+        }
+    }
+
+    /// The value of a named definition, computing it (and what it needs) if needed.
+    pub fn force(&mut self, name: &str, use_span: Span) -> Flow<Value> {
+        if let Some(v) = self.sheet.cache.get(name) {
+            return Ok(v.clone());
+        }
+        if self.failed.contains(name) {
+            return Err(Stop::Reported);
+        }
+        let def = self.sheet.defs.get(name).cloned().ok_or_else(|| self.undefined(name, use_span))?;
+        if def.kind == DefKind::Function {
+            let msg = format!("`{name}` is a function; call it with arguments, e.g. `{name}(...)`");
+            return Err(Diagnostic::error(use_span, msg).into());
+        }
+        if self.active.iter().any(|n| n == name) {
+            let chain = format!("{} -> {name}", self.active.join(" -> "));
+            return Err(Diagnostic::error(use_span, format!("cycle: {chain}")).into());
+        }
+        let overridden = (def.kind == DefKind::Input).then(|| self.sheet.overrides.get(name).cloned()).flatten();
+        self.active.push(name.to_string());
+        let saved = self.frame.take();
+        let result = match overridden {
+            Some(v) => Ok(v),
+            None => self.expr(&def.expr),
+        };
+        self.frame = saved;
+        self.active.pop();
+        match result {
+            Ok(v) => {
+                self.sheet.cache.insert(name.to_string(), v.clone());
+                Ok(v)
+            }
+            Err(stop) => {
+                self.failed.insert(name.to_string());
+                let skip = self.report(stop);
+                Err(if skip { Stop::Skip } else { Stop::Reported })
+            }
+        }
+    }
+
+    fn undefined(&self, name: &str, span: Span) -> Stop {
+        let mut d = Diagnostic::error(span, format!("`{name}` is not defined"));
+        let mut names: Vec<&str> = self.sheet.order.iter().map(String::as_str).collect();
+        if let Some(frame) = &self.frame {
+            names.extend(frame.keys().map(String::as_str));
+        }
+        if let Some(best) = closest(name, &names) {
+            d = d.with_hint(format!("did you mean `{best}`?"));
+        } else if lookup_unit(name).is_some() {
+            d = d.with_hint(format!("`{name}` is a unit; write a number before it, e.g. `1 {name}`"));
+        }
+        Stop::Error(d)
+    }
+
+    /// Evaluate an expression.
+    pub fn expr(&mut self, e: &Expr) -> Flow<Value> {
+        self.tick(e.span)?;
+        match &e.kind {
+            ExprKind::Quantity { value, unit } => self.quantity(*value, unit.as_ref()),
+            ExprKind::Bool(b) => Ok(Value::Bool(*b)),
+            ExprKind::Str(s) => Ok(Value::Str(s.clone())),
+            ExprKind::Name(n) => self.name(n, e.span),
+            ExprKind::List(items) => items.iter().map(|i| self.expr(i)).collect::<Flow<_>>().map(Value::List),
+            ExprKind::Record(fields) => self.record(fields),
+            ExprKind::Unary(op, a) => self.unary(*op, a, e.span),
+            ExprKind::Binary(op, a, b) => self.binary(*op, a, b, e.span),
+            ExprKind::Call { callee, args } => self.call(callee, args, e.span),
+            ExprKind::Field(a, field) => self.field(a, field),
+            ExprKind::As(a, unit) => self.shown_as(a, unit),
+            ExprKind::If(c, a, b) => self.conditional(c, a, b),
+        }
+    }
+
+    fn name(&mut self, n: &str, span: Span) -> Flow<Value> {
+        if let Some(v) = self.frame.as_ref().and_then(|f| f.get(n)) {
+            return Ok(v.clone());
+        }
+        self.force(n, span)
+    }
+
+    fn quantity(&mut self, value: f64, unit: Option<&UnitExpr>) -> Flow<Value> {
+        match unit {
+            None => Ok(Value::Quantity(Quantity::number(value), None)),
+            Some(u) => {
+                let unit = self.unit(u)?;
+                let q = unit.to_si(value);
+                Ok(Value::Quantity(q, Some(unit)))
+            }
+        }
+    }
+
+    /// Resolve a unit expression (cached per source position).
+    pub fn unit(&mut self, u: &UnitExpr) -> Flow<Unit> {
+        let key = (u.span.file, u.span.start);
+        if let Some(unit) = self.sheet.units.get(&key) {
+            return Ok(unit.clone());
+        }
+        let unit = resolve_unit(u)?;
+        self.sheet.units.insert(key, unit.clone());
+        Ok(unit)
+    }
+
+    fn record(&mut self, fields: &[(crate::syntax::Ident, Expr)]) -> Flow<Value> {
+        let mut r = Record::new("record");
+        for (name, e) in fields {
+            let v = self.expr(e)?;
+            r.fields.push((name.name.clone(), v));
+        }
+        Ok(Value::Record(r))
+    }
+
+    fn unary(&mut self, op: UnaryOp, a: &Expr, span: Span) -> Flow<Value> {
+        let v = self.expr(a)?;
+        ops::unary(op, &v).map_err(|e| op_error(e, span, a.span, a.span).into())
+    }
+
+    fn binary(&mut self, op: BinaryOp, a: &Expr, b: &Expr, span: Span) -> Flow<Value> {
+        if matches!(op, BinaryOp::And | BinaryOp::Or) {
+            return self.logic(op, a, b);
+        }
+        let x = self.expr(a)?;
+        let y = self.expr(b)?;
+        ops::binary(op, &x, &y).map_err(|e| {
+            let mut d = op_error(e, span, a.span, b.span);
+            if op == BinaryOp::Add && ops::is_absolute(&x) && ops::is_absolute(&y) {
+                d.hints.push((Some(b.span), "this is an absolute temperature too; use a difference such as `10 K`".into()));
+            }
+            d.into()
+        })
+    }
+
+    fn logic(&mut self, op: BinaryOp, a: &Expr, b: &Expr) -> Flow<Value> {
+        let x = self.truth(a, op.symbol())?;
+        if (op == BinaryOp::And && !x) || (op == BinaryOp::Or && x) {
+            return Ok(Value::Bool(x));
+        }
+        Ok(Value::Bool(self.truth(b, op.symbol())?))
+    }
+
+    /// Evaluate to a truth value, or blame the expression.
+    pub fn truth(&mut self, e: &Expr, what: &str) -> Flow<bool> {
+        match self.expr(e)? {
+            Value::Bool(b) => Ok(b),
+            other => {
+                let msg = format!("`{what}` needs a truth value (a comparison), found {}", type_word(&other));
+                Err(Diagnostic::error(e.span, msg).into())
+            }
+        }
+    }
+
+    fn conditional(&mut self, c: &Expr, a: &Expr, b: &Expr) -> Flow<Value> {
+        if self.truth(c, "if")? {
+            self.expr(a)
+        } else {
+            self.expr(b)
+        }
+    }
+
+    fn field(&mut self, a: &Expr, field: &crate::syntax::Ident) -> Flow<Value> {
+        match self.expr(a)? {
+            Value::Record(r) => r.get(&field.name).cloned().ok_or_else(|| no_field(&r, field).into()),
+            other => {
+                let msg = format!("`.{}` reads a field of a record, but this is {}", field.name, type_word(&other));
+                Err(Diagnostic::error(a.span, msg).into())
+            }
+        }
+    }
+
+    fn shown_as(&mut self, a: &Expr, u: &UnitExpr) -> Flow<Value> {
+        let v = self.expr(a)?;
+        let unit = self.unit(u)?;
+        show_in(v, &unit).map_err(|msg| {
+            let mut d = Diagnostic::error(u.span, msg);
+            d.hints.push((Some(a.span), "this value".into()));
+            d.into()
+        })
+    }
+}
+
+/// Attach a display unit to a quantity (or every quantity in a list).
+fn show_in(v: Value, unit: &Unit) -> Result<Value, String> {
+    match v {
+        Value::Quantity(q, _) => {
+            if q.dim != unit.dim {
+                return Err(format!(
+                    "cannot show {} in `{}`, which is {}",
+                    dim_words(q.dim),
+                    unit.symbol,
+                    dim_words(unit.dim)
+                ));
+            }
+            unit.from_si(&q).map_err(|e| e.message)?;
+            Ok(Value::Quantity(q, Some(unit.clone())))
+        }
+        Value::List(items) => items.into_iter().map(|i| show_in(i, unit)).collect::<Result<_, _>>().map(Value::List),
+        other => Err(format!("`as` shows a quantity in a unit, but this is {}", type_word(&other))),
+    }
+}
+
+fn no_field(r: &Record, field: &crate::syntax::Ident) -> Diagnostic {
+    let names: Vec<&str> = r.fields.iter().map(|(n, _)| n.as_str()).collect();
+    let mut d = Diagnostic::error(field.span, format!("{} has no field `{}`", record_word(r), field.name));
+    if let Some(best) = closest(&field.name, &names) {
+        d = d.with_hint(format!("did you mean `{best}`?"));
+    }
+    d.with_hint(format!("fields: {}", names.join(", ")))
+}
+
+fn record_word(r: &Record) -> String {
+    if r.type_name == "record" {
+        "this record".into()
+    } else {
+        format!("a record of type {}", r.type_name)
+    }
+}
+
+/// Build a diagnostic from an operator error, labelling the operands'
+/// dimensions when they do not match.
+fn op_error(e: OpError, span: Span, a: Span, b: Span) -> Diagnostic {
+    let mut d = Diagnostic::error(span, e.message);
+    if let Some((da, db)) = e.dims {
+        d.hints.push((Some(a), format!("this is {}", dim_words(da))));
+        d.hints.push((Some(b), format!("this is {}", dim_words(db))));
+    }
+    for h in e.hints {
+        d.hints.push((None, h));
+    }
+    d
+}
+
+/// Build a unit from a unit expression.
+pub fn resolve_unit(u: &UnitExpr) -> Result<Unit, Diagnostic> {
+    match &u.kind {
+        UnitKind::Name(s) => lookup_unit(s).ok_or_else(|| unknown_unit(s, u.span)),
+        UnitKind::Mul(a, b) => Ok(resolve_unit(a)?.mul(&resolve_unit(b)?)),
+        UnitKind::Div(a, b) => Ok(resolve_unit(a)?.div(&resolve_unit(b)?)),
+        UnitKind::Pow(a, n) => Ok(resolve_unit(a)?.powi(*n)),
+    }
+}
+
+fn unknown_unit(s: &str, span: Span) -> Diagnostic {
+    let d = Diagnostic::error(span, format!("unknown unit `{s}`"));
+    match suggest_unit(s) {
+        Some(best) => d.with_hint(format!("did you mean `{best}`?")),
+        None => d.with_hint("see `siccant help units` for the units siccant knows"),
+    }
+}

@@ -1,0 +1,91 @@
+//! The dependency graph of named values: what each definition reads, and the
+//! cycles that make a worksheet meaningless.
+
+use std::collections::HashMap;
+
+use crate::syntax::{children, Expr, ExprKind};
+
+/// Names an expression reads (values and called functions), excluding `params`,
+/// in first-use order without repeats.
+pub fn dependencies(expr: &Expr, params: &[String]) -> Vec<String> {
+    let mut out: Vec<String> = Vec::new();
+    let mut stack = vec![expr];
+    while let Some(e) = stack.pop() {
+        let name = match &e.kind {
+            ExprKind::Name(n) => Some(n),
+            ExprKind::Call { callee, .. } => Some(&callee.name),
+            _ => None,
+        };
+        if let Some(n) = name {
+            if !params.contains(n) && !out.contains(n) {
+                out.push(n.clone());
+            }
+        }
+        let mut kids = children(e);
+        kids.reverse();
+        stack.extend(kids);
+    }
+    out
+}
+
+/// Every cycle among `names` (in definition order), each as the chain of names
+/// ending where it started, e.g. `[a, b, a]`.
+pub fn cycles(names: &[String], deps: &HashMap<String, Vec<String>>) -> Vec<Vec<String>> {
+    #[derive(Clone, Copy, PartialEq)]
+    enum Mark {
+        New,
+        Active,
+        Done,
+    }
+    let mut mark: HashMap<&str, Mark> = names.iter().map(|n| (n.as_str(), Mark::New)).collect();
+    let mut found = Vec::new();
+    for root in names {
+        if mark[root.as_str()] != Mark::New {
+            continue;
+        }
+        // Iterative depth-first search: (name, next dependency index).
+        let mut path: Vec<(&str, usize)> = vec![(root.as_str(), 0)];
+        mark.insert(root, Mark::Active);
+        while let Some(&mut (node, ref mut i)) = path.last_mut() {
+            let next = deps.get(node).and_then(|d| d.get(*i));
+            *i += 1;
+            match next {
+                None => {
+                    mark.insert(node, Mark::Done);
+                    path.pop();
+                }
+                Some(dep) => match mark.get(dep.as_str()).copied() {
+                    Some(Mark::New) => {
+                        mark.insert(dep, Mark::Active);
+                        path.push((dep.as_str(), 0));
+                    }
+                    Some(Mark::Active) => {
+                        let from = path.iter().position(|(n, _)| *n == dep).unwrap_or(0);
+                        let mut cycle: Vec<String> = path[from..].iter().map(|(n, _)| n.to_string()).collect();
+                        cycle.push(dep.clone());
+                        found.push(cycle);
+                    }
+                    _ => {}
+                },
+            }
+        }
+    }
+    found
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn finds_a_two_name_cycle() {
+        let names = vec!["a".to_string(), "b".to_string(), "c".to_string()];
+        let deps: HashMap<String, Vec<String>> = [
+            ("a".to_string(), vec!["b".to_string()]),
+            ("b".to_string(), vec!["a".to_string()]),
+            ("c".to_string(), vec!["a".to_string()]),
+        ]
+        .into();
+        assert_eq!(cycles(&names, &deps), vec![vec!["a", "b", "a"]]);
+    }
+}

@@ -1,0 +1,34 @@
+//! Limits that keep a worksheet from running away: call depth, an operation
+//! budget and an interrupt flag the REPL and the kernel can set.
+
+use std::sync::atomic::{AtomicBool, Ordering};
+use std::sync::Arc;
+
+/// Resource limits for one evaluation.
+#[derive(Clone, Debug)]
+pub struct Limits {
+    /// Deepest chain of user-function calls and worksheet loads.
+    pub max_call_depth: usize,
+    /// Most expression steps in one `eval`.
+    pub max_operations: u64,
+    /// Set from another thread to stop the evaluation.
+    pub interrupt: Arc<AtomicBool>,
+}
+
+impl Default for Limits {
+    fn default() -> Limits {
+        Limits { max_call_depth: 64, max_operations: 50_000_000, interrupt: Arc::new(AtomicBool::new(false)) }
+    }
+}
+
+impl Limits {
+    /// True when someone asked the evaluation to stop.
+    pub fn interrupted(&self) -> bool {
+        self.interrupt.load(Ordering::Relaxed)
+    }
+
+    /// Clear the interrupt flag before a new evaluation.
+    pub fn reset(&self) {
+        self.interrupt.store(false, Ordering::Relaxed);
+    }
+}

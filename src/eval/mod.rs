@@ -1,0 +1,58 @@
+//! Evaluation: a worksheet is a dependency graph of named values.
+//!
+//! [`Sheet`] holds the definitions and what each reads; [`Ctx`] forces values
+//! through the graph (lazily, each once), calls built-ins and user functions,
+//! and loads other worksheets. Errors are collected, not thrown: one bad value
+//! is reported once and its dependents are skipped silently.
+
+mod call;
+mod ctx;
+mod graph;
+mod limits;
+mod load;
+mod ops;
+mod sheet;
+mod sources;
+
+pub use ctx::{resolve_unit, Ctx, Flow, Mode, Stop};
+pub use graph::{cycles, dependencies};
+pub use limits::Limits;
+pub use ops::dim_words;
+pub use sheet::{definition, Def, DefKind, Sheet};
+pub use sources::{SourceFile, Sources};
+
+use crate::syntax::{Stmt, StmtKind};
+use crate::value::Value;
+
+/// One result of evaluating a statement.
+#[derive(Clone, Debug)]
+pub enum OutputItem {
+    /// A named value (binding or input) or a bare expression (`name: None`).
+    Value { name: Option<String>, value: Value },
+    /// The outcome of a `check`.
+    Check { text: String, passed: bool },
+}
+
+/// Evaluate statements in source order. Errors and warnings collect in `ctx`.
+pub fn run_statements(ctx: &mut Ctx, stmts: &[Stmt]) -> Vec<OutputItem> {
+    let mut items = Vec::new();
+    for stmt in stmts {
+        let item = match &stmt.kind {
+            StmtKind::Binding { name, .. } | StmtKind::Input { name, .. } => ctx
+                .force(&name.name, name.span)
+                .map(|value| OutputItem::Value { name: Some(name.name.clone()), value }),
+            StmtKind::Function { .. } => continue,
+            StmtKind::Show(e) => ctx.expr(e).map(|value| OutputItem::Value { name: None, value }),
+            StmtKind::Check(e) => ctx
+                .truth(e, "check")
+                .map(|passed| OutputItem::Check { text: ctx.sources.slice(e.span).to_string(), passed }),
+        };
+        match item {
+            Ok(i) => items.push(i),
+            Err(stop) => {
+                ctx.report(stop);
+            }
+        }
+    }
+    items
+}

@@ -1,0 +1,163 @@
+//! A worksheet's definitions: named values, inputs and user functions, with the
+//! dependencies each one reads, and the cache of values already computed.
+
+use std::collections::{HashMap, HashSet};
+use std::path::PathBuf;
+use std::sync::Arc;
+
+use super::graph;
+use crate::diag::{Diagnostic, Span};
+use crate::syntax::{Expr, Ident, Stmt, StmtKind};
+use crate::units::Unit;
+use crate::value::Value;
+
+/// What a definition defines.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum DefKind {
+    Value,
+    Input,
+    Function,
+}
+
+/// One definition: `name = expr`, `input name = expr` or `f(x) = expr`.
+#[derive(Clone, Debug)]
+pub struct Def {
+    pub name: Ident,
+    pub kind: DefKind,
+    /// Parameter names of a function; empty otherwise.
+    pub params: Vec<String>,
+    pub expr: Arc<Expr>,
+    /// Names the expression reads.
+    pub deps: Vec<String>,
+    /// Span of the whole statement.
+    pub span: Span,
+}
+
+/// The definitions of one worksheet (or of a REPL / notebook session).
+#[derive(Clone, Debug, Default)]
+pub struct Sheet {
+    pub defs: HashMap<String, Def>,
+    /// Names in definition order.
+    pub order: Vec<String>,
+    /// Values already computed.
+    pub cache: HashMap<String, Value>,
+    /// Input values set from outside (`--set`, `load(..., name: value)`).
+    pub overrides: HashMap<String, Value>,
+    /// Resolved units of literals and `as`, keyed by (file, start).
+    pub units: HashMap<(u32, u32), Unit>,
+    /// Directory `load` paths are relative to.
+    pub dir: PathBuf,
+}
+
+impl Sheet {
+    /// An empty sheet whose loads are relative to `dir`.
+    pub fn new(dir: PathBuf) -> Sheet {
+        Sheet { dir, ..Sheet::default() }
+    }
+
+    /// Add the definitions in `stmts`. With `strict`, redefining a name that
+    /// already exists is an error (a worksheet file); otherwise the new
+    /// definition replaces the old one (REPL, notebook). Names defined twice
+    /// within `stmts` are always an error. On error nothing changes.
+    pub fn define(&mut self, stmts: &[Stmt], strict: bool) -> Result<Vec<String>, Vec<Diagnostic>> {
+        let mut errors = Vec::new();
+        let mut seen: HashMap<&str, Span> = HashMap::new();
+        let mut new_defs = Vec::new();
+        for stmt in stmts {
+            let Some(def) = definition(stmt) else { continue };
+            let earlier = seen.get(def.name.name.as_str()).copied().or_else(|| {
+                if strict {
+                    self.defs.get(&def.name.name).map(|d| d.name.span)
+                } else {
+                    None
+                }
+            });
+            if let Some(first) = earlier {
+                errors.push(duplicate(&def.name, first));
+                continue;
+            }
+            seen.insert(&stmt.defined_name().map_or("", |n| n.name.as_str()), def.name.span);
+            new_defs.push(def);
+        }
+        if !errors.is_empty() {
+            return Err(errors);
+        }
+        let backup = (self.defs.clone(), self.order.clone());
+        let names: Vec<String> = new_defs.iter().map(|d| d.name.name.clone()).collect();
+        for def in new_defs {
+            let name = def.name.name.clone();
+            if self.defs.insert(name.clone(), def).is_none() {
+                self.order.push(name);
+            }
+        }
+        let errors = self.cycle_errors(&names);
+        if !errors.is_empty() {
+            (self.defs, self.order) = backup;
+            return Err(errors);
+        }
+        self.invalidate(&names);
+        Ok(names)
+    }
+
+    fn cycle_errors(&self, new: &[String]) -> Vec<Diagnostic> {
+        let deps: HashMap<String, Vec<String>> =
+            self.defs.iter().map(|(n, d)| (n.clone(), d.deps.iter().filter(|x| self.defs.contains_key(*x)).cloned().collect())).collect();
+        let mut out = Vec::new();
+        for cycle in graph::cycles(&self.order, &deps) {
+            if !cycle.iter().any(|n| new.contains(n)) {
+                continue;
+            }
+            let Some(first) = self.defs.get(&cycle[0]) else { continue };
+            let msg = if cycle.len() == 2 {
+                format!("`{}` depends on itself", cycle[0])
+            } else {
+                format!("cycle: {}", cycle.join(" -> "))
+            };
+            out.push(Diagnostic::error(first.name.span, msg).with_hint("a worksheet is a set of definitions; each value must be computable from the others without going round in a circle"));
+        }
+        out
+    }
+
+    /// Forget cached values of `names` and of everything that depends on them.
+    pub fn invalidate(&mut self, names: &[String]) {
+        let mut dirty: HashSet<String> = names.iter().cloned().collect();
+        loop {
+            let more: Vec<String> = self
+                .defs
+                .values()
+                .filter(|d| !dirty.contains(&d.name.name) && d.deps.iter().any(|x| dirty.contains(x)))
+                .map(|d| d.name.name.clone())
+                .collect();
+            if more.is_empty() {
+                break;
+            }
+            dirty.extend(more);
+        }
+        self.cache.retain(|k, _| !dirty.contains(k));
+    }
+
+    /// Names of the inputs, in definition order.
+    pub fn inputs(&self) -> Vec<&str> {
+        self.order.iter().filter(|n| self.defs.get(*n).is_some_and(|d| d.kind == DefKind::Input)).map(String::as_str).collect()
+    }
+}
+
+fn duplicate(name: &Ident, first: Span) -> Diagnostic {
+    let mut d = Diagnostic::error(name.span, format!("`{}` is defined twice", name.name));
+    d.hints.push((Some(first), "first defined here".into()));
+    d.with_hint("give the second one another name")
+}
+
+/// The definition a statement makes, if any.
+pub fn definition(stmt: &Stmt) -> Option<Def> {
+    let (name, kind, params, expr) = match &stmt.kind {
+        StmtKind::Binding { name, expr } => (name, DefKind::Value, Vec::new(), expr),
+        StmtKind::Input { name, expr } => (name, DefKind::Input, Vec::new(), expr),
+        StmtKind::Function { name, params, body } => {
+            (name, DefKind::Function, params.iter().map(|p| p.name.clone()).collect(), body)
+        }
+        StmtKind::Check(_) | StmtKind::Show(_) => return None,
+    };
+    let deps = graph::dependencies(expr, &params);
+    Some(Def { name: name.clone(), kind, params, expr: Arc::new(expr.clone()), deps, span: stmt.span })
+}

@@ -1,0 +1,78 @@
+//! JSON rendering: SI magnitudes with their SI unit, plus display text.
+//! Temperatures are in kelvin; NaN and infinities become `null`.
+
+use serde_json::{json as j, Map, Value as Json};
+
+use super::text::text;
+use crate::value::Value;
+
+/// A value as a JSON object: `si`, `unit` (SI), `text` (display); records add
+/// `fields` of the same shape; tables add `columns` and `rows`.
+pub fn json(value: &Value) -> Json {
+    let mut obj = Map::new();
+    obj.insert("text".into(), Json::String(text(value)));
+    match value {
+        Value::Quantity(q, _) => {
+            obj.insert("si".into(), number(q.si));
+            obj.insert("unit".into(), Json::String(q.dim.si_unit()));
+        }
+        Value::Bool(b) => {
+            obj.insert("value".into(), Json::Bool(*b));
+        }
+        Value::List(items) => list(items, &mut obj),
+        Value::Record(r) => {
+            obj.insert("type".into(), Json::String(r.type_name.clone()));
+            let fields = r.fields.iter().map(|(n, v)| named(n, v)).collect();
+            obj.insert("fields".into(), Json::Array(fields));
+        }
+        Value::Table(t) => {
+            let cols = t.columns.iter().map(|c| j!({ "name": c.name, "unit": column_unit(c) })).collect();
+            obj.insert("columns".into(), Json::Array(cols));
+            let n = t.columns.first().map_or(0, |c| c.cells.len());
+            let rows = (0..n).map(|r| Json::Array(t.columns.iter().map(|c| cell(c.cells.get(r))).collect())).collect();
+            obj.insert("rows".into(), Json::Array(rows));
+        }
+        Value::Str(_) | Value::Plot(_) | Value::Function(_) => {}
+    }
+    Json::Object(obj)
+}
+
+/// `json(value)` with a leading `name` field.
+pub fn named(name: &str, value: &Value) -> Json {
+    let mut obj = Map::new();
+    obj.insert("name".into(), Json::String(name.to_string()));
+    if let Json::Object(rest) = json(value) {
+        obj.extend(rest);
+    }
+    Json::Object(obj)
+}
+
+fn list(items: &[Value], obj: &mut Map<String, Json>) {
+    let quantities: Vec<_> = items.iter().filter_map(|v| if let Value::Quantity(q, _) = v { Some(q) } else { None }).collect();
+    if !items.is_empty() && quantities.len() == items.len() && quantities.iter().all(|q| q.dim == quantities[0].dim) {
+        obj.insert("si".into(), Json::Array(quantities.iter().map(|q| number(q.si)).collect()));
+        obj.insert("unit".into(), Json::String(quantities[0].dim.si_unit()));
+    } else {
+        obj.insert("items".into(), Json::Array(items.iter().map(json).collect()));
+    }
+}
+
+fn column_unit(c: &crate::value::Column) -> Json {
+    match c.cells.iter().find_map(|v| if let Value::Quantity(q, _) = v { Some(q.dim) } else { None }) {
+        Some(d) => Json::String(d.si_unit()),
+        None => Json::Null,
+    }
+}
+
+fn cell(v: Option<&Value>) -> Json {
+    match v {
+        Some(Value::Quantity(q, _)) => number(q.si),
+        Some(Value::Bool(b)) => Json::Bool(*b),
+        Some(other) => Json::String(text(other)),
+        None => Json::Null,
+    }
+}
+
+fn number(x: f64) -> Json {
+    serde_json::Number::from_f64(x).map_or(Json::Null, Json::Number)
+}

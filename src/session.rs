@@ -1,0 +1,331 @@
+//! The one API every front end uses: a worksheet's persistent state.
+//!
+//! The CLI, the REPL and the Jupyter kernel are thin adapters over [`Session`]:
+//! `eval` text, `complete` and `inspect` names, ask `is_complete` for
+//! multi-line input, and `render_diagnostic` errors against the source map.
+
+use std::path::{Path, PathBuf};
+use std::sync::atomic::AtomicBool;
+use std::sync::Arc;
+
+use codespan_reporting::diagnostic::{Diagnostic as Report, Label};
+use codespan_reporting::files::SimpleFiles;
+use codespan_reporting::term::{self, termcolor::Ansi};
+
+use crate::diag::{Diagnostic, Severity, Span};
+use crate::eval::{self, Ctx, DefKind, Limits, Mode, Sheet, Sources};
+use crate::library::{self, closest};
+use crate::syntax::{self, split};
+use crate::units;
+use crate::value::Value;
+
+pub use crate::eval::OutputItem;
+
+/// What one `eval` produced.
+#[derive(Clone, Debug, Default)]
+pub struct Output {
+    pub items: Vec<OutputItem>,
+    pub warnings: Vec<Diagnostic>,
+}
+
+/// Candidates for completing the word that ends at the cursor.
+#[derive(Clone, Debug, Default, PartialEq, Eq)]
+pub struct Completion {
+    /// Byte range of the word being completed.
+    pub start: usize,
+    pub end: usize,
+    pub matches: Vec<String>,
+}
+
+/// Whether a piece of input can be evaluated yet.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum Completeness {
+    Complete,
+    /// Brackets are still open; continue on the next line with this indent.
+    Incomplete { indent: String },
+    /// It can never become valid by adding text (e.g. an unmatched `)`).
+    Invalid,
+}
+
+/// A worksheet's persistent state: definitions, computed values, sources.
+pub struct Session {
+    sources: Sources,
+    sheet: Sheet,
+    limits: Limits,
+    /// A worksheet file: redefining a name is an error.
+    strict: bool,
+    mode: Mode,
+    /// The file being run, for diagnostics and load cycles.
+    path: Option<PathBuf>,
+    entries: usize,
+    /// Input overrides waiting for the worksheet that declares them.
+    pending: Vec<(String, Value)>,
+}
+
+impl Default for Session {
+    fn default() -> Session {
+        Session::new()
+    }
+}
+
+impl Session {
+    /// An interactive session (REPL, notebook): redefining a name replaces it.
+    pub fn new() -> Session {
+        let dir = std::env::current_dir().unwrap_or_default();
+        Session {
+            sources: Sources::default(),
+            sheet: Sheet::new(dir),
+            limits: Limits::default(),
+            strict: false,
+            mode: Mode::Run,
+            path: None,
+            entries: 0,
+            pending: Vec::new(),
+        }
+    }
+
+    /// A session for running the worksheet file at `path`: loads are relative
+    /// to its folder, diagnostics name it, and duplicate names are errors.
+    pub fn with_file(path: impl AsRef<Path>) -> Session {
+        let path = path.as_ref();
+        let dir = path.parent().map(Path::to_path_buf).unwrap_or_default();
+        let mut s = Session::new();
+        s.sheet.dir = if dir.as_os_str().is_empty() { PathBuf::from(".") } else { dir };
+        s.strict = true;
+        s.path = Some(path.to_path_buf());
+        s
+    }
+
+    /// Only check names, units and dimensions; do not run engine work
+    /// (`siccant check`). Values that need a built-in are skipped.
+    pub fn check_only(mut self) -> Session {
+        self.mode = Mode::CheckOnly;
+        self
+    }
+
+    /// Override an input before the worksheet is evaluated (`--set`). The next
+    /// `eval` reports an error if its text does not declare `name` as an input.
+    pub fn set_input(&mut self, name: impl Into<String>, value: Value) {
+        self.pending.push((name.into(), value));
+    }
+
+    /// Evaluate text: add its definitions, then compute and return its statements'
+    /// results in order. All errors found are returned.
+    pub fn eval(&mut self, text: &str) -> Result<Output, Vec<Diagnostic>> {
+        self.limits.reset();
+        let file = self.add_source(text);
+        let (stmts, errors) = syntax::parse(text, file);
+        if !errors.is_empty() {
+            return Err(errors);
+        }
+        self.sheet.define(&stmts, self.strict)?;
+        self.apply_pending(file)?;
+        let mut ctx = Ctx::new(&mut self.sheet, &mut self.sources, &self.limits, self.mode);
+        if let Some(p) = self.path.as_ref().and_then(|p| p.canonicalize().ok()) {
+            ctx.load_stack.push(p);
+        }
+        let items = eval::run_statements(&mut ctx, &stmts);
+        let (errors, warnings) = (std::mem::take(&mut ctx.errors), std::mem::take(&mut ctx.warnings));
+        if errors.is_empty() {
+            Ok(Output { items, warnings })
+        } else {
+            Err(errors)
+        }
+    }
+
+    fn add_source(&mut self, text: &str) -> u32 {
+        self.entries += 1;
+        let name = match &self.path {
+            Some(p) if self.entries == 1 => p.display().to_string(),
+            _ => format!("<input {}>", self.entries),
+        };
+        self.sources.add(name, text, &self.sheet.dir.clone())
+    }
+
+    fn apply_pending(&mut self, file: u32) -> Result<(), Vec<Diagnostic>> {
+        let mut errors = Vec::new();
+        let inputs: Vec<String> = self.sheet.inputs().into_iter().map(String::from).collect();
+        for (name, value) in std::mem::take(&mut self.pending) {
+            if inputs.contains(&name) {
+                self.sheet.overrides.insert(name.clone(), value);
+                self.sheet.invalidate(&[name]);
+                continue;
+            }
+            let span = Span { file, start: 0, end: 0 };
+            let mut d = Diagnostic::error(span, format!("`--set {name}`: `{name}` is not an input of this worksheet"));
+            let names: Vec<&str> = inputs.iter().map(String::as_str).collect();
+            if let Some(best) = closest(&name, &names) {
+                d = d.with_hint(format!("did you mean `{best}`?"));
+            }
+            let list = if inputs.is_empty() { "none".to_string() } else { inputs.join(", ") };
+            errors.push(d.with_hint(format!("inputs declared with `input`: {list}")));
+        }
+        if errors.is_empty() {
+            Ok(())
+        } else {
+            Err(errors)
+        }
+    }
+
+    /// Names of this session's inputs, in definition order.
+    pub fn inputs(&self) -> Vec<String> {
+        self.sheet.inputs().into_iter().map(String::from).collect()
+    }
+
+    /// The source text of a definition, e.g. `area = 2.4 m * 1.8 m`, for records.
+    pub fn definition_text(&self, name: &str) -> Option<&str> {
+        self.sheet.defs.get(name).map(|d| self.sources.slice(d.span))
+    }
+
+    /// The names a definition reads.
+    pub fn dependencies(&self, name: &str) -> Option<&[String]> {
+        self.sheet.defs.get(name).map(|d| d.deps.as_slice())
+    }
+
+    /// The source map (for front ends that render spans themselves).
+    pub fn sources(&self) -> &Sources {
+        &self.sources
+    }
+
+    /// Complete the word ending at byte `cursor`: defined names, built-ins,
+    /// units and keywords starting with it.
+    pub fn complete(&self, text: &str, cursor: usize) -> Completion {
+        let cursor = floor_char_boundary(text, cursor.min(text.len()));
+        let start = word_start(text, cursor);
+        let prefix = &text[start..cursor];
+        let mut matches: Vec<String> = Vec::new();
+        if !prefix.is_empty() {
+            let names = self.sheet.order.iter().map(String::as_str);
+            let builtins = library::registry().iter().map(|b| b.name);
+            let units = units::unit_names().into_iter();
+            let keywords = ["input", "check", "as", "and", "or", "not", "true", "false", "if", "then", "else", "load"];
+            for m in names.chain(builtins).chain(keywords).chain(units) {
+                if m.starts_with(prefix) && !matches.iter().any(|x| x == m) {
+                    matches.push(m.to_string());
+                }
+            }
+        }
+        Completion { start, end: cursor, matches }
+    }
+
+    /// Can `text` be evaluated now, or are brackets still open?
+    pub fn is_complete(&self, text: &str) -> Completeness {
+        let scan = split::scan(text, 0);
+        let only_unclosed = scan.errors.iter().all(|d| d.message.starts_with("unclosed"));
+        if scan.open_at_end > 0 && only_unclosed {
+            return Completeness::Incomplete { indent: "    ".repeat(scan.open_at_end.min(8)) };
+        }
+        if scan.errors.iter().any(|d| d.message.starts_with("unexpected") || d.message.contains("does not match")) {
+            return Completeness::Invalid;
+        }
+        Completeness::Complete
+    }
+
+    /// Documentation of the name under the cursor: a built-in's help, or a
+    /// definition with its current value.
+    pub fn inspect(&self, text: &str, cursor: usize) -> Option<String> {
+        let cursor = floor_char_boundary(text, cursor.min(text.len()));
+        let start = word_start(text, cursor);
+        let end = cursor + text[cursor..].find(|c: char| !is_word_char(c)).unwrap_or(text.len() - cursor);
+        let word = &text[start..end];
+        if word.is_empty() {
+            return None;
+        }
+        self.help(word)
+    }
+
+    /// Help for a name: a built-in, a unit, or a definition of this session.
+    pub fn help(&self, name: &str) -> Option<String> {
+        if let Some(def) = self.sheet.defs.get(name) {
+            let mut s = self.sources.slice(def.span).to_string();
+            if let Some(v) = self.sheet.cache.get(name) {
+                s.push_str(&format!("\n  = {}", crate::render::text(v)));
+            }
+            if def.kind == DefKind::Input {
+                s.push_str("\n  (an input: override it with `--set` or in `load`)");
+            }
+            return Some(s);
+        }
+        if let Some(b) = library::find(name) {
+            return Some(crate::render::help_text(b));
+        }
+        units::lookup_unit(name).map(|u| format!("unit `{}`: {}", u.symbol, eval::dim_words(u.dim)))
+    }
+
+    /// A flag that stops a running evaluation when set (from another thread).
+    pub fn interrupt_handle(&self) -> Arc<AtomicBool> {
+        self.limits.interrupt.clone()
+    }
+
+    /// Render a diagnostic as `file:line:col` with the source line underlined.
+    pub fn render_diagnostic(&self, d: &Diagnostic, color: bool) -> String {
+        render_diagnostic(&self.sources, d, color)
+    }
+}
+
+/// Render a diagnostic against a source map (codespan-reporting).
+pub fn render_diagnostic(sources: &Sources, d: &Diagnostic, color: bool) -> String {
+    let mut files = SimpleFiles::new();
+    for f in sources.files() {
+        files.add(f.name.clone(), f.text.clone());
+    }
+    let report = to_report(d, sources);
+    let config = term::Config::default();
+    let mut buffer = Ansi::new(Vec::new());
+    let result = if color {
+        term::emit_to_write_style(&mut buffer, &config, &files, &report)
+    } else {
+        let mut plain = String::new();
+        return match term::emit_to_string(&mut plain, &config, &files, &report) {
+            Ok(()) => plain,
+            Err(_) => format!("{}: {}\n", severity_word(d.severity), d.message),
+        };
+    };
+    match result {
+        Ok(()) => String::from_utf8_lossy(&buffer.into_inner()).into_owned(),
+        Err(_) => format!("{}: {}\n", severity_word(d.severity), d.message),
+    }
+}
+
+fn to_report(d: &Diagnostic, sources: &Sources) -> Report<usize> {
+    let base = match d.severity {
+        Severity::Error => Report::error(),
+        Severity::Warning => Report::warning(),
+    };
+    let mut labels = Vec::new();
+    let mut notes = Vec::new();
+    if sources.get(d.span.file).is_some() {
+        labels.push(Label::primary(d.span.file as usize, d.span.start as usize..d.span.end as usize));
+    }
+    for (span, hint) in &d.hints {
+        match span {
+            Some(s) if sources.get(s.file).is_some() => {
+                labels.push(Label::secondary(s.file as usize, s.start as usize..s.end as usize).with_message(hint))
+            }
+            _ => notes.push(format!("hint: {hint}")),
+        }
+    }
+    base.with_message(&d.message).with_labels(labels).with_notes(notes)
+}
+
+fn severity_word(s: Severity) -> &'static str {
+    match s {
+        Severity::Error => "error",
+        Severity::Warning => "warning",
+    }
+}
+
+fn is_word_char(c: char) -> bool {
+    c.is_alphanumeric() || c == '_'
+}
+
+fn word_start(text: &str, cursor: usize) -> usize {
+    text[..cursor].rfind(|c: char| !is_word_char(c)).map_or(0, |i| i + text[i..].chars().next().map_or(1, char::len_utf8))
+}
+
+fn floor_char_boundary(text: &str, mut i: usize) -> usize {
+    while i > 0 && !text.is_char_boundary(i) {
+        i -= 1;
+    }
+    i
+}
