@@ -82,8 +82,13 @@ pub fn warning_text(session: &Session, warnings: &[Diagnostic]) -> String {
     text
 }
 
+/// The lines of `text`, without trailing blank lines.
 fn lines(text: &str) -> Vec<String> {
-    text.lines().map(str::to_string).collect()
+    let mut lines: Vec<String> = text.lines().map(str::to_string).collect();
+    while lines.last().is_some_and(|l| l.trim().is_empty()) {
+        lines.pop();
+    }
+    lines
 }
 
 /// Escape text for HTML.

@@ -3,7 +3,7 @@
 use std::sync::atomic::{AtomicBool, Ordering};
 
 use jupyter_protocol::messaging::{
-    DisplayData, ErrorOutput, ExecuteResult, JupyterMessageContent, StreamContent,
+    DisplayData, ErrorOutput, ExecuteResult, JupyterMessageContent, StreamContent, Transient,
 };
 use jupyter_protocol::{ExecutionCount, Media, MediaType};
 
@@ -64,7 +64,11 @@ fn shown(sheet: &Worksheet, output: &Output, count: usize) -> Executed {
         let (data, mut trouble) = bundle::item_bundle(item);
         problems.append(&mut trouble);
         outputs.push(if Some(index) == last_value {
-            ExecuteResult::new(ExecutionCount::new(count), data).into()
+            ExecuteResult {
+                transient: Some(Transient::default()),
+                ..ExecuteResult::new(ExecutionCount::new(count), data)
+            }
+            .into()
         } else {
             DisplayData::new(data).into()
         });

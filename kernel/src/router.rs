@@ -197,7 +197,11 @@ impl Router {
         for output in executed.outputs {
             self.ctx.iopub.publish(output, request);
         }
-        let mut reply = ExecuteReply { execution_count: ExecutionCount::new(count), ..Default::default() };
+        let mut reply = ExecuteReply {
+            execution_count: ExecutionCount::new(count),
+            user_expressions: Some(Default::default()),
+            ..Default::default()
+        };
         if let Some(error) = executed.error {
             if !ex.silent {
                 self.ctx.iopub.publish(error.clone(), request);
