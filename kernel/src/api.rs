@@ -12,11 +12,17 @@ pub mod render {
 
     /// A plot as SVG text.
     pub fn svg(plot: &Plot) -> Result<String, String> {
-        Err(format!("this build has no plot renderer (plot `{}`)", plot.title))
+        Err(format!(
+            "this build has no plot renderer (plot `{}`)",
+            plot.title
+        ))
     }
 
     /// A plot as PNG bytes.
     pub fn png(plot: &Plot) -> Result<Vec<u8>, String> {
-        Err(format!("this build has no plot renderer (plot `{}`)", plot.title))
+        Err(format!(
+            "this build has no plot renderer (plot `{}`)",
+            plot.title
+        ))
     }
 }

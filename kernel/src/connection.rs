@@ -36,10 +36,18 @@ pub struct Sockets {
 
 /// Read and check a connection file.
 pub fn read(path: &Path) -> Result<ConnectionInfo, StartError> {
-    let text = std::fs::read_to_string(path)
-        .map_err(|e| StartError(format!("cannot read connection file {}: {e}", path.display())))?;
-    let info: ConnectionInfo = serde_json::from_str(&text)
-        .map_err(|e| StartError(format!("connection file {} is not valid: {e}", path.display())))?;
+    let text = std::fs::read_to_string(path).map_err(|e| {
+        StartError(format!(
+            "cannot read connection file {}: {e}",
+            path.display()
+        ))
+    })?;
+    let info: ConnectionInfo = serde_json::from_str(&text).map_err(|e| {
+        StartError(format!(
+            "connection file {} is not valid: {e}",
+            path.display()
+        ))
+    })?;
     if info.key.is_empty() {
         log::info("the connection file has an empty key: messages are not signed");
     } else if info.signature_scheme != "hmac-sha256" {
@@ -53,18 +61,27 @@ pub fn read(path: &Path) -> Result<ConnectionInfo, StartError> {
 
 /// Bind all five sockets to the endpoints in `info`.
 pub async fn bind(info: &ConnectionInfo, session_id: &str) -> Result<Sockets, StartError> {
-    fn fail(what: &'static str, url: String) -> impl FnOnce(jupyter_zmq_client::RuntimeError) -> StartError {
+    fn fail(
+        what: &'static str,
+        url: String,
+    ) -> impl FnOnce(jupyter_zmq_client::RuntimeError) -> StartError {
         move |e| StartError(format!("cannot bind the {what} socket to {url}: {e}"))
     }
     Ok(Sockets {
-        shell: create_kernel_shell_connection(info, session_id).await.map_err(fail("shell", info.shell_url()))?,
+        shell: create_kernel_shell_connection(info, session_id)
+            .await
+            .map_err(fail("shell", info.shell_url()))?,
         control: create_kernel_control_connection(info, session_id)
             .await
             .map_err(fail("control", info.control_url()))?,
-        stdin: create_kernel_stdin_connection(info, session_id).await.map_err(fail("stdin", info.stdin_url()))?,
+        stdin: create_kernel_stdin_connection(info, session_id)
+            .await
+            .map_err(fail("stdin", info.stdin_url()))?,
         iopub: create_kernel_iopub_xpub_connection(info, session_id)
             .await
             .map_err(fail("iopub", info.iopub_url()))?,
-        heartbeat: create_kernel_heartbeat_connection(info).await.map_err(fail("heartbeat", info.hb_url()))?,
+        heartbeat: create_kernel_heartbeat_connection(info)
+            .await
+            .map_err(fail("heartbeat", info.hb_url()))?,
     })
 }

@@ -38,14 +38,23 @@ pub fn execute(sheet: &mut Worksheet, cell: &Cell, interrupt: &AtomicBool) -> Ex
         Ok(output) => shown(sheet, &output, cell.count),
         Err(diagnostics) => Executed {
             outputs: Vec::new(),
-            error: Some(bundle::error_output(&sheet.session, &diagnostics, interrupted)),
+            error: Some(bundle::error_output(
+                &sheet.session,
+                &diagnostics,
+                interrupted,
+            )),
         },
     };
     if cell.store_history && !cell.silent {
-        sheet.history.push(cell.count, &cell.code, &plain_result(&executed.outputs));
+        sheet
+            .history
+            .push(cell.count, &cell.code, &plain_result(&executed.outputs));
     }
     if cell.silent {
-        return Executed { outputs: Vec::new(), error: executed.error };
+        return Executed {
+            outputs: Vec::new(),
+            error: executed.error,
+        };
     }
     executed
 }
@@ -59,7 +68,10 @@ fn shown(sheet: &Worksheet, output: &Output, count: usize) -> Executed {
         let text = bundle::warning_text(&sheet.session, &output.warnings);
         outputs.push(StreamContent::stderr(&text).into());
     }
-    let last_value = output.items.iter().rposition(|i| matches!(i, OutputItem::Value { .. }));
+    let last_value = output
+        .items
+        .iter()
+        .rposition(|i| matches!(i, OutputItem::Value { .. }));
     for (index, item) in output.items.iter().enumerate() {
         let (data, mut trouble) = bundle::item_bundle(item);
         problems.append(&mut trouble);
@@ -76,7 +88,10 @@ fn shown(sheet: &Worksheet, output: &Output, count: usize) -> Executed {
     if !problems.is_empty() {
         outputs.push(StreamContent::stderr(&(problems.join("\n") + "\n")).into());
     }
-    Executed { outputs, error: None }
+    Executed {
+        outputs,
+        error: None,
+    }
 }
 
 /// The text/plain of the execute_result, for history with output.

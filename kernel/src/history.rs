@@ -15,35 +15,52 @@ pub struct History {
 impl History {
     /// Record cell `line` with its input and plain-text output.
     pub fn push(&mut self, line: usize, input: &str, output: &str) {
-        self.cells.push((line, input.to_string(), output.to_string()));
+        self.cells
+            .push((line, input.to_string(), output.to_string()));
     }
 
     /// Answer a history request given as raw JSON content.
     pub fn query(&self, request: &Json) -> Vec<HistoryEntry> {
-        let output = request.get("output").and_then(Json::as_bool).unwrap_or(false);
+        let output = request
+            .get("output")
+            .and_then(Json::as_bool)
+            .unwrap_or(false);
         let n = request.get("n").and_then(Json::as_u64).map(|n| n as usize);
-        let picked: Vec<&(usize, String, String)> = match request.get("hist_access_type").and_then(Json::as_str) {
-            Some("tail") => self.tail(n.unwrap_or(10)),
-            Some("range") => self.range(request),
-            Some("search") => self.search(request, n),
-            _ => Vec::new(),
-        };
+        let picked: Vec<&(usize, String, String)> =
+            match request.get("hist_access_type").and_then(Json::as_str) {
+                Some("tail") => self.tail(n.unwrap_or(10)),
+                Some("range") => self.range(request),
+                Some("search") => self.search(request, n),
+                _ => Vec::new(),
+            };
         picked.into_iter().map(|cell| entry(cell, output)).collect()
     }
 
     fn tail(&self, n: usize) -> Vec<&(usize, String, String)> {
-        self.cells.iter().skip(self.cells.len().saturating_sub(n)).collect()
+        self.cells
+            .iter()
+            .skip(self.cells.len().saturating_sub(n))
+            .collect()
     }
 
     fn range(&self, request: &Json) -> Vec<&(usize, String, String)> {
         let start = request.get("start").and_then(Json::as_i64).unwrap_or(0);
-        let stop = request.get("stop").and_then(Json::as_i64).unwrap_or(i64::MAX);
-        self.cells.iter().filter(|(line, _, _)| (*line as i64) >= start && (*line as i64) < stop).collect()
+        let stop = request
+            .get("stop")
+            .and_then(Json::as_i64)
+            .unwrap_or(i64::MAX);
+        self.cells
+            .iter()
+            .filter(|(line, _, _)| (*line as i64) >= start && (*line as i64) < stop)
+            .collect()
     }
 
     fn search(&self, request: &Json, n: Option<usize>) -> Vec<&(usize, String, String)> {
         let pattern = request.get("pattern").and_then(Json::as_str).unwrap_or("*");
-        let unique = request.get("unique").and_then(Json::as_bool).unwrap_or(false);
+        let unique = request
+            .get("unique")
+            .and_then(Json::as_bool)
+            .unwrap_or(false);
         let mut found: Vec<&(usize, String, String)> = Vec::new();
         for cell in self.cells.iter().rev() {
             if glob(pattern, &cell.1) && !(unique && found.iter().any(|c| c.1 == cell.1)) {
@@ -108,11 +125,25 @@ mod tests {
         h.push(1, "a = 1", "");
         h.push(2, "a", "1");
         h.push(3, "b = 2", "");
-        let lines = |q| h.query(&q).into_iter().map(|e| match e {
-            HistoryEntry::Input(_, l, _) | HistoryEntry::InputOutput(_, l, _) => l,
-        }).collect::<Vec<_>>();
-        assert_eq!(lines(json!({"hist_access_type": "tail", "n": 2})), vec![2, 3]);
-        assert_eq!(lines(json!({"hist_access_type": "range", "start": 1, "stop": 3})), vec![1, 2]);
-        assert_eq!(lines(json!({"hist_access_type": "search", "pattern": "? = *"})), vec![1, 3]);
+        let lines = |q| {
+            h.query(&q)
+                .into_iter()
+                .map(|e| match e {
+                    HistoryEntry::Input(_, l, _) | HistoryEntry::InputOutput(_, l, _) => l,
+                })
+                .collect::<Vec<_>>()
+        };
+        assert_eq!(
+            lines(json!({"hist_access_type": "tail", "n": 2})),
+            vec![2, 3]
+        );
+        assert_eq!(
+            lines(json!({"hist_access_type": "range", "start": 1, "stop": 3})),
+            vec![1, 2]
+        );
+        assert_eq!(
+            lines(json!({"hist_access_type": "search", "pattern": "? = *"})),
+            vec![1, 3]
+        );
     }
 }

@@ -35,7 +35,10 @@ pub fn kernel_info() -> KernelInfoReply {
             "siccant {}: unit-checked worksheets for convective dryer design",
             env!("CARGO_PKG_VERSION")
         ),
-        help_links: vec![HelpLink { text: "siccant language reference".to_string(), url: docs_url() }],
+        help_links: vec![HelpLink {
+            text: "siccant language reference".to_string(),
+            url: docs_url(),
+        }],
         debugger: false,
         error: None,
     }

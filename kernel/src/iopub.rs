@@ -3,7 +3,9 @@
 
 use bytes::Bytes;
 use jupyter_protocol::messaging::{IoPubWelcome, JupyterMessage, JupyterMessageContent};
-use jupyter_zmq_client::{parse_subscription_message, KernelIoPubXPubConnection, SubscriptionEvent};
+use jupyter_zmq_client::{
+    parse_subscription_message, KernelIoPubXPubConnection, SubscriptionEvent,
+};
 use tokio::sync::{mpsc, oneshot};
 use zeromq::SocketRecv;
 
@@ -26,7 +28,10 @@ impl Iopub {
     pub fn start(conn: KernelIoPubXPubConnection, kernel_id: &str) -> Iopub {
         let (queue, commands) = mpsc::unbounded_channel();
         tokio::spawn(serve(conn, commands));
-        Iopub { queue, kernel_id: kernel_id.to_string() }
+        Iopub {
+            queue,
+            kernel_id: kernel_id.to_string(),
+        }
     }
 
     /// Publish `content` as a child of `parent`, with an ipykernel-style topic.
@@ -46,7 +51,10 @@ impl Iopub {
     }
 }
 
-async fn serve(mut conn: KernelIoPubXPubConnection, mut commands: mpsc::UnboundedReceiver<Command>) {
+async fn serve(
+    mut conn: KernelIoPubXPubConnection,
+    mut commands: mpsc::UnboundedReceiver<Command>,
+) {
     loop {
         tokio::select! {
             command = commands.recv() => match command {

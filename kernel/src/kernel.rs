@@ -12,17 +12,18 @@ use zeromq::{SocketRecv, SocketSend};
 
 use crate::connection::{self, StartError};
 use crate::iopub::Iopub;
-use crate::router::{Context, Role, Router};
-use crate::worker::Worker;
-use crate::wire::{self, Incoming};
 use crate::log;
+use crate::router::{Context, Role, Router};
+use crate::wire::{self, Incoming};
+use crate::worker::Worker;
 
 /// Run a kernel for the connection file at `path` until it is asked to shut down.
 pub async fn run(path: &Path) -> Result<(), StartError> {
     let info = connection::read(path)?;
     let session_id = uuid::Uuid::new_v4().to_string();
     let sockets = connection::bind(&info, &session_id).await?;
-    let worker = Worker::start().map_err(|e| StartError(format!("cannot start the evaluation thread: {e}")))?;
+    let worker = Worker::start()
+        .map_err(|e| StartError(format!("cannot start the evaluation thread: {e}")))?;
     let ctx = Arc::new(Context {
         iopub: Iopub::start(sockets.iopub, &session_id),
         interrupt: worker.interrupt_flag(),
@@ -34,7 +35,11 @@ pub async fn run(path: &Path) -> Result<(), StartError> {
     tokio::spawn(on_sigint(ctx.interrupt.clone()));
     tokio::spawn(Router::new(sockets.control, Role::Control, ctx.clone()).serve());
     tokio::spawn(Router::new(sockets.shell, Role::Shell, ctx.clone()).serve());
-    log::info(&format!("serving {} on {}", path.display(), info.shell_url()));
+    log::info(&format!(
+        "serving {} on {}",
+        path.display(),
+        info.shell_url()
+    ));
     ctx.shutdown.notified().await;
     Ok(())
 }
@@ -58,7 +63,10 @@ async fn stdin(mut conn: KernelStdinConnection) {
     loop {
         match wire::read(&mut conn, "stdin").await {
             Ok(Incoming::Request(m)) | Ok(Incoming::Malformed { request: m, .. }) => {
-                log::complaint("stdin", &format!("ignoring unexpected `{}`", m.header.msg_type))
+                log::complaint(
+                    "stdin",
+                    &format!("ignoring unexpected `{}`", m.header.msg_type),
+                )
             }
             Ok(Incoming::Dropped) => {}
             Err(e) => {

@@ -36,7 +36,9 @@ pub fn data_dir(target: &Target) -> Result<PathBuf, String> {
             Ok(if cfg!(target_os = "macos") {
                 home.join("Library").join("Jupyter")
             } else {
-                std::env::var_os("XDG_DATA_HOME").map_or(home.join(".local").join("share"), PathBuf::from).join("jupyter")
+                std::env::var_os("XDG_DATA_HOME")
+                    .map_or(home.join(".local").join("share"), PathBuf::from)
+                    .join("jupyter")
             })
         }
     }
@@ -71,7 +73,8 @@ pub fn install(target: &Target, exe: &Path) -> Result<PathBuf, String> {
     std::fs::write(dir.join("logo-svg.svg"), LOGO_SVG).map_err(fail("logo-svg.svg"))?;
     for size in [32, 64] {
         let png = logo_png(size)?;
-        std::fs::write(dir.join(format!("logo-{size}x{size}.png")), png).map_err(fail("the logo PNG"))?;
+        std::fs::write(dir.join(format!("logo-{size}x{size}.png")), png)
+            .map_err(fail("the logo PNG"))?;
     }
     Ok(dir)
 }
@@ -89,10 +92,15 @@ pub fn uninstall(target: &Target) -> Result<Option<PathBuf>, String> {
 /// The logo drawn at `size` x `size` pixels, as PNG bytes.
 pub fn logo_png(size: u32) -> Result<Vec<u8>, String> {
     use resvg::{tiny_skia, usvg};
-    let tree = usvg::Tree::from_str(LOGO_SVG, &usvg::Options::default()).map_err(|e| e.to_string())?;
+    let tree =
+        usvg::Tree::from_str(LOGO_SVG, &usvg::Options::default()).map_err(|e| e.to_string())?;
     let mut pixmap = tiny_skia::Pixmap::new(size, size).ok_or("logo size must be positive")?;
     let scale = size as f32 / tree.size().width();
-    resvg::render(&tree, tiny_skia::Transform::from_scale(scale, scale), &mut pixmap.as_mut());
+    resvg::render(
+        &tree,
+        tiny_skia::Transform::from_scale(scale, scale),
+        &mut pixmap.as_mut(),
+    );
     pixmap.encode_png().map_err(|e| e.to_string())
 }
 
@@ -122,7 +130,12 @@ mod tests {
         let target = Target::Prefix(prefix.path().to_path_buf());
         let dir = install(&target, Path::new("/x/siccant-kernel")).unwrap();
         assert!(dir.ends_with("share/jupyter/kernels/siccant"));
-        for file in ["kernel.json", "logo-svg.svg", "logo-32x32.png", "logo-64x64.png"] {
+        for file in [
+            "kernel.json",
+            "logo-svg.svg",
+            "logo-32x32.png",
+            "logo-64x64.png",
+        ] {
             assert!(dir.join(file).is_file(), "{file} missing");
         }
         assert_eq!(uninstall(&target).unwrap(), Some(dir.clone()));

@@ -4,7 +4,10 @@ use std::time::{SystemTime, UNIX_EPOCH};
 
 /// Write one log line: `[siccant-kernel <unix seconds>] <level>: <message>`.
 pub fn line(level: &str, message: &str) {
-    let now = SystemTime::now().duration_since(UNIX_EPOCH).map(|d| d.as_secs_f64()).unwrap_or(0.0);
+    let now = SystemTime::now()
+        .duration_since(UNIX_EPOCH)
+        .map(|d| d.as_secs_f64())
+        .unwrap_or(0.0);
     eprintln!("[siccant-kernel {now:.3}] {level}: {message}");
 }
 

@@ -69,13 +69,16 @@ fn run(connection_file: &std::path::Path) -> Result<(), String> {
         .enable_all()
         .build()
         .map_err(|e| format!("cannot start the async runtime: {e}"))?;
-    runtime.block_on(siccant_kernel::kernel::run(connection_file)).map_err(|e| e.to_string())?;
+    runtime
+        .block_on(siccant_kernel::kernel::run(connection_file))
+        .map_err(|e| e.to_string())?;
     // The evaluation thread may still be busy; the shutdown reply has gone out.
     std::process::exit(0)
 }
 
 fn install(target: &Target) -> Result<(), String> {
-    let exe = std::env::current_exe().map_err(|e| format!("cannot find this program's path: {e}"))?;
+    let exe =
+        std::env::current_exe().map_err(|e| format!("cannot find this program's path: {e}"))?;
     let dir = kernelspec::install(target, &exe)?;
     println!("installed the siccant kernelspec in {}", dir.display());
     Ok(())
@@ -84,7 +87,10 @@ fn install(target: &Target) -> Result<(), String> {
 fn uninstall(target: &Target) -> Result<(), String> {
     match kernelspec::uninstall(target)? {
         Some(dir) => println!("removed {}", dir.display()),
-        None => println!("no siccant kernelspec found in {}", kernelspec::spec_dir(target)?.display()),
+        None => println!(
+            "no siccant kernelspec found in {}",
+            kernelspec::spec_dir(target)?.display()
+        ),
     }
     Ok(())
 }

@@ -20,8 +20,8 @@ use zeromq::RouterSocket;
 
 use crate::execution::{self, Cell};
 use crate::iopub::Iopub;
-use crate::worker::Worker;
 use crate::wire::{self, Incoming};
+use crate::worker::Worker;
 use crate::{assistance, info, log};
 
 /// What both ROUTER channels share.
@@ -59,7 +59,12 @@ enum Answer {
 impl Router {
     /// A router for `conn` in `role`.
     pub fn new(conn: Connection<RouterSocket>, role: Role, ctx: Arc<Context>) -> Router {
-        Router { conn, role, ctx, execution_count: 0 }
+        Router {
+            conn,
+            role,
+            ctx,
+            execution_count: 0,
+        }
     }
 
     fn name(&self) -> &'static str {
@@ -77,7 +82,8 @@ impl Router {
                 Ok(Incoming::Request(request)) => self.handle(request).await,
                 Ok(Incoming::Malformed { request, reason }) => {
                     let reply = wire::error_reply(&request, "BadRequest", &reason);
-                    self.answer(&request, reply.map_or(Answer::Nothing, Answer::Raw)).await;
+                    self.answer(&request, reply.map_or(Answer::Nothing, Answer::Raw))
+                        .await;
                 }
                 Ok(Incoming::Dropped) => {}
                 Err(e) => {
@@ -120,23 +126,39 @@ impl Router {
             C::ExecuteRequest(e) if self.role == Role::Shell => self.execute(request, e).await,
             C::CompleteRequest(r) if self.role == Role::Shell => {
                 let (code, cursor) = (r.code.clone(), r.cursor_pos);
-                self.on_worker(request, move |s| assistance::complete(&s.session, &code, cursor).into()).await
+                self.on_worker(request, move |s| {
+                    assistance::complete(&s.session, &code, cursor).into()
+                })
+                .await
             }
             C::InspectRequest(r) if self.role == Role::Shell => {
                 let (code, cursor) = (r.code.clone(), r.cursor_pos);
-                self.on_worker(request, move |s| assistance::inspect(&s.session, &code, cursor).into()).await
+                self.on_worker(request, move |s| {
+                    assistance::inspect(&s.session, &code, cursor).into()
+                })
+                .await
             }
             C::IsCompleteRequest(r) if self.role == Role::Shell => {
                 let code = r.code.clone();
-                self.on_worker(request, move |s| assistance::is_complete(&s.session, &code).into()).await
+                self.on_worker(request, move |s| {
+                    assistance::is_complete(&s.session, &code).into()
+                })
+                .await
             }
             C::UnknownMessage(u) if u.msg_type == "history_request" && self.role == Role::Shell => {
                 let query = u.content.clone();
-                self.on_worker(request, move |s| HistoryReply::new(s.history.query(&query)).into()).await
+                self.on_worker(request, move |s| {
+                    HistoryReply::new(s.history.query(&query)).into()
+                })
+                .await
             }
             C::CommInfoRequest(_) => Answer::Reply(CommInfoReply::default().into()),
             C::CommOpen(_) | C::CommMsg(_) | C::CommClose(_) => {
-                log::info(&format!("{}: ignoring `{}` (no comm targets)", self.name(), request.header.msg_type));
+                log::info(&format!(
+                    "{}: ignoring `{}` (no comm targets)",
+                    self.name(),
+                    request.header.msg_type
+                ));
                 Answer::Nothing
             }
             _ => self.unexpected(request),
@@ -150,13 +172,21 @@ impl Router {
     {
         match self.ctx.worker.call(job).await {
             Ok(content) => Answer::Reply(content),
-            Err(_) => wire::error_reply(request, "InternalError", "the evaluation thread failed on this request")
-                .map_or(Answer::Nothing, Answer::Raw),
+            Err(_) => wire::error_reply(
+                request,
+                "InternalError",
+                "the evaluation thread failed on this request",
+            )
+            .map_or(Answer::Nothing, Answer::Raw),
         }
     }
 
     fn unexpected(&self, request: &JupyterMessage) -> Answer {
-        let what = format!("unexpected message type `{}` on {}", request.header.msg_type, self.name());
+        let what = format!(
+            "unexpected message type `{}` on {}",
+            request.header.msg_type,
+            self.name()
+        );
         log::complaint(self.name(), &what);
         wire::error_reply(request, "UnknownMessageType", &what).map_or(Answer::Nothing, Answer::Raw)
     }
@@ -168,13 +198,21 @@ impl Router {
     }
 
     async fn shut_down(&mut self, request: &JupyterMessage, shutdown: ShutdownRequest) {
-        let reply = ShutdownReply { restart: shutdown.restart, status: ReplyStatus::Ok, error: None };
+        let reply = ShutdownReply {
+            restart: shutdown.restart,
+            status: ReplyStatus::Ok,
+            error: None,
+        };
         self.ctx.interrupt.store(true, Ordering::SeqCst);
-        self.send(JupyterMessage::new(reply.clone(), Some(request))).await;
+        self.send(JupyterMessage::new(reply.clone(), Some(request)))
+            .await;
         self.ctx.iopub.publish(reply, request);
         self.ctx.iopub.publish(Status::idle(), request);
         self.ctx.iopub.flush().await;
-        log::info(&format!("shutdown requested (restart: {})", shutdown.restart));
+        log::info(&format!(
+            "shutdown requested (restart: {})",
+            shutdown.restart
+        ));
         self.ctx.shutdown.notify_one();
     }
 
@@ -185,14 +223,30 @@ impl Router {
         }
         let count = self.execution_count;
         if !ex.silent {
-            let input = ExecuteInput { code: ex.code.clone(), execution_count: ExecutionCount::new(count) };
+            let input = ExecuteInput {
+                code: ex.code.clone(),
+                execution_count: ExecutionCount::new(count),
+            };
             self.ctx.iopub.publish(input, request);
         }
-        let cell = Cell { code: ex.code.clone(), silent: ex.silent, store_history: store, count };
+        let cell = Cell {
+            code: ex.code.clone(),
+            silent: ex.silent,
+            store_history: store,
+            count,
+        };
         let flag = self.ctx.interrupt.clone();
-        let executed = match self.ctx.worker.call(move |s| execution::execute(s, &cell, &flag)).await {
+        let executed = match self
+            .ctx
+            .worker
+            .call(move |s| execution::execute(s, &cell, &flag))
+            .await
+        {
             Ok(executed) => executed,
-            Err(_) => execution::Executed { outputs: Vec::new(), error: Some(crate::bundle::internal_error()) },
+            Err(_) => execution::Executed {
+                outputs: Vec::new(),
+                error: Some(crate::bundle::internal_error()),
+            },
         };
         for output in executed.outputs {
             self.ctx.iopub.publish(output, request);
@@ -207,8 +261,11 @@ impl Router {
                 self.ctx.iopub.publish(error.clone(), request);
             }
             reply.status = ReplyStatus::Error;
-            reply.error =
-                Some(Box::new(ReplyError { ename: error.ename, evalue: error.evalue, traceback: error.traceback }));
+            reply.error = Some(Box::new(ReplyError {
+                ename: error.ename,
+                evalue: error.evalue,
+                traceback: error.traceback,
+            }));
         }
         Answer::Reply(reply.into())
     }

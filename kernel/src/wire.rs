@@ -18,18 +18,27 @@ pub enum Incoming {
     /// A well-formed request.
     Request(JupyterMessage),
     /// A request whose header parsed but whose content did not: answer with an error.
-    Malformed { request: JupyterMessage, reason: String },
+    Malformed {
+        request: JupyterMessage,
+        reason: String,
+    },
     /// Dropped (bad signature, broken framing, unparseable header); already logged.
     Dropped,
 }
 
 /// Read the next request from `conn`, verifying its signature.
-pub async fn read<S: SocketRecv>(conn: &mut Connection<S>, channel: &str) -> Result<Incoming, zeromq::ZmqError> {
+pub async fn read<S: SocketRecv>(
+    conn: &mut Connection<S>,
+    channel: &str,
+) -> Result<Incoming, zeromq::ZmqError> {
     let multipart = conn.socket.recv().await?;
     let raw = match RawMessage::from_multipart(multipart, &conn.mac) {
         Ok(raw) => raw,
         Err(e) => {
-            log::complaint(channel, &format!("dropped a message that failed the signature or framing check: {e}"));
+            log::complaint(
+                channel,
+                &format!("dropped a message that failed the signature or framing check: {e}"),
+            );
             return Ok(Incoming::Dropped);
         }
     };
@@ -39,13 +48,22 @@ pub async fn read<S: SocketRecv>(conn: &mut Connection<S>, channel: &str) -> Res
 /// Decode the JSON frames of a verified message.
 pub fn decode(raw: RawMessage, channel: &str) -> Incoming {
     if raw.jparts.len() < 4 {
-        log::complaint(channel, &format!("dropped a message with {} of 4 JSON frames", raw.jparts.len()));
+        log::complaint(
+            channel,
+            &format!(
+                "dropped a message with {} of 4 JSON frames",
+                raw.jparts.len()
+            ),
+        );
         return Incoming::Dropped;
     }
     let header: Header = match serde_json::from_slice(&raw.jparts[0]) {
         Ok(h) => h,
         Err(e) => {
-            log::complaint(channel, &format!("dropped a message whose header is malformed or misses fields: {e}"));
+            log::complaint(
+                channel,
+                &format!("dropped a message whose header is malformed or misses fields: {e}"),
+            );
             return Incoming::Dropped;
         }
     };
@@ -67,7 +85,10 @@ pub fn decode(raw: RawMessage, channel: &str) -> Incoming {
             Incoming::Request(request)
         }
         Err(reason) => {
-            log::complaint(channel, &format!("`{msg_type}` has malformed content: {reason}"));
+            log::complaint(
+                channel,
+                &format!("`{msg_type}` has malformed content: {reason}"),
+            );
             request.content = unknown(msg_type, Json::Null);
             Incoming::Malformed { request, reason }
         }

@@ -39,17 +39,25 @@ impl Worker {
     pub fn start() -> std::io::Result<Worker> {
         let (jobs, queue) = mpsc::channel::<Job>();
         let (handle_tx, handle_rx) = mpsc::channel();
-        std::thread::Builder::new().name("siccant-eval".into()).spawn(move || {
-            let session = Session::new();
-            let _ = handle_tx.send(session.interrupt_handle());
-            let mut sheet = Worksheet { session, execution_count: 0, history: History::default() };
-            for job in queue {
-                if catch_unwind(AssertUnwindSafe(|| job(&mut sheet))).is_err() {
-                    crate::log::problem("an evaluation job panicked; the kernel carries on");
+        std::thread::Builder::new()
+            .name("siccant-eval".into())
+            .spawn(move || {
+                let session = Session::new();
+                let _ = handle_tx.send(session.interrupt_handle());
+                let mut sheet = Worksheet {
+                    session,
+                    execution_count: 0,
+                    history: History::default(),
+                };
+                for job in queue {
+                    if catch_unwind(AssertUnwindSafe(|| job(&mut sheet))).is_err() {
+                        crate::log::problem("an evaluation job panicked; the kernel carries on");
+                    }
                 }
-            }
-        })?;
-        let interrupt = handle_rx.recv().map_err(|_| std::io::Error::other("evaluation thread died at start"))?;
+            })?;
+        let interrupt = handle_rx
+            .recv()
+            .map_err(|_| std::io::Error::other("evaluation thread died at start"))?;
         Ok(Worker { jobs, interrupt })
     }
 
