@@ -12,7 +12,7 @@ use zeromq::SocketRecv;
 use crate::log;
 
 enum Command {
-    Publish(JupyterMessage),
+    Publish(Box<JupyterMessage>),
     Flush(oneshot::Sender<()>),
 }
 
@@ -39,7 +39,7 @@ impl Iopub {
         let mut message = JupyterMessage::new(content, Some(parent));
         let topic = format!("kernel.{}.{}", self.kernel_id, message.header.msg_type);
         message.zmq_identities = vec![Bytes::from(topic)];
-        let _ = self.queue.send(Command::Publish(message));
+        let _ = self.queue.send(Command::Publish(Box::new(message)));
     }
 
     /// Wait until everything queued so far has been handed to the socket.
@@ -58,7 +58,7 @@ async fn serve(
     loop {
         tokio::select! {
             command = commands.recv() => match command {
-                Some(Command::Publish(message)) => send(&mut conn, message).await,
+                Some(Command::Publish(message)) => send(&mut conn, *message).await,
                 Some(Command::Flush(done)) => { let _ = done.send(()); }
                 None => return,
             },

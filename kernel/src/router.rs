@@ -51,7 +51,7 @@ pub struct Router {
 /// How a request is answered.
 enum Answer {
     Reply(JupyterMessageContent),
-    Raw(JupyterMessage),
+    Raw(Box<JupyterMessage>),
     Nothing,
     Shutdown(ShutdownRequest),
 }
@@ -82,7 +82,7 @@ impl Router {
                 Ok(Incoming::Request(request)) => self.handle(request).await,
                 Ok(Incoming::Malformed { request, reason }) => {
                     let reply = wire::error_reply(&request, "BadRequest", &reason);
-                    self.answer(&request, reply.map_or(Answer::Nothing, Answer::Raw))
+                    self.answer(&request, reply.map_or(Answer::Nothing, |m| Answer::Raw(Box::new(m))))
                         .await;
                 }
                 Ok(Incoming::Dropped) => {}
@@ -103,7 +103,7 @@ impl Router {
     async fn answer(&mut self, request: &JupyterMessage, answer: Answer) {
         match answer {
             Answer::Reply(content) => self.send(JupyterMessage::new(content, Some(request))).await,
-            Answer::Raw(message) => self.send(message).await,
+            Answer::Raw(message) => self.send(*message).await,
             Answer::Nothing => {}
             Answer::Shutdown(shutdown) => return self.shut_down(request, shutdown).await,
         }
@@ -177,7 +177,7 @@ impl Router {
                 "InternalError",
                 "the evaluation thread failed on this request",
             )
-            .map_or(Answer::Nothing, Answer::Raw),
+            .map_or(Answer::Nothing, |m| Answer::Raw(Box::new(m))),
         }
     }
 
@@ -188,7 +188,7 @@ impl Router {
             self.name()
         );
         log::complaint(self.name(), &what);
-        wire::error_reply(request, "UnknownMessageType", &what).map_or(Answer::Nothing, Answer::Raw)
+        wire::error_reply(request, "UnknownMessageType", &what).map_or(Answer::Nothing, |m| Answer::Raw(Box::new(m)))
     }
 
     fn interrupt(&self) -> Answer {
