@@ -14,7 +14,7 @@ use codespan_reporting::term::{self, termcolor::Ansi};
 
 use crate::diag::{Diagnostic, Severity, Span};
 use crate::eval::{self, Ctx, DefKind, Limits, Mode, Sheet, Sources};
-use crate::library::{self, closest};
+use crate::library;
 use crate::syntax::{self, split};
 use crate::units;
 use crate::value::Value;
@@ -42,7 +42,9 @@ pub struct Completion {
 pub enum Completeness {
     Complete,
     /// Brackets are still open; continue on the next line with this indent.
-    Incomplete { indent: String },
+    Incomplete {
+        indent: String,
+    },
     /// It can never become valid by adding text (e.g. an unmatched `)`).
     Invalid,
 }
@@ -90,7 +92,11 @@ impl Session {
         let path = path.as_ref();
         let dir = path.parent().map(Path::to_path_buf).unwrap_or_default();
         let mut s = Session::new();
-        s.sheet.dir = if dir.as_os_str().is_empty() { PathBuf::from(".") } else { dir };
+        s.sheet.dir = if dir.as_os_str().is_empty() {
+            PathBuf::from(".")
+        } else {
+            dir
+        };
         s.strict = true;
         s.path = Some(path.to_path_buf());
         s
@@ -114,18 +120,36 @@ impl Session {
     pub fn eval(&mut self, text: &str) -> Result<Output, Vec<Diagnostic>> {
         self.limits.reset();
         let file = self.add_source(text);
-        let (stmts, errors) = syntax::parse(text, file);
-        if !errors.is_empty() {
-            return Err(errors);
+        let parsed = syntax::parse_recovering(text, file);
+        let mut early = parsed.errors;
+        let mut skip = parsed.broken;
+        if self.strict {
+            // A worksheet file: report every error of the run at once.
+            let defined = self.sheet.define_all(&parsed.stmts);
+            early.extend(defined.errors);
+            skip.extend(defined.cyclic);
+        } else {
+            if !early.is_empty() {
+                return Err(early);
+            }
+            self.sheet.define(&parsed.stmts, false)?;
         }
-        self.sheet.define(&stmts, self.strict)?;
-        self.apply_pending(file)?;
+        if let Err(e) = self.apply_pending(file) {
+            early.extend(e);
+        }
+        let stmts = parsed.stmts;
         let mut ctx = Ctx::new(&mut self.sheet, &mut self.sources, &self.limits, self.mode);
+        ctx.mark_failed(&skip);
+        ctx.errors = early;
         if let Some(p) = self.path.as_ref().and_then(|p| p.canonicalize().ok()) {
             ctx.load_stack.push(p);
         }
         let items = eval::run_statements(&mut ctx, &stmts);
-        let (errors, warnings) = (std::mem::take(&mut ctx.errors), std::mem::take(&mut ctx.warnings));
+        let (mut errors, warnings) = (
+            std::mem::take(&mut ctx.errors),
+            std::mem::take(&mut ctx.warnings),
+        );
+        errors.sort_by_key(|d| (d.span.file, d.span.start));
         if errors.is_empty() {
             Ok(Output { items, warnings })
         } else {
@@ -151,13 +175,24 @@ impl Session {
                 self.sheet.invalidate(&[name]);
                 continue;
             }
-            let span = Span { file, start: 0, end: 0 };
-            let mut d = Diagnostic::error(span, format!("`--set {name}`: `{name}` is not an input of this worksheet"));
+            let span = Span {
+                file,
+                start: 0,
+                end: 0,
+            };
+            let mut d = Diagnostic::error(
+                span,
+                format!("`--set {name}`: `{name}` is not an input of this worksheet"),
+            );
             let names: Vec<&str> = inputs.iter().map(String::as_str).collect();
-            if let Some(best) = closest(&name, &names) {
+            if let Some(best) = eval::suggest(&name, &names) {
                 d = d.with_hint(format!("did you mean `{best}`?"));
             }
-            let list = if inputs.is_empty() { "none".to_string() } else { inputs.join(", ") };
+            let list = if inputs.is_empty() {
+                "none".to_string()
+            } else {
+                inputs.join(", ")
+            };
             errors.push(d.with_hint(format!("inputs declared with `input`: {list}")));
         }
         if errors.is_empty() {
@@ -174,12 +209,33 @@ impl Session {
 
     /// The source text of a definition, e.g. `area = 2.4 m * 1.8 m`, for records.
     pub fn definition_text(&self, name: &str) -> Option<&str> {
-        self.sheet.defs.get(name).map(|d| self.sources.slice(d.span))
+        self.sheet
+            .defs
+            .get(name)
+            .map(|d| self.sources.slice(d.span))
     }
 
     /// The names a definition reads.
     pub fn dependencies(&self, name: &str) -> Option<&[String]> {
         self.sheet.defs.get(name).map(|d| d.deps.as_slice())
+    }
+
+    /// Every defined name (values, inputs, functions) in definition order.
+    pub fn names(&self) -> &[String] {
+        &self.sheet.order
+    }
+
+    /// The computed value of a name, if it has been computed.
+    pub fn value(&self, name: &str) -> Option<&Value> {
+        self.sheet.cache.get(name)
+    }
+
+    /// Is this name an input (overridable with `--set` or by `load`)?
+    pub fn is_input(&self, name: &str) -> bool {
+        self.sheet
+            .defs
+            .get(name)
+            .is_some_and(|d| d.kind == DefKind::Input)
     }
 
     /// The source map (for front ends that render spans themselves).
@@ -198,24 +254,40 @@ impl Session {
             let names = self.sheet.order.iter().map(String::as_str);
             let builtins = library::registry().iter().map(|b| b.name);
             let units = units::unit_names().into_iter();
-            let keywords = ["input", "check", "as", "and", "or", "not", "true", "false", "if", "then", "else", "load"];
+            let keywords = [
+                "input", "check", "as", "and", "or", "not", "true", "false", "if", "then", "else",
+                "load",
+            ];
             for m in names.chain(builtins).chain(keywords).chain(units) {
                 if m.starts_with(prefix) && !matches.iter().any(|x| x == m) {
                     matches.push(m.to_string());
                 }
             }
         }
-        Completion { start, end: cursor, matches }
+        Completion {
+            start,
+            end: cursor,
+            matches,
+        }
     }
 
     /// Can `text` be evaluated now, or are brackets still open?
     pub fn is_complete(&self, text: &str) -> Completeness {
         let scan = split::scan(text, 0);
-        let only_unclosed = scan.errors.iter().all(|d| d.message.starts_with("unclosed"));
+        let only_unclosed = scan
+            .errors
+            .iter()
+            .all(|d| d.message.starts_with("unclosed"));
         if scan.open_at_end > 0 && only_unclosed {
-            return Completeness::Incomplete { indent: "    ".repeat(scan.open_at_end.min(8)) };
+            return Completeness::Incomplete {
+                indent: "    ".repeat(scan.open_at_end.min(8)),
+            };
         }
-        if scan.errors.iter().any(|d| d.message.starts_with("unexpected") || d.message.contains("does not match")) {
+        if scan
+            .errors
+            .iter()
+            .any(|d| d.message.starts_with("unexpected") || d.message.contains("does not match"))
+        {
             return Completeness::Invalid;
         }
         Completeness::Complete
@@ -226,7 +298,10 @@ impl Session {
     pub fn inspect(&self, text: &str, cursor: usize) -> Option<String> {
         let cursor = floor_char_boundary(text, cursor.min(text.len()));
         let start = word_start(text, cursor);
-        let end = cursor + text[cursor..].find(|c: char| !is_word_char(c)).unwrap_or(text.len() - cursor);
+        let end = cursor
+            + text[cursor..]
+                .find(|c: char| !is_word_char(c))
+                .unwrap_or(text.len() - cursor);
         let word = &text[start..end];
         if word.is_empty() {
             return None;
@@ -250,6 +325,12 @@ impl Session {
             return Some(crate::render::help_text(b));
         }
         units::lookup_unit(name).map(|u| format!("unit `{}`: {}", u.symbol, eval::dim_words(u.dim)))
+    }
+
+    /// The evaluation limits (call depth, step budget), for front ends that
+    /// need other bounds.
+    pub fn limits_mut(&mut self) -> &mut Limits {
+        &mut self.limits
     }
 
     /// A flag that stops a running evaluation when set (from another thread).
@@ -295,17 +376,23 @@ fn to_report(d: &Diagnostic, sources: &Sources) -> Report<usize> {
     let mut labels = Vec::new();
     let mut notes = Vec::new();
     if sources.get(d.span.file).is_some() {
-        labels.push(Label::primary(d.span.file as usize, d.span.start as usize..d.span.end as usize));
+        labels.push(Label::primary(
+            d.span.file as usize,
+            d.span.start as usize..d.span.end as usize,
+        ));
     }
     for (span, hint) in &d.hints {
         match span {
-            Some(s) if sources.get(s.file).is_some() => {
-                labels.push(Label::secondary(s.file as usize, s.start as usize..s.end as usize).with_message(hint))
-            }
+            Some(s) if sources.get(s.file).is_some() => labels.push(
+                Label::secondary(s.file as usize, s.start as usize..s.end as usize)
+                    .with_message(hint),
+            ),
             _ => notes.push(format!("hint: {hint}")),
         }
     }
-    base.with_message(&d.message).with_labels(labels).with_notes(notes)
+    base.with_message(&d.message)
+        .with_labels(labels)
+        .with_notes(notes)
 }
 
 fn severity_word(s: Severity) -> &'static str {
@@ -320,7 +407,11 @@ fn is_word_char(c: char) -> bool {
 }
 
 fn word_start(text: &str, cursor: usize) -> usize {
-    text[..cursor].rfind(|c: char| !is_word_char(c)).map_or(0, |i| i + text[i..].chars().next().map_or(1, char::len_utf8))
+    text[..cursor]
+        .rfind(|c: char| !is_word_char(c))
+        .map_or(0, |i| {
+            i + text[i..].chars().next().map_or(1, char::len_utf8)
+        })
 }
 
 fn floor_char_boundary(text: &str, mut i: usize) -> usize {

@@ -14,10 +14,21 @@ pub fn shown_texts(text: &str) -> Vec<String> {
     stmts
         .iter()
         .filter_map(|s| match &s.kind {
-            StmtKind::Show(e) => text.get(e.span.start as usize..e.span.end as usize).map(str::to_string),
+            StmtKind::Show(e) => text
+                .get(e.span.start as usize..e.span.end as usize)
+                .map(str::to_string),
             _ => None,
         })
         .collect()
+}
+
+/// Statements that produce output (all but function definitions).
+pub fn statement_count(text: &str) -> usize {
+    let (stmts, _) = syntax::parse(text, 0);
+    stmts
+        .iter()
+        .filter(|s| !matches!(s.kind, StmtKind::Function { .. }))
+        .count()
 }
 
 /// Render a run's output.
@@ -51,7 +62,10 @@ fn text(out: &Output, shown: &[String]) -> String {
                 s.push_str(&format!("{} = {v}\n", label(name, &mut shown)));
             }
             OutputItem::Check { text, passed } => {
-                s.push_str(&format!("check {text} ... {}\n", if *passed { "ok" } else { "FAILED" }));
+                s.push_str(&format!(
+                    "check {text} ... {}\n",
+                    if *passed { "ok" } else { "FAILED" }
+                ));
             }
         }
     }
@@ -64,7 +78,10 @@ pub fn to_json(session: &Session, out: &Output) -> serde_json::Value {
         .items
         .iter()
         .filter_map(|i| match i {
-            OutputItem::Value { name: Some(n), value } => Some(render::json_named(n, value)),
+            OutputItem::Value {
+                name: Some(n),
+                value,
+            } => Some(render::json_named(n, value)),
             _ => None,
         })
         .collect();
@@ -91,11 +108,16 @@ fn markdown(out: &Output, shown: &[String]) -> String {
     for item in &out.items {
         match item {
             OutputItem::Value { name, value } => {
-                let v = render::text(value).replace('\n', "<br>").replace('|', "\\|");
+                let v = render::text(value)
+                    .replace('\n', "<br>")
+                    .replace('|', "\\|");
                 s.push_str(&format!("| `{}` | {v} |\n", label(name, &mut shown)));
             }
             OutputItem::Check { text, passed } => {
-                checks.push_str(&format!("- {} `{text}`\n", if *passed { "passed:" } else { "**FAILED:**" }));
+                checks.push_str(&format!(
+                    "- {} `{text}`\n",
+                    if *passed { "passed:" } else { "**FAILED:**" }
+                ));
             }
         }
     }
@@ -119,7 +141,11 @@ fn html(out: &Output, shown: &[String]) -> String {
             OutputItem::Check { text, passed } => s.push_str(&format!(
                 "<tr><th>check</th><td><code>{}</code> {}</td></tr>\n",
                 render::escape(text),
-                if *passed { "passed" } else { "<strong>FAILED</strong>" }
+                if *passed {
+                    "passed"
+                } else {
+                    "<strong>FAILED</strong>"
+                }
             )),
         }
     }

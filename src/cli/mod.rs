@@ -24,7 +24,12 @@ pub const EXIT_USAGE: i32 = 2;
 pub const EXIT_CHECK: i32 = 3;
 
 #[derive(Parser, Debug)]
-#[command(name = "siccant", version, about = "Unit-checked worksheets for convective dryer design", disable_help_subcommand = true)]
+#[command(
+    name = "siccant",
+    version,
+    about = "Unit-checked worksheets for convective dryer design",
+    disable_help_subcommand = true
+)]
 struct Cli {
     #[command(subcommand)]
     command: Command,
@@ -120,14 +125,20 @@ fn run(file: &Path, set: &[String], format: Format) -> i32 {
         Ok(o) => o,
         Err(diags) => {
             print_diagnostics(&session, &diags);
-            let usage = diags.iter().any(|d| d.message.starts_with("`--set"));
+            let usage = diags.iter().any(|d| {
+                d.message.starts_with("`--set")
+                    || (!set.is_empty() && d.message.contains("but the value given for it"))
+            });
             return if usage { EXIT_USAGE } else { EXIT_WORKSHEET };
         }
     };
     print_diagnostics(&session, &output.warnings);
     let shown = format::shown_texts(&text);
     print!("{}", format::render(&session, &output, &shown, format));
-    let failed = output.items.iter().any(|i| matches!(i, OutputItem::Check { passed: false, .. }));
+    let failed = output
+        .items
+        .iter()
+        .any(|i| matches!(i, OutputItem::Check { passed: false, .. }));
     if failed {
         EXIT_CHECK
     } else {
@@ -142,7 +153,10 @@ fn parse_set(assignment: &str) -> Result<(String, Value), i32> {
         return Err(EXIT_USAGE);
     };
     let name = name.trim();
-    let valid = name.chars().next().is_some_and(|c| c.is_alphabetic() || c == '_')
+    let valid = name
+        .chars()
+        .next()
+        .is_some_and(|c| c.is_alphabetic() || c == '_')
         && name.chars().all(|c| c.is_alphanumeric() || c == '_');
     if !valid {
         eprintln!("error: `--set {assignment}`: `{name}` is not a name");
@@ -175,8 +189,14 @@ fn check(file: &Path) -> i32 {
     match session.eval(&text) {
         Ok(out) => {
             print_diagnostics(&session, &out.warnings);
-            let checked = out.items.len();
-            println!("{}: no errors found ({checked} statements evaluated without engine work)", file.display());
+            let total = format::statement_count(&text);
+            let done = out.items.len();
+            let detail = if done >= total {
+                format!("all {total} statements evaluated")
+            } else {
+                format!("{done} of {total} statements evaluated; the rest need engine work, which `check` does not run")
+            };
+            println!("{}: no errors found ({detail})", file.display());
             EXIT_OK
         }
         Err(diags) => {
@@ -198,7 +218,10 @@ fn help(name: Option<&str>, markdown: bool) -> i32 {
             EXIT_OK
         }
         Some("units") => {
-            println!("Units (SI prefixes apply where sensible):\n{}", crate::units::unit_names().join(" "));
+            println!(
+                "Units (SI prefixes apply where sensible):\n{}",
+                crate::units::unit_names().join(" ")
+            );
             EXIT_OK
         }
         Some(n) => match Session::new().help(n) {
@@ -208,7 +231,8 @@ fn help(name: Option<&str>, markdown: bool) -> i32 {
             }
             None => {
                 let names: Vec<&str> = library::registry().iter().map(|b| b.name).collect();
-                let hint = library::closest(n, &names).map_or(String::new(), |b| format!(" (did you mean `{b}`?)"));
+                let hint = crate::eval::suggest(n, &names)
+                    .map_or(String::new(), |b| format!(" (did you mean `{b}`?)"));
                 eprintln!("error: no built-in function or unit named `{n}`{hint}");
                 EXIT_USAGE
             }
@@ -221,7 +245,7 @@ pub fn overview() -> String {
     let mut s = String::from("siccant: unit-checked worksheets for convective dryer design\n\n");
     s.push_str("Commands: run FILE [--set NAME=EXPR] [--format text|json|markdown|html], check FILE, repl, help [NAME]\n\n");
     let mut family = "";
-    for b in library::registry_by_family() {
+    for b in registry_by_family() {
         if b.family != family {
             family = b.family;
             s.push_str(&format!("\n{family}:\n"));
@@ -229,7 +253,9 @@ pub fn overview() -> String {
         let summary = b.doc.split(". ").next().unwrap_or("");
         s.push_str(&format!("  {:<22} {summary}\n", b.name));
     }
-    s.push_str("\nAlso: load(\"file.sicc\", input: value, ...) loads another worksheet as a record.\n");
+    s.push_str(
+        "\nAlso: load(\"file.sicc\", input: value, ...) loads another worksheet as a record.\n",
+    );
     s.push_str("`siccant help NAME` shows one function; `siccant help units` lists units.\n");
     s
 }
@@ -241,7 +267,7 @@ pub fn builtins_markdown() -> String {
     );
     s.push_str("`load(\"file.sicc\", NAME: value, ...)` is part of the language; see docs/language.md.\n\n");
     let mut family = "";
-    for b in library::registry_by_family() {
+    for b in registry_by_family() {
         if b.family != family {
             family = b.family;
             s.push_str(&format!("## {family}\n\n"));
@@ -249,4 +275,11 @@ pub fn builtins_markdown() -> String {
         s.push_str(&crate::render::help_markdown(b));
     }
     s
+}
+
+/// Every built-in, grouped by family (families alphabetical), then by name.
+fn registry_by_family() -> Vec<&'static library::Builtin> {
+    let mut all: Vec<&'static library::Builtin> = library::registry().to_vec();
+    all.sort_by_key(|b| (b.family, b.name));
+    all
 }

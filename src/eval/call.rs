@@ -6,7 +6,7 @@ use std::panic::{catch_unwind, AssertUnwindSafe};
 use super::ctx::{Ctx, Flow, Mode, Stop};
 use super::DefKind;
 use crate::diag::{Diagnostic, Span};
-use crate::library::{self, closest, Arg, Args, Builtin};
+use crate::library::{self, Arg, Args, Builtin};
 use crate::syntax::{CallArg, Ident};
 use crate::value::Value;
 
@@ -34,11 +34,15 @@ impl Ctx<'_> {
     fn unknown_function(&self, callee: &Ident) -> Diagnostic {
         let mut names: Vec<&str> = library::registry().iter().map(|b| b.name).collect();
         names.extend(
-            self.sheet.order.iter().filter(|n| self.sheet.defs[*n].kind == DefKind::Function).map(String::as_str),
+            self.sheet
+                .order
+                .iter()
+                .filter(|n| self.sheet.defs[*n].kind == DefKind::Function)
+                .map(String::as_str),
         );
         names.push("load");
         let mut d = Diagnostic::error(callee.span, format!("unknown function `{}`", callee.name));
-        if let Some(best) = closest(&callee.name, &names) {
+        if let Some(best) = super::suggest(&callee.name, &names) {
             d = d.with_hint(format!("did you mean `{best}`?"));
         }
         d.with_hint("`siccant help` lists the built-in functions")
@@ -49,7 +53,11 @@ impl Ctx<'_> {
         let mut out = Vec::with_capacity(args.len());
         for a in args {
             let value = self.expr(&a.value)?;
-            out.push(Arg { name: a.name.as_ref().map(|n| n.name.clone()), value, span: a.span });
+            out.push(Arg {
+                name: a.name.as_ref().map(|n| n.name.clone()),
+                value,
+                span: a.span,
+            });
         }
         Ok(out)
     }
@@ -66,23 +74,34 @@ impl Ctx<'_> {
         match result {
             Ok(Ok(v)) => check_finite(v, b, span),
             Ok(Err(d)) => Err(d.into()),
-            Err(_) => Err(Diagnostic::error(span, format!("internal error in built-in `{}`", b.name))
-                .with_hint("this is a bug in siccant; please report it with the worksheet")
-                .into()),
+            Err(_) => Err(Diagnostic::error(
+                span,
+                format!("internal error in built-in `{}`", b.name),
+            )
+            .with_hint("this is a bug in siccant; please report it with the worksheet")
+            .into()),
         }
     }
 
     fn call_user(&mut self, callee: &Ident, args: &[CallArg], span: Span) -> Flow<Value> {
-        let def = self.sheet.defs[&callee.name].clone();
+        let (params, body) = match self.sheet.defs.get(&callee.name) {
+            Some(d) => (d.params.clone(), d.expr.clone()),
+            None => return Err(self.unknown_function(callee).into()),
+        };
         if self.depth >= self.limits.max_call_depth {
-            let msg = format!("calls nested deeper than {} levels", self.limits.max_call_depth);
-            return Err(Diagnostic::error(span, msg).with_hint("does the function call itself without end?").into());
+            let msg = format!(
+                "calls nested deeper than {} levels",
+                self.limits.max_call_depth
+            );
+            return Err(Diagnostic::error(span, msg)
+                .with_hint("does the function call itself without end?")
+                .into());
         }
         let values = self.arguments(args)?;
-        let frame = bind_params(&callee.name, &def.params, values, span)?;
+        let frame = bind_params(&callee.name, &params, values, span)?;
         self.depth += 1;
         let saved = self.frame.replace(frame);
-        let result = self.expr(&def.expr);
+        let result = self.expr(&body);
         self.frame = saved;
         self.depth -= 1;
         result
@@ -95,8 +114,11 @@ fn check_arg_names(b: &Builtin, args: &[CallArg]) -> Result<(), Diagnostic> {
     for a in args {
         let Some(n) = &a.name else { continue };
         if !names.contains(&n.name.as_str()) {
-            let mut d = Diagnostic::error(n.span, format!("`{}` has no argument named `{}`", b.name, n.name));
-            if let Some(best) = closest(&n.name, &names) {
+            let mut d = Diagnostic::error(
+                n.span,
+                format!("`{}` has no argument named `{}`", b.name, n.name),
+            );
+            if let Some(best) = super::suggest(&n.name, &names) {
                 d = d.with_hint(format!("did you mean `{best}`?"));
             }
             return Err(d.with_hint(format!("arguments: {}", names.join(", "))));
@@ -118,7 +140,12 @@ fn check_finite(v: Value, b: &Builtin, span: Span) -> Flow<Value> {
 }
 
 /// Bind arguments to a user function's parameters: positional, then by name.
-fn bind_params(name: &str, params: &[String], args: Vec<Arg>, span: Span) -> Result<HashMap<String, Value>, Diagnostic> {
+fn bind_params(
+    name: &str,
+    params: &[String],
+    args: Vec<Arg>,
+    span: Span,
+) -> Result<HashMap<String, Value>, Diagnostic> {
     let mut frame = HashMap::new();
     let mut next = 0;
     for a in args {
@@ -126,27 +153,39 @@ fn bind_params(name: &str, params: &[String], args: Vec<Arg>, span: Span) -> Res
             Some(n) if params.contains(n) => n.clone(),
             Some(n) => {
                 let names: Vec<&str> = params.iter().map(String::as_str).collect();
-                let mut d = Diagnostic::error(a.span, format!("`{name}` has no parameter named `{n}`"));
-                if let Some(best) = closest(n, &names) {
+                let mut d =
+                    Diagnostic::error(a.span, format!("`{name}` has no parameter named `{n}`"));
+                if let Some(best) = super::suggest(n, &names) {
                     d = d.with_hint(format!("did you mean `{best}`?"));
                 }
                 return Err(d.with_hint(format!("parameters: {}", names.join(", "))));
             }
             None => {
                 let p = params.get(next).cloned().ok_or_else(|| {
-                    Diagnostic::error(a.span, format!("`{name}` takes {} arguments", params.len()))
+                    Diagnostic::error(
+                        a.span,
+                        format!(
+                            "`{name}` takes {} argument{}",
+                            params.len(),
+                            if params.len() == 1 { "" } else { "s" }
+                        ),
+                    )
                 })?;
                 next += 1;
                 p
             }
         };
         if frame.insert(p.clone(), a.value).is_some() {
-            return Err(Diagnostic::error(a.span, format!("parameter `{p}` of `{name}` is given twice")));
+            return Err(Diagnostic::error(
+                a.span,
+                format!("parameter `{p}` of `{name}` is given twice"),
+            ));
         }
     }
     if let Some(missing) = params.iter().find(|p| !frame.contains_key(*p)) {
         let msg = format!("`{name}` needs the argument `{missing}`");
-        return Err(Diagnostic::error(span, msg).with_hint(format!("call it as {name}({})", params.join(", "))));
+        return Err(Diagnostic::error(span, msg)
+            .with_hint(format!("call it as {name}({})", params.join(", "))));
     }
     Ok(frame)
 }

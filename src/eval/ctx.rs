@@ -7,7 +7,7 @@ use std::path::PathBuf;
 use super::ops::{self, dim_words, OpError};
 use super::{DefKind, Limits, Sheet, Sources};
 use crate::diag::{Diagnostic, Span};
-use crate::library::{closest, type_word};
+use crate::library::type_word;
 use crate::syntax::{BinaryOp, Expr, ExprKind, UnaryOp, UnitExpr, UnitKind};
 use crate::units::{lookup_unit, suggest_unit, Quantity, Unit};
 use crate::value::{Record, Value};
@@ -59,11 +59,21 @@ pub struct Ctx<'a> {
     pub load_stack: Vec<PathBuf>,
     /// Depth of user-function calls and loads.
     pub depth: usize,
+    /// Expressions being evaluated, nested (guards the native stack).
+    nesting: usize,
 }
+
+/// Most expression evaluations nested inside one another (across calls).
+pub const MAX_NESTING: usize = 1500;
 
 impl<'a> Ctx<'a> {
     /// A context evaluating `sheet`.
-    pub fn new(sheet: &'a mut Sheet, sources: &'a mut Sources, limits: &'a Limits, mode: Mode) -> Ctx<'a> {
+    pub fn new(
+        sheet: &'a mut Sheet,
+        sources: &'a mut Sources,
+        limits: &'a Limits,
+        mode: Mode,
+    ) -> Ctx<'a> {
         Ctx {
             sheet,
             sources,
@@ -77,15 +87,27 @@ impl<'a> Ctx<'a> {
             failed: HashSet::new(),
             load_stack: Vec::new(),
             depth: 0,
+            nesting: 0,
         }
+    }
+
+    /// Treat these names as already failed and reported (e.g. caught in a
+    /// cycle, or on a line that did not parse), so uses of them stay silent.
+    pub fn mark_failed<'n>(&mut self, names: impl IntoIterator<Item = &'n String>) {
+        self.failed.extend(names.into_iter().cloned());
     }
 
     /// Count one step against the budget; check the interrupt flag now and then.
     fn tick(&mut self, span: Span) -> Flow<()> {
         self.ops += 1;
         if self.ops > self.limits.max_operations {
-            let msg = format!("evaluation stopped after {} steps", self.limits.max_operations);
-            return Err(Diagnostic::error(span, msg).with_hint("is a function calling itself without end?").into());
+            let msg = format!(
+                "evaluation stopped after {} steps",
+                self.limits.max_operations
+            );
+            return Err(Diagnostic::error(span, msg)
+                .with_hint("is a function calling itself without end?")
+                .into());
         }
         if self.ops % 1024 == 0 && self.limits.interrupted() {
             return Err(Diagnostic::error(span, "interrupted").into());
@@ -113,8 +135,11 @@ impl<'a> Ctx<'a> {
         if self.failed.contains(name) {
             return Err(Stop::Reported);
         }
-        let def = self.sheet.defs.get(name).cloned().ok_or_else(|| self.undefined(name, use_span))?;
-        if def.kind == DefKind::Function {
+        let (kind, expr) = match self.sheet.defs.get(name) {
+            Some(d) => (d.kind, d.expr.clone()),
+            None => return Err(self.undefined(name, use_span)),
+        };
+        if kind == DefKind::Function {
             let msg = format!("`{name}` is a function; call it with arguments, e.g. `{name}(...)`");
             return Err(Diagnostic::error(use_span, msg).into());
         }
@@ -122,12 +147,14 @@ impl<'a> Ctx<'a> {
             let chain = format!("{} -> {name}", self.active.join(" -> "));
             return Err(Diagnostic::error(use_span, format!("cycle: {chain}")).into());
         }
-        let overridden = (def.kind == DefKind::Input).then(|| self.sheet.overrides.get(name).cloned()).flatten();
+        let overridden = (kind == DefKind::Input)
+            .then(|| self.sheet.overrides.get(name).cloned())
+            .flatten();
         self.active.push(name.to_string());
         let saved = self.frame.take();
         let result = match overridden {
-            Some(v) => Ok(v),
-            None => self.expr(&def.expr),
+            Some(v) => self.checked_override(name, &expr, v),
+            None => self.expr(&expr),
         };
         self.frame = saved;
         self.active.pop();
@@ -144,16 +171,43 @@ impl<'a> Ctx<'a> {
         }
     }
 
+    /// An input's overriding value must have the dimension of its default.
+    fn checked_override(&mut self, name: &str, default: &Expr, v: Value) -> Flow<Value> {
+        let expected = match self.expr(default) {
+            Ok(Value::Quantity(d, _)) => d.dim,
+            _ => return Ok(v),
+        };
+        match &v {
+            Value::Quantity(q, _) if q.dim != expected => {
+                let span = self
+                    .sheet
+                    .defs
+                    .get(name)
+                    .map_or(default.span, |d| d.name.span);
+                let msg = format!(
+                    "input `{name}` is {}, but the value given for it is {}",
+                    dim_words(expected),
+                    dim_words(q.dim)
+                );
+                let hint = format!("the default is `{}`", self.sources.slice(default.span));
+                Err(Diagnostic::error(span, msg).with_hint(hint).into())
+            }
+            _ => Ok(v),
+        }
+    }
+
     fn undefined(&self, name: &str, span: Span) -> Stop {
         let mut d = Diagnostic::error(span, format!("`{name}` is not defined"));
         let mut names: Vec<&str> = self.sheet.order.iter().map(String::as_str).collect();
         if let Some(frame) = &self.frame {
             names.extend(frame.keys().map(String::as_str));
         }
-        if let Some(best) = closest(name, &names) {
+        if lookup_unit(name).is_some() {
+            d = d.with_hint(format!(
+                "`{name}` is a unit; write a number before it (`1 {name}`), and compound units without spaces (`14 kg/m^2`)"
+            ));
+        } else if let Some(best) = super::suggest(name, &names) {
             d = d.with_hint(format!("did you mean `{best}`?"));
-        } else if lookup_unit(name).is_some() {
-            d = d.with_hint(format!("`{name}` is a unit; write a number before it, e.g. `1 {name}`"));
         }
         Stop::Error(d)
     }
@@ -161,12 +215,29 @@ impl<'a> Ctx<'a> {
     /// Evaluate an expression.
     pub fn expr(&mut self, e: &Expr) -> Flow<Value> {
         self.tick(e.span)?;
+        if self.nesting >= MAX_NESTING {
+            let msg = "evaluation nested too deeply";
+            return Err(Diagnostic::error(e.span, msg)
+                .with_hint("does a function call itself without end?")
+                .into());
+        }
+        self.nesting += 1;
+        let result = self.expr_kind(e);
+        self.nesting -= 1;
+        result
+    }
+
+    fn expr_kind(&mut self, e: &Expr) -> Flow<Value> {
         match &e.kind {
             ExprKind::Quantity { value, unit } => self.quantity(*value, unit.as_ref()),
             ExprKind::Bool(b) => Ok(Value::Bool(*b)),
             ExprKind::Str(s) => Ok(Value::Str(s.clone())),
             ExprKind::Name(n) => self.name(n, e.span),
-            ExprKind::List(items) => items.iter().map(|i| self.expr(i)).collect::<Flow<_>>().map(Value::List),
+            ExprKind::List(items) => items
+                .iter()
+                .map(|i| self.expr(i))
+                .collect::<Flow<_>>()
+                .map(Value::List),
             ExprKind::Record(fields) => self.record(fields),
             ExprKind::Unary(op, a) => self.unary(*op, a, e.span),
             ExprKind::Binary(op, a, b) => self.binary(*op, a, b, e.span),
@@ -174,6 +245,34 @@ impl<'a> Ctx<'a> {
             ExprKind::Field(a, field) => self.field(a, field),
             ExprKind::As(a, unit) => self.shown_as(a, unit),
             ExprKind::If(c, a, b) => self.conditional(c, a, b),
+        }
+    }
+
+    /// Evaluate an operand, leaving a named value in place instead of copying it.
+    fn operand<'e>(&mut self, e: &'e Expr) -> Flow<Operand<'e>> {
+        if let ExprKind::Name(n) = &e.kind {
+            if self.frame.as_ref().is_some_and(|f| f.contains_key(n)) {
+                return Ok(Operand::Param(n));
+            }
+            if !self.sheet.cache.contains_key(n) {
+                self.force(n, e.span)?;
+            }
+            return Ok(Operand::Global(n));
+        }
+        self.expr(e).map(Operand::Owned)
+    }
+
+    /// The value an operand stands for.
+    fn view<'s>(&'s self, o: &'s Operand) -> &'s Value {
+        static MISSING: Value = Value::Bool(false);
+        match o {
+            Operand::Owned(v) => v,
+            Operand::Param(n) => self
+                .frame
+                .as_ref()
+                .and_then(|f| f.get(*n))
+                .unwrap_or(&MISSING),
+            Operand::Global(n) => self.sheet.cache.get(*n).unwrap_or(&MISSING),
         }
     }
 
@@ -197,13 +296,17 @@ impl<'a> Ctx<'a> {
 
     /// Resolve a unit expression (cached per source position).
     pub fn unit(&mut self, u: &UnitExpr) -> Flow<Unit> {
+        self.unit_ref(u).cloned()
+    }
+
+    /// The resolved unit, borrowed from the cache (no copy).
+    fn unit_ref(&mut self, u: &UnitExpr) -> Flow<&Unit> {
         let key = (u.span.file, u.span.start);
-        if let Some(unit) = self.sheet.units.get(&key) {
-            return Ok(unit.clone());
+        if !self.sheet.units.contains_key(&key) {
+            let unit = resolve_unit(u)?;
+            self.sheet.units.insert(key, unit);
         }
-        let unit = resolve_unit(u)?;
-        self.sheet.units.insert(key, unit.clone());
-        Ok(unit)
+        self.sheet.units.get(&key).ok_or(Stop::Reported)
     }
 
     fn record(&mut self, fields: &[(crate::syntax::Ident, Expr)]) -> Flow<Value> {
@@ -224,12 +327,16 @@ impl<'a> Ctx<'a> {
         if matches!(op, BinaryOp::And | BinaryOp::Or) {
             return self.logic(op, a, b);
         }
-        let x = self.expr(a)?;
-        let y = self.expr(b)?;
-        ops::binary(op, &x, &y).map_err(|e| {
+        let x = self.operand(a)?;
+        let y = self.operand(b)?;
+        let (x, y) = (self.view(&x), self.view(&y));
+        ops::binary(op, x, y).map_err(|e| {
             let mut d = op_error(e, span, a.span, b.span);
-            if op == BinaryOp::Add && ops::is_absolute(&x) && ops::is_absolute(&y) {
-                d.hints.push((Some(b.span), "this is an absolute temperature too; use a difference such as `10 K`".into()));
+            if op == BinaryOp::Add && ops::is_absolute(x) && ops::is_absolute(y) {
+                d.hints.push((
+                    Some(b.span),
+                    "this is an absolute temperature too; use a difference such as `10 K`".into(),
+                ));
             }
             d.into()
         })
@@ -248,7 +355,10 @@ impl<'a> Ctx<'a> {
         match self.expr(e)? {
             Value::Bool(b) => Ok(b),
             other => {
-                let msg = format!("`{what}` needs a truth value (a comparison), found {}", type_word(&other));
+                let msg = format!(
+                    "`{what}` needs a truth value (a comparison), found {}",
+                    type_word(&other)
+                );
                 Err(Diagnostic::error(e.span, msg).into())
             }
         }
@@ -264,18 +374,30 @@ impl<'a> Ctx<'a> {
 
     fn field(&mut self, a: &Expr, field: &crate::syntax::Ident) -> Flow<Value> {
         match self.expr(a)? {
-            Value::Record(r) => r.get(&field.name).cloned().ok_or_else(|| no_field(&r, field).into()),
+            Value::Record(r) => r
+                .get(&field.name)
+                .cloned()
+                .ok_or_else(|| no_field(&r, field).into()),
             other => {
-                let msg = format!("`.{}` reads a field of a record, but this is {}", field.name, type_word(&other));
+                let msg = format!(
+                    "`.{}` reads a field of a record, but this is {}",
+                    field.name,
+                    type_word(&other)
+                );
                 Err(Diagnostic::error(a.span, msg).into())
             }
         }
     }
 
     fn shown_as(&mut self, a: &Expr, u: &UnitExpr) -> Flow<Value> {
-        let v = self.expr(a)?;
-        let unit = self.unit(u)?;
-        show_in(v, &unit).map_err(|msg| {
+        let v = self.operand(a)?;
+        self.unit_ref(u)?;
+        let unit = self.sheet.units.get(&(u.span.file, u.span.start));
+        let shown = match unit {
+            Some(unit) => show_in(self.view(&v), unit),
+            None => return Err(Stop::Reported),
+        };
+        shown.map_err(|msg| {
             let mut d = Diagnostic::error(u.span, msg);
             d.hints.push((Some(a.span), "this value".into()));
             d.into()
@@ -283,10 +405,18 @@ impl<'a> Ctx<'a> {
     }
 }
 
+/// An evaluated operand: a fresh value, or a name whose value stays where it is.
+enum Operand<'e> {
+    Owned(Value),
+    Param(&'e str),
+    Global(&'e str),
+}
+
 /// Attach a display unit to a quantity (or every quantity in a list).
-fn show_in(v: Value, unit: &Unit) -> Result<Value, String> {
+fn show_in(v: &Value, unit: &Unit) -> Result<Value, String> {
     match v {
         Value::Quantity(q, _) => {
+            let q = *q;
             if q.dim != unit.dim {
                 return Err(format!(
                     "cannot show {} in `{}`, which is {}",
@@ -298,15 +428,25 @@ fn show_in(v: Value, unit: &Unit) -> Result<Value, String> {
             unit.from_si(&q).map_err(|e| e.message)?;
             Ok(Value::Quantity(q, Some(unit.clone())))
         }
-        Value::List(items) => items.into_iter().map(|i| show_in(i, unit)).collect::<Result<_, _>>().map(Value::List),
-        other => Err(format!("`as` shows a quantity in a unit, but this is {}", type_word(&other))),
+        Value::List(items) => items
+            .iter()
+            .map(|i| show_in(i, unit))
+            .collect::<Result<_, _>>()
+            .map(Value::List),
+        other => Err(format!(
+            "`as` shows a quantity in a unit, but this is {}",
+            type_word(other)
+        )),
     }
 }
 
 fn no_field(r: &Record, field: &crate::syntax::Ident) -> Diagnostic {
     let names: Vec<&str> = r.fields.iter().map(|(n, _)| n.as_str()).collect();
-    let mut d = Diagnostic::error(field.span, format!("{} has no field `{}`", record_word(r), field.name));
-    if let Some(best) = closest(&field.name, &names) {
+    let mut d = Diagnostic::error(
+        field.span,
+        format!("{} has no field `{}`", record_word(r), field.name),
+    );
+    if let Some(best) = super::suggest(&field.name, &names) {
         d = d.with_hint(format!("did you mean `{best}`?"));
     }
     d.with_hint(format!("fields: {}", names.join(", ")))
@@ -325,8 +465,10 @@ fn record_word(r: &Record) -> String {
 fn op_error(e: OpError, span: Span, a: Span, b: Span) -> Diagnostic {
     let mut d = Diagnostic::error(span, e.message);
     if let Some((da, db)) = e.dims {
-        d.hints.push((Some(a), format!("this is {}", dim_words(da))));
-        d.hints.push((Some(b), format!("this is {}", dim_words(db))));
+        d.hints
+            .push((Some(a), format!("this is {}", dim_words(da))));
+        d.hints
+            .push((Some(b), format!("this is {}", dim_words(db))));
     }
     for h in e.hints {
         d.hints.push((None, h));

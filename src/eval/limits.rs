@@ -17,7 +17,11 @@ pub struct Limits {
 
 impl Default for Limits {
     fn default() -> Limits {
-        Limits { max_call_depth: 64, max_operations: 50_000_000, interrupt: Arc::new(AtomicBool::new(false)) }
+        Limits {
+            max_call_depth: 64,
+            max_operations: 50_000_000,
+            interrupt: Arc::new(AtomicBool::new(false)),
+        }
     }
 }
 

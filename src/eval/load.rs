@@ -8,7 +8,7 @@ use std::path::{Path, PathBuf};
 use super::ctx::{Ctx, Flow, Mode, Stop};
 use super::{run_statements, OutputItem, Sheet};
 use crate::diag::{Diagnostic, Span};
-use crate::library::{closest, type_word};
+use crate::library::type_word;
 use crate::syntax::CallArg;
 use crate::value::{Record, Value};
 
@@ -19,9 +19,15 @@ impl Ctx<'_> {
         let shown = path_arg.0.clone();
         let path = self.locate(&path_arg.0, path_arg.1)?;
         if let Some(at) = self.load_stack.iter().position(|p| *p == path) {
-            let chain: Vec<String> = self.load_stack[at..].iter().chain([&path]).map(|p| file_name(p)).collect();
+            let chain: Vec<String> = self.load_stack[at..]
+                .iter()
+                .chain([&path])
+                .map(|p| file_name(p))
+                .collect();
             let msg = format!("load cycle: {}", chain.join(" -> "));
-            return Err(Diagnostic::error(span, msg).with_hint("a worksheet cannot load itself, directly or through others").into());
+            return Err(Diagnostic::error(span, msg)
+                .with_hint("a worksheet cannot load itself, directly or through others")
+                .into());
         }
         if self.depth >= self.limits.max_call_depth {
             return Err(Diagnostic::error(span, "worksheet loads nested too deeply").into());
@@ -44,7 +50,11 @@ impl Ctx<'_> {
 
     /// The path (with its span) and the named input overrides.
     #[allow(clippy::type_complexity)]
-    fn load_arguments(&mut self, args: &[CallArg], span: Span) -> Flow<((String, Span), Vec<(String, Span, Value)>)> {
+    fn load_arguments(
+        &mut self,
+        args: &[CallArg],
+        span: Span,
+    ) -> Flow<((String, Span), Vec<(String, Span, Value)>)> {
         let mut path = None;
         let mut overrides = Vec::new();
         for a in args {
@@ -52,19 +62,28 @@ impl Ctx<'_> {
             match (&a.name, value) {
                 (None, Value::Str(s)) if path.is_none() => path = Some((s, a.span)),
                 (None, other) if path.is_none() => {
-                    let msg = format!("`load` needs the worksheet's path as text, found {}", type_word(&other));
-                    return Err(Diagnostic::error(a.span, msg).with_hint("e.g. load(\"tray.sicc\", T_in: 90 degC)").into());
+                    let msg = format!(
+                        "`load` needs the worksheet's path as text, found {}",
+                        type_word(&other)
+                    );
+                    return Err(Diagnostic::error(a.span, msg)
+                        .with_hint("e.g. load(\"tray.sicc\", T_in: 90 degC)")
+                        .into());
                 }
                 (None, _) => {
-                    return Err(Diagnostic::error(a.span, "inputs of a loaded worksheet are given by name")
-                        .with_hint("e.g. load(\"tray.sicc\", T_in: 90 degC)")
-                        .into())
+                    return Err(Diagnostic::error(
+                        a.span,
+                        "inputs of a loaded worksheet are given by name",
+                    )
+                    .with_hint("e.g. load(\"tray.sicc\", T_in: 90 degC)")
+                    .into())
                 }
                 (Some(n), v) => overrides.push((n.name.clone(), n.span, v)),
             }
         }
         let path = path.ok_or_else(|| {
-            Diagnostic::error(span, "`load` needs the path of a worksheet").with_hint("e.g. load(\"tray.sicc\", T_in: 90 degC)")
+            Diagnostic::error(span, "`load` needs the path of a worksheet")
+                .with_hint("e.g. load(\"tray.sicc\", T_in: 90 degC)")
         })?;
         Ok((path, overrides))
     }
@@ -72,8 +91,13 @@ impl Ctx<'_> {
     fn locate(&self, path: &str, span: Span) -> Flow<PathBuf> {
         let full = self.sheet.dir.join(path);
         full.canonicalize().map_err(|_| {
-            let msg = format!("cannot find worksheet `{path}` (looked for {})", full.display());
-            Diagnostic::error(span, msg).with_hint("paths are relative to the worksheet that loads them").into()
+            let msg = format!(
+                "cannot find worksheet `{path}` (looked for {})",
+                full.display()
+            );
+            Diagnostic::error(span, msg)
+                .with_hint("paths are relative to the worksheet that loads them")
+                .into()
         })
     }
 
@@ -92,11 +116,16 @@ impl Ctx<'_> {
         let mut out = HashMap::new();
         for (name, span, value) in overrides {
             if !inputs.contains(&name.as_str()) {
-                let mut d = Diagnostic::error(span, format!("`{name}` is not an input of `{shown}`"));
-                if let Some(best) = closest(&name, &inputs) {
+                let mut d =
+                    Diagnostic::error(span, format!("`{name}` is not an input of `{shown}`"));
+                if let Some(best) = super::suggest(&name, &inputs) {
                     d = d.with_hint(format!("did you mean `{best}`?"));
                 }
-                let list = if inputs.is_empty() { "none".to_string() } else { inputs.join(", ") };
+                let list = if inputs.is_empty() {
+                    "none".to_string()
+                } else {
+                    inputs.join(", ")
+                };
                 return Err(d.with_hint(format!("its inputs: {list}")).into());
             }
             out.insert(name, value);
@@ -104,7 +133,14 @@ impl Ctx<'_> {
         Ok(out)
     }
 
-    fn run_loaded(&mut self, mut sheet: Sheet, stmts: &[crate::syntax::Stmt], path: PathBuf, shown: &str, span: Span) -> Flow<Value> {
+    fn run_loaded(
+        &mut self,
+        mut sheet: Sheet,
+        stmts: &[crate::syntax::Stmt],
+        path: PathBuf,
+        shown: &str,
+        span: Span,
+    ) -> Flow<Value> {
         let mut child = Ctx::new(&mut sheet, self.sources, self.limits, self.mode);
         child.ops = self.ops;
         child.depth = self.depth + 1;
@@ -121,8 +157,15 @@ impl Ctx<'_> {
             return Err(Stop::Skip);
         }
         for item in &items {
-            if let OutputItem::Check { text, passed: false } = item {
-                self.warnings.push(Diagnostic::warning(span, format!("check failed in `{shown}`: {text}")));
+            if let OutputItem::Check {
+                text,
+                passed: false,
+            } = item
+            {
+                self.warnings.push(Diagnostic::warning(
+                    span,
+                    format!("check failed in `{shown}`: {text}"),
+                ));
             }
         }
         let mut record = Record::new("worksheet");
@@ -136,5 +179,8 @@ impl Ctx<'_> {
 }
 
 fn file_name(p: &Path) -> String {
-    p.file_name().map_or_else(|| p.display().to_string(), |n| n.to_string_lossy().into_owned())
+    p.file_name().map_or_else(
+        || p.display().to_string(),
+        |n| n.to_string_lossy().into_owned(),
+    )
 }

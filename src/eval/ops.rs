@@ -19,12 +19,20 @@ pub struct OpError {
 
 impl OpError {
     fn plain(message: impl Into<String>) -> OpError {
-        OpError { message: message.into(), hints: Vec::new(), dims: None }
+        OpError {
+            message: message.into(),
+            hints: Vec::new(),
+            dims: None,
+        }
     }
 
     fn unit(e: UnitError, a: &Quantity, b: &Quantity) -> OpError {
         let dims = (a.dim != b.dim).then_some((a.dim, b.dim));
-        OpError { message: e.message, hints: e.hints, dims }
+        OpError {
+            message: e.message,
+            hints: e.hints,
+            dims,
+        }
     }
 }
 
@@ -44,12 +52,28 @@ pub fn binary(op: BinaryOp, a: &Value, b: &Value) -> Result<Value, OpError> {
         (Value::Quantity(x, ux), Value::Quantity(y, _)) => quantity_op(op, x, ux.as_ref(), y),
         (Value::List(xs), Value::List(ys)) => {
             if xs.len() != ys.len() {
-                return Err(OpError::plain(format!("lists of different lengths ({} and {})", xs.len(), ys.len())));
+                return Err(OpError::plain(format!(
+                    "lists of different lengths ({} and {})",
+                    xs.len(),
+                    ys.len()
+                )));
             }
-            xs.iter().zip(ys).map(|(x, y)| binary(op, x, y)).collect::<Result<_, _>>().map(Value::List)
+            xs.iter()
+                .zip(ys)
+                .map(|(x, y)| binary(op, x, y))
+                .collect::<Result<_, _>>()
+                .map(Value::List)
         }
-        (Value::List(xs), y) => xs.iter().map(|x| binary(op, x, y)).collect::<Result<_, _>>().map(Value::List),
-        (x, Value::List(ys)) => ys.iter().map(|y| binary(op, x, y)).collect::<Result<_, _>>().map(Value::List),
+        (Value::List(xs), y) => xs
+            .iter()
+            .map(|x| binary(op, x, y))
+            .collect::<Result<_, _>>()
+            .map(Value::List),
+        (x, Value::List(ys)) => ys
+            .iter()
+            .map(|y| binary(op, x, y))
+            .collect::<Result<_, _>>()
+            .map(Value::List),
         (Value::Bool(x), Value::Bool(y)) if matches!(op, BinaryOp::Eq | BinaryOp::Ne) => {
             Ok(Value::Bool((x == y) == (op == BinaryOp::Eq)))
         }
@@ -68,11 +92,19 @@ fn string_op(op: BinaryOp, x: &str, y: &str) -> Result<Value, OpError> {
         BinaryOp::Add => Ok(Value::Str(format!("{x}{y}"))),
         BinaryOp::Eq => Ok(Value::Bool(x == y)),
         BinaryOp::Ne => Ok(Value::Bool(x != y)),
-        _ => Err(OpError::plain(format!("`{}` does not apply to text", op.symbol()))),
+        _ => Err(OpError::plain(format!(
+            "`{}` does not apply to text",
+            op.symbol()
+        ))),
     }
 }
 
-fn quantity_op(op: BinaryOp, x: &Quantity, shown: Option<&crate::units::Unit>, y: &Quantity) -> Result<Value, OpError> {
+fn quantity_op(
+    op: BinaryOp,
+    x: &Quantity,
+    shown: Option<&crate::units::Unit>,
+    y: &Quantity,
+) -> Result<Value, OpError> {
     let err = |e| OpError::unit(e, x, y);
     let q = match op {
         BinaryOp::Add => x.add(y).map_err(err)?,
@@ -90,13 +122,24 @@ fn quantity_op(op: BinaryOp, x: &Quantity, shown: Option<&crate::units::Unit>, y
 
 fn power(x: &Quantity, y: &Quantity) -> Result<Quantity, OpError> {
     if !y.dim.is_dimensionless() {
-        return Err(OpError::plain(format!("an exponent must be a plain number, found {}", dim_words(y.dim))));
+        return Err(OpError::plain(format!(
+            "an exponent must be a plain number, found {}",
+            dim_words(y.dim)
+        )));
     }
     let n = y.si;
     if n.fract() == 0.0 && n.abs() <= 64.0 {
-        x.powi(n as i32).map_err(|e| OpError { message: e.message, hints: e.hints, dims: None })
+        x.powi(n as i32).map_err(|e| OpError {
+            message: e.message,
+            hints: e.hints,
+            dims: None,
+        })
     } else {
-        x.powf(n).map_err(|e| OpError { message: e.message, hints: e.hints, dims: None })
+        x.powf(n).map_err(|e| OpError {
+            message: e.message,
+            hints: e.hints,
+            dims: None,
+        })
     }
 }
 
@@ -109,7 +152,12 @@ fn compare(op: BinaryOp, x: &Quantity, y: &Quantity) -> Result<Value, OpError> {
         BinaryOp::Ge => ord != Ordering::Less,
         BinaryOp::Eq => ord == Ordering::Equal,
         BinaryOp::Ne => ord != Ordering::Equal,
-        _ => return Err(OpError::plain(format!("`{}` is not a comparison", op.symbol()))),
+        _ => {
+            return Err(OpError::plain(format!(
+                "`{}` is not a comparison",
+                op.symbol()
+            )))
+        }
     };
     Ok(Value::Bool(r))
 }
@@ -127,13 +175,27 @@ pub fn finite(q: &Quantity) -> Result<(), OpError> {
 pub fn unary(op: UnaryOp, v: &Value) -> Result<Value, OpError> {
     match (op, v) {
         (UnaryOp::Neg, Value::Quantity(q, u)) => {
-            let n = q.neg().map_err(|e| OpError { message: e.message, hints: e.hints, dims: None })?;
+            let n = q.neg().map_err(|e| OpError {
+                message: e.message,
+                hints: e.hints,
+                dims: None,
+            })?;
             Ok(Value::Quantity(n, u.clone()))
         }
         (UnaryOp::Not, Value::Bool(b)) => Ok(Value::Bool(!b)),
-        (_, Value::List(xs)) => xs.iter().map(|x| unary(op, x)).collect::<Result<_, _>>().map(Value::List),
-        (UnaryOp::Neg, other) => Err(OpError::plain(format!("cannot negate {}", type_word(other)))),
-        (UnaryOp::Not, other) => Err(OpError::plain(format!("`not` needs a truth value, found {}", type_word(other)))),
+        (_, Value::List(xs)) => xs
+            .iter()
+            .map(|x| unary(op, x))
+            .collect::<Result<_, _>>()
+            .map(Value::List),
+        (UnaryOp::Neg, other) => Err(OpError::plain(format!(
+            "cannot negate {}",
+            type_word(other)
+        ))),
+        (UnaryOp::Not, other) => Err(OpError::plain(format!(
+            "`not` needs a truth value, found {}",
+            type_word(other)
+        ))),
     }
 }
 

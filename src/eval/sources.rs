@@ -21,7 +21,11 @@ pub struct Sources {
 impl Sources {
     /// Add a text and return its file id.
     pub fn add(&mut self, name: impl Into<String>, text: impl Into<String>, dir: &Path) -> u32 {
-        self.files.push(SourceFile { name: name.into(), text: text.into(), dir: dir.to_path_buf() });
+        self.files.push(SourceFile {
+            name: name.into(),
+            text: text.into(),
+            dir: dir.to_path_buf(),
+        });
         (self.files.len() - 1) as u32
     }
 

@@ -26,10 +26,16 @@ pub fn json(value: &Value) -> Json {
             obj.insert("fields".into(), Json::Array(fields));
         }
         Value::Table(t) => {
-            let cols = t.columns.iter().map(|c| j!({ "name": c.name, "unit": column_unit(c) })).collect();
+            let cols = t
+                .columns
+                .iter()
+                .map(|c| j!({ "name": c.name, "unit": column_unit(c) }))
+                .collect();
             obj.insert("columns".into(), Json::Array(cols));
             let n = t.columns.first().map_or(0, |c| c.cells.len());
-            let rows = (0..n).map(|r| Json::Array(t.columns.iter().map(|c| cell(c.cells.get(r))).collect())).collect();
+            let rows = (0..n)
+                .map(|r| Json::Array(t.columns.iter().map(|c| cell(c.cells.get(r))).collect()))
+                .collect();
             obj.insert("rows".into(), Json::Array(rows));
         }
         Value::Str(_) | Value::Plot(_) | Value::Function(_) => {}
@@ -48,17 +54,41 @@ pub fn named(name: &str, value: &Value) -> Json {
 }
 
 fn list(items: &[Value], obj: &mut Map<String, Json>) {
-    let quantities: Vec<_> = items.iter().filter_map(|v| if let Value::Quantity(q, _) = v { Some(q) } else { None }).collect();
-    if !items.is_empty() && quantities.len() == items.len() && quantities.iter().all(|q| q.dim == quantities[0].dim) {
-        obj.insert("si".into(), Json::Array(quantities.iter().map(|q| number(q.si)).collect()));
+    let quantities: Vec<_> = items
+        .iter()
+        .filter_map(|v| {
+            if let Value::Quantity(q, _) = v {
+                Some(q)
+            } else {
+                None
+            }
+        })
+        .collect();
+    if !items.is_empty()
+        && quantities.len() == items.len()
+        && quantities.iter().all(|q| q.dim == quantities[0].dim)
+    {
+        obj.insert(
+            "si".into(),
+            Json::Array(quantities.iter().map(|q| number(q.si)).collect()),
+        );
         obj.insert("unit".into(), Json::String(quantities[0].dim.si_unit()));
     } else {
-        obj.insert("items".into(), Json::Array(items.iter().map(json).collect()));
+        obj.insert(
+            "items".into(),
+            Json::Array(items.iter().map(json).collect()),
+        );
     }
 }
 
 fn column_unit(c: &crate::value::Column) -> Json {
-    match c.cells.iter().find_map(|v| if let Value::Quantity(q, _) = v { Some(q.dim) } else { None }) {
+    match c.cells.iter().find_map(|v| {
+        if let Value::Quantity(q, _) = v {
+            Some(q.dim)
+        } else {
+            None
+        }
+    }) {
         Some(d) => Json::String(d.si_unit()),
         None => Json::Null,
     }

@@ -16,9 +16,16 @@ use crate::value::Value;
 pub fn html(value: &Value) -> String {
     match value {
         Value::Record(r) => {
-            let mut s = format!("<table class=\"siccant-record\"><caption>{}</caption>", escape(&r.type_name));
+            let mut s = format!(
+                "<table class=\"siccant-record\"><caption>{}</caption>",
+                escape(&r.type_name)
+            );
             for (name, v) in &r.fields {
-                s.push_str(&format!("<tr><th>{}</th><td>{}</td></tr>", escape(name), html(v)));
+                s.push_str(&format!(
+                    "<tr><th>{}</th><td>{}</td></tr>",
+                    escape(name),
+                    html(v)
+                ));
             }
             s.push_str("</table>");
             s
@@ -39,7 +46,10 @@ pub fn html(value: &Value) -> String {
             s.push_str("</table>");
             s
         }
-        other => format!("<span class=\"siccant-value\">{}</span>", escape(&text(other))),
+        other => format!(
+            "<span class=\"siccant-value\">{}</span>",
+            escape(&text(other))
+        ),
     }
 }
 
@@ -49,13 +59,21 @@ pub fn markdown(value: &Value) -> String {
         Value::Record(r) => {
             let mut s = format!("*{}*\n\n| field | value |\n|---|---|\n", r.type_name);
             for (name, v) in &r.fields {
-                s.push_str(&format!("| {} | {} |\n", name, text(v).replace('\n', " ").replace('|', "\\|")));
+                s.push_str(&format!(
+                    "| {} | {} |\n",
+                    name,
+                    text(v).replace('\n', " ").replace('|', "\\|")
+                ));
             }
             s
         }
         Value::Table(t) => {
             let heads: Vec<String> = t.columns.iter().map(text::column_header).collect();
-            let mut s = format!("| {} |\n|{}\n", heads.join(" | "), "---|".repeat(heads.len()));
+            let mut s = format!(
+                "| {} |\n|{}\n",
+                heads.join(" | "),
+                "---|".repeat(heads.len())
+            );
             for row in 0..t.columns.first().map_or(0, |c| c.cells.len()) {
                 let cells: Vec<String> = t.columns.iter().map(|c| text::cell(c, row)).collect();
                 s.push_str(&format!("| {} |\n", cells.join(" | ")));
@@ -68,5 +86,8 @@ pub fn markdown(value: &Value) -> String {
 
 /// Escape text for HTML.
 pub fn escape(s: &str) -> String {
-    s.replace('&', "&amp;").replace('<', "&lt;").replace('>', "&gt;").replace('"', "&quot;")
+    s.replace('&', "&amp;")
+        .replace('<', "&lt;")
+        .replace('>', "&gt;")
+        .replace('"', "&quot;")
 }

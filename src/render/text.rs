@@ -41,7 +41,8 @@ pub fn cell(c: &Column, row: usize) -> String {
     match (c.cells.get(row), &c.unit) {
         (Some(Value::Quantity(q, _)), Some(u)) => {
             let s = format_quantity(q, Some(u));
-            s.strip_suffix(&u.symbol).map_or(s.clone(), |x| x.trim_end().to_string())
+            s.strip_suffix(&u.symbol)
+                .map_or(s.clone(), |x| x.trim_end().to_string())
         }
         (Some(v), _) => text(v),
         (None, _) => String::new(),
@@ -51,12 +52,25 @@ pub fn cell(c: &Column, row: usize) -> String {
 fn table(t: &crate::value::Table) -> String {
     let heads: Vec<String> = t.columns.iter().map(column_header).collect();
     let rows = t.columns.first().map_or(0, |c| c.cells.len());
-    let cells: Vec<Vec<String>> = (0..rows).map(|r| t.columns.iter().map(|c| cell(c, r)).collect()).collect();
+    let cells: Vec<Vec<String>> = (0..rows)
+        .map(|r| t.columns.iter().map(|c| cell(c, r)).collect())
+        .collect();
     let widths: Vec<usize> = (0..heads.len())
-        .map(|i| cells.iter().map(|r| r[i].chars().count()).chain([heads[i].chars().count()]).max().unwrap_or(0))
+        .map(|i| {
+            cells
+                .iter()
+                .map(|r| r[i].chars().count())
+                .chain([heads[i].chars().count()])
+                .max()
+                .unwrap_or(0)
+        })
         .collect();
     let line = |parts: &[String]| {
-        let padded: Vec<String> = parts.iter().zip(&widths).map(|(p, w)| format!("{p:>w$}")).collect();
+        let padded: Vec<String> = parts
+            .iter()
+            .zip(&widths)
+            .map(|(p, w)| format!("{p:>w$}"))
+            .collect();
         padded.join("  ")
     };
     let mut out = String::new();
@@ -90,11 +104,21 @@ pub fn help_text(b: &Builtin) -> String {
     if !b.params.is_empty() {
         s.push_str("\nArguments:\n");
         for p in b.params {
-            let default = p.default.map_or(String::new(), |d| format!(" (default {d})"));
-            s.push_str(&format!("  {:<12} [{}] {}{default}\n", p.name, p.unit, p.doc));
+            let default = p
+                .default
+                .map_or(String::new(), |d| format!(" (default {d})"));
+            s.push_str(&format!(
+                "  {:<12} [{}] {}{default}\n",
+                p.name, p.unit, p.doc
+            ));
         }
     }
-    for (label, v) in [("Method", b.method), ("Source", b.source), ("Valid", b.validity), ("Example", b.example)] {
+    for (label, v) in [
+        ("Method", b.method),
+        ("Source", b.source),
+        ("Valid", b.validity),
+        ("Example", b.example),
+    ] {
         if !v.is_empty() {
             s.push_str(&format!("{label}: {v}\n"));
         }
@@ -108,11 +132,21 @@ pub fn help_markdown(b: &Builtin) -> String {
     if !b.params.is_empty() {
         s.push_str("| argument | unit | default | meaning |\n|---|---|---|---|\n");
         for p in b.params {
-            s.push_str(&format!("| `{}` | {} | {} | {} |\n", p.name, p.unit, p.default.unwrap_or("required"), p.doc));
+            s.push_str(&format!(
+                "| `{}` | {} | {} | {} |\n",
+                p.name,
+                p.unit,
+                p.default.unwrap_or("required"),
+                p.doc
+            ));
         }
         s.push('\n');
     }
-    for (label, v) in [("Method", b.method), ("Source", b.source), ("Validity", b.validity)] {
+    for (label, v) in [
+        ("Method", b.method),
+        ("Source", b.source),
+        ("Validity", b.validity),
+    ] {
         if !v.is_empty() {
             s.push_str(&format!("- **{label}:** {v}\n"));
         }

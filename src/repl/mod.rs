@@ -27,7 +27,12 @@ struct ReplHelper {
 impl Completer for ReplHelper {
     type Candidate = String;
 
-    fn complete(&self, line: &str, pos: usize, _ctx: &Context<'_>) -> rustyline::Result<(usize, Vec<String>)> {
+    fn complete(
+        &self,
+        line: &str,
+        pos: usize,
+        _ctx: &Context<'_>,
+    ) -> rustyline::Result<(usize, Vec<String>)> {
         let c = self.session.borrow().complete(line, pos);
         Ok((c.start, c.matches))
     }
@@ -64,12 +69,17 @@ pub fn run() -> i32 {
             return 2;
         }
     };
-    editor.set_helper(Some(ReplHelper { session: session.clone() }));
+    editor.set_helper(Some(ReplHelper {
+        session: session.clone(),
+    }));
     let history = history_path();
     if let Some(h) = &history {
         let _ = editor.load_history(h);
     }
-    println!("siccant {} -- `help` lists built-ins, `help NAME` explains one, Ctrl-D quits.", env!("CARGO_PKG_VERSION"));
+    println!(
+        "siccant {} -- `help` lists built-ins, `help NAME` explains one, Ctrl-D quits.",
+        env!("CARGO_PKG_VERSION")
+    );
     loop {
         match editor.readline("sicc> ") {
             Ok(line) => {
@@ -123,8 +133,13 @@ pub fn handle(session: &mut Session, line: &str) {
 
 fn describe(item: &OutputItem) -> String {
     match item {
-        OutputItem::Value { name: Some(n), value } => format!("{n} = {}", crate::render::text(value)),
+        OutputItem::Value {
+            name: Some(n),
+            value,
+        } => format!("{n} = {}", crate::render::text(value)),
         OutputItem::Value { name: None, value } => crate::render::text(value),
-        OutputItem::Check { text, passed } => format!("check {text} ... {}", if *passed { "ok" } else { "FAILED" }),
+        OutputItem::Check { text, passed } => {
+            format!("check {text} ... {}", if *passed { "ok" } else { "FAILED" })
+        }
     }
 }

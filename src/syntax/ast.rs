@@ -26,7 +26,11 @@ pub enum StmtKind {
     /// `check expr`: a design rule.
     Check(Expr),
     /// `f(x, y) = expr`
-    Function { name: Ident, params: Vec<Ident>, body: Expr },
+    Function {
+        name: Ident,
+        params: Vec<Ident>,
+        body: Expr,
+    },
     /// A bare expression, shown.
     Show(Expr),
 }
@@ -35,9 +39,9 @@ impl Stmt {
     /// The name this statement defines, if any.
     pub fn defined_name(&self) -> Option<&Ident> {
         match &self.kind {
-            StmtKind::Binding { name, .. } | StmtKind::Input { name, .. } | StmtKind::Function { name, .. } => {
-                Some(name)
-            }
+            StmtKind::Binding { name, .. }
+            | StmtKind::Input { name, .. }
+            | StmtKind::Function { name, .. } => Some(name),
             StmtKind::Check(_) | StmtKind::Show(_) => None,
         }
     }
@@ -54,7 +58,10 @@ pub struct Expr {
 #[derive(Clone, Debug, PartialEq)]
 pub enum ExprKind {
     /// A number with an optional unit: `12 mm`, `0.5`.
-    Quantity { value: f64, unit: Option<UnitExpr> },
+    Quantity {
+        value: f64,
+        unit: Option<UnitExpr>,
+    },
     Bool(bool),
     Str(String),
     Name(String),
@@ -64,7 +71,10 @@ pub enum ExprKind {
     Unary(UnaryOp, Box<Expr>),
     Binary(BinaryOp, Box<Expr>, Box<Expr>),
     /// `name(args)`
-    Call { callee: Ident, args: Vec<CallArg> },
+    Call {
+        callee: Ident,
+        args: Vec<CallArg>,
+    },
     /// `expr.field`
     Field(Box<Expr>, Ident),
     /// `expr as unit`: display only.

@@ -37,35 +37,62 @@ struct Scanner<'a> {
 
 /// Scan `text` (file id `file`) into statement chunks and bracket/string errors.
 pub fn scan(text: &str, file: u32) -> Scan {
+    let mut total = Scan::default();
+    let mut start = 0;
+    let mut first = true;
+    loop {
+        let (pass, unclosed) = scan_from(text, file, start);
+        if first {
+            total.open_at_end = pass.open_at_end;
+            first = false;
+        }
+        // An unclosed bracket swallows the rest of the text. Report it, then
+        // recover by scanning again from the line after it, so that errors
+        // further down are still found (and found once).
+        let restart = unclosed.and_then(|at| text[at..].find('\n').map(|n| at + n + 1));
+        let keep = |d: &Diagnostic| restart.is_none_or(|r| (d.span.start as usize) < r);
+        total.errors.extend(pass.errors.into_iter().filter(keep));
+        total.chunks.extend(pass.chunks);
+        match restart {
+            Some(r) if r < text.len() => start = r,
+            _ => return total,
+        }
+    }
+}
+
+/// One scanning pass from byte `start`; also returns where an unclosed
+/// bracket opened, if one did.
+fn scan_from(text: &str, file: u32, start: usize) -> (Scan, Option<usize>) {
     let mut s = Scanner {
         bytes: text.as_bytes(),
         file,
         scan: Scan::default(),
         stack: Vec::new(),
-        chunk_start: 0,
+        chunk_start: start,
         chunk_bad: false,
     };
-    s.run();
-    s.scan
+    let mut i = start;
+    while i < s.bytes.len() {
+        i = s.step(i);
+    }
+    let unclosed = s.stack.first().map(|&(_, at)| at);
+    s.end_of_text();
+    (s.scan, unclosed)
 }
 
 impl Scanner<'_> {
     fn span(&self, start: usize, end: usize) -> Span {
-        Span { file: self.file, start: start as u32, end: end as u32 }
+        Span {
+            file: self.file,
+            start: start as u32,
+            end: end as u32,
+        }
     }
 
     fn error(&mut self, start: usize, end: usize, message: String, hint: &str) {
         let d = Diagnostic::error(self.span(start, end), message).with_hint(hint);
         self.scan.errors.push(d);
         self.chunk_bad = true;
-    }
-
-    fn run(&mut self) {
-        let mut i = 0;
-        while i < self.bytes.len() {
-            i = self.step(i);
-        }
-        self.end_of_text();
     }
 
     /// Handle the byte at `i`; return the next index.
@@ -106,14 +133,24 @@ impl Scanner<'_> {
             }
         }
         let end = j.min(self.bytes.len());
-        self.error(i, end, "unterminated string".into(), "close the text with `\"` on the same line");
+        self.error(
+            i,
+            end,
+            "unterminated string".into(),
+            "close the text with `\"` on the same line",
+        );
         end
     }
 
     fn open(&mut self, i: usize) {
         self.stack.push((self.bytes[i], i));
         if self.stack.len() == MAX_NESTING + 1 {
-            self.error(i, i + 1, format!("brackets nested deeper than {MAX_NESTING} levels"), "split the expression into named values");
+            self.error(
+                i,
+                i + 1,
+                format!("brackets nested deeper than {MAX_NESTING} levels"),
+                "split the expression into named values",
+            );
         }
     }
 
@@ -134,7 +171,12 @@ impl Scanner<'_> {
                 let _ = at;
                 self.stack.pop();
             }
-            None => self.error(i, i + 1, format!("unexpected `{}` with no open bracket", c as char), "remove it"),
+            None => self.error(
+                i,
+                i + 1,
+                format!("unexpected `{}` with no open bracket", c as char),
+                "remove it",
+            ),
         }
     }
 
@@ -146,7 +188,12 @@ impl Scanner<'_> {
                 b'[' => ']',
                 _ => '}',
             };
-            self.error(at, at + 1, format!("unclosed `{}`", open as char), &format!("add `{close}` to close it"));
+            self.error(
+                at,
+                at + 1,
+                format!("unclosed `{}`", open as char),
+                &format!("add `{close}` to close it"),
+            );
         }
         self.stack.clear();
         self.finish_chunk(self.bytes.len());
@@ -156,7 +203,10 @@ impl Scanner<'_> {
         let text = &self.bytes[self.chunk_start..end];
         let blank = text.iter().all(|b| b.is_ascii_whitespace());
         if !blank && !self.chunk_bad {
-            self.scan.chunks.push(Chunk { start: self.chunk_start, end });
+            self.scan.chunks.push(Chunk {
+                start: self.chunk_start,
+                end,
+            });
         }
         self.chunk_bad = false;
     }
@@ -176,7 +226,10 @@ mod tests {
     #[test]
     fn reports_unclosed_bracket_and_string() {
         assert_eq!(scan("a = (1 + 2", 0).errors[0].message, "unclosed `(`");
-        assert_eq!(scan("a = \"abc\nb = 2", 0).errors[0].message, "unterminated string");
+        assert_eq!(
+            scan("a = \"abc\nb = 2", 0).errors[0].message,
+            "unterminated string"
+        );
         assert_eq!(scan("a = (1 + 2", 0).open_at_end, 1);
     }
 }

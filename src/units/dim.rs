@@ -104,7 +104,11 @@ impl Dim {
                 den.push(part(-e));
             }
         }
-        let n = if num.is_empty() { "1".to_string() } else { num.join("*") };
+        let n = if num.is_empty() {
+            "1".to_string()
+        } else {
+            num.join("*")
+        };
         match den.len() {
             0 => {
                 if num.is_empty() {
@@ -121,6 +125,8 @@ impl Dim {
 
 impl Mul for Dim {
     type Output = Dim;
+    /// Dimensions multiply by adding exponents.
+    #[allow(clippy::suspicious_arithmetic_impl)]
     fn mul(self, rhs: Dim) -> Dim {
         let mut out = self.0;
         for (a, b) in out.iter_mut().zip(rhs.0) {
@@ -132,6 +138,8 @@ impl Mul for Dim {
 
 impl Div for Dim {
     type Output = Dim;
+    /// Dimensions divide by subtracting exponents.
+    #[allow(clippy::suspicious_arithmetic_impl)]
     fn div(self, rhs: Dim) -> Dim {
         self * rhs.recip()
     }

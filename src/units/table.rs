@@ -1,9 +1,16 @@
-//! The unit table, built from uom's unit definitions.
+//! Units as values: lookup with SI prefixes, compound units built by the
+//! evaluator from unit expressions (`W/(m^2*K)`), and conversion to and from SI.
 //!
-//! TEMPORARY minimal table written by the core helper so the language compiles;
-//! the units helper's versions replace it on merge.
+//! Temperature rule: a *bare* `degC` or `degF` is affine (an absolute
+//! temperature, offset applied); inside a compound (`W/(m^2*degC)`,
+//! `BTU/(h*ft^2*degF)`) it is a difference of size 1 K or 5/9 K.
 
+use strsim::levenshtein;
+
+use super::catalog::{base_units, find_base, find_prefixed, BaseUnit, Basis, Prefix, Scale};
 use super::{Dim, Kind, Quantity, UnitError};
+
+pub use super::names::describe_dim;
 
 /// A unit: how to turn a number written in it into SI, and back.
 #[derive(Clone, PartialEq, Debug)]
@@ -14,135 +21,430 @@ pub struct Unit {
     pub factor: f64,
     /// SI offset added after scaling (273.15 for degC); zero for linear units.
     pub offset: f64,
+    /// Dimension of the unit.
     pub dim: Dim,
+    /// Kind of the quantities a number in this unit makes (`degC` absolute, `db` moisture).
     pub kind: Kind,
+    /// Non-linear reading beyond factor/offset (wet-basis moisture).
+    pub scale: Scale,
+    /// Which dry mass the unit counts (`kg_da`, `kg_ds`); decides the kind of a ratio.
+    pub basis: Basis,
+    /// The symbols and exponents the unit is built from, for its display symbol.
+    pub parts: Vec<(String, i32)>,
 }
 
-const BASE: &[(&str, f64, f64, Dim, Kind)] = &[
-    ("m", 1.0, 0.0, Dim::LENGTH, Kind::Plain),
-    ("mm", 1e-3, 0.0, Dim::LENGTH, Kind::Plain),
-    ("ft", 0.3048, 0.0, Dim::LENGTH, Kind::Plain),
-    ("kg", 1.0, 0.0, Dim::MASS, Kind::Plain),
-    ("g", 1e-3, 0.0, Dim::MASS, Kind::Plain),
-    ("s", 1.0, 0.0, Dim::TIME, Kind::Plain),
-    ("min", 60.0, 0.0, Dim::TIME, Kind::Plain),
-    ("h", 3600.0, 0.0, Dim::TIME, Kind::Plain),
-    ("Pa", 1.0, 0.0, Dim::PRESSURE, Kind::Plain),
-    ("kPa", 1e3, 0.0, Dim::PRESSURE, Kind::Plain),
-    ("J", 1.0, 0.0, Dim::ENERGY, Kind::Plain),
-    ("kJ", 1e3, 0.0, Dim::ENERGY, Kind::Plain),
-    ("BTU", 1055.05585262, 0.0, Dim::ENERGY, Kind::Plain),
-    ("W", 1.0, 0.0, Dim::POWER, Kind::Plain),
-    ("kW", 1e3, 0.0, Dim::POWER, Kind::Plain),
-    ("K", 1.0, 0.0, Dim::TEMPERATURE, Kind::Plain),
-    ("degC", 1.0, 273.15, Dim::TEMPERATURE, Kind::AbsoluteTemperature),
-    ("degF", 5.0 / 9.0, 255.372_222_222_222_2, Dim::TEMPERATURE, Kind::AbsoluteTemperature),
-    ("%", 0.01, 0.0, Dim::NONE, Kind::Fraction),
-    ("db", 1.0, 0.0, Dim::NONE, Kind::Moisture),
-    ("wb", 1.0, 0.0, Dim::NONE, Kind::Moisture),
+/// Look up a unit symbol, with SI prefixes (`kPa`, `mm`, `kJ`, `kWh`).
+///
+/// Exact symbols win over prefixed readings; prefixes apply only to SI-named
+/// units (m, g, s, K, mol, A, rad, N, Pa, bar, J, Wh, W, L).
+pub fn lookup_unit(symbol: &str) -> Option<Unit> {
+    if let Some(base) = find_base(symbol) {
+        return Some(Unit::from_base(base, None));
+    }
+    let (prefix, base) = find_prefixed(symbol)?;
+    Some(Unit::from_base(base, Some(prefix)))
+}
+
+/// The closest known unit symbol to a misspelt one ("did you mean").
+///
+/// Common spellings from other conventions are mapped first (`C` -> `degC`,
+/// `hr` -> `h`, `m3` -> `m^3`); otherwise the nearest catalogue or common
+/// prefixed symbol by edit distance, if it is close.
+pub fn suggest_unit(symbol: &str) -> Option<String> {
+    if let Some(s) = common_misspelling(symbol) {
+        return Some(s.to_string());
+    }
+    if let Some(s) = power_spelling(symbol) {
+        return Some(s);
+    }
+    let all = candidates();
+    let lower = symbol.to_lowercase();
+    if let Some((_, s)) = all.iter().find(|(key, _)| key.to_lowercase() == lower) {
+        return Some(s.clone());
+    }
+    let limit = if symbol.chars().count() <= 3 { 1 } else { 2 };
+    all.into_iter()
+        .map(|(key, suggestion)| (levenshtein(symbol, &key), suggestion))
+        .filter(|(d, _)| *d <= limit)
+        .min_by(|a, b| a.0.cmp(&b.0).then_with(|| a.1.len().cmp(&b.1.len())))
+        .map(|(_, s)| s)
+}
+
+/// Spellings from other conventions and their siccant symbol.
+const MISSPELLINGS: &[(&str, &str)] = &[
+    ("C", "degC"),
+    ("F", "degF"),
+    ("R", "degR"),
+    ("degK", "K"),
+    ("celsius", "degC"),
+    ("fahrenheit", "degF"),
+    ("kelvin", "K"),
+    ("hr", "h"),
+    ("hrs", "h"),
+    ("sec", "s"),
+    ("secs", "s"),
+    ("mins", "min"),
+    ("day", "d"),
+    ("days", "d"),
+    ("lbs", "lb"),
+    ("lbm", "lb"),
+    ("l", "L"),
+    ("ml", "mL"),
+    ("btu", "BTU"),
+    ("KW", "kW"),
+    ("Kw", "kW"),
+    ("kw", "kW"),
+    ("KJ", "kJ"),
+    ("kj", "kJ"),
+    ("Kpa", "kPa"),
+    ("KPa", "kPa"),
+    ("kpa", "kPa"),
+    ("pa", "Pa"),
+    ("KG", "kg"),
+    ("Kg", "kg"),
+    ("RH", "%rh"),
+    ("rh", "%rh"),
+    ("pct", "%"),
+    ("percent", "%"),
+    ("tonne", "t"),
+    ("psia", "psi"),
+    ("psig", "psi"),
+    ("kwh", "kWh"),
+    ("deg", "degC"),
+    ("dC", "degC"),
+    ("dF", "degF"),
+    ("cfm", "ft^3/min"),
+    ("CFM", "ft^3/min"),
+    ("gpm", "gal/min"),
+    ("mph", "mi/h"),
+    ("kph", "km/h"),
+    ("Torr", "mmHg"),
+    ("torr", "mmHg"),
+    ("micron", "um"),
 ];
 
-/// Look up a unit symbol, with SI prefixes (`kPa`, `mm`, `kJ`).
-pub fn lookup_unit(symbol: &str) -> Option<Unit> {
-    BASE.iter().find(|u| u.0 == symbol).map(|&(s, factor, offset, dim, kind)| Unit {
-        symbol: s.into(),
-        factor,
-        offset,
-        dim,
-        kind,
-    })
+fn common_misspelling(symbol: &str) -> Option<&'static str> {
+    MISSPELLINGS
+        .iter()
+        .find(|(wrong, _)| *wrong == symbol)
+        .map(|(_, right)| *right)
 }
 
-/// The closest known unit symbol to a misspelt one.
-pub fn suggest_unit(symbol: &str) -> Option<String> {
-    let names = unit_names();
-    crate::library::closest(symbol, &names).map(str::to_string)
+/// `m3` -> `m^3`, `ft2` -> `ft^2`.
+fn power_spelling(symbol: &str) -> Option<String> {
+    let digits = symbol.trim_start_matches(|c: char| !c.is_ascii_digit());
+    let stem = &symbol[..symbol.len() - digits.len()];
+    let all_digits = !digits.is_empty() && digits.chars().all(|c| c.is_ascii_digit());
+    (all_digits && lookup_unit(stem).is_some()).then(|| format!("{stem}^{digits}"))
+}
+
+/// (what might have been typed, what to suggest): catalogue symbols, the
+/// prefixed forms people commonly write, one-word unit names (`pascal` -> `Pa`)
+/// and the common misspellings.
+fn candidates() -> Vec<(String, String)> {
+    let mut out: Vec<(String, String)> = Vec::new();
+    for base in base_units() {
+        out.push((base.symbol.to_string(), base.symbol.to_string()));
+        if !base.name.contains(' ') {
+            out.push((base.name.to_string(), base.symbol.to_string()));
+        }
+        if base.prefixable {
+            for p in ["k", "M", "m", "c", "µ"] {
+                let s = format!("{p}{}", base.symbol);
+                out.push((s.clone(), s));
+            }
+        }
+    }
+    out.extend(
+        MISSPELLINGS
+            .iter()
+            .map(|(w, r)| (w.to_string(), r.to_string())),
+    );
+    out
 }
 
 /// Every unit symbol (without prefixes), for completion and docs.
 pub fn unit_names() -> Vec<&'static str> {
-    BASE.iter().map(|u| u.0).collect()
-}
-
-/// A dimension in words, e.g. "energy per mass" or "power per area".
-pub fn describe_dim(dim: Dim) -> String {
-    if dim.is_dimensionless() {
-        "dimensionless".into()
-    } else if dim == Dim::LENGTH {
-        "length".into()
-    } else if dim == Dim::TEMPERATURE {
-        "temperature".into()
-    } else {
-        dim.si_unit()
-    }
+    base_units().iter().map(|u| u.symbol).collect()
 }
 
 impl Unit {
-    fn compound(symbol: String, factor: f64, dim: Dim) -> Unit {
-        Unit { symbol, factor, offset: 0.0, dim, kind: Kind::Plain }
+    fn from_base(base: &BaseUnit, prefix: Option<&Prefix>) -> Unit {
+        let (p_sym, p_factor) = prefix.map_or(("", 1.0), |p| (p.symbol, p.factor));
+        let symbol = format!("{p_sym}{}", base.symbol);
+        Unit {
+            parts: vec![(symbol.clone(), 1)],
+            symbol,
+            factor: base.factor * p_factor,
+            offset: base.offset,
+            dim: base.dim,
+            kind: base.kind,
+            scale: base.scale,
+            basis: base.basis,
+        }
     }
 
-    /// Product of two units.
+    /// The unit of a dimensionless plain number (`1`, as in `1/h`).
+    pub fn one() -> Unit {
+        Unit {
+            symbol: String::new(),
+            factor: 1.0,
+            offset: 0.0,
+            dim: Dim::NONE,
+            kind: Kind::Plain,
+            scale: Scale::Linear,
+            basis: Basis::None,
+            parts: Vec::new(),
+        }
+    }
+
+    /// Product of two units (`kW*h`). Offsets are dropped: inside a compound a
+    /// degree is a difference.
     pub fn mul(&self, other: &Unit) -> Unit {
-        Unit::compound(format!("{}*{}", self.symbol, other.symbol), self.factor * other.factor, self.dim * other.dim)
+        let parts = merge_parts(&self.parts, &other.parts, 1);
+        compound(
+            parts,
+            self.factor * other.factor,
+            dim_mul(self.dim, other.dim, 1),
+            Kind::Plain,
+        )
     }
 
-    /// Quotient of two units.
+    /// Quotient of two units (`kg/kg_da` is a humidity ratio, `kg/kg_ds` a
+    /// dry-basis moisture; anything else is plain).
     pub fn div(&self, other: &Unit) -> Unit {
-        let den = if other.symbol.contains(['*', '/']) { format!("({})", other.symbol) } else { other.symbol.clone() };
-        Unit::compound(format!("{}/{den}", self.symbol), self.factor / other.factor, self.dim / other.dim)
+        let parts = merge_parts(&self.parts, &other.parts, -1);
+        let dim = dim_mul(self.dim, other.dim, -1);
+        let kind = ratio_kind(self, other, dim);
+        compound(parts, self.factor / other.factor, dim, kind)
     }
 
-    /// Integer power.
+    /// Integer power of a unit (`m^3`, `s^-1`). `^1` returns the unit itself.
     pub fn powi(&self, n: i32) -> Unit {
-        Unit::compound(format!("{}^{n}", self.symbol), self.factor.powi(n), self.dim.powi(n))
+        if n == 1 {
+            return self.clone();
+        }
+        let parts = self
+            .parts
+            .iter()
+            .map(|(s, e)| (s.clone(), e.saturating_mul(n)))
+            .collect();
+        compound(
+            parts,
+            self.factor.powi(n),
+            dim_pow(self.dim, n),
+            Kind::Plain,
+        )
+    }
+
+    /// True when a number in this unit is read through an offset (bare degC, degF).
+    pub fn is_affine(&self) -> bool {
+        self.offset != 0.0
     }
 
     /// A number written in this unit, as a quantity.
+    ///
+    /// Linear units: `si = x * factor + offset`. Wet basis (`wb`, `%wb`):
+    /// `w = x * factor`, stored as `X = w/(1-w)`; a wet basis of 1 or more has no
+    /// dry-basis value and gives `si = +inf` here; use [`Unit::try_to_si`] to
+    /// get the error instead.
     pub fn to_si(&self, x: f64) -> Quantity {
-        let x = if self.symbol == "wb" { x / (1.0 - x) } else { x };
-        Quantity::new(x * self.factor + self.offset, self.dim, self.kind)
+        self.try_to_si(x)
+            .unwrap_or_else(|_| Quantity::new(f64::INFINITY, self.dim, self.kind))
     }
 
-    /// A quantity's magnitude in this unit.
+    /// Like [`Unit::to_si`], with an error for a wet-basis value outside 0..1
+    /// or a non-finite result.
+    pub fn try_to_si(&self, x: f64) -> Result<Quantity, UnitError> {
+        let si = match self.scale {
+            Scale::Linear => x * self.factor + self.offset,
+            Scale::WetBasis => dry_from_wet(x * self.factor)?,
+        };
+        if !si.is_finite() {
+            return Err(UnitError::new(format!(
+                "{x} {} is not a finite quantity",
+                self.symbol
+            )));
+        }
+        Ok(Quantity::new(si, self.dim, self.kind))
+    }
+
+    /// A quantity's magnitude in this unit, for display (`expr as UNIT`).
+    ///
+    /// Checks the dimension and the kind: an absolute temperature or a plain
+    /// kelvin value may be shown in degC/degF (offset applied); a temperature
+    /// difference may not (show it in K or delta_degC); an absolute temperature
+    /// may not be shown in delta_degC; a named ratio (moisture, humidity ratio,
+    /// activity) is shown only in its own kind's units or as a plain number.
     pub fn from_si(&self, q: &Quantity) -> Result<f64, UnitError> {
         if q.dim != self.dim {
-            return Err(UnitError {
-                message: format!("cannot show {} in {}", describe_dim(q.dim), self.symbol),
-                hints: vec![],
-            });
+            return Err(UnitError::dim_mismatch(
+                &format!("cannot show the value in {}: ", self.symbol),
+                self.dim,
+                q.dim,
+            ));
         }
-        let offset = if q.kind == Kind::AbsoluteTemperature { self.offset } else { 0.0 };
-        let x = (q.si - offset) / self.factor;
-        Ok(if self.symbol == "wb" { x / (1.0 + x) } else { x })
+        self.check_display_kind(q.kind)?;
+        let x = match self.scale {
+            Scale::Linear => (q.si - self.offset) / self.factor,
+            Scale::WetBasis => wet_from_dry(q.si)? / self.factor,
+        };
+        if x.is_finite() {
+            Ok(x)
+        } else {
+            Err(UnitError::new("the value is not a finite number"))
+        }
+    }
+
+    fn check_display_kind(&self, kind: Kind) -> Result<(), UnitError> {
+        use Kind::*;
+        let ok = match (self.kind, kind) {
+            (AbsoluteTemperature, AbsoluteTemperature | Plain) => true,
+            (AbsoluteTemperature, _) => false,
+            (TemperatureDifference, TemperatureDifference | Plain) => true,
+            (TemperatureDifference, _) => false,
+            (Plain, _) => true,
+            (a, b) if a == b => true,
+            (Fraction, Plain | Activity) | (Activity, Fraction | Plain) => true,
+            (Moisture | HumidityRatio, Plain) => true,
+            _ => false,
+        };
+        if ok {
+            return Ok(());
+        }
+        Err(display_kind_error(&self.symbol, self.kind, kind))
     }
 }
 
-/// Format a quantity with four significant figures, in `unit` or its SI unit.
-pub fn format_quantity(q: &Quantity, unit: Option<&Unit>) -> String {
-    let default = match q.kind {
-        Kind::AbsoluteTemperature => lookup_unit("degC"),
-        Kind::Moisture => lookup_unit("db"),
-        _ => None,
-    };
-    match unit.or(default.as_ref()) {
-        Some(u) => match u.from_si(q) {
-            Ok(x) => format!("{} {}", sig4(x), u.symbol),
-            Err(_) => format!("{} {}", sig4(q.si), q.dim.si_unit()),
-        },
-        None => format!("{} {}", sig4(q.si), q.dim.si_unit()).trim_end().to_string(),
+fn display_kind_error(symbol: &str, unit_kind: Kind, kind: Kind) -> UnitError {
+    let err = UnitError::new(format!(
+        "cannot show {} in {symbol}, which is a unit of {}",
+        kind.describe(),
+        unit_kind.describe()
+    ));
+    match kind {
+        Kind::TemperatureDifference => {
+            err.with_hint("show a difference in K or delta_degC/delta_degF")
+        }
+        Kind::AbsoluteTemperature => {
+            err.with_hint("show an absolute temperature in degC, degF, K or degR")
+        }
+        Kind::Moisture => err.with_hint("show a moisture content in db, wb, %db or %wb"),
+        Kind::HumidityRatio => err.with_hint("show a humidity ratio in kg/kg_da or g/kg_da"),
+        _ => err,
     }
 }
 
-fn sig4(x: f64) -> String {
-    if x == 0.0 || !x.is_finite() {
-        return format!("{x}");
-    }
-    let digits = (3 - x.abs().log10().floor() as i32).max(0) as usize;
-    let s = format!("{x:.digits$}");
-    if s.contains('.') {
-        s.trim_end_matches('0').trim_end_matches('.').to_string()
+/// Dry basis from wet basis: `X = w / (1 - w)`, for `0 <= w < 1`.
+pub fn dry_from_wet(w: f64) -> Result<f64, UnitError> {
+    if (0.0..1.0).contains(&w) {
+        Ok(w / (1.0 - w))
     } else {
-        s
+        Err(UnitError::new(format!(
+            "a wet-basis moisture content must be at least 0 and below 1 (100 %wb), found {w}"
+        ))
+        .with_hint("a wet basis of 1 would be pure water; did you mean a dry basis (db)?"))
     }
+}
+
+/// Wet basis from dry basis: `w = X / (1 + X)`, for `X >= 0`.
+pub fn wet_from_dry(x: f64) -> Result<f64, UnitError> {
+    if x >= 0.0 && x.is_finite() {
+        Ok(x / (1.0 + x))
+    } else {
+        Err(UnitError::new(format!(
+            "a negative dry-basis moisture ({x}) has no wet-basis value"
+        )))
+    }
+}
+
+/// The kind of `a / b` for units: mass per dry-air mass is a humidity ratio,
+/// mass per dry-solid mass a dry-basis moisture; anything else is plain.
+fn ratio_kind(a: &Unit, b: &Unit, dim: Dim) -> Kind {
+    let mass_over_mass = a.dim == Dim::MASS && dim.is_dimensionless() && a.basis == Basis::None;
+    match (mass_over_mass, b.basis) {
+        (true, Basis::DryAir) => Kind::HumidityRatio,
+        (true, Basis::DrySolid) => Kind::Moisture,
+        _ => Kind::Plain,
+    }
+}
+
+fn compound(parts: Vec<(String, i32)>, factor: f64, dim: Dim, kind: Kind) -> Unit {
+    Unit {
+        symbol: render_parts(&parts),
+        factor,
+        offset: 0.0,
+        dim,
+        kind,
+        scale: Scale::Linear,
+        basis: Basis::None,
+        parts,
+    }
+}
+
+/// Append `b`'s parts (exponents times `sign`) to `a`'s, merging a symbol that
+/// appears on the same side (`m*m` -> `m^2`) but keeping written cancellations
+/// (`kg/kg_da` stays as written, as does `m^3/m`).
+fn merge_parts(a: &[(String, i32)], b: &[(String, i32)], sign: i32) -> Vec<(String, i32)> {
+    let mut out = a.to_vec();
+    for (s, e) in b {
+        let e = e * sign;
+        match out.iter_mut().find(|(t, f)| t == s && (*f > 0) == (e > 0)) {
+            Some(slot) => slot.1 = slot.1.saturating_add(e),
+            None => out.push((s.clone(), e)),
+        }
+    }
+    out
+}
+
+/// `kg*m/s^2`, `W/(m^2*K)`, `1/h`.
+pub(crate) fn render_parts(parts: &[(String, i32)]) -> String {
+    let power = |s: &str, e: i32| {
+        if e == 1 {
+            s.to_string()
+        } else {
+            format!("{s}^{e}")
+        }
+    };
+    let num: Vec<String> = parts
+        .iter()
+        .filter(|p| p.1 > 0)
+        .map(|(s, e)| power(s, *e))
+        .collect();
+    let den: Vec<String> = parts
+        .iter()
+        .filter(|p| p.1 < 0)
+        .map(|(s, e)| power(s, -e))
+        .collect();
+    let n = if num.is_empty() {
+        "1".to_string()
+    } else {
+        num.join("*")
+    };
+    match den.len() {
+        0 if num.is_empty() => String::new(),
+        0 => n,
+        1 => format!("{n}/{}", den[0]),
+        _ => format!("{n}/({})", den.join("*")),
+    }
+}
+
+/// Dimension product with saturation at the i8 limits (unit exponents come
+/// from literal text; a saturated unit fails its dimension checks loudly).
+fn dim_mul(a: Dim, b: Dim, sign: i8) -> Dim {
+    let mut out = a.0;
+    for (o, e) in out.iter_mut().zip(b.0) {
+        *o = o.saturating_add(e.saturating_mul(sign));
+    }
+    Dim(out)
+}
+
+fn dim_pow(a: Dim, n: i32) -> Dim {
+    let mut out = a.0;
+    for o in &mut out {
+        *o = (*o as i32)
+            .saturating_mul(n)
+            .clamp(i8::MIN as i32, i8::MAX as i32) as i8;
+    }
+    Dim(out)
 }

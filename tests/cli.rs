@@ -1,0 +1,183 @@
+//! The command line contract of DESIGN.md: exit codes, `--set`, `--format json`.
+
+use std::path::PathBuf;
+use std::process::{Command, Output};
+
+fn example(name: &str) -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+        .join("examples")
+        .join(name)
+}
+
+fn siccant(args: &[&str]) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_siccant"))
+        .args(args)
+        .env("NO_COLOR", "1")
+        .output()
+        .expect("binary runs")
+}
+
+fn sheet(text: &str) -> (tempfile::TempDir, PathBuf) {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let path = dir.path().join("sheet.sicc");
+    std::fs::write(&path, text).expect("write sheet");
+    (dir, path)
+}
+
+fn json_of(out: &Output) -> serde_json::Value {
+    serde_json::from_slice(&out.stdout).expect("stdout is JSON")
+}
+
+fn value<'a>(doc: &'a serde_json::Value, name: &str) -> &'a serde_json::Value {
+    doc["values"]
+        .as_array()
+        .and_then(|v| v.iter().find(|x| x["name"] == name))
+        .expect("named value present")
+}
+
+#[test]
+fn must_work_example_runs_and_prints_expected_numbers() {
+    let out = siccant(&[
+        "run",
+        example("tray_basics.sicc").to_str().unwrap_or_default(),
+    ]);
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let text = String::from_utf8_lossy(&out.stdout);
+    for want in [
+        "dry_solid = 60.48 kg",
+        "X1 as wb = 0.5833 wb",
+        "28.39 W/(m^2*K)",
+        "dT = 45 K",
+        "... ok",
+    ] {
+        assert!(text.contains(want), "missing `{want}` in:\n{text}");
+    }
+}
+
+#[test]
+fn json_lists_every_named_value_in_si() {
+    let out = siccant(&[
+        "run",
+        "--format",
+        "json",
+        example("tray_basics.sicc").to_str().unwrap_or_default(),
+    ]);
+    let doc = json_of(&out);
+    let names: Vec<&str> = doc["values"].as_array().map_or(vec![], |v| {
+        v.iter().filter_map(|x| x["name"].as_str()).collect()
+    });
+    assert_eq!(
+        names,
+        ["L", "area", "load", "dry_solid", "X1", "U", "dT", "q"]
+    );
+    assert!((value(&doc, "L")["si"].as_f64().unwrap_or(0.0) - 0.012).abs() < 1e-15);
+    assert!((value(&doc, "dry_solid")["si"].as_f64().unwrap_or(0.0) - 60.48).abs() < 1e-9);
+    assert_eq!(value(&doc, "dT")["unit"], "K");
+    assert_eq!(doc["checks"][0]["passed"], true);
+    assert!(doc["warnings"].as_array().is_some());
+}
+
+#[test]
+fn set_overrides_an_input() {
+    let out = siccant(&[
+        "run",
+        "--set",
+        "L=15mm",
+        "--format",
+        "json",
+        example("tray_basics.sicc").to_str().unwrap_or_default(),
+    ]);
+    assert_eq!(out.status.code(), Some(0));
+    assert!((value(&json_of(&out), "L")["si"].as_f64().unwrap_or(0.0) - 0.015).abs() < 1e-15);
+}
+
+#[test]
+fn set_of_a_name_that_is_not_an_input_is_a_usage_error() {
+    let out = siccant(&[
+        "run",
+        "--set",
+        "area=3 m^2",
+        example("tray_basics.sicc").to_str().unwrap_or_default(),
+    ]);
+    assert_eq!(out.status.code(), Some(2));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("`area` is not an input"));
+}
+
+#[test]
+fn worksheet_error_exits_1_with_file_line_col() {
+    let (_dir, path) = sheet("a = 1 m\nb = a + 2 s\n");
+    let out = siccant(&["run", path.to_str().unwrap_or_default()]);
+    assert_eq!(out.status.code(), Some(1));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("sheet.sicc:2:5"), "{err}");
+    assert!(err.contains("length") && err.contains("time"), "{err}");
+}
+
+#[test]
+fn failed_check_exits_3() {
+    let (_dir, path) = sheet("t = 9 h\ncheck t < 8 h\n");
+    let out = siccant(&["run", path.to_str().unwrap_or_default()]);
+    assert_eq!(out.status.code(), Some(3));
+    assert!(String::from_utf8_lossy(&out.stdout).contains("FAILED"));
+}
+
+#[test]
+fn usage_errors_exit_2() {
+    assert_eq!(siccant(&["run"]).status.code(), Some(2));
+    assert_eq!(siccant(&["frobnicate"]).status.code(), Some(2));
+    assert_eq!(
+        siccant(&["run", "/no/such/file.sicc"]).status.code(),
+        Some(2)
+    );
+    assert_eq!(
+        siccant(&["run", "--format", "pdf", "x.sicc"]).status.code(),
+        Some(2)
+    );
+}
+
+#[test]
+fn check_reports_unit_errors_without_running() {
+    let (_dir, path) = sheet("a = 1 m\nb = a + 2 s\n");
+    assert_eq!(
+        siccant(&["check", path.to_str().unwrap_or_default()])
+            .status
+            .code(),
+        Some(1)
+    );
+    let out = siccant(&[
+        "check",
+        example("tray_basics.sicc").to_str().unwrap_or_default(),
+    ]);
+    assert_eq!(out.status.code(), Some(0));
+}
+
+#[test]
+fn other_formats_render() {
+    let path = example("tray_basics.sicc");
+    let md = siccant(&[
+        "run",
+        "--format",
+        "markdown",
+        path.to_str().unwrap_or_default(),
+    ]);
+    assert!(String::from_utf8_lossy(&md.stdout).contains("| `dry_solid` | 60.48 kg |"));
+    let html = siccant(&["run", "--format", "html", path.to_str().unwrap_or_default()]);
+    assert!(String::from_utf8_lossy(&html.stdout).contains("<table>"));
+}
+
+#[test]
+fn set_with_the_wrong_dimension_is_a_usage_error() {
+    let out = siccant(&[
+        "run",
+        "--set",
+        "L=15",
+        example("tray_basics.sicc").to_str().unwrap_or_default(),
+    ]);
+    assert_eq!(out.status.code(), Some(2));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("input `L` is length [m]"));
+}
