@@ -87,13 +87,13 @@ pub fn glob(pattern: &str, text: &str) -> bool {
     let t: Vec<char> = text.chars().collect();
     let (mut pi, mut ti, mut star, mut mark) = (0, 0, None, 0);
     while ti < t.len() {
-        if pi < p.len() && (p[pi] == '?' || p[pi] == t[ti]) {
-            pi += 1;
-            ti += 1;
-        } else if pi < p.len() && p[pi] == '*' {
+        if pi < p.len() && p[pi] == '*' {
             star = Some(pi);
             mark = ti;
             pi += 1;
+        } else if pi < p.len() && (p[pi] == '?' || p[pi] == t[ti]) {
+            pi += 1;
+            ti += 1;
         } else if let Some(s) = star {
             pi = s + 1;
             mark += 1;
@@ -113,6 +113,7 @@ mod tests {
     #[test]
     fn glob_matches_star_and_question_mark() {
         assert!(glob("1*", "1 + 2"));
+        assert!(glob("6 *", "6 * 7"), "a star in the pattern also matches a literal star");
         assert!(glob("a?c", "abc"));
         assert!(!glob("a?c", "abbc"));
         assert!(glob("*x*", "y = x"));
