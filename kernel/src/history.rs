@@ -1,5 +1,7 @@
 //! Input history for `history_request`: tail, range and glob search.
 
+use std::collections::VecDeque;
+
 use jupyter_protocol::messaging::HistoryEntry;
 use serde_json::Value as Json;
 
@@ -113,7 +115,10 @@ mod tests {
     #[test]
     fn glob_matches_star_and_question_mark() {
         assert!(glob("1*", "1 + 2"));
-        assert!(glob("6 *", "6 * 7"), "a star in the pattern also matches a literal star");
+        assert!(
+            glob("6 *", "6 * 7"),
+            "a star in the pattern also matches a literal star"
+        );
         assert!(glob("a?c", "abc"));
         assert!(!glob("a?c", "abbc"));
         assert!(glob("*x*", "y = x"));

@@ -1,5 +1,12 @@
 //! The iopub publisher: one task owns the XPUB socket, publishes what the
 //! other tasks queue, and greets each new subscriber with `iopub_welcome`.
+//!
+//! The queue is bounded like a ZeroMQ PUB socket's high-water mark: when a
+//! subscriber stops reading, new messages are dropped (and counted in the log)
+//! instead of piling up in memory.
+
+use std::sync::atomic::{AtomicUsize, Ordering};
+use std::sync::Arc;
 
 use bytes::Bytes;
 use jupyter_protocol::messaging::{IoPubWelcome, JupyterMessage, JupyterMessageContent};
@@ -11,6 +18,9 @@ use zeromq::SocketRecv;
 
 use crate::log;
 
+/// Messages queued for iopub before new ones are dropped (ZeroMQ's default SNDHWM).
+pub const HIGH_WATER_MARK: usize = 1000;
+
 enum Command {
     Publish(Box<JupyterMessage>),
     Flush(oneshot::Sender<()>),
@@ -19,18 +29,20 @@ enum Command {
 /// A handle for queueing iopub messages.
 #[derive(Clone)]
 pub struct Iopub {
-    queue: mpsc::UnboundedSender<Command>,
+    queue: mpsc::Sender<Command>,
     kernel_id: String,
+    dropped: Arc<AtomicUsize>,
 }
 
 impl Iopub {
     /// Start the publisher task on `conn`.
     pub fn start(conn: KernelIoPubXPubConnection, kernel_id: &str) -> Iopub {
-        let (queue, commands) = mpsc::unbounded_channel();
+        let (queue, commands) = mpsc::channel(HIGH_WATER_MARK);
         tokio::spawn(serve(conn, commands));
         Iopub {
             queue,
             kernel_id: kernel_id.to_string(),
+            dropped: Arc::new(AtomicUsize::new(0)),
         }
     }
 
@@ -39,22 +51,31 @@ impl Iopub {
         let mut message = JupyterMessage::new(content, Some(parent));
         let topic = format!("kernel.{}.{}", self.kernel_id, message.header.msg_type);
         message.zmq_identities = vec![Bytes::from(topic)];
-        let _ = self.queue.send(Command::Publish(Box::new(message)));
+        if self
+            .queue
+            .try_send(Command::Publish(Box::new(message)))
+            .is_err()
+        {
+            let dropped = self.dropped.fetch_add(1, Ordering::Relaxed) + 1;
+            if dropped == 1 || dropped % HIGH_WATER_MARK == 0 {
+                log::complaint(
+                    "iopub",
+                    &format!("subscribers are not reading: {dropped} messages dropped so far"),
+                );
+            }
+        }
     }
 
     /// Wait until everything queued so far has been handed to the socket.
     pub async fn flush(&self) {
         let (done, wait) = oneshot::channel();
-        if self.queue.send(Command::Flush(done)).is_ok() {
+        if self.queue.send(Command::Flush(done)).await.is_ok() {
             let _ = wait.await;
         }
     }
 }
 
-async fn serve(
-    mut conn: KernelIoPubXPubConnection,
-    mut commands: mpsc::UnboundedReceiver<Command>,
-) {
+async fn serve(mut conn: KernelIoPubXPubConnection, mut commands: mpsc::Receiver<Command>) {
     loop {
         tokio::select! {
             command = commands.recv() => match command {

@@ -82,8 +82,11 @@ impl Router {
                 Ok(Incoming::Request(request)) => self.handle(request).await,
                 Ok(Incoming::Malformed { request, reason }) => {
                     let reply = wire::error_reply(&request, "BadRequest", &reason);
-                    self.answer(&request, reply.map_or(Answer::Nothing, |m| Answer::Raw(Box::new(m))))
-                        .await;
+                    self.answer(
+                        &request,
+                        reply.map_or(Answer::Nothing, |m| Answer::Raw(Box::new(m))),
+                    )
+                    .await;
                 }
                 Ok(Incoming::Dropped) => {}
                 Err(e) => {
@@ -188,7 +191,8 @@ impl Router {
             self.name()
         );
         log::complaint(self.name(), &what);
-        wire::error_reply(request, "UnknownMessageType", &what).map_or(Answer::Nothing, |m| Answer::Raw(Box::new(m)))
+        wire::error_reply(request, "UnknownMessageType", &what)
+            .map_or(Answer::Nothing, |m| Answer::Raw(Box::new(m)))
     }
 
     fn interrupt(&self) -> Answer {
