@@ -8,17 +8,25 @@ use serde_json::Value as Json;
 /// The session number reported in history entries (one kernel run is one session).
 pub const SESSION_NUMBER: usize = 1;
 
-/// Cells stored with `store_history`, with their plain-text result.
+/// How many of the most recent cells history keeps, so a long-running kernel's
+/// memory stays flat (a front end keeps its own copy of what it sent).
+pub const HISTORY_LIMIT: usize = 1000;
+
+/// The most recent cells stored with `store_history`, with their plain-text result.
 #[derive(Default)]
 pub struct History {
-    cells: Vec<(usize, String, String)>,
+    cells: VecDeque<(usize, String, String)>,
 }
 
 impl History {
-    /// Record cell `line` with its input and plain-text output.
+    /// Record cell `line` with its input and plain-text output, forgetting the
+    /// oldest cell beyond [`HISTORY_LIMIT`].
     pub fn push(&mut self, line: usize, input: &str, output: &str) {
+        if self.cells.len() == HISTORY_LIMIT {
+            self.cells.pop_front();
+        }
         self.cells
-            .push((line, input.to_string(), output.to_string()));
+            .push_back((line, input.to_string(), output.to_string()));
     }
 
     /// Answer a history request given as raw JSON content.
@@ -151,5 +159,16 @@ mod tests {
             lines(json!({"hist_access_type": "search", "pattern": "? = *"})),
             vec![1, 3]
         );
+    }
+
+    #[test]
+    fn only_the_most_recent_cells_are_kept() {
+        let mut h = History::default();
+        for line in 1..=HISTORY_LIMIT + 5 {
+            h.push(line, "x", "");
+        }
+        let all = h.query(&json!({"hist_access_type": "tail", "n": HISTORY_LIMIT * 2}));
+        assert_eq!(all.len(), HISTORY_LIMIT);
+        assert!(matches!(all[0], HistoryEntry::Input(_, 6, _)));
     }
 }
