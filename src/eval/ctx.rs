@@ -1,6 +1,7 @@
 //! The evaluator: forces named values through the dependency graph and
 //! evaluates expressions, attaching spans to span-less unit errors.
 
+use std::collections::hash_map::Entry;
 use std::collections::HashSet;
 use std::path::PathBuf;
 
@@ -264,16 +265,7 @@ impl<'a> Ctx<'a> {
 
     /// The value an operand stands for.
     fn view<'s>(&'s self, o: &'s Operand) -> &'s Value {
-        static MISSING: Value = Value::Bool(false);
-        match o {
-            Operand::Owned(v) => v,
-            Operand::Param(n) => self
-                .frame
-                .as_ref()
-                .and_then(|f| f.get(*n))
-                .unwrap_or(&MISSING),
-            Operand::Global(n) => self.sheet.cache.get(*n).unwrap_or(&MISSING),
-        }
+        view(&self.frame, &self.sheet.cache, o)
     }
 
     fn name(&mut self, n: &str, span: Span) -> Flow<Value> {
@@ -391,17 +383,30 @@ impl<'a> Ctx<'a> {
 
     fn shown_as(&mut self, a: &Expr, u: &UnitExpr) -> Flow<Value> {
         let v = self.operand(a)?;
-        self.unit_ref(u)?;
-        let unit = self.sheet.units.get(&(u.span.file, u.span.start));
-        let shown = match unit {
-            Some(unit) => show_in(self.view(&v), unit),
-            None => return Err(Stop::Reported),
+        let unit = match self.sheet.units.entry((u.span.file, u.span.start)) {
+            Entry::Occupied(e) => e.into_mut(),
+            Entry::Vacant(e) => e.insert(resolve_unit(u)?),
         };
-        shown.map_err(|msg| {
+        show_in(view(&self.frame, &self.sheet.cache, &v), unit).map_err(|msg| {
             let mut d = Diagnostic::error(u.span, msg);
             d.hints.push((Some(a.span), "this value".into()));
             d.into()
         })
+    }
+}
+
+/// The value an operand stands for (a free function so that callers can
+/// borrow other parts of the context at the same time).
+fn view<'s>(
+    frame: &'s Option<super::FastMap<String, Value>>,
+    cache: &'s super::FastMap<String, Value>,
+    o: &'s Operand,
+) -> &'s Value {
+    static MISSING: Value = Value::Bool(false);
+    match o {
+        Operand::Owned(v) => v,
+        Operand::Param(n) => frame.as_ref().and_then(|f| f.get(*n)).unwrap_or(&MISSING),
+        Operand::Global(n) => cache.get(*n).unwrap_or(&MISSING),
     }
 }
 
