@@ -295,7 +295,7 @@ impl<'a> Ctx<'a> {
     fn unit_ref(&mut self, u: &UnitExpr) -> Flow<&Unit> {
         let key = (u.span.file, u.span.start);
         if !self.sheet.units.contains_key(&key) {
-            let unit = resolve_unit(u)?;
+            let unit = resolve_by_text(&mut self.sheet.unit_texts, self.sources, u)?;
             self.sheet.units.insert(key, unit);
         }
         self.sheet.units.get(&key).ok_or(Stop::Reported)
@@ -385,7 +385,11 @@ impl<'a> Ctx<'a> {
         let v = self.operand(a)?;
         let unit = match self.sheet.units.entry((u.span.file, u.span.start)) {
             Entry::Occupied(e) => e.into_mut(),
-            Entry::Vacant(e) => e.insert(resolve_unit(u)?),
+            Entry::Vacant(e) => e.insert(resolve_by_text(
+                &mut self.sheet.unit_texts,
+                self.sources,
+                u,
+            )?),
         };
         show_in(view(&self.frame, &self.sheet.cache, &v), unit).map_err(|msg| {
             let mut d = Diagnostic::error(u.span, msg);
@@ -479,6 +483,24 @@ fn op_error(e: OpError, span: Span, a: Span, b: Span) -> Diagnostic {
         d.hints.push((None, h));
     }
     d
+}
+
+/// Resolve a unit, reusing an earlier resolution of the same text.
+fn resolve_by_text(
+    texts: &mut super::FastMap<String, Unit>,
+    sources: &Sources,
+    u: &UnitExpr,
+) -> Result<Unit, Diagnostic> {
+    let text = sources.slice(u.span);
+    if text.is_empty() {
+        return resolve_unit(u);
+    }
+    if let Some(unit) = texts.get(text) {
+        return Ok(unit.clone());
+    }
+    let unit = resolve_unit(u)?;
+    texts.insert(text.to_string(), unit.clone());
+    Ok(unit)
 }
 
 /// Build a unit from a unit expression.
