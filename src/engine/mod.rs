@@ -1,2 +1,8 @@
 //! The physics, typed with uom. Engine code never sees syntax, strings or
 //! dynamic units: it takes and returns uom quantities and plain structs.
+
+pub mod air;
+pub mod dryers;
+pub mod solve;
+pub mod transfer;
+pub mod transport;

@@ -4,11 +4,14 @@
 //! A built-in receives spanned arguments, checks their dimensions here at the
 //! boundary, converts them to uom quantities and calls typed engine code.
 
+pub mod air;
 pub mod math;
 
 use crate::diag::{Diagnostic, Span};
 use crate::units::{describe_dim, Dim, Quantity};
 use crate::value::{Record, Value};
+
+pub mod transfer;
 
 /// What a parameter accepts, for docs, completion and checking.
 #[derive(Clone, Copy, Debug)]
@@ -233,7 +236,9 @@ pub fn registry() -> &'static [&'static Builtin] {
     REGISTRY.get_or_init(|| {
         const FAMILIES: &[&[Builtin]] = &[
             // one line per family, e.g. air::BUILTINS,
+            air::BUILTINS,
             math::BUILTINS,
+            transfer::BUILTINS,
         ];
         let mut all: Vec<&'static Builtin> = FAMILIES.iter().flat_map(|f| f.iter()).collect();
         all.sort_by_key(|b| b.name);

@@ -1,0 +1,299 @@
+//! Saturation of water: vapour pressure over ice and liquid, the enhancement
+//! factor in air, saturated densities and the latent heat of vaporization.
+//!
+//! Formulations (all SI, kelvin and pascal inside):
+//! - Hyland & Wexler (1983), as printed in ASHRAE Handbook - Fundamentals
+//!   (2017, ch. 1, eqs. 5 and 6): over ice 173.15-273.15 K, over liquid water
+//!   273.15-473.15 K.
+//! - IAPWS-IF97 region 4 saturation-pressure equation (IAPWS R7-97(2012), eq. 30)
+//!   and its backward equation (eq. 31): 273.15-647.096 K.
+//! - The two liquid branches are joined smoothly in ln p between 150 and 200 degC;
+//!   ice and liquid are joined linearly in ln p between 0 degC and the triple point
+//!   (0.01 degC) so that dew and frost points invert exactly.
+//! - Enhancement factor: Greenspan's functional form with the coefficients of
+//!   Hardy (1998), "ITS-90 formulations for vapor pressure, frostpoint temperature,
+//!   dewpoint temperature, and enhancement factors in the range -100 to +100 C".
+//! - Saturated liquid and vapour densities: Wagner & Pruss (1993) auxiliary
+//!   equations (J. Phys. Chem. Ref. Data 22, 783), used for the latent heat by
+//!   Clausius-Clapeyron.
+
+/// 0 degC in kelvin.
+pub const T_ZERO_C: f64 = 273.15;
+/// Triple point of water, K.
+pub const T_TRIPLE: f64 = 273.16;
+/// Critical temperature of water, K (IAPWS).
+pub const T_CRITICAL: f64 = 647.096;
+/// Critical pressure of water, Pa (IAPWS-IF97).
+pub const P_CRITICAL: f64 = 22.064e6;
+/// Critical density of water, kg/m^3 (IAPWS).
+pub const RHO_CRITICAL: f64 = 322.0;
+/// Lowest temperature of the Hyland-Wexler ice equation, K (-100 degC).
+pub const T_MIN_SATURATION: f64 = 173.15;
+/// Start and end of the Hyland-Wexler to IF97 join, K.
+const JOIN_START: f64 = 423.15;
+const JOIN_END: f64 = 473.15;
+
+/// ln p_ws over ice, Hyland-Wexler (ASHRAE Fundamentals 2017 ch. 1 eq. 5), T in K, p in Pa.
+pub fn ln_ice_hyland_wexler(t: f64) -> f64 {
+    const C: [f64; 7] = [
+        -5.674_535_9e3,
+        6.392_524_7,
+        -9.677_843_0e-3,
+        6.221_570_1e-7,
+        2.074_782_5e-9,
+        -9.484_024_0e-13,
+        4.163_501_9,
+    ];
+    C[0] / t + C[1] + t * (C[2] + t * (C[3] + t * (C[4] + t * C[5]))) + C[6] * t.ln()
+}
+
+/// ln p_ws over liquid water, Hyland-Wexler (ASHRAE Fundamentals 2017 ch. 1 eq. 6), T in K, p in Pa.
+pub fn ln_water_hyland_wexler(t: f64) -> f64 {
+    const C: [f64; 6] = [
+        -5.800_220_6e3,
+        1.391_499_3,
+        -4.864_023_9e-2,
+        4.176_476_8e-5,
+        -1.445_209_3e-8,
+        6.545_967_3,
+    ];
+    C[0] / t + C[1] + t * (C[2] + t * (C[3] + t * C[4])) + C[5] * t.ln()
+}
+
+/// IAPWS-IF97 region 4 coefficients n1..n10 (R7-97(2012) table 34).
+const IF97_N: [f64; 10] = [
+    0.116_705_214_527_67e4,
+    -0.724_213_167_032_06e6,
+    -0.170_738_469_400_92e2,
+    0.120_208_247_024_70e5,
+    -0.323_255_503_223_33e7,
+    0.149_151_086_135_30e2,
+    -0.482_326_573_615_91e4,
+    0.405_113_405_420_57e6,
+    -0.238_555_575_678_49,
+    0.650_175_348_447_98e3,
+];
+
+/// Saturation pressure of water by IAPWS-IF97 eq. 30, T in K (273.15-647.096), p in Pa.
+pub fn if97_saturation_pressure(t: f64) -> f64 {
+    let n = &IF97_N;
+    let theta = t + n[8] / (t - n[9]);
+    let a = theta * theta + n[0] * theta + n[1];
+    let b = n[2] * theta * theta + n[3] * theta + n[4];
+    let c = n[5] * theta * theta + n[6] * theta + n[7];
+    let x = 2.0 * c / (-b + (b * b - 4.0 * a * c).sqrt());
+    1e6 * x.powi(4)
+}
+
+/// Saturation temperature of water by IAPWS-IF97 eq. 31, p in Pa (611.213 Pa-22.064 MPa), T in K.
+pub fn if97_saturation_temperature(p: f64) -> f64 {
+    let n = &IF97_N;
+    let beta = (p / 1e6).powf(0.25);
+    let e = beta * beta + n[2] * beta + n[5];
+    let f = n[0] * beta * beta + n[3] * beta + n[6];
+    let g = n[1] * beta * beta + n[4] * beta + n[7];
+    let d = 2.0 * g / (-f - (f * f - 4.0 * e * g).sqrt());
+    let s = n[9] + d;
+    0.5 * (s - (s * s - 4.0 * (n[8] + n[9] * d)).sqrt())
+}
+
+/// ln of the vapour pressure over liquid water (supercooled below 0 degC), T in K.
+///
+/// Hyland-Wexler up to 150 degC, IF97 above 200 degC, a smoothstep join in ln p
+/// between them.
+pub fn ln_water(t: f64) -> f64 {
+    if t <= JOIN_START {
+        return ln_water_hyland_wexler(t);
+    }
+    let if97 = if97_saturation_pressure(t).ln();
+    if t >= JOIN_END {
+        return if97;
+    }
+    let s = (t - JOIN_START) / (JOIN_END - JOIN_START);
+    let weight = s * s * (3.0 - 2.0 * s);
+    (1.0 - weight) * ln_water_hyland_wexler(t) + weight * if97
+}
+
+/// ln of the saturation pressure over the stable condensed phase (ice below 0 degC), T in K.
+pub fn ln_saturation(t: f64) -> f64 {
+    join_phases(
+        t,
+        ln_ice_hyland_wexler(t.min(T_TRIPLE)),
+        ln_water(t.max(T_ZERO_C)),
+    )
+}
+
+/// Linear join of an ice value and a water value across 0 degC .. 0.01 degC.
+fn join_phases(t: f64, ice: f64, water: f64) -> f64 {
+    if t <= T_ZERO_C {
+        ice
+    } else if t >= T_TRIPLE {
+        water
+    } else {
+        let s = (t - T_ZERO_C) / (T_TRIPLE - T_ZERO_C);
+        (1.0 - s) * ice + s * water
+    }
+}
+
+/// Enhancement factor f(T, p) of water vapour in air at saturation, T in K, p in Pa.
+///
+/// Greenspan's form `ln f = alpha (1 - e_s/p) + beta (p/e_s - 1)` with Hardy's
+/// (1998) coefficients for water (0-100 degC) and ice (-100-0 degC). It tends to 1
+/// as e_s approaches p; where e_s >= p (above the boiling point) it is 1.
+pub fn enhancement_factor(t: f64, p: f64) -> f64 {
+    let ln_ice = ln_enhancement(t, p, ln_ice_hyland_wexler(t), &HARDY_ICE);
+    let ln_water = ln_enhancement(t, p, ln_water(t), &HARDY_WATER);
+    join_phases(t, ln_ice, ln_water).exp()
+}
+
+/// Hardy (1998) enhancement-factor coefficients: (A1..A4, B1..B4), t in degC.
+const HARDY_WATER: [f64; 8] = [
+    3.536_24e-4,
+    2.932_28e-5,
+    2.614_74e-7,
+    8.575_38e-9,
+    -1.075_88e1,
+    6.325_29e-2,
+    -2.535_91e-4,
+    6.337_84e-7,
+];
+const HARDY_ICE: [f64; 8] = [
+    3.644_49e-4,
+    2.936_31e-5,
+    4.886_35e-7,
+    4.365_43e-9,
+    -1.072_71e1,
+    7.619_89e-2,
+    -1.747_71e-4,
+    2.467_21e-6,
+];
+
+fn ln_enhancement(t: f64, p: f64, ln_es: f64, c: &[f64; 8]) -> f64 {
+    let es = ln_es.exp();
+    if es >= p {
+        return 0.0;
+    }
+    let tc = (t - T_ZERO_C).clamp(-100.0, 200.0);
+    let alpha = c[0] + tc * (c[1] + tc * (c[2] + tc * c[3]));
+    let beta = (c[4] + tc * (c[5] + tc * (c[6] + tc * c[7]))).exp();
+    alpha * (1.0 - es / p) + beta * (p / es - 1.0)
+}
+
+/// Vapour partial pressure of saturated moist air at T (K) and total pressure p (Pa):
+/// `f(T, p) p_ws(T)`, over ice below 0 degC.
+pub fn saturated_vapour_pressure(t: f64, p: f64) -> f64 {
+    enhancement_factor(t, p) * ln_saturation(t).exp()
+}
+
+/// Saturated liquid density, kg/m^3, Wagner & Pruss (1993) auxiliary eq. 2.6, T in K.
+pub fn saturated_liquid_density(t: f64) -> f64 {
+    const B: [f64; 6] = [
+        1.992_740_64,
+        1.099_653_42,
+        -0.510_839_303,
+        -1.754_934_79,
+        -45.517_035_2,
+        -6.746_944_50e5,
+    ];
+    const E: [f64; 6] = [
+        1.0 / 3.0,
+        2.0 / 3.0,
+        5.0 / 3.0,
+        16.0 / 3.0,
+        43.0 / 3.0,
+        110.0 / 3.0,
+    ];
+    let tau = (1.0 - t / T_CRITICAL).max(0.0);
+    let sum: f64 = B.iter().zip(E).map(|(b, e)| b * tau.powf(e)).sum();
+    RHO_CRITICAL * (1.0 + sum)
+}
+
+/// Saturated vapour density, kg/m^3, Wagner & Pruss (1993) auxiliary eq. 2.7, T in K.
+pub fn saturated_vapour_density(t: f64) -> f64 {
+    const C: [f64; 6] = [
+        -2.031_502_40,
+        -2.683_029_40,
+        -5.386_264_92,
+        -17.299_160_5,
+        -44.758_658_1,
+        -63.920_106_3,
+    ];
+    const E: [f64; 6] = [
+        2.0 / 6.0,
+        4.0 / 6.0,
+        8.0 / 6.0,
+        18.0 / 6.0,
+        37.0 / 6.0,
+        71.0 / 6.0,
+    ];
+    let tau = (1.0 - t / T_CRITICAL).max(0.0);
+    let sum: f64 = C.iter().zip(E).map(|(c, e)| c * tau.powf(e)).sum();
+    RHO_CRITICAL * sum.exp()
+}
+
+/// Latent heat of vaporization of water, J/kg, at T in K (up to the critical point).
+///
+/// Clausius-Clapeyron, `h_fg = T (1/rho'' - 1/rho') dp_s/dT`, on the liquid
+/// saturation line of [`ln_water`] with Wagner-Pruss saturated densities.
+/// Zero at and above the critical temperature.
+pub fn latent_heat_j_per_kg(t: f64) -> f64 {
+    if t >= T_CRITICAL {
+        return 0.0;
+    }
+    let dt = 1e-3_f64.min(0.5 * (T_CRITICAL - t));
+    let dp_dt = (ln_water(t + dt).exp() - ln_water(t - dt).exp()) / (2.0 * dt);
+    let dv = 1.0 / saturated_vapour_density(t) - 1.0 / saturated_liquid_density(t);
+    t * dv * dp_dt
+}
+
+/// Boiling point of water at total pressure p (Pa): where `p_ws(T) = p`, K.
+///
+/// Starts from the IF97 backward equation and polishes it on [`ln_water`], so it
+/// is consistent with the saturation curve used everywhere else.
+pub fn boiling_point(p: f64) -> Result<f64, crate::engine::solve::SolveError> {
+    use crate::engine::solve::{brent, Tolerance};
+    let guess = if97_saturation_temperature(p.clamp(611.3, P_CRITICAL));
+    let ln_p = p.ln();
+    let lo = (guess - 2.0).max(T_TRIPLE);
+    let hi = (guess + 2.0).min(T_CRITICAL);
+    brent(|t| ln_water(t) - ln_p, lo, hi, Tolerance::new(1e-12, 1e-15))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// IAPWS-IF97 verification values (R7-97(2012) tables 35 and 36).
+    #[test]
+    fn if97_region4_verification_values() {
+        for (t, p_mpa) in [
+            (300.0, 0.353_658_941e-2),
+            (500.0, 0.263_889_776e1),
+            (600.0, 0.123_443_146e2),
+        ] {
+            let p = if97_saturation_pressure(t) / 1e6;
+            assert!((p / p_mpa - 1.0).abs() < 1e-8, "T={t}: {p} vs {p_mpa}");
+        }
+        for (p_mpa, t) in [
+            (0.1, 0.372_755_919e3),
+            (1.0, 0.453_035_632e3),
+            (10.0, 0.584_149_488e3),
+        ] {
+            let got = if97_saturation_temperature(p_mpa * 1e6);
+            assert!((got / t - 1.0).abs() < 1e-8, "p={p_mpa}: {got} vs {t}");
+        }
+    }
+
+    #[test]
+    fn saturation_curve_is_continuous_and_increasing() {
+        let mut last = ln_saturation(T_MIN_SATURATION);
+        let mut t = T_MIN_SATURATION;
+        while t < 640.0 {
+            t += 0.005;
+            let now = ln_saturation(t);
+            assert!(now > last, "not increasing at {t}");
+            assert!(now - last < 0.01, "jump at {t}");
+            last = now;
+        }
+    }
+}

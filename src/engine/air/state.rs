@@ -1,0 +1,542 @@
+//! The state of humid air (dry-bulb, total pressure, humidity ratio), its
+//! constructors from any second property and its derived properties.
+//!
+//! Relations (ASHRAE Handbook - Fundamentals 2017 ch. 1, extended to high
+//! temperature and to real-gas water vapour at the second-virial level):
+//! - `pv = p w / (0.621945 + w)`, `w_s = 0.621945 f p_ws / (p - f p_ws)`
+//! - `rh = pv / (f p_ws)` (mole-fraction ratio, as ASHRAE defines it)
+//! - `h = h_da(T) + w h_v(T, pv)`, per kg dry air
+//! - `v = R_da T (1 + w/0.621945) / p * (1 + x_w (Z_w - 1))`, per kg dry air
+//! - thermodynamic wet-bulb T*: `h(T, w) + (w_s* - w) h_c(T*) = h(T*, w_s*)`,
+//!   with h_c the enthalpy of liquid water (of ice below 0 degC)
+
+use uom::si::available_energy::joule_per_kilogram;
+use uom::si::f64::{
+    AvailableEnergy, MassDensity, Pressure, SpecificHeatCapacity, SpecificVolume,
+    ThermodynamicTemperature,
+};
+use uom::si::mass_density::kilogram_per_cubic_meter;
+use uom::si::pressure::pascal;
+use uom::si::specific_heat_capacity::joule_per_kilogram_kelvin;
+use uom::si::specific_volume::cubic_meter_per_kilogram;
+use uom::si::thermodynamic_temperature::kelvin;
+
+use super::saturation::{self as sat, T_MIN_SATURATION, T_ZERO_C};
+use super::thermo::{self, EPSILON};
+use super::AirError;
+use crate::engine::solve::{brent, Tolerance};
+
+/// Lowest dry-bulb temperature of an air state, K (-40 degC).
+pub const T_MIN_K: f64 = 233.15;
+/// Highest dry-bulb temperature of an air state, K (350 degC).
+pub const T_MAX_K: f64 = 623.15;
+/// Lower end of the design pressure range, Pa (the library warns outside).
+pub const P_MIN_PA: f64 = 50e3;
+/// Upper end of the design pressure range, Pa (the library warns outside).
+pub const P_MAX_PA: f64 = 200e3;
+/// Hard pressure limits of the engine, Pa: beyond them the enhancement factor
+/// and the virial truncation are not trusted at all.
+const P_HARD_MIN_PA: f64 = 1e3;
+const P_HARD_MAX_PA: f64 = 10e6;
+/// Tolerance on temperatures solved by Brent's method, K.
+const T_TOL: Tolerance = Tolerance::new(1e-13, 1e-15);
+/// Relative slack when comparing a round-tripped value with a limit.
+const SLACK: f64 = 1e-12;
+
+/// A humid-air state: dry-bulb temperature, total pressure and humidity ratio.
+///
+/// Every other property is derived. Construct with one of the `from_*`
+/// functions, which check the input and invert exactly (round trips agree to
+/// about 1e-12 relative).
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct AirState {
+    t_k: f64,
+    p_pa: f64,
+    w: f64,
+}
+
+pub(crate) fn check_pressure(p: f64) -> Result<(), AirError> {
+    if !(p.is_finite() && p > 0.0) {
+        return Err(AirError::PressureNotPositive {
+            name: "p",
+            value_pa: p,
+        });
+    }
+    if !(P_HARD_MIN_PA..=P_HARD_MAX_PA).contains(&p) {
+        return Err(AirError::PressureOutOfRange {
+            name: "p",
+            value_pa: p,
+            min_pa: P_HARD_MIN_PA,
+            max_pa: P_HARD_MAX_PA,
+        });
+    }
+    Ok(())
+}
+
+/// Slack on the temperature range, K, so that -40 degC converted through degC is accepted.
+const T_SLACK: f64 = 1e-9;
+
+pub(crate) fn check_dry_bulb(name: &'static str, t: f64) -> Result<(), AirError> {
+    if t.is_finite() && (T_MIN_K - T_SLACK..=T_MAX_K + T_SLACK).contains(&t) {
+        Ok(())
+    } else {
+        Err(AirError::TemperatureOutOfRange {
+            name,
+            value_k: t,
+            min_k: T_MIN_K,
+            max_k: T_MAX_K,
+        })
+    }
+}
+
+/// A second temperature (wet-bulb, dew point) must lie in the saturation range and not above the dry-bulb.
+fn check_below_dry_bulb(name: &'static str, value: f64, dry_bulb: f64) -> Result<(), AirError> {
+    if !(value.is_finite() && value >= T_MIN_SATURATION - T_SLACK) {
+        return Err(AirError::TemperatureOutOfRange {
+            name,
+            value_k: value,
+            min_k: T_MIN_SATURATION,
+            max_k: dry_bulb,
+        });
+    }
+    if value > dry_bulb * (1.0 + SLACK) {
+        return Err(AirError::AboveDryBulb {
+            name,
+            value_k: value,
+            dry_bulb_k: dry_bulb,
+        });
+    }
+    Ok(())
+}
+
+/// Vapour partial pressure from humidity ratio, Pa.
+pub(crate) fn pv_of(w: f64, p: f64) -> f64 {
+    p * w / (EPSILON + w)
+}
+
+/// Humidity ratio from vapour partial pressure, kg/kg dry air.
+pub(crate) fn w_of(pv: f64, p: f64) -> f64 {
+    EPSILON * pv / (p - pv)
+}
+
+/// Saturation humidity ratio at (T, p), or `None` at or above the boiling point.
+pub(crate) fn ws_of(t: f64, p: f64) -> Option<f64> {
+    let pvs = sat::saturated_vapour_pressure(t, p);
+    (pvs < p).then(|| w_of(pvs, p))
+}
+
+/// Enthalpy per kg dry air, J/kg, on the ASHRAE reference.
+pub(crate) fn h_of(t: f64, w: f64, p: f64) -> f64 {
+    let pv = pv_of(w, p);
+    thermo::air_part_enthalpy(t, p - pv, pv) + w * thermo::vapour_enthalpy(t, pv)
+}
+
+/// Humidity ratio w at (T, p) with `h(T, w, p) - w h_c = target` (J/kg dry air).
+///
+/// Newton-like iteration with the slope `h_v - h_c` (the real-gas terms make the
+/// exact slope differ by well under 1 %), to machine precision.
+fn w_for_enthalpy(t: f64, p: f64, target: f64, hc: f64) -> Result<f64, AirError> {
+    let mut w = 0.0;
+    for _ in 0..60 {
+        let slope = thermo::vapour_enthalpy(t, pv_of(w, p)) - hc;
+        let step = (target - (h_of(t, w, p) - w * hc)) / slope;
+        w += step;
+        // Rounding of h itself limits the step to about eps |h| / slope.
+        if step.abs() <= 8.0 * f64::EPSILON * (w.abs() + (target.abs() + hc.abs()) / slope.abs()) {
+            return Ok(w);
+        }
+    }
+    Err(AirError::NotConverged {
+        what: "humidity ratio from enthalpy",
+        reason: crate::engine::solve::SolveError::NotConverged {
+            iterations: 60,
+            width: 0.0,
+        },
+    })
+}
+
+/// Root of an increasing residual on `[lo, hi]`; an end is returned when the
+/// residual already has the root's sign there (a saturated state, where both
+/// ends meet up to rounding).
+fn root_in<F: FnMut(f64) -> f64>(
+    mut f: F,
+    lo: f64,
+    hi: f64,
+    what: &'static str,
+) -> Result<f64, AirError> {
+    if f(lo) >= 0.0 {
+        return Ok(lo);
+    }
+    if f(hi) <= 0.0 {
+        return Ok(hi);
+    }
+    brent(f, lo, hi, T_TOL).map_err(|e| AirError::NotConverged { what, reason: e })
+}
+
+impl AirState {
+    fn new_checked(t: f64, w: f64, p: f64, w_name: &'static str) -> Result<AirState, AirError> {
+        check_dry_bulb("T", t)?;
+        check_pressure(p)?;
+        if !(w.is_finite() && w >= 0.0) {
+            return Err(AirError::HumidityRatioNegative {
+                name: w_name,
+                value: w,
+            });
+        }
+        if let Some(ws) = ws_of(t, p) {
+            if w > ws * (1.0 + SLACK) {
+                return Err(AirError::HumidityRatioAboveSaturation {
+                    name: w_name,
+                    value: w,
+                    saturation: ws,
+                    t_k: t,
+                });
+            }
+        }
+        Ok(AirState { t_k: t, p_pa: p, w })
+    }
+
+    /// State from dry-bulb, humidity ratio (kg water / kg dry air) and total pressure.
+    ///
+    /// Errors: T outside -40..350 degC, p not positive (or outside 1 kPa..10 MPa),
+    /// w negative or above saturation.
+    pub fn from_w(
+        t: ThermodynamicTemperature,
+        w_kg_per_kg_da: f64,
+        p: Pressure,
+    ) -> Result<AirState, AirError> {
+        AirState::new_checked(t.get::<kelvin>(), w_kg_per_kg_da, p.get::<pascal>(), "w")
+    }
+
+    /// State from dry-bulb, relative humidity (fraction 0..1) and total pressure.
+    ///
+    /// `rh = pv / (f p_ws)` as ASHRAE defines it (saturation over ice below 0 degC).
+    /// Above the boiling point at p, rh is limited to `p / p_ws`.
+    pub fn from_rh(
+        t: ThermodynamicTemperature,
+        rh: f64,
+        p: Pressure,
+    ) -> Result<AirState, AirError> {
+        let (t, p) = (t.get::<kelvin>(), p.get::<pascal>());
+        check_dry_bulb("T", t)?;
+        check_pressure(p)?;
+        if !(rh.is_finite() && (0.0..=1.0 + SLACK).contains(&rh)) {
+            return Err(AirError::RelativeHumidityOutOfRange { value: rh });
+        }
+        let rh = rh.min(1.0);
+        let pvs = sat::saturated_vapour_pressure(t, p);
+        let pv = rh * pvs;
+        if pv >= p {
+            return Err(AirError::RelativeHumidityAboveBoiling {
+                value: rh,
+                max: p / pvs,
+                t_k: t,
+                p_pa: p,
+            });
+        }
+        AirState::new_checked(t, w_of(pv, p), p, "rh")
+    }
+
+    /// State from dry-bulb, dew point (frost point below 0 degC) and total pressure.
+    ///
+    /// Errors: dew point above the dry-bulb or below -100 degC.
+    pub fn from_dew_point(
+        t: ThermodynamicTemperature,
+        dew_point: ThermodynamicTemperature,
+        p: Pressure,
+    ) -> Result<AirState, AirError> {
+        let (t, td, p) = (
+            t.get::<kelvin>(),
+            dew_point.get::<kelvin>(),
+            p.get::<pascal>(),
+        );
+        check_dry_bulb("T", t)?;
+        check_pressure(p)?;
+        check_below_dry_bulb("dewpoint", td, t)?;
+        let pv = sat::saturated_vapour_pressure(td.min(t), p);
+        if pv >= p {
+            return Err(AirError::AboveDryBulb {
+                name: "dewpoint",
+                value_k: td,
+                dry_bulb_k: t,
+            });
+        }
+        AirState::new_checked(t, w_of(pv, p), p, "dewpoint")
+    }
+
+    /// State from dry-bulb, thermodynamic wet-bulb temperature and total pressure.
+    ///
+    /// Solves the adiabatic-saturation balance for w (liquid water at the
+    /// wet-bulb, ice below 0 degC). Errors: wet-bulb above the dry-bulb, at or
+    /// above the boiling point at p, or below the wet-bulb of bone-dry air.
+    pub fn from_wet_bulb(
+        t: ThermodynamicTemperature,
+        wet_bulb: ThermodynamicTemperature,
+        p: Pressure,
+    ) -> Result<AirState, AirError> {
+        let (t, twb, p) = (
+            t.get::<kelvin>(),
+            wet_bulb.get::<kelvin>(),
+            p.get::<pascal>(),
+        );
+        check_dry_bulb("T", t)?;
+        check_pressure(p)?;
+        check_below_dry_bulb("wetbulb", twb, t)?;
+        let twb = twb.min(t);
+        let ws_star = ws_of(twb, p).ok_or(AirError::AboveDryBulb {
+            name: "wetbulb",
+            value_k: twb,
+            dry_bulb_k: t,
+        })?;
+        let hc = thermo::condensed_enthalpy(twb);
+        let target = h_of(twb, ws_star, p) - ws_star * hc;
+        if target < h_of(t, 0.0, p) {
+            let min_k = AirState {
+                t_k: t,
+                p_pa: p,
+                w: 0.0,
+            }
+            .wet_bulb_k()
+            .unwrap_or(f64::NAN);
+            return Err(AirError::WetBulbTooLow {
+                value_k: twb,
+                min_k,
+            });
+        }
+        let w = w_for_enthalpy(t, p, target, hc)?;
+        AirState::new_checked(t, w, p, "wetbulb")
+    }
+
+    /// State from dry-bulb, enthalpy per kg dry air (ASHRAE reference) and total pressure.
+    ///
+    /// Errors: h below that of dry air at T, or above that of saturated air at T.
+    pub fn from_enthalpy(
+        t: ThermodynamicTemperature,
+        h: AvailableEnergy,
+        p: Pressure,
+    ) -> Result<AirState, AirError> {
+        let (t, h, p) = (
+            t.get::<kelvin>(),
+            h.get::<joule_per_kilogram>(),
+            p.get::<pascal>(),
+        );
+        check_dry_bulb("T", t)?;
+        check_pressure(p)?;
+        let h_dry = h_of(t, 0.0, p);
+        let h_sat = ws_of(t, p).map_or(f64::INFINITY, |ws| h_of(t, ws, p));
+        if !(h.is_finite() && h >= h_dry && h <= h_sat + SLACK * h_sat.abs()) {
+            return Err(AirError::EnthalpyOutOfRange {
+                name: "h",
+                value_j_per_kg: h,
+                min: h_dry,
+                max: h_sat,
+            });
+        }
+        let w = if h == h_dry {
+            0.0
+        } else {
+            w_for_enthalpy(t, p, h, 0.0)?
+        };
+        AirState::new_checked(t, w, p, "h")
+    }
+
+    /// State with enthalpy h (J/kg dry air) and humidity ratio w: solves for the dry-bulb.
+    ///
+    /// Used by processes (heating by a duty, mixing). Errors when the dry-bulb
+    /// would fall outside -40..350 degC or the air would be supersaturated.
+    pub fn from_enthalpy_and_w(
+        h: AvailableEnergy,
+        w_kg_per_kg_da: f64,
+        p: Pressure,
+    ) -> Result<AirState, AirError> {
+        let (h, w, p) = (
+            h.get::<joule_per_kilogram>(),
+            w_kg_per_kg_da,
+            p.get::<pascal>(),
+        );
+        check_pressure(p)?;
+        if !(w.is_finite() && w >= 0.0) {
+            return Err(AirError::HumidityRatioNegative {
+                name: "w",
+                value: w,
+            });
+        }
+        let (lo, hi) = (h_of(T_MIN_K, w, p), h_of(T_MAX_K, w, p));
+        if !(h.is_finite() && h >= lo * (1.0 + SLACK.copysign(-lo)) && h <= hi) {
+            return Err(AirError::ProcessOutOfRange {
+                what: format!(
+                    "the enthalpy {:.3} kJ/kg dry air gives a dry-bulb outside -40 to 350 degC (w = {w:.6} kg/kg)",
+                    h / 1e3
+                ),
+            });
+        }
+        let t = brent(|t| h_of(t, w, p) - h, T_MIN_K, T_MAX_K, T_TOL).map_err(|e| {
+            AirError::NotConverged {
+                what: "dry-bulb from enthalpy",
+                reason: e,
+            }
+        })?;
+        AirState::new_checked(t, w, p, "w")
+    }
+
+    /// Dry-bulb temperature.
+    pub fn temperature(&self) -> ThermodynamicTemperature {
+        ThermodynamicTemperature::new::<kelvin>(self.t_k)
+    }
+
+    /// Total pressure.
+    pub fn pressure(&self) -> Pressure {
+        Pressure::new::<pascal>(self.p_pa)
+    }
+
+    /// Humidity ratio, kg water / kg dry air.
+    pub fn humidity_ratio(&self) -> f64 {
+        self.w
+    }
+
+    /// Dry-bulb in kelvin (plain f64, for hot loops).
+    pub fn t_kelvin(&self) -> f64 {
+        self.t_k
+    }
+
+    /// Total pressure in pascal (plain f64, for hot loops).
+    pub fn p_pascal(&self) -> f64 {
+        self.p_pa
+    }
+
+    /// Partial pressure of water vapour.
+    pub fn vapour_pressure(&self) -> Pressure {
+        Pressure::new::<pascal>(pv_of(self.w, self.p_pa))
+    }
+
+    /// Relative humidity, fraction 0..1: `pv / (f p_ws)` (over ice below 0 degC).
+    pub fn relative_humidity(&self) -> f64 {
+        pv_of(self.w, self.p_pa) / sat::saturated_vapour_pressure(self.t_k, self.p_pa)
+    }
+
+    /// Saturation humidity ratio at the dry-bulb and pressure, kg/kg dry air;
+    /// `None` when the dry-bulb is at or above the boiling point at p.
+    pub fn saturation_humidity_ratio(&self) -> Option<f64> {
+        ws_of(self.t_k, self.p_pa)
+    }
+
+    /// Degree of saturation `w / w_s` (ASHRAE); `None` above the boiling point.
+    pub fn degree_of_saturation(&self) -> Option<f64> {
+        self.saturation_humidity_ratio().map(|ws| self.w / ws)
+    }
+
+    /// Enthalpy per kg dry air (reference: dry air and liquid water at 0 degC).
+    pub fn enthalpy(&self) -> AvailableEnergy {
+        AvailableEnergy::new::<joule_per_kilogram>(h_of(self.t_k, self.w, self.p_pa))
+    }
+
+    /// Humid volume, m^3 per kg dry air (ideal gas plus water-vapour second virial).
+    pub fn humid_volume(&self) -> SpecificVolume {
+        SpecificVolume::new::<cubic_meter_per_kilogram>(self.humid_volume_m3_per_kg_da())
+    }
+
+    pub(crate) fn humid_volume_m3_per_kg_da(&self) -> f64 {
+        let x_w = self.w / (EPSILON + self.w);
+        let z = 1.0 + thermo::mixture_compressibility_excess(self.t_k, self.p_pa, x_w);
+        thermo::R_DRY_AIR * self.t_k * (1.0 + self.w / EPSILON) / self.p_pa * z
+    }
+
+    /// Density of the humid air, kg moist air per m^3: `(1 + w) / v`.
+    pub fn density(&self) -> MassDensity {
+        MassDensity::new::<kilogram_per_cubic_meter>(
+            (1.0 + self.w) / self.humid_volume_m3_per_kg_da(),
+        )
+    }
+
+    /// Humid heat `(dh/dT)` at constant w and p, J/(kg dry air K): the heat needed to
+    /// warm the air carrying 1 kg of dry air by 1 K (about `c_pa + w c_pv`,
+    /// including the real-gas terms of the enthalpy).
+    pub fn humid_heat(&self) -> SpecificHeatCapacity {
+        SpecificHeatCapacity::new::<joule_per_kilogram_kelvin>(self.humid_heat_j_per_kg_da_k())
+    }
+
+    pub(crate) fn humid_heat_j_per_kg_da_k(&self) -> f64 {
+        let dt = 1e-3;
+        (h_of(self.t_k + dt, self.w, self.p_pa) - h_of(self.t_k - dt, self.w, self.p_pa))
+            / (2.0 * dt)
+    }
+
+    /// Dew point (frost point below 0 degC): where saturated air has this vapour pressure.
+    ///
+    /// Errors for bone-dry air or a dew point below -100 degC.
+    pub fn dew_point(&self) -> Result<ThermodynamicTemperature, AirError> {
+        self.dew_point_k()
+            .map(ThermodynamicTemperature::new::<kelvin>)
+    }
+
+    pub(crate) fn dew_point_k(&self) -> Result<f64, AirError> {
+        let pv = pv_of(self.w, self.p_pa);
+        let p = self.p_pa;
+        if self.w <= 0.0 || sat::saturated_vapour_pressure(T_MIN_SATURATION, p) > pv {
+            return Err(AirError::NoDewPoint { w: self.w });
+        }
+        let ln_pv = pv.ln();
+        let residual = |t: f64| sat::saturated_vapour_pressure(t, p).ln() - ln_pv;
+        let hi = self.t_k.max(T_ZERO_C + 1.0);
+        brent(residual, T_MIN_SATURATION, hi, T_TOL).map_err(|e| AirError::NotConverged {
+            what: "dew point",
+            reason: e,
+        })
+    }
+
+    /// Thermodynamic wet-bulb temperature (adiabatic saturation), also above the
+    /// boiling point at p, where it stays below the boiling point.
+    ///
+    /// The wet-bulb is over liquid water when a solution at or above 0 degC
+    /// exists, else over ice.
+    pub fn wet_bulb(&self) -> Result<ThermodynamicTemperature, AirError> {
+        self.wet_bulb_k()
+            .map(ThermodynamicTemperature::new::<kelvin>)
+    }
+
+    pub(crate) fn wet_bulb_k(&self) -> Result<f64, AirError> {
+        let (t, w, p) = (self.t_k, self.w, self.p_pa);
+        let h1 = h_of(t, w, p);
+        let residual = |ts: f64, hc: f64| match ws_of(ts, p) {
+            Some(ws) => h_of(ts, ws, p) - h1 - (ws - w) * hc,
+            None => f64::INFINITY,
+        };
+        let hi = self.wet_bulb_upper_k()?;
+        let lo = self.dew_point_k().unwrap_or(T_MIN_SATURATION).min(hi);
+        if hi >= T_ZERO_C
+            && (lo >= T_ZERO_C || residual(T_ZERO_C, thermo::liquid_enthalpy(T_ZERO_C)) <= 0.0)
+        {
+            let f = |ts: f64| residual(ts, thermo::liquid_enthalpy(ts));
+            return root_in(f, lo.max(T_ZERO_C), hi, "wet-bulb temperature");
+        }
+        let f = |ts: f64| residual(ts, thermo::ice_enthalpy(ts));
+        root_in(
+            f,
+            lo.min(T_ZERO_C),
+            hi.min(T_ZERO_C),
+            "wet-bulb temperature",
+        )
+    }
+
+    /// Upper end of the wet-bulb bracket: the dry-bulb, or just below the boiling
+    /// point at p when the dry-bulb is above it.
+    fn wet_bulb_upper_k(&self) -> Result<f64, AirError> {
+        if ws_of(self.t_k, self.p_pa).is_some() {
+            return Ok(self.t_k);
+        }
+        let tb = sat::boiling_point(self.p_pa).map_err(|e| AirError::NotConverged {
+            what: "boiling point",
+            reason: e,
+        })?;
+        let mut hi = tb * (1.0 - 1e-9);
+        for _ in 0..40 {
+            if ws_of(hi, self.p_pa).is_some() {
+                return Ok(hi);
+            }
+            hi -= (tb - hi).max(1e-9) * 2.0;
+        }
+        Err(AirError::ProcessOutOfRange {
+            what: "no saturated state below the boiling point".into(),
+        })
+    }
+}

@@ -1,0 +1,237 @@
+//! Enthalpies and specific heats of the components of humid air, in J/kg and
+//! J/(kg K), on the ASHRAE reference state: dry air and liquid water at 0 degC
+//! have zero enthalpy.
+//!
+//! - Dry air: ideal-gas part of Lemmon, Jacobsen, Penoncello & Friend (2000),
+//!   "Thermodynamic properties of air and mixtures of nitrogen, argon and oxygen
+//!   from 60 to 2000 K at pressures to 2000 MPa", J. Phys. Chem. Ref. Data 29, 331.
+//! - Water vapour: IAPWS-IF97 region 2, ideal-gas part plus the five residual
+//!   terms linear in pressure (the second-virial level), evaluated at the vapour
+//!   partial pressure (water-water interactions; cross terms with air neglected).
+//! - Air-air and air-water second virial coefficients: Hyland & Wexler (1983),
+//!   "Formulations for the thermodynamic properties of dry air from 173.15 K to
+//!   473.15 K, and of saturated moist air from 173.15 K to 372.15 K, at pressures
+//!   to 5 MPa", ASHRAE Trans. 89(2A), 520-535 (coefficients from memory, checked
+//!   against CoolProp's humid-air volume and enthalpy in tests/air_coolprop.rs).
+//! - Liquid water and ice: ASHRAE Handbook - Fundamentals (2017) ch. 1 eqs. 35-36.
+
+/// Molar mass of dry air, kg/mol (ASHRAE Fundamentals 2017 ch. 1).
+pub const M_DRY_AIR: f64 = 0.028_966;
+/// Molar mass of water, kg/mol (ASHRAE Fundamentals 2017 ch. 1).
+pub const M_WATER: f64 = 0.018_015_268;
+/// Ratio of molar masses water / dry air (0.621945).
+pub const EPSILON: f64 = M_WATER / M_DRY_AIR;
+/// Molar gas constant, J/(mol K) (CODATA 2018, exact).
+pub const R_MOLAR: f64 = 8.314_462_618;
+/// Specific gas constant of dry air, J/(kg K).
+pub const R_DRY_AIR: f64 = R_MOLAR / M_DRY_AIR;
+/// Specific gas constant of water in IAPWS-IF97, J/(kg K).
+pub const R_WATER_IF97: f64 = 461.526;
+/// Enthalpy of liquid water at 0 degC on the IF97 reference (liquid at the triple
+/// point with u = s = 0), J/kg; about cp * (-0.01 K). Subtracted to move IF97
+/// vapour enthalpies to the ASHRAE reference.
+const H_LIQUID_0C_IF97: f64 = -41.6;
+
+/// Standard pressure of the enthalpy reference state, Pa.
+pub const P_REFERENCE: f64 = 101_325.0;
+
+/// A second virial coefficient `B(T)` and `T dB/dT`, both m^3/mol, from
+/// `B = c0 + c1/T + c2/T^2 + c3/T^3 + c4/T^4`.
+fn virial(t: f64, c: &[f64; 5]) -> (f64, f64) {
+    let x = 1.0 / t;
+    let b = c[0] + x * (c[1] + x * (c[2] + x * (c[3] + x * c[4])));
+    let t_db = -x * (c[1] + x * (2.0 * c[2] + x * (3.0 * c[3] + x * 4.0 * c[4])));
+    (b, t_db)
+}
+
+/// Hyland-Wexler (1983) B_aa of dry air.
+const B_AIR_AIR: [f64; 5] = [0.349_568e-4, -0.668_772e-2, -0.210_141e1, 0.924_746e2, 0.0];
+/// Hyland-Wexler (1983) B_aw, air-water cross coefficient.
+const B_AIR_WATER: [f64; 5] = [
+    0.323_660_97e-4,
+    -0.141_138e-1,
+    -0.124_453_5e1,
+    0.0,
+    -0.234_878_9e4,
+];
+
+/// Residual enthalpy per kg dry air of the air-air and air-water interactions at
+/// air partial pressure `pa` and vapour partial pressure `pv`, J/kg dry air
+/// (second-virial level: `H_res = p sum x_i x_j (B_ij - T B_ij')`).
+pub fn air_residual_enthalpy(t: f64, pa: f64, pv: f64) -> f64 {
+    let (baa, t_dbaa) = virial(t, &B_AIR_AIR);
+    let (baw, t_dbaw) = virial(t, &B_AIR_WATER);
+    (pa * (baa - t_dbaa) + 2.0 * pv * (baw - t_dbaw)) / M_DRY_AIR
+}
+
+/// Residual enthalpy of dry air at the reference state (0 degC, 101.325 kPa), J/kg.
+fn air_residual_reference() -> f64 {
+    air_residual_enthalpy(super::saturation::T_ZERO_C, P_REFERENCE, 0.0)
+}
+
+/// Compressibility excess `Z - 1` of humid air at (T, p) with water mole fraction x_w:
+/// `(p / RT)(x_a^2 B_aa + 2 x_a x_w B_aw) + x_w (Z_w(pv) - 1)`.
+pub fn mixture_compressibility_excess(t: f64, p: f64, x_w: f64) -> f64 {
+    let x_a = 1.0 - x_w;
+    let (baa, _) = virial(t, &B_AIR_AIR);
+    let (baw, _) = virial(t, &B_AIR_WATER);
+    p / (R_MOLAR * t) * (x_a * x_a * baa + 2.0 * x_a * x_w * baw)
+        + x_w * vapour_compressibility_excess(t, x_w * p)
+}
+
+/// Enthalpy of the dry air and the air-water interaction per kg dry air, relative
+/// to dry air at 0 degC and 101.325 kPa, J/kg (all of h except `w h_v`).
+pub fn air_part_enthalpy(t: f64, pa: f64, pv: f64) -> f64 {
+    dry_air_enthalpy(t) + air_residual_enthalpy(t, pa, pv) - air_residual_reference()
+}
+
+/// Lemmon et al. (2000) ideal-gas coefficients for air, N1..N13, and reducing temperature.
+const LEMMON_N: [f64; 13] = [
+    0.605_719_400e-7,
+    -0.210_274_769e-4,
+    -0.158_860_716e-3,
+    -13.841_928_076,
+    17.275_266_575,
+    -0.195_363_420e-3,
+    2.490_888_032,
+    0.791_309_509,
+    0.212_236_768,
+    -0.197_938_904,
+    25.363_65,
+    16.907_41,
+    87.312_79,
+];
+const LEMMON_T_RED: f64 = 132.6312;
+const LEMMON_R: f64 = 8.314_51 / 0.028_958_6;
+
+/// tau * d(alpha0)/d(tau) for air, without the constant N5 term (it cancels in differences).
+fn air_tau_alpha_tau(tau: f64) -> f64 {
+    let n = &LEMMON_N;
+    let poly = -3.0 * n[0] * tau.powi(-3) - 2.0 * n[1] * tau.powi(-2) - n[2] / tau;
+    let planck = |a: f64, b: f64| a * b * tau / ((b * tau).exp() - 1.0);
+    let last = n[9] * n[12] * tau / (2.0 / 3.0 * (-n[12] * tau).exp() + 1.0);
+    poly + 1.5 * n[5] * tau.powf(1.5) + n[6] + planck(n[7], n[10]) + planck(n[8], n[11]) + last
+}
+
+/// Ideal-gas enthalpy of dry air from an arbitrary origin, J/kg.
+fn air_ideal_enthalpy(t: f64) -> f64 {
+    LEMMON_R * t * (1.0 + air_tau_alpha_tau(LEMMON_T_RED / t))
+}
+
+/// Enthalpy of dry air at T (K) relative to 0 degC, J/kg (ideal gas).
+pub fn dry_air_enthalpy(t: f64) -> f64 {
+    air_ideal_enthalpy(t) - air_ideal_enthalpy(super::saturation::T_ZERO_C)
+}
+
+/// Ideal-gas specific heat of dry air, J/(kg K), by central difference of the enthalpy.
+pub fn dry_air_cp(t: f64) -> f64 {
+    let dt = 0.01;
+    (air_ideal_enthalpy(t + dt) - air_ideal_enthalpy(t - dt)) / (2.0 * dt)
+}
+
+/// IF97 region 2 ideal-gas coefficients (J, n), R7-97(2012) table 10.
+const IF97_IDEAL: [(i32, f64); 9] = [
+    (0, -0.969_276_865_002_17e1),
+    (1, 0.100_866_559_680_18e2),
+    (-5, -0.560_879_112_830_20e-2),
+    (-4, 0.714_527_380_814_55e-1),
+    (-3, -0.407_104_982_239_28),
+    (-2, 0.142_408_191_714_44e1),
+    (-1, -0.438_395_113_194_50e1),
+    (2, -0.284_086_324_607_72),
+    (3, 0.212_684_637_533_07e-1),
+];
+/// IF97 region 2 residual terms with I = 1 (J, n), R7-97(2012) table 11.
+const IF97_VIRIAL: [(i32, f64); 5] = [
+    (0, -0.177_317_424_732_13e-2),
+    (1, -0.178_348_622_923_58e-1),
+    (2, -0.459_960_136_963_65e-1),
+    (3, -0.575_812_590_834_32e-1),
+    (6, -0.503_252_787_279_30e-1),
+];
+
+/// Ideal-gas enthalpy of water vapour on the IF97 reference, J/kg.
+fn vapour_ideal_enthalpy_if97(t: f64) -> f64 {
+    let tau = 540.0 / t;
+    let g_tau: f64 = IF97_IDEAL
+        .iter()
+        .map(|&(j, n)| n * j as f64 * tau.powi(j - 1))
+        .sum();
+    R_WATER_IF97 * t * tau * g_tau
+}
+
+/// Residual (second-virial) enthalpy of water vapour at partial pressure pv (Pa), J/kg.
+fn vapour_residual_enthalpy(t: f64, pv: f64) -> f64 {
+    let tau = 540.0 / t;
+    let x = tau - 0.5;
+    let g_tau: f64 = IF97_VIRIAL
+        .iter()
+        .map(|&(j, n)| n * j as f64 * x.powi(j - 1))
+        .sum();
+    R_WATER_IF97 * t * tau * (pv / 1e6) * g_tau
+}
+
+/// Compressibility excess `Z - 1` of water vapour at partial pressure pv (Pa), second-virial level.
+pub fn vapour_compressibility_excess(t: f64, pv: f64) -> f64 {
+    let x = 540.0 / t - 0.5;
+    let sum: f64 = IF97_VIRIAL.iter().map(|&(j, n)| n * x.powi(j)).sum();
+    (pv / 1e6) * sum
+}
+
+/// Enthalpy of water vapour at T (K) and partial pressure pv (Pa), relative to
+/// liquid water at 0 degC, J/kg.
+pub fn vapour_enthalpy(t: f64, pv: f64) -> f64 {
+    vapour_ideal_enthalpy_if97(t) + vapour_residual_enthalpy(t, pv) - H_LIQUID_0C_IF97
+}
+
+/// Ideal-gas specific heat of water vapour, J/(kg K).
+pub fn vapour_cp(t: f64) -> f64 {
+    let dt = 0.01;
+    (vapour_ideal_enthalpy_if97(t + dt) - vapour_ideal_enthalpy_if97(t - dt)) / (2.0 * dt)
+}
+
+/// Enthalpy of liquid water at T (K) relative to 0 degC, J/kg: `4186 t` (ASHRAE eq. 35).
+pub fn liquid_enthalpy(t: f64) -> f64 {
+    4186.0 * (t - super::saturation::T_ZERO_C)
+}
+
+/// Enthalpy of ice at T (K) relative to liquid water at 0 degC, J/kg:
+/// `-333.4e3 + 2100 t` (ASHRAE eq. 36).
+pub fn ice_enthalpy(t: f64) -> f64 {
+    -333.4e3 + 2100.0 * (t - super::saturation::T_ZERO_C)
+}
+
+/// Enthalpy of the condensed phase in equilibrium at T: ice below 0 degC, else liquid.
+pub fn condensed_enthalpy(t: f64) -> f64 {
+    if t < super::saturation::T_ZERO_C {
+        ice_enthalpy(t)
+    } else {
+        liquid_enthalpy(t)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// IF97 region 2 verification (R7-97(2012) table 15): h at p = 0.0035 MPa.
+    /// At 700 K the terms beyond the second virial are 0.001 kJ/kg; at 300 K (next to
+    /// saturation) they are 0.15 kJ/kg, the truncation error of this model.
+    #[test]
+    fn vapour_enthalpy_matches_if97_verification() {
+        for (t, h_kj, tol) in [
+            (300.0, 0.254_991_145e4, 0.2),
+            (700.0, 0.333_568_375e4, 0.005),
+        ] {
+            let h = (vapour_ideal_enthalpy_if97(t) + vapour_residual_enthalpy(t, 3500.0)) / 1e3;
+            assert!((h - h_kj).abs() < tol, "T={t}: {h} vs {h_kj}");
+        }
+    }
+
+    /// Dry-air cp near 1.006 kJ/(kg K) at 0-25 degC (ASHRAE Fundamentals, from memory).
+    #[test]
+    fn dry_air_cp_is_plausible() {
+        let cp = dry_air_cp(293.15);
+        assert!((cp - 1005.0).abs() < 5.0, "{cp}");
+    }
+}

@@ -1,0 +1,255 @@
+//! Transport properties of humid air as functions of dry-bulb, humidity ratio
+//! and total pressure: viscosity, thermal conductivity, specific heat, density,
+//! diffusivity of water vapour in air, and the Prandtl, Schmidt and Lewis numbers.
+//!
+//! Methods (dilute-gas limits; the density corrections are below 0.5 % at
+//! 50-200 kPa):
+//! - Dry-air viscosity and conductivity: Lemmon & Jacobsen (2004), "Viscosity and
+//!   thermal conductivity equations for nitrogen, oxygen, argon, and air",
+//!   Int. J. Thermophys. 25, 21 (dilute-gas terms).
+//! - Water-vapour viscosity: IAPWS R12-08 (2008) eq. 11 (dilute gas).
+//! - Water-vapour conductivity: IAPWS R15-11 (2011) eq. 16 (dilute gas).
+//! - Mixture viscosity: Wilke (1950), J. Chem. Phys. 18, 517.
+//! - Mixture conductivity: Wassiljewa equation with the Mason & Saxena (1958)
+//!   interaction factors (equal to Wilke's), as in Poling, Prausnitz & O'Connell,
+//!   "The Properties of Gases and Liquids", 5th ed. (2001), eq. 10-6.1.
+//! - Diffusivity of water vapour in air: Fuller, Schettler & Giddings (1966) with
+//!   the diffusion volumes of Fuller et al. (1969) (air 19.7, H2O 13.1), as in
+//!   Poling et al. (2001) eq. 11-4.4.
+//!
+//! Validity: -40..350 degC, 50..200 kPa, any humidity ratio up to saturation.
+
+use uom::si::diffusion_coefficient::square_meter_per_second;
+use uom::si::dynamic_viscosity::pascal_second;
+use uom::si::f64::{
+    DiffusionCoefficient, DynamicViscosity, MassDensity, Pressure, SpecificHeatCapacity,
+    ThermalConductivity, ThermodynamicTemperature,
+};
+use uom::si::specific_heat_capacity::joule_per_kilogram_kelvin;
+use uom::si::thermal_conductivity::watt_per_meter_kelvin;
+
+use crate::engine::air::thermo::{EPSILON, M_DRY_AIR, M_WATER};
+use crate::engine::air::{AirError, AirState};
+
+/// Dilute-gas viscosity of dry air, Pa s (Lemmon & Jacobsen 2004 eqs. 2-4).
+pub fn dry_air_viscosity_pa_s(t: f64) -> f64 {
+    const B: [f64; 5] = [0.431, -0.4623, 0.08406, 0.005341, -0.00331];
+    const SIGMA_NM: f64 = 0.360;
+    const EPS_K: f64 = 103.3;
+    const M_G_PER_MOL: f64 = 28.9586;
+    let ln_ts = (t / EPS_K).ln();
+    let ln_omega = B[0] + ln_ts * (B[1] + ln_ts * (B[2] + ln_ts * (B[3] + ln_ts * B[4])));
+    1e-6 * 0.026_695_8 * (M_G_PER_MOL * t).sqrt() / (SIGMA_NM * SIGMA_NM * ln_omega.exp())
+}
+
+/// Dilute-gas thermal conductivity of dry air, W/(m K) (Lemmon & Jacobsen 2004 eq. 5).
+pub fn dry_air_conductivity_w_per_m_k(t: f64) -> f64 {
+    let tau = 132.6312 / t;
+    let eta_upa_s = dry_air_viscosity_pa_s(t) * 1e6;
+    1e-3 * (1.308 * eta_upa_s + 1.405 * tau.powf(-1.1) - 1.036 * tau.powf(-0.3))
+}
+
+/// Dilute-gas viscosity of water vapour, Pa s (IAPWS R12-08 eq. 11).
+pub fn vapour_viscosity_pa_s(t: f64) -> f64 {
+    const H: [f64; 4] = [1.67752, 2.20462, 0.636_656_4, -0.241_605];
+    let tr = t / 647.096;
+    let sum = H[0] + (H[1] + (H[2] + H[3] / tr) / tr) / tr;
+    1e-6 * 100.0 * tr.sqrt() / sum
+}
+
+/// Dilute-gas thermal conductivity of water vapour, W/(m K) (IAPWS R15-11 eq. 16).
+pub fn vapour_conductivity_w_per_m_k(t: f64) -> f64 {
+    const L: [f64; 5] = [
+        2.443_221e-3,
+        1.323_095e-2,
+        6.770_357e-3,
+        -3.454_586e-3,
+        4.096_266e-4,
+    ];
+    let tr = t / 647.096;
+    let sum = L[0] + (L[1] + (L[2] + (L[3] + L[4] / tr) / tr) / tr) / tr;
+    1e-3 * tr.sqrt() / sum
+}
+
+/// Wilke's interaction factor phi_ij for component viscosities and molar masses.
+fn wilke_phi(mu_i: f64, mu_j: f64, m_i: f64, m_j: f64) -> f64 {
+    let num = 1.0 + (mu_i / mu_j).sqrt() * (m_j / m_i).powf(0.25);
+    num * num / (8.0 * (1.0 + m_i / m_j)).sqrt()
+}
+
+/// Mole-fraction mixing of a property of air (a) and water vapour (w) with Wilke's factors.
+fn wilke_mix(x_w: f64, prop_a: f64, prop_w: f64, mu_a: f64, mu_w: f64) -> f64 {
+    let x_a = 1.0 - x_w;
+    let phi_aw = wilke_phi(mu_a, mu_w, M_DRY_AIR, M_WATER);
+    let phi_wa = wilke_phi(mu_w, mu_a, M_WATER, M_DRY_AIR);
+    let air = if x_a > 0.0 {
+        x_a * prop_a / (x_a + x_w * phi_aw)
+    } else {
+        0.0
+    };
+    let water = if x_w > 0.0 {
+        x_w * prop_w / (x_w + x_a * phi_wa)
+    } else {
+        0.0
+    };
+    air + water
+}
+
+/// Mole fraction of water vapour from the humidity ratio.
+pub fn water_mole_fraction(w_kg_per_kg_da: f64) -> f64 {
+    w_kg_per_kg_da / (EPSILON + w_kg_per_kg_da)
+}
+
+/// Transport and thermal properties of one humid-air state, SI magnitudes.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Transport {
+    /// Dynamic viscosity, Pa s.
+    pub viscosity_pa_s: f64,
+    /// Thermal conductivity, W/(m K).
+    pub conductivity_w_per_m_k: f64,
+    /// Isobaric specific heat per kg of humid air, J/(kg K).
+    pub cp_j_per_kg_k: f64,
+    /// Density of humid air, kg/m^3.
+    pub density_kg_per_m3: f64,
+    /// Diffusivity of water vapour in air, m^2/s.
+    pub diffusivity_m2_per_s: f64,
+}
+
+impl Transport {
+    /// All transport properties of `air`.
+    pub fn of(air: &AirState) -> Transport {
+        let (t, w, p) = (air.t_kelvin(), air.humidity_ratio(), air.p_pascal());
+        let x_w = water_mole_fraction(w);
+        let (mu_a, mu_w) = (dry_air_viscosity_pa_s(t), vapour_viscosity_pa_s(t));
+        let (k_a, k_w) = (
+            dry_air_conductivity_w_per_m_k(t),
+            vapour_conductivity_w_per_m_k(t),
+        );
+        Transport {
+            viscosity_pa_s: wilke_mix(x_w, mu_a, mu_w, mu_a, mu_w),
+            conductivity_w_per_m_k: wilke_mix(x_w, k_a, k_w, mu_a, mu_w),
+            cp_j_per_kg_k: air.humid_heat_j_per_kg_da_k() / (1.0 + w),
+            density_kg_per_m3: (1.0 + w) / air.humid_volume_m3_per_kg_da(),
+            diffusivity_m2_per_s: fuller_diffusivity_m2_per_s(t, p),
+        }
+    }
+
+    /// Prandtl number `cp mu / k`.
+    pub fn prandtl(&self) -> f64 {
+        self.cp_j_per_kg_k * self.viscosity_pa_s / self.conductivity_w_per_m_k
+    }
+
+    /// Schmidt number `mu / (rho D)` for water vapour in humid air.
+    pub fn schmidt(&self) -> f64 {
+        self.viscosity_pa_s / (self.density_kg_per_m3 * self.diffusivity_m2_per_s)
+    }
+
+    /// Lewis number `k / (rho cp D)` = Sc / Pr.
+    pub fn lewis(&self) -> f64 {
+        self.conductivity_w_per_m_k
+            / (self.density_kg_per_m3 * self.cp_j_per_kg_k * self.diffusivity_m2_per_s)
+    }
+}
+
+/// Fuller-Schettler-Giddings diffusivity of water vapour in air, m^2/s, T in K, p in Pa.
+///
+/// `D = 0.00143 T^1.75 / (p_bar M_AB^0.5 (V_a^1/3 + V_w^1/3)^2)` cm^2/s with
+/// `M_AB = 2 / (1/M_a + 1/M_w)` (g/mol) and diffusion volumes 19.7 (air), 13.1 (H2O).
+pub fn fuller_diffusivity_m2_per_s(t: f64, p: f64) -> f64 {
+    const V_AIR: f64 = 19.7;
+    const V_WATER: f64 = 13.1;
+    let m_ab = 2.0 / (1.0 / (M_DRY_AIR * 1e3) + 1.0 / (M_WATER * 1e3));
+    let volumes = V_AIR.cbrt() + V_WATER.cbrt();
+    let d_cm2_s = 0.00143 * t.powf(1.75) / ((p / 1e5) * m_ab.sqrt() * volumes * volumes);
+    d_cm2_s * 1e-4
+}
+
+fn state(t: ThermodynamicTemperature, w: f64, p: Pressure) -> Result<Transport, AirError> {
+    Ok(Transport::of(&AirState::from_w(t, w, p)?))
+}
+
+/// Dynamic viscosity of humid air (Wilke mixing of Lemmon-Jacobsen air and IAPWS 2008 vapour).
+/// Validity -40..350 degC, 50..200 kPa. Errors as [`AirState::from_w`].
+pub fn viscosity(
+    t: ThermodynamicTemperature,
+    w_kg_per_kg_da: f64,
+    p: Pressure,
+) -> Result<DynamicViscosity, AirError> {
+    Ok(DynamicViscosity::new::<pascal_second>(
+        state(t, w_kg_per_kg_da, p)?.viscosity_pa_s,
+    ))
+}
+
+/// Thermal conductivity of humid air (Wassiljewa / Mason-Saxena mixing of
+/// Lemmon-Jacobsen air and IAPWS 2011 vapour). Validity -40..350 degC, 50..200 kPa.
+pub fn thermal_conductivity(
+    t: ThermodynamicTemperature,
+    w_kg_per_kg_da: f64,
+    p: Pressure,
+) -> Result<ThermalConductivity, AirError> {
+    Ok(ThermalConductivity::new::<watt_per_meter_kelvin>(
+        state(t, w_kg_per_kg_da, p)?.conductivity_w_per_m_k,
+    ))
+}
+
+/// Isobaric specific heat per kg of humid air, `(dh/dT)_(w,p) / (1 + w)` from the
+/// enthalpy of [`AirState::enthalpy`] (Lemmon et al. 2000 ideal-gas air, IAPWS-IF97
+/// vapour, second-virial real-gas terms). For the humid heat per kg of dry air use
+/// [`AirState::humid_heat`].
+pub fn specific_heat(
+    t: ThermodynamicTemperature,
+    w_kg_per_kg_da: f64,
+    p: Pressure,
+) -> Result<SpecificHeatCapacity, AirError> {
+    Ok(SpecificHeatCapacity::new::<joule_per_kilogram_kelvin>(
+        state(t, w_kg_per_kg_da, p)?.cp_j_per_kg_k,
+    ))
+}
+
+/// Density of humid air, kg of moist air per m^3: `(1 + w) / v`.
+pub fn density(
+    t: ThermodynamicTemperature,
+    w_kg_per_kg_da: f64,
+    p: Pressure,
+) -> Result<MassDensity, AirError> {
+    Ok(AirState::from_w(t, w_kg_per_kg_da, p)?.density())
+}
+
+/// Diffusivity of water vapour in air by Fuller-Schettler-Giddings (see module docs).
+/// Independent of w at this level. About 2.5e-5 m^2/s at 25 degC and 101.325 kPa.
+pub fn diffusivity_water_air(
+    t: ThermodynamicTemperature,
+    w_kg_per_kg_da: f64,
+    p: Pressure,
+) -> Result<DiffusionCoefficient, AirError> {
+    Ok(DiffusionCoefficient::new::<square_meter_per_second>(
+        state(t, w_kg_per_kg_da, p)?.diffusivity_m2_per_s,
+    ))
+}
+
+/// Prandtl number of humid air, `cp mu / k`.
+pub fn prandtl(
+    t: ThermodynamicTemperature,
+    w_kg_per_kg_da: f64,
+    p: Pressure,
+) -> Result<f64, AirError> {
+    Ok(state(t, w_kg_per_kg_da, p)?.prandtl())
+}
+
+/// Schmidt number of water vapour in humid air, `mu / (rho D)`.
+pub fn schmidt(
+    t: ThermodynamicTemperature,
+    w_kg_per_kg_da: f64,
+    p: Pressure,
+) -> Result<f64, AirError> {
+    Ok(state(t, w_kg_per_kg_da, p)?.schmidt())
+}
+
+/// Lewis number of water vapour in humid air, `k / (rho cp D)`.
+pub fn lewis(
+    t: ThermodynamicTemperature,
+    w_kg_per_kg_da: f64,
+    p: Pressure,
+) -> Result<f64, AirError> {
+    Ok(state(t, w_kg_per_kg_da, p)?.lewis())
+}
