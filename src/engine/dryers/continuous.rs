@@ -17,7 +17,7 @@ use uom::si::thermodynamic_temperature::kelvin;
 use super::balance::{Closure, EnergyFlows, Ledger};
 use super::batch::{latent_minimum, Fan};
 use super::product::{exchange, Exchange, Product, Surface};
-use super::{non_negative, positive, settle_recirculation, DryerError};
+use super::{check_drying_air, non_negative, positive, settle_recirculation, DryerError};
 use crate::engine::air::AirState;
 use crate::engine::solve::{brent, Tolerance};
 
@@ -163,6 +163,16 @@ impl Belt {
             }
             positive("heat transfer coefficient", z.surface.h_w_per_m2_k)?;
             non_negative("wall loss", z.loss_w_per_m_k)?;
+            non_negative("fan pressure rise", z.fan.pressure_rise_pa)?;
+            if !(z.fan.efficiency > 0.0 && z.fan.efficiency <= 1.0) {
+                return Err(DryerError::Invalid {
+                    name: "fan efficiency",
+                    value: z.fan.efficiency,
+                    expected: "a fraction in (0, 1]",
+                });
+            }
+            positive("Lewis number", z.surface.lewis)?;
+            check_drying_air(&heated(z, z.fresh_air.humidity_ratio())?, z.surface.lewis)?;
             if z.supply_t_k < z.fresh_air.t_kelvin() {
                 return Err(DryerError::Invalid {
                     name: "supply temperature",
