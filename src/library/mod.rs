@@ -5,6 +5,7 @@
 //! boundary, converts them to uom quantities and calls typed engine code.
 
 pub mod air;
+pub mod dryers;
 pub mod math;
 
 use crate::diag::{Diagnostic, Span};
@@ -237,6 +238,7 @@ pub fn registry() -> &'static [&'static Builtin] {
         const FAMILIES: &[&[Builtin]] = &[
             // one line per family, e.g. air::BUILTINS,
             air::BUILTINS,
+            dryers::BUILTINS,
             math::BUILTINS,
             transfer::BUILTINS,
         ];
