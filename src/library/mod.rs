@@ -11,6 +11,7 @@ pub mod kinetics;
 pub mod sorption;
 pub mod air;
 pub mod chart;
+pub mod dryers;
 pub mod math;
 pub mod plot;
 
@@ -252,6 +253,7 @@ pub fn registry() -> &'static [&'static Builtin] {
             sorption::BUILTINS,
             air::BUILTINS,
             chart::BUILTINS,
+            dryers::BUILTINS,
             math::BUILTINS,
             transfer::BUILTINS,
             plot::BUILTINS,
