@@ -1,19 +1,16 @@
 //! The physics, typed with uom. Engine code never sees syntax, strings or
 //! dynamic units: it takes and returns uom quantities and plain structs.
-pub mod fit;
-pub mod sorption;
-
-pub mod air;
-pub mod dryers;
-pub mod psychrometric_chart;
 
 pub mod air;
 pub mod diffusion;
+pub mod dryers;
 pub mod fit;
 pub mod integrate;
 pub mod kinetics;
+pub mod psychrometric_chart;
 pub mod solve;
 pub mod sorption;
 pub mod thin_layer;
 pub mod transfer;
 pub mod transport;
+

@@ -5,21 +5,20 @@
 //! boundary, converts them to uom quantities and calls typed engine code.
 
 pub mod air;
+pub mod chart;
 pub mod data;
+pub mod dryers;
 pub mod fit;
 pub mod kinetics;
-pub mod sorption;
-pub mod air;
-pub mod chart;
-pub mod dryers;
 pub mod math;
 pub mod plot;
+pub mod sorption;
+pub mod transfer;
 
 use crate::diag::{Diagnostic, Span};
 use crate::units::{describe_dim, Dim, Quantity};
 use crate::value::{Record, Value};
 
-pub mod transfer;
 
 /// What a parameter accepts, for docs, completion and checking.
 #[derive(Clone, Copy, Debug)]
@@ -247,16 +246,15 @@ pub fn registry() -> &'static [&'static Builtin] {
         const FAMILIES: &[&[Builtin]] = &[
             // one line per family, e.g. air::BUILTINS,
             air::BUILTINS,
+            chart::BUILTINS,
             data::BUILTINS,
+            dryers::BUILTINS,
             fit::BUILTINS,
             kinetics::BUILTINS,
-            sorption::BUILTINS,
-            air::BUILTINS,
-            chart::BUILTINS,
-            dryers::BUILTINS,
             math::BUILTINS,
-            transfer::BUILTINS,
             plot::BUILTINS,
+            sorption::BUILTINS,
+            transfer::BUILTINS,
         ];
         let mut all: Vec<&'static Builtin> = FAMILIES.iter().flat_map(|f| f.iter()).collect();
         all.sort_by_key(|b| b.name);
