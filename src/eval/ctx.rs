@@ -225,7 +225,27 @@ impl<'a> Ctx<'a> {
         self.nesting += 1;
         let result = self.expr_kind(e);
         self.nesting -= 1;
+        if let Ok(list @ Value::List(_)) = &result {
+            self.charge_list(list, e.span)?;
+        }
         result
+    }
+
+    /// Count a list's items against the step budget and refuse a list larger
+    /// than the limit, so that a worksheet cannot exhaust memory.
+    fn charge_list(&mut self, list: &Value, span: Span) -> Flow<()> {
+        let items = list_items(list);
+        if items > self.limits.max_list_items {
+            let msg = format!(
+                "a list of {items} items is larger than the limit of {}",
+                self.limits.max_list_items
+            );
+            return Err(Diagnostic::error(span, msg)
+                .with_hint("sweep fewer points, or split the work into smaller lists")
+                .into());
+        }
+        self.ops += items as u64;
+        self.tick(span)
     }
 
     fn expr_kind(&mut self, e: &Expr) -> Flow<Value> {
@@ -280,7 +300,12 @@ impl<'a> Ctx<'a> {
             None => Ok(Value::Quantity(Quantity::number(value), None)),
             Some(u) => {
                 let unit = self.unit(u)?;
-                let q = unit.to_si(value);
+                // A wet basis of 1 or more has no dry-basis value: an error,
+                // never an `invalid` number shown as a result.
+                let q = unit.try_to_si(value).map_err(|e| {
+                    let d = Diagnostic::error(u.span, e.message);
+                    e.hints.into_iter().fold(d, |d, h| d.with_hint(h))
+                })?;
                 Ok(Value::Quantity(q, Some(unit)))
             }
         }
@@ -519,4 +544,18 @@ fn unknown_unit(s: &str, span: Span) -> Diagnostic {
         Some(best) => d.with_hint(format!("did you mean `{best}`?")),
         None => d.with_hint("see `siccant help units` for the units siccant knows"),
     }
+}
+
+/// Items in a list, counting the items of nested lists (without recursion,
+/// so that a deeply nested list cannot overflow the stack).
+fn list_items(value: &Value) -> usize {
+    let mut count = 0usize;
+    let mut stack = vec![value];
+    while let Some(v) = stack.pop() {
+        if let Value::List(items) = v {
+            count = count.saturating_add(items.len());
+            stack.extend(items.iter());
+        }
+    }
+    count
 }

@@ -87,6 +87,14 @@ pub fn parse_table(text: &str) -> Result<Table, DataError> {
         .enumerate()
         .map(|(i, h)| parse_header(h, line, i + 1))
         .collect::<Result<_, _>>()?;
+    if let Some(i) = (1..heads.len()).find(|&i| heads[..i].iter().any(|h| h.0 == heads[i].0)) {
+        return Err(DataError::new(format!(
+            "line {line}, column {}: the column `{}` is named twice",
+            i + 1,
+            heads[i].0
+        ))
+        .with_hint("give every column its own name, so that functions can find it"));
+    }
     let mut columns: Vec<Column> = heads
         .iter()
         .map(|(name, unit)| Column {
@@ -609,6 +617,13 @@ mod tests {
             "{text}"
         );
         assert!(parse_table("").is_err());
+    }
+
+    #[test]
+    fn a_column_named_twice_is_an_error() {
+        let e = parse_table("t [h], m [g], t [min]\n0, 1, 2\n").err();
+        let msg = e.map(|e| e.message).unwrap_or_default();
+        assert!(msg.contains("column 3: the column `t` is named twice"), "{msg}");
     }
 
     #[test]

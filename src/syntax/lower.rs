@@ -223,6 +223,15 @@ impl Lower {
                     end: rhs.span.end,
                     ..self.span(&op)
                 };
+                // `-10 degC` is a negative literal (an outdoor temperature),
+                // not the negation of an absolute temperature.
+                if let (UnaryOp::Neg, ExprKind::Quantity { value, unit }) = (kind, &rhs.kind) {
+                    let kind = ExprKind::Quantity {
+                        value: -*value,
+                        unit: unit.clone(),
+                    };
+                    return Ok(Expr { kind, span });
+                }
                 Ok(Expr {
                     kind: ExprKind::Unary(kind, Box::new(rhs)),
                     span,
@@ -659,6 +668,15 @@ mod tests {
             panic!("not a negation")
         };
         assert!(matches!(inner.kind, ExprKind::Binary(BinaryOp::Pow, ..)));
+    }
+
+    #[test]
+    fn minus_before_a_literal_makes_a_negative_literal() {
+        let ExprKind::Quantity { value, unit: Some(_) } = show("-10 degC") else {
+            panic!("not a literal")
+        };
+        assert_eq!(value, -10.0);
+        assert!(matches!(show("-x"), ExprKind::Unary(UnaryOp::Neg, _)));
     }
 
     #[test]
