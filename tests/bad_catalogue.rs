@@ -70,8 +70,13 @@ fn expectations(text: &str) -> Result<Expect, String> {
 /// `L:C fragment` -> (L, C, fragment)
 fn location(spec: &str) -> Result<(usize, usize, String), String> {
     let (place, fragment) = spec.split_once(' ').ok_or(format!("bad spec `{spec}`"))?;
-    let (l, c) = place.split_once(':').ok_or(format!("bad place `{place}`"))?;
-    let parse = |s: &str| s.parse::<usize>().map_err(|_| format!("bad place `{place}`"));
+    let (l, c) = place
+        .split_once(':')
+        .ok_or(format!("bad place `{place}`"))?;
+    let parse = |s: &str| {
+        s.parse::<usize>()
+            .map_err(|_| format!("bad place `{place}`"))
+    };
     Ok((parse(l)?, parse(c)?, fragment.trim().to_string()))
 }
 
@@ -148,7 +153,9 @@ fn check_one(path: &Path) -> Vec<String> {
         }
         let words = non_finite_words(&format!("{stdout}\n{stderr}"));
         if !words.is_empty() {
-            fail(format!("non-finite number shown: {words:?}\n{stdout}{stderr}"));
+            fail(format!(
+                "non-finite number shown: {words:?}\n{stdout}{stderr}"
+            ));
         }
         let diags = diagnostics(&stderr);
         for (line, col, fragment) in &expect.errors {
@@ -159,11 +166,19 @@ fn check_one(path: &Path) -> Vec<String> {
                 fail(format!("want {line}:{col} `{fragment}`, got:\n{stderr}"));
             }
         }
-        for m in expect.messages.iter().filter(|m| !stderr.contains(m.as_str())) {
+        for m in expect
+            .messages
+            .iter()
+            .filter(|m| !stderr.contains(m.as_str()))
+        {
             fail(format!("stderr lacks `{m}`:\n{stderr}"));
         }
         if format == "text" {
-            for o in expect.outputs.iter().filter(|o| !stdout.contains(o.as_str())) {
+            for o in expect
+                .outputs
+                .iter()
+                .filter(|o| !stdout.contains(o.as_str()))
+            {
                 fail(format!("stdout lacks `{o}`:\n{stdout}"));
             }
         }

@@ -623,7 +623,10 @@ mod tests {
     fn a_column_named_twice_is_an_error() {
         let e = parse_table("t [h], m [g], t [min]\n0, 1, 2\n").err();
         let msg = e.map(|e| e.message).unwrap_or_default();
-        assert!(msg.contains("column 3: the column `t` is named twice"), "{msg}");
+        assert!(
+            msg.contains("column 3: the column `t` is named twice"),
+            "{msg}"
+        );
     }
 
     #[test]

@@ -672,7 +672,11 @@ mod tests {
 
     #[test]
     fn minus_before_a_literal_makes_a_negative_literal() {
-        let ExprKind::Quantity { value, unit: Some(_) } = show("-10 degC") else {
+        let ExprKind::Quantity {
+            value,
+            unit: Some(_),
+        } = show("-10 degC")
+        else {
             panic!("not a literal")
         };
         assert_eq!(value, -10.0);
