@@ -57,11 +57,31 @@ enum ColumnUnit {
 
 /// Read a CSV file with `name [unit]` headers into a table.
 pub fn read_table(path: &Path) -> Result<Table, DataError> {
-    let text = std::fs::read_to_string(path)
+    let text = read_text_file(path)
         .map_err(|e| DataError::new(format!("cannot read `{}`: {e}", path.display())))?;
     let mut table = parse_table(&text)?;
     table.title = path.file_name().map(|n| n.to_string_lossy().into_owned());
     Ok(table)
+}
+
+/// Largest text file a worksheet may read (a CSV table or a loaded worksheet).
+pub const MAX_FILE_BYTES: u64 = 64 * 1024 * 1024;
+
+/// Read a text file of at most [`MAX_FILE_BYTES`]. A device (`/dev/zero`),
+/// a directory or a larger file is an error, never a memory exhaustion.
+pub fn read_text_file(path: &Path) -> std::io::Result<String> {
+    use std::io::{Error, ErrorKind, Read};
+    let file = std::fs::File::open(path)?;
+    if !file.metadata()?.is_file() {
+        return Err(Error::new(ErrorKind::InvalidInput, "not a regular file"));
+    }
+    let mut text = String::new();
+    file.take(MAX_FILE_BYTES + 1).read_to_string(&mut text)?;
+    if text.len() as u64 > MAX_FILE_BYTES {
+        let mb = MAX_FILE_BYTES >> 20;
+        return Err(Error::new(ErrorKind::InvalidData, format!("larger than {mb} MB")));
+    }
+    Ok(text)
 }
 
 /// Parse CSV text with `name [unit]` headers into a table.
@@ -617,6 +637,14 @@ mod tests {
             "{text}"
         );
         assert!(parse_table("").is_err());
+    }
+
+    #[test]
+    fn devices_and_directories_are_not_read() {
+        for path in ["/dev/zero", "."] {
+            let e = read_text_file(Path::new(path)).err().map(|e| e.to_string());
+            assert_eq!(e.as_deref(), Some("not a regular file"), "{path}");
+        }
     }
 
     #[test]
