@@ -18,8 +18,8 @@ use crate::engine::diffusion::{
 };
 use crate::engine::fit::least_squares;
 use crate::engine::kinetics::{
-    drying_time as engine_drying_time, stages, BatchRun, ConstantRatePeriod, KineticsError,
-    RateCurve,
+    drying_curve as engine_drying_curve, drying_time as engine_drying_time, stages, BatchRun,
+    ConstantRatePeriod, KineticsError, RateCurve,
 };
 use crate::engine::thin_layer::{fit_thin_layer, ThinLayerFit, ThinLayerModel};
 use crate::library::{type_word, Args, Builtin, Param};
@@ -681,6 +681,80 @@ fn drying_time(args: &mut Args) -> Result<Value, Diagnostic> {
     Ok(hours(t.total_s))
 }
 
+fn drying_curve(args: &mut Args) -> Result<Value, Diagnostic> {
+    let spans = spans_of(args, &["load", "from", "to"]);
+    let (payload, load, from, to) = span_args(args)?;
+    let points = opt_count(args, "points", 41)?;
+    args.finish()?;
+    warn_load(args, &payload, load);
+    let curve = engine_drying_curve(&payload.curve, load, from, to, points)
+        .map_err(|e| blame(&spans, args.call_span, e))?;
+    let columns = vec![
+        column("t", "h", curve.iter().map(|p| hours(p.0)).collect()),
+        column("X", "db", curve.iter().map(|p| moisture(p.1)).collect()),
+        column(
+            "R",
+            "kg/(m^2*h)",
+            curve
+                .iter()
+                .map(|p| rate(payload.curve.rate(p.1)))
+                .collect(),
+        ),
+    ];
+    Ok(Value::Table(Table {
+        title: Some("batch drying curve".into()),
+        columns,
+    }))
+}
+
+fn moisture_ratios(args: &mut Args) -> Result<Value, Diagnostic> {
+    let arg = args.required("test")?;
+    let xe_span = args.span_of("Xe");
+    let xe = required_moisture(args, "Xe")?;
+    args.finish()?;
+    let test = match &arg.value {
+        Value::Record(r) => r.payload::<TestPayload>(),
+        _ => None,
+    }
+    .ok_or_else(|| {
+        Diagnostic::error(
+            arg.span,
+            format!(
+                "`test` must be a drying test, found {}",
+                type_word(&arg.value)
+            ),
+        )
+        .with_hint("make one with drying_test(...)")
+    })?;
+    let x0 = test.run.points[0].moisture;
+    if !(xe >= 0.0 && xe < x0) {
+        return Err(Diagnostic::error(
+            xe_span,
+            format!(
+                "Xe = {} db must lie between 0 and the first moisture {} db",
+                crate::engine::kinetics::show(xe),
+                crate::engine::kinetics::show(x0)
+            ),
+        ));
+    }
+    let points = &test.run.points;
+    let columns = vec![
+        column("t", "h", points.iter().map(|p| hours(p.time_s)).collect()),
+        Column {
+            name: "MR".into(),
+            unit: None,
+            cells: points
+                .iter()
+                .map(|p| number((p.moisture - xe) / (x0 - xe)))
+                .collect(),
+        },
+    ];
+    Ok(Value::Table(Table {
+        title: Some("moisture ratios (X - Xe)/(X0 - Xe)".into()),
+        columns,
+    }))
+}
+
 fn drying_stages(args: &mut Args) -> Result<Value, Diagnostic> {
     let spans = spans_of(args, &["load", "from", "to"]);
     let (payload, load, from, to) = span_args(args)?;
@@ -1159,6 +1233,19 @@ const SPAN_PARAMS: &[Param] = &[
     },
 ];
 
+const CURVE_PARAMS: &[Param] = &[
+    SPAN_PARAMS[0],
+    SPAN_PARAMS[1],
+    SPAN_PARAMS[2],
+    SPAN_PARAMS[3],
+    Param {
+        name: "points",
+        unit: "-",
+        default: Some("41"),
+        doc: "number of moistures on the curve",
+    },
+];
+
 const STAGE_PARAMS: &[Param] = &[
     SPAN_PARAMS[0],
     SPAN_PARAMS[1],
@@ -1417,6 +1504,33 @@ pub const BUILTINS: &[Builtin] = &[
         validity: "equilibrium < to < from, and from within a measured curve's range",
         example: "drying_time(test, load: 18 kg/m^2, from: 1.3 db, to: 0.12 db)",
         func: drying_time,
+    },
+    Builtin {
+        name: "drying_curve",
+        family: "kinetics",
+        params: CURVE_PARAMS,
+        returns: "table: t, X, R",
+        doc: "The batch drying curve X(t) implied by a rate curve and load, at evenly spaced moistures from `from` to `to`, with the rate at each.",
+        method: "drying_time between consecutive moistures",
+        source: CURVE_SOURCE,
+        validity: "as drying_time",
+        example: "drying_curve(test, load: 18 kg/m^2, from: 1.3 db, to: 0.12 db)",
+        func: drying_curve,
+    },
+    Builtin {
+        name: "moisture_ratios",
+        family: "kinetics",
+        params: &[
+            Param { name: "test", unit: "drying_test", default: None, doc: "a processed drying test" },
+            Param { name: "Xe", unit: "db", default: None, doc: "equilibrium moisture with the test air" },
+        ],
+        returns: "table: t, MR",
+        doc: "Moisture ratios MR = (X - Xe)/(X0 - Xe) of a drying test's readings, for thin-layer models and diffusivity fits.",
+        method: "definition of the moisture ratio",
+        source: "Crank (1975) ch. 4; Mujumdar (ed.), Handbook of Industrial Drying, 4th ed., ch. 1",
+        validity: "0 <= Xe < X0",
+        example: "moisture_ratios(test, Xe: 0.06 db)",
+        func: moisture_ratios,
     },
     Builtin {
         name: "drying_stages",

@@ -338,6 +338,36 @@ fn closed_time(rc: f64, xc: f64, xe: f64, n: f64, load: f64, x1: f64, x2: f64) -
     }
 }
 
+/// The batch drying curve: (time s, moisture) at `points` moistures evenly
+/// spaced from `x_start` down to `x_end` (at least 2), time from the start.
+pub fn drying_curve(
+    curve: &RateCurve,
+    load_kg_per_m2: f64,
+    x_start: f64,
+    x_end: f64,
+    points: usize,
+) -> Result<Vec<(f64, f64)>, KineticsError> {
+    check_span(curve, load_kg_per_m2, x_start, x_end)?;
+    if points < 2 {
+        return Err(KineticsError::TooFewPoints {
+            what: "a drying curve",
+            needed: 2,
+            found: points,
+        });
+    }
+    let mut out = vec![(0.0, x_start)];
+    let mut elapsed = 0.0;
+    for k in 1..points {
+        let (from, to) = (
+            out[k - 1].1,
+            x_start + (x_end - x_start) * k as f64 / (points - 1) as f64,
+        );
+        elapsed += drying_time(curve, load_kg_per_m2, from, to)?.total_s;
+        out.push((elapsed, to));
+    }
+    Ok(out)
+}
+
 /// Drying time by adaptive quadrature of `1/R(X)`, for any curve.
 pub fn numerical_time(
     curve: &RateCurve,
@@ -390,6 +420,16 @@ mod tests {
                 assert!((a.constant_s - b.constant_s).abs() <= 1e-8 * a.total_s);
             }
         }
+    }
+
+    #[test]
+    fn drying_curve_ends_at_the_total_time() {
+        let c = RateCurve::constant_linear(1e-3, 0.6, 0.05).unwrap();
+        let points = drying_curve(&c, 18.0, 1.3, 0.12, 25).unwrap();
+        let total = drying_time(&c, 18.0, 1.3, 0.12).unwrap().total_s;
+        assert_eq!(points.len(), 25);
+        assert!((points[24].0 / total - 1.0).abs() < 1e-10 && (points[24].1 - 0.12).abs() < 1e-12);
+        assert!(points.windows(2).all(|w| w[1].0 > w[0].0));
     }
 
     #[test]
