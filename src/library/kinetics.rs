@@ -14,7 +14,8 @@ use super::fit::{comparison_table, fit_record, FitPayload, QuantitySpec};
 use crate::diag::{Diagnostic, Span};
 use crate::engine::diffusion::{
     arrhenius_fit, diffusivity_from_slope, diffusivity_nonlinear, solve_drying, Body, CrankSeries,
-    DiffusionProblem, Diffusivity, ProductTemperature, Shape, SolverSettings, Surface,
+    DiffusionProblem, DiffusionRun, Diffusivity, ProductTemperature, Shape, SolverSettings,
+    Surface,
 };
 use crate::engine::fit::least_squares;
 use crate::engine::kinetics::{
@@ -399,8 +400,12 @@ fn drying_test(args: &mut Args) -> Result<Value, Diagnostic> {
     Ok(Value::Record(test_record(run, period, curve)))
 }
 
-fn test_record(run: BatchRun, period: ConstantRatePeriod, curve: RateCurve) -> Record {
-    let points = Table {
+/// The readings of a test with smoothed moisture and rate.
+fn test_points(run: &BatchRun) -> Table {
+    let each = |f: &dyn Fn(&crate::engine::kinetics::RatePoint) -> Value| {
+        run.points.iter().map(f).collect()
+    };
+    Table {
         title: Some(format!(
             "drying test (Savitzky-Golay window {}, order {})",
             run.window, run.order
@@ -409,28 +414,17 @@ fn test_record(run: BatchRun, period: ConstantRatePeriod, curve: RateCurve) -> R
             column(
                 "t",
                 "min",
-                run.points
-                    .iter()
-                    .map(|p| shown(p.time_s, Dim::TIME, Kind::Plain, "min"))
-                    .collect(),
+                each(&|p| shown(p.time_s, Dim::TIME, Kind::Plain, "min")),
             ),
-            column(
-                "X",
-                "db",
-                run.points.iter().map(|p| moisture(p.moisture)).collect(),
-            ),
-            column(
-                "X smoothed",
-                "db",
-                run.points.iter().map(|p| moisture(p.smoothed)).collect(),
-            ),
-            column(
-                "R",
-                "kg/(m^2*h)",
-                run.points.iter().map(|p| rate(p.rate)).collect(),
-            ),
+            column("X", "db", each(&|p| moisture(p.moisture))),
+            column("X smoothed", "db", each(&|p| moisture(p.smoothed))),
+            column("R", "kg/(m^2*h)", each(&|p| rate(p.rate))),
         ],
-    };
+    }
+}
+
+fn test_record(run: BatchRun, period: ConstantRatePeriod, curve: RateCurve) -> Record {
+    let points = test_points(&run);
     let curve_record = curve_record(
         CurvePayload {
             curve,
@@ -851,7 +845,8 @@ fn crank_time(args: &mut Args) -> Result<Value, Diagnostic> {
     Ok(hours(fo * body.length_m * body.length_m / d))
 }
 
-fn diffusion_drying(args: &mut Args) -> Result<Value, Diagnostic> {
+/// Read the arguments of `diffusion_drying` into a problem and settings.
+fn diffusion_problem(args: &mut Args) -> Result<(DiffusionProblem, SolverSettings), Diagnostic> {
     let ea_span = args.span_of("Ea");
     let body = body_arg(args)?;
     let x0 = required_moisture(args, "X0")?;
@@ -882,33 +877,49 @@ fn diffusion_drying(args: &mut Args) -> Result<Value, Diagnostic> {
         moisture_coefficient: a,
         reference_moisture: xe,
     };
+    let surface = alpha.map_or(Surface::Equilibrium, |alpha_m_per_s| Surface::Film {
+        alpha_m_per_s,
+    });
     let problem = DiffusionProblem {
         body,
         x_initial: x0,
         x_equilibrium: xe,
         diffusivity,
         temperature: ProductTemperature::Constant(t_k),
-        surface: alpha.map_or(Surface::Equilibrium, |alpha_m_per_s| Surface::Film {
-            alpha_m_per_s,
-        }),
+        surface,
         shrinkage,
     };
-    if cells < 20 {
-        args.warn(format!(
-            "{cells} cells is a coarse mesh; use 50 or more for 0.1 % accuracy"
-        ));
-    }
     let settings = SolverSettings {
         cells,
         target_ratio: target,
         ..SolverSettings::default()
     };
+    Ok((problem, settings))
+}
+
+fn diffusion_drying(args: &mut Args) -> Result<Value, Diagnostic> {
+    let (problem, settings) = diffusion_problem(args)?;
+    if settings.cells < 20 {
+        args.warn(format!(
+            "{} cells is a coarse mesh; use 50 or more for 0.1 % accuracy",
+            settings.cells
+        ));
+    }
     let run = solve_drying(&problem, &settings).map_err(|e| kinetics_error(args.call_span, e))?;
+    Ok(Value::Record(diffusion_record(&problem, &settings, &run)))
+}
+
+fn diffusion_record(
+    problem: &DiffusionProblem,
+    settings: &SolverSettings,
+    run: &DiffusionRun,
+) -> Record {
+    let (x0, xe) = (problem.x_initial, problem.x_equilibrium);
     let curve = Table {
         title: Some(format!(
             "diffusion drying, {} ({} cells, {} steps)",
-            body.shape.name(),
-            cells,
+            problem.body.shape.name(),
+            settings.cells,
             run.steps
         )),
         columns: vec![
@@ -928,17 +939,15 @@ fn diffusion_drying(args: &mut Args) -> Result<Value, Diagnostic> {
             ),
         ],
     };
-    Ok(Value::Record(
-        Record::new("diffusion_run")
-            .with("t", hours(run.time_to_target_s))
-            .with("MR", number(target))
-            .with(
-                "L_end",
-                shown(run.final_length_m, Dim::LENGTH, Kind::Plain, "mm"),
-            )
-            .with("steps", number(run.steps as f64))
-            .with("curve", Value::Table(curve)),
-    ))
+    Record::new("diffusion_run")
+        .with("t", hours(run.time_to_target_s))
+        .with("MR", number(settings.target_ratio))
+        .with(
+            "L_end",
+            shown(run.final_length_m, Dim::LENGTH, Kind::Plain, "mm"),
+        )
+        .with("steps", number(run.steps as f64))
+        .with("curve", Value::Table(curve))
 }
 
 fn fit_diffusivity(args: &mut Args) -> Result<Value, Diagnostic> {
