@@ -825,7 +825,7 @@ fn crank_ratio(args: &mut Args) -> Result<Value, Diagnostic> {
         ));
     }
     let fo = body.fourier(d, t);
-    let series = CrankSeries::new(body.shape, biot, fo.clamp(1e-8, 1e-4))
+    let series = CrankSeries::new(body.shape, biot, fo.clamp(1e-7, 1e-4))
         .map_err(|e| kinetics_error(args.call_span, e))?;
     Ok(number(series.moisture_ratio(fo)))
 }
