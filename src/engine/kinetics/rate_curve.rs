@@ -485,3 +485,45 @@ mod tests {
         }
     }
 }
+
+#[cfg(test)]
+mod properties {
+    use super::*;
+    use proptest::prelude::*;
+
+    proptest! {
+        /// Drying times add over consecutive spans, for any constant + power curve.
+        #[test]
+        fn times_add_over_spans(rc in 1e-4f64..1e-2, xe in 0.0f64..0.1, span in 0.1f64..1.0, n in 0.3f64..3.0,
+                                a in 0.0f64..1.0, b in 0.0f64..1.0) {
+            let xc = xe + span;
+            let curve = RateCurve::constant_power(rc, xc, xe, n).unwrap();
+            let x1 = xc + 1.0;
+            let (hi, lo) = (xe + 1e-3 + (x1 - xe - 1e-3) * a.max(b), xe + 1e-3 + (x1 - xe - 1e-3) * a.min(b));
+            prop_assume!(hi - lo > 1e-6 && x1 - hi > 1e-6);
+            let whole = drying_time(&curve, 10.0, x1, lo).unwrap().total_s;
+            let parts = drying_time(&curve, 10.0, x1, hi).unwrap().total_s + drying_time(&curve, 10.0, hi, lo).unwrap().total_s;
+            prop_assert!((whole / parts - 1.0).abs() < 1e-9);
+        }
+
+        /// The monotone cubic never leaves the range of its neighbouring data
+        /// and keeps monotone data monotone.
+        #[test]
+        fn pchip_keeps_monotone_data_monotone(steps in proptest::collection::vec((0.01f64..1.0, 0.0f64..1.0), 3..12)) {
+            let mut x = vec![0.0];
+            let mut y = vec![0.0];
+            for (dx, dy) in &steps {
+                x.push(x[x.len() - 1] + dx);
+                y.push(y[y.len() - 1] + dy);
+            }
+            let p = MonotoneCubic::new(x.clone(), y.clone()).unwrap();
+            let mut last = f64::NEG_INFINITY;
+            for k in 0..=500 {
+                let t = x[x.len() - 1] * k as f64 / 500.0;
+                let v = p.value(t);
+                prop_assert!(v >= last - 1e-12);
+                last = v;
+            }
+        }
+    }
+}
