@@ -220,6 +220,11 @@ impl Session {
         self.sheet.defs.get(name).map(|d| d.deps.as_slice())
     }
 
+    /// A definition with its kind, statement span and dependencies (for the audit record).
+    pub fn definition(&self, name: &str) -> Option<&eval::Def> {
+        self.sheet.defs.get(name)
+    }
+
     /// Every defined name (values, inputs, functions) in definition order.
     pub fn names(&self) -> &[String] {
         &self.sheet.order

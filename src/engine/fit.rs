@@ -52,6 +52,15 @@ pub trait Model {
     fn gradient(&self, _params: &[f64], _point: usize, _out: &mut [f64]) -> bool {
         false
     }
+
+    /// Value and analytic derivatives in one call, for models whose
+    /// derivatives share work with the value (exponentials, powers); `None`
+    /// (the default: built from [`Model::gradient`]) when there are none.
+    /// With derivatives, the fitter computes residuals and Jacobian in one pass.
+    fn value_and_gradient(&self, params: &[f64], point: usize, out: &mut [f64]) -> Option<f64> {
+        self.gradient(params, point, out)
+            .then(|| self.value(params, point))
+    }
 }
 
 /// Options for [`fit`].
@@ -201,6 +210,10 @@ impl fmt::Display for FitError {
 
 impl std::error::Error for FitError {}
 
+/// A one-input model with derivatives: `(params, x, gradient) -> value`,
+/// writing `d value / d params[j]` into `gradient[j]`.
+pub type GradientModelFn = dyn Fn(&[f64], f64, &mut [f64]) -> f64;
+
 /// No bounds on any of `n` parameters.
 pub fn unbounded(n: usize) -> Vec<(f64, f64)> {
     vec![(f64::NEG_INFINITY, f64::INFINITY); n]
@@ -220,6 +233,22 @@ pub fn least_squares(
 ) -> Result<FitResult, FitError> {
     check_len("x", y.len(), x.len())?;
     let wrapped = OneInput { model, x };
+    fit(&wrapped, y, start, bounds, &FitOptions::default())
+}
+
+/// Fit `y ~ model(params, x)` for a one-input model that also gives its
+/// derivatives: `model(params, x, gradient)` returns the value and writes
+/// `d value / d params[j]` into `gradient[j]`. Faster than finite differences
+/// when derivatives share work with the value; same statistics.
+pub fn least_squares_with_gradient(
+    model: &GradientModelFn,
+    x: &[f64],
+    y: &[f64],
+    start: &[f64],
+    bounds: &[(f64, f64)],
+) -> Result<FitResult, FitError> {
+    check_len("x", y.len(), x.len())?;
+    let wrapped = OneInputWithGradient { model, x };
     fit(&wrapped, y, start, bounds, &FitOptions::default())
 }
 
@@ -252,7 +281,7 @@ pub fn fit(
         .map(|(&x0, &b)| Transform::new(x0, b))
         .collect();
     let problem = Problem::new(model, y, &weights, maps, start);
-    if let Some(point) = problem.first_non_finite() {
+    if let Some(point) = problem.first_penalised() {
         return Err(FitError::ModelUndefined { point });
     }
     let solver = LevenbergMarquardt::new()
@@ -269,7 +298,12 @@ pub fn fit(
         });
     }
     let params = problem.external();
-    let mut result = statistics(model, y, &weights, &params, bounds)?;
+    let fitted = problem.fitted();
+    let gradients = match problem.analytic {
+        Some(g) => g,
+        None => central_jacobian(model, &params, y.len()),
+    };
+    let mut result = statistics(y, &weights, &params, fitted, &gradients, bounds)?;
     result.evaluations = report.number_of_evaluations;
     Ok(result)
 }
@@ -376,6 +410,35 @@ impl Model for OneInput<'_> {
     }
 }
 
+/// A one-input closure with derivatives as a [`Model`].
+struct OneInputWithGradient<'a> {
+    model: &'a GradientModelFn,
+    x: &'a [f64],
+}
+
+impl Model for OneInputWithGradient<'_> {
+    fn value(&self, params: &[f64], point: usize) -> f64 {
+        let mut scratch = [0.0; 16];
+        let mut heap;
+        let out = if params.len() <= scratch.len() {
+            &mut scratch[..params.len()]
+        } else {
+            heap = vec![0.0; params.len()];
+            &mut heap[..]
+        };
+        (self.model)(params, self.x[point], out)
+    }
+
+    fn gradient(&self, params: &[f64], point: usize, out: &mut [f64]) -> bool {
+        (self.model)(params, self.x[point], out);
+        true
+    }
+
+    fn value_and_gradient(&self, params: &[f64], point: usize, out: &mut [f64]) -> Option<f64> {
+        Some((self.model)(params, self.x[point], out))
+    }
+}
+
 /// A several-input closure as a [`Model`].
 struct RowInput<'a> {
     model: &'a dyn Fn(&[f64], &[f64]) -> f64,
@@ -477,6 +540,9 @@ struct Problem<'a> {
     r: DVector<f64>,
     /// How many residuals at `x` were replaced by the penalty.
     penalised: usize,
+    /// Model derivatives at `x` (row-major n x p), when the model gives them;
+    /// then residuals and Jacobian come from one pass over the data.
+    analytic: Option<Vec<f64>>,
 }
 
 impl<'a> Problem<'a> {
@@ -500,7 +566,12 @@ impl<'a> Problem<'a> {
             x: start.to_vec(),
             r: DVector::zeros(y.len()),
             penalised: 0,
+            analytic: None,
         };
+        let mut probe = vec![0.0; start.len()];
+        if !y.is_empty() && model.value_and_gradient(start, 0, &mut probe).is_some() {
+            problem.analytic = Some(vec![0.0; y.len() * start.len()]);
+        }
         problem.set_params(&u);
         problem
     }
@@ -509,8 +580,22 @@ impl<'a> Problem<'a> {
         self.x.clone()
     }
 
-    fn first_non_finite(&self) -> Option<usize> {
-        (0..self.y.len()).find(|&i| !self.model.value(&self.x, i).is_finite())
+    /// The first point whose residual was not finite at the current parameters.
+    fn first_penalised(&self) -> Option<usize> {
+        if self.penalised == 0 {
+            return None;
+        }
+        self.r.iter().position(|&r| r == PENALTY)
+    }
+
+    /// Model values at the current parameters, from the stored residuals.
+    fn fitted(&self) -> Vec<f64> {
+        self.r
+            .iter()
+            .zip(self.weights)
+            .zip(self.y)
+            .map(|((r, w), y)| r / w + y)
+            .collect()
     }
 }
 
@@ -525,8 +610,16 @@ impl LeastSquaresProblem<f64, Dyn, Dyn> for Problem<'_> {
             *x = m.external(ui);
         }
         self.penalised = 0;
+        let p = self.x.len();
         for i in 0..self.y.len() {
-            let r = self.weights[i] * (self.model.value(&self.x, i) - self.y[i]);
+            let f = match self.analytic.as_mut() {
+                Some(g) => self
+                    .model
+                    .value_and_gradient(&self.x, i, &mut g[i * p..(i + 1) * p])
+                    .unwrap_or(f64::NAN),
+                None => self.model.value(&self.x, i),
+            };
+            let r = self.weights[i] * (f - self.y[i]);
             self.r[i] = if r.is_finite() {
                 r
             } else {
@@ -548,6 +641,7 @@ impl LeastSquaresProblem<f64, Dyn, Dyn> for Problem<'_> {
         let n = self.y.len();
         let p = self.x.len();
         let mut jac = DMatrix::zeros(n, p);
+        let cells = jac.as_mut_slice(); // column-major: (i, j) at j * n + i
         let mut grad = vec![0.0; p];
         let mut probe = self.x.clone();
         let slopes: Vec<f64> = self
@@ -557,11 +651,16 @@ impl LeastSquaresProblem<f64, Dyn, Dyn> for Problem<'_> {
             .map(|(m, &u)| m.slope(u))
             .collect();
         for i in 0..n {
-            let fi = self.r[i] / self.weights[i] + self.y[i];
-            forward_gradient(self.model, &mut probe, i, fi, &mut grad);
+            match &self.analytic {
+                Some(g) => grad.copy_from_slice(&g[i * p..(i + 1) * p]),
+                None => {
+                    let fi = self.r[i] / self.weights[i] + self.y[i];
+                    forward_gradient(self.model, &mut probe, i, fi, &mut grad);
+                }
+            }
             for j in 0..p {
                 let d = self.weights[i] * grad[j] * slopes[j];
-                jac[(i, j)] = if d.is_finite() { d } else { 0.0 };
+                cells[j * n + i] = if d.is_finite() { d } else { 0.0 };
             }
         }
         Some(jac)
@@ -612,16 +711,18 @@ fn central_step(x: f64) -> f64 {
 }
 
 /// Statistics of a converged fit at `params`.
+/// Statistics of a converged fit at `params`, from the model values `fitted`
+/// and the model derivatives `gradients` (row-major `n x p`) there.
 fn statistics(
-    model: &dyn Model,
     y: &[f64],
     weights: &[f64],
     params: &[f64],
+    fitted: Vec<f64>,
+    gradients: &[f64],
     bounds: &[(f64, f64)],
 ) -> Result<FitResult, FitError> {
     let n = y.len();
     let p = params.len();
-    let fitted: Vec<f64> = (0..n).map(|i| model.value(params, i)).collect();
     if let Some(point) = fitted.iter().position(|f| !f.is_finite()) {
         return Err(FitError::ModelUndefined { point });
     }
@@ -634,7 +735,7 @@ fn statistics(
         .sum();
     let dof = n - p;
     let reduced_chi_square = chi2 / dof as f64;
-    let covariance = covariance(model, weights, params, n, reduced_chi_square)?;
+    let covariance = covariance(weights, gradients, p, reduced_chi_square)?;
     let std_errors: Vec<f64> = (0..p)
         .map(|j| covariance[j * p + j].max(0.0).sqrt())
         .collect();
@@ -674,24 +775,28 @@ fn statistics(
 }
 
 /// `s^2 (J^T W^2 J)^-1`, row-major.
-fn covariance(
-    model: &dyn Model,
-    weights: &[f64],
-    params: &[f64],
-    n: usize,
-    s2: f64,
-) -> Result<Vec<f64>, FitError> {
+/// Model derivatives at `params` by central differences, row-major `n x p`.
+fn central_jacobian(model: &dyn Model, params: &[f64], n: usize) -> Vec<f64> {
     let p = params.len();
-    let mut jac = DMatrix::zeros(n, p);
+    let mut out = vec![0.0; n * p];
     let mut probe = params.to_vec();
-    let mut grad = vec![0.0; p];
-    for i in 0..n {
-        central_gradient(model, &mut probe, i, &mut grad);
-        for j in 0..p {
-            jac[(i, j)] = weights[i] * grad[j];
+    for (i, row) in out.chunks_mut(p).enumerate() {
+        central_gradient(model, &mut probe, i, row);
+    }
+    out
+}
+
+/// `s^2 (J^T W^2 J)^-1`, row-major, from row-major model derivatives.
+fn covariance(weights: &[f64], gradients: &[f64], p: usize, s2: f64) -> Result<Vec<f64>, FitError> {
+    let mut normal = DMatrix::zeros(p, p);
+    for (row, w) in gradients.chunks(p).zip(weights) {
+        let w2 = w * w;
+        for a in 0..p {
+            for b in 0..p {
+                normal[(a, b)] += w2 * row[a] * row[b];
+            }
         }
     }
-    let normal = jac.transpose() * &jac;
     let inverse = invert_symmetric(normal).ok_or(FitError::NotIdentifiable)?;
     // Row-major copy (nalgebra stores columns; the matrix is symmetric anyway).
     let row_major: Vec<f64> = (0..p * p).map(|k| s2 * inverse[(k / p, k % p)]).collect();
@@ -733,11 +838,13 @@ fn on_bound(x: f64, (lo, hi): (f64, f64)) -> bool {
 }
 
 /// Quantile of Student's t distribution with `dof` degrees of freedom
-/// (`probability` in (0, 1)), by bisection on the distribution function.
+/// (`probability` in (0, 1)), by safeguarded Newton iteration on the
+/// distribution function from the Cornish-Fisher estimate.
 ///
 /// The distribution function uses the regularised incomplete beta function
 /// `F(t) = 1 - I_{dof/(dof+t^2)}(dof/2, 1/2) / 2` for `t >= 0` (Abramowitz &
-/// Stegun 26.7.1 and 26.5.27), evaluated by its continued fraction.
+/// Stegun 26.7.1 and 26.5.27), evaluated by its continued fraction; the start
+/// is A&S 26.7.5 from the normal quantile.
 pub fn student_t_quantile(probability: f64, dof: f64) -> f64 {
     if probability == 0.5 {
         return 0.0;
@@ -747,23 +854,56 @@ pub fn student_t_quantile(probability: f64, dof: f64) -> f64 {
     }
     let upper_tail = 1.0 - probability;
     let tail = |t: f64| 0.5 * incomplete_beta(dof / (dof + t * t), 0.5 * dof, 0.5);
-    let (mut lo, mut hi) = (0.0, 1.0);
-    while tail(hi) > upper_tail && hi < 1e12 {
-        lo = hi;
-        hi *= 2.0;
-    }
-    for _ in 0..200 {
-        let mid = 0.5 * (lo + hi);
-        if tail(mid) > upper_tail {
-            lo = mid;
+    let log_norm = libm::lgamma(0.5 * (dof + 1.0))
+        - libm::lgamma(0.5 * dof)
+        - 0.5 * (dof * std::f64::consts::PI).ln();
+    let density = |t: f64| (log_norm - 0.5 * (dof + 1.0) * (1.0 + t * t / dof).ln()).exp();
+    let (mut lo, mut hi) = (0.0, f64::INFINITY);
+    let mut t = cornish_fisher(normal_quantile(probability), dof).max(1e-3);
+    for _ in 0..100 {
+        let excess = tail(t) - upper_tail; // > 0 means t is too small
+        if excess > 0.0 {
+            lo = t;
         } else {
-            hi = mid;
+            hi = t;
         }
-        if hi - lo <= 1e-14 * hi {
+        let next = t + excess / density(t);
+        let next = if next > lo && next < hi {
+            next
+        } else if hi.is_finite() {
+            0.5 * (lo + hi)
+        } else {
+            2.0 * t
+        };
+        if (next - t).abs() <= 1e-14 * t {
+            return next;
+        }
+        t = next;
+    }
+    t
+}
+
+/// A&S 26.7.5: t quantile from the normal quantile `z`, to order 1/dof^2.
+fn cornish_fisher(z: f64, dof: f64) -> f64 {
+    let z3 = z * z * z;
+    let z5 = z3 * z * z;
+    z + (z3 + z) / (4.0 * dof) + (5.0 * z5 + 16.0 * z3 + 3.0 * z) / (96.0 * dof * dof)
+}
+
+/// Standard normal quantile, by Newton iteration on `erfc` (enough for a start value).
+fn normal_quantile(probability: f64) -> f64 {
+    let upper = 1.0 - probability;
+    let mut z = (-2.0 * upper.ln()).sqrt().min(8.0);
+    for _ in 0..20 {
+        let tail = 0.5 * libm::erfc(z / std::f64::consts::SQRT_2);
+        let pdf = (-0.5 * z * z).exp() / (2.0 * std::f64::consts::PI).sqrt();
+        let step = (tail - upper) / pdf;
+        z += step;
+        if step.abs() < 1e-12 {
             break;
         }
     }
-    0.5 * (lo + hi)
+    z
 }
 
 /// Regularised incomplete beta function `I_x(a, b)` (Abramowitz & Stegun 26.5.8
@@ -923,6 +1063,41 @@ mod tests {
         let err = fit(&model, &y, &[5.0, 3.0], &unbounded(2), &options).unwrap_err();
         assert!(matches!(err, FitError::NotConverged { .. }), "{err:?}");
         assert!(err.to_string().contains("start values"));
+    }
+
+    /// The analytic-derivative path gives the same fit as finite differences.
+    #[test]
+    fn analytic_gradient_matches_finite_differences() {
+        let t: Vec<f64> = (1..=40).map(|i| i as f64 * 5.0).collect();
+        let y: Vec<f64> = t
+            .iter()
+            .enumerate()
+            .map(|(i, t)| (-0.01 * t.powf(1.2)).exp() + 0.003 * ((i * 7 % 5) as f64 - 2.0))
+            .collect();
+        let plain = least_squares(
+            &|p, t| (-p[0] * t.powf(p[1])).exp(),
+            &t,
+            &y,
+            &[0.02, 1.0],
+            &unbounded(2),
+        )
+        .unwrap();
+        let page = |p: &[f64], t: f64, g: &mut [f64]| {
+            let tn = t.powf(p[1]);
+            let f = (-p[0] * tn).exp();
+            g[0] = -tn * f;
+            g[1] = -p[0] * tn * t.ln() * f;
+            f
+        };
+        let analytic =
+            least_squares_with_gradient(&page, &t, &y, &[0.02, 1.0], &unbounded(2)).unwrap();
+        for j in 0..2 {
+            assert!((plain.params[j] - analytic.params[j]).abs() < 1e-7 * plain.params[j].abs());
+            assert!(
+                (plain.std_errors[j] - analytic.std_errors[j]).abs() < 1e-5 * plain.std_errors[j]
+            );
+        }
+        assert!(analytic.evaluations <= plain.evaluations + 2);
     }
 
     #[test]

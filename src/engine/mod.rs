@@ -3,11 +3,14 @@
 
 pub mod air;
 pub mod diffusion;
+pub mod dryers;
 pub mod fit;
 pub mod integrate;
 pub mod kinetics;
+pub mod psychrometric_chart;
 pub mod solve;
 pub mod sorption;
 pub mod thin_layer;
 pub mod transfer;
 pub mod transport;
+

@@ -92,7 +92,7 @@ pub fn parse_table(text: &str) -> Result<Table, DataError> {
         .map(|(name, unit)| Column {
             name: name.clone(),
             unit: match unit {
-                ColumnUnit::Number(u) => Some(u.clone()),
+                ColumnUnit::Number(u) => display_unit(u),
                 ColumnUnit::Text => None,
             },
             cells: Vec::new(),
@@ -151,8 +151,17 @@ fn read_cell(cell: &str, unit: &ColumnUnit) -> Result<Value, String> {
         return Err(format!("`{cell}` is not a finite number"));
     }
     unit.try_to_si(x)
-        .map(|q| Value::Quantity(q, Some(unit.clone())))
+        .map(|q| Value::Quantity(q, display_unit(unit)))
         .map_err(|e| e.message)
+}
+
+/// The unit to show a column in: none for a plain number (`[-]`).
+fn display_unit(unit: &Unit) -> Option<Unit> {
+    let plain = unit.symbol.is_empty()
+        && unit.dim.is_dimensionless()
+        && unit.kind == Kind::Plain
+        && unit.factor == 1.0;
+    (!plain).then(|| unit.clone())
 }
 
 /// Split `name [unit]` and resolve the unit; `line` and `column` (1-based) for messages.
@@ -218,7 +227,7 @@ fn basis_unit(ratio: &str, basis: &str, whole: &str) -> Result<Option<Unit>, Dat
     }
     let mut unit = lookup_unit(kind_unit)
         .ok_or_else(|| DataError::new(format!("unit table lacks `{kind_unit}`")))?;
-    unit.factor = ratio_unit.factor * unit.factor;
+    unit.factor *= ratio_unit.factor;
     unit.kind = kind;
     unit.symbol = whole.to_string();
     Ok(Some(unit))

@@ -5,17 +5,20 @@
 //! boundary, converts them to uom quantities and calls typed engine code.
 
 pub mod air;
+pub mod chart;
 pub mod data;
+pub mod dryers;
 pub mod fit;
 pub mod kinetics;
-pub mod sorption;
 pub mod math;
+pub mod plot;
+pub mod sorption;
+pub mod transfer;
 
 use crate::diag::{Diagnostic, Span};
 use crate::units::{describe_dim, Dim, Quantity};
 use crate::value::{Record, Value};
 
-pub mod transfer;
 
 /// What a parameter accepts, for docs, completion and checking.
 #[derive(Clone, Copy, Debug)]
@@ -243,11 +246,14 @@ pub fn registry() -> &'static [&'static Builtin] {
         const FAMILIES: &[&[Builtin]] = &[
             // one line per family, e.g. air::BUILTINS,
             air::BUILTINS,
+            chart::BUILTINS,
             data::BUILTINS,
+            dryers::BUILTINS,
             fit::BUILTINS,
             kinetics::BUILTINS,
-            sorption::BUILTINS,
             math::BUILTINS,
+            plot::BUILTINS,
+            sorption::BUILTINS,
             transfer::BUILTINS,
         ];
         let mut all: Vec<&'static Builtin> = FAMILIES.iter().flat_map(|f| f.iter()).collect();

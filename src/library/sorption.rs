@@ -406,6 +406,93 @@ fn free_moisture(args: &mut Args) -> Result<Value, Diagnostic> {
     Ok(moisture_value(reading.value))
 }
 
+// ---------------------------------------------------------------- isosteric heat
+
+fn isotherm_list(args: &mut Args) -> Result<Option<(Vec<Isotherm>, Span)>, Diagnostic> {
+    let Some(a) = args.take("isotherms") else {
+        return Ok(None);
+    };
+    let items = match a.value {
+        Value::List(items) => items,
+        other => {
+            return Err(Diagnostic::error(
+                a.span,
+                format!("`isotherms` must be a list, found {}", type_word(&other)),
+            ))
+        }
+    };
+    let mut out = Vec::new();
+    for item in &items {
+        match item {
+            Value::Record(r) => match r.payload::<Isotherm>() {
+                Some(iso) => out.push(iso.clone()),
+                None => match r.get("isotherm") {
+                    Some(Value::Record(inner)) if inner.payload::<Isotherm>().is_some() => {
+                        out.extend(inner.payload::<Isotherm>().cloned())
+                    }
+                    _ => return Err(not_a_product(a.span, item)),
+                },
+            },
+            other => return Err(not_a_product(a.span, other)),
+        }
+    }
+    Ok(Some((out, a.span)))
+}
+
+fn isosteric_heat(args: &mut Args) -> Result<Value, Diagnostic> {
+    use crate::engine::air::latent_heat_vaporization;
+    use crate::engine::sorption::{isosteric_heat as from_model, isosteric_heat_from_isotherms};
+    let list = isotherm_list(args)?;
+    let single = if list.is_none() {
+        Some(product(args)?.isotherm)
+    } else {
+        None
+    };
+    let x_span = args.span_of("X");
+    let x = required_ratio(args, "X", Kind::Moisture)?;
+    let t_given = temperature(args, "T")?;
+    args.finish()?;
+    let (heat, t_k) = match (single, list) {
+        (Some(iso), _) => {
+            let t_k = t_given.ok_or_else(|| {
+                Diagnostic::error(args.call_span, "`isosteric_heat` of one isotherm needs `T`")
+            })?;
+            let latent = latent_heat_vaporization(kelvin_t(t_k));
+            (
+                from_model(&iso, x, kelvin_t(t_k), latent).map_err(|e| engine_error(x_span, e))?,
+                t_k,
+            )
+        }
+        (None, Some((isos, span))) => {
+            let t_k = isos.iter().map(|i| i.t_ref_k).sum::<f64>() / isos.len().max(1) as f64;
+            let latent = latent_heat_vaporization(kelvin_t(t_k));
+            (
+                isosteric_heat_from_isotherms(&isos, x, latent)
+                    .map_err(|e| engine_error(span, e))?,
+                t_k,
+            )
+        }
+        (None, None) => {
+            return Err(args
+                .required("product")
+                .err()
+                .unwrap_or_else(|| args.error_at("product", "missing")))
+        }
+    };
+    let energy = |si: f64| {
+        Value::Quantity(
+            Quantity::new(si, Dim::SPECIFIC_ENERGY, Kind::Plain),
+            lookup_unit("kJ/kg"),
+        )
+    };
+    let rec = Record::new("isosteric_heat")
+        .with("net", energy(heat.net.value))
+        .with("total", energy(heat.total.value))
+        .with("X", moisture_value(x))
+        .with("T", temperature_value(t_k));
+    Ok(Value::Record(rec))
+}
+
 // ---------------------------------------------------------------- materials
 
 /// A material as a record with its payload.
@@ -1049,6 +1136,26 @@ pub const BUILTINS: &[Builtin] = &[
         validity: "as equilibrium_moisture",
         example: "free_moisture(m, X: 1.2 db, aw: 0.3, T: 60 degC)",
         func: free_moisture,
+    },
+    Builtin {
+        name: "isosteric_heat",
+        family: "sorption",
+        params: &[
+            Param { name: "product", unit: "isotherm", default: Some("none"), doc: "a temperature-dependent isotherm, material or fit" },
+            Param { name: "isotherms", unit: "list", default: Some("none"), doc: "isotherms each known at one temperature (two or more temperatures)" },
+            param!("X", "db", "moisture content"),
+            Param { name: "T", unit: "degC", default: Some("none"), doc: "temperature (with `product`)" },
+        ],
+        returns: "record (net, total in kJ/kg water)",
+        doc: "Isosteric heat of sorption at moisture X by the Clausius-Clapeyron equation: the net heat \
+              -R d(ln aw)/d(1/T) at constant X (per kg of water), and the total heat net + latent heat of \
+              vaporisation of free water. From one temperature-dependent isotherm, or from isotherms at two or \
+              more temperatures (least-squares line of ln aw against 1/T).",
+        method: "Clausius-Clapeyron at constant moisture; latent heat from the air family",
+        source: "Iglesias & Chirife (1976), J. Food Technol. 11, 109",
+        validity: "X within every isotherm's range; temperatures a few tens of kelvin apart",
+        example: "isosteric_heat(isotherms: [fit25.isotherm, fit40.isotherm], X: 0.1 db)",
+        func: isosteric_heat,
     },
     Builtin {
         name: "material",

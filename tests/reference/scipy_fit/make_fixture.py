@@ -13,6 +13,7 @@ import json
 import numpy as np
 import scipy
 from scipy.optimize import curve_fit
+from scipy.stats import t as student_t
 
 HERE = "tests/reference/scipy_fit"
 
@@ -111,6 +112,11 @@ def main():
         "scipy_version": scipy.__version__,
         "numpy_version": np.__version__,
         "cases": cases,
+        "t_quantiles": [
+            {"probability": p, "dof": d, "t": float(student_t.ppf(p, d))}
+            for p in (0.975, 0.995, 0.9)
+            for d in (1, 2, 3, 5, 9, 10, 12, 30, 100, 1000)
+        ],
     }
     with open(f"{HERE}/fixture.json", "w") as f:
         json.dump(out, f, indent=1)
