@@ -739,7 +739,7 @@ fn statistics(
     let std_errors: Vec<f64> = (0..p)
         .map(|j| covariance[j * p + j].max(0.0).sqrt())
         .collect();
-    let t_value = student_t_quantile(0.975, dof as f64);
+    let t_value = t_975(dof);
     let ci95 = params
         .iter()
         .zip(&std_errors)
@@ -881,6 +881,26 @@ pub fn student_t_quantile(probability: f64, dof: f64) -> f64 {
         t = next;
     }
     t
+}
+
+/// The 97.5 % t quantile for `dof` degrees of freedom, remembered per thread
+/// (fits repeat with the same few `dof`; the quantile costs a few microseconds).
+fn t_975(dof: usize) -> f64 {
+    thread_local! {
+        static CACHE: std::cell::RefCell<Vec<(usize, f64)>> = const { std::cell::RefCell::new(Vec::new()) };
+    }
+    CACHE.with(|cache| {
+        if let Some(&(_, t)) = cache.borrow().iter().find(|(d, _)| *d == dof) {
+            return t;
+        }
+        let t = student_t_quantile(0.975, dof as f64);
+        let mut c = cache.borrow_mut();
+        if c.len() >= 64 {
+            c.remove(0);
+        }
+        c.push((dof, t));
+        t
+    })
 }
 
 /// A&S 26.7.5: t quantile from the normal quantile `z`, to order 1/dof^2.
