@@ -113,7 +113,7 @@ fn isotherm_fits_match_scipy_curve_fit() {
             checked += 1;
         }
     }
-    assert_eq!(checked, 12);
+    assert_eq!(checked, 13);
 }
 
 /// Student's t quantiles against scipy.stats.t.ppf, to 1e-9 relative.

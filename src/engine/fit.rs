@@ -160,7 +160,18 @@ pub enum FitError {
     NotConverged { reason: String, evaluations: usize },
     /// The parameters cannot be told apart from these data.
     NotIdentifiable,
+    /// A parameter ran off to a value the data do not determine: its standard
+    /// error exceeds [`UNDETERMINED_RATIO`] times its size.
+    Undetermined {
+        index: usize,
+        value: f64,
+        std_error: f64,
+    },
 }
+
+/// Relative standard error above which a parameter counts as not determined
+/// by the data (it has drifted to where the sum of squares is flat).
+pub const UNDETERMINED_RATIO: f64 = 1e4;
 
 impl fmt::Display for FitError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
@@ -198,6 +209,12 @@ impl fmt::Display for FitError {
                 f,
                 "the fit did not converge ({reason}, after {evaluations} evaluations); try other start values \
                  (for example from a linearised fit), tighter bounds, or another model"
+            ),
+            FitError::Undetermined { index, value, std_error } => write!(
+                f,
+                "parameter {} = {value:.4e} +- {std_error:.1e} is not determined by these data (the fit drifted to where \
+                 the sum of squares is flat); bound or fix that parameter, try other start values, or use a simpler model",
+                index + 1
             ),
             FitError::NotIdentifiable => write!(
                 f,
@@ -305,7 +322,25 @@ pub fn fit(
     };
     let mut result = statistics(y, &weights, &params, fitted, &gradients, bounds)?;
     result.evaluations = report.number_of_evaluations;
+    check_determined(&result)?;
     Ok(result)
+}
+
+/// Refuse a fit where a parameter's standard error dwarfs its value.
+fn check_determined(result: &FitResult) -> Result<(), FitError> {
+    let bad = result
+        .params
+        .iter()
+        .zip(&result.std_errors)
+        .position(|(v, se)| *se > UNDETERMINED_RATIO * v.abs().max(f64::MIN_POSITIVE));
+    match bad {
+        Some(index) => Err(FitError::Undetermined {
+            index,
+            value: result.params[index],
+            std_error: result.std_errors[index],
+        }),
+        None => Ok(()),
+    }
 }
 
 fn check_len(what: &'static str, expected: usize, found: usize) -> Result<(), FitError> {
@@ -807,16 +842,32 @@ fn covariance(weights: &[f64], gradients: &[f64], p: usize, s2: f64) -> Result<V
     }
 }
 
-/// Inverse of a symmetric positive-definite matrix by SVD, refusing a
-/// numerically singular one (condition number above about 1e14).
+/// Inverse of a symmetric positive-semidefinite matrix, refusing a
+/// numerically singular one. The matrix is first scaled to unit diagonal
+/// (`S^-1 M S^-1`, `S = sqrt(diag M)`), so parameters of very different sizes
+/// (a monolayer moisture of 0.07 and a heat of 9000 J/mol) do not look
+/// singular; the scaled matrix is inverted by SVD and refused when its
+/// condition number exceeds 1e12 (parameters correlated beyond 1 - 1e-12).
 fn invert_symmetric(m: DMatrix<f64>) -> Option<DMatrix<f64>> {
-    let svd = m.svd(true, true);
-    let largest = svd.singular_values.max();
-    let smallest = svd.singular_values.min();
-    if largest.is_nan() || largest <= 0.0 || smallest <= largest * 1e-14 {
+    let p = m.nrows();
+    let scale: Vec<f64> = (0..p).map(|i| m[(i, i)].sqrt()).collect();
+    if scale
+        .iter()
+        .any(|s| s.is_nan() || *s <= 0.0 || s.is_infinite())
+    {
         return None;
     }
-    svd.pseudo_inverse(0.0).ok()
+    let scaled = DMatrix::from_fn(p, p, |i, j| m[(i, j)] / (scale[i] * scale[j]));
+    let svd = scaled.svd(true, true);
+    let largest = svd.singular_values.max();
+    let smallest = svd.singular_values.min();
+    if largest.is_nan() || largest <= 0.0 || smallest <= largest * 1e-12 {
+        return None;
+    }
+    let inverse = svd.pseudo_inverse(0.0).ok()?;
+    Some(DMatrix::from_fn(p, p, |i, j| {
+        inverse[(i, j)] / (scale[i] * scale[j])
+    }))
 }
 
 fn mean_relative_deviation(y: &[f64], residuals: &[f64]) -> Option<f64> {
