@@ -4,5 +4,7 @@ pub mod fit;
 pub mod sorption;
 
 pub mod air;
+pub mod dryers;
 pub mod solve;
+pub mod transfer;
 pub mod transport;
