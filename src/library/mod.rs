@@ -4,11 +4,11 @@
 //! A built-in receives spanned arguments, checks their dimensions here at the
 //! boundary, converts them to uom quantities and calls typed engine code.
 
+pub mod air;
 pub mod data;
 pub mod fit;
-pub mod sorption;
-pub mod air;
 pub mod math;
+pub mod sorption;
 
 use crate::diag::{Diagnostic, Span};
 use crate::units::{describe_dim, Dim, Quantity};
