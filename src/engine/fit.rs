@@ -559,6 +559,9 @@ fn one_sided_internal(d: f64) -> f64 {
     ((d + 1.0) * (d + 1.0) - 1.0).sqrt()
 }
 
+/// Parameter count up to which the Jacobian's scratch space lives on the stack.
+const STACK_PARAMS: usize = 8;
+
 /// Residual value that replaces a non-finite one during a trial step, so the
 /// minimiser rejects the step and shrinks its trust region instead of stopping.
 const PENALTY: f64 = 1e50;
@@ -677,20 +680,28 @@ impl LeastSquaresProblem<f64, Dyn, Dyn> for Problem<'_> {
         let p = self.x.len();
         let mut jac = DMatrix::zeros(n, p);
         let cells = jac.as_mut_slice(); // column-major: (i, j) at j * n + i
-        let mut grad = vec![0.0; p];
-        let mut probe = self.x.clone();
-        let slopes: Vec<f64> = self
-            .maps
-            .iter()
-            .zip(self.u.iter())
-            .map(|(m, &u)| m.slope(u))
-            .collect();
+                                        // Scratch for gradient, probe parameters and slopes: on the stack for
+                                        // the usual few parameters (this runs once per iteration).
+        let mut stack = [0.0; 3 * STACK_PARAMS];
+        let mut heap;
+        let scratch: &mut [f64] = if p <= STACK_PARAMS {
+            &mut stack[..3 * p]
+        } else {
+            heap = vec![0.0; 3 * p];
+            &mut heap
+        };
+        let (grad, rest) = scratch.split_at_mut(p);
+        let (probe, slopes) = rest.split_at_mut(p);
+        probe.copy_from_slice(&self.x);
+        for (s, (m, &u)) in slopes.iter_mut().zip(self.maps.iter().zip(self.u.iter())) {
+            *s = m.slope(u);
+        }
         for i in 0..n {
             match &self.analytic {
                 Some(g) => grad.copy_from_slice(&g[i * p..(i + 1) * p]),
                 None => {
                     let fi = self.r[i] / self.weights[i] + self.y[i];
-                    forward_gradient(self.model, &mut probe, i, fi, &mut grad);
+                    forward_gradient(self.model, probe, i, fi, grad);
                 }
             }
             for j in 0..p {
@@ -702,13 +713,10 @@ impl LeastSquaresProblem<f64, Dyn, Dyn> for Problem<'_> {
     }
 }
 
-/// Gradient of the model at point `i` by the model's own derivatives or by
-/// forward differences with MINPACK's step `sqrt(eps) |x|`. `probe` holds the
-/// parameters and is restored on return; `fi` is the value at `probe`.
+/// Gradient of the model at point `i` by forward differences with MINPACK's
+/// step `sqrt(eps) |x|` (models with derivatives never come here). `probe`
+/// holds the parameters and is restored on return; `fi` is the value at `probe`.
 fn forward_gradient(model: &dyn Model, probe: &mut [f64], i: usize, fi: f64, grad: &mut [f64]) {
-    if model.gradient(probe, i, grad) {
-        return;
-    }
     for j in 0..probe.len() {
         let xj = probe[j];
         let h = step(xj);
@@ -718,11 +726,9 @@ fn forward_gradient(model: &dyn Model, probe: &mut [f64], i: usize, fi: f64, gra
     }
 }
 
-/// Central-difference gradient (for the covariance, where accuracy matters more than speed).
+/// Central-difference gradient (for the covariance, where accuracy matters
+/// more than speed; models with derivatives never come here).
 fn central_gradient(model: &dyn Model, probe: &mut [f64], i: usize, grad: &mut [f64]) {
-    if model.gradient(probe, i, grad) {
-        return;
-    }
     for j in 0..probe.len() {
         let xj = probe[j];
         let h = central_step(xj);
@@ -735,14 +741,19 @@ fn central_gradient(model: &dyn Model, probe: &mut [f64], i: usize, grad: &mut [
     }
 }
 
+/// `sqrt(eps)` for f64.
+const ROOT_EPS: f64 = 1.490_116_119_384_765_6e-8;
+/// `eps^(1/3)` for f64.
+const CUBE_ROOT_EPS: f64 = 6.055_454_452_393_343e-6;
+
 /// Forward-difference step, `sqrt(eps) |x|` (MINPACK's choice).
 fn step(x: f64) -> f64 {
-    f64::EPSILON.sqrt() * if x == 0.0 { 1.0 } else { x.abs() }
+    ROOT_EPS * if x == 0.0 { 1.0 } else { x.abs() }
 }
 
 /// Central-difference step, `eps^(1/3) |x|`, balancing truncation and rounding.
 fn central_step(x: f64) -> f64 {
-    f64::EPSILON.cbrt() * if x == 0.0 { 1.0 } else { x.abs() }
+    CUBE_ROOT_EPS * if x == 0.0 { 1.0 } else { x.abs() }
 }
 
 /// Statistics of a converged fit at `params`.
@@ -1169,6 +1180,12 @@ mod tests {
             );
         }
         assert!(analytic.evaluations <= plain.evaluations + 2);
+    }
+
+    #[test]
+    fn difference_steps_are_the_epsilon_roots() {
+        assert_eq!(ROOT_EPS, f64::EPSILON.sqrt());
+        assert!((CUBE_ROOT_EPS - f64::EPSILON.cbrt()).abs() < 1e-20);
     }
 
     #[test]
