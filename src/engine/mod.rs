@@ -2,6 +2,8 @@
 //! dynamic units: it takes and returns uom quantities and plain structs.
 
 pub mod air;
+pub mod dryers;
 pub mod psychrometric_chart;
 pub mod solve;
+pub mod transfer;
 pub mod transport;

@@ -1,6 +1,7 @@
 //! The evaluator: forces named values through the dependency graph and
 //! evaluates expressions, attaching spans to span-less unit errors.
 
+use std::collections::hash_map::Entry;
 use std::collections::HashSet;
 use std::path::PathBuf;
 
@@ -264,16 +265,7 @@ impl<'a> Ctx<'a> {
 
     /// The value an operand stands for.
     fn view<'s>(&'s self, o: &'s Operand) -> &'s Value {
-        static MISSING: Value = Value::Bool(false);
-        match o {
-            Operand::Owned(v) => v,
-            Operand::Param(n) => self
-                .frame
-                .as_ref()
-                .and_then(|f| f.get(*n))
-                .unwrap_or(&MISSING),
-            Operand::Global(n) => self.sheet.cache.get(*n).unwrap_or(&MISSING),
-        }
+        view(&self.frame, &self.sheet.cache, o)
     }
 
     fn name(&mut self, n: &str, span: Span) -> Flow<Value> {
@@ -303,7 +295,7 @@ impl<'a> Ctx<'a> {
     fn unit_ref(&mut self, u: &UnitExpr) -> Flow<&Unit> {
         let key = (u.span.file, u.span.start);
         if !self.sheet.units.contains_key(&key) {
-            let unit = resolve_unit(u)?;
+            let unit = resolve_by_text(&mut self.sheet.unit_texts, self.sources, u)?;
             self.sheet.units.insert(key, unit);
         }
         self.sheet.units.get(&key).ok_or(Stop::Reported)
@@ -391,17 +383,34 @@ impl<'a> Ctx<'a> {
 
     fn shown_as(&mut self, a: &Expr, u: &UnitExpr) -> Flow<Value> {
         let v = self.operand(a)?;
-        self.unit_ref(u)?;
-        let unit = self.sheet.units.get(&(u.span.file, u.span.start));
-        let shown = match unit {
-            Some(unit) => show_in(self.view(&v), unit),
-            None => return Err(Stop::Reported),
+        let unit = match self.sheet.units.entry((u.span.file, u.span.start)) {
+            Entry::Occupied(e) => e.into_mut(),
+            Entry::Vacant(e) => e.insert(resolve_by_text(
+                &mut self.sheet.unit_texts,
+                self.sources,
+                u,
+            )?),
         };
-        shown.map_err(|msg| {
+        show_in(view(&self.frame, &self.sheet.cache, &v), unit).map_err(|msg| {
             let mut d = Diagnostic::error(u.span, msg);
             d.hints.push((Some(a.span), "this value".into()));
             d.into()
         })
+    }
+}
+
+/// The value an operand stands for (a free function so that callers can
+/// borrow other parts of the context at the same time).
+fn view<'s>(
+    frame: &'s Option<super::FastMap<String, Value>>,
+    cache: &'s super::FastMap<String, Value>,
+    o: &'s Operand,
+) -> &'s Value {
+    static MISSING: Value = Value::Bool(false);
+    match o {
+        Operand::Owned(v) => v,
+        Operand::Param(n) => frame.as_ref().and_then(|f| f.get(*n)).unwrap_or(&MISSING),
+        Operand::Global(n) => cache.get(*n).unwrap_or(&MISSING),
     }
 }
 
@@ -474,6 +483,24 @@ fn op_error(e: OpError, span: Span, a: Span, b: Span) -> Diagnostic {
         d.hints.push((None, h));
     }
     d
+}
+
+/// Resolve a unit, reusing an earlier resolution of the same text.
+fn resolve_by_text(
+    texts: &mut super::FastMap<String, Unit>,
+    sources: &Sources,
+    u: &UnitExpr,
+) -> Result<Unit, Diagnostic> {
+    let text = sources.slice(u.span);
+    if text.is_empty() {
+        return resolve_unit(u);
+    }
+    if let Some(unit) = texts.get(text) {
+        return Ok(unit.clone());
+    }
+    let unit = resolve_unit(u)?;
+    texts.insert(text.to_string(), unit.clone());
+    Ok(unit)
 }
 
 /// Build a unit from a unit expression.

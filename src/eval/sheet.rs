@@ -57,6 +57,8 @@ pub struct Sheet {
     pub overrides: FastMap<String, Value>,
     /// Resolved units of literals and `as`, keyed by (file, start).
     pub units: FastMap<(u32, u32), Unit>,
+    /// Resolved units by their text (`kg/m^2`), so each is looked up once.
+    pub unit_texts: FastMap<String, Unit>,
     /// Directory `load` paths are relative to.
     pub dir: PathBuf,
 }
@@ -237,7 +239,7 @@ pub fn definition(stmt: &Stmt) -> Option<Def> {
         name: name.clone(),
         kind,
         params,
-        expr: Arc::new(expr.clone()),
+        expr: expr.clone(),
         deps,
         span: stmt.span,
     })

@@ -13,6 +13,8 @@ use crate::diag::{Diagnostic, Span};
 use crate::units::{describe_dim, Dim, Quantity};
 use crate::value::{Record, Value};
 
+pub mod transfer;
+
 /// What a parameter accepts, for docs, completion and checking.
 #[derive(Clone, Copy, Debug)]
 pub struct Param {
@@ -240,6 +242,7 @@ pub fn registry() -> &'static [&'static Builtin] {
             chart::BUILTINS,
             math::BUILTINS,
             plot::BUILTINS,
+            transfer::BUILTINS,
         ];
         let mut all: Vec<&'static Builtin> = FAMILIES.iter().flat_map(|f| f.iter()).collect();
         all.sort_by_key(|b| b.name);

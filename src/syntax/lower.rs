@@ -85,19 +85,19 @@ impl Lower {
                 let name = self.defined(next(&mut inner)?)?;
                 StmtKind::Input {
                     name,
-                    expr: self.expr(next(&mut inner)?)?,
+                    expr: self.expr(next(&mut inner)?)?.into(),
                 }
             }
-            Rule::check_stmt => StmtKind::Check(self.expr(next(&mut inner)?)?),
+            Rule::check_stmt => StmtKind::Check(self.expr(next(&mut inner)?)?.into()),
             Rule::binding => {
                 let name = self.defined(next(&mut inner)?)?;
                 StmtKind::Binding {
                     name,
-                    expr: self.expr(next(&mut inner)?)?,
+                    expr: self.expr(next(&mut inner)?)?.into(),
                 }
             }
             Rule::function_def => self.function_def(inner.collect())?,
-            _ => StmtKind::Show(self.expr(next(&mut inner)?)?),
+            _ => StmtKind::Show(self.expr(next(&mut inner)?)?.into()),
         };
         Ok(Stmt { kind, span })
     }
@@ -119,7 +119,11 @@ impl Lower {
             }
         }
         let body = body.ok_or_else(|| Diagnostic::error(name.span, "function has no body"))?;
-        Ok(StmtKind::Function { name, params, body })
+        Ok(StmtKind::Function {
+            name,
+            params,
+            body: body.into(),
+        })
     }
 
     /// A name being defined: keywords are refused.
@@ -601,7 +605,7 @@ mod tests {
 
     fn show(text: &str) -> ExprKind {
         match stmt(text).kind {
-            StmtKind::Show(e) => e.kind,
+            StmtKind::Show(e) => e.kind.clone(),
             other => panic!("`{text}` is not a bare expression: {other:?}"),
         }
     }
