@@ -238,7 +238,7 @@ impl<'a> Ctx<'a> {
 
     fn expr_kind(&mut self, e: &Expr) -> Flow<Value> {
         match &e.kind {
-            ExprKind::Quantity { value, unit } => self.quantity(*value, unit.as_ref()),
+            ExprKind::Quantity { value, unit } => self.quantity(*value, unit.as_ref(), e.span),
             ExprKind::Bool(b) => Ok(Value::Bool(*b)),
             ExprKind::Str(s) => Ok(Value::Str(s.clone())),
             ExprKind::Name(n) => self.name(n, e.span),
@@ -283,13 +283,21 @@ impl<'a> Ctx<'a> {
         self.force(n, span)
     }
 
-    fn quantity(&mut self, value: f64, unit: Option<&UnitExpr>) -> Flow<Value> {
+    fn quantity(&mut self, value: f64, unit: Option<&UnitExpr>, span: Span) -> Flow<Value> {
         match unit {
             None => Ok(Value::Quantity(Quantity::number(value), None)),
             Some(u) => {
                 let unit = self.unit(u)?;
-                let q = unit.to_si(value);
-                Ok(Value::Quantity(q, Some(unit)))
+                match unit.try_to_si(value) {
+                    Ok(q) => Ok(Value::Quantity(q, Some(unit))),
+                    Err(e) => {
+                        let mut d = Diagnostic::error(span, e.message);
+                        for h in e.hints {
+                            d = d.with_hint(h);
+                        }
+                        Err(d.into())
+                    }
+                }
             }
         }
     }
