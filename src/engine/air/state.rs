@@ -155,11 +155,14 @@ fn w_for_enthalpy(t: f64, p: f64, target: f64, hc: f64) -> Result<f64, AirError>
     })
 }
 
-/// The adiabatic-saturation residual `g(T*)` and an estimate of its slope, J/kg.
+/// The adiabatic-saturation balance in log form, and an estimate of its slope, 1/K.
 ///
-/// `g = h(T*, w_s*) - h1 - (w_s* - w) h_c(T*)`; the slope uses Clausius-Clapeyron
-/// for `dw_s*/dT*` and round specific heats (a start for Newton's method; the
-/// solver refines it by secants).
+/// The balance `h(T*, w_s*) - h1 - (w_s* - w) h_c(T*) = 0` is
+/// `w_s* (h_v* - h_c) = h1 - h_a(T*) - w h_c` (vapour "supply" = sensible "demand",
+/// h_a the enthalpy of everything but the vapour). The residual is the log of
+/// their ratio: same sign, nearly linear in T* (the supply grows like p_ws), so
+/// Newton's method needs few steps. The slope uses Clausius-Clapeyron for
+/// `d ln w_s*/dT*` and round specific heats; the solver refines it by secants.
 fn wet_bulb_residual(ts: f64, w: f64, p: f64, h1: f64, ice: bool) -> (f64, f64) {
     let pvs = sat::saturated_vapour_pressure(ts, p);
     if pvs >= p {
@@ -172,10 +175,15 @@ fn wet_bulb_residual(ts: f64, w: f64, p: f64, h1: f64, ice: bool) -> (f64, f64) 
     } else {
         (thermo::liquid_enthalpy(ts), 4186.0)
     };
-    let g = thermo::air_part_enthalpy(ts, p - pvs, pvs) + ws * hv - h1 - (ws - w) * hc;
     let latent = hv - hc;
-    let dws = ws * p / (p - pvs) * latent / (thermo::R_WATER_IF97 * ts * ts);
-    (g, 1006.0 + 1880.0 * ws + dws * latent - (ws - w) * cc)
+    let supply = ws * latent;
+    let demand = h1 - thermo::air_part_enthalpy(ts, p - pvs, pvs) - w * hc;
+    if demand <= 0.0 {
+        return (f64::INFINITY, f64::INFINITY);
+    }
+    let dln_ws = p / (p - pvs) * latent / (thermo::R_WATER_IF97 * ts * ts);
+    let slope = dln_ws + (1880.0 - cc) / latent + (1006.0 + w * cc) / demand;
+    ((supply / demand).ln(), slope)
 }
 
 impl AirState {
