@@ -522,9 +522,7 @@ impl AirState {
         // Over liquid water when a root at or above 0 degC exists, else over ice.
         let (lo, hi, ice) = if hi < T_ZERO_C {
             (T_MIN_SATURATION, hi, true)
-        } else if dew >= T_ZERO_C + 2.0 {
-            (T_ZERO_C, hi, false)
-        } else if wet_bulb_residual(T_ZERO_C, w, p, h1, false).0 <= 0.0 {
+        } else if dew >= T_ZERO_C + 2.0 || wet_bulb_residual(T_ZERO_C, w, p, h1, false).0 <= 0.0 {
             (T_ZERO_C, hi, false)
         } else {
             (T_MIN_SATURATION, T_ZERO_C, true)

@@ -66,8 +66,9 @@ pub fn air_residual_enthalpy(t: f64, pa: f64, pv: f64) -> f64 {
 
 /// Residual enthalpy of dry air at the reference state (0 degC, 101.325 kPa), J/kg.
 fn air_residual_reference() -> f64 {
-    static VALUE: std::sync::LazyLock<f64> =
-        std::sync::LazyLock::new(|| air_residual_enthalpy(super::saturation::T_ZERO_C, P_REFERENCE, 0.0));
+    static VALUE: std::sync::LazyLock<f64> = std::sync::LazyLock::new(|| {
+        air_residual_enthalpy(super::saturation::T_ZERO_C, P_REFERENCE, 0.0)
+    });
     *VALUE
 }
 
