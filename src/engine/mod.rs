@@ -2,5 +2,7 @@
 //! dynamic units: it takes and returns uom quantities and plain structs.
 
 pub mod air;
+pub mod dryers;
 pub mod solve;
+pub mod transfer;
 pub mod transport;

@@ -11,6 +11,8 @@ use crate::diag::{Diagnostic, Span};
 use crate::units::{describe_dim, Dim, Quantity};
 use crate::value::{Record, Value};
 
+pub mod transfer;
+
 /// What a parameter accepts, for docs, completion and checking.
 #[derive(Clone, Copy, Debug)]
 pub struct Param {
@@ -236,6 +238,7 @@ pub fn registry() -> &'static [&'static Builtin] {
             // one line per family, e.g. air::BUILTINS,
             air::BUILTINS,
             math::BUILTINS,
+            transfer::BUILTINS,
         ];
         let mut all: Vec<&'static Builtin> = FAMILIES.iter().flat_map(|f| f.iter()).collect();
         all.sort_by_key(|b| b.name);
@@ -248,10 +251,3 @@ pub fn find(name: &str) -> Option<&'static Builtin> {
     registry().iter().copied().find(|b| b.name == name)
 }
 
-
-/// Every built-in, grouped by family (families alphabetical), then by name.
-pub fn registry_by_family() -> Vec<&'static Builtin> {
-    let mut all: Vec<&'static Builtin> = registry().to_vec();
-    all.sort_by_key(|b| (b.family, b.name));
-    all
-}

@@ -7,10 +7,7 @@
 use std::sync::OnceLock;
 
 use uom::si::f64::ThermodynamicTemperature;
-use uom::si::{
-    amount_of_substance as amount, angle, electric_current as current, energy, force, length, mass,
-    power, pressure, ratio, thermodynamic_temperature as temp, time, volume,
-};
+use uom::si::thermodynamic_temperature as temp;
 use uom::Conversion;
 
 use super::{Dim, Kind};
@@ -53,9 +50,13 @@ pub struct BaseUnit {
     pub factor: f64,
     /// SI offset (kelvin at zero of the scale) for degC and degF, else zero.
     pub offset: f64,
+    /// Dimension.
     pub dim: Dim,
+    /// Kind of the quantities it makes.
     pub kind: Kind,
+    /// Linear or wet-basis reading.
     pub scale: Scale,
+    /// Dry-air or dry-solid mass marker.
     pub basis: Basis,
     /// Whether SI prefixes apply (`kPa`, `mm`, `kWh`).
     pub prefixable: bool,
@@ -74,28 +75,13 @@ where
     ThermodynamicTemperature::new::<U>(0.0).value
 }
 
+/// One catalogue row before its kind is set.
 struct Spec {
     symbol: &'static str,
     name: &'static str,
     source: &'static str,
     factor: f64,
     dim: Dim,
-}
-
-fn spec(
-    symbol: &'static str,
-    name: &'static str,
-    source: &'static str,
-    factor: f64,
-    dim: Dim,
-) -> Spec {
-    Spec {
-        symbol,
-        name,
-        source,
-        factor,
-        dim,
-    }
 }
 
 impl Spec {
@@ -121,6 +107,61 @@ impl Spec {
     fn plain(self) -> BaseUnit {
         self.unit(Kind::Plain, false)
     }
+    /// A temperature-difference unit (`delta_degC`).
+    fn difference(self) -> BaseUnit {
+        self.unit(Kind::TemperatureDifference, false)
+    }
+    /// A mass of dry air (`kg_da`).
+    fn dry_air(self) -> BaseUnit {
+        BaseUnit {
+            basis: Basis::DryAir,
+            ..self.plain()
+        }
+    }
+    /// A mass of dry solid (`kg_ds`).
+    fn dry_solid(self) -> BaseUnit {
+        BaseUnit {
+            basis: Basis::DrySolid,
+            ..self.plain()
+        }
+    }
+    /// A percentage (`%`).
+    fn fraction(self) -> BaseUnit {
+        self.unit(Kind::Fraction, false)
+    }
+    /// A dry-basis moisture unit (`db`).
+    fn moisture(self) -> BaseUnit {
+        self.unit(Kind::Moisture, false)
+    }
+    /// A wet-basis moisture unit (`wb`): read through X = w/(1-w).
+    fn wet_basis(self) -> BaseUnit {
+        BaseUnit {
+            scale: Scale::WetBasis,
+            ..self.moisture()
+        }
+    }
+    /// A relative humidity or water activity unit (`aw`).
+    fn activity(self) -> BaseUnit {
+        self.unit(Kind::Activity, false)
+    }
+}
+
+/// Catalogue rows: `symbol, name, uom unit path under uom::si, dimension, role;`.
+/// The factor is the uom unit's coefficient and the source text is its path,
+/// so the two cannot drift apart.
+macro_rules! rows {
+    ($( $sym:literal, $name:literal, $first:ident $(:: $rest:ident)*, $dim:expr, $role:ident; )*) => {
+        vec![$(
+            Spec {
+                symbol: $sym,
+                name: $name,
+                source: concat!("uom::si::", stringify!($first) $(, "::", stringify!($rest))*),
+                factor: coef::<uom::si::$first $(:: $rest)*>(),
+                dim: $dim,
+            }
+            .$role(),
+        )*]
+    };
 }
 
 /// Every named unit, built once.
@@ -132,628 +173,148 @@ pub fn base_units() -> &'static [BaseUnit] {
 fn build_table() -> Vec<BaseUnit> {
     let mut t = Vec::new();
     t.extend(mechanical_units());
+    t.extend(energy_units());
     t.extend(thermal_units());
-    t.extend(dry_mass_units());
     t.extend(ratio_units());
     t
 }
 
+const FORCE: Dim = Dim([1, 1, -2, 0, 0, 0, 0]);
+
+#[rustfmt::skip]
 fn mechanical_units() -> Vec<BaseUnit> {
     use Dim as D;
-    vec![
-        spec(
-            "m",
-            "metre",
-            "uom::si::length::meter",
-            coef::<length::meter>(),
-            D::LENGTH,
-        )
-        .si(),
-        spec(
-            "ft",
-            "foot",
-            "uom::si::length::foot",
-            coef::<length::foot>(),
-            D::LENGTH,
-        )
-        .plain(),
-        spec(
-            "in",
-            "inch",
-            "uom::si::length::inch",
-            coef::<length::inch>(),
-            D::LENGTH,
-        )
-        .plain(),
-        spec(
-            "yd",
-            "yard",
-            "uom::si::length::yard",
-            coef::<length::yard>(),
-            D::LENGTH,
-        )
-        .plain(),
-        spec(
-            "mi",
-            "mile",
-            "uom::si::length::mile",
-            coef::<length::mile>(),
-            D::LENGTH,
-        )
-        .plain(),
-        spec(
-            "kg",
-            "kilogram",
-            "uom::si::mass::kilogram",
-            coef::<mass::kilogram>(),
-            D::MASS,
-        )
-        .plain(),
-        spec(
-            "g",
-            "gram",
-            "uom::si::mass::gram",
-            coef::<mass::gram>(),
-            D::MASS,
-        )
-        .si(),
-        spec(
-            "t",
-            "tonne",
-            "uom::si::mass::ton",
-            coef::<mass::ton>(),
-            D::MASS,
-        )
-        .plain(),
-        spec(
-            "lb",
-            "pound (avoirdupois)",
-            "uom::si::mass::pound",
-            coef::<mass::pound>(),
-            D::MASS,
-        )
-        .plain(),
-        spec(
-            "oz",
-            "ounce (avoirdupois)",
-            "uom::si::mass::ounce",
-            coef::<mass::ounce>(),
-            D::MASS,
-        )
-        .plain(),
-        spec(
-            "gr",
-            "grain",
-            "uom::si::mass::grain",
-            coef::<mass::grain>(),
-            D::MASS,
-        )
-        .plain(),
-        spec(
-            "s",
-            "second",
-            "uom::si::time::second",
-            coef::<time::second>(),
-            D::TIME,
-        )
-        .si(),
-        spec(
-            "min",
-            "minute",
-            "uom::si::time::minute",
-            coef::<time::minute>(),
-            D::TIME,
-        )
-        .plain(),
-        spec(
-            "h",
-            "hour",
-            "uom::si::time::hour",
-            coef::<time::hour>(),
-            D::TIME,
-        )
-        .plain(),
-        spec(
-            "d",
-            "day",
-            "uom::si::time::day",
-            coef::<time::day>(),
-            D::TIME,
-        )
-        .plain(),
-        spec(
-            "mol",
-            "mole",
-            "uom::si::amount_of_substance::mole",
-            coef::<amount::mole>(),
-            D::AMOUNT,
-        )
-        .si(),
-        spec(
-            "A",
-            "ampere",
-            "uom::si::electric_current::ampere",
-            coef::<current::ampere>(),
-            D::CURRENT,
-        )
-        .si(),
-        spec(
-            "rad",
-            "radian",
-            "uom::si::angle::radian",
-            coef::<angle::radian>(),
-            D::NONE,
-        )
-        .si(),
-        spec(
-            "N",
-            "newton",
-            "uom::si::force::newton",
-            coef::<force::newton>(),
-            Dim([1, 1, -2, 0, 0, 0, 0]),
-        )
-        .si(),
-        spec(
-            "lbf",
-            "pound-force",
-            "uom::si::force::pound_force",
-            coef::<force::pound_force>(),
-            Dim([1, 1, -2, 0, 0, 0, 0]),
-        )
-        .plain(),
-        spec(
-            "Pa",
-            "pascal",
-            "uom::si::pressure::pascal",
-            coef::<pressure::pascal>(),
-            D::PRESSURE,
-        )
-        .si(),
-        spec(
-            "bar",
-            "bar",
-            "uom::si::pressure::bar",
-            coef::<pressure::bar>(),
-            D::PRESSURE,
-        )
-        .si(),
-        spec(
-            "atm",
-            "standard atmosphere",
-            "uom::si::pressure::atmosphere",
-            coef::<pressure::atmosphere>(),
-            D::PRESSURE,
-        )
-        .plain(),
-        spec(
-            "psi",
-            "pound-force per square inch",
-            "uom::si::pressure::psi",
-            coef::<pressure::psi>(),
-            D::PRESSURE,
-        )
-        .plain(),
-        spec(
-            "inHg",
-            "inch of mercury (conventional)",
-            "uom::si::pressure::inch_of_mercury",
-            coef::<pressure::inch_of_mercury>(),
-            D::PRESSURE,
-        )
-        .plain(),
-        spec(
-            "mmHg",
-            "millimetre of mercury (conventional)",
-            "uom::si::pressure::millimeter_of_mercury",
-            coef::<pressure::millimeter_of_mercury>(),
-            D::PRESSURE,
-        )
-        .plain(),
-        spec(
-            "inH2O",
-            "inch of water (conventional)",
-            "uom::si::pressure::inch_of_water",
-            coef::<pressure::inch_of_water>(),
-            D::PRESSURE,
-        )
-        .plain(),
-        spec(
-            "mmH2O",
-            "millimetre of water (conventional)",
-            "uom::si::pressure::millimeter_of_water",
-            coef::<pressure::millimeter_of_water>(),
-            D::PRESSURE,
-        )
-        .plain(),
-        spec(
-            "J",
-            "joule",
-            "uom::si::energy::joule",
-            coef::<energy::joule>(),
-            D::ENERGY,
-        )
-        .si(),
-        spec(
-            "Wh",
-            "watt hour",
-            "uom::si::energy::watt_hour",
-            coef::<energy::watt_hour>(),
-            D::ENERGY,
-        )
-        .si(),
-        spec(
-            "BTU",
-            "British thermal unit (International Table)",
-            "uom::si::energy::btu_it",
-            coef::<energy::btu_it>(),
-            D::ENERGY,
-        )
-        .plain(),
-        spec(
-            "Btu",
-            "British thermal unit (International Table)",
-            "uom::si::energy::btu_it",
-            coef::<energy::btu_it>(),
-            D::ENERGY,
-        )
-        .plain(),
-        spec(
-            "cal",
-            "calorie (International Table)",
-            "uom::si::energy::calorie_it",
-            coef::<energy::calorie_it>(),
-            D::ENERGY,
-        )
-        .plain(),
-        spec(
-            "kcal",
-            "kilocalorie (International Table)",
-            "uom::si::energy::kilocalorie_it",
-            coef::<energy::kilocalorie_it>(),
-            D::ENERGY,
-        )
-        .plain(),
-        spec(
-            "cal_th",
-            "calorie (thermochemical)",
-            "uom::si::energy::calorie",
-            coef::<energy::calorie>(),
-            D::ENERGY,
-        )
-        .plain(),
-        spec(
-            "kcal_th",
-            "kilocalorie (thermochemical)",
-            "uom::si::energy::kilocalorie",
-            coef::<energy::kilocalorie>(),
-            D::ENERGY,
-        )
-        .plain(),
-        spec(
-            "W",
-            "watt",
-            "uom::si::power::watt",
-            coef::<power::watt>(),
-            D::POWER,
-        )
-        .si(),
-        spec(
-            "hp",
-            "horsepower (mechanical, 550 ft lbf/s)",
-            "uom::si::power::horsepower",
-            coef::<power::horsepower>(),
-            D::POWER,
-        )
-        .plain(),
-        spec(
-            "L",
-            "litre",
-            "uom::si::volume::liter",
-            coef::<volume::liter>(),
-            D::VOLUME,
-        )
-        .si(),
-        spec(
-            "gal",
-            "gallon (US liquid)",
-            "uom::si::volume::gallon",
-            coef::<volume::gallon>(),
-            D::VOLUME,
-        )
-        .plain(),
+    rows![
+        "m", "metre", length::meter, D::LENGTH, si;
+        "ft", "foot", length::foot, D::LENGTH, plain;
+        "in", "inch", length::inch, D::LENGTH, plain;
+        "yd", "yard", length::yard, D::LENGTH, plain;
+        "mi", "mile", length::mile, D::LENGTH, plain;
+        "kg", "kilogram", mass::kilogram, D::MASS, plain;
+        "g", "gram", mass::gram, D::MASS, si;
+        "t", "tonne", mass::ton, D::MASS, plain;
+        "lb", "pound (avoirdupois)", mass::pound, D::MASS, plain;
+        "oz", "ounce (avoirdupois)", mass::ounce, D::MASS, plain;
+        "gr", "grain", mass::grain, D::MASS, plain;
+        "kg_da", "kilogram of dry air", mass::kilogram, D::MASS, dry_air;
+        "lb_da", "pound of dry air", mass::pound, D::MASS, dry_air;
+        "kg_ds", "kilogram of dry solid", mass::kilogram, D::MASS, dry_solid;
+        "lb_ds", "pound of dry solid", mass::pound, D::MASS, dry_solid;
+        "s", "second", time::second, D::TIME, si;
+        "min", "minute", time::minute, D::TIME, plain;
+        "h", "hour", time::hour, D::TIME, plain;
+        "d", "day", time::day, D::TIME, plain;
+        "mol", "mole", amount_of_substance::mole, D::AMOUNT, si;
+        "A", "ampere", electric_current::ampere, D::CURRENT, si;
+        "rad", "radian", angle::radian, D::NONE, si;
+        "N", "newton", force::newton, FORCE, si;
+        "lbf", "pound-force", force::pound_force, FORCE, plain;
+        "Pa", "pascal", pressure::pascal, D::PRESSURE, si;
+        "bar", "bar", pressure::bar, D::PRESSURE, si;
+        "atm", "standard atmosphere", pressure::atmosphere, D::PRESSURE, plain;
+        "psi", "pound-force per square inch", pressure::psi, D::PRESSURE, plain;
+        "inHg", "inch of mercury (conventional)", pressure::inch_of_mercury, D::PRESSURE, plain;
+        "mmHg", "millimetre of mercury (conventional)", pressure::millimeter_of_mercury, D::PRESSURE, plain;
+        "inH2O", "inch of water (conventional)", pressure::inch_of_water, D::PRESSURE, plain;
+        "mmH2O", "millimetre of water (conventional)", pressure::millimeter_of_water, D::PRESSURE, plain;
+        "L", "litre", volume::liter, D::VOLUME, si;
+        "gal", "gallon (US liquid)", volume::gallon, D::VOLUME, plain;
     ]
 }
 
+#[rustfmt::skip]
+fn energy_units() -> Vec<BaseUnit> {
+    use Dim as D;
+    rows![
+        "J", "joule", energy::joule, D::ENERGY, si;
+        "Wh", "watt hour", energy::watt_hour, D::ENERGY, si;
+        "BTU", "British thermal unit (International Table)", energy::btu_it, D::ENERGY, plain;
+        "Btu", "British thermal unit (International Table)", energy::btu_it, D::ENERGY, plain;
+        "cal", "calorie (International Table)", energy::calorie_it, D::ENERGY, plain;
+        "kcal", "kilocalorie (International Table)", energy::kilocalorie_it, D::ENERGY, plain;
+        "cal_th", "calorie (thermochemical)", energy::calorie, D::ENERGY, plain;
+        "kcal_th", "kilocalorie (thermochemical)", energy::kilocalorie, D::ENERGY, plain;
+        "W", "watt", power::watt, D::POWER, si;
+        "hp", "horsepower (mechanical, 550 ft lbf/s)", power::horsepower, D::POWER, plain;
+    ]
+}
+
+#[rustfmt::skip]
 fn thermal_units() -> Vec<BaseUnit> {
     let t = Dim::TEMPERATURE;
-    let mut celsius = spec(
-        "degC",
-        "degree Celsius",
-        "uom::si::thermodynamic_temperature::degree_celsius",
-        coef::<temp::degree_celsius>(),
-        t,
-    )
-    .unit(Kind::AbsoluteTemperature, false);
-    celsius.offset = zero_of::<temp::degree_celsius>();
-    let mut fahrenheit = spec(
-        "degF",
-        "degree Fahrenheit",
-        "uom::si::thermodynamic_temperature::degree_fahrenheit",
-        coef::<temp::degree_fahrenheit>(),
-        t,
-    )
-    .unit(Kind::AbsoluteTemperature, false);
-    fahrenheit.offset = zero_of::<temp::degree_fahrenheit>();
-    vec![
-        spec(
-            "K",
-            "kelvin",
-            "uom::si::thermodynamic_temperature::kelvin",
-            coef::<temp::kelvin>(),
-            t,
-        )
-        .si(),
-        celsius,
-        fahrenheit,
-        spec(
-            "degR",
-            "degree Rankine",
-            "uom::si::thermodynamic_temperature::degree_rankine",
-            coef::<temp::degree_rankine>(),
-            t,
-        )
-        .plain(),
-        spec(
-            "delta_degC",
-            "degree Celsius (difference)",
-            "uom::si::temperature_interval::degree_celsius",
-            coef::<uom::si::temperature_interval::degree_celsius>(),
-            t,
-        )
-        .unit(Kind::TemperatureDifference, false),
-        spec(
-            "delta_degF",
-            "degree Fahrenheit (difference)",
-            "uom::si::temperature_interval::degree_fahrenheit",
-            coef::<uom::si::temperature_interval::degree_fahrenheit>(),
-            t,
-        )
-        .unit(Kind::TemperatureDifference, false),
-    ]
+    let mut out = rows![
+        "K", "kelvin", thermodynamic_temperature::kelvin, t, si;
+        "degC", "degree Celsius", thermodynamic_temperature::degree_celsius, t, plain;
+        "degF", "degree Fahrenheit", thermodynamic_temperature::degree_fahrenheit, t, plain;
+        "degR", "degree Rankine", thermodynamic_temperature::degree_rankine, t, plain;
+        "delta_degC", "degree Celsius (difference)", temperature_interval::degree_celsius, t, difference;
+        "delta_degF", "degree Fahrenheit (difference)", temperature_interval::degree_fahrenheit, t, difference;
+    ];
+    // Bare degC and degF are absolute temperatures on an offset scale.
+    make_absolute(&mut out, "degC", zero_of::<temp::degree_celsius>());
+    make_absolute(&mut out, "degF", zero_of::<temp::degree_fahrenheit>());
+    out
 }
 
-fn dry_mass_units() -> Vec<BaseUnit> {
-    let with = |mut u: BaseUnit, basis: Basis| {
-        u.basis = basis;
-        u
-    };
-    let kg = coef::<mass::kilogram>();
-    let lb = coef::<mass::pound>();
-    vec![
-        with(
-            spec(
-                "kg_da",
-                "kilogram of dry air",
-                "uom::si::mass::kilogram",
-                kg,
-                Dim::MASS,
-            )
-            .plain(),
-            Basis::DryAir,
-        ),
-        with(
-            spec(
-                "lb_da",
-                "pound of dry air",
-                "uom::si::mass::pound",
-                lb,
-                Dim::MASS,
-            )
-            .plain(),
-            Basis::DryAir,
-        ),
-        with(
-            spec(
-                "kg_ds",
-                "kilogram of dry solid",
-                "uom::si::mass::kilogram",
-                kg,
-                Dim::MASS,
-            )
-            .plain(),
-            Basis::DrySolid,
-        ),
-        with(
-            spec(
-                "lb_ds",
-                "pound of dry solid",
-                "uom::si::mass::pound",
-                lb,
-                Dim::MASS,
-            )
-            .plain(),
-            Basis::DrySolid,
-        ),
-    ]
+/// Mark the row `symbol` as an absolute-temperature scale whose zero lies at
+/// `zero_kelvin`.
+fn make_absolute(rows: &mut [BaseUnit], symbol: &str, zero_kelvin: f64) {
+    for row in rows.iter_mut().filter(|r| r.symbol == symbol) {
+        row.offset = zero_kelvin;
+        row.kind = Kind::AbsoluteTemperature;
+    }
 }
 
+#[rustfmt::skip]
 fn ratio_units() -> Vec<BaseUnit> {
-    let one = coef::<ratio::ratio>();
-    let pct = coef::<ratio::percent>();
     let none = Dim::NONE;
-    let wet = |mut u: BaseUnit| {
-        u.scale = Scale::WetBasis;
-        u
-    };
-    vec![
-        spec("%", "percent", "uom::si::ratio::percent", pct, none).unit(Kind::Fraction, false),
-        spec(
-            "db",
-            "moisture content, dry basis (kg water/kg dry solid)",
-            "uom::si::ratio::ratio",
-            one,
-            none,
-        )
-        .unit(Kind::Moisture, false),
-        wet(spec(
-            "wb",
-            "moisture content, wet basis (kg water/kg wet material)",
-            "uom::si::ratio::ratio",
-            one,
-            none,
-        )
-        .unit(Kind::Moisture, false)),
-        spec(
-            "%db",
-            "moisture content, dry basis, in percent",
-            "uom::si::ratio::percent",
-            pct,
-            none,
-        )
-        .unit(Kind::Moisture, false),
-        wet(spec(
-            "%wb",
-            "moisture content, wet basis, in percent",
-            "uom::si::ratio::percent",
-            pct,
-            none,
-        )
-        .unit(Kind::Moisture, false)),
-        spec(
-            "aw",
-            "water activity (0..1)",
-            "uom::si::ratio::ratio",
-            one,
-            none,
-        )
-        .unit(Kind::Activity, false),
-        spec(
-            "%rh",
-            "relative humidity in percent",
-            "uom::si::ratio::percent",
-            pct,
-            none,
-        )
-        .unit(Kind::Activity, false),
+    rows![
+        "%", "percent", ratio::percent, none, fraction;
+        "db", "moisture content, dry basis (kg water/kg dry solid)", ratio::ratio, none, moisture;
+        "wb", "moisture content, wet basis (kg water/kg wet material)", ratio::ratio, none, wet_basis;
+        "%db", "moisture content, dry basis, in percent", ratio::percent, none, moisture;
+        "%wb", "moisture content, wet basis, in percent", ratio::percent, none, wet_basis;
+        "aw", "water activity (0..1)", ratio::ratio, none, activity;
+        "%rh", "relative humidity in percent", ratio::percent, none, activity;
     ]
 }
 
 /// An SI prefix: symbol and factor.
 #[derive(Clone, Copy, Debug)]
 pub struct Prefix {
+    /// Symbol, e.g. `k`.
     pub symbol: &'static str,
+    /// Name, e.g. "kilo".
     pub name: &'static str,
+    /// Factor, e.g. 1000.
     pub factor: f64,
 }
 
 /// The SI prefixes, factors from uom's `prefix!` definitions. `u` is accepted
 /// as an ASCII spelling of micro.
+#[rustfmt::skip]
 pub const PREFIXES: &[Prefix] = &[
-    Prefix {
-        symbol: "Y",
-        name: "yotta",
-        factor: uom::prefix!(yotta),
-    },
-    Prefix {
-        symbol: "Z",
-        name: "zetta",
-        factor: uom::prefix!(zetta),
-    },
-    Prefix {
-        symbol: "E",
-        name: "exa",
-        factor: uom::prefix!(exa),
-    },
-    Prefix {
-        symbol: "P",
-        name: "peta",
-        factor: uom::prefix!(peta),
-    },
-    Prefix {
-        symbol: "T",
-        name: "tera",
-        factor: uom::prefix!(tera),
-    },
-    Prefix {
-        symbol: "G",
-        name: "giga",
-        factor: uom::prefix!(giga),
-    },
-    Prefix {
-        symbol: "M",
-        name: "mega",
-        factor: uom::prefix!(mega),
-    },
-    Prefix {
-        symbol: "k",
-        name: "kilo",
-        factor: uom::prefix!(kilo),
-    },
-    Prefix {
-        symbol: "h",
-        name: "hecto",
-        factor: uom::prefix!(hecto),
-    },
-    Prefix {
-        symbol: "da",
-        name: "deca",
-        factor: uom::prefix!(deca),
-    },
-    Prefix {
-        symbol: "d",
-        name: "deci",
-        factor: uom::prefix!(deci),
-    },
-    Prefix {
-        symbol: "c",
-        name: "centi",
-        factor: uom::prefix!(centi),
-    },
-    Prefix {
-        symbol: "m",
-        name: "milli",
-        factor: uom::prefix!(milli),
-    },
-    Prefix {
-        symbol: "µ",
-        name: "micro",
-        factor: uom::prefix!(micro),
-    },
-    Prefix {
-        symbol: "u",
-        name: "micro",
-        factor: uom::prefix!(micro),
-    },
-    Prefix {
-        symbol: "n",
-        name: "nano",
-        factor: uom::prefix!(nano),
-    },
-    Prefix {
-        symbol: "p",
-        name: "pico",
-        factor: uom::prefix!(pico),
-    },
-    Prefix {
-        symbol: "f",
-        name: "femto",
-        factor: uom::prefix!(femto),
-    },
-    Prefix {
-        symbol: "a",
-        name: "atto",
-        factor: uom::prefix!(atto),
-    },
-    Prefix {
-        symbol: "z",
-        name: "zepto",
-        factor: uom::prefix!(zepto),
-    },
-    Prefix {
-        symbol: "y",
-        name: "yocto",
-        factor: uom::prefix!(yocto),
-    },
+    Prefix { symbol: "Y", name: "yotta", factor: uom::prefix!(yotta) },
+    Prefix { symbol: "Z", name: "zetta", factor: uom::prefix!(zetta) },
+    Prefix { symbol: "E", name: "exa", factor: uom::prefix!(exa) },
+    Prefix { symbol: "P", name: "peta", factor: uom::prefix!(peta) },
+    Prefix { symbol: "T", name: "tera", factor: uom::prefix!(tera) },
+    Prefix { symbol: "G", name: "giga", factor: uom::prefix!(giga) },
+    Prefix { symbol: "M", name: "mega", factor: uom::prefix!(mega) },
+    Prefix { symbol: "k", name: "kilo", factor: uom::prefix!(kilo) },
+    Prefix { symbol: "h", name: "hecto", factor: uom::prefix!(hecto) },
+    Prefix { symbol: "da", name: "deca", factor: uom::prefix!(deca) },
+    Prefix { symbol: "d", name: "deci", factor: uom::prefix!(deci) },
+    Prefix { symbol: "c", name: "centi", factor: uom::prefix!(centi) },
+    Prefix { symbol: "m", name: "milli", factor: uom::prefix!(milli) },
+    Prefix { symbol: "µ", name: "micro", factor: uom::prefix!(micro) },
+    Prefix { symbol: "u", name: "micro", factor: uom::prefix!(micro) },
+    Prefix { symbol: "n", name: "nano", factor: uom::prefix!(nano) },
+    Prefix { symbol: "p", name: "pico", factor: uom::prefix!(pico) },
+    Prefix { symbol: "f", name: "femto", factor: uom::prefix!(femto) },
+    Prefix { symbol: "a", name: "atto", factor: uom::prefix!(atto) },
+    Prefix { symbol: "z", name: "zepto", factor: uom::prefix!(zepto) },
+    Prefix { symbol: "y", name: "yocto", factor: uom::prefix!(yocto) },
 ];
 
 /// Other spellings accepted for a symbol (resolved to the canonical symbol).

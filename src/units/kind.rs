@@ -74,14 +74,18 @@ pub enum KindClash {
     DifferenceAgainstAbsolute,
     /// Two different named ratios (e.g. moisture and humidity ratio).
     Ratios(Kind, Kind),
+    /// A `%` fraction with a moisture content or a humidity ratio: a percentage
+    /// does not say its basis (wet or dry, per kg of what).
+    AmbiguousPercent(Kind),
 }
 
 /// Kind of `a + b` (dimensions already equal).
 ///
 /// Rules: abs + abs is refused; abs + (difference or plain) is abs;
 /// difference + plain is a difference; two different named ratios are refused;
-/// a named ratio (or a fraction) with a plain number or a fraction keeps the
-/// ratio's kind.
+/// a named ratio with a plain number keeps the ratio's kind; a fraction (`%`)
+/// joins a relative humidity / activity but is refused with a moisture content
+/// or a humidity ratio, since a percentage does not say its basis.
 pub fn add_kind(a: Kind, b: Kind) -> Result<Kind, KindClash> {
     use Kind::*;
     match (a, b) {
@@ -130,6 +134,8 @@ fn ratio_kind(a: Kind, b: Kind) -> Result<Kind, KindClash> {
     match (a, b) {
         _ if a == b => Ok(a),
         _ if a.is_named_ratio() && b.is_named_ratio() => Err(KindClash::Ratios(a, b)),
+        (Moisture | HumidityRatio, Fraction) => Err(KindClash::AmbiguousPercent(a)),
+        (Fraction, Moisture | HumidityRatio) => Err(KindClash::AmbiguousPercent(b)),
         _ if a.is_named_ratio() => Ok(a),
         _ if b.is_named_ratio() => Ok(b),
         (Fraction, _) | (_, Fraction) => Ok(Fraction),

@@ -11,6 +11,7 @@
 //! | `names.rs` | named dimensions in words with their SI unit (`describe_dim`) |
 //! | `catalog.rs` | named units and SI prefixes, factors from uom |
 //! | `table.rs` | `Unit`: lookup, compound units, conversion to and from SI |
+//! | `parse.rs` | unit expressions as text (`W/(m^2*K)`) |
 //! | `format.rs` | showing quantities with fixed significant figures |
 //!
 //! The rules are written up for users in `docs/units.md`.
@@ -20,6 +21,7 @@ mod dim;
 mod format;
 mod kind;
 mod names;
+mod parse;
 mod quantity;
 mod table;
 
@@ -30,7 +32,8 @@ pub use format::{
 };
 pub use kind::{add_kind, compare_kinds, div_kind, mul_kind, sub_kind, Kind, KindClash};
 pub use names::{describe_dim_with_si, named_dim, si_symbol, NamedDim, NAMED_DIMS};
-pub use quantity::{Quantity, UnitError};
+pub use parse::{parse_unit, unknown_unit};
+pub use quantity::{Quantity, UnitError, EQUAL_REL_TOL};
 pub use table::{
     describe_dim, dry_from_wet, lookup_unit, suggest_unit, unit_names, wet_from_dry, Unit,
 };

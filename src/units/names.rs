@@ -9,6 +9,7 @@ use super::Dim;
 /// the language.
 #[derive(Clone, Copy, Debug)]
 pub struct NamedDim {
+    /// The dimension.
     pub dim: Dim,
     /// In words, e.g. "energy per mass".
     pub words: &'static str,
@@ -16,6 +17,7 @@ pub struct NamedDim {
     pub si: &'static str,
 }
 
+/// Dimension from exponents of length, mass, time, temperature, amount.
 const fn d(l: i8, m: i8, t: i8, th: i8, n: i8) -> Dim {
     Dim([l, m, t, 0, th, n, 0])
 }

@@ -11,19 +11,26 @@ use super::kind::{self, KindClash};
 use super::names::{describe_dim_with_si, named_dim};
 use super::{Dim, Kind};
 
+/// Relative difference below which [`Quantity::cmp`] calls two values equal.
+pub const EQUAL_REL_TOL: f64 = 1e-12;
+
 /// A quantity: SI magnitude, dimension and kind.
 #[derive(Clone, Copy, PartialEq, Debug)]
 pub struct Quantity {
     /// Magnitude in coherent SI units (kelvin for temperatures, dry basis for moisture).
     pub si: f64,
+    /// Dimension vector.
     pub dim: Dim,
+    /// What the quantity means beyond its dimension (see [`Kind`]).
     pub kind: Kind,
 }
 
 /// A span-less error from a unit or value operation; the evaluator attaches the span.
 #[derive(Clone, PartialEq, Debug)]
 pub struct UnitError {
+    /// What went wrong, naming dimensions in words and SI.
     pub message: String,
+    /// Suggestions, each a short sentence without the word "hint".
     pub hints: Vec<String>,
 }
 
@@ -210,11 +217,19 @@ impl Quantity {
 
     /// Compare with equal dimensions and compatible kinds.
     ///
+    /// Values within [`EQUAL_REL_TOL`] of each other (relative) are `Equal`, so
+    /// that `80 degC = 176 degF` and `1 ft = 12 in` hold despite the round-off
+    /// of unit conversions.
+    ///
     /// Named `cmp` by the shared API; it is fallible, so it is not `Ord::cmp`.
     #[allow(clippy::should_implement_trait)]
     pub fn cmp(&self, other: &Quantity) -> Result<Ordering, UnitError> {
         self.same_dim("comparison needs equal dimensions: ", other)?;
         kind::compare_kinds(self.kind, other.kind).map_err(|c| clash_error("compare", c))?;
+        let scale = self.si.abs().max(other.si.abs());
+        if (self.si - other.si).abs() <= EQUAL_REL_TOL * scale {
+            return Ok(Ordering::Equal);
+        }
         self.si
             .partial_cmp(&other.si)
             .ok_or_else(|| UnitError::new("cannot compare a value that is not a number"))
@@ -301,6 +316,9 @@ fn expect_kind_error(wanted: Kind, found: Kind) -> UnitError {
         (Kind::AbsoluteTemperature, Kind::TemperatureDifference) => {
             err.with_hint("add the difference to a temperature, e.g. T + dT")
         }
+        (Kind::TemperatureDifference, Kind::AbsoluteTemperature) => {
+            err.with_hint("subtract two temperatures to get a difference, e.g. T2 - T1")
+        }
         (Kind::Moisture, Kind::HumidityRatio) | (Kind::HumidityRatio, Kind::Moisture) => err
             .with_hint("moisture content is per kg of dry solid, humidity ratio per kg of dry air"),
         _ => err,
@@ -319,6 +337,14 @@ fn clash_error(verb: &str, clash: KindClash) -> UnitError {
             "cannot {verb} a temperature difference and an absolute temperature this way"
         ))
         .with_hint("an absolute temperature minus a difference is absolute: write T - dT"),
+        KindClash::AmbiguousPercent(k) => {
+            UnitError::new(format!("cannot {verb} {} and a percentage", k.describe())).with_hint(
+                match k {
+                    Kind::Moisture => "a percentage does not say its basis: write %db or %wb",
+                    _ => "write a humidity ratio in kg/kg_da or g/kg_da",
+                },
+            )
+        }
         KindClash::Ratios(a, b) => UnitError::new(format!(
             "cannot {verb} {} and {}",
             a.describe(),
@@ -379,8 +405,11 @@ fn finite(si: f64, dim: Dim, kind: Kind) -> Result<Quantity, UnitError> {
     if si.is_finite() {
         Ok(Quantity::new(si, dim, kind))
     } else {
-        Err(UnitError::new(
-            "the result is not a finite number (overflow or invalid operation)",
-        ))
+        Err(
+            UnitError::new("the result is not a finite number (overflow or invalid operation)")
+                .with_hint(
+                    "an operand may itself be invalid, e.g. a wet-basis moisture of 1 or more",
+                ),
+        )
     }
 }

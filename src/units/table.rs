@@ -21,7 +21,9 @@ pub struct Unit {
     pub factor: f64,
     /// SI offset added after scaling (273.15 for degC); zero for linear units.
     pub offset: f64,
+    /// Dimension of the unit.
     pub dim: Dim,
+    /// Kind of the quantities a number in this unit makes (`degC` absolute, `db` moisture).
     pub kind: Kind,
     /// Non-linear reading beyond factor/offset (wet-basis moisture).
     pub scale: Scale,
@@ -55,61 +57,75 @@ pub fn suggest_unit(symbol: &str) -> Option<String> {
     if let Some(s) = power_spelling(symbol) {
         return Some(s);
     }
+    let all = candidates();
+    let lower = symbol.to_lowercase();
+    if let Some((_, s)) = all.iter().find(|(key, _)| key.to_lowercase() == lower) {
+        return Some(s.clone());
+    }
     let limit = if symbol.chars().count() <= 3 { 1 } else { 2 };
-    candidate_symbols()
-        .into_iter()
-        .map(|c| (levenshtein(symbol, &c), c))
+    all.into_iter()
+        .map(|(key, suggestion)| (levenshtein(symbol, &key), suggestion))
         .filter(|(d, _)| *d <= limit)
         .min_by(|a, b| a.0.cmp(&b.0).then_with(|| a.1.len().cmp(&b.1.len())))
-        .map(|(_, c)| c)
+        .map(|(_, s)| s)
 }
 
+/// Spellings from other conventions and their siccant symbol.
+const MISSPELLINGS: &[(&str, &str)] = &[
+    ("C", "degC"),
+    ("F", "degF"),
+    ("R", "degR"),
+    ("degK", "K"),
+    ("celsius", "degC"),
+    ("fahrenheit", "degF"),
+    ("kelvin", "K"),
+    ("hr", "h"),
+    ("hrs", "h"),
+    ("sec", "s"),
+    ("secs", "s"),
+    ("mins", "min"),
+    ("day", "d"),
+    ("days", "d"),
+    ("lbs", "lb"),
+    ("lbm", "lb"),
+    ("l", "L"),
+    ("ml", "mL"),
+    ("btu", "BTU"),
+    ("KW", "kW"),
+    ("Kw", "kW"),
+    ("kw", "kW"),
+    ("KJ", "kJ"),
+    ("kj", "kJ"),
+    ("Kpa", "kPa"),
+    ("KPa", "kPa"),
+    ("kpa", "kPa"),
+    ("pa", "Pa"),
+    ("KG", "kg"),
+    ("Kg", "kg"),
+    ("RH", "%rh"),
+    ("rh", "%rh"),
+    ("pct", "%"),
+    ("percent", "%"),
+    ("tonne", "t"),
+    ("psia", "psi"),
+    ("psig", "psi"),
+    ("kwh", "kWh"),
+    ("deg", "degC"),
+    ("dC", "degC"),
+    ("dF", "degF"),
+    ("cfm", "ft^3/min"),
+    ("CFM", "ft^3/min"),
+    ("gpm", "gal/min"),
+    ("mph", "mi/h"),
+    ("kph", "km/h"),
+    ("Torr", "mmHg"),
+    ("torr", "mmHg"),
+    ("micron", "um"),
+];
+
 fn common_misspelling(symbol: &str) -> Option<&'static str> {
-    const MAP: &[(&str, &str)] = &[
-        ("C", "degC"),
-        ("F", "degF"),
-        ("R", "degR"),
-        ("degK", "K"),
-        ("celsius", "degC"),
-        ("fahrenheit", "degF"),
-        ("kelvin", "K"),
-        ("hr", "h"),
-        ("hrs", "h"),
-        ("sec", "s"),
-        ("secs", "s"),
-        ("mins", "min"),
-        ("day", "d"),
-        ("days", "d"),
-        ("lbs", "lb"),
-        ("lbm", "lb"),
-        ("l", "L"),
-        ("ml", "mL"),
-        ("btu", "BTU"),
-        ("KW", "kW"),
-        ("Kw", "kW"),
-        ("kw", "kW"),
-        ("KJ", "kJ"),
-        ("kj", "kJ"),
-        ("Kpa", "kPa"),
-        ("KPa", "kPa"),
-        ("kpa", "kPa"),
-        ("pa", "Pa"),
-        ("KG", "kg"),
-        ("Kg", "kg"),
-        ("RH", "%rh"),
-        ("rh", "%rh"),
-        ("pct", "%"),
-        ("percent", "%"),
-        ("ton", "t"),
-        ("tonne", "t"),
-        ("psia", "psi"),
-        ("psig", "psi"),
-        ("kwh", "kWh"),
-        ("deg", "degC"),
-        ("dC", "degC"),
-        ("dF", "degF"),
-    ];
-    MAP.iter()
+    MISSPELLINGS
+        .iter()
         .find(|(wrong, _)| *wrong == symbol)
         .map(|(_, right)| *right)
 }
@@ -122,14 +138,28 @@ fn power_spelling(symbol: &str) -> Option<String> {
     (all_digits && lookup_unit(stem).is_some()).then(|| format!("{stem}^{digits}"))
 }
 
-/// Catalogue symbols plus the prefixed forms people commonly write.
-fn candidate_symbols() -> Vec<String> {
-    let mut out: Vec<String> = unit_names().into_iter().map(str::to_string).collect();
-    for base in base_units().iter().filter(|b| b.prefixable) {
-        for p in ["k", "M", "m", "c", "µ"] {
-            out.push(format!("{p}{}", base.symbol));
+/// (what might have been typed, what to suggest): catalogue symbols, the
+/// prefixed forms people commonly write, one-word unit names (`pascal` -> `Pa`)
+/// and the common misspellings.
+fn candidates() -> Vec<(String, String)> {
+    let mut out: Vec<(String, String)> = Vec::new();
+    for base in base_units() {
+        out.push((base.symbol.to_string(), base.symbol.to_string()));
+        if !base.name.contains(' ') {
+            out.push((base.name.to_string(), base.symbol.to_string()));
+        }
+        if base.prefixable {
+            for p in ["k", "M", "m", "c", "µ"] {
+                let s = format!("{p}{}", base.symbol);
+                out.push((s.clone(), s));
+            }
         }
     }
+    out.extend(
+        MISSPELLINGS
+            .iter()
+            .map(|(w, r)| (w.to_string(), r.to_string())),
+    );
     out
 }
 

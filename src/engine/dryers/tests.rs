@@ -1,0 +1,252 @@
+//! Checks of the dryer models: balance closure, limiting cases and bad input.
+//!
+//! Closure and limiting cases are self-consistency checks the issue requires;
+//! the closed form for constant plus linear falling rate under constant air is
+//! the textbook result t = (Ls/A)/Rc [(X1 - Xc) + (Xc - X*) ln((Xc - X*)/(X2 - X*))]
+//! (for example McCabe, Smith and Harriott, Unit Operations of Chemical
+//! Engineering, chapter on drying; the formula is common practice).
+
+use uom::si::f64::{Pressure, ThermodynamicTemperature};
+use uom::si::pressure::kilopascal;
+use uom::si::thermodynamic_temperature::degree_celsius;
+
+use super::batch::{BatchDryer, Element, Fan};
+use super::continuous::{Belt, Flow, Zone};
+use super::product::{wet_surface_k, Equilibrium, FallingRate, Product, Surface};
+use super::rotary::Rotary;
+use super::DryerError;
+use crate::engine::air::AirState;
+
+fn air(t_c: f64, w: f64) -> AirState {
+    AirState::from_w(
+        ThermodynamicTemperature::new::<degree_celsius>(t_c),
+        w,
+        Pressure::new::<kilopascal>(101.325),
+    )
+    .expect("valid test air")
+}
+
+fn product() -> Product {
+    Product {
+        cp_solid_j_per_kg_k: 1500.0,
+        x_critical_db: 0.6,
+        equilibrium: Equilibrium::Constant(0.05),
+        falling: FallingRate::Linear,
+        t_max_k: None,
+    }
+}
+
+const SURFACE: Surface = Surface {
+    h_w_per_m2_k: 30.0,
+    lewis: 0.85,
+};
+
+fn tray_dryer(trays: usize, air_kg_s: f64, recirculated: f64, t_product_c: f64) -> BatchDryer {
+    BatchDryer {
+        elements: vec![
+            Element {
+                area_m2: 1.0,
+                dry_solid_kg: 15.0,
+                surface: SURFACE
+            };
+            trays
+        ],
+        product: product(),
+        x_initial_db: 1.5,
+        x_target_db: 0.1,
+        t_product_initial_k: t_product_c + 273.15,
+        fresh_air: air(20.0, 0.008),
+        supply_t_k: 343.15,
+        dry_air_kg_per_s: air_kg_s,
+        recirculated,
+        loss_w_per_k: 5.0,
+        ambient_t_k: 293.15,
+        fan: Fan {
+            pressure_rise_pa: 400.0,
+            efficiency: 0.6,
+        },
+        max_time_s: 200.0 * 3600.0,
+    }
+}
+
+/// Limiting case: with a very large air flow the air does not change along the
+/// path, and one tray dries as the closed form for constant air says.
+#[test]
+fn batch_with_huge_air_flow_matches_closed_form() {
+    let supply = air(70.0, 0.008);
+    let tw = wet_surface_k(&supply, SURFACE.lewis).expect("wet surface");
+    let mut d = tray_dryer(1, 2000.0, 0.0, tw - 273.15);
+    d.loss_w_per_k = 0.0;
+    let r = d.simulate().expect("simulates");
+    let cs = supply.humid_heat().value;
+    let k_y = SURFACE.h_w_per_m2_k / (cs * SURFACE.lewis.powf(2.0 / 3.0));
+    let ws = super::product::surface_humidity_ratio(tw, supply.p_pascal());
+    let rc = k_y * (ws - supply.humidity_ratio());
+    let (x1, x2, xc, xe): (f64, f64, f64, f64) = (1.5, 0.1, 0.6, 0.05);
+    let closed = 15.0 / rc * ((x1 - xc) + (xc - xe) * ((xc - xe) / (x2 - xe)).ln());
+    assert!(
+        (r.batch_time_s / closed - 1.0).abs() < 5e-3,
+        "{} s vs closed form {} s",
+        r.batch_time_s,
+        closed
+    );
+}
+
+/// Balances close to 1e-6 relative with recirculation, losses and several trays.
+#[test]
+fn batch_balances_close() {
+    let r = tray_dryer(6, 0.8, 0.6, 20.0).simulate().expect("simulates");
+    assert!(r.closure.within(1e-6), "{:?}", r.closure);
+    let f = r.flows;
+    assert!(((f.outflows() - f.heater) / f.heater).abs() < 1e-6);
+    assert!((f.water - 6.0 * 15.0 * 1.4).abs() / f.water < 0.01);
+    // Specific energy can never beat the latent heat (physical limit).
+    assert!(f.specific_energy_j_per_kg() > r.latent_minimum_j_per_kg);
+}
+
+/// Common practice: trays further along the air path meet cooler, wetter air and finish later.
+#[test]
+fn downstream_trays_dry_slower() {
+    let r = tray_dryer(5, 0.5, 0.0, 20.0).simulate().expect("simulates");
+    for w in r.element_times_s.windows(2) {
+        assert!(w[1] > w[0], "{:?}", r.element_times_s);
+    }
+}
+
+/// Recirculation saves heater energy per kg water at the cost of a longer batch (common practice).
+#[test]
+fn recirculation_trades_time_for_energy() {
+    let open = tray_dryer(4, 1.0, 0.0, 20.0).simulate().expect("simulates");
+    let closed = tray_dryer(4, 1.0, 0.8, 20.0).simulate().expect("simulates");
+    assert!(closed.flows.specific_energy_j_per_kg() < open.flows.specific_energy_j_per_kg());
+    assert!(closed.batch_time_s > open.batch_time_s);
+}
+
+#[test]
+fn target_below_equilibrium_is_an_error() {
+    let mut d = tray_dryer(1, 1.0, 0.0, 20.0);
+    d.x_target_db = 0.01;
+    assert!(matches!(
+        d.simulate(),
+        Err(DryerError::BelowEquilibrium { .. })
+    ));
+}
+
+#[test]
+fn infeasible_recirculation_is_an_error() {
+    let d = tray_dryer(1, 1.0, 0.99, 20.0);
+    assert!(matches!(
+        d.simulate(),
+        Err(DryerError::Invalid {
+            name: "recirculated fraction",
+            ..
+        })
+    ));
+}
+
+fn zone(length: Option<f64>, t_c: f64, flow: Flow, air_kg_s: f64, recirculated: f64) -> Zone {
+    Zone {
+        length_m: length,
+        fresh_air: air(20.0, 0.008),
+        supply_t_k: t_c + 273.15,
+        dry_air_kg_per_s: air_kg_s,
+        recirculated,
+        flow,
+        surface: SURFACE,
+        loss_w_per_m_k: 2.0,
+        fan: Fan {
+            pressure_rise_pa: 500.0,
+            efficiency: 0.6,
+        },
+    }
+}
+
+fn belt(zones: Vec<Zone>) -> Belt {
+    Belt {
+        zones,
+        product: product(),
+        dry_solid_kg_per_s: 0.05,
+        width_m: 2.0,
+        load_kg_per_m2: 15.0,
+        area_per_belt_area: 1.0,
+        x_in_db: 1.5,
+        t_in_k: 293.15,
+        x_target_db: 0.1,
+        ambient_t_k: 293.15,
+    }
+}
+
+/// Limiting case: one cocurrent zone with a very large air flow gives the batch time as residence time.
+#[test]
+fn belt_with_huge_air_flow_matches_batch() {
+    let mut b = belt(vec![zone(None, 70.0, Flow::Cocurrent, 2000.0, 0.0)]);
+    b.zones[0].loss_w_per_m_k = 0.0;
+    let r = b.solve().expect("solves");
+    let mut d = tray_dryer(1, 2000.0, 0.0, 20.0);
+    d.loss_w_per_k = 0.0;
+    let batch = d.simulate().expect("simulates");
+    assert!(
+        (r.residence_s / batch.batch_time_s - 1.0).abs() < 0.01,
+        "{} vs {}",
+        r.residence_s,
+        batch.batch_time_s
+    );
+}
+
+/// Two zones, the second countercurrent, with recirculation: balances close and the product leaves at the target.
+#[test]
+fn two_zone_belt_balances_close() {
+    let mut b = belt(vec![
+        zone(Some(10.0), 90.0, Flow::Cocurrent, 3.0, 0.5),
+        zone(None, 65.0, Flow::Countercurrent, 4.0, 0.3),
+    ]);
+    b.dry_solid_kg_per_s = 0.03;
+    b.area_per_belt_area = 5.0;
+    b.load_kg_per_m2 = 10.0;
+    let r = b.solve().expect("solves");
+    assert!((r.x_out_db - 0.1).abs() < 1e-6, "{}", r.x_out_db);
+    assert!(r.closure.within(1e-6), "{:?}", r.closure);
+    assert!(r.length_m > 10.0);
+    let sum: f64 = r.periods_m.iter().sum();
+    assert!((sum - r.length_m).abs() < 1e-6 * r.length_m + 1e-9);
+}
+
+#[test]
+fn belt_cannot_dry_with_saturated_air() {
+    let mut b = belt(vec![zone(None, 30.0, Flow::Cocurrent, 0.05, 0.0)]);
+    b.zones[0].fresh_air = air(30.0, 0.027);
+    assert!(b.solve().is_err());
+}
+
+fn rotary() -> Rotary {
+    Rotary {
+        product: product(),
+        dry_solid_kg_per_s: 1.0,
+        x_in_db: 0.25,
+        x_out_db: 0.02,
+        t_solid_in_k: 293.15,
+        t_solid_out_k: 353.15,
+        gas_in: air(300.0, 0.02),
+        t_gas_out_k: 393.15,
+        diameter_m: 1.8,
+        slope: 0.04,
+        speed_rpm: 4.0,
+        particle_diameter_m: 500e-6,
+        flow: Flow::Countercurrent,
+        loss_fraction: 0.05,
+    }
+}
+
+/// The rotary design balances: the gas gives up what the product takes plus the losses.
+#[test]
+fn rotary_energy_balance() {
+    let r = rotary().design().expect("designs");
+    let g = &rotary().gas_in;
+    let hv = crate::engine::air::thermo::vapour_enthalpy(393.15, 0.0);
+    let released = r.dry_gas_kg_per_s
+        * (g.enthalpy().value - r.gas_out.enthalpy().value
+            + (r.gas_out.humidity_ratio() - g.humidity_ratio()) * hv);
+    assert!(((released - r.heat_to_product_w - r.loss_w) / released).abs() < 1e-6);
+    assert!((r.water_kg_per_s - 0.23).abs() < 1e-12);
+    assert!(r.length_m > 0.0 && r.retention_time_s > 0.0);
+}
