@@ -489,11 +489,26 @@ impl AirState {
             return Err(AirError::NoDewPoint { w: self.w });
         }
         let ln_pv = pv.ln();
-        let residual = |t: f64| sat::ln_saturated_vapour_pressure(t, p) - ln_pv;
+        // Slope by Clausius-Clapeyron, d ln p/dT = L/(R T^2) with L about 2.5 MJ/kg
+        // (2.83 MJ/kg over ice); the solver refines it by secants.
+        let residual = |t: f64| {
+            let latent = if t < T_ZERO_C {
+                2.834e6
+            } else {
+                2.501e6 - 2.4e3 * (t - T_ZERO_C)
+            };
+            (
+                sat::ln_saturated_vapour_pressure(t, p) - ln_pv,
+                latent.max(1e5) / (thermo::R_WATER_IF97 * t * t),
+            )
+        };
         let hi = self.t_k.max(T_ZERO_C + 1.0);
-        brent(residual, T_MIN_SATURATION, hi, T_TOL).map_err(|e| AirError::NotConverged {
-            what: "dew point",
-            reason: e,
+        let start = self.dew_point_estimate_k().clamp(T_MIN_SATURATION, hi);
+        newton_bracketed(residual, T_MIN_SATURATION, hi, start, T_TOL).map_err(|e| {
+            AirError::NotConverged {
+                what: "dew point",
+                reason: e,
+            }
         })
     }
 
