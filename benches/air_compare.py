@@ -4,7 +4,8 @@
 Times, for the same deterministic state set (0-200 degC at 101.325 kPa; rh
 5-95 % up to 90 degC, else w = 0.002-0.202 kg/kg; see benches/air.rs):
 
-- siccant: `AirState::wet_bulb` over 100,000 states (criterion, `cargo bench --bench air`);
+- siccant: `AirState::wet_bulb` over 100,000 states, and the whole `air(T:, rh:)`
+  built-in (all fields) over 10,000 (criterion, `cargo bench --bench air`);
 - CoolProp 8 `HAPropsSI('Twb', ...)` called in a Python loop;
 - psychrolib `GetTWetBulbFromHumRatio` called in a Python loop;
 
@@ -37,16 +38,21 @@ def state_inputs(i):
     return t_c, None, 0.002 + 0.2 * b
 
 
-def ours_ns_per_state():
-    """Run the criterion bench and read the median time of `wet_bulb_100k`."""
-    cmd = ["cargo", "bench", "--bench", "air", "--", "wet_bulb_100k"]
-    out = subprocess.run(cmd, cwd=ROOT, capture_output=True, text=True, check=True).stdout
-    m = re.search(r"wet_bulb_100k\s+time:\s+\[\S+ \S+ (\S+) (\S+) \S+ \S+\]", out)
+def criterion_ns(out, name, states):
+    """Median time per state of criterion benchmark `name`, ns."""
+    m = re.search(name + r"\s+time:\s+\[\S+ \S+ (\S+) (\S+) \S+ \S+\]", out)
     if not m:
         sys.exit("could not read the criterion output:\n" + out)
     value, unit = float(m.group(1)), m.group(2)
     scale = {"ns": 1.0, "µs": 1e3, "us": 1e3, "ms": 1e6, "s": 1e9}[unit]
-    return value * scale / 100_000
+    return value * scale / states
+
+
+def ours_ns_per_state():
+    """Run the criterion benches: (wet-bulb via AirState, full air() built-in) in ns per state."""
+    cmd = ["cargo", "bench", "--bench", "air"]
+    out = subprocess.run(cmd, cwd=ROOT, capture_output=True, text=True, check=True).stdout
+    return criterion_ns(out, "wet_bulb_100k", 100_000), criterion_ns(out, "air_builtin_10k", 10_000)
 
 
 def coolprop_us_per_state(n):
@@ -78,11 +84,12 @@ def main():
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--python-states", type=int, default=5000, help="states per Python loop (default 5000)")
     args = parser.parse_args()
-    ours = ours_ns_per_state()
+    ours, builtin = ours_ns_per_state()
     cp = coolprop_us_per_state(args.python_states)
     pl = psychrolib_us_per_state(args.python_states)
     print(f"{'wet-bulb, per state':<40}{'time':>14}{'siccant is faster by':>24}")
     print(f"{'siccant AirState::wet_bulb (Rust)':<40}{ours:>11.0f} ns{'':>24}")
+    print(f"{'siccant air() built-in, full record':<40}{builtin:>11.0f} ns{cp * 1e3 / builtin:>23.0f}x (vs CoolProp)")
     print(f"{'CoolProp HAPropsSI loop (Python)':<40}{cp:>11.1f} us{cp * 1e3 / ours:>23.0f}x")
     print(f"{'psychrolib loop (Python)':<40}{pl:>11.1f} us{pl * 1e3 / ours:>23.0f}x")
     print(f"(Python loops over {args.python_states} states; siccant over 100,000 states, criterion median)")
