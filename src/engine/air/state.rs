@@ -546,6 +546,13 @@ impl AirState {
             return Ok(hi);
         }
         let f = |ts: f64| wet_bulb_residual(ts, w, p, h1, ice);
+        // Nearly pure steam (w of tens of kg/kg): the root may lie within 0.02 K of
+        // the boiling point, above the bracket; refuse rather than return its end.
+        if w > 50.0 && f(hi).0 < 0.0 {
+            return Err(AirError::ProcessOutOfRange {
+                what: format!("the wet-bulb of nearly pure steam (w = {w:.1} kg/kg) is within 0.02 K of the boiling point"),
+            });
+        }
         let ts = newton_bracketed(f, lo, hi, guess.clamp(lo, hi), T_TOL).map_err(err)?;
         // A saturated state: the root is the dry-bulb itself up to rounding.
         Ok(ts.min(t))
@@ -565,16 +572,15 @@ impl AirState {
         if ws_of(self.t_k, self.p_pa).is_some() {
             return Ok(self.t_k);
         }
-        let tb = sat::boiling_point(self.p_pa).map_err(|e| AirError::NotConverged {
-            what: "boiling point",
-            reason: e,
-        })?;
-        let mut hi = tb * (1.0 - 1e-9);
+        // Just below the boiling point (IF97 backward equation, within 0.01 K of
+        // our curve): w_s* there exceeds 100 kg/kg, so the balance is positive.
+        let tb = sat::if97_saturation_temperature(self.p_pa.clamp(611.3, sat::P_CRITICAL));
+        let mut hi = tb - 0.02;
         for _ in 0..40 {
             if ws_of(hi, self.p_pa).is_some() {
                 return Ok(hi);
             }
-            hi -= (tb - hi).max(1e-9) * 2.0;
+            hi -= 0.02;
         }
         Err(AirError::ProcessOutOfRange {
             what: "no saturated state below the boiling point".into(),
