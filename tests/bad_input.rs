@@ -159,6 +159,31 @@ fn every_bad_input_gives_a_clear_error_at_its_place() {
 }
 
 #[test]
+fn deep_recursion_through_deep_bodies_stops_with_an_error() {
+    // 250 nested negations inside a function that calls itself: the
+    // evaluator must stop before the native stack does (this runs on a
+    // test thread with the default, small stack).
+    let body = format!("{}f(x)", "- ".repeat(250));
+    let src = format!("f(x) = {body}\ny = f(1)");
+    let diags = location_and_text(&src);
+    assert!(
+        diags.iter().any(|(_, _, t)| t.contains("nested")),
+        "{diags:?}"
+    );
+}
+
+#[test]
+fn a_long_chain_defined_backwards_evaluates() {
+    let mut src = String::from("z = a3000 + 1\n");
+    for i in (1..=3000).rev() {
+        src.push_str(&format!("a{i} = a{} + 1\n", i - 1));
+    }
+    src.push_str("a0 = 0\n");
+    let mut session = Session::with_file("chain.sicc");
+    assert!(session.eval(&src).is_ok());
+}
+
+#[test]
 fn deep_nesting_is_refused_not_overflowed() {
     let src = format!("x = {}1{}", "(".repeat(100), ")".repeat(100));
     let diags = location_and_text(&src);

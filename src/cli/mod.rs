@@ -186,11 +186,14 @@ fn check(file: &Path) -> i32 {
     match session.eval(&text) {
         Ok(out) => {
             print_diagnostics(&session, &out.warnings);
-            let checked = out.items.len();
-            println!(
-                "{}: no errors found ({checked} statements evaluated without engine work)",
-                file.display()
-            );
+            let total = format::statement_count(&text);
+            let done = out.items.len();
+            let detail = if done >= total {
+                format!("all {total} statements evaluated")
+            } else {
+                format!("{done} of {total} statements evaluated; the rest need engine work, which `check` does not run")
+            };
+            println!("{}: no errors found ({detail})", file.display());
             EXIT_OK
         }
         Err(diags) => {
@@ -225,7 +228,7 @@ fn help(name: Option<&str>, markdown: bool) -> i32 {
             }
             None => {
                 let names: Vec<&str> = library::registry().iter().map(|b| b.name).collect();
-                let hint = library::closest(n, &names)
+                let hint = crate::eval::suggest(n, &names)
                     .map_or(String::new(), |b| format!(" (did you mean `{b}`?)"));
                 eprintln!("error: no built-in function or unit named `{n}`{hint}");
                 EXIT_USAGE

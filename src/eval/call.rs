@@ -6,7 +6,7 @@ use std::panic::{catch_unwind, AssertUnwindSafe};
 use super::ctx::{Ctx, Flow, Mode, Stop};
 use super::DefKind;
 use crate::diag::{Diagnostic, Span};
-use crate::library::{self, closest, Arg, Args, Builtin};
+use crate::library::{self, Arg, Args, Builtin};
 use crate::syntax::{CallArg, Ident};
 use crate::value::Value;
 
@@ -42,7 +42,7 @@ impl Ctx<'_> {
         );
         names.push("load");
         let mut d = Diagnostic::error(callee.span, format!("unknown function `{}`", callee.name));
-        if let Some(best) = closest(&callee.name, &names) {
+        if let Some(best) = super::suggest(&callee.name, &names) {
             d = d.with_hint(format!("did you mean `{best}`?"));
         }
         d.with_hint("`siccant help` lists the built-in functions")
@@ -115,7 +115,7 @@ fn check_arg_names(b: &Builtin, args: &[CallArg]) -> Result<(), Diagnostic> {
                 n.span,
                 format!("`{}` has no argument named `{}`", b.name, n.name),
             );
-            if let Some(best) = closest(&n.name, &names) {
+            if let Some(best) = super::suggest(&n.name, &names) {
                 d = d.with_hint(format!("did you mean `{best}`?"));
             }
             return Err(d.with_hint(format!("arguments: {}", names.join(", "))));
@@ -152,7 +152,7 @@ fn bind_params(
                 let names: Vec<&str> = params.iter().map(String::as_str).collect();
                 let mut d =
                     Diagnostic::error(a.span, format!("`{name}` has no parameter named `{n}`"));
-                if let Some(best) = closest(n, &names) {
+                if let Some(best) = super::suggest(n, &names) {
                     d = d.with_hint(format!("did you mean `{best}`?"));
                 }
                 return Err(d.with_hint(format!("parameters: {}", names.join(", "))));

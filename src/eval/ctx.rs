@@ -7,7 +7,7 @@ use std::path::PathBuf;
 use super::ops::{self, dim_words, OpError};
 use super::{DefKind, Limits, Sheet, Sources};
 use crate::diag::{Diagnostic, Span};
-use crate::library::{closest, type_word};
+use crate::library::type_word;
 use crate::syntax::{BinaryOp, Expr, ExprKind, UnaryOp, UnitExpr, UnitKind};
 use crate::units::{lookup_unit, suggest_unit, Quantity, Unit};
 use crate::value::{Record, Value};
@@ -59,7 +59,12 @@ pub struct Ctx<'a> {
     pub load_stack: Vec<PathBuf>,
     /// Depth of user-function calls and loads.
     pub depth: usize,
+    /// Expressions being evaluated, nested (guards the native stack).
+    nesting: usize,
 }
+
+/// Most expression evaluations nested inside one another (across calls).
+pub const MAX_NESTING: usize = 1500;
 
 impl<'a> Ctx<'a> {
     /// A context evaluating `sheet`.
@@ -82,7 +87,14 @@ impl<'a> Ctx<'a> {
             failed: HashSet::new(),
             load_stack: Vec::new(),
             depth: 0,
+            nesting: 0,
         }
+    }
+
+    /// Treat these names as already failed and reported (e.g. caught in a
+    /// cycle, or on a line that did not parse), so uses of them stay silent.
+    pub fn mark_failed<'n>(&mut self, names: impl IntoIterator<Item = &'n String>) {
+        self.failed.extend(names.into_iter().cloned());
     }
 
     /// Count one step against the budget; check the interrupt flag now and then.
@@ -171,7 +183,7 @@ impl<'a> Ctx<'a> {
             d = d.with_hint(format!(
                 "`{name}` is a unit; write a number before it (`1 {name}`), and compound units without spaces (`14 kg/m^2`)"
             ));
-        } else if let Some(best) = closest(name, &names) {
+        } else if let Some(best) = super::suggest(name, &names) {
             d = d.with_hint(format!("did you mean `{best}`?"));
         }
         Stop::Error(d)
@@ -180,6 +192,19 @@ impl<'a> Ctx<'a> {
     /// Evaluate an expression.
     pub fn expr(&mut self, e: &Expr) -> Flow<Value> {
         self.tick(e.span)?;
+        if self.nesting >= MAX_NESTING {
+            let msg = "evaluation nested too deeply";
+            return Err(Diagnostic::error(e.span, msg)
+                .with_hint("does a function call itself without end?")
+                .into());
+        }
+        self.nesting += 1;
+        let result = self.expr_kind(e);
+        self.nesting -= 1;
+        result
+    }
+
+    fn expr_kind(&mut self, e: &Expr) -> Flow<Value> {
         match &e.kind {
             ExprKind::Quantity { value, unit } => self.quantity(*value, unit.as_ref()),
             ExprKind::Bool(b) => Ok(Value::Bool(*b)),
@@ -352,7 +377,7 @@ fn no_field(r: &Record, field: &crate::syntax::Ident) -> Diagnostic {
         field.span,
         format!("{} has no field `{}`", record_word(r), field.name),
     );
-    if let Some(best) = closest(&field.name, &names) {
+    if let Some(best) = super::suggest(&field.name, &names) {
         d = d.with_hint(format!("did you mean `{best}`?"));
     }
     d.with_hint(format!("fields: {}", names.join(", ")))

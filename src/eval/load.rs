@@ -8,7 +8,7 @@ use std::path::{Path, PathBuf};
 use super::ctx::{Ctx, Flow, Mode, Stop};
 use super::{run_statements, OutputItem, Sheet};
 use crate::diag::{Diagnostic, Span};
-use crate::library::{closest, type_word};
+use crate::library::type_word;
 use crate::syntax::CallArg;
 use crate::value::{Record, Value};
 
@@ -118,7 +118,7 @@ impl Ctx<'_> {
             if !inputs.contains(&name.as_str()) {
                 let mut d =
                     Diagnostic::error(span, format!("`{name}` is not an input of `{shown}`"));
-                if let Some(best) = closest(&name, &inputs) {
+                if let Some(best) = super::suggest(&name, &inputs) {
                     d = d.with_hint(format!("did you mean `{best}`?"));
                 }
                 let list = if inputs.is_empty() {

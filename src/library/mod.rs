@@ -251,10 +251,3 @@ pub fn find(name: &str) -> Option<&'static Builtin> {
     registry().iter().copied().find(|b| b.name == name)
 }
 
-
-/// Every built-in, grouped by family (families alphabetical), then by name.
-pub fn registry_by_family() -> Vec<&'static Builtin> {
-    let mut all: Vec<&'static Builtin> = registry().to_vec();
-    all.sort_by_key(|b| (b.family, b.name));
-    all
-}

@@ -382,7 +382,10 @@ impl Lower {
         let span = self.span(&pair);
         match pair.as_rule() {
             Rule::unit | Rule::unit_inner => self.unit_chain(pair),
-            Rule::unit_group => Ok(UnitExpr { span, ..self.unit(first(pair)?)? }),
+            Rule::unit_group => Ok(UnitExpr {
+                span,
+                ..self.unit(first(pair)?)?
+            }),
             Rule::unit_name => Ok(UnitExpr {
                 kind: UnitKind::Name(pair.as_str().to_string()),
                 span,
@@ -532,7 +535,12 @@ fn expected_message(positives: &[Rule], found: &str) -> String {
     }
     // After a complete value, "an operator" says enough; drop the postfix noise.
     if names.contains(&"an operator") {
-        names.retain(|n| !matches!(*n, "`(`" | "`.`" | "a whole-number exponent" | "`*` or `/`" | "`as`"));
+        names.retain(|n| {
+            !matches!(
+                *n,
+                "`(`" | "`.`" | "a whole-number exponent" | "`*` or `/`" | "`as`"
+            )
+        });
     }
     let expected = match names.len() {
         0 => String::new(),
@@ -564,7 +572,12 @@ fn parse_hint(text: &str, pos: usize) -> Option<String> {
         );
     }
     if let Some(first) = rest.chars().next() {
-        if (first.is_alphanumeric() || first == '(') && before.chars().last().is_some_and(|c| c.is_alphanumeric() || c == ')') {
+        if (first.is_alphanumeric() || first == '(')
+            && before
+                .chars()
+                .last()
+                .is_some_and(|c| c.is_alphanumeric() || c == ')')
+        {
             return Some("two values side by side need an operator between them, e.g. `*`".into());
         }
     }
@@ -591,47 +604,82 @@ mod tests {
 
     #[test]
     fn statement_forms() {
-        assert!(matches!(stmt("input L = 12 mm").kind, StmtKind::Input { .. }));
-        assert!(matches!(stmt("check q > 1 kW/m^2").kind, StmtKind::Check(_)));
-        assert!(matches!(stmt("f(x, y) = x * y").kind, StmtKind::Function { ref params, .. } if params.len() == 2));
-        assert!(matches!(stmt("area = 2 m * 3 m").kind, StmtKind::Binding { .. }));
+        assert!(matches!(
+            stmt("input L = 12 mm").kind,
+            StmtKind::Input { .. }
+        ));
+        assert!(matches!(
+            stmt("check q > 1 kW/m^2").kind,
+            StmtKind::Check(_)
+        ));
+        assert!(
+            matches!(stmt("f(x, y) = x * y").kind, StmtKind::Function { ref params, .. } if params.len() == 2)
+        );
+        assert!(matches!(
+            stmt("area = 2 m * 3 m").kind,
+            StmtKind::Binding { .. }
+        ));
         assert!(matches!(stmt("f(2)").kind, StmtKind::Show(_)));
         assert!(matches!(stmt("f(x) == 3").kind, StmtKind::Show(_)));
     }
 
     #[test]
     fn unit_after_number_without_spaces_is_compound() {
-        let ExprKind::Quantity { unit: Some(u), .. } = show("14 kg/m^2") else { panic!("no unit") };
+        let ExprKind::Quantity { unit: Some(u), .. } = show("14 kg/m^2") else {
+            panic!("no unit")
+        };
         assert!(matches!(u.kind, UnitKind::Div(..)));
-        let ExprKind::Binary(BinaryOp::Mul, a, b) = show("2.4 m * 1.8 m") else { panic!("not a product") };
+        let ExprKind::Binary(BinaryOp::Mul, a, b) = show("2.4 m * 1.8 m") else {
+            panic!("not a product")
+        };
         assert!(matches!(a.kind, ExprKind::Quantity { unit: Some(_), .. }));
         assert!(matches!(b.kind, ExprKind::Quantity { unit: Some(_), .. }));
     }
 
     #[test]
     fn spaces_allowed_inside_unit_parentheses() {
-        let ExprKind::Quantity { unit: Some(u), .. } = show("5 BTU/(h * ft^2 * degF)") else { panic!("no unit") };
+        let ExprKind::Quantity { unit: Some(u), .. } = show("5 BTU/(h * ft^2 * degF)") else {
+            panic!("no unit")
+        };
         assert_eq!(u.span.end as usize, "5 BTU/(h * ft^2 * degF)".len());
     }
 
     #[test]
     fn as_binds_loosest_and_power_is_right_associative() {
         assert!(matches!(show("q * t as kWh"), ExprKind::As(..)));
-        let ExprKind::Unary(UnaryOp::Neg, inner) = show("-2^2") else { panic!("not a negation") };
+        let ExprKind::Unary(UnaryOp::Neg, inner) = show("-2^2") else {
+            panic!("not a negation")
+        };
         assert!(matches!(inner.kind, ExprKind::Binary(BinaryOp::Pow, ..)));
     }
 
     #[test]
     fn spans_are_offset_by_the_chunk_start() {
-        let s = parse_statement("x = 1", 10, 3).ok().flatten().map(|s| s.span);
-        assert_eq!(s, Some(Span { file: 3, start: 10, end: 15 }));
+        let s = parse_statement("x = 1", 10, 3)
+            .ok()
+            .flatten()
+            .map(|s| s.span);
+        assert_eq!(
+            s,
+            Some(Span {
+                file: 3,
+                start: 10,
+                end: 15
+            })
+        );
     }
 
     #[test]
     fn errors_use_human_rule_names() {
-        let e = parse_statement("x = ", 0, 0).err().map(|d| d.message).unwrap_or_default();
+        let e = parse_statement("x = ", 0, 0)
+            .err()
+            .map(|d| d.message)
+            .unwrap_or_default();
         assert_eq!(e, "expected a value, found the end of the line");
-        let e = parse_statement("x = 2 m 3", 0, 0).err().map(|d| d.message).unwrap_or_default();
+        let e = parse_statement("x = 2 m 3", 0, 0)
+            .err()
+            .map(|d| d.message)
+            .unwrap_or_default();
         assert!(e.contains("expected") && e.contains("found `3`"), "{e}");
     }
 }
