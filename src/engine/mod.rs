@@ -3,6 +3,8 @@
 
 pub mod air;
 pub mod dryers;
+pub mod minimise;
 pub mod solve;
+pub mod stats;
 pub mod transfer;
 pub mod transport;
