@@ -53,11 +53,16 @@ impl Ctx<'_> {
         let table = sweep_table(&model, &names, &points, &outcomes);
         let plot = sweep_plot(&model, &names, &axes, &outcomes);
         let failed = outcomes.iter().filter(|o| o.values.is_err()).count();
-        let record = Record::new("sweep")
-            .with("table", Value::Table(table))
+        let mut record = Record::new("sweep")
+            .with("table", Value::Table(table.clone()))
             .with("plot", Value::Plot(Arc::new(plot)))
             .with("points", number(total))
             .with("failed", number(failed));
+        for c in table.columns {
+            if record.get(&c.name).is_none() && c.name != "checks" && c.name != "error" {
+                record = record.with(c.name, Value::List(c.cells));
+            }
+        }
         Ok(Value::Record(record))
     }
 
