@@ -50,7 +50,9 @@ fn update(s: &mut State, p: &Progress) {
     }
     if s.bar.is_none() && started.elapsed() >= QUIET {
         let bar = ProgressBar::new(p.total as u64);
-        if let Ok(style) = ProgressStyle::with_template("{msg} [{bar:40}] {pos}/{len} points, {eta} left") {
+        if let Ok(style) =
+            ProgressStyle::with_template("{msg} [{bar:40}] {pos}/{len} points, {eta} left")
+        {
             bar.set_style(style.progress_chars("=> "));
         }
         bar.set_message(p.label);
