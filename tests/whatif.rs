@@ -245,3 +245,22 @@ fn the_interrupt_flag_stops_a_long_sweep() {
         "{errors:?}"
     );
 }
+
+#[test]
+fn the_example_worksheet_runs_with_its_checks_passing() {
+    let path = concat!(env!("CARGO_MANIFEST_DIR"), "/examples/whatif_tray.sicc");
+    let text = std::fs::read_to_string(path).expect("example worksheet");
+    let mut s = Session::with_file(path);
+    let out = match s.eval(&text) {
+        Ok(out) => out,
+        Err(d) => panic!("{d:?}"),
+    };
+    for item in &out.items {
+        if let siccant::session::OutputItem::Check { text, passed } = item {
+            assert!(passed, "check failed: {text}");
+        }
+    }
+    // The optimum uses no more heat than the worksheet's own velocity.
+    let best = record(&s, "least_heat");
+    assert!(si(best.get("heat_per_kg")) <= si(s.value("heat_per_kg")));
+}

@@ -85,7 +85,7 @@ impl Ctx<'_> {
         Ok(Value::Record(
             record
                 .with("evaluations", number(evaluations))
-                .with("checks", number(model.rules.len()))
+                .with("checks_applied", number(model.rules.len()))
                 .with("method", Value::Str(method.into())),
         ))
     }
