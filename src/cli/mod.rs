@@ -129,7 +129,10 @@ fn run(file: &Path, set: &[String], format: Format) -> i32 {
         Ok(o) => o,
         Err(diags) => {
             print_diagnostics(&session, &diags);
-            let usage = diags.iter().any(|d| d.message.starts_with("`--set"));
+            let usage = diags.iter().any(|d| {
+                d.message.starts_with("`--set")
+                    || (!set.is_empty() && d.message.contains("but the value given for it"))
+            });
             return if usage { EXIT_USAGE } else { EXIT_WORKSHEET };
         }
     };

@@ -1,6 +1,5 @@
 //! Calls: user functions, built-ins from the library registry, and `load`.
 
-use std::collections::HashMap;
 use std::panic::{catch_unwind, AssertUnwindSafe};
 
 use super::ctx::{Ctx, Flow, Mode, Stop};
@@ -87,7 +86,10 @@ impl Ctx<'_> {
     }
 
     fn call_user(&mut self, callee: &Ident, args: &[CallArg], span: Span) -> Flow<Value> {
-        let def = self.sheet.defs[&callee.name].clone();
+        let (params, body) = match self.sheet.defs.get(&callee.name) {
+            Some(d) => (d.params.clone(), d.expr.clone()),
+            None => return Err(self.unknown_function(callee).into()),
+        };
         if self.depth >= self.limits.max_call_depth {
             let msg = format!(
                 "calls nested deeper than {} levels",
@@ -98,10 +100,10 @@ impl Ctx<'_> {
                 .into());
         }
         let values = self.arguments(args)?;
-        let frame = bind_params(&callee.name, &def.params, values, span)?;
+        let frame = bind_params(&callee.name, &params, values, span)?;
         self.depth += 1;
         let saved = self.frame.replace(frame);
-        let result = self.expr(&def.expr);
+        let result = self.expr(&body);
         self.frame = saved;
         self.depth -= 1;
         result
@@ -145,8 +147,8 @@ fn bind_params(
     params: &[String],
     args: Vec<Arg>,
     span: Span,
-) -> Result<HashMap<String, Value>, Diagnostic> {
-    let mut frame = HashMap::new();
+) -> Result<super::FastMap<String, Value>, Diagnostic> {
+    let mut frame = super::FastMap::default();
     let mut next = 0;
     for a in args {
         let p = match &a.name {

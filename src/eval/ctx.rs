@@ -1,7 +1,8 @@
 //! The evaluator: forces named values through the dependency graph and
 //! evaluates expressions, attaching spans to span-less unit errors.
 
-use std::collections::{HashMap, HashSet};
+use std::collections::hash_map::Entry;
+use std::collections::HashSet;
 use std::path::PathBuf;
 
 use super::ops::{self, dim_words, OpError};
@@ -50,7 +51,7 @@ pub struct Ctx<'a> {
     pub warnings: Vec<Diagnostic>,
     pub errors: Vec<Diagnostic>,
     /// Parameters of the user function being evaluated.
-    pub(super) frame: Option<HashMap<String, Value>>,
+    pub(super) frame: Option<super::FastMap<String, Value>>,
     /// Names being computed right now (catches cycles the static check could not see).
     active: Vec<String>,
     /// Names whose evaluation failed in this run.
@@ -135,13 +136,11 @@ impl<'a> Ctx<'a> {
         if self.failed.contains(name) {
             return Err(Stop::Reported);
         }
-        let def = self
-            .sheet
-            .defs
-            .get(name)
-            .cloned()
-            .ok_or_else(|| self.undefined(name, use_span))?;
-        if def.kind == DefKind::Function {
+        let (kind, expr) = match self.sheet.defs.get(name) {
+            Some(d) => (d.kind, d.expr.clone()),
+            None => return Err(self.undefined(name, use_span)),
+        };
+        if kind == DefKind::Function {
             let msg = format!("`{name}` is a function; call it with arguments, e.g. `{name}(...)`");
             return Err(Diagnostic::error(use_span, msg).into());
         }
@@ -149,14 +148,14 @@ impl<'a> Ctx<'a> {
             let chain = format!("{} -> {name}", self.active.join(" -> "));
             return Err(Diagnostic::error(use_span, format!("cycle: {chain}")).into());
         }
-        let overridden = (def.kind == DefKind::Input)
+        let overridden = (kind == DefKind::Input)
             .then(|| self.sheet.overrides.get(name).cloned())
             .flatten();
         self.active.push(name.to_string());
         let saved = self.frame.take();
         let result = match overridden {
-            Some(v) => Ok(v),
-            None => self.expr(&def.expr),
+            Some(v) => self.checked_override(name, &expr, v),
+            None => self.expr(&expr),
         };
         self.frame = saved;
         self.active.pop();
@@ -170,6 +169,31 @@ impl<'a> Ctx<'a> {
                 let skip = self.report(stop);
                 Err(if skip { Stop::Skip } else { Stop::Reported })
             }
+        }
+    }
+
+    /// An input's overriding value must have the dimension of its default.
+    fn checked_override(&mut self, name: &str, default: &Expr, v: Value) -> Flow<Value> {
+        let expected = match self.expr(default) {
+            Ok(Value::Quantity(d, _)) => d.dim,
+            _ => return Ok(v),
+        };
+        match &v {
+            Value::Quantity(q, _) if q.dim != expected => {
+                let span = self
+                    .sheet
+                    .defs
+                    .get(name)
+                    .map_or(default.span, |d| d.name.span);
+                let msg = format!(
+                    "input `{name}` is {}, but the value given for it is {}",
+                    dim_words(expected),
+                    dim_words(q.dim)
+                );
+                let hint = format!("the default is `{}`", self.sources.slice(default.span));
+                Err(Diagnostic::error(span, msg).with_hint(hint).into())
+            }
+            _ => Ok(v),
         }
     }
 
@@ -225,6 +249,25 @@ impl<'a> Ctx<'a> {
         }
     }
 
+    /// Evaluate an operand, leaving a named value in place instead of copying it.
+    fn operand<'e>(&mut self, e: &'e Expr) -> Flow<Operand<'e>> {
+        if let ExprKind::Name(n) = &e.kind {
+            if self.frame.as_ref().is_some_and(|f| f.contains_key(n)) {
+                return Ok(Operand::Param(n));
+            }
+            if !self.sheet.cache.contains_key(n) {
+                self.force(n, e.span)?;
+            }
+            return Ok(Operand::Global(n));
+        }
+        self.expr(e).map(Operand::Owned)
+    }
+
+    /// The value an operand stands for.
+    fn view<'s>(&'s self, o: &'s Operand) -> &'s Value {
+        view(&self.frame, &self.sheet.cache, o)
+    }
+
     fn name(&mut self, n: &str, span: Span) -> Flow<Value> {
         if let Some(v) = self.frame.as_ref().and_then(|f| f.get(n)) {
             return Ok(v.clone());
@@ -245,13 +288,17 @@ impl<'a> Ctx<'a> {
 
     /// Resolve a unit expression (cached per source position).
     pub fn unit(&mut self, u: &UnitExpr) -> Flow<Unit> {
+        self.unit_ref(u).cloned()
+    }
+
+    /// The resolved unit, borrowed from the cache (no copy).
+    fn unit_ref(&mut self, u: &UnitExpr) -> Flow<&Unit> {
         let key = (u.span.file, u.span.start);
-        if let Some(unit) = self.sheet.units.get(&key) {
-            return Ok(unit.clone());
+        if !self.sheet.units.contains_key(&key) {
+            let unit = resolve_by_text(&mut self.sheet.unit_texts, self.sources, u)?;
+            self.sheet.units.insert(key, unit);
         }
-        let unit = resolve_unit(u)?;
-        self.sheet.units.insert(key, unit.clone());
-        Ok(unit)
+        self.sheet.units.get(&key).ok_or(Stop::Reported)
     }
 
     fn record(&mut self, fields: &[(crate::syntax::Ident, Expr)]) -> Flow<Value> {
@@ -272,11 +319,12 @@ impl<'a> Ctx<'a> {
         if matches!(op, BinaryOp::And | BinaryOp::Or) {
             return self.logic(op, a, b);
         }
-        let x = self.expr(a)?;
-        let y = self.expr(b)?;
-        ops::binary(op, &x, &y).map_err(|e| {
+        let x = self.operand(a)?;
+        let y = self.operand(b)?;
+        let (x, y) = (self.view(&x), self.view(&y));
+        ops::binary(op, x, y).map_err(|e| {
             let mut d = op_error(e, span, a.span, b.span);
-            if op == BinaryOp::Add && ops::is_absolute(&x) && ops::is_absolute(&y) {
+            if op == BinaryOp::Add && ops::is_absolute(x) && ops::is_absolute(y) {
                 d.hints.push((
                     Some(b.span),
                     "this is an absolute temperature too; use a difference such as `10 K`".into(),
@@ -334,9 +382,16 @@ impl<'a> Ctx<'a> {
     }
 
     fn shown_as(&mut self, a: &Expr, u: &UnitExpr) -> Flow<Value> {
-        let v = self.expr(a)?;
-        let unit = self.unit(u)?;
-        show_in(v, &unit).map_err(|msg| {
+        let v = self.operand(a)?;
+        let unit = match self.sheet.units.entry((u.span.file, u.span.start)) {
+            Entry::Occupied(e) => e.into_mut(),
+            Entry::Vacant(e) => e.insert(resolve_by_text(
+                &mut self.sheet.unit_texts,
+                self.sources,
+                u,
+            )?),
+        };
+        show_in(view(&self.frame, &self.sheet.cache, &v), unit).map_err(|msg| {
             let mut d = Diagnostic::error(u.span, msg);
             d.hints.push((Some(a.span), "this value".into()));
             d.into()
@@ -344,10 +399,33 @@ impl<'a> Ctx<'a> {
     }
 }
 
+/// The value an operand stands for (a free function so that callers can
+/// borrow other parts of the context at the same time).
+fn view<'s>(
+    frame: &'s Option<super::FastMap<String, Value>>,
+    cache: &'s super::FastMap<String, Value>,
+    o: &'s Operand,
+) -> &'s Value {
+    static MISSING: Value = Value::Bool(false);
+    match o {
+        Operand::Owned(v) => v,
+        Operand::Param(n) => frame.as_ref().and_then(|f| f.get(*n)).unwrap_or(&MISSING),
+        Operand::Global(n) => cache.get(*n).unwrap_or(&MISSING),
+    }
+}
+
+/// An evaluated operand: a fresh value, or a name whose value stays where it is.
+enum Operand<'e> {
+    Owned(Value),
+    Param(&'e str),
+    Global(&'e str),
+}
+
 /// Attach a display unit to a quantity (or every quantity in a list).
-fn show_in(v: Value, unit: &Unit) -> Result<Value, String> {
+fn show_in(v: &Value, unit: &Unit) -> Result<Value, String> {
     match v {
         Value::Quantity(q, _) => {
+            let q = *q;
             if q.dim != unit.dim {
                 return Err(format!(
                     "cannot show {} in `{}`, which is {}",
@@ -360,13 +438,13 @@ fn show_in(v: Value, unit: &Unit) -> Result<Value, String> {
             Ok(Value::Quantity(q, Some(unit.clone())))
         }
         Value::List(items) => items
-            .into_iter()
+            .iter()
             .map(|i| show_in(i, unit))
             .collect::<Result<_, _>>()
             .map(Value::List),
         other => Err(format!(
             "`as` shows a quantity in a unit, but this is {}",
-            type_word(&other)
+            type_word(other)
         )),
     }
 }
@@ -405,6 +483,24 @@ fn op_error(e: OpError, span: Span, a: Span, b: Span) -> Diagnostic {
         d.hints.push((None, h));
     }
     d
+}
+
+/// Resolve a unit, reusing an earlier resolution of the same text.
+fn resolve_by_text(
+    texts: &mut super::FastMap<String, Unit>,
+    sources: &Sources,
+    u: &UnitExpr,
+) -> Result<Unit, Diagnostic> {
+    let text = sources.slice(u.span);
+    if text.is_empty() {
+        return resolve_unit(u);
+    }
+    if let Some(unit) = texts.get(text) {
+        return Ok(unit.clone());
+    }
+    let unit = resolve_unit(u)?;
+    texts.insert(text.to_string(), unit.clone());
+    Ok(unit)
 }
 
 /// Build a unit from a unit expression.

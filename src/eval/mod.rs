@@ -7,6 +7,7 @@
 
 mod call;
 mod ctx;
+mod fastmap;
 mod graph;
 mod limits;
 mod load;
@@ -17,6 +18,7 @@ mod suggest;
 pub mod whatif;
 
 pub use ctx::{resolve_unit, Ctx, Flow, Mode, Stop};
+pub use fastmap::FastMap;
 pub use graph::{cycles, dependencies};
 pub use limits::Limits;
 pub use ops::dim_words;

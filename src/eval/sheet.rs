@@ -5,6 +5,7 @@ use std::collections::{HashMap, HashSet};
 use std::path::PathBuf;
 use std::sync::Arc;
 
+use super::fastmap::FastMap;
 use super::graph;
 use crate::diag::{Diagnostic, Span};
 use crate::syntax::{Expr, Ident, Stmt, StmtKind};
@@ -47,15 +48,17 @@ pub struct Defined {
 /// The definitions of one worksheet (or of a REPL / notebook session).
 #[derive(Clone, Debug, Default)]
 pub struct Sheet {
-    pub defs: HashMap<String, Def>,
+    pub defs: FastMap<String, Def>,
     /// Names in definition order.
     pub order: Vec<String>,
     /// Values already computed.
-    pub cache: HashMap<String, Value>,
+    pub cache: FastMap<String, Value>,
     /// Input values set from outside (`--set`, `load(..., name: value)`).
-    pub overrides: HashMap<String, Value>,
+    pub overrides: FastMap<String, Value>,
     /// Resolved units of literals and `as`, keyed by (file, start).
-    pub units: HashMap<(u32, u32), Unit>,
+    pub units: FastMap<(u32, u32), Unit>,
+    /// Resolved units by their text (`kg/m^2`), so each is looked up once.
+    pub unit_texts: FastMap<String, Unit>,
     /// Directory `load` paths are relative to.
     pub dir: PathBuf,
 }
@@ -236,7 +239,7 @@ pub fn definition(stmt: &Stmt) -> Option<Def> {
         name: name.clone(),
         kind,
         params,
-        expr: Arc::new(expr.clone()),
+        expr: expr.clone(),
         deps,
         span: stmt.span,
     })

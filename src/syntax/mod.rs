@@ -9,6 +9,8 @@ pub mod split;
 
 pub use ast::*;
 
+use std::sync::Arc;
+
 use crate::diag::{Diagnostic, Span};
 
 /// Deepest expression nesting the evaluator accepts.
@@ -90,7 +92,7 @@ pub fn parse_expr(text: &str, file: u32) -> Result<Expr, Vec<Diagnostic>> {
         Some(Stmt {
             kind: StmtKind::Show(e),
             ..
-        }) => Ok(e),
+        }) => Ok(Arc::unwrap_or_clone(e)),
         Some(s) => Err(vec![Diagnostic::error(
             s.span,
             "expected a value here, not a statement",
@@ -116,7 +118,7 @@ fn check_depth(stmt: &Stmt) -> Result<(), Diagnostic> {
         | StmtKind::Show(expr) => expr,
         StmtKind::Function { body, .. } => body,
     };
-    let mut stack = vec![(root, 1usize)];
+    let mut stack: Vec<(&Expr, usize)> = vec![(root, 1usize)];
     while let Some((e, d)) = stack.pop() {
         if d > MAX_DEPTH {
             return Err(Diagnostic::error(
