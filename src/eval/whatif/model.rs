@@ -8,14 +8,14 @@
 //! Points run in parallel on rayon's pool; each worker borrows a private copy
 //! of the sheet from a small pool, so no state is shared between points.
 
-use std::collections::{HashMap, HashSet};
+use std::collections::HashSet;
 use std::sync::Mutex;
 
 use rayon::prelude::*;
 
 use super::progress::{self, Progress};
 use crate::diag::{Diagnostic, Span};
-use crate::eval::{graph, Ctx, DefKind, Flow, Limits, Mode, Sheet, Sources};
+use crate::eval::{graph, Ctx, DefKind, FastMap, Flow, Limits, Mode, Sheet, Sources};
 use crate::syntax::{Expr, StmtKind};
 use crate::units::{Quantity, Unit};
 use crate::value::Value;
@@ -87,7 +87,7 @@ pub(super) struct Model {
     sources: Sources,
     limits: Limits,
     depth: usize,
-    frame: Option<HashMap<String, Value>>,
+    frame: Option<FastMap<String, Value>>,
     pub inputs: Vec<Varied>,
     pub probes: Vec<Expr>,
     pub rules: Vec<Rule>,
@@ -294,8 +294,8 @@ fn first_error(ctx: &Ctx) -> String {
 
 /// Every definition that reads one of `names`, directly or through others
 /// (including the names themselves).
-fn dependents(defs: &HashMap<String, crate::eval::Def>, names: &[String]) -> HashSet<String> {
-    let mut readers: HashMap<&str, Vec<&str>> = HashMap::new();
+fn dependents(defs: &FastMap<String, crate::eval::Def>, names: &[String]) -> HashSet<String> {
+    let mut readers: FastMap<&str, Vec<&str>> = FastMap::default();
     for d in defs.values() {
         for dep in &d.deps {
             readers
@@ -349,7 +349,7 @@ fn worksheet_rules(ctx: &Ctx, file: u32, dependent: &HashSet<String>) -> Vec<Rul
     stmts
         .into_iter()
         .filter_map(|s| match s.kind {
-            StmtKind::Check(e) => Some(e),
+            StmtKind::Check(e) => Some(Expr::clone(&e)),
             _ => None,
         })
         .filter(|e| {
