@@ -10,6 +10,10 @@
 //!   (100,000 points), all threads; with `--oneshot` also on one thread.
 //! - `monte_carlo_10k`: 10,000 Monte Carlo samples of the same sheet.
 //!
+//! On a shared machine wall time depends on the CPU share; `--oneshot` also
+//! prints the process CPU time of each study (from /proc/self/stat), which
+//! does not.
+//!
 //! Run: `cargo bench --bench whatif` (criterion) or
 //! `cargo bench --bench whatif -- --oneshot` (one timed run of each, printed
 //! as `key=value` lines; used by benches/whatif_compare.py).
@@ -64,6 +68,25 @@ fn points_of(extra: &str, field: &str) -> usize {
     }
 }
 
+/// CPU time of this process (all threads) in seconds, from /proc/self/stat
+/// (Linux; clock ticks of 1/100 s). `None` elsewhere.
+fn cpu_seconds() -> Option<f64> {
+    let stat = std::fs::read_to_string("/proc/self/stat").ok()?;
+    let rest = stat.rsplit_once(')')?.1;
+    let fields: Vec<&str> = rest.split_whitespace().collect();
+    let utime: f64 = fields.get(11)?.parse().ok()?;
+    let stime: f64 = fields.get(12)?.parse().ok()?;
+    Some((utime + stime) / 100.0)
+}
+
+/// Wall time and CPU time of `f`.
+fn timed(f: impl FnOnce() -> Duration) -> (Duration, f64) {
+    let before = cpu_seconds().unwrap_or(0.0);
+    let wall = f();
+    let cpu = cpu_seconds().map_or(wall.as_secs_f64(), |after| after - before);
+    (wall, cpu)
+}
+
 fn on_threads(threads: usize, extra: &str) -> Duration {
     let pool = rayon::ThreadPoolBuilder::new()
         .num_threads(threads)
@@ -78,16 +101,19 @@ fn oneshot() {
     let points = points_of(SWEEP, "points");
     let samples = points_of(MONTE_CARLO, "samples");
     let base = study("");
-    let all = study(SWEEP);
-    let one = on_threads(1, SWEEP);
-    let mc = study(MONTE_CARLO);
+    let (all, all_cpu) = timed(|| study(SWEEP));
+    let (one, one_cpu) = timed(|| on_threads(1, SWEEP));
+    let (mc, mc_cpu) = timed(|| study(MONTE_CARLO));
     println!("threads={threads}");
     println!("base_seconds={:.6}", base.as_secs_f64());
     println!("sweep_points={points}");
     println!("sweep_seconds_all_threads={:.4}", all.as_secs_f64());
+    println!("sweep_cpu_seconds_all_threads={all_cpu:.2}");
     println!("sweep_seconds_one_thread={:.4}", one.as_secs_f64());
+    println!("sweep_cpu_seconds_one_thread={one_cpu:.2}");
     println!("monte_carlo_samples={samples}");
     println!("monte_carlo_seconds={:.4}", mc.as_secs_f64());
+    println!("monte_carlo_cpu_seconds={mc_cpu:.2}");
 }
 
 fn criterion_benches() {

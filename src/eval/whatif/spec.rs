@@ -203,26 +203,31 @@ impl Ctx<'_> {
         arg: &CallArg,
         v: &Varied,
     ) -> Flow<(f64, f64, Option<Unit>)> {
+        let value = self.expr(&arg.value)?;
+        self.bracket_of(&value, arg.value.span, v)
+    }
+
+    fn bracket_of(&self, value: &Value, span: Span, v: &Varied) -> Flow<(f64, f64, Option<Unit>)> {
         let example = format!("{}: [low, high]", v.name);
-        let items = match self.expr(&arg.value)? {
+        let items = match value {
             Value::List(items) if items.len() == 2 => items,
             other => {
                 let msg = format!(
                     "`{}` needs its bounds as a list of two values [low, high], found {}",
                     v.name,
-                    describe_list(&other)
+                    describe_list(other)
                 );
-                return Err(usage(arg.value.span, msg, &example).into());
+                return Err(usage(span, msg, &example).into());
             }
         };
-        let (lo, u) = self.fitting(&items[0], v, arg.value.span)?;
-        let (hi, _) = self.fitting(&items[1], v, arg.value.span)?;
+        let (lo, u) = self.fitting(&items[0], v, span)?;
+        let (hi, _) = self.fitting(&items[1], v, span)?;
         if lo.si >= hi.si {
             let msg = format!(
                 "the bounds of `{}` are empty: the low end must be below the high end",
                 v.name
             );
-            return Err(usage(arg.value.span, msg, &example).into());
+            return Err(usage(span, msg, &example).into());
         }
         Ok((lo.si, hi.si, u.or_else(|| v.unit.clone())))
     }
@@ -230,7 +235,11 @@ impl Ctx<'_> {
     /// The distribution given for input `v`.
     pub(super) fn shape_for(&mut self, arg: &CallArg, v: &Varied) -> Flow<Shape> {
         let value = self.expr(&arg.value)?;
-        let dist = match &value {
+        self.shape_of(&value, arg.value.span, v)
+    }
+
+    fn shape_of(&self, value: &Value, span: Span, v: &Varied) -> Flow<Shape> {
+        let dist = match value {
             Value::Record(r) => r.payload::<Distribution>(),
             _ => None,
         };
@@ -238,17 +247,13 @@ impl Ctx<'_> {
             let msg = format!(
                 "`{}` needs a distribution, found {}",
                 v.name,
-                type_word(&value)
+                type_word(value)
             );
-            return Err(usage(
-                arg.value.span,
-                msg,
-                "normal(70 degC, 2 K), uniform(2 m/s, 3 m/s)",
-            )
-            .into());
+            let example = "normal(70 degC, 2 K), uniform(2 m/s, 3 m/s)";
+            return Err(usage(span, msg, example).into());
         };
         let probe = Value::Quantity(Quantity::new(dist.shape.mean(), dist.dim, dist.kind), None);
-        self.fitting(&probe, v, arg.value.span)?;
+        self.fitting(&probe, v, span)?;
         Ok(dist.shape)
     }
 
@@ -258,15 +263,13 @@ impl Ctx<'_> {
         arg: &CallArg,
         v: &Varied,
     ) -> Flow<(f64, f64, Option<Unit>)> {
-        if let ExprKind::List(_) = arg.value.kind {
-            return self.bracket_for(arg, v);
+        let value = self.expr(&arg.value)?;
+        if let Value::List(_) = value {
+            return self.bracket_of(&value, arg.value.span, v);
         }
-        let shape = self.shape_for(arg, v)?;
-        Ok((
-            shape.mean() - shape.std(),
-            shape.mean() + shape.std(),
-            v.unit.clone(),
-        ))
+        let shape = self.shape_of(&value, arg.value.span, v)?;
+        let (mean, std) = (shape.mean(), shape.std());
+        Ok((mean - std, mean + std, v.unit.clone()))
     }
 
     /// Evaluate `e` at the worksheet's own values and insist on one quantity.
