@@ -242,7 +242,9 @@ mod tests {
     #[test]
     fn golden_section_finds_a_parabola_minimum() {
         let m = golden_section(|x| (x - 1.3).powi(2) + 2.0, 0.0, 4.0, 1e-9);
-        assert!((m.x[0] - 1.3).abs() < 1e-8, "{m:?}");
+        // Near a smooth minimum f changes by dx^2, so x is found only to about
+        // sqrt(machine epsilon) * |x| (Numerical Recipes, sec. 10.1).
+        assert!((m.x[0] - 1.3).abs() < 1e-7, "{m:?}");
         assert!((m.f - 2.0).abs() < 1e-12);
     }
 

@@ -363,3 +363,23 @@ fn worksheet_rules(ctx: &Ctx, file: u32, dependent: &HashSet<String>) -> Vec<Rul
         })
         .collect()
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn dependents_follow_values_and_user_functions() {
+        let text = "input a = 1 m\ninput b = 2 m\nf(x) = x * a\nc = f(b)\nd = b * 2\ne = c + d\n";
+        let (stmts, errors) = crate::syntax::parse(text, 0);
+        assert!(errors.is_empty(), "{errors:?}");
+        let mut sheet = Sheet::default();
+        assert!(sheet.define(&stmts, true).is_ok());
+        let mut got: Vec<String> = dependents(&sheet.defs, &["a".to_string()])
+            .into_iter()
+            .collect();
+        got.sort();
+        // `c` reads `a` through the function `f`; `b` and `d` do not depend on `a`.
+        assert_eq!(got, ["a", "c", "e", "f"]);
+    }
+}
