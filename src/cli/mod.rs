@@ -69,9 +69,13 @@ enum Command {
 /// Output formats of `run`.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
 pub enum Format {
+    /// Plain text, one value per line.
     Text,
+    /// One JSON object: values, checks, warnings.
     Json,
+    /// A Markdown table.
     Markdown,
+    /// A standalone HTML page.
     Html,
 }
 

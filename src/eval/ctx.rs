@@ -36,19 +36,27 @@ pub type Flow<T> = Result<T, Stop>;
 /// Run the engine, or only check names, units and dimensions.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum Mode {
+    /// Evaluate everything, engine work included.
     Run,
+    /// Check names, units and dimensions; skip built-in calls.
     CheckOnly,
 }
 
 /// Evaluation state for one `eval` of one sheet.
 pub struct Ctx<'a> {
+    /// The definitions being evaluated.
     pub sheet: &'a mut Sheet,
+    /// The source map (loads add files to it).
     pub sources: &'a mut Sources,
+    /// Depth, step budget and interrupt flag.
     pub limits: &'a Limits,
+    /// Run, or check only.
     pub mode: Mode,
     /// Expression steps taken so far (shared with nested loads).
     pub ops: u64,
+    /// Warnings collected so far (validity ranges, failed checks in loads).
     pub warnings: Vec<Diagnostic>,
+    /// Errors collected so far.
     pub errors: Vec<Diagnostic>,
     /// Parameters of the user function being evaluated.
     pub(super) frame: Option<super::FastMap<String, Value>>,
