@@ -536,9 +536,14 @@ fn tornado_record(model: &Model, name: &str, ends: &[(f64, f64)], outcomes: &[Ou
             label: "worksheet value".into(),
         });
     }
+    let order = rows
+        .iter()
+        .map(|r| Value::Str(inputs[r.0].name.clone()))
+        .collect();
     let mut rec = Record::new("tornado")
         .with("table", Value::Table(table))
-        .with("plot", Value::Plot(Arc::new(plot)));
+        .with("plot", Value::Plot(Arc::new(plot)))
+        .with("order", Value::List(order));
     if let Some(q) = f0 {
         rec = rec.with("base", Value::Quantity(q, unit));
     }
