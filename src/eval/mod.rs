@@ -15,6 +15,7 @@ mod ops;
 mod sheet;
 mod sources;
 mod suggest;
+pub mod whatif;
 
 pub use ctx::{resolve_unit, Ctx, Flow, Mode, Stop};
 pub use fastmap::FastMap;
