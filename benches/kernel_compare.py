@@ -10,8 +10,11 @@ Targets: siccant start <= 1/20 of ipykernel's, round trip <= 1/10.
 
     python benches/kernel_compare.py [--starts 5] [--cells 200]
 
-Needs both kernelspecs visible to jupyter_client (see tests/jupyter/run.sh:
-`siccant-kernel install --prefix VENV` and ipykernel installed in VENV).
+Needs both kernelspecs visible to jupyter_client and a release build, e.g.
+
+    cargo build --release -p siccant-kernel
+    target/release/siccant-kernel install --prefix VENV     # VENV has ipykernel
+    JUPYTER_PATH=VENV/share/jupyter VENV/bin/python benches/kernel_compare.py
 """
 
 import argparse
