@@ -24,7 +24,9 @@ pub use crate::eval::OutputItem;
 /// What one `eval` produced.
 #[derive(Clone, Debug, Default)]
 pub struct Output {
+    /// One item per statement that shows something, in order.
     pub items: Vec<OutputItem>,
+    /// Warnings (validity ranges and the like).
     pub warnings: Vec<Diagnostic>,
 }
 
@@ -33,16 +35,20 @@ pub struct Output {
 pub struct Completion {
     /// Byte range of the word being completed.
     pub start: usize,
+    /// End of the word (the cursor).
     pub end: usize,
+    /// Candidates, names first, then built-ins, keywords and units.
     pub matches: Vec<String>,
 }
 
 /// Whether a piece of input can be evaluated yet.
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub enum Completeness {
+    /// Ready to evaluate.
     Complete,
     /// Brackets are still open; continue on the next line with this indent.
     Incomplete {
+        /// Suggested indent for the next line.
         indent: String,
     },
     /// It can never become valid by adding text (e.g. an unmatched `)`).
@@ -218,6 +224,11 @@ impl Session {
     /// The names a definition reads.
     pub fn dependencies(&self, name: &str) -> Option<&[String]> {
         self.sheet.defs.get(name).map(|d| d.deps.as_slice())
+    }
+
+    /// A definition with its kind, statement span and dependencies (for the audit record).
+    pub fn definition(&self, name: &str) -> Option<&eval::Def> {
+        self.sheet.defs.get(name)
     }
 
     /// Every defined name (values, inputs, functions) in definition order.

@@ -1,6 +1,5 @@
 //! Calls: user functions, built-ins from the library registry, and `load`.
 
-use std::collections::HashMap;
 use std::panic::{catch_unwind, AssertUnwindSafe};
 
 use super::ctx::{Ctx, Flow, Mode, Stop};
@@ -66,6 +65,7 @@ impl Ctx<'_> {
         check_arg_names(b, args)?;
         let values = self.arguments(args)?;
         let mut bound = Args::bind(b, span, values)?;
+        bound.dir = Some(self.sheet.dir.clone());
         if self.mode == Mode::CheckOnly {
             return Err(Stop::Skip);
         }
@@ -145,8 +145,8 @@ fn bind_params(
     params: &[String],
     args: Vec<Arg>,
     span: Span,
-) -> Result<HashMap<String, Value>, Diagnostic> {
-    let mut frame = HashMap::new();
+) -> Result<super::FastMap<String, Value>, Diagnostic> {
+    let mut frame = super::FastMap::default();
     let mut next = 0;
     for a in args {
         let p = match &a.name {

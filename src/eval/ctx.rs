@@ -1,7 +1,8 @@
 //! The evaluator: forces named values through the dependency graph and
 //! evaluates expressions, attaching spans to span-less unit errors.
 
-use std::collections::{HashMap, HashSet};
+use std::collections::hash_map::Entry;
+use std::collections::HashSet;
 use std::path::PathBuf;
 
 use super::ops::{self, dim_words, OpError};
@@ -35,22 +36,30 @@ pub type Flow<T> = Result<T, Stop>;
 /// Run the engine, or only check names, units and dimensions.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum Mode {
+    /// Evaluate everything, engine work included.
     Run,
+    /// Check names, units and dimensions; skip built-in calls.
     CheckOnly,
 }
 
 /// Evaluation state for one `eval` of one sheet.
 pub struct Ctx<'a> {
+    /// The definitions being evaluated.
     pub sheet: &'a mut Sheet,
+    /// The source map (loads add files to it).
     pub sources: &'a mut Sources,
+    /// Depth, step budget and interrupt flag.
     pub limits: &'a Limits,
+    /// Run, or check only.
     pub mode: Mode,
     /// Expression steps taken so far (shared with nested loads).
     pub ops: u64,
+    /// Warnings collected so far (validity ranges, failed checks in loads).
     pub warnings: Vec<Diagnostic>,
+    /// Errors collected so far.
     pub errors: Vec<Diagnostic>,
     /// Parameters of the user function being evaluated.
-    pub(super) frame: Option<HashMap<String, Value>>,
+    pub(super) frame: Option<super::FastMap<String, Value>>,
     /// Names being computed right now (catches cycles the static check could not see).
     active: Vec<String>,
     /// Names whose evaluation failed in this run.
@@ -229,7 +238,7 @@ impl<'a> Ctx<'a> {
 
     fn expr_kind(&mut self, e: &Expr) -> Flow<Value> {
         match &e.kind {
-            ExprKind::Quantity { value, unit } => self.quantity(*value, unit.as_ref()),
+            ExprKind::Quantity { value, unit } => self.quantity(*value, unit.as_ref(), e.span),
             ExprKind::Bool(b) => Ok(Value::Bool(*b)),
             ExprKind::Str(s) => Ok(Value::Str(s.clone())),
             ExprKind::Name(n) => self.name(n, e.span),
@@ -264,16 +273,7 @@ impl<'a> Ctx<'a> {
 
     /// The value an operand stands for.
     fn view<'s>(&'s self, o: &'s Operand) -> &'s Value {
-        static MISSING: Value = Value::Bool(false);
-        match o {
-            Operand::Owned(v) => v,
-            Operand::Param(n) => self
-                .frame
-                .as_ref()
-                .and_then(|f| f.get(*n))
-                .unwrap_or(&MISSING),
-            Operand::Global(n) => self.sheet.cache.get(*n).unwrap_or(&MISSING),
-        }
+        view(&self.frame, &self.sheet.cache, o)
     }
 
     fn name(&mut self, n: &str, span: Span) -> Flow<Value> {
@@ -283,13 +283,21 @@ impl<'a> Ctx<'a> {
         self.force(n, span)
     }
 
-    fn quantity(&mut self, value: f64, unit: Option<&UnitExpr>) -> Flow<Value> {
+    fn quantity(&mut self, value: f64, unit: Option<&UnitExpr>, span: Span) -> Flow<Value> {
         match unit {
             None => Ok(Value::Quantity(Quantity::number(value), None)),
             Some(u) => {
                 let unit = self.unit(u)?;
-                let q = unit.to_si(value);
-                Ok(Value::Quantity(q, Some(unit)))
+                match unit.try_to_si(value) {
+                    Ok(q) => Ok(Value::Quantity(q, Some(unit))),
+                    Err(e) => {
+                        let mut d = Diagnostic::error(span, e.message);
+                        for h in e.hints {
+                            d = d.with_hint(h);
+                        }
+                        Err(d.into())
+                    }
+                }
             }
         }
     }
@@ -303,7 +311,7 @@ impl<'a> Ctx<'a> {
     fn unit_ref(&mut self, u: &UnitExpr) -> Flow<&Unit> {
         let key = (u.span.file, u.span.start);
         if !self.sheet.units.contains_key(&key) {
-            let unit = resolve_unit(u)?;
+            let unit = resolve_by_text(&mut self.sheet.unit_texts, self.sources, u)?;
             self.sheet.units.insert(key, unit);
         }
         self.sheet.units.get(&key).ok_or(Stop::Reported)
@@ -319,6 +327,10 @@ impl<'a> Ctx<'a> {
     }
 
     fn unary(&mut self, op: UnaryOp, a: &Expr, span: Span) -> Flow<Value> {
+        // `-10 degC` is a negative reading on the scale, not the negation of an absolute temperature.
+        if let (UnaryOp::Neg, ExprKind::Quantity { value, unit: Some(unit) }) = (op, &a.kind) {
+            return self.quantity(-*value, Some(unit), span);
+        }
         let v = self.expr(a)?;
         ops::unary(op, &v).map_err(|e| op_error(e, span, a.span, a.span).into())
     }
@@ -391,17 +403,34 @@ impl<'a> Ctx<'a> {
 
     fn shown_as(&mut self, a: &Expr, u: &UnitExpr) -> Flow<Value> {
         let v = self.operand(a)?;
-        self.unit_ref(u)?;
-        let unit = self.sheet.units.get(&(u.span.file, u.span.start));
-        let shown = match unit {
-            Some(unit) => show_in(self.view(&v), unit),
-            None => return Err(Stop::Reported),
+        let unit = match self.sheet.units.entry((u.span.file, u.span.start)) {
+            Entry::Occupied(e) => e.into_mut(),
+            Entry::Vacant(e) => e.insert(resolve_by_text(
+                &mut self.sheet.unit_texts,
+                self.sources,
+                u,
+            )?),
         };
-        shown.map_err(|msg| {
+        show_in(view(&self.frame, &self.sheet.cache, &v), unit).map_err(|msg| {
             let mut d = Diagnostic::error(u.span, msg);
             d.hints.push((Some(a.span), "this value".into()));
             d.into()
         })
+    }
+}
+
+/// The value an operand stands for (a free function so that callers can
+/// borrow other parts of the context at the same time).
+fn view<'s>(
+    frame: &'s Option<super::FastMap<String, Value>>,
+    cache: &'s super::FastMap<String, Value>,
+    o: &'s Operand,
+) -> &'s Value {
+    static MISSING: Value = Value::Bool(false);
+    match o {
+        Operand::Owned(v) => v,
+        Operand::Param(n) => frame.as_ref().and_then(|f| f.get(*n)).unwrap_or(&MISSING),
+        Operand::Global(n) => cache.get(*n).unwrap_or(&MISSING),
     }
 }
 
@@ -474,6 +503,24 @@ fn op_error(e: OpError, span: Span, a: Span, b: Span) -> Diagnostic {
         d.hints.push((None, h));
     }
     d
+}
+
+/// Resolve a unit, reusing an earlier resolution of the same text.
+fn resolve_by_text(
+    texts: &mut super::FastMap<String, Unit>,
+    sources: &Sources,
+    u: &UnitExpr,
+) -> Result<Unit, Diagnostic> {
+    let text = sources.slice(u.span);
+    if text.is_empty() {
+        return resolve_unit(u);
+    }
+    if let Some(unit) = texts.get(text) {
+        return Ok(unit.clone());
+    }
+    let unit = resolve_unit(u)?;
+    texts.insert(text.to_string(), unit.clone());
+    Ok(unit)
 }
 
 /// Build a unit from a unit expression.

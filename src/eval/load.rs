@@ -2,7 +2,6 @@
 //! returns a record of the loaded sheet's named values, with the given inputs
 //! overridden. Paths are relative to the loading file; load cycles are errors.
 
-use std::collections::HashMap;
 use std::path::{Path, PathBuf};
 
 use super::ctx::{Ctx, Flow, Mode, Stop};
@@ -111,9 +110,9 @@ impl Ctx<'_> {
         sheet: &Sheet,
         overrides: Vec<(String, Span, Value)>,
         shown: &str,
-    ) -> Flow<HashMap<String, Value>> {
+    ) -> Flow<super::FastMap<String, Value>> {
         let inputs = sheet.inputs();
-        let mut out = HashMap::new();
+        let mut out = super::FastMap::default();
         for (name, span, value) in overrides {
             if !inputs.contains(&name.as_str()) {
                 let mut d =

@@ -7,6 +7,7 @@
 
 mod call;
 mod ctx;
+mod fastmap;
 mod graph;
 mod limits;
 mod load;
@@ -16,6 +17,7 @@ mod sources;
 mod suggest;
 
 pub use ctx::{resolve_unit, Ctx, Flow, Mode, Stop};
+pub use fastmap::FastMap;
 pub use graph::{cycles, dependencies};
 pub use limits::Limits;
 pub use ops::dim_words;
@@ -30,9 +32,19 @@ use crate::value::Value;
 #[derive(Clone, Debug)]
 pub enum OutputItem {
     /// A named value (binding or input) or a bare expression (`name: None`).
-    Value { name: Option<String>, value: Value },
+    Value {
+        /// The name of a binding or input; `None` for a bare expression.
+        name: Option<String>,
+        /// What it evaluated to.
+        value: Value,
+    },
     /// The outcome of a `check`.
-    Check { text: String, passed: bool },
+    Check {
+        /// The condition as written.
+        text: String,
+        /// Whether it held.
+        passed: bool,
+    },
 }
 
 /// Evaluate statements in source order. Errors and warnings collect in `ctx`.

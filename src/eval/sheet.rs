@@ -5,6 +5,7 @@ use std::collections::{HashMap, HashSet};
 use std::path::PathBuf;
 use std::sync::Arc;
 
+use super::fastmap::FastMap;
 use super::graph;
 use crate::diag::{Diagnostic, Span};
 use crate::syntax::{Expr, Ident, Stmt, StmtKind};
@@ -14,18 +15,24 @@ use crate::value::Value;
 /// What a definition defines.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum DefKind {
+    /// `name = expr`
     Value,
+    /// `input name = expr`
     Input,
+    /// `f(x) = expr`
     Function,
 }
 
 /// One definition: `name = expr`, `input name = expr` or `f(x) = expr`.
 #[derive(Clone, Debug)]
 pub struct Def {
+    /// The defined name, with its span.
     pub name: Ident,
+    /// Value, input or function.
     pub kind: DefKind,
     /// Parameter names of a function; empty otherwise.
     pub params: Vec<String>,
+    /// The defining expression (a function's body).
     pub expr: Arc<Expr>,
     /// Names the expression reads.
     pub deps: Vec<String>,
@@ -47,15 +54,18 @@ pub struct Defined {
 /// The definitions of one worksheet (or of a REPL / notebook session).
 #[derive(Clone, Debug, Default)]
 pub struct Sheet {
-    pub defs: HashMap<String, Def>,
+    /// Definitions by name.
+    pub defs: FastMap<String, Def>,
     /// Names in definition order.
     pub order: Vec<String>,
     /// Values already computed.
-    pub cache: HashMap<String, Value>,
+    pub cache: FastMap<String, Value>,
     /// Input values set from outside (`--set`, `load(..., name: value)`).
-    pub overrides: HashMap<String, Value>,
+    pub overrides: FastMap<String, Value>,
     /// Resolved units of literals and `as`, keyed by (file, start).
-    pub units: HashMap<(u32, u32), Unit>,
+    pub units: FastMap<(u32, u32), Unit>,
+    /// Resolved units by their text (`kg/m^2`), so each is looked up once.
+    pub unit_texts: FastMap<String, Unit>,
     /// Directory `load` paths are relative to.
     pub dir: PathBuf,
 }
@@ -236,7 +246,7 @@ pub fn definition(stmt: &Stmt) -> Option<Def> {
         name: name.clone(),
         kind,
         params,
-        expr: Arc::new(expr.clone()),
+        expr: expr.clone(),
         deps,
         span: stmt.span,
     })

@@ -85,19 +85,19 @@ impl Lower {
                 let name = self.defined(next(&mut inner)?)?;
                 StmtKind::Input {
                     name,
-                    expr: self.expr(next(&mut inner)?)?,
+                    expr: self.expr(next(&mut inner)?)?.into(),
                 }
             }
-            Rule::check_stmt => StmtKind::Check(self.expr(next(&mut inner)?)?),
+            Rule::check_stmt => StmtKind::Check(self.expr(next(&mut inner)?)?.into()),
             Rule::binding => {
                 let name = self.defined(next(&mut inner)?)?;
                 StmtKind::Binding {
                     name,
-                    expr: self.expr(next(&mut inner)?)?,
+                    expr: self.expr(next(&mut inner)?)?.into(),
                 }
             }
             Rule::function_def => self.function_def(inner.collect())?,
-            _ => StmtKind::Show(self.expr(next(&mut inner)?)?),
+            _ => StmtKind::Show(self.expr(next(&mut inner)?)?.into()),
         };
         Ok(Stmt { kind, span })
     }
@@ -119,7 +119,11 @@ impl Lower {
             }
         }
         let body = body.ok_or_else(|| Diagnostic::error(name.span, "function has no body"))?;
-        Ok(StmtKind::Function { name, params, body })
+        Ok(StmtKind::Function {
+            name,
+            params,
+            body: body.into(),
+        })
     }
 
     /// A name being defined: keywords are refused.
@@ -563,10 +567,31 @@ fn expected_message(positives: &[Rule], found: &str) -> String {
     }
 }
 
+/// Hints for characters from word processors and other notations.
+fn typography_hint(c: char, before: &str) -> Option<&'static str> {
+    match c {
+        '°' => Some("write temperatures as `80 degC`, `176 degF` or `353 K`"),
+        '²' | '³' | '⁻' | '¹' => Some("write powers with `^`, e.g. `m^2`, `s^-1`"),
+        '×' | '·' | '⋅' => Some("multiply with `*`"),
+        '÷' => Some("divide with `/`"),
+        '−' | '–' => Some("write minus as `-`"),
+        ',' if before.ends_with(|b: char| b.is_ascii_digit()) => {
+            Some("the decimal separator is `.`; separate arguments inside brackets")
+        }
+        c if !c.is_ascii() && c.is_alphabetic() => {
+            Some("names and units use ASCII letters, digits and `_`")
+        }
+        _ => None,
+    }
+}
+
 /// A hint for common slips at `pos`.
 fn parse_hint(text: &str, pos: usize) -> Option<String> {
     let rest = text.get(pos..)?.trim_start();
     let before = text.get(..pos)?.trim_end();
+    if let Some(h) = rest.chars().next().and_then(|c| typography_hint(c, before)) {
+        return Some(h.into());
+    }
     if rest.starts_with('=') && !rest.starts_with("==") && !before.is_empty() {
         return Some("to compare, write `==`; to define a name, put it alone left of `=`".into());
     }
@@ -601,7 +626,7 @@ mod tests {
 
     fn show(text: &str) -> ExprKind {
         match stmt(text).kind {
-            StmtKind::Show(e) => e.kind,
+            StmtKind::Show(e) => e.kind.clone(),
             other => panic!("`{text}` is not a bare expression: {other:?}"),
         }
     }

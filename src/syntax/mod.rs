@@ -9,6 +9,8 @@ pub mod split;
 
 pub use ast::*;
 
+use std::sync::Arc;
+
 use crate::diag::{Diagnostic, Span};
 
 /// Deepest expression nesting the evaluator accepts.
@@ -24,7 +26,9 @@ pub fn parse(text: &str, file: u32) -> (Vec<Stmt>, Vec<Diagnostic>) {
 /// The result of [`parse_recovering`].
 #[derive(Debug, Default)]
 pub struct Parsed {
+    /// Statements that parsed.
     pub stmts: Vec<Stmt>,
+    /// Every parse error, by position.
     pub errors: Vec<Diagnostic>,
     /// Names that lines which failed to parse seem to define (`name = ...`),
     /// so that their uses elsewhere are not reported again as undefined.
@@ -90,7 +94,7 @@ pub fn parse_expr(text: &str, file: u32) -> Result<Expr, Vec<Diagnostic>> {
         Some(Stmt {
             kind: StmtKind::Show(e),
             ..
-        }) => Ok(e),
+        }) => Ok(Arc::unwrap_or_clone(e)),
         Some(s) => Err(vec![Diagnostic::error(
             s.span,
             "expected a value here, not a statement",
@@ -116,7 +120,7 @@ fn check_depth(stmt: &Stmt) -> Result<(), Diagnostic> {
         | StmtKind::Show(expr) => expr,
         StmtKind::Function { body, .. } => body,
     };
-    let mut stack = vec![(root, 1usize)];
+    let mut stack: Vec<(&Expr, usize)> = vec![(root, 1usize)];
     while let Some((e, d)) = stack.pop() {
         if d > MAX_DEPTH {
             return Err(Diagnostic::error(

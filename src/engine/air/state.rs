@@ -24,7 +24,7 @@ use uom::si::thermodynamic_temperature::kelvin;
 use super::saturation::{self as sat, T_MIN_SATURATION, T_ZERO_C};
 use super::thermo::{self, EPSILON};
 use super::AirError;
-use crate::engine::solve::{brent, Tolerance};
+use crate::engine::solve::{brent, newton_bracketed, Tolerance};
 
 /// Lowest dry-bulb temperature of an air state, K (-40 degC).
 pub const T_MIN_K: f64 = 233.15;
@@ -155,22 +155,35 @@ fn w_for_enthalpy(t: f64, p: f64, target: f64, hc: f64) -> Result<f64, AirError>
     })
 }
 
-/// Root of an increasing residual on `[lo, hi]`; an end is returned when the
-/// residual already has the root's sign there (a saturated state, where both
-/// ends meet up to rounding).
-fn root_in<F: FnMut(f64) -> f64>(
-    mut f: F,
-    lo: f64,
-    hi: f64,
-    what: &'static str,
-) -> Result<f64, AirError> {
-    if f(lo) >= 0.0 {
-        return Ok(lo);
+/// The adiabatic-saturation balance in log form, and an estimate of its slope, 1/K.
+///
+/// The balance `h(T*, w_s*) - h1 - (w_s* - w) h_c(T*) = 0` is
+/// `w_s* (h_v* - h_c) = h1 - h_a(T*) - w h_c` (vapour "supply" = sensible "demand",
+/// h_a the enthalpy of everything but the vapour). The residual is the log of
+/// their ratio: same sign, nearly linear in T* (the supply grows like p_ws), so
+/// Newton's method needs few steps. The slope uses Clausius-Clapeyron for
+/// `d ln w_s*/dT*` and round specific heats; the solver refines it by secants.
+fn wet_bulb_residual(ts: f64, w: f64, p: f64, h1: f64, ice: bool) -> (f64, f64) {
+    let pvs = sat::saturated_vapour_pressure(ts, p);
+    if pvs >= p {
+        return (f64::INFINITY, f64::INFINITY);
     }
-    if f(hi) <= 0.0 {
-        return Ok(hi);
+    let ws = w_of(pvs, p);
+    let hv = thermo::vapour_enthalpy(ts, pvs);
+    let (hc, cc) = if ice {
+        (thermo::ice_enthalpy(ts), 2100.0)
+    } else {
+        (thermo::liquid_enthalpy(ts), 4186.0)
+    };
+    let latent = hv - hc;
+    let supply = ws * latent;
+    let demand = h1 - thermo::air_part_enthalpy(ts, p - pvs, pvs) - w * hc;
+    if demand <= 0.0 {
+        return (f64::INFINITY, f64::INFINITY);
     }
-    brent(f, lo, hi, T_TOL).map_err(|e| AirError::NotConverged { what, reason: e })
+    let dln_ws = p / (p - pvs) * latent / (thermo::R_WATER_IF97 * ts * ts);
+    let slope = dln_ws + (1880.0 - cc) / latent + (1006.0 + w * cc) / demand;
+    ((supply / demand).ln(), slope)
 }
 
 impl AirState {
@@ -476,11 +489,26 @@ impl AirState {
             return Err(AirError::NoDewPoint { w: self.w });
         }
         let ln_pv = pv.ln();
-        let residual = |t: f64| sat::saturated_vapour_pressure(t, p).ln() - ln_pv;
+        // Slope by Clausius-Clapeyron, d ln p/dT = L/(R T^2) with L about 2.5 MJ/kg
+        // (2.83 MJ/kg over ice); the solver refines it by secants.
+        let residual = |t: f64| {
+            let latent = if t < T_ZERO_C {
+                2.834e6
+            } else {
+                2.501e6 - 2.4e3 * (t - T_ZERO_C)
+            };
+            (
+                sat::ln_saturated_vapour_pressure(t, p) - ln_pv,
+                latent.max(1e5) / (thermo::R_WATER_IF97 * t * t),
+            )
+        };
         let hi = self.t_k.max(T_ZERO_C + 1.0);
-        brent(residual, T_MIN_SATURATION, hi, T_TOL).map_err(|e| AirError::NotConverged {
-            what: "dew point",
-            reason: e,
+        let start = self.dew_point_estimate_k().clamp(T_MIN_SATURATION, hi);
+        newton_bracketed(residual, T_MIN_SATURATION, hi, start, T_TOL).map_err(|e| {
+            AirError::NotConverged {
+                what: "dew point",
+                reason: e,
+            }
         })
     }
 
@@ -497,25 +525,45 @@ impl AirState {
     pub(crate) fn wet_bulb_k(&self) -> Result<f64, AirError> {
         let (t, w, p) = (self.t_k, self.w, self.p_pa);
         let h1 = h_of(t, w, p);
-        let residual = |ts: f64, hc: f64| match ws_of(ts, p) {
-            Some(ws) => h_of(ts, ws, p) - h1 - (ws - w) * hc,
-            None => f64::INFINITY,
-        };
         let hi = self.wet_bulb_upper_k()?;
-        let lo = self.dew_point_k().unwrap_or(T_MIN_SATURATION).min(hi);
-        if hi >= T_ZERO_C
-            && (lo >= T_ZERO_C || residual(T_ZERO_C, thermo::liquid_enthalpy(T_ZERO_C)) <= 0.0)
-        {
-            let f = |ts: f64| residual(ts, thermo::liquid_enthalpy(ts));
-            return root_in(f, lo.max(T_ZERO_C), hi, "wet-bulb temperature");
+        let dew = self.dew_point_estimate_k().min(hi);
+        let err = |e| AirError::NotConverged {
+            what: "wet-bulb temperature",
+            reason: e,
+        };
+        // A start about a fifth of the way from the dew point (common practice: the
+        // wet-bulb sits nearer the dew point than the dry-bulb).
+        let guess = dew + (hi - dew) * 0.2;
+        // Over liquid water when a root at or above 0 degC exists, else over ice.
+        let (lo, hi, ice) = if hi < T_ZERO_C {
+            (T_MIN_SATURATION, hi, true)
+        } else if dew >= T_ZERO_C + 2.0 || wet_bulb_residual(T_ZERO_C, w, p, h1, false).0 <= 0.0 {
+            (T_ZERO_C, hi, false)
+        } else {
+            (T_MIN_SATURATION, T_ZERO_C, true)
+        };
+        if hi - lo <= T_TOL.abs {
+            return Ok(hi);
         }
-        let f = |ts: f64| residual(ts, thermo::ice_enthalpy(ts));
-        root_in(
-            f,
-            lo.min(T_ZERO_C),
-            hi.min(T_ZERO_C),
-            "wet-bulb temperature",
-        )
+        let f = |ts: f64| wet_bulb_residual(ts, w, p, h1, ice);
+        // Nearly pure steam (w of tens of kg/kg): the root may lie within 0.02 K of
+        // the boiling point, above the bracket; refuse rather than return its end.
+        if w > 50.0 && f(hi).0 < 0.0 {
+            return Err(AirError::ProcessOutOfRange {
+                what: format!("the wet-bulb of nearly pure steam (w = {w:.1} kg/kg) is within 0.02 K of the boiling point"),
+            });
+        }
+        let ts = newton_bracketed(f, lo, hi, guess.clamp(lo, hi), T_TOL).map_err(err)?;
+        // A saturated state: the root is the dry-bulb itself up to rounding.
+        Ok(ts.min(t))
+    }
+
+    /// Rough dew point (Magnus form with Alduchov & Eskridge 1996 constants), K;
+    /// used only to start the wet-bulb search.
+    fn dew_point_estimate_k(&self) -> f64 {
+        let pv = pv_of(self.w, self.p_pa);
+        let l = (pv.max(1e-3) / 610.94).ln();
+        (T_ZERO_C + 243.04 * l / (17.625 - l)).max(T_MIN_SATURATION)
     }
 
     /// Upper end of the wet-bulb bracket: the dry-bulb, or just below the boiling
@@ -524,16 +572,15 @@ impl AirState {
         if ws_of(self.t_k, self.p_pa).is_some() {
             return Ok(self.t_k);
         }
-        let tb = sat::boiling_point(self.p_pa).map_err(|e| AirError::NotConverged {
-            what: "boiling point",
-            reason: e,
-        })?;
-        let mut hi = tb * (1.0 - 1e-9);
+        // Just below the boiling point (IF97 backward equation, within 0.01 K of
+        // our curve): w_s* there exceeds 100 kg/kg, so the balance is positive.
+        let tb = sat::if97_saturation_temperature(self.p_pa.clamp(611.3, sat::P_CRITICAL));
+        let mut hi = tb - 0.02;
         for _ in 0..40 {
             if ws_of(hi, self.p_pa).is_some() {
                 return Ok(hi);
             }
-            hi -= (tb - hi).max(1e-9) * 2.0;
+            hi -= 0.02;
         }
         Err(AirError::ProcessOutOfRange {
             what: "no saturated state below the boiling point".into(),

@@ -15,7 +15,7 @@ use uom::si::thermodynamic_temperature::kelvin;
 
 use super::balance::{Closure, EnergyFlows, Ledger};
 use super::product::{exchange, surface_humidity_ratio, Product, Surface};
-use super::{non_negative, positive, settle_recirculation, DryerError};
+use super::{check_drying_air, non_negative, positive, settle_recirculation, DryerError};
 use crate::engine::air::AirState;
 
 /// One element on the air path: a tray, or a layer of a bed.
@@ -155,6 +155,7 @@ impl BatchDryer {
     pub fn simulate(&self) -> Result<BatchResult, DryerError> {
         self.validate()?;
         let first_supply = self.heated(self.fresh_air.humidity_ratio())?;
+        check_drying_air(&first_supply, self.elements[0].surface.lewis)?;
         let x_eq = self.product.equilibrium_db(&first_supply);
         if self.x_target_db <= x_eq {
             return Err(DryerError::BelowEquilibrium {

@@ -17,7 +17,7 @@ use uom::si::thermodynamic_temperature::kelvin;
 use super::balance::{Closure, EnergyFlows, Ledger};
 use super::batch::{latent_minimum, Fan};
 use super::product::{exchange, Exchange, Product, Surface};
-use super::{non_negative, positive, settle_recirculation, DryerError};
+use super::{check_drying_air, non_negative, positive, settle_recirculation, DryerError};
 use crate::engine::air::AirState;
 use crate::engine::solve::{brent, Tolerance};
 
@@ -44,6 +44,42 @@ pub struct Zone {
     /// Wall loss conductance per metre of zone, W/(m K).
     pub loss_w_per_m_k: f64,
     pub fan: Fan,
+}
+
+impl Zone {
+    /// Check the zone's own inputs (lengths, flows, fractions, fan, supply air).
+    pub fn validate(&self) -> Result<(), DryerError> {
+        if let Some(l) = self.length_m {
+            positive("zone length", l)?;
+        }
+        positive("zone air flow", self.dry_air_kg_per_s)?;
+        if !(0.0..=0.95).contains(&self.recirculated) {
+            return Err(DryerError::Invalid {
+                name: "recirculated fraction",
+                value: self.recirculated,
+                expected: "0 to 0.95 of the zone exhaust",
+            });
+        }
+        positive("heat transfer coefficient", self.surface.h_w_per_m2_k)?;
+        positive("Lewis number", self.surface.lewis)?;
+        non_negative("wall loss", self.loss_w_per_m_k)?;
+        non_negative("fan pressure rise", self.fan.pressure_rise_pa)?;
+        if !(self.fan.efficiency > 0.0 && self.fan.efficiency <= 1.0) {
+            return Err(DryerError::Invalid {
+                name: "fan efficiency",
+                value: self.fan.efficiency,
+                expected: "a fraction in (0, 1]",
+            });
+        }
+        if self.supply_t_k < self.fresh_air.t_kelvin() {
+            return Err(DryerError::Invalid {
+                name: "supply temperature",
+                value: self.supply_t_k,
+                expected: "at or above the zone's fresh air",
+            });
+        }
+        check_drying_air(&heated(self, self.fresh_air.humidity_ratio())?, self.surface.lewis)
+    }
 }
 
 /// A continuous dryer.
@@ -144,32 +180,14 @@ impl Belt {
             });
         }
         for (i, z) in self.zones.iter().enumerate() {
-            if let Some(l) = z.length_m {
-                positive("zone length", l)?;
-            } else if i + 1 != self.zones.len() {
+            if z.length_m.is_none() && i + 1 != self.zones.len() {
                 return Err(DryerError::Invalid {
                     name: "zone length",
                     value: f64::NAN,
                     expected: "a length on every zone but the last",
                 });
             }
-            positive("zone air flow", z.dry_air_kg_per_s)?;
-            if !(0.0..=0.95).contains(&z.recirculated) {
-                return Err(DryerError::Invalid {
-                    name: "recirculated fraction",
-                    value: z.recirculated,
-                    expected: "0 to 0.95 of the zone exhaust",
-                });
-            }
-            positive("heat transfer coefficient", z.surface.h_w_per_m2_k)?;
-            non_negative("wall loss", z.loss_w_per_m_k)?;
-            if z.supply_t_k < z.fresh_air.t_kelvin() {
-                return Err(DryerError::Invalid {
-                    name: "supply temperature",
-                    value: z.supply_t_k,
-                    expected: "at or above the zone's fresh air",
-                });
-            }
+            z.validate()?;
         }
         Ok(())
     }

@@ -142,6 +142,23 @@ pub(crate) fn settle_recirculation<T>(
     })
 }
 
+/// Refuse supply air that cannot take up water: saturated at the temperature a
+/// wet surface would take in it.
+pub(crate) fn check_drying_air(supply: &AirState, lewis: f64) -> Result<(), DryerError> {
+    let tw = product::wet_surface_k(supply, lewis)?;
+    let capacity = product::surface_humidity_ratio(tw, supply.p_pascal()) - supply.humidity_ratio();
+    if capacity <= 1e-7 {
+        return Err(DryerError::AirSaturates {
+            what: format!(
+                "the supply air at {:.1} degC and {:.0} % relative humidity is saturated and takes up no water: heat it or use drier air",
+                supply.t_kelvin() - product::T_REF_K,
+                supply.relative_humidity() * 100.0
+            ),
+        });
+    }
+    Ok(())
+}
+
 /// Check that `value` is finite and positive.
 pub(crate) fn positive(name: &'static str, value: f64) -> Result<f64, DryerError> {
     if value.is_finite() && value > 0.0 {

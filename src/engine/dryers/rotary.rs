@@ -20,9 +20,12 @@ use uom::si::length::{foot, meter, micrometer};
 use uom::si::mass_flux::kilogram_per_square_meter_second;
 use uom::si::time::{minute, second};
 
+use super::balance::{Closure, EnergyFlows};
+use super::batch::{latent_minimum, Fan};
 use super::continuous::Flow;
 use super::product::Product;
 use super::{non_negative, positive, DryerError};
+use crate::engine::air::thermo::{dry_air_enthalpy, liquid_enthalpy, vapour_enthalpy};
 use crate::engine::air::AirState;
 use crate::engine::solve::{brent, Tolerance};
 
@@ -46,6 +49,11 @@ pub struct Rotary {
     pub flow: Flow,
     /// Fraction of the heat given up by the gas that is lost through the shell.
     pub loss_fraction: f64,
+    /// Temperature of the air drawn into the heater, K (same humidity ratio as
+    /// the hot gas: the heater is taken as sensible only).
+    pub ambient_t_k: f64,
+    /// Exhaust fan: pressure rise and efficiency, acting on the gas leaving.
+    pub fan: Fan,
 }
 
 /// A rotary dryer design.
@@ -65,7 +73,13 @@ pub struct RotaryResult {
     /// Fraction of the drum volume held up by solids.
     pub holdup_fraction: f64,
     pub water_kg_per_s: f64,
+    /// Heater plus fan per kg of water, J/kg.
     pub specific_energy_j_per_kg: f64,
+    /// Energy flows as rates, W (heater = gas heated from the ambient intake).
+    pub flows: EnergyFlows,
+    pub closure: Closure,
+    /// Latent heat at the gas inlet wet-bulb, J/kg.
+    pub latent_minimum_j_per_kg: f64,
     pub warnings: Vec<String>,
 }
 
@@ -96,25 +110,33 @@ pub fn volumetric_coefficient(g: MassFlux, d: Length) -> f64 {
     0.5 * lb_per_h_ft2(g).powf(0.67) / ft(d) * btu_per_h_ft3_f
 }
 
+/// What the retention-time correlation needs.
+#[derive(Clone, Copy, Debug)]
+pub struct Drum {
+    pub length: Length,
+    pub diameter: Length,
+    /// Slope, length per length.
+    pub slope: f64,
+    pub speed_rpm: f64,
+    pub particle_diameter: Length,
+    /// Gas and solids mass velocities over the drum cross-section.
+    pub gas: MassFlux,
+    pub solids: MassFlux,
+    pub flow: Flow,
+}
+
 /// Friedman-Marshall retention time.
-pub fn retention_time(
-    length: Length,
-    slope: f64,
-    rpm: f64,
-    d: Length,
-    dp: Length,
-    gas: MassFlux,
-    solids: MassFlux,
-    flow: Flow,
-) -> Time {
-    let b = 5.0 * dp.get::<micrometer>().powf(-0.5);
-    let gas_term = 0.6 * b * ft(length) * lb_per_h_ft2(gas) / lb_per_h_ft2(solids);
-    let sign = if flow == Flow::Countercurrent {
+pub fn retention_time(drum: &Drum) -> Time {
+    let b = 5.0 * drum.particle_diameter.get::<micrometer>().powf(-0.5);
+    let gas_term = 0.6 * b * ft(drum.length) * lb_per_h_ft2(drum.gas) / lb_per_h_ft2(drum.solids);
+    let sign = if drum.flow == Flow::Countercurrent {
         1.0
     } else {
         -1.0
     };
-    let minutes = 0.23 * ft(length) / (slope * rpm.powf(0.9) * ft(d)) + sign * gas_term;
+    let minutes = 0.23 * ft(drum.length)
+        / (drum.slope * drum.speed_rpm.powf(0.9) * ft(drum.diameter))
+        + sign * gas_term;
     Time::new::<minute>(minutes)
 }
 
@@ -139,6 +161,21 @@ impl Rotary {
                 name: "loss fraction",
                 value: self.loss_fraction,
                 expected: "0 to 0.5",
+            });
+        }
+        if !(self.fan.efficiency > 0.0 && self.fan.efficiency <= 1.0) {
+            return Err(DryerError::Invalid {
+                name: "fan efficiency",
+                value: self.fan.efficiency,
+                expected: "a fraction in (0, 1]",
+            });
+        }
+        non_negative("fan pressure rise", self.fan.pressure_rise_pa)?;
+        if self.ambient_t_k > self.gas_in.t_kelvin() {
+            return Err(DryerError::Invalid {
+                name: "ambient temperature",
+                value: self.ambient_t_k,
+                expected: "at or below the gas inlet temperature (the heater warms the intake air)",
             });
         }
         if self.t_gas_out_k >= self.gas_in.t_kelvin() {
@@ -269,16 +306,16 @@ impl Rotary {
         };
         let volume = to_product / (ua * lmtd);
         let length = volume / section;
-        let theta = retention_time(
-            Length::new::<meter>(length),
-            self.slope,
-            self.speed_rpm,
-            d,
-            Length::new::<meter>(self.particle_diameter_m),
-            g,
-            f_solids,
-            self.flow,
-        );
+        let theta = retention_time(&Drum {
+            length: Length::new::<meter>(length),
+            diameter: d,
+            slope: self.slope,
+            speed_rpm: self.speed_rpm,
+            particle_diameter: Length::new::<meter>(self.particle_diameter_m),
+            gas: g,
+            solids: f_solids,
+            flow: self.flow,
+        });
         let mut warnings = Vec::new();
         let gv = g.get::<kilogram_per_square_meter_second>();
         if !(0.5..=5.0).contains(&gv) {
@@ -293,6 +330,8 @@ impl Rotary {
         if !(0.03..=0.15).contains(&holdup_fraction) {
             warnings.push(format!("solids holdup {:.1} % of the drum volume (assuming a bulk density of 1000 kg/m^3) is outside the usual 3-15 % (common practice)", holdup_fraction * 100.0));
         }
+        let (flows, closure) = self.balance(m, &gas_out, water, loss_w)?;
+        self.check_temperatures(&gas_out, &mut warnings);
         Ok(RotaryResult {
             dry_gas_kg_per_s: m,
             gas_out,
@@ -305,9 +344,83 @@ impl Rotary {
             retention_time_s: theta_s,
             holdup_fraction,
             water_kg_per_s: water,
-            specific_energy_j_per_kg: (to_product + loss_w) / water,
+            specific_energy_j_per_kg: flows.specific_energy_j_per_kg(),
+            flows,
+            closure,
+            latent_minimum_j_per_kg: latent_minimum(&self.gas_in)?,
             warnings,
         })
+    }
+
+    /// Energy flows and closure. The heater warms intake air at the ambient
+    /// temperature (same humidity ratio) to the gas inlet state; the water
+    /// evaporates at the gas inlet wet-bulb (the constant-rate surface) and
+    /// leaves as vapour at the gas outlet temperature.
+    fn balance(
+        &self,
+        m: f64,
+        gas_out: &AirState,
+        water: f64,
+        loss_w: f64,
+    ) -> Result<(EnergyFlows, Closure), DryerError> {
+        let w_in = self.gas_in.humidity_ratio();
+        let h_at_out =
+            AirState::from_w(
+                uom::si::f64::ThermodynamicTemperature::new::<
+                    uom::si::thermodynamic_temperature::kelvin,
+                >(self.t_gas_out_k),
+                w_in,
+                self.gas_in.pressure(),
+            )?
+            .enthalpy()
+            .value;
+        // Intake: the inlet gas's dry air and vapour cooled to ambient as ideal gases (direct-fired
+        // gas may hold more water than ambient air could, so no humid-air state is formed).
+        let sensible = |t: f64| dry_air_enthalpy(t) + w_in * vapour_enthalpy(t, 0.0);
+        let h_intake = h_at_out - (sensible(self.t_gas_out_k) - sensible(self.ambient_t_k));
+        let t_ev = self.gas_in.wet_bulb()?.value;
+        let hv_ev = vapour_enthalpy(t_ev, 0.0);
+        let ms = self.dry_solid_kg_per_s;
+        let pr = &self.product;
+        let d_product = ms
+            * (pr.enthalpy_j_per_kg(self.x_out_db, self.t_solid_out_k)
+                - pr.enthalpy_j_per_kg(self.x_in_db, self.t_solid_in_k));
+        let fan_volume = m * gas_out.humid_volume().value;
+        let flows = EnergyFlows {
+            heater: m * (self.gas_in.enthalpy().value - h_intake),
+            fan: self.fan.pressure_rise_pa * fan_volume / self.fan.efficiency,
+            exhaust_air_sensible: m * (h_at_out - h_intake),
+            evaporation: water * (hv_ev - liquid_enthalpy(t_ev)),
+            vapour_superheat: m * (gas_out.enthalpy().value - h_at_out) - water * hv_ev,
+            product_sensible: d_product + water * liquid_enthalpy(t_ev),
+            losses: loss_w,
+            water,
+        };
+        let out = m * (gas_out.enthalpy().value - h_intake) + d_product + loss_w;
+        let closure = Closure {
+            water_relative: (water - m * (gas_out.humidity_ratio() - w_in)) / water,
+            energy_relative: (flows.heater - out) / flows.heater,
+        };
+        Ok((flows, closure))
+    }
+
+    fn check_temperatures(&self, gas_out: &AirState, warnings: &mut Vec<String>) {
+        if let Some(t_max) = self.product.t_max_k {
+            if self.t_solid_out_k > t_max {
+                warnings.push(format!(
+                    "the solids leave at {:.1} degC, above the product's maximum of {:.1} degC: lower the gas temperatures",
+                    self.t_solid_out_k - 273.15,
+                    t_max - 273.15
+                ));
+            }
+        }
+        let rh = gas_out.relative_humidity();
+        if rh > 0.9 {
+            warnings.push(format!(
+                "the exhaust gas leaves at {:.0} % relative humidity: it will condense in cooler ducts and the dust collector (common practice: keep exhaust well above its dew point)",
+                rh * 100.0
+            ));
+        }
     }
 }
 

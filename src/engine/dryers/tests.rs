@@ -234,6 +234,11 @@ fn rotary() -> Rotary {
         particle_diameter_m: 500e-6,
         flow: Flow::Countercurrent,
         loss_fraction: 0.05,
+        ambient_t_k: 293.15,
+        fan: Fan {
+            pressure_rise_pa: 1500.0,
+            efficiency: 0.65,
+        },
     }
 }
 
@@ -249,4 +254,41 @@ fn rotary_energy_balance() {
     assert!(((released - r.heat_to_product_w - r.loss_w) / released).abs() < 1e-6);
     assert!((r.water_kg_per_s - 0.23).abs() < 1e-12);
     assert!(r.length_m > 0.0 && r.retention_time_s > 0.0);
+    assert!(r.closure.within(1e-6), "{:?}", r.closure);
+    let f = r.flows;
+    assert!(((f.outflows() - f.heater) / f.heater).abs() < 1e-6, "{f:?}");
+    assert!(f.specific_energy_j_per_kg() > r.latent_minimum_j_per_kg);
+}
+
+/// Saturated supply air is refused up front with a message naming it, for both dryer kinds.
+#[test]
+fn saturated_supply_air_is_named() {
+    let mut d = tray_dryer(2, 1.0, 0.0, 20.0);
+    d.fresh_air = AirState::from_rh(
+        ThermodynamicTemperature::new::<degree_celsius>(35.0),
+        1.0,
+        Pressure::new::<kilopascal>(101.325),
+    )
+    .expect("saturated air");
+    d.supply_t_k = d.fresh_air.t_kelvin();
+    match d.simulate() {
+        Err(DryerError::AirSaturates { what }) => assert!(what.contains("saturated"), "{what}"),
+        other => panic!("expected a saturation error, got {other:?}"),
+    }
+    let mut b = belt(vec![zone(None, 35.0, Flow::Cocurrent, 1.0, 0.0)]);
+    b.zones[0].fresh_air = d.fresh_air;
+    assert!(matches!(b.solve(), Err(DryerError::AirSaturates { .. })));
+}
+
+#[test]
+fn zero_fan_efficiency_is_refused() {
+    let mut b = belt(vec![zone(None, 70.0, Flow::Cocurrent, 1.0, 0.0)]);
+    b.zones[0].fan.efficiency = 0.0;
+    assert!(matches!(
+        b.solve(),
+        Err(DryerError::Invalid {
+            name: "fan efficiency",
+            ..
+        })
+    ));
 }
