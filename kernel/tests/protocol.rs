@@ -642,3 +642,41 @@ async fn cells_queued_behind_a_failed_cell_are_aborted() {
     );
     k.finish();
 }
+
+#[tokio::test(flavor = "multi_thread")]
+async fn a_plot_is_shown_as_svg_and_png() {
+    let mut k = Harness::start().await;
+    let code = "xs = [1, 2, 3] * 1 m\nplot(curve(xs, xs * 2, label: \"twice\"), title: \"t\", x: \"a\", y: \"b\")";
+    let (reply, outputs) = k.execute(code).await;
+    assert_eq!(reply.status, ReplyStatus::Ok);
+    let result = outputs
+        .iter()
+        .find_map(|m| {
+            if let JupyterMessageContent::ExecuteResult(r) = &m.content {
+                Some(r.clone())
+            } else {
+                None
+            }
+        })
+        .expect("an execute_result");
+    let svg = result.data.content.iter().find_map(|m| {
+        if let MediaType::Svg(s) = m {
+            Some(s.clone())
+        } else {
+            None
+        }
+    });
+    assert!(svg.expect("image/svg+xml").contains("<svg"));
+    let png = result.data.content.iter().find_map(|m| {
+        if let MediaType::Png(p) = m {
+            Some(p.clone())
+        } else {
+            None
+        }
+    });
+    assert!(
+        png.expect("image/png").starts_with("iVBORw0KGgo"),
+        "base64 of the PNG signature"
+    );
+    k.finish();
+}
