@@ -1,7 +1,8 @@
 //! Property tests (bounded cases, part of the normal suite) that complement
 //! tests/units_props.rs: dimension algebra laws and compound-unit parsing,
 //! humid-air constructors that round-trip over the whole formulation range,
-//! isotherm inverses, and drying-time integration against closed forms.
+//! isotherm inverses, drying-time integration against closed forms, and
+//! sweeps that equal their points evaluated one by one.
 //!
 //! The closed form of the drying time on a constant-rate + linear-falling-rate
 //! curve, t = (Ls/A) [(X1 - Xc)/Rc + (Xc - Xe)/Rc ln((Xc - Xe)/(X2 - Xe))], is the
@@ -13,6 +14,8 @@ use siccant::engine::air::{AirState, T_MAX_K, T_MIN_K};
 use siccant::engine::integrate::gauss_kronrod;
 use siccant::engine::kinetics::{drying_time, numerical_time, RateCurve};
 use siccant::engine::sorption::{Isotherm, IsothermKind};
+use siccant::session::{OutputItem, Session};
+use siccant::value::Value;
 use siccant::units::{parse_unit, Dim, Kind, Quantity};
 use uom::si::f64::{Pressure, ThermodynamicTemperature};
 use uom::si::pressure::pascal;
@@ -215,4 +218,61 @@ proptest! {
 fn quadrature_of_a_non_finite_integrand_is_an_error() {
     assert!(gauss_kronrod(|x| 1.0 / x, -1.0, 1.0, 1e-10, 0.0).is_err());
     assert!(gauss_kronrod(|x| 1.0 / x.sqrt(), -1.0, 1.0, 1e-10, 0.0).is_err());
+}
+
+/// The SI magnitudes of the last value a cell shows (a quantity or a list).
+fn shown_si(session: &mut Session, text: &str) -> Vec<f64> {
+    let out = session.eval(text).unwrap_or_else(|d| panic!("`{text}`: {d:?}"));
+    let value = out.items.iter().rev().find_map(|i| match i {
+        OutputItem::Value { value, .. } => Some(value.clone()),
+        _ => None,
+    });
+    match value {
+        Some(Value::Quantity(q, _)) => vec![q.si],
+        Some(Value::List(items)) => items
+            .iter()
+            .map(|v| match v {
+                Value::Quantity(q, _) => q.si,
+                other => panic!("not a quantity: {other:?}"),
+            })
+            .collect(),
+        other => panic!("`{text}` shows {other:?}"),
+    }
+}
+
+const SHEET: &str = "a = air(T: T, rh: 10 %)\nwb = a.wetbulb\nh = h_tray_parallel(air: a, velocity: v)\n";
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 8, ..ProptestConfig::default() })]
+
+    #[test]
+    fn a_sweep_equals_its_points_evaluated_one_by_one(
+        temps in prop::collection::vec(30.0f64..140.0, 1..4),
+        speeds in prop::collection::vec(0.5f64..6.0, 1..3),
+    ) {
+        let list = |xs: &[f64], unit: &str| {
+            let items: Vec<String> = xs.iter().map(|x| format!("{x:.3} {unit}")).collect();
+            format!("[{}]", items.join(", "))
+        };
+        let mut swept = Session::new();
+        let text = format!(
+            "input T = 60 degC\ninput v = 2 m/s\n{SHEET}s = sweep([wb, h], T: {}, v: {})",
+            list(&temps, "degC"),
+            list(&speeds, "m/s")
+        );
+        swept.eval(&text).unwrap_or_else(|d| panic!("{d:?}"));
+        let (wb_all, h_all) = (shown_si(&mut swept, "s.wb"), shown_si(&mut swept, "s.h"));
+        prop_assert_eq!(wb_all.len(), temps.len() * speeds.len());
+        // the first input varies slowest
+        for (i, t) in temps.iter().enumerate() {
+            for (j, v) in speeds.iter().enumerate() {
+                let mut one = Session::new();
+                let text = format!("input T = {t:.3} degC\ninput v = {v:.3} m/s\n{SHEET}");
+                one.eval(&text).unwrap_or_else(|d| panic!("{d:?}"));
+                let k = i * speeds.len() + j;
+                prop_assert!(close(shown_si(&mut one, "wb")[0], wb_all[k], 1e-12, 0.0));
+                prop_assert!(close(shown_si(&mut one, "h")[0], h_all[k], 1e-12, 0.0));
+            }
+        }
+    }
 }
