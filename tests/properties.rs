@@ -15,8 +15,8 @@ use siccant::engine::integrate::gauss_kronrod;
 use siccant::engine::kinetics::{drying_time, numerical_time, RateCurve};
 use siccant::engine::sorption::{Isotherm, IsothermKind};
 use siccant::session::{OutputItem, Session};
-use siccant::value::Value;
 use siccant::units::{parse_unit, Dim, Kind, Quantity};
+use siccant::value::Value;
 use uom::si::f64::{Pressure, ThermodynamicTemperature};
 use uom::si::pressure::pascal;
 use uom::si::thermodynamic_temperature::kelvin;
@@ -222,7 +222,9 @@ fn quadrature_of_a_non_finite_integrand_is_an_error() {
 
 /// The SI magnitudes of the last value a cell shows (a quantity or a list).
 fn shown_si(session: &mut Session, text: &str) -> Vec<f64> {
-    let out = session.eval(text).unwrap_or_else(|d| panic!("`{text}`: {d:?}"));
+    let out = session
+        .eval(text)
+        .unwrap_or_else(|d| panic!("`{text}`: {d:?}"));
     let value = out.items.iter().rev().find_map(|i| match i {
         OutputItem::Value { value, .. } => Some(value.clone()),
         _ => None,
@@ -240,7 +242,8 @@ fn shown_si(session: &mut Session, text: &str) -> Vec<f64> {
     }
 }
 
-const SHEET: &str = "a = air(T: T, rh: 10 %)\nwb = a.wetbulb\nh = h_tray_parallel(air: a, velocity: v)\n";
+const SHEET: &str =
+    "a = air(T: T, rh: 10 %)\nwb = a.wetbulb\nh = h_tray_parallel(air: a, velocity: v)\n";
 
 proptest! {
     #![proptest_config(ProptestConfig { cases: 8, ..ProptestConfig::default() })]
