@@ -179,9 +179,7 @@ impl Blame {
         let key = match &e {
             DryerError::Invalid { name, .. } => *name,
             DryerError::BelowEquilibrium { .. } => "target",
-            DryerError::AirSaturates { what } if what.starts_with("the supply air") => {
-                "supply air"
-            }
+            DryerError::AirSaturates { what } if what.starts_with("the supply air") => "supply air",
             DryerError::AirSaturates { .. } => "saturates",
             DryerError::NotConverged { .. } | DryerError::Air(_) => "",
         };
@@ -291,7 +289,13 @@ fn moisture(args: &mut Args, name: &str) -> Result<f64, Diagnostic> {
     let span = args.span_of(name);
     let x = kinded(args, name, Dim::NONE, Kind::Moisture)?;
     let x = required(args, name, x)?;
-    checked(span, name, x, x >= 0.0, "a moisture content of at least 0 db")
+    checked(
+        span,
+        name,
+        x,
+        x >= 0.0,
+        "a moisture content of at least 0 db",
+    )
 }
 
 /// An absolute temperature, K.
@@ -318,7 +322,13 @@ fn fraction_or(args: &mut Args, name: &str, default: f64) -> Result<f64, Diagnos
 }
 
 /// A whole number between `lo` and `hi`.
-fn count(args: &mut Args, name: &str, lo: usize, hi: usize, default: Option<usize>) -> Result<usize, Diagnostic> {
+fn count(
+    args: &mut Args,
+    name: &str,
+    lo: usize,
+    hi: usize,
+    default: Option<usize>,
+) -> Result<usize, Diagnostic> {
     let span = args.span_of(name);
     let Some(q) = args.opt_quantity(name, Dim::NONE)? else {
         return required(args, name, default);
@@ -327,14 +337,22 @@ fn count(args: &mut Args, name: &str, lo: usize, hi: usize, default: Option<usiz
     if (q.si - n).abs() > 1e-9 || n < lo as f64 || n > hi as f64 {
         return Err(Diagnostic::error(
             span,
-            format!("`{name}` must be a whole number from {lo} to {hi}, got {}", q.si),
+            format!(
+                "`{name}` must be a whole number from {lo} to {hi}, got {}",
+                q.si
+            ),
         ));
     }
     Ok(n as usize)
 }
 
 /// A word from a list, with a default.
-fn word(args: &mut Args, name: &str, allowed: &[&str], default: &str) -> Result<String, Diagnostic> {
+fn word(
+    args: &mut Args,
+    name: &str,
+    allowed: &[&str],
+    default: &str,
+) -> Result<String, Diagnostic> {
     let Some(arg) = args.take(name) else {
         return Ok(default.to_string());
     };
@@ -508,9 +526,17 @@ fn wet_product(args: &mut Args) -> Result<Value, Diagnostic> {
     let xc = moisture(args, "X_critical")?;
     let xe_span = args.span_of("X_eq");
     let xe = kinded(args, "X_eq", Dim::NONE, Kind::Moisture)?.unwrap_or(0.0);
-    checked(xe_span, "X_eq", xe, (0.0..=xc).contains(&xe), "between 0 db and X_critical")?;
+    checked(
+        xe_span,
+        "X_eq",
+        xe,
+        (0.0..=xc).contains(&xe),
+        "between 0 db and X_critical",
+    )?;
     let n_span = args.span_of("exponent");
-    let n = args.opt_quantity("exponent", Dim::NONE)?.map_or(1.0, |q| q.si);
+    let n = args
+        .opt_quantity("exponent", Dim::NONE)?
+        .map_or(1.0, |q| q.si);
     checked(n_span, "exponent", n, n > 0.0, "positive")?;
     let t_max = temperature(args, "T_max")?;
     args.finish()?;
@@ -562,7 +588,13 @@ fn belt_zone(args: &mut Args) -> Result<Value, Diagnostic> {
     let m = positive(args, "air_flow", Dim::MASS_FLOW)?;
     let h = positive(args, "h", Dim::HEAT_TRANSFER_COEFFICIENT)?;
     let length = match args.opt_quantity("length", Dim::LENGTH)? {
-        Some(l) => Some(checked(blame.span("length"), "length", l.si, l.si > 0.0, "positive")?),
+        Some(l) => Some(checked(
+            blame.span("length"),
+            "length",
+            l.si,
+            l.si > 0.0,
+            "positive",
+        )?),
         None => None,
     };
     let flow = flow_direction(args, "cocurrent")?;
@@ -596,10 +628,20 @@ fn zone_record(zone: Zone) -> Record {
     }
     r = r
         .with("T_supply", abs_t(zone.supply_t_k))
-        .with("air_flow", q(zone.dry_air_kg_per_s, Dim::MASS_FLOW, Kind::Plain))
+        .with(
+            "air_flow",
+            q(zone.dry_air_kg_per_s, Dim::MASS_FLOW, Kind::Plain),
+        )
         .with("recirculated", fraction_v(zone.recirculated))
         .with("flow", Value::Str(flow.into()))
-        .with("h", q(zone.surface.h_w_per_m2_k, Dim::HEAT_TRANSFER_COEFFICIENT, Kind::Plain))
+        .with(
+            "h",
+            q(
+                zone.surface.h_w_per_m2_k,
+                Dim::HEAT_TRANSFER_COEFFICIENT,
+                Kind::Plain,
+            ),
+        )
         .with("lewis", number(zone.surface.lewis));
     r.payload = Some(Arc::new(ZonePayload(zone)));
     r
@@ -613,25 +655,30 @@ fn zones_arg(args: &mut Args) -> Result<Vec<Zone>, Diagnostic> {
         one => vec![one],
     };
     if items.is_empty() {
-        return Err(Diagnostic::error(arg.span, "`zones` needs at least one belt_zone"));
+        return Err(Diagnostic::error(
+            arg.span,
+            "`zones` needs at least one belt_zone",
+        ));
     }
     items
         .iter()
         .enumerate()
-        .map(|(i, v)| match v {
-            Value::Record(r) => r.payload::<ZonePayload>().map(|z| z.0.clone()),
-            _ => None,
-        }
-        .ok_or_else(|| {
-            Diagnostic::error(
-                arg.span,
-                format!(
-                    "`zones` item {} must be a belt_zone(...), found {}",
-                    i + 1,
-                    type_word(v)
-                ),
-            )
-        }))
+        .map(|(i, v)| {
+            match v {
+                Value::Record(r) => r.payload::<ZonePayload>().map(|z| z.0.clone()),
+                _ => None,
+            }
+            .ok_or_else(|| {
+                Diagnostic::error(
+                    arg.span,
+                    format!(
+                        "`zones` item {} must be a belt_zone(...), found {}",
+                        i + 1,
+                        type_word(v)
+                    ),
+                )
+            })
+        })
         .collect()
 }
 
@@ -663,7 +710,13 @@ fn belt_dryer(args: &mut Args) -> Result<Value, Diagnostic> {
         x_target_db: moisture(args, "X_out")?,
         t_in_k: temperature(args, "T_product")?.unwrap_or(fresh_t),
         area_per_belt_area: match args.opt_quantity("area_ratio", Dim::NONE)? {
-            Some(a) => checked(blame.span("area_ratio"), "area_ratio", a.si, a.si > 0.0, "positive")?,
+            Some(a) => checked(
+                blame.span("area_ratio"),
+                "area_ratio",
+                a.si,
+                a.si > 0.0,
+                "positive",
+            )?,
             None => 1.0,
         },
         ambient_t_k: temperature(args, "ambient")?.unwrap_or(fresh_t),
@@ -676,18 +729,33 @@ fn belt_dryer(args: &mut Args) -> Result<Value, Diagnostic> {
 }
 
 fn belt_record(belt: &Belt, r: &BeltResult) -> Record {
-    let lengths = r.zones.iter().map(|z| q(z.length_m, Dim::LENGTH, Kind::Plain)).collect();
+    let lengths = r
+        .zones
+        .iter()
+        .map(|z| q(z.length_m, Dim::LENGTH, Kind::Plain))
+        .collect();
     let margin = r
         .zones
         .iter()
         .filter_map(|z| dew_margin(&z.exhaust))
         .fold(f64::INFINITY, f64::min);
-    let rh_max = r.zones.iter().map(|z| z.exhaust.relative_humidity()).fold(0.0, f64::max);
-    let t_max = r.profile.iter().map(|p| p.t_product_k).fold(r.t_out_k, f64::max);
+    let rh_max = r
+        .zones
+        .iter()
+        .map(|z| z.exhaust.relative_humidity())
+        .fold(0.0, f64::max);
+    let t_max = r
+        .profile
+        .iter()
+        .map(|p| p.t_product_k)
+        .fold(r.t_out_k, f64::max);
     let rec = Record::new("belt_dryer")
         .with("length", shown(r.length_m, Dim::LENGTH, "m"))
         .with("residence_time", shown(r.residence_s, Dim::TIME, "min"))
-        .with("belt_speed", shown(r.belt_speed_m_per_s, Dim::VELOCITY, "m/min"))
+        .with(
+            "belt_speed",
+            shown(r.belt_speed_m_per_s, Dim::VELOCITY, "m/min"),
+        )
         .with("zone_lengths", Value::List(lengths))
         .with("X_out", moisture_v(r.x_out_db))
         .with("T_out", abs_t(r.t_out_k))
@@ -698,12 +766,21 @@ fn belt_record(belt: &Belt, r: &BeltResult) -> Record {
     let rec = with_merit(rec, &r.flows, r.latent_minimum_j_per_kg);
     let rec = with_closure(rec, &r.closure)
         .with("preheat_length", shown(r.periods_m[0], Dim::LENGTH, "m"))
-        .with("constant_rate_length", shown(r.periods_m[1], Dim::LENGTH, "m"))
-        .with("falling_rate_length", shown(r.periods_m[2], Dim::LENGTH, "m"))
+        .with(
+            "constant_rate_length",
+            shown(r.periods_m[1], Dim::LENGTH, "m"),
+        )
+        .with(
+            "falling_rate_length",
+            shown(r.periods_m[2], Dim::LENGTH, "m"),
+        )
         .with("exhaust_margin", delta_t(margin))
         .with("exhaust_rh_max", q(rh_max, Dim::NONE, Kind::Activity))
         .with("zones", Value::Table(zones_table(belt, r)))
-        .with("energy", Value::Table(energy_table(&r.flows, Dim::POWER, "kW")))
+        .with(
+            "energy",
+            Value::Table(energy_table(&r.flows, Dim::POWER, "kW")),
+        )
         .with("profile", Value::Table(profile_table(r)));
     rec.with("cautions", cautions())
 }
@@ -754,11 +831,33 @@ fn profile_table(r: &BeltResult) -> Table {
     Table {
         title: Some("profile along the belt".into()),
         columns: vec![
-            column("z", Some("m"), p.iter().map(|p| q(p.z_m, Dim::LENGTH, Kind::Plain)).collect()),
-            column("zone", None, p.iter().map(|p| number((p.zone + 1) as f64)).collect()),
-            column("X", Some("db"), p.iter().map(|p| moisture_v(p.x_db)).collect()),
-            column("T product", Some("degC"), p.iter().map(|p| abs_t(p.t_product_k)).collect()),
-            column("T air", Some("degC"), p.iter().map(|p| abs_t(p.air.t_kelvin())).collect()),
+            column(
+                "z",
+                Some("m"),
+                p.iter()
+                    .map(|p| q(p.z_m, Dim::LENGTH, Kind::Plain))
+                    .collect(),
+            ),
+            column(
+                "zone",
+                None,
+                p.iter().map(|p| number((p.zone + 1) as f64)).collect(),
+            ),
+            column(
+                "X",
+                Some("db"),
+                p.iter().map(|p| moisture_v(p.x_db)).collect(),
+            ),
+            column(
+                "T product",
+                Some("degC"),
+                p.iter().map(|p| abs_t(p.t_product_k)).collect(),
+            ),
+            column(
+                "T air",
+                Some("degC"),
+                p.iter().map(|p| abs_t(p.air.t_kelvin())).collect(),
+            ),
             column(
                 "w air",
                 Some("g/kg_da"),
@@ -825,7 +924,13 @@ fn batch_air(args: &mut Args, blame: &Blame) -> Result<BatchAir, Diagnostic> {
         t_product: temperature(args, "T_product")?.unwrap_or(fresh.t_kelvin()),
         ambient: temperature(args, "ambient")?.unwrap_or(fresh.t_kelvin()),
         max_time_s: match args.opt_quantity("max_time", Dim::TIME)? {
-            Some(t) => checked(blame.span("max_time"), "max_time", t.si, t.si > 0.0, "positive")?,
+            Some(t) => checked(
+                blame.span("max_time"),
+                "max_time",
+                t.si,
+                t.si > 0.0,
+                "positive",
+            )?,
             None => 100.0 * 3600.0,
         },
     })
@@ -871,7 +976,12 @@ fn tray_dryer(args: &mut Args) -> Result<Value, Diagnostic> {
         h_w_per_m2_k: positive(args, "h", Dim::HEAT_TRANSFER_COEFFICIENT)?,
         lewis: lewis(args, &air.supply)?,
     };
-    let wall_loss = non_negative_or(args, "wall_loss", Dim::HEAT_TRANSFER_COEFFICIENT * Dim::AREA, 0.0)?;
+    let wall_loss = non_negative_or(
+        args,
+        "wall_loss",
+        Dim::HEAT_TRANSFER_COEFFICIENT * Dim::AREA,
+        0.0,
+    )?;
     let fan = fan(args)?;
     args.finish()?;
     let element = Element {
@@ -900,7 +1010,11 @@ fn batch_record(type_name: &str, r: &BatchResult, times_name: &str, element: &st
         .iter()
         .filter_map(|s| dew_margin(&s.exhaust))
         .fold(f64::INFINITY, f64::min);
-    let rh_max = r.history.iter().map(|s| s.exhaust.relative_humidity()).fold(0.0, f64::max);
+    let rh_max = r
+        .history
+        .iter()
+        .map(|s| s.exhaust.relative_humidity())
+        .fold(0.0, f64::max);
     let t_max = r
         .history
         .iter()
@@ -941,7 +1055,9 @@ fn history_table(history: &[BatchSample], element: &str) -> Table {
     let mut columns = vec![column(
         "t",
         Some("h"),
-        rows.iter().map(|s| q(s.t_s, Dim::TIME, Kind::Plain)).collect(),
+        rows.iter()
+            .map(|s| q(s.t_s, Dim::TIME, Kind::Plain))
+            .collect(),
     )];
     for i in 0..n {
         columns.push(column(
@@ -952,10 +1068,26 @@ fn history_table(history: &[BatchSample], element: &str) -> Table {
     }
     let last = n.saturating_sub(1);
     columns.extend([
-        column("T product first", Some("degC"), rows.iter().map(|s| abs_t(s.t_product_k[0])).collect()),
-        column("T product last", Some("degC"), rows.iter().map(|s| abs_t(s.t_product_k[last])).collect()),
-        column("T supply", Some("degC"), rows.iter().map(|s| abs_t(s.supply.t_kelvin())).collect()),
-        column("T exhaust", Some("degC"), rows.iter().map(|s| abs_t(s.exhaust.t_kelvin())).collect()),
+        column(
+            "T product first",
+            Some("degC"),
+            rows.iter().map(|s| abs_t(s.t_product_k[0])).collect(),
+        ),
+        column(
+            "T product last",
+            Some("degC"),
+            rows.iter().map(|s| abs_t(s.t_product_k[last])).collect(),
+        ),
+        column(
+            "T supply",
+            Some("degC"),
+            rows.iter().map(|s| abs_t(s.supply.t_kelvin())).collect(),
+        ),
+        column(
+            "T exhaust",
+            Some("degC"),
+            rows.iter().map(|s| abs_t(s.exhaust.t_kelvin())).collect(),
+        ),
         column(
             "w exhaust",
             Some("g/kg_da"),
@@ -1014,9 +1146,15 @@ fn bed_arg(args: &mut Args, blame: &Blame) -> Result<Bed, Diagnostic> {
     let area = positive(args, "bed_area", Dim::AREA)?;
     let dp = positive(args, "particle_diameter", Dim::LENGTH)?;
     let e = args.quantity("voidage", Dim::NONE)?.si;
-    checked(blame.span("voidage"), "voidage", e, e > 0.0 && e < 1.0, "a fraction between 0 and 1")?;
+    checked(
+        blame.span("voidage"),
+        "voidage",
+        e,
+        e > 0.0 && e < 1.0,
+        "a fraction between 0 and 1",
+    )?;
     let bulk = positive(args, "bulk_density", Dim::DENSITY)?;
-    let layers = count(args, "layers", 2, 200, Some(20))?;
+    let layers = count(args, "layers", 2, 200, Some(10))?;
     Ok(Bed {
         depth,
         area,
@@ -1028,7 +1166,13 @@ fn bed_arg(args: &mut Args, blame: &Blame) -> Result<Bed, Diagnostic> {
 }
 
 /// Wakao-Kaguei film coefficient at the supply air, with its range warnings.
-fn packed_bed_h(args: &mut Args, blame: &Blame, supply: &AirState, u: f64, dp: f64) -> Result<f64, Diagnostic> {
+fn packed_bed_h(
+    args: &mut Args,
+    blame: &Blame,
+    supply: &AirState,
+    u: f64,
+    dp: f64,
+) -> Result<f64, Diagnostic> {
     let t = Transport::of(supply);
     let re = t.density_kg_per_m3 * u * dp / t.viscosity_pa_s;
     let nu = transfer::packed_bed_wakao_kaguei(re, t.prandtl())
@@ -1054,7 +1198,12 @@ fn deep_bed(args: &mut Args) -> Result<Value, Diagnostic> {
         h_w_per_m2_k: h,
         lewis: lewis(args, &air.supply)?,
     };
-    let wall_loss = non_negative_or(args, "wall_loss", Dim::HEAT_TRANSFER_COEFFICIENT * Dim::AREA, 0.0)?;
+    let wall_loss = non_negative_or(
+        args,
+        "wall_loss",
+        Dim::HEAT_TRANSFER_COEFFICIENT * Dim::AREA,
+        0.0,
+    )?;
     let extra = non_negative_or(args, "extra_pressure", Dim::PRESSURE, 0.0)?;
     let efficiency = fraction_or(args, "fan_efficiency", 0.6)?;
     args.finish()?;
@@ -1081,7 +1230,15 @@ fn deep_bed(args: &mut Args) -> Result<Value, Diagnostic> {
         pressure_rise_pa: bed_dp + extra,
         efficiency,
     };
-    let dryer = batch_dryer(product, vec![element; bed.layers], x, &air, m, wall_loss, fan);
+    let dryer = batch_dryer(
+        product,
+        vec![element; bed.layers],
+        x,
+        &air,
+        m,
+        wall_loss,
+        fan,
+    );
     let r = dryer.simulate().map_err(|e| blame.error(e))?;
     warn_all(args, &r.warnings);
     let rec = batch_record("deep_bed", &r, "layer_times", "layer")
@@ -1163,17 +1320,33 @@ fn rotary_record(rotary: &Rotary, r: &RotaryResult, gas_out: Record) -> Record {
         .gas_mass_velocity
         .get::<uom::si::mass_flux::kilogram_per_square_meter_second>();
     let rec = Record::new("rotary_dryer")
-        .with("gas_flow", shown(r.dry_gas_kg_per_s, Dim::MASS_FLOW, "kg/s"))
+        .with(
+            "gas_flow",
+            shown(r.dry_gas_kg_per_s, Dim::MASS_FLOW, "kg/s"),
+        )
         .with("gas_out", Value::Record(gas_out))
         .with("length", shown(r.length_m, Dim::LENGTH, "m"))
         .with("L_over_D", number(r.length_m / rotary.diameter_m))
-        .with("retention_time", shown(r.retention_time_s, Dim::TIME, "min"))
+        .with(
+            "retention_time",
+            shown(r.retention_time_s, Dim::TIME, "min"),
+        )
         .with("holdup", fraction_v(r.holdup_fraction))
-        .with("Ua", q(r.ua_w_per_m3_k, Dim::HEAT_TRANSFER_COEFFICIENT / Dim::LENGTH, Kind::Plain))
+        .with(
+            "Ua",
+            shown(
+                r.ua_w_per_m3_k,
+                Dim::HEAT_TRANSFER_COEFFICIENT / Dim::LENGTH,
+                "W/(m^3*K)",
+            ),
+        )
         .with("log_mean_difference", delta_t(r.log_mean_difference_k))
         .with("G", shown(g, Dim::MASS_FLUX, "kg/(m^2*h)"))
         .with("water", shown(r.water_kg_per_s, Dim::MASS_FLOW, "kg/h"))
-        .with("heat_to_product", shown(r.heat_to_product_w, Dim::POWER, "kW"))
+        .with(
+            "heat_to_product",
+            shown(r.heat_to_product_w, Dim::POWER, "kW"),
+        )
         .with("heater", shown(f.heater, Dim::POWER, "kW"))
         .with("fan", shown(f.fan, Dim::POWER, "kW"));
     let rec = with_merit(rec, f, r.latent_minimum_j_per_kg);

@@ -111,6 +111,7 @@ pub fn volumetric_coefficient(g: MassFlux, d: Length) -> f64 {
 }
 
 /// Friedman-Marshall retention time.
+#[allow(clippy::too_many_arguments)] // the correlation's own inputs, each named
 pub fn retention_time(
     length: Length,
     slope: f64,

@@ -25,7 +25,11 @@ const fn opt(
     }
 }
 
-const PRODUCT: Param = req("product", "wet_product", "the product, from wet_product(...)");
+const PRODUCT: Param = req(
+    "product",
+    "wet_product",
+    "the product, from wet_product(...)",
+);
 const AIR: Param = req(
     "air",
     "air",
@@ -209,11 +213,7 @@ pub const DEEP_BED: &[Param] = &[
     req("voidage", "-", "bed voidage, 0.3 to 0.6 typical"),
     req("bulk_density", "kg/m^3", "dry solid per m^3 of bed"),
     req("X_initial", "db", "moisture content at loading"),
-    req(
-        "X_final",
-        "db",
-        "moisture content every layer must reach",
-    ),
+    req("X_final", "db", "moisture content every layer must reach"),
     AIR,
     T_SUPPLY,
     req(
@@ -224,7 +224,7 @@ pub const DEEP_BED: &[Param] = &[
     opt(
         "layers",
         "-",
-        "20",
+        "10",
         "number of layers the bed is cut into (2 to 200)",
     ),
     opt(
@@ -261,15 +261,19 @@ pub const ROTARY_DRYER: &[Param] = &[
     req("X_out", "db", "discharge moisture content"),
     req("T_solid_in", "degC", "solids temperature at the feed"),
     req("T_solid_out", "degC", "solids temperature at discharge"),
+    req("gas", "air", "hot gas entering the drum (an `air` record)"),
     req(
-        "gas",
-        "air",
-        "hot gas entering the drum (an `air` record)",
+        "T_gas_out",
+        "degC",
+        "gas temperature leaving the drum (a design choice)",
     ),
-    req("T_gas_out", "degC", "gas temperature leaving the drum (a design choice)"),
     req("diameter", "m", "drum diameter"),
     req("slope", "-", "drum slope, m/m (e.g. 0.04 or 4 %)"),
-    req("speed", "1/min", "drum speed in revolutions per time, e.g. 4 min^-1"),
+    req(
+        "speed",
+        "1/min",
+        "drum speed in revolutions per time, e.g. 4 min^-1",
+    ),
     req(
         "particle_diameter",
         "um",
