@@ -1004,7 +1004,12 @@ fn batch_record(type_name: &str, r: &BatchResult, times_name: &str, element: &st
         .iter()
         .map(|t| shown(*t, Dim::TIME, "h"))
         .collect();
-    let t = r.batch_time_s.max(f64::MIN_POSITIVE);
+    // The energies run to the end of the last time step (just past the batch time).
+    let t = r
+        .history
+        .last()
+        .map_or(r.batch_time_s, |s| s.t_s)
+        .max(f64::MIN_POSITIVE);
     let margin = r
         .history
         .iter()
