@@ -40,11 +40,19 @@ pub fn generated_worksheet(lines: usize) -> String {
 
 fn worksheet(c: &mut Criterion) {
     let text = generated_worksheet(2000);
-    assert!(Session::with_file("bench.sicc").eval(&text).is_ok(), "generated worksheet evaluates");
+    assert!(
+        Session::with_file("bench.sicc").eval(&text).is_ok(),
+        "generated worksheet evaluates"
+    );
     c.bench_function("worksheet_2000_lines", |b| {
         b.iter(|| {
             let mut session = Session::with_file("bench.sicc");
-            black_box(session.eval(black_box(&text)).map(|o| o.items.len()).unwrap_or(0))
+            black_box(
+                session
+                    .eval(black_box(&text))
+                    .map(|o| o.items.len())
+                    .unwrap_or(0),
+            )
         })
     });
 }

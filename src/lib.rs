@@ -8,6 +8,7 @@ pub mod diag;
 pub mod engine;
 pub mod eval;
 pub mod library;
+pub mod record;
 pub mod render;
 pub mod repl;
 pub mod session;

@@ -14,7 +14,7 @@ use codespan_reporting::term::{self, termcolor::Ansi};
 
 use crate::diag::{Diagnostic, Severity, Span};
 use crate::eval::{self, Ctx, DefKind, Limits, Mode, Sheet, Sources};
-use crate::library::{self, closest};
+use crate::library;
 use crate::syntax::{self, split};
 use crate::units;
 use crate::value::Value;
@@ -120,21 +120,36 @@ impl Session {
     pub fn eval(&mut self, text: &str) -> Result<Output, Vec<Diagnostic>> {
         self.limits.reset();
         let file = self.add_source(text);
-        let (stmts, errors) = syntax::parse(text, file);
-        if !errors.is_empty() {
-            return Err(errors);
+        let parsed = syntax::parse_recovering(text, file);
+        let mut early = parsed.errors;
+        let mut skip = parsed.broken;
+        if self.strict {
+            // A worksheet file: report every error of the run at once.
+            let defined = self.sheet.define_all(&parsed.stmts);
+            early.extend(defined.errors);
+            skip.extend(defined.cyclic);
+        } else {
+            if !early.is_empty() {
+                return Err(early);
+            }
+            self.sheet.define(&parsed.stmts, false)?;
         }
-        self.sheet.define(&stmts, self.strict)?;
-        self.apply_pending(file)?;
+        if let Err(e) = self.apply_pending(file) {
+            early.extend(e);
+        }
+        let stmts = parsed.stmts;
         let mut ctx = Ctx::new(&mut self.sheet, &mut self.sources, &self.limits, self.mode);
+        ctx.mark_failed(&skip);
+        ctx.errors = early;
         if let Some(p) = self.path.as_ref().and_then(|p| p.canonicalize().ok()) {
             ctx.load_stack.push(p);
         }
         let items = eval::run_statements(&mut ctx, &stmts);
-        let (errors, warnings) = (
+        let (mut errors, warnings) = (
             std::mem::take(&mut ctx.errors),
             std::mem::take(&mut ctx.warnings),
         );
+        errors.sort_by_key(|d| (d.span.file, d.span.start));
         if errors.is_empty() {
             Ok(Output { items, warnings })
         } else {
@@ -170,7 +185,7 @@ impl Session {
                 format!("`--set {name}`: `{name}` is not an input of this worksheet"),
             );
             let names: Vec<&str> = inputs.iter().map(String::as_str).collect();
-            if let Some(best) = closest(&name, &names) {
+            if let Some(best) = eval::suggest(&name, &names) {
                 d = d.with_hint(format!("did you mean `{best}`?"));
             }
             let list = if inputs.is_empty() {
@@ -203,6 +218,29 @@ impl Session {
     /// The names a definition reads.
     pub fn dependencies(&self, name: &str) -> Option<&[String]> {
         self.sheet.defs.get(name).map(|d| d.deps.as_slice())
+    }
+
+    /// A definition with its kind, statement span and dependencies (for the audit record).
+    pub fn definition(&self, name: &str) -> Option<&eval::Def> {
+        self.sheet.defs.get(name)
+    }
+
+    /// Every defined name (values, inputs, functions) in definition order.
+    pub fn names(&self) -> &[String] {
+        &self.sheet.order
+    }
+
+    /// The computed value of a name, if it has been computed.
+    pub fn value(&self, name: &str) -> Option<&Value> {
+        self.sheet.cache.get(name)
+    }
+
+    /// Is this name an input (overridable with `--set` or by `load`)?
+    pub fn is_input(&self, name: &str) -> bool {
+        self.sheet
+            .defs
+            .get(name)
+            .is_some_and(|d| d.kind == DefKind::Input)
     }
 
     /// The source map (for front ends that render spans themselves).
@@ -292,6 +330,12 @@ impl Session {
             return Some(crate::render::help_text(b));
         }
         units::lookup_unit(name).map(|u| format!("unit `{}`: {}", u.symbol, eval::dim_words(u.dim)))
+    }
+
+    /// The evaluation limits (call depth, step budget), for front ends that
+    /// need other bounds.
+    pub fn limits_mut(&mut self) -> &mut Limits {
+        &mut self.limits
     }
 
     /// A flag that stops a running evaluation when set (from another thread).

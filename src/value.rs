@@ -116,6 +116,8 @@ pub enum SeriesStyle {
     Points,
     Dashed,
     Thin,
+    /// A dotted reference line (for example humid-volume lines on a psychrometric chart).
+    Dotted,
 }
 
 /// An annotation on a plot.

@@ -98,6 +98,7 @@ const CASES: &[(&str, usize, usize, &str)] = &[
     ("x = if 2 then 1 else 0", 1, 8, "needs a truth value"),
     ("x = [1, 2] + [1, 2, 3]", 1, 5, "different lengths"),
     ("x = \"a\" + 1", 1, 5, "cannot combine"),
+    ("then = 3", 1, 1, "is a keyword"),
     // limits
     ("f(x) = f(x)\ny = f(1)", 1, 8, "nested deeper"),
     // loading
@@ -156,6 +157,31 @@ fn every_bad_input_gives_a_clear_error_at_its_place() {
         CASES.len(),
         failures.join("\n")
     );
+}
+
+#[test]
+fn deep_recursion_through_deep_bodies_stops_with_an_error() {
+    // 250 nested negations inside a function that calls itself: the
+    // evaluator must stop before the native stack does (this runs on a
+    // test thread with the default, small stack).
+    let body = format!("{}f(x)", "- ".repeat(250));
+    let src = format!("f(x) = {body}\ny = f(1)");
+    let diags = location_and_text(&src);
+    assert!(
+        diags.iter().any(|(_, _, t)| t.contains("nested")),
+        "{diags:?}"
+    );
+}
+
+#[test]
+fn a_long_chain_defined_backwards_evaluates() {
+    let mut src = String::from("z = a3000 + 1\n");
+    for i in (1..=3000).rev() {
+        src.push_str(&format!("a{i} = a{} + 1\n", i - 1));
+    }
+    src.push_str("a0 = 0\n");
+    let mut session = Session::with_file("chain.sicc");
+    assert!(session.eval(&src).is_ok());
 }
 
 #[test]

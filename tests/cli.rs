@@ -169,3 +169,15 @@ fn other_formats_render() {
     let html = siccant(&["run", "--format", "html", path.to_str().unwrap_or_default()]);
     assert!(String::from_utf8_lossy(&html.stdout).contains("<table>"));
 }
+
+#[test]
+fn set_with_the_wrong_dimension_is_a_usage_error() {
+    let out = siccant(&[
+        "run",
+        "--set",
+        "L=15",
+        example("tray_basics.sicc").to_str().unwrap_or_default(),
+    ]);
+    assert_eq!(out.status.code(), Some(2));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("input `L` is length [m]"));
+}

@@ -24,8 +24,20 @@ fn builtin_reference_is_up_to_date() {
 #[test]
 fn every_builtin_has_its_paper_trail() {
     for b in siccant::library::registry() {
-        assert!(!b.doc.is_empty() && !b.method.is_empty() && !b.source.is_empty(), "`{}` lacks doc, method or source", b.name);
-        assert!(!b.validity.is_empty() && !b.example.is_empty(), "`{}` lacks validity or example", b.name);
-        assert!(siccant::session::Session::new().help(b.name).is_some(), "`help {}` finds nothing", b.name);
+        assert!(
+            !b.doc.is_empty() && !b.method.is_empty() && !b.source.is_empty(),
+            "`{}` lacks doc, method or source",
+            b.name
+        );
+        assert!(
+            !b.validity.is_empty() && !b.example.is_empty(),
+            "`{}` lacks validity or example",
+            b.name
+        );
+        assert!(
+            siccant::session::Session::new().help(b.name).is_some(),
+            "`help {}` finds nothing",
+            b.name
+        );
     }
 }

@@ -22,6 +22,15 @@ pub fn shown_texts(text: &str) -> Vec<String> {
         .collect()
 }
 
+/// Statements that produce output (all but function definitions).
+pub fn statement_count(text: &str) -> usize {
+    let (stmts, _) = syntax::parse(text, 0);
+    stmts
+        .iter()
+        .filter(|s| !matches!(s.kind, StmtKind::Function { .. }))
+        .count()
+}
+
 /// Render a run's output.
 pub fn render(session: &Session, out: &Output, shown: &[String], format: Format) -> String {
     match format {

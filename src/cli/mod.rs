@@ -48,6 +48,20 @@ enum Command {
         #[arg(long, value_enum, default_value_t = Format::Text)]
         format: Format,
     },
+    /// Run a worksheet and write its audit record (.html, .md or .json).
+    Record {
+        /// The worksheet (.sicc).
+        file: PathBuf,
+        /// The record file; its extension picks the format.
+        #[arg(short = 'o', long = "output", value_name = "FILE")]
+        output: PathBuf,
+        /// Override an input: NAME=EXPR (repeatable).
+        #[arg(long = "set", value_name = "NAME=EXPR")]
+        set: Vec<String>,
+        /// Leave out the timestamp so that two runs give byte-identical records.
+        #[arg(long)]
+        reproducible: bool,
+    },
     /// Parse and check names, units and dimensions without running engine work.
     Check {
         /// The worksheet (.sicc).
@@ -85,6 +99,12 @@ pub fn main() -> i32 {
     };
     match cli.command {
         Command::Run { file, set, format } => run(&file, &set, format),
+        Command::Record {
+            file,
+            output,
+            set,
+            reproducible,
+        } => record(&file, &output, &set, reproducible),
         Command::Check { file } => check(&file),
         Command::Repl => crate::repl::run(),
         Command::Help { name, markdown } => help(name.as_deref(), markdown),
@@ -125,7 +145,10 @@ fn run(file: &Path, set: &[String], format: Format) -> i32 {
         Ok(o) => o,
         Err(diags) => {
             print_diagnostics(&session, &diags);
-            let usage = diags.iter().any(|d| d.message.starts_with("`--set"));
+            let usage = diags.iter().any(|d| {
+                d.message.starts_with("`--set")
+                    || (!set.is_empty() && d.message.contains("but the value given for it"))
+            });
             return if usage { EXIT_USAGE } else { EXIT_WORKSHEET };
         }
     };
@@ -137,6 +160,63 @@ fn run(file: &Path, set: &[String], format: Format) -> i32 {
         .iter()
         .any(|i| matches!(i, OutputItem::Check { passed: false, .. }));
     if failed {
+        EXIT_CHECK
+    } else {
+        EXIT_OK
+    }
+}
+
+/// `siccant record`: run, then write the audit record atomically (also when a check fails).
+fn record(file: &Path, output: &Path, set: &[String], reproducible: bool) -> i32 {
+    let empty = crate::record::RecordData::default();
+    if let Err(e) = crate::record::render_for(&empty, output) {
+        eprintln!("error: {e}");
+        return EXIT_USAGE;
+    }
+    let text = match read(file) {
+        Ok(t) => t,
+        Err(code) => return code,
+    };
+    let mut session = Session::with_file(file);
+    for assignment in set {
+        match parse_set(assignment) {
+            Ok((name, value)) => session.set_input(name, value),
+            Err(code) => return code,
+        }
+    }
+    let out = match session.eval(&text) {
+        Ok(o) => o,
+        Err(diags) => {
+            print_diagnostics(&session, &diags);
+            eprintln!("error: no record written: the worksheet has errors");
+            return if diags.iter().any(|d| d.message.starts_with("`--set")) {
+                EXIT_USAGE
+            } else {
+                EXIT_WORKSHEET
+            };
+        }
+    };
+    print_diagnostics(&session, &out.warnings);
+    let run = crate::record::RunInfo {
+        path: file,
+        text: &text,
+        overrides: set,
+        reproducible,
+    };
+    let data = crate::record::collect(&session, &out, &run);
+    if let Err(e) = crate::record::write(&data, output) {
+        eprintln!("error: {e}");
+        return EXIT_USAGE;
+    }
+    let failed = data.failed_checks();
+    println!(
+        "wrote {} ({} values, {} of {} checks pass)",
+        output.display(),
+        data.entries.len(),
+        data.checks.len() - failed,
+        data.checks.len()
+    );
+    if failed > 0 {
         EXIT_CHECK
     } else {
         EXIT_OK
@@ -186,11 +266,14 @@ fn check(file: &Path) -> i32 {
     match session.eval(&text) {
         Ok(out) => {
             print_diagnostics(&session, &out.warnings);
-            let checked = out.items.len();
-            println!(
-                "{}: no errors found ({checked} statements evaluated without engine work)",
-                file.display()
-            );
+            let total = format::statement_count(&text);
+            let done = out.items.len();
+            let detail = if done >= total {
+                format!("all {total} statements evaluated")
+            } else {
+                format!("{done} of {total} statements evaluated; the rest need engine work, which `check` does not run")
+            };
+            println!("{}: no errors found ({detail})", file.display());
             EXIT_OK
         }
         Err(diags) => {
@@ -225,7 +308,7 @@ fn help(name: Option<&str>, markdown: bool) -> i32 {
             }
             None => {
                 let names: Vec<&str> = library::registry().iter().map(|b| b.name).collect();
-                let hint = library::closest(n, &names)
+                let hint = crate::eval::suggest(n, &names)
                     .map_or(String::new(), |b| format!(" (did you mean `{b}`?)"));
                 eprintln!("error: no built-in function or unit named `{n}`{hint}");
                 EXIT_USAGE
@@ -237,7 +320,7 @@ fn help(name: Option<&str>, markdown: bool) -> i32 {
 /// The list printed by `siccant help`.
 pub fn overview() -> String {
     let mut s = String::from("siccant: unit-checked worksheets for convective dryer design\n\n");
-    s.push_str("Commands: run FILE [--set NAME=EXPR] [--format text|json|markdown|html], check FILE, repl, help [NAME]\n\n");
+    s.push_str("Commands: run FILE [--set NAME=EXPR] [--format text|json|markdown|html], record FILE -o OUT.html|.md|.json [--set NAME=EXPR] [--reproducible], check FILE, repl, help [NAME]\n\n");
     let mut family = "";
     for b in registry_by_family() {
         if b.family != family {

@@ -2,7 +2,15 @@
 //! dynamic units: it takes and returns uom quantities and plain structs.
 
 pub mod air;
+pub mod diffusion;
 pub mod dryers;
+pub mod fit;
+pub mod integrate;
+pub mod kinetics;
+pub mod psychrometric_chart;
 pub mod solve;
+pub mod sorption;
+pub mod thin_layer;
 pub mod transfer;
 pub mod transport;
+

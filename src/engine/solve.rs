@@ -204,6 +204,64 @@ fn next_step(s: Step) -> (f64, f64) {
     }
 }
 
+/// Find the root of an increasing `f` in `[lo, hi]` by Newton steps with
+/// bisection as a safeguard ("rtsafe", Press et al., Numerical Recipes, 3rd ed.,
+/// section 9.4), starting at `x0`.
+///
+/// `f(x)` returns the residual and an estimate of its slope. The caller vouches
+/// that `f(lo) <= 0 <= f(hi)` (it is not evaluated at the ends). After the first
+/// step the slope is taken from the last two iterates (secant) when that is
+/// positive, so a rough slope estimate costs little. Converges when a step is
+/// below `tol`; returns [`SolveError::NotConverged`] after `tol.max_iterations`
+/// and [`SolveError::NotFinite`] for a NaN residual.
+pub fn newton_bracketed<F: FnMut(f64) -> (f64, f64)>(
+    mut f: F,
+    lo: f64,
+    hi: f64,
+    x0: f64,
+    tol: Tolerance,
+) -> Result<f64, SolveError> {
+    let (mut a, mut b) = (lo, hi);
+    let mut x = x0.clamp(lo, hi);
+    let mut previous: Option<(f64, f64)> = None;
+    for _ in 0..tol.max_iterations {
+        let (fx, slope_estimate) = f(x);
+        if fx.is_nan() {
+            return Err(SolveError::NotFinite { x });
+        }
+        if fx == 0.0 {
+            return Ok(x);
+        }
+        if fx < 0.0 {
+            a = x;
+        } else {
+            b = x;
+        }
+        let slope = match previous {
+            Some((xp, fp)) if xp != x && (fx - fp) / (x - xp) > 0.0 => (fx - fp) / (x - xp),
+            _ => slope_estimate,
+        };
+        previous = Some((x, fx));
+        let limit = tol.abs + tol.rel * x.abs() + f64::EPSILON * x.abs();
+        let newton = -fx / slope;
+        if newton.abs() <= limit {
+            return Ok((x + newton).clamp(a, b));
+        }
+        let mut next = x + newton;
+        if !(next > a && next < b) {
+            next = 0.5 * (a + b);
+        }
+        x = next;
+        if (b - a) <= limit {
+            return Ok(x);
+        }
+    }
+    Err(SolveError::NotConverged {
+        iterations: tol.max_iterations,
+        width: b - a,
+    })
+}
+
 /// Widen `[a, b]` geometrically toward `limit` (beyond `b`) until `f` changes sign.
 ///
 /// Returns the new bracket `(lo, hi)` or [`SolveError::NotBracketed`] when `limit`
@@ -294,6 +352,19 @@ mod tests {
         // Kepler-like equation with a steep, curved residual.
         let x = brent(|x| x - 0.9 * x.sin() - 0.1, 0.0, 3.0, Tolerance::default()).unwrap();
         assert!((x - 0.9 * x.sin() - 0.1).abs() < 1e-14);
+    }
+
+    #[test]
+    fn newton_with_rough_slope_converges() {
+        let f = |x: f64| (x.exp() - 5.0, 0.5 * x.exp());
+        let x = newton_bracketed(f, 0.0, 3.0, 2.9, Tolerance::new(1e-14, 1e-15)).unwrap();
+        assert!((x - 5f64.ln()).abs() < 1e-13, "{x}");
+        let budget = Tolerance {
+            abs: 0.0,
+            rel: 0.0,
+            max_iterations: 2,
+        };
+        assert!(newton_bracketed(f, 0.0, 3.0, 2.9, budget).is_err());
     }
 
     #[test]

@@ -1,12 +1,11 @@
 //! Calls: user functions, built-ins from the library registry, and `load`.
 
-use std::collections::HashMap;
 use std::panic::{catch_unwind, AssertUnwindSafe};
 
 use super::ctx::{Ctx, Flow, Mode, Stop};
 use super::DefKind;
 use crate::diag::{Diagnostic, Span};
-use crate::library::{self, closest, Arg, Args, Builtin};
+use crate::library::{self, Arg, Args, Builtin};
 use crate::syntax::{CallArg, Ident};
 use crate::value::Value;
 
@@ -42,7 +41,7 @@ impl Ctx<'_> {
         );
         names.push("load");
         let mut d = Diagnostic::error(callee.span, format!("unknown function `{}`", callee.name));
-        if let Some(best) = closest(&callee.name, &names) {
+        if let Some(best) = super::suggest(&callee.name, &names) {
             d = d.with_hint(format!("did you mean `{best}`?"));
         }
         d.with_hint("`siccant help` lists the built-in functions")
@@ -66,6 +65,7 @@ impl Ctx<'_> {
         check_arg_names(b, args)?;
         let values = self.arguments(args)?;
         let mut bound = Args::bind(b, span, values)?;
+        bound.dir = Some(self.sheet.dir.clone());
         if self.mode == Mode::CheckOnly {
             return Err(Stop::Skip);
         }
@@ -84,7 +84,10 @@ impl Ctx<'_> {
     }
 
     fn call_user(&mut self, callee: &Ident, args: &[CallArg], span: Span) -> Flow<Value> {
-        let def = self.sheet.defs[&callee.name].clone();
+        let (params, body) = match self.sheet.defs.get(&callee.name) {
+            Some(d) => (d.params.clone(), d.expr.clone()),
+            None => return Err(self.unknown_function(callee).into()),
+        };
         if self.depth >= self.limits.max_call_depth {
             let msg = format!(
                 "calls nested deeper than {} levels",
@@ -95,10 +98,10 @@ impl Ctx<'_> {
                 .into());
         }
         let values = self.arguments(args)?;
-        let frame = bind_params(&callee.name, &def.params, values, span)?;
+        let frame = bind_params(&callee.name, &params, values, span)?;
         self.depth += 1;
         let saved = self.frame.replace(frame);
-        let result = self.expr(&def.expr);
+        let result = self.expr(&body);
         self.frame = saved;
         self.depth -= 1;
         result
@@ -115,7 +118,7 @@ fn check_arg_names(b: &Builtin, args: &[CallArg]) -> Result<(), Diagnostic> {
                 n.span,
                 format!("`{}` has no argument named `{}`", b.name, n.name),
             );
-            if let Some(best) = closest(&n.name, &names) {
+            if let Some(best) = super::suggest(&n.name, &names) {
                 d = d.with_hint(format!("did you mean `{best}`?"));
             }
             return Err(d.with_hint(format!("arguments: {}", names.join(", "))));
@@ -142,8 +145,8 @@ fn bind_params(
     params: &[String],
     args: Vec<Arg>,
     span: Span,
-) -> Result<HashMap<String, Value>, Diagnostic> {
-    let mut frame = HashMap::new();
+) -> Result<super::FastMap<String, Value>, Diagnostic> {
+    let mut frame = super::FastMap::default();
     let mut next = 0;
     for a in args {
         let p = match &a.name {
@@ -152,7 +155,7 @@ fn bind_params(
                 let names: Vec<&str> = params.iter().map(String::as_str).collect();
                 let mut d =
                     Diagnostic::error(a.span, format!("`{name}` has no parameter named `{n}`"));
-                if let Some(best) = closest(n, &names) {
+                if let Some(best) = super::suggest(n, &names) {
                     d = d.with_hint(format!("did you mean `{best}`?"));
                 }
                 return Err(d.with_hint(format!("parameters: {}", names.join(", "))));

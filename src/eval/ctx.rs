@@ -1,13 +1,14 @@
 //! The evaluator: forces named values through the dependency graph and
 //! evaluates expressions, attaching spans to span-less unit errors.
 
-use std::collections::{HashMap, HashSet};
+use std::collections::hash_map::Entry;
+use std::collections::HashSet;
 use std::path::PathBuf;
 
 use super::ops::{self, dim_words, OpError};
 use super::{DefKind, Limits, Sheet, Sources};
 use crate::diag::{Diagnostic, Span};
-use crate::library::{closest, type_word};
+use crate::library::type_word;
 use crate::syntax::{BinaryOp, Expr, ExprKind, UnaryOp, UnitExpr, UnitKind};
 use crate::units::{lookup_unit, suggest_unit, Quantity, Unit};
 use crate::value::{Record, Value};
@@ -50,7 +51,7 @@ pub struct Ctx<'a> {
     pub warnings: Vec<Diagnostic>,
     pub errors: Vec<Diagnostic>,
     /// Parameters of the user function being evaluated.
-    pub(super) frame: Option<HashMap<String, Value>>,
+    pub(super) frame: Option<super::FastMap<String, Value>>,
     /// Names being computed right now (catches cycles the static check could not see).
     active: Vec<String>,
     /// Names whose evaluation failed in this run.
@@ -59,7 +60,12 @@ pub struct Ctx<'a> {
     pub load_stack: Vec<PathBuf>,
     /// Depth of user-function calls and loads.
     pub depth: usize,
+    /// Expressions being evaluated, nested (guards the native stack).
+    nesting: usize,
 }
+
+/// Most expression evaluations nested inside one another (across calls).
+pub const MAX_NESTING: usize = 1500;
 
 impl<'a> Ctx<'a> {
     /// A context evaluating `sheet`.
@@ -82,7 +88,14 @@ impl<'a> Ctx<'a> {
             failed: HashSet::new(),
             load_stack: Vec::new(),
             depth: 0,
+            nesting: 0,
         }
+    }
+
+    /// Treat these names as already failed and reported (e.g. caught in a
+    /// cycle, or on a line that did not parse), so uses of them stay silent.
+    pub fn mark_failed<'n>(&mut self, names: impl IntoIterator<Item = &'n String>) {
+        self.failed.extend(names.into_iter().cloned());
     }
 
     /// Count one step against the budget; check the interrupt flag now and then.
@@ -123,13 +136,11 @@ impl<'a> Ctx<'a> {
         if self.failed.contains(name) {
             return Err(Stop::Reported);
         }
-        let def = self
-            .sheet
-            .defs
-            .get(name)
-            .cloned()
-            .ok_or_else(|| self.undefined(name, use_span))?;
-        if def.kind == DefKind::Function {
+        let (kind, expr) = match self.sheet.defs.get(name) {
+            Some(d) => (d.kind, d.expr.clone()),
+            None => return Err(self.undefined(name, use_span)),
+        };
+        if kind == DefKind::Function {
             let msg = format!("`{name}` is a function; call it with arguments, e.g. `{name}(...)`");
             return Err(Diagnostic::error(use_span, msg).into());
         }
@@ -137,14 +148,14 @@ impl<'a> Ctx<'a> {
             let chain = format!("{} -> {name}", self.active.join(" -> "));
             return Err(Diagnostic::error(use_span, format!("cycle: {chain}")).into());
         }
-        let overridden = (def.kind == DefKind::Input)
+        let overridden = (kind == DefKind::Input)
             .then(|| self.sheet.overrides.get(name).cloned())
             .flatten();
         self.active.push(name.to_string());
         let saved = self.frame.take();
         let result = match overridden {
-            Some(v) => Ok(v),
-            None => self.expr(&def.expr),
+            Some(v) => self.checked_override(name, &expr, v),
+            None => self.expr(&expr),
         };
         self.frame = saved;
         self.active.pop();
@@ -161,6 +172,31 @@ impl<'a> Ctx<'a> {
         }
     }
 
+    /// An input's overriding value must have the dimension of its default.
+    fn checked_override(&mut self, name: &str, default: &Expr, v: Value) -> Flow<Value> {
+        let expected = match self.expr(default) {
+            Ok(Value::Quantity(d, _)) => d.dim,
+            _ => return Ok(v),
+        };
+        match &v {
+            Value::Quantity(q, _) if q.dim != expected => {
+                let span = self
+                    .sheet
+                    .defs
+                    .get(name)
+                    .map_or(default.span, |d| d.name.span);
+                let msg = format!(
+                    "input `{name}` is {}, but the value given for it is {}",
+                    dim_words(expected),
+                    dim_words(q.dim)
+                );
+                let hint = format!("the default is `{}`", self.sources.slice(default.span));
+                Err(Diagnostic::error(span, msg).with_hint(hint).into())
+            }
+            _ => Ok(v),
+        }
+    }
+
     fn undefined(&self, name: &str, span: Span) -> Stop {
         let mut d = Diagnostic::error(span, format!("`{name}` is not defined"));
         let mut names: Vec<&str> = self.sheet.order.iter().map(String::as_str).collect();
@@ -171,7 +207,7 @@ impl<'a> Ctx<'a> {
             d = d.with_hint(format!(
                 "`{name}` is a unit; write a number before it (`1 {name}`), and compound units without spaces (`14 kg/m^2`)"
             ));
-        } else if let Some(best) = closest(name, &names) {
+        } else if let Some(best) = super::suggest(name, &names) {
             d = d.with_hint(format!("did you mean `{best}`?"));
         }
         Stop::Error(d)
@@ -180,6 +216,19 @@ impl<'a> Ctx<'a> {
     /// Evaluate an expression.
     pub fn expr(&mut self, e: &Expr) -> Flow<Value> {
         self.tick(e.span)?;
+        if self.nesting >= MAX_NESTING {
+            let msg = "evaluation nested too deeply";
+            return Err(Diagnostic::error(e.span, msg)
+                .with_hint("does a function call itself without end?")
+                .into());
+        }
+        self.nesting += 1;
+        let result = self.expr_kind(e);
+        self.nesting -= 1;
+        result
+    }
+
+    fn expr_kind(&mut self, e: &Expr) -> Flow<Value> {
         match &e.kind {
             ExprKind::Quantity { value, unit } => self.quantity(*value, unit.as_ref()),
             ExprKind::Bool(b) => Ok(Value::Bool(*b)),
@@ -198,6 +247,25 @@ impl<'a> Ctx<'a> {
             ExprKind::As(a, unit) => self.shown_as(a, unit),
             ExprKind::If(c, a, b) => self.conditional(c, a, b),
         }
+    }
+
+    /// Evaluate an operand, leaving a named value in place instead of copying it.
+    fn operand<'e>(&mut self, e: &'e Expr) -> Flow<Operand<'e>> {
+        if let ExprKind::Name(n) = &e.kind {
+            if self.frame.as_ref().is_some_and(|f| f.contains_key(n)) {
+                return Ok(Operand::Param(n));
+            }
+            if !self.sheet.cache.contains_key(n) {
+                self.force(n, e.span)?;
+            }
+            return Ok(Operand::Global(n));
+        }
+        self.expr(e).map(Operand::Owned)
+    }
+
+    /// The value an operand stands for.
+    fn view<'s>(&'s self, o: &'s Operand) -> &'s Value {
+        view(&self.frame, &self.sheet.cache, o)
     }
 
     fn name(&mut self, n: &str, span: Span) -> Flow<Value> {
@@ -220,13 +288,17 @@ impl<'a> Ctx<'a> {
 
     /// Resolve a unit expression (cached per source position).
     pub fn unit(&mut self, u: &UnitExpr) -> Flow<Unit> {
+        self.unit_ref(u).cloned()
+    }
+
+    /// The resolved unit, borrowed from the cache (no copy).
+    fn unit_ref(&mut self, u: &UnitExpr) -> Flow<&Unit> {
         let key = (u.span.file, u.span.start);
-        if let Some(unit) = self.sheet.units.get(&key) {
-            return Ok(unit.clone());
+        if !self.sheet.units.contains_key(&key) {
+            let unit = resolve_by_text(&mut self.sheet.unit_texts, self.sources, u)?;
+            self.sheet.units.insert(key, unit);
         }
-        let unit = resolve_unit(u)?;
-        self.sheet.units.insert(key, unit.clone());
-        Ok(unit)
+        self.sheet.units.get(&key).ok_or(Stop::Reported)
     }
 
     fn record(&mut self, fields: &[(crate::syntax::Ident, Expr)]) -> Flow<Value> {
@@ -247,11 +319,12 @@ impl<'a> Ctx<'a> {
         if matches!(op, BinaryOp::And | BinaryOp::Or) {
             return self.logic(op, a, b);
         }
-        let x = self.expr(a)?;
-        let y = self.expr(b)?;
-        ops::binary(op, &x, &y).map_err(|e| {
+        let x = self.operand(a)?;
+        let y = self.operand(b)?;
+        let (x, y) = (self.view(&x), self.view(&y));
+        ops::binary(op, x, y).map_err(|e| {
             let mut d = op_error(e, span, a.span, b.span);
-            if op == BinaryOp::Add && ops::is_absolute(&x) && ops::is_absolute(&y) {
+            if op == BinaryOp::Add && ops::is_absolute(x) && ops::is_absolute(y) {
                 d.hints.push((
                     Some(b.span),
                     "this is an absolute temperature too; use a difference such as `10 K`".into(),
@@ -309,9 +382,16 @@ impl<'a> Ctx<'a> {
     }
 
     fn shown_as(&mut self, a: &Expr, u: &UnitExpr) -> Flow<Value> {
-        let v = self.expr(a)?;
-        let unit = self.unit(u)?;
-        show_in(v, &unit).map_err(|msg| {
+        let v = self.operand(a)?;
+        let unit = match self.sheet.units.entry((u.span.file, u.span.start)) {
+            Entry::Occupied(e) => e.into_mut(),
+            Entry::Vacant(e) => e.insert(resolve_by_text(
+                &mut self.sheet.unit_texts,
+                self.sources,
+                u,
+            )?),
+        };
+        show_in(view(&self.frame, &self.sheet.cache, &v), unit).map_err(|msg| {
             let mut d = Diagnostic::error(u.span, msg);
             d.hints.push((Some(a.span), "this value".into()));
             d.into()
@@ -319,10 +399,33 @@ impl<'a> Ctx<'a> {
     }
 }
 
+/// The value an operand stands for (a free function so that callers can
+/// borrow other parts of the context at the same time).
+fn view<'s>(
+    frame: &'s Option<super::FastMap<String, Value>>,
+    cache: &'s super::FastMap<String, Value>,
+    o: &'s Operand,
+) -> &'s Value {
+    static MISSING: Value = Value::Bool(false);
+    match o {
+        Operand::Owned(v) => v,
+        Operand::Param(n) => frame.as_ref().and_then(|f| f.get(*n)).unwrap_or(&MISSING),
+        Operand::Global(n) => cache.get(*n).unwrap_or(&MISSING),
+    }
+}
+
+/// An evaluated operand: a fresh value, or a name whose value stays where it is.
+enum Operand<'e> {
+    Owned(Value),
+    Param(&'e str),
+    Global(&'e str),
+}
+
 /// Attach a display unit to a quantity (or every quantity in a list).
-fn show_in(v: Value, unit: &Unit) -> Result<Value, String> {
+fn show_in(v: &Value, unit: &Unit) -> Result<Value, String> {
     match v {
         Value::Quantity(q, _) => {
+            let q = *q;
             if q.dim != unit.dim {
                 return Err(format!(
                     "cannot show {} in `{}`, which is {}",
@@ -335,13 +438,13 @@ fn show_in(v: Value, unit: &Unit) -> Result<Value, String> {
             Ok(Value::Quantity(q, Some(unit.clone())))
         }
         Value::List(items) => items
-            .into_iter()
+            .iter()
             .map(|i| show_in(i, unit))
             .collect::<Result<_, _>>()
             .map(Value::List),
         other => Err(format!(
             "`as` shows a quantity in a unit, but this is {}",
-            type_word(&other)
+            type_word(other)
         )),
     }
 }
@@ -352,7 +455,7 @@ fn no_field(r: &Record, field: &crate::syntax::Ident) -> Diagnostic {
         field.span,
         format!("{} has no field `{}`", record_word(r), field.name),
     );
-    if let Some(best) = closest(&field.name, &names) {
+    if let Some(best) = super::suggest(&field.name, &names) {
         d = d.with_hint(format!("did you mean `{best}`?"));
     }
     d.with_hint(format!("fields: {}", names.join(", ")))
@@ -380,6 +483,24 @@ fn op_error(e: OpError, span: Span, a: Span, b: Span) -> Diagnostic {
         d.hints.push((None, h));
     }
     d
+}
+
+/// Resolve a unit, reusing an earlier resolution of the same text.
+fn resolve_by_text(
+    texts: &mut super::FastMap<String, Unit>,
+    sources: &Sources,
+    u: &UnitExpr,
+) -> Result<Unit, Diagnostic> {
+    let text = sources.slice(u.span);
+    if text.is_empty() {
+        return resolve_unit(u);
+    }
+    if let Some(unit) = texts.get(text) {
+        return Ok(unit.clone());
+    }
+    let unit = resolve_unit(u)?;
+    texts.insert(text.to_string(), unit.clone());
+    Ok(unit)
 }
 
 /// Build a unit from a unit expression.

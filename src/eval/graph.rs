@@ -74,9 +74,53 @@ pub fn cycles(names: &[String], deps: &HashMap<String, Vec<String>>) -> Vec<Vec<
     found
 }
 
+/// Names reachable from `roots` through `deps`, each after everything it
+/// depends on (post-order), without recursion. Names without an entry in
+/// `deps` are leaves; cycles are cut where they close.
+pub fn postorder<'a>(
+    roots: impl IntoIterator<Item = &'a str>,
+    deps: &dyn Fn(&str) -> Option<&'a [String]>,
+) -> Vec<&'a str> {
+    let mut out = Vec::new();
+    let mut seen: std::collections::HashSet<&str> = std::collections::HashSet::new();
+    for root in roots {
+        if !seen.insert(root) {
+            continue;
+        }
+        let mut stack: Vec<(&str, usize)> = vec![(root, 0)];
+        while let Some(&mut (node, ref mut i)) = stack.last_mut() {
+            let next = deps(node).and_then(|d| d.get(*i));
+            *i += 1;
+            match next {
+                Some(dep) => {
+                    if seen.insert(dep.as_str()) {
+                        stack.push((dep.as_str(), 0));
+                    }
+                }
+                None => {
+                    out.push(node);
+                    stack.pop();
+                }
+            }
+        }
+    }
+    out
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn postorder_puts_dependencies_first() {
+        let deps: HashMap<String, Vec<String>> = [
+            ("c".to_string(), vec!["b".to_string()]),
+            ("b".to_string(), vec!["a".to_string()]),
+        ]
+        .into();
+        let get = |n: &str| deps.get(n).map(Vec::as_slice);
+        assert_eq!(postorder(["c"], &get), vec!["a", "b", "c"]);
+    }
 
     #[test]
     fn finds_a_two_name_cycle() {

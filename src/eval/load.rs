@@ -2,13 +2,12 @@
 //! returns a record of the loaded sheet's named values, with the given inputs
 //! overridden. Paths are relative to the loading file; load cycles are errors.
 
-use std::collections::HashMap;
 use std::path::{Path, PathBuf};
 
 use super::ctx::{Ctx, Flow, Mode, Stop};
 use super::{run_statements, OutputItem, Sheet};
 use crate::diag::{Diagnostic, Span};
-use crate::library::{closest, type_word};
+use crate::library::type_word;
 use crate::syntax::CallArg;
 use crate::value::{Record, Value};
 
@@ -111,14 +110,14 @@ impl Ctx<'_> {
         sheet: &Sheet,
         overrides: Vec<(String, Span, Value)>,
         shown: &str,
-    ) -> Flow<HashMap<String, Value>> {
+    ) -> Flow<super::FastMap<String, Value>> {
         let inputs = sheet.inputs();
-        let mut out = HashMap::new();
+        let mut out = super::FastMap::default();
         for (name, span, value) in overrides {
             if !inputs.contains(&name.as_str()) {
                 let mut d =
                     Diagnostic::error(span, format!("`{name}` is not an input of `{shown}`"));
-                if let Some(best) = closest(&name, &inputs) {
+                if let Some(best) = super::suggest(&name, &inputs) {
                     d = d.with_hint(format!("did you mean `{best}`?"));
                 }
                 let list = if inputs.is_empty() {

@@ -7,19 +7,23 @@
 
 mod call;
 mod ctx;
+mod fastmap;
 mod graph;
 mod limits;
 mod load;
 mod ops;
 mod sheet;
 mod sources;
+mod suggest;
 
 pub use ctx::{resolve_unit, Ctx, Flow, Mode, Stop};
+pub use fastmap::FastMap;
 pub use graph::{cycles, dependencies};
 pub use limits::Limits;
 pub use ops::dim_words;
-pub use sheet::{definition, Def, DefKind, Sheet};
+pub use sheet::{definition, Def, DefKind, Defined, Sheet};
 pub use sources::{SourceFile, Sources};
+pub use suggest::suggest;
 
 use crate::syntax::{Stmt, StmtKind};
 use crate::value::Value;
@@ -35,6 +39,7 @@ pub enum OutputItem {
 
 /// Evaluate statements in source order. Errors and warnings collect in `ctx`.
 pub fn run_statements(ctx: &mut Ctx, stmts: &[Stmt]) -> Vec<OutputItem> {
+    precompute(ctx, stmts);
     let mut items = Vec::new();
     for stmt in stmts {
         let item = match &stmt.kind {
@@ -61,4 +66,44 @@ pub fn run_statements(ctx: &mut Ctx, stmts: &[Stmt]) -> Vec<OutputItem> {
         }
     }
     items
+}
+
+/// Compute every value the statements need, dependencies first, so that
+/// forcing a value never recurses down a long chain of names.
+fn precompute(ctx: &mut Ctx, stmts: &[Stmt]) {
+    let roots: Vec<String> = stmts
+        .iter()
+        .flat_map(|s| match crate::eval::definition(s) {
+            Some(def) => def
+                .deps
+                .into_iter()
+                .chain([def.name.name])
+                .collect::<Vec<_>>(),
+            None => statement_deps(s),
+        })
+        .collect();
+    let order: Vec<(String, crate::diag::Span)> = {
+        let defs = &ctx.sheet.defs;
+        let get = |n: &str| defs.get(n).map(|d| d.deps.as_slice());
+        graph::postorder(roots.iter().map(String::as_str), &get)
+            .into_iter()
+            .filter_map(|n| {
+                defs.get(n)
+                    .filter(|d| d.kind != DefKind::Function)
+                    .map(|d| (n.to_string(), d.name.span))
+            })
+            .collect()
+    };
+    for (name, span) in order {
+        if let Err(stop) = ctx.force(&name, span) {
+            ctx.report(stop);
+        }
+    }
+}
+
+fn statement_deps(stmt: &Stmt) -> Vec<String> {
+    match &stmt.kind {
+        StmtKind::Check(e) | StmtKind::Show(e) => graph::dependencies(e, &[]),
+        _ => Vec::new(),
+    }
 }

@@ -5,6 +5,7 @@ use std::collections::{HashMap, HashSet};
 use std::path::PathBuf;
 use std::sync::Arc;
 
+use super::fastmap::FastMap;
 use super::graph;
 use crate::diag::{Diagnostic, Span};
 use crate::syntax::{Expr, Ident, Stmt, StmtKind};
@@ -33,18 +34,31 @@ pub struct Def {
     pub span: Span,
 }
 
+/// What [`Sheet::define_all`] did.
+#[derive(Debug, Default)]
+pub struct Defined {
+    /// Names added or replaced.
+    pub names: Vec<String>,
+    /// Duplicates and cycles.
+    pub errors: Vec<Diagnostic>,
+    /// Names caught in a cycle (not to be evaluated).
+    pub cyclic: Vec<String>,
+}
+
 /// The definitions of one worksheet (or of a REPL / notebook session).
 #[derive(Clone, Debug, Default)]
 pub struct Sheet {
-    pub defs: HashMap<String, Def>,
+    pub defs: FastMap<String, Def>,
     /// Names in definition order.
     pub order: Vec<String>,
     /// Values already computed.
-    pub cache: HashMap<String, Value>,
+    pub cache: FastMap<String, Value>,
     /// Input values set from outside (`--set`, `load(..., name: value)`).
-    pub overrides: HashMap<String, Value>,
+    pub overrides: FastMap<String, Value>,
     /// Resolved units of literals and `as`, keyed by (file, start).
-    pub units: HashMap<(u32, u32), Unit>,
+    pub units: FastMap<(u32, u32), Unit>,
+    /// Resolved units by their text (`kg/m^2`), so each is looked up once.
+    pub unit_texts: FastMap<String, Unit>,
     /// Directory `load` paths are relative to.
     pub dir: PathBuf,
 }
@@ -63,42 +77,13 @@ impl Sheet {
     /// definition replaces the old one (REPL, notebook). Names defined twice
     /// within `stmts` are always an error. On error nothing changes.
     pub fn define(&mut self, stmts: &[Stmt], strict: bool) -> Result<Vec<String>, Vec<Diagnostic>> {
-        let mut errors = Vec::new();
-        let mut seen: HashMap<&str, Span> = HashMap::new();
-        let mut new_defs = Vec::new();
-        for stmt in stmts {
-            let Some(def) = definition(stmt) else {
-                continue;
-            };
-            let earlier = seen.get(def.name.name.as_str()).copied().or_else(|| {
-                if strict {
-                    self.defs.get(&def.name.name).map(|d| d.name.span)
-                } else {
-                    None
-                }
-            });
-            if let Some(first) = earlier {
-                errors.push(duplicate(&def.name, first));
-                continue;
-            }
-            seen.insert(
-                stmt.defined_name().map_or("", |n| n.name.as_str()),
-                def.name.span,
-            );
-            new_defs.push(def);
-        }
+        let (new_defs, errors) = self.unique_definitions(stmts, strict);
         if !errors.is_empty() {
             return Err(errors);
         }
         let backup = (self.defs.clone(), self.order.clone());
-        let names: Vec<String> = new_defs.iter().map(|d| d.name.name.clone()).collect();
-        for def in new_defs {
-            let name = def.name.name.clone();
-            if self.defs.insert(name.clone(), def).is_none() {
-                self.order.push(name);
-            }
-        }
-        let errors = self.cycle_errors(&names);
+        let names = self.insert(new_defs);
+        let (errors, _) = self.cycle_errors(&names);
         if !errors.is_empty() {
             (self.defs, self.order) = backup;
             return Err(errors);
@@ -107,7 +92,55 @@ impl Sheet {
         Ok(names)
     }
 
-    fn cycle_errors(&self, new: &[String]) -> Vec<Diagnostic> {
+    /// Add what can be added from a worksheet file and report the rest: a
+    /// second definition of a name is skipped, and names caught in a cycle
+    /// are returned so the evaluator can leave them alone. Used so that one
+    /// run reports every error at once.
+    pub fn define_all(&mut self, stmts: &[Stmt]) -> Defined {
+        let (new_defs, mut errors) = self.unique_definitions(stmts, true);
+        let names = self.insert(new_defs);
+        let (cycle_errors, cyclic) = self.cycle_errors(&names);
+        errors.extend(cycle_errors);
+        self.invalidate(&names);
+        Defined {
+            names,
+            errors,
+            cyclic,
+        }
+    }
+
+    fn unique_definitions(&self, stmts: &[Stmt], strict: bool) -> (Vec<Def>, Vec<Diagnostic>) {
+        let mut errors = Vec::new();
+        let mut seen: HashMap<String, Span> = HashMap::new();
+        let mut new_defs = Vec::new();
+        for def in stmts.iter().filter_map(definition) {
+            let earlier = seen.get(&def.name.name).copied().or_else(|| {
+                strict
+                    .then(|| self.defs.get(&def.name.name).map(|d| d.name.span))
+                    .flatten()
+            });
+            if let Some(first) = earlier {
+                errors.push(duplicate(&def.name, first));
+                continue;
+            }
+            seen.insert(def.name.name.clone(), def.name.span);
+            new_defs.push(def);
+        }
+        (new_defs, errors)
+    }
+
+    fn insert(&mut self, new_defs: Vec<Def>) -> Vec<String> {
+        let names: Vec<String> = new_defs.iter().map(|d| d.name.name.clone()).collect();
+        for def in new_defs {
+            let name = def.name.name.clone();
+            if self.defs.insert(name.clone(), def).is_none() {
+                self.order.push(name);
+            }
+        }
+        names
+    }
+
+    fn cycle_errors(&self, new: &[String]) -> (Vec<Diagnostic>, Vec<String>) {
         let deps: HashMap<String, Vec<String>> = self
             .defs
             .iter()
@@ -123,6 +156,7 @@ impl Sheet {
             })
             .collect();
         let mut out = Vec::new();
+        let mut members: Vec<String> = Vec::new();
         for cycle in graph::cycles(&self.order, &deps) {
             // A cycle of functions only is recursion, limited at run time.
             let has_value = cycle.iter().any(|n| {
@@ -133,6 +167,7 @@ impl Sheet {
             if !has_value || !cycle.iter().any(|n| new.contains(n)) {
                 continue;
             }
+            members.extend(cycle.iter().cloned());
             let Some(first) = self.defs.get(&cycle[0]) else {
                 continue;
             };
@@ -143,25 +178,29 @@ impl Sheet {
             };
             out.push(Diagnostic::error(first.name.span, msg).with_hint("a worksheet is a set of definitions; each value must be computable from the others without going round in a circle"));
         }
-        out
+        (out, members)
     }
 
     /// Forget cached values of `names` and of everything that depends on them.
     pub fn invalidate(&mut self, names: &[String]) {
-        let mut dirty: HashSet<String> = names.iter().cloned().collect();
-        loop {
-            let more: Vec<String> = self
-                .defs
-                .values()
-                .filter(|d| {
-                    !dirty.contains(&d.name.name) && d.deps.iter().any(|x| dirty.contains(x))
-                })
-                .map(|d| d.name.name.clone())
-                .collect();
-            if more.is_empty() {
-                break;
+        if self.cache.is_empty() {
+            return;
+        }
+        let mut readers: HashMap<&str, Vec<&str>> = HashMap::new();
+        for d in self.defs.values() {
+            for dep in &d.deps {
+                readers
+                    .entry(dep.as_str())
+                    .or_default()
+                    .push(d.name.name.as_str());
             }
-            dirty.extend(more);
+        }
+        let mut dirty: HashSet<String> = HashSet::new();
+        let mut queue: Vec<&str> = names.iter().map(String::as_str).collect();
+        while let Some(n) = queue.pop() {
+            if dirty.insert(n.to_string()) {
+                queue.extend(readers.get(n).into_iter().flatten().copied());
+            }
         }
         self.cache.retain(|k, _| !dirty.contains(k));
     }
@@ -200,7 +239,7 @@ pub fn definition(stmt: &Stmt) -> Option<Def> {
         name: name.clone(),
         kind,
         params,
-        expr: Arc::new(expr.clone()),
+        expr: expr.clone(),
         deps,
         span: stmt.span,
     })

@@ -5,14 +5,20 @@
 //! boundary, converts them to uom quantities and calls typed engine code.
 
 pub mod air;
+pub mod chart;
+pub mod data;
 pub mod dryers;
+pub mod fit;
+pub mod kinetics;
 pub mod math;
+pub mod plot;
+pub mod sorption;
+pub mod transfer;
 
 use crate::diag::{Diagnostic, Span};
 use crate::units::{describe_dim, Dim, Quantity};
 use crate::value::{Record, Value};
 
-pub mod transfer;
 
 /// What a parameter accepts, for docs, completion and checking.
 #[derive(Clone, Copy, Debug)]
@@ -66,6 +72,8 @@ pub struct Args {
     bound: Vec<Option<Arg>>,
     /// Warnings attached to the call (validity ranges and the like).
     pub warnings: Vec<Diagnostic>,
+    /// Folder of the calling worksheet, for relative file paths (None: current folder).
+    pub dir: Option<std::path::PathBuf>,
 }
 
 impl Args {
@@ -103,7 +111,7 @@ impl Args {
             }
             bound[index] = Some(arg);
         }
-        Ok(Args { builtin, call_span, bound, warnings: Vec::new() })
+        Ok(Args { builtin, call_span, bound, warnings: Vec::new(), dir: None })
     }
 
     fn index(&self, name: &str) -> usize {
@@ -238,8 +246,14 @@ pub fn registry() -> &'static [&'static Builtin] {
         const FAMILIES: &[&[Builtin]] = &[
             // one line per family, e.g. air::BUILTINS,
             air::BUILTINS,
+            chart::BUILTINS,
+            data::BUILTINS,
             dryers::BUILTINS,
+            fit::BUILTINS,
+            kinetics::BUILTINS,
             math::BUILTINS,
+            plot::BUILTINS,
+            sorption::BUILTINS,
             transfer::BUILTINS,
         ];
         let mut all: Vec<&'static Builtin> = FAMILIES.iter().flat_map(|f| f.iter()).collect();
@@ -253,10 +267,3 @@ pub fn find(name: &str) -> Option<&'static Builtin> {
     registry().iter().copied().find(|b| b.name == name)
 }
 
-
-/// Every built-in, grouped by family (families alphabetical), then by name.
-pub fn registry_by_family() -> Vec<&'static Builtin> {
-    let mut all: Vec<&'static Builtin> = registry().to_vec();
-    all.sort_by_key(|b| (b.family, b.name));
-    all
-}

@@ -2,7 +2,7 @@
 
 use crate::library::Builtin;
 use crate::units::format_quantity;
-use crate::value::{Column, Value};
+use crate::value::Value;
 
 /// A value as plain text; records and tables span several lines.
 pub fn text(value: &Value) -> String {
@@ -22,68 +22,12 @@ pub fn text(value: &Value) -> String {
             }
             s
         }
-        Value::Table(t) => table(t),
+        Value::Table(t) => super::table::text(t)
+            .map(|s| s.trim_end().to_string())
+            .unwrap_or_else(|e| format!("[table: {e}]")),
         Value::Plot(p) => format!("[plot: {}]", p.title),
         Value::Function(f) => format!("<function {}>", f.name()),
     }
-}
-
-/// A column header: `name [unit]`.
-pub fn column_header(c: &Column) -> String {
-    match &c.unit {
-        Some(u) => format!("{} [{}]", c.name, u.symbol),
-        None => c.name.clone(),
-    }
-}
-
-/// One cell of a column as text, in the column's unit (without the symbol).
-pub fn cell(c: &Column, row: usize) -> String {
-    match (c.cells.get(row), &c.unit) {
-        (Some(Value::Quantity(q, _)), Some(u)) => {
-            let s = format_quantity(q, Some(u));
-            s.strip_suffix(&u.symbol)
-                .map_or(s.clone(), |x| x.trim_end().to_string())
-        }
-        (Some(v), _) => text(v),
-        (None, _) => String::new(),
-    }
-}
-
-fn table(t: &crate::value::Table) -> String {
-    let heads: Vec<String> = t.columns.iter().map(column_header).collect();
-    let rows = t.columns.first().map_or(0, |c| c.cells.len());
-    let cells: Vec<Vec<String>> = (0..rows)
-        .map(|r| t.columns.iter().map(|c| cell(c, r)).collect())
-        .collect();
-    let widths: Vec<usize> = (0..heads.len())
-        .map(|i| {
-            cells
-                .iter()
-                .map(|r| r[i].chars().count())
-                .chain([heads[i].chars().count()])
-                .max()
-                .unwrap_or(0)
-        })
-        .collect();
-    let line = |parts: &[String]| {
-        let padded: Vec<String> = parts
-            .iter()
-            .zip(&widths)
-            .map(|(p, w)| format!("{p:>w$}"))
-            .collect();
-        padded.join("  ")
-    };
-    let mut out = String::new();
-    if let Some(title) = &t.title {
-        out.push_str(title);
-        out.push('\n');
-    }
-    out.push_str(&line(&heads));
-    for r in &cells {
-        out.push('\n');
-        out.push_str(&line(r));
-    }
-    out
 }
 
 fn signature(b: &Builtin) -> String {

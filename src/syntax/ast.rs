@@ -1,5 +1,7 @@
 //! The typed syntax tree of a worksheet. Every node carries a span.
 
+use std::sync::Arc;
+
 use crate::diag::Span;
 
 /// A name as written, with its span.
@@ -20,19 +22,19 @@ pub struct Stmt {
 #[derive(Clone, Debug, PartialEq)]
 pub enum StmtKind {
     /// `name = expr`
-    Binding { name: Ident, expr: Expr },
+    Binding { name: Ident, expr: Arc<Expr> },
     /// `input name = expr`: a value a reader may override.
-    Input { name: Ident, expr: Expr },
+    Input { name: Ident, expr: Arc<Expr> },
     /// `check expr`: a design rule.
-    Check(Expr),
+    Check(Arc<Expr>),
     /// `f(x, y) = expr`
     Function {
         name: Ident,
         params: Vec<Ident>,
-        body: Expr,
+        body: Arc<Expr>,
     },
     /// A bare expression, shown.
-    Show(Expr),
+    Show(Arc<Expr>),
 }
 
 impl Stmt {

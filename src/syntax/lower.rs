@@ -3,6 +3,7 @@
 
 use pest::error::{ErrorVariant, InputLocation};
 use pest::iterators::Pair;
+use pest::pratt_parser::{Assoc, Op, PrattParser};
 use pest::Parser;
 
 use super::ast::*;
@@ -11,6 +12,11 @@ use crate::diag::{Diagnostic, Span};
 #[derive(pest_derive::Parser)]
 #[grammar = "../grammar/siccant.pest"]
 struct WorksheetParser;
+
+/// Words that cannot be names.
+pub const KEYWORDS: &[&str] = &[
+    "input", "check", "as", "and", "or", "not", "true", "false", "if", "then", "else",
+];
 
 /// Most operands in one chain like `a + b + c ...`; longer chains are refused.
 pub const MAX_CHAIN: usize = 256;
@@ -76,39 +82,60 @@ impl Lower {
             .filter(|p| !matches!(p.as_rule(), Rule::kw_input | Rule::kw_check));
         let kind = match rule {
             Rule::input_stmt => {
-                let name = self.ident(next(&mut inner)?);
+                let name = self.defined(next(&mut inner)?)?;
                 StmtKind::Input {
                     name,
-                    expr: self.expr(next(&mut inner)?)?,
+                    expr: self.expr(next(&mut inner)?)?.into(),
                 }
             }
-            Rule::check_stmt => StmtKind::Check(self.expr(next(&mut inner)?)?),
+            Rule::check_stmt => StmtKind::Check(self.expr(next(&mut inner)?)?.into()),
             Rule::binding => {
-                let name = self.ident(next(&mut inner)?);
+                let name = self.defined(next(&mut inner)?)?;
                 StmtKind::Binding {
                     name,
-                    expr: self.expr(next(&mut inner)?)?,
+                    expr: self.expr(next(&mut inner)?)?.into(),
                 }
             }
             Rule::function_def => self.function_def(inner.collect())?,
-            _ => StmtKind::Show(self.expr(next(&mut inner)?)?),
+            _ => StmtKind::Show(self.expr(next(&mut inner)?)?.into()),
         };
         Ok(Stmt { kind, span })
     }
 
     fn function_def(&self, parts: Vec<Pair<Rule>>) -> Lowered<StmtKind> {
         let mut parts = parts.into_iter();
-        let name = self.ident(next(&mut parts)?);
+        let name = self.defined(next(&mut parts)?)?;
         let mut params = Vec::new();
         let mut body = None;
         for p in parts {
             match p.as_rule() {
-                Rule::params => params = p.into_inner().map(|i| self.ident(i)).collect(),
+                Rule::params => {
+                    params = p
+                        .into_inner()
+                        .map(|i| self.defined(i))
+                        .collect::<Lowered<_>>()?
+                }
                 _ => body = Some(self.expr(p)?),
             }
         }
         let body = body.ok_or_else(|| Diagnostic::error(name.span, "function has no body"))?;
-        Ok(StmtKind::Function { name, params, body })
+        Ok(StmtKind::Function {
+            name,
+            params,
+            body: body.into(),
+        })
+    }
+
+    /// A name being defined: keywords are refused.
+    fn defined(&self, pair: Pair<Rule>) -> Lowered<Ident> {
+        let ident = self.ident(pair);
+        if KEYWORDS.contains(&ident.name.as_str()) {
+            let msg = format!("`{}` is a keyword and cannot be a name", ident.name);
+            return Err(
+                Diagnostic::error(ident.span, msg).with_hint(format!("try `{}_`", ident.name))
+            );
+        }
+        Ok(ident)
     }
 
     fn ident(&self, pair: Pair<Rule>) -> Ident {
@@ -123,14 +150,7 @@ impl Lower {
         let span = self.span(&pair);
         match pair.as_rule() {
             Rule::expr => self.as_expr(pair),
-            Rule::disjunction
-            | Rule::conjunction
-            | Rule::comparison
-            | Rule::sum
-            | Rule::product => self.chain(pair),
-            Rule::negation | Rule::unary => self.prefixed(pair),
-            Rule::power => self.power(pair),
-            Rule::postfix => self.postfix(pair),
+            Rule::operation => self.operation(pair),
             Rule::group => self.expr(first(pair)?),
             Rule::quantity => self.quantity(pair),
             Rule::string => Ok(Expr {
@@ -178,99 +198,63 @@ impl Lower {
         }
     }
 
-    /// A left-associative chain `a op b op c`.
-    fn chain(&self, pair: Pair<Rule>) -> Lowered<Expr> {
+    /// An operation: operands and operators, structured by the Pratt parser.
+    fn operation(&self, pair: Pair<Rule>) -> Lowered<Expr> {
         let span = self.span(&pair);
-        let mut inner = pair.into_inner();
-        let mut acc = self.expr(next(&mut inner)?)?;
-        let mut count = 1;
-        while let Some(op) = inner.next() {
-            count += 1;
-            if count > MAX_CHAIN {
-                return Err(Diagnostic::error(
-                    span,
-                    format!("more than {MAX_CHAIN} terms in one expression"),
-                )
-                .with_hint("split it into named values"));
-            }
-            let rhs = self.expr(next(&mut inner)?)?;
-            let s = Span {
-                file: self.file,
-                start: acc.span.start,
-                end: rhs.span.end,
-            };
-            acc = Expr {
-                kind: ExprKind::Binary(binary_op(op.as_str()), Box::new(acc), Box::new(rhs)),
-                span: s,
-            };
-        }
-        Ok(acc)
-    }
-
-    /// `not not x` and `- - x`.
-    fn prefixed(&self, pair: Pair<Rule>) -> Lowered<Expr> {
-        let mut ops = Vec::new();
-        let mut operand = None;
-        for p in pair.into_inner() {
-            match p.as_rule() {
-                Rule::op_not => ops.push((UnaryOp::Not, self.span(&p))),
-                Rule::op_neg => ops.push((UnaryOp::Neg, self.span(&p))),
-                _ => operand = Some(self.expr(p)?),
-            }
-        }
-        let mut acc =
-            operand.ok_or_else(|| Diagnostic::error(self.at(0, 0), "operator without operand"))?;
-        if ops.len() > MAX_CHAIN {
-            return Err(Diagnostic::error(acc.span, "too many prefix operators"));
-        }
-        for (op, s) in ops.into_iter().rev() {
-            let span = Span {
-                end: acc.span.end,
-                ..s
-            };
-            acc = Expr {
-                kind: ExprKind::Unary(op, Box::new(acc)),
+        let pairs = pair.into_inner();
+        let operators = pairs.clone().filter(|p| is_infix(p.as_rule())).count();
+        if operators >= MAX_CHAIN {
+            return Err(Diagnostic::error(
                 span,
-            };
+                format!("more than {MAX_CHAIN} terms in one expression"),
+            )
+            .with_hint("split it into named values"));
         }
-        Ok(acc)
-    }
-
-    fn power(&self, pair: Pair<Rule>) -> Lowered<Expr> {
-        let span = self.span(&pair);
-        let mut inner = pair.into_inner();
-        let base = self.expr(next(&mut inner)?)?;
-        let _op = inner.next();
-        match inner.next() {
-            Some(exp) => {
-                let exp = self.expr(exp)?;
+        pratt()
+            .map_primary(|p| self.expr(p))
+            .map_prefix(|op, rhs| {
+                let rhs = rhs?;
+                let kind = if op.as_rule() == Rule::op_not {
+                    UnaryOp::Not
+                } else {
+                    UnaryOp::Neg
+                };
+                let span = Span {
+                    end: rhs.span.end,
+                    ..self.span(&op)
+                };
                 Ok(Expr {
-                    kind: ExprKind::Binary(BinaryOp::Pow, Box::new(base), Box::new(exp)),
+                    kind: ExprKind::Unary(kind, Box::new(rhs)),
                     span,
                 })
-            }
-            None => Ok(base),
-        }
-    }
-
-    fn postfix(&self, pair: Pair<Rule>) -> Lowered<Expr> {
-        let start = self.span(&pair);
-        let mut inner = pair.into_inner();
-        let mut acc = self.expr(next(&mut inner)?)?;
-        for p in inner {
-            let span = Span {
-                end: self.span(&p).end,
-                ..start
-            };
-            acc = match p.as_rule() {
-                Rule::field => Expr {
-                    kind: ExprKind::Field(Box::new(acc), self.ident(first(p)?)),
+            })
+            .map_postfix(|lhs, op| {
+                let lhs = lhs?;
+                let span = Span {
+                    end: self.span(&op).end,
+                    ..lhs.span
+                };
+                match op.as_rule() {
+                    Rule::field => Ok(Expr {
+                        kind: ExprKind::Field(Box::new(lhs), self.ident(first(op)?)),
+                        span,
+                    }),
+                    _ => self.call(lhs, op, span),
+                }
+            })
+            .map_infix(|lhs, op, rhs| {
+                let (lhs, rhs) = (lhs?, rhs?);
+                let span = Span {
+                    file: self.file,
+                    start: lhs.span.start,
+                    end: rhs.span.end,
+                };
+                Ok(Expr {
+                    kind: ExprKind::Binary(binary_op(op.as_str()), Box::new(lhs), Box::new(rhs)),
                     span,
-                },
-                _ => self.call(acc, p, span)?,
-            };
-        }
-        Ok(acc)
+                })
+            })
+            .parse(pairs)
     }
 
     fn call(&self, callee: Expr, args: Pair<Rule>, span: Span) -> Lowered<Expr> {
@@ -382,7 +366,10 @@ impl Lower {
         let span = self.span(&pair);
         match pair.as_rule() {
             Rule::unit | Rule::unit_inner => self.unit_chain(pair),
-            Rule::unit_group => Ok(UnitExpr { span, ..self.unit(first(pair)?)? }),
+            Rule::unit_group => Ok(UnitExpr {
+                span,
+                ..self.unit(first(pair)?)?
+            }),
             Rule::unit_name => Ok(UnitExpr {
                 kind: UnitKind::Name(pair.as_str().to_string()),
                 span,
@@ -435,6 +422,30 @@ impl Lower {
     }
 }
 
+/// The operator table: loosest first.
+fn pratt() -> &'static PrattParser<Rule> {
+    static PRATT: std::sync::OnceLock<PrattParser<Rule>> = std::sync::OnceLock::new();
+    PRATT.get_or_init(|| {
+        PrattParser::new()
+            .op(Op::infix(Rule::op_or, Assoc::Left))
+            .op(Op::infix(Rule::op_and, Assoc::Left))
+            .op(Op::prefix(Rule::op_not))
+            .op(Op::infix(Rule::cmp_op, Assoc::Left))
+            .op(Op::infix(Rule::add_op, Assoc::Left))
+            .op(Op::infix(Rule::mul_op, Assoc::Left))
+            .op(Op::prefix(Rule::op_neg))
+            .op(Op::infix(Rule::op_pow, Assoc::Right))
+            .op(Op::postfix(Rule::call_args) | Op::postfix(Rule::field))
+    })
+}
+
+fn is_infix(rule: Rule) -> bool {
+    matches!(
+        rule,
+        Rule::op_or | Rule::op_and | Rule::cmp_op | Rule::add_op | Rule::mul_op | Rule::op_pow
+    )
+}
+
 fn next<'i>(it: &mut impl Iterator<Item = Pair<'i, Rule>>) -> Lowered<Pair<'i, Rule>> {
     it.next()
         .ok_or_else(|| Diagnostic::error(Span::default(), "internal: parse tree is missing a part"))
@@ -457,6 +468,7 @@ fn binary_op(s: &str) -> BinaryOp {
         "==" => BinaryOp::Eq,
         "!=" => BinaryOp::Ne,
         "and" => BinaryOp::And,
+        "^" => BinaryOp::Pow,
         _ => BinaryOp::Or,
     }
 }
@@ -503,8 +515,7 @@ fn rule_name(rule: Rule) -> &'static str {
     match rule {
         EOI => "the end of the line",
         ident | name | params => "a name",
-        expr | disjunction | conjunction | negation | comparison | sum | product | unary
-        | power | postfix | quantity | number | group | list | record | boolean | if_expr
+        expr | operation | quantity | number | group | list | record | boolean | if_expr
         | string => "a value",
         cmp_op | add_op | mul_op | op_pow | op_and | op_or => "an operator",
         call_args => "`(`",
@@ -532,7 +543,12 @@ fn expected_message(positives: &[Rule], found: &str) -> String {
     }
     // After a complete value, "an operator" says enough; drop the postfix noise.
     if names.contains(&"an operator") {
-        names.retain(|n| !matches!(*n, "`(`" | "`.`" | "a whole-number exponent" | "`*` or `/`" | "`as`"));
+        names.retain(|n| {
+            !matches!(
+                *n,
+                "`(`" | "`.`" | "a whole-number exponent" | "`*` or `/`" | "`as`"
+            )
+        });
     }
     let expected = match names.len() {
         0 => String::new(),
@@ -564,7 +580,12 @@ fn parse_hint(text: &str, pos: usize) -> Option<String> {
         );
     }
     if let Some(first) = rest.chars().next() {
-        if (first.is_alphanumeric() || first == '(') && before.chars().last().is_some_and(|c| c.is_alphanumeric() || c == ')') {
+        if (first.is_alphanumeric() || first == '(')
+            && before
+                .chars()
+                .last()
+                .is_some_and(|c| c.is_alphanumeric() || c == ')')
+        {
             return Some("two values side by side need an operator between them, e.g. `*`".into());
         }
     }
@@ -584,54 +605,89 @@ mod tests {
 
     fn show(text: &str) -> ExprKind {
         match stmt(text).kind {
-            StmtKind::Show(e) => e.kind,
+            StmtKind::Show(e) => e.kind.clone(),
             other => panic!("`{text}` is not a bare expression: {other:?}"),
         }
     }
 
     #[test]
     fn statement_forms() {
-        assert!(matches!(stmt("input L = 12 mm").kind, StmtKind::Input { .. }));
-        assert!(matches!(stmt("check q > 1 kW/m^2").kind, StmtKind::Check(_)));
-        assert!(matches!(stmt("f(x, y) = x * y").kind, StmtKind::Function { ref params, .. } if params.len() == 2));
-        assert!(matches!(stmt("area = 2 m * 3 m").kind, StmtKind::Binding { .. }));
+        assert!(matches!(
+            stmt("input L = 12 mm").kind,
+            StmtKind::Input { .. }
+        ));
+        assert!(matches!(
+            stmt("check q > 1 kW/m^2").kind,
+            StmtKind::Check(_)
+        ));
+        assert!(
+            matches!(stmt("f(x, y) = x * y").kind, StmtKind::Function { ref params, .. } if params.len() == 2)
+        );
+        assert!(matches!(
+            stmt("area = 2 m * 3 m").kind,
+            StmtKind::Binding { .. }
+        ));
         assert!(matches!(stmt("f(2)").kind, StmtKind::Show(_)));
         assert!(matches!(stmt("f(x) == 3").kind, StmtKind::Show(_)));
     }
 
     #[test]
     fn unit_after_number_without_spaces_is_compound() {
-        let ExprKind::Quantity { unit: Some(u), .. } = show("14 kg/m^2") else { panic!("no unit") };
+        let ExprKind::Quantity { unit: Some(u), .. } = show("14 kg/m^2") else {
+            panic!("no unit")
+        };
         assert!(matches!(u.kind, UnitKind::Div(..)));
-        let ExprKind::Binary(BinaryOp::Mul, a, b) = show("2.4 m * 1.8 m") else { panic!("not a product") };
+        let ExprKind::Binary(BinaryOp::Mul, a, b) = show("2.4 m * 1.8 m") else {
+            panic!("not a product")
+        };
         assert!(matches!(a.kind, ExprKind::Quantity { unit: Some(_), .. }));
         assert!(matches!(b.kind, ExprKind::Quantity { unit: Some(_), .. }));
     }
 
     #[test]
     fn spaces_allowed_inside_unit_parentheses() {
-        let ExprKind::Quantity { unit: Some(u), .. } = show("5 BTU/(h * ft^2 * degF)") else { panic!("no unit") };
+        let ExprKind::Quantity { unit: Some(u), .. } = show("5 BTU/(h * ft^2 * degF)") else {
+            panic!("no unit")
+        };
         assert_eq!(u.span.end as usize, "5 BTU/(h * ft^2 * degF)".len());
     }
 
     #[test]
     fn as_binds_loosest_and_power_is_right_associative() {
         assert!(matches!(show("q * t as kWh"), ExprKind::As(..)));
-        let ExprKind::Unary(UnaryOp::Neg, inner) = show("-2^2") else { panic!("not a negation") };
+        let ExprKind::Unary(UnaryOp::Neg, inner) = show("-2^2") else {
+            panic!("not a negation")
+        };
         assert!(matches!(inner.kind, ExprKind::Binary(BinaryOp::Pow, ..)));
     }
 
     #[test]
     fn spans_are_offset_by_the_chunk_start() {
-        let s = parse_statement("x = 1", 10, 3).ok().flatten().map(|s| s.span);
-        assert_eq!(s, Some(Span { file: 3, start: 10, end: 15 }));
+        let s = parse_statement("x = 1", 10, 3)
+            .ok()
+            .flatten()
+            .map(|s| s.span);
+        assert_eq!(
+            s,
+            Some(Span {
+                file: 3,
+                start: 10,
+                end: 15
+            })
+        );
     }
 
     #[test]
     fn errors_use_human_rule_names() {
-        let e = parse_statement("x = ", 0, 0).err().map(|d| d.message).unwrap_or_default();
+        let e = parse_statement("x = ", 0, 0)
+            .err()
+            .map(|d| d.message)
+            .unwrap_or_default();
         assert_eq!(e, "expected a value, found the end of the line");
-        let e = parse_statement("x = 2 m 3", 0, 0).err().map(|d| d.message).unwrap_or_default();
+        let e = parse_statement("x = 2 m 3", 0, 0)
+            .err()
+            .map(|d| d.message)
+            .unwrap_or_default();
         assert!(e.contains("expected") && e.contains("found `3`"), "{e}");
     }
 }

@@ -37,16 +37,47 @@ struct Scanner<'a> {
 
 /// Scan `text` (file id `file`) into statement chunks and bracket/string errors.
 pub fn scan(text: &str, file: u32) -> Scan {
+    let mut total = Scan::default();
+    let mut start = 0;
+    let mut first = true;
+    loop {
+        let (pass, unclosed) = scan_from(text, file, start);
+        if first {
+            total.open_at_end = pass.open_at_end;
+            first = false;
+        }
+        // An unclosed bracket swallows the rest of the text. Report it, then
+        // recover by scanning again from the line after it, so that errors
+        // further down are still found (and found once).
+        let restart = unclosed.and_then(|at| text[at..].find('\n').map(|n| at + n + 1));
+        let keep = |d: &Diagnostic| restart.is_none_or(|r| (d.span.start as usize) < r);
+        total.errors.extend(pass.errors.into_iter().filter(keep));
+        total.chunks.extend(pass.chunks);
+        match restart {
+            Some(r) if r < text.len() => start = r,
+            _ => return total,
+        }
+    }
+}
+
+/// One scanning pass from byte `start`; also returns where an unclosed
+/// bracket opened, if one did.
+fn scan_from(text: &str, file: u32, start: usize) -> (Scan, Option<usize>) {
     let mut s = Scanner {
         bytes: text.as_bytes(),
         file,
         scan: Scan::default(),
         stack: Vec::new(),
-        chunk_start: 0,
+        chunk_start: start,
         chunk_bad: false,
     };
-    s.run();
-    s.scan
+    let mut i = start;
+    while i < s.bytes.len() {
+        i = s.step(i);
+    }
+    let unclosed = s.stack.first().map(|&(_, at)| at);
+    s.end_of_text();
+    (s.scan, unclosed)
 }
 
 impl Scanner<'_> {
@@ -62,14 +93,6 @@ impl Scanner<'_> {
         let d = Diagnostic::error(self.span(start, end), message).with_hint(hint);
         self.scan.errors.push(d);
         self.chunk_bad = true;
-    }
-
-    fn run(&mut self) {
-        let mut i = 0;
-        while i < self.bytes.len() {
-            i = self.step(i);
-        }
-        self.end_of_text();
     }
 
     /// Handle the byte at `i`; return the next index.

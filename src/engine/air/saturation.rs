@@ -116,11 +116,13 @@ pub fn ln_water(t: f64) -> f64 {
 
 /// ln of the saturation pressure over the stable condensed phase (ice below 0 degC), T in K.
 pub fn ln_saturation(t: f64) -> f64 {
-    join_phases(
-        t,
-        ln_ice_hyland_wexler(t.min(T_TRIPLE)),
-        ln_water(t.max(T_ZERO_C)),
-    )
+    if t >= T_TRIPLE {
+        return ln_water(t);
+    }
+    if t <= T_ZERO_C {
+        return ln_ice_hyland_wexler(t);
+    }
+    join_phases(t, ln_ice_hyland_wexler(t), ln_water(t))
 }
 
 /// Linear join of an ice value and a water value across 0 degC .. 0.01 degC.
@@ -141,9 +143,24 @@ fn join_phases(t: f64, ice: f64, water: f64) -> f64 {
 /// (1998) coefficients for water (0-100 degC) and ice (-100-0 degC). It tends to 1
 /// as e_s approaches p; where e_s >= p (above the boiling point) it is 1.
 pub fn enhancement_factor(t: f64, p: f64) -> f64 {
-    let ln_ice = ln_enhancement(t, p, ln_ice_hyland_wexler(t), &HARDY_ICE);
-    let ln_water = ln_enhancement(t, p, ln_water(t), &HARDY_WATER);
-    join_phases(t, ln_ice, ln_water).exp()
+    (ln_saturated_vapour_pressure(t, p) - ln_saturation(t)).exp()
+}
+
+/// ln of `f p_ws` over one phase, given ln p_ws of that phase.
+fn ln_phase(t: f64, p: f64, ln_es: f64, coefficients: &[f64; 8]) -> f64 {
+    ln_es + ln_enhancement(t, p, ln_es, coefficients)
+}
+
+/// ln of the vapour partial pressure of saturated moist air, `ln(f p_ws)`, T in K, p in Pa.
+pub fn ln_saturated_vapour_pressure(t: f64, p: f64) -> f64 {
+    if t >= T_TRIPLE {
+        return ln_phase(t, p, ln_water(t), &HARDY_WATER);
+    }
+    let ice = ln_phase(t, p, ln_ice_hyland_wexler(t), &HARDY_ICE);
+    if t <= T_ZERO_C {
+        return ice;
+    }
+    join_phases(t, ice, ln_phase(t, p, ln_water(t), &HARDY_WATER))
 }
 
 /// Hardy (1998) enhancement-factor coefficients: (A1..A4, B1..B4), t in degC.
@@ -182,7 +199,7 @@ fn ln_enhancement(t: f64, p: f64, ln_es: f64, c: &[f64; 8]) -> f64 {
 /// Vapour partial pressure of saturated moist air at T (K) and total pressure p (Pa):
 /// `f(T, p) p_ws(T)`, over ice below 0 degC.
 pub fn saturated_vapour_pressure(t: f64, p: f64) -> f64 {
-    enhancement_factor(t, p) * ln_saturation(t).exp()
+    ln_saturated_vapour_pressure(t, p).exp()
 }
 
 /// Saturated liquid density, kg/m^3, Wagner & Pruss (1993) auxiliary eq. 2.6, T in K.

@@ -24,7 +24,7 @@ use uom::si::thermodynamic_temperature::kelvin;
 use super::saturation::{self as sat, T_MIN_SATURATION, T_ZERO_C};
 use super::thermo::{self, EPSILON};
 use super::AirError;
-use crate::engine::solve::{brent, Tolerance};
+use crate::engine::solve::{brent, newton_bracketed, Tolerance};
 
 /// Lowest dry-bulb temperature of an air state, K (-40 degC).
 pub const T_MIN_K: f64 = 233.15;
@@ -155,22 +155,27 @@ fn w_for_enthalpy(t: f64, p: f64, target: f64, hc: f64) -> Result<f64, AirError>
     })
 }
 
-/// Root of an increasing residual on `[lo, hi]`; an end is returned when the
-/// residual already has the root's sign there (a saturated state, where both
-/// ends meet up to rounding).
-fn root_in<F: FnMut(f64) -> f64>(
-    mut f: F,
-    lo: f64,
-    hi: f64,
-    what: &'static str,
-) -> Result<f64, AirError> {
-    if f(lo) >= 0.0 {
-        return Ok(lo);
+/// The adiabatic-saturation residual `g(T*)` and an estimate of its slope, J/kg.
+///
+/// `g = h(T*, w_s*) - h1 - (w_s* - w) h_c(T*)`; the slope uses Clausius-Clapeyron
+/// for `dw_s*/dT*` and round specific heats (a start for Newton's method; the
+/// solver refines it by secants).
+fn wet_bulb_residual(ts: f64, w: f64, p: f64, h1: f64, ice: bool) -> (f64, f64) {
+    let pvs = sat::saturated_vapour_pressure(ts, p);
+    if pvs >= p {
+        return (f64::INFINITY, f64::INFINITY);
     }
-    if f(hi) <= 0.0 {
-        return Ok(hi);
-    }
-    brent(f, lo, hi, T_TOL).map_err(|e| AirError::NotConverged { what, reason: e })
+    let ws = w_of(pvs, p);
+    let hv = thermo::vapour_enthalpy(ts, pvs);
+    let (hc, cc) = if ice {
+        (thermo::ice_enthalpy(ts), 2100.0)
+    } else {
+        (thermo::liquid_enthalpy(ts), 4186.0)
+    };
+    let g = thermo::air_part_enthalpy(ts, p - pvs, pvs) + ws * hv - h1 - (ws - w) * hc;
+    let latent = hv - hc;
+    let dws = ws * p / (p - pvs) * latent / (thermo::R_WATER_IF97 * ts * ts);
+    (g, 1006.0 + 1880.0 * ws + dws * latent - (ws - w) * cc)
 }
 
 impl AirState {
@@ -476,7 +481,7 @@ impl AirState {
             return Err(AirError::NoDewPoint { w: self.w });
         }
         let ln_pv = pv.ln();
-        let residual = |t: f64| sat::saturated_vapour_pressure(t, p).ln() - ln_pv;
+        let residual = |t: f64| sat::ln_saturated_vapour_pressure(t, p) - ln_pv;
         let hi = self.t_k.max(T_ZERO_C + 1.0);
         brent(residual, T_MIN_SATURATION, hi, T_TOL).map_err(|e| AirError::NotConverged {
             what: "dew point",
@@ -497,25 +502,40 @@ impl AirState {
     pub(crate) fn wet_bulb_k(&self) -> Result<f64, AirError> {
         let (t, w, p) = (self.t_k, self.w, self.p_pa);
         let h1 = h_of(t, w, p);
-        let residual = |ts: f64, hc: f64| match ws_of(ts, p) {
-            Some(ws) => h_of(ts, ws, p) - h1 - (ws - w) * hc,
-            None => f64::INFINITY,
-        };
         let hi = self.wet_bulb_upper_k()?;
-        let lo = self.dew_point_k().unwrap_or(T_MIN_SATURATION).min(hi);
-        if hi >= T_ZERO_C
-            && (lo >= T_ZERO_C || residual(T_ZERO_C, thermo::liquid_enthalpy(T_ZERO_C)) <= 0.0)
-        {
-            let f = |ts: f64| residual(ts, thermo::liquid_enthalpy(ts));
-            return root_in(f, lo.max(T_ZERO_C), hi, "wet-bulb temperature");
+        let dew = self.dew_point_estimate_k().min(hi);
+        let err = |e| AirError::NotConverged {
+            what: "wet-bulb temperature",
+            reason: e,
+        };
+        // A start about a fifth of the way from the dew point (common practice: the
+        // wet-bulb sits nearer the dew point than the dry-bulb).
+        let guess = dew + (hi - dew) * 0.2;
+        // Over liquid water when a root at or above 0 degC exists, else over ice.
+        let (lo, hi, ice) = if hi < T_ZERO_C {
+            (T_MIN_SATURATION, hi, true)
+        } else if dew >= T_ZERO_C + 2.0 {
+            (T_ZERO_C, hi, false)
+        } else if wet_bulb_residual(T_ZERO_C, w, p, h1, false).0 <= 0.0 {
+            (T_ZERO_C, hi, false)
+        } else {
+            (T_MIN_SATURATION, T_ZERO_C, true)
+        };
+        if hi - lo <= T_TOL.abs {
+            return Ok(hi);
         }
-        let f = |ts: f64| residual(ts, thermo::ice_enthalpy(ts));
-        root_in(
-            f,
-            lo.min(T_ZERO_C),
-            hi.min(T_ZERO_C),
-            "wet-bulb temperature",
-        )
+        let f = |ts: f64| wet_bulb_residual(ts, w, p, h1, ice);
+        let ts = newton_bracketed(f, lo, hi, guess.clamp(lo, hi), T_TOL).map_err(err)?;
+        // A saturated state: the root is the dry-bulb itself up to rounding.
+        Ok(ts.min(t))
+    }
+
+    /// Rough dew point (Magnus form with Alduchov & Eskridge 1996 constants), K;
+    /// used only to start the wet-bulb search.
+    fn dew_point_estimate_k(&self) -> f64 {
+        let pv = pv_of(self.w, self.p_pa);
+        let l = (pv.max(1e-3) / 610.94).ln();
+        (T_ZERO_C + 243.04 * l / (17.625 - l)).max(T_MIN_SATURATION)
     }
 
     /// Upper end of the wet-bulb bracket: the dry-bulb, or just below the boiling

@@ -66,7 +66,9 @@ pub fn air_residual_enthalpy(t: f64, pa: f64, pv: f64) -> f64 {
 
 /// Residual enthalpy of dry air at the reference state (0 degC, 101.325 kPa), J/kg.
 fn air_residual_reference() -> f64 {
-    air_residual_enthalpy(super::saturation::T_ZERO_C, P_REFERENCE, 0.0)
+    static VALUE: std::sync::LazyLock<f64> =
+        std::sync::LazyLock::new(|| air_residual_enthalpy(super::saturation::T_ZERO_C, P_REFERENCE, 0.0));
+    *VALUE
 }
 
 /// Compressibility excess `Z - 1` of humid air at (T, p) with water mole fraction x_w:
@@ -110,7 +112,7 @@ fn air_tau_alpha_tau(tau: f64) -> f64 {
     let poly = -3.0 * n[0] * tau.powi(-3) - 2.0 * n[1] * tau.powi(-2) - n[2] / tau;
     let planck = |a: f64, b: f64| a * b * tau / ((b * tau).exp() - 1.0);
     let last = n[9] * n[12] * tau / (2.0 / 3.0 * (-n[12] * tau).exp() + 1.0);
-    poly + 1.5 * n[5] * tau.powf(1.5) + n[6] + planck(n[7], n[10]) + planck(n[8], n[11]) + last
+    poly + 1.5 * n[5] * tau * tau.sqrt() + n[6] + planck(n[7], n[10]) + planck(n[8], n[11]) + last
 }
 
 /// Ideal-gas enthalpy of dry air from an arbitrary origin, J/kg.
@@ -120,7 +122,9 @@ fn air_ideal_enthalpy(t: f64) -> f64 {
 
 /// Enthalpy of dry air at T (K) relative to 0 degC, J/kg (ideal gas).
 pub fn dry_air_enthalpy(t: f64) -> f64 {
-    air_ideal_enthalpy(t) - air_ideal_enthalpy(super::saturation::T_ZERO_C)
+    static REFERENCE: std::sync::LazyLock<f64> =
+        std::sync::LazyLock::new(|| air_ideal_enthalpy(super::saturation::T_ZERO_C));
+    air_ideal_enthalpy(t) - *REFERENCE
 }
 
 /// Ideal-gas specific heat of dry air, J/(kg K), by central difference of the enthalpy.

@@ -1,0 +1,415 @@
+//! Tables as aligned terminal text, HTML (notebooks), Markdown and CSV, with
+//! units in the column headers (`name [unit]`) and one number format per column.
+//!
+//! Every renderer goes through [`Layout`], which checks the table once (not
+//! empty, columns of equal length, each cell in its column's unit) and formats
+//! every cell. CSV keeps full precision; the other formats show
+//! [`SIG_FIGS`](super::number::SIG_FIGS) significant figures of the largest value.
+
+use std::path::Path;
+
+use crate::units::{Quantity, Unit};
+use crate::value::{Column, Record, Table, Value};
+
+use super::error::RenderError;
+use super::file::write_atomic;
+use super::number::{default_unit, dim_words, exact_text, in_unit, NumberFormat, SIG_FIGS};
+
+/// A table checked and formatted, ready for any output format.
+#[derive(Clone, Debug)]
+pub struct Layout {
+    pub title: Option<String>,
+    /// Column names and unit symbols (empty when the column has no unit).
+    pub headers: Vec<(String, String)>,
+    /// Right-align (numbers) or left-align (text), per column.
+    pub numeric: Vec<bool>,
+    /// Formatted cells, row-major, with the column's significant figures.
+    pub rows: Vec<Vec<String>>,
+    /// Cells at full precision (shortest round-trip text), for CSV.
+    pub exact: Vec<Vec<String>>,
+}
+
+/// One column's cells as numbers in its unit, or text.
+enum Cell {
+    Number(f64),
+    Text(String),
+}
+
+impl Layout {
+    /// Check and format a table.
+    pub fn new(table: &Table) -> Result<Layout, RenderError> {
+        let rows = check_shape(table)?;
+        let mut layout = Layout {
+            title: table.title.clone(),
+            headers: Vec::new(),
+            numeric: Vec::new(),
+            rows: vec![Vec::new(); rows],
+            exact: vec![Vec::new(); rows],
+        };
+        for column in &table.columns {
+            layout.add_column(column)?;
+        }
+        Ok(layout)
+    }
+
+    fn add_column(&mut self, column: &Column) -> Result<(), RenderError> {
+        let unit = column_unit(column);
+        let cells = column_cells(column, unit.as_ref())?;
+        let numbers: Vec<f64> = cells
+            .iter()
+            .filter_map(|c| {
+                if let Cell::Number(x) = c {
+                    Some(*x)
+                } else {
+                    None
+                }
+            })
+            .collect();
+        let format = NumberFormat::for_column(&numbers, SIG_FIGS);
+        for (i, cell) in cells.iter().enumerate() {
+            let (shown, exact) = match cell {
+                Cell::Number(x) => (format.write(*x), exact_text(*x)),
+                Cell::Text(t) => (t.clone(), t.clone()),
+            };
+            self.rows[i].push(shown);
+            self.exact[i].push(exact);
+        }
+        let symbol = unit.map(|u| u.symbol).unwrap_or_default();
+        self.headers.push((column.name.clone(), symbol));
+        self.numeric
+            .push(!numbers.is_empty() && numbers.len() == cells.len());
+        Ok(())
+    }
+
+    /// Header text of one column: `name [unit]`, or `name` without a unit.
+    pub fn header(&self, i: usize) -> String {
+        let (name, unit) = &self.headers[i];
+        if unit.is_empty() {
+            name.clone()
+        } else {
+            format!("{name} [{unit}]")
+        }
+    }
+}
+
+/// Rows in the table; errors for an empty or ragged table.
+fn check_shape(table: &Table) -> Result<usize, RenderError> {
+    let first = table
+        .columns
+        .first()
+        .ok_or_else(|| RenderError::EmptyTable {
+            title: table.title.clone(),
+        })?;
+    let rows = first.cells.len();
+    if rows == 0 {
+        return Err(RenderError::EmptyTable {
+            title: table.title.clone(),
+        });
+    }
+    for column in &table.columns[1..] {
+        if column.cells.len() != rows {
+            return Err(RenderError::RaggedTable {
+                first: first.name.clone(),
+                expected: rows,
+                column: column.name.clone(),
+                found: column.cells.len(),
+            });
+        }
+    }
+    Ok(rows)
+}
+
+/// The column's unit: the one set on it, else that of its first quantity.
+fn column_unit(column: &Column) -> Option<Unit> {
+    if column.unit.is_some() {
+        return column.unit.clone();
+    }
+    column.cells.iter().find_map(|cell| match cell {
+        Value::Quantity(q, shown) => Some(default_unit(q, shown.as_ref())),
+        _ => None,
+    })
+}
+
+fn column_cells(column: &Column, unit: Option<&Unit>) -> Result<Vec<Cell>, RenderError> {
+    column
+        .cells
+        .iter()
+        .enumerate()
+        .map(|(row, cell)| cell_value(column, row + 1, cell, unit))
+        .collect()
+}
+
+fn cell_value(
+    column: &Column,
+    row: usize,
+    cell: &Value,
+    unit: Option<&Unit>,
+) -> Result<Cell, RenderError> {
+    match (cell, unit) {
+        (Value::Quantity(q, _), Some(unit)) => quantity_cell(column, row, q, unit),
+        (Value::Quantity(q, _), None) => finite(column, row, q.si),
+        (Value::Bool(b), _) => Ok(Cell::Text(if *b { "yes" } else { "no" }.into())),
+        (Value::Str(s), _) => Ok(Cell::Text(s.clone())),
+        (other, _) => Ok(Cell::Text(format!(
+            "({})",
+            crate::library::type_word(other)
+        ))),
+    }
+}
+
+fn quantity_cell(
+    column: &Column,
+    row: usize,
+    q: &Quantity,
+    unit: &Unit,
+) -> Result<Cell, RenderError> {
+    if !q.si.is_finite() {
+        return finite(column, row, q.si);
+    }
+    if q.dim != unit.dim {
+        return Err(RenderError::CellUnit {
+            column: column.name.clone(),
+            row,
+            unit: format!("{} ({})", unit.symbol, dim_words(unit.dim)),
+            found: dim_words(q.dim),
+        });
+    }
+    let x = in_unit(q, unit).map_err(RenderError::Invalid)?;
+    finite(column, row, x)
+}
+
+fn finite(column: &Column, row: usize, x: f64) -> Result<Cell, RenderError> {
+    if x.is_finite() {
+        Ok(Cell::Number(x))
+    } else {
+        Err(RenderError::NotFinite {
+            what: format!("column `{}`, row {row}", column.name),
+        })
+    }
+}
+
+/// Aligned plain text for the terminal: title, header, a rule, then rows.
+pub fn text(table: &Table) -> Result<String, RenderError> {
+    let layout = Layout::new(table)?;
+    let headers: Vec<String> = (0..layout.headers.len())
+        .map(|i| layout.header(i))
+        .collect();
+    let widths = column_widths(&headers, &layout.rows);
+    let mut out = String::new();
+    if let Some(title) = &layout.title {
+        out.push_str(title);
+        out.push('\n');
+    }
+    push_text_row(&mut out, &headers, &widths, &layout.numeric);
+    let rule: Vec<String> = widths.iter().map(|w| "-".repeat(*w)).collect();
+    out.push_str(rule.join("  ").trim_end());
+    out.push('\n');
+    for row in &layout.rows {
+        push_text_row(&mut out, row, &widths, &layout.numeric);
+    }
+    Ok(out)
+}
+
+fn column_widths(headers: &[String], rows: &[Vec<String>]) -> Vec<usize> {
+    let mut widths: Vec<usize> = headers.iter().map(|h| h.chars().count()).collect();
+    for row in rows {
+        for (w, cell) in widths.iter_mut().zip(row) {
+            *w = (*w).max(cell.chars().count());
+        }
+    }
+    widths
+}
+
+fn push_text_row(out: &mut String, cells: &[String], widths: &[usize], numeric: &[bool]) {
+    let parts: Vec<String> = cells
+        .iter()
+        .zip(widths)
+        .zip(numeric)
+        .map(|((cell, w), right)| {
+            if *right {
+                format!("{cell:>w$}")
+            } else {
+                format!("{cell:<w$}")
+            }
+        })
+        .collect();
+    out.push_str(parts.join("  ").trim_end());
+    out.push('\n');
+}
+
+/// An HTML `<table>` fragment (class `siccant-table`), numbers right-aligned.
+pub fn html(table: &Table) -> Result<String, RenderError> {
+    let layout = Layout::new(table)?;
+    let mut out = String::from("<table class=\"siccant-table\">\n");
+    if let Some(title) = &layout.title {
+        out.push_str(&format!("<caption>{}</caption>\n", escape_html(title)));
+    }
+    out.push_str("<thead><tr>");
+    for (i, (name, unit)) in layout.headers.iter().enumerate() {
+        let align = if layout.numeric[i] {
+            " style=\"text-align:right\""
+        } else {
+            ""
+        };
+        let unit = if unit.is_empty() {
+            String::new()
+        } else {
+            format!(" <span class=\"unit\">[{}]</span>", escape_html(unit))
+        };
+        out.push_str(&format!("<th{align}>{}{unit}</th>", escape_html(name)));
+    }
+    out.push_str("</tr></thead>\n<tbody>\n");
+    for row in &layout.rows {
+        out.push_str("<tr>");
+        for (cell, right) in row.iter().zip(&layout.numeric) {
+            let align = if *right {
+                " style=\"text-align:right\""
+            } else {
+                ""
+            };
+            out.push_str(&format!("<td{align}>{}</td>", escape_html(cell)));
+        }
+        out.push_str("</tr>\n");
+    }
+    out.push_str("</tbody>\n</table>\n");
+    Ok(out)
+}
+
+/// A Markdown (GitHub-flavoured) table, numeric columns right-aligned.
+pub fn markdown(table: &Table) -> Result<String, RenderError> {
+    let layout = Layout::new(table)?;
+    let mut out = String::new();
+    if let Some(title) = &layout.title {
+        out.push_str(&format!("**{}**\n\n", escape_markdown(title)));
+    }
+    let headers: Vec<String> = (0..layout.headers.len())
+        .map(|i| escape_markdown(&layout.header(i)))
+        .collect();
+    out.push_str(&format!("| {} |\n", headers.join(" | ")));
+    let rule: Vec<&str> = layout
+        .numeric
+        .iter()
+        .map(|n| if *n { "---:" } else { "---" })
+        .collect();
+    out.push_str(&format!("| {} |\n", rule.join(" | ")));
+    for row in &layout.rows {
+        let cells: Vec<String> = row.iter().map(|c| escape_markdown(c)).collect();
+        out.push_str(&format!("| {} |\n", cells.join(" | ")));
+    }
+    Ok(out)
+}
+
+/// CSV with a `name [unit]` header row and numbers at full precision.
+pub fn csv(table: &Table) -> Result<String, RenderError> {
+    let layout = Layout::new(table)?;
+    let mut writer = csv::Writer::from_writer(Vec::new());
+    let headers: Vec<String> = (0..layout.headers.len())
+        .map(|i| layout.header(i))
+        .collect();
+    let draw = |e: csv::Error| RenderError::Draw(e.to_string());
+    writer.write_record(&headers).map_err(draw)?;
+    for row in &layout.exact {
+        writer.write_record(row).map_err(draw)?;
+    }
+    let bytes = writer
+        .into_inner()
+        .map_err(|e| RenderError::Draw(e.to_string()))?;
+    String::from_utf8(bytes).map_err(|e| RenderError::Draw(e.to_string()))
+}
+
+/// Write a table to `path` atomically, in the format its extension names
+/// (`.csv`, `.md`, `.html`/`.htm`, `.txt`).
+pub fn export(table: &Table, path: &Path) -> Result<(), RenderError> {
+    let ext = path
+        .extension()
+        .and_then(|e| e.to_str())
+        .map(|e| e.to_ascii_lowercase());
+    let body = match ext.as_deref() {
+        Some("csv") => csv(table)?,
+        Some("md") => markdown(table)?,
+        Some("html" | "htm") => html(table)?,
+        Some("txt") => text(table)?,
+        _ => {
+            return Err(RenderError::Format {
+                path: path.to_path_buf(),
+                expected: ".csv, .md, .html or .txt",
+            })
+        }
+    };
+    write_atomic(path, body.as_bytes())
+}
+
+/// A table from a list of records (one row each), columns in the order the
+/// first record's fields appear; every record must have those fields.
+pub fn from_records(title: Option<String>, rows: &[Value]) -> Result<Table, RenderError> {
+    let records = rows
+        .iter()
+        .enumerate()
+        .map(|(i, v)| as_record(i, v))
+        .collect::<Result<Vec<_>, _>>()?;
+    let first = records.first().ok_or(RenderError::EmptyTable {
+        title: title.clone(),
+    })?;
+    let mut columns = Vec::new();
+    for (name, _) in &first.fields {
+        let cells = records
+            .iter()
+            .enumerate()
+            .map(|(i, r)| field_of(i, r, name))
+            .collect::<Result<Vec<_>, _>>()?;
+        columns.push(Column {
+            name: name.clone(),
+            unit: None,
+            cells,
+        });
+    }
+    Ok(Table { title, columns })
+}
+
+fn as_record(i: usize, v: &Value) -> Result<&Record, RenderError> {
+    match v {
+        Value::Record(r) => Ok(r),
+        other => Err(RenderError::Invalid(format!(
+            "row {} is {}, not a record; a table needs a list of records",
+            i + 1,
+            crate::library::type_word(other)
+        ))),
+    }
+}
+
+fn field_of(i: usize, r: &Record, name: &str) -> Result<Value, RenderError> {
+    r.get(name).cloned().ok_or_else(|| {
+        RenderError::Invalid(format!(
+            "row {} has no field `{name}`, which the first row has",
+            i + 1
+        ))
+    })
+}
+
+/// Escape text for HTML element content and attribute values.
+pub fn escape_html(text: &str) -> String {
+    let mut out = String::with_capacity(text.len());
+    for c in text.chars() {
+        match c {
+            '&' => out.push_str("&amp;"),
+            '<' => out.push_str("&lt;"),
+            '>' => out.push_str("&gt;"),
+            '"' => out.push_str("&quot;"),
+            '\'' => out.push_str("&#39;"),
+            _ => out.push(c),
+        }
+    }
+    out
+}
+
+/// Escape text for a Markdown table cell or paragraph.
+pub fn escape_markdown(text: &str) -> String {
+    let mut out = String::with_capacity(text.len());
+    for c in text.chars() {
+        if matches!(c, '|' | '*' | '_' | '`' | '\\' | '<' | '>') {
+            out.push('\\');
+        }
+        out.push(if c == '\n' { ' ' } else { c });
+    }
+    out
+}
