@@ -23,11 +23,14 @@ use crate::engine::dryers::continuous::{Belt, BeltResult, Flow, Zone};
 use crate::engine::dryers::product::{Equilibrium, FallingRate, Product, Surface};
 use crate::engine::dryers::rotary::{Rotary, RotaryResult};
 use crate::engine::dryers::{ergun, Closure, DryerError, EnergyFlows, CAUTIONS};
+use crate::engine::sorption::{Isotherm, Material};
 use crate::engine::transfer;
 use crate::engine::transport::Transport;
 use crate::library::air::{air_record, AirPayload};
+use crate::library::sorption::isotherm_record;
+use crate::render::plot::{drying_curve, AxisUnits, Curve, PlotBuilder};
 use crate::units::{parse_unit, Dim, Kind, Quantity};
-use crate::value::{Column, Payload, Record, Table, Value};
+use crate::value::{Column, Payload, Plot, Record, SeriesStyle, Table, Value};
 
 mod params;
 use params::*;
@@ -521,29 +524,129 @@ fn warn_all(args: &mut Args, warnings: &[String]) {
 // wet_product
 // ---------------------------------------------------------------------------
 
+/// The isotherm in a sorption record: an `isotherm`, a `material`, or a fit with an `isotherm` field.
+fn isotherm_of(record: &Record) -> Option<Isotherm> {
+    if let Some(iso) = record.payload::<Isotherm>() {
+        return Some(iso.clone());
+    }
+    if let Some(m) = record.payload::<Material>() {
+        return Some(m.isotherm.clone());
+    }
+    match record.get("isotherm") {
+        Some(Value::Record(inner)) => inner.payload::<Isotherm>().cloned(),
+        _ => None,
+    }
+}
+
+/// The `material` argument, if given.
+fn material_arg(args: &mut Args) -> Result<Option<Material>, Diagnostic> {
+    let Some(arg) = args.take("material") else {
+        return Ok(None);
+    };
+    match &arg.value {
+        Value::Record(r) if r.payload::<Material>().is_some() => {
+            Ok(r.payload::<Material>().cloned())
+        }
+        other => Err(Diagnostic::error(
+            arg.span,
+            format!(
+                "`material` must be a material record (from the sorption family), found {}",
+                type_word(other)
+            ),
+        )),
+    }
+}
+
+/// `X_eq`: a constant moisture, or an isotherm (isotherm, material or fit record).
+fn equilibrium_arg(
+    args: &mut Args,
+    material: Option<&Material>,
+) -> Result<(Equilibrium, Value), Diagnostic> {
+    let from_material = material.map(|m| m.isotherm.clone());
+    let Some(arg) = args.take("X_eq") else {
+        return Ok(match from_material {
+            Some(iso) => isotherm_equilibrium(iso),
+            None => (Equilibrium::Constant(0.0), moisture_v(0.0)),
+        });
+    };
+    match &arg.value {
+        Value::Record(r) => isotherm_of(r).map(isotherm_equilibrium).ok_or_else(|| {
+            Diagnostic::error(
+                arg.span,
+                format!(
+                    "`X_eq` must be a moisture content or an isotherm, found {}",
+                    type_word(&arg.value)
+                ),
+            )
+        }),
+        Value::Quantity(q, _) => {
+            let x = q
+                .expect_kind(Dim::NONE, Kind::Moisture)
+                .map_err(|e| Diagnostic::error(arg.span, format!("`X_eq`: {e}")))?
+                .si;
+            let x = checked(
+                arg.span,
+                "X_eq",
+                x,
+                x >= 0.0,
+                "a moisture content of at least 0 db",
+            )?;
+            Ok((Equilibrium::Constant(x), moisture_v(x)))
+        }
+        other => Err(Diagnostic::error(
+            arg.span,
+            format!(
+                "`X_eq` must be a moisture content or an isotherm, found {}",
+                type_word(other)
+            ),
+        )),
+    }
+}
+
+/// Equilibrium from an isotherm, at the air's temperature and relative humidity.
+fn isotherm_equilibrium(iso: Isotherm) -> (Equilibrium, Value) {
+    let shown = Value::Record(isotherm_record(iso.clone()));
+    let curve = move |t_k: f64, rh: f64| iso.moisture_raw(rh.clamp(0.0, 1.0), t_k);
+    (Equilibrium::Curve(Arc::new(curve)), shown)
+}
+
 fn wet_product(args: &mut Args) -> Result<Value, Diagnostic> {
-    let cp = positive(args, "cp_solid", Dim::SPECIFIC_HEAT)?;
-    let xc = moisture(args, "X_critical")?;
+    let material = material_arg(args)?;
+    let cp_span = args.span_of("cp_solid");
+    let cp = match (args.has("cp_solid"), &material) {
+        (false, Some(m)) => m.cp_solid.value,
+        _ => positive(args, "cp_solid", Dim::SPECIFIC_HEAT)?,
+    };
+    let xc = match (
+        args.has("X_critical"),
+        material.as_ref().and_then(|m| m.critical_moisture_db),
+    ) {
+        (false, Some(x)) => x,
+        _ => moisture(args, "X_critical")?,
+    };
     let xe_span = args.span_of("X_eq");
-    let xe = kinded(args, "X_eq", Dim::NONE, Kind::Moisture)?.unwrap_or(0.0);
-    checked(
-        xe_span,
-        "X_eq",
-        xe,
-        (0.0..=xc).contains(&xe),
-        "between 0 db and X_critical",
-    )?;
+    let (equilibrium, xe_value) = equilibrium_arg(args, material.as_ref())?;
+    if let Equilibrium::Constant(xe) = equilibrium {
+        checked(xe_span, "X_eq", xe, xe <= xc, "between 0 db and X_critical")?;
+    }
     let n_span = args.span_of("exponent");
     let n = args
         .opt_quantity("exponent", Dim::NONE)?
         .map_or(1.0, |q| q.si);
     checked(n_span, "exponent", n, n > 0.0, "positive")?;
-    let t_max = temperature(args, "T_max")?;
+    let t_max = match temperature(args, "T_max")? {
+        Some(t) => Some(t),
+        None => material
+            .as_ref()
+            .and_then(|m| m.max_product_temperature)
+            .map(|t| t.value),
+    };
     args.finish()?;
+    checked(cp_span, "cp_solid", cp, cp > 0.0, "positive")?;
     let product = Product {
         cp_solid_j_per_kg_k: cp,
         x_critical_db: xc,
-        equilibrium: Equilibrium::Constant(xe),
+        equilibrium,
         falling: if n == 1.0 {
             FallingRate::Linear
         } else {
@@ -554,7 +657,7 @@ fn wet_product(args: &mut Args) -> Result<Value, Diagnostic> {
     let mut r = Record::new("wet_product")
         .with("cp_solid", q(cp, Dim::SPECIFIC_HEAT, Kind::Plain))
         .with("X_critical", moisture_v(xc))
-        .with("X_eq", moisture_v(xe))
+        .with("X_eq", xe_value)
         .with("exponent", number(n));
     if let Some(t) = t_max {
         r = r.with("T_max", abs_t(t));
@@ -782,6 +885,8 @@ fn belt_record(belt: &Belt, r: &BeltResult) -> Record {
             Value::Table(energy_table(&r.flows, Dim::POWER, "kW")),
         )
         .with("profile", Value::Table(profile_table(r)));
+    let rec = with_plot(rec, "moisture_plot", moisture_profile_plot(r));
+    let rec = with_plot(rec, "temperature_plot", temperature_profile_plot(r));
     rec.with("cautions", cautions())
 }
 
@@ -1034,6 +1139,7 @@ fn batch_record(type_name: &str, r: &BatchResult, times_name: &str, element: &st
         .with("fan", shown(f.fan / t, Dim::POWER, "kW"))
         .with("fan_energy", shown(f.fan, Dim::ENERGY, "kWh"));
     let rec = with_merit(rec, f, r.latent_minimum_j_per_kg);
+    let rec = with_plot(rec, "drying_plot", drying_plot(&r.history, element));
     with_closure(rec, &r.closure)
         .with("T_product_max", abs_t(t_max))
         .with("exhaust_margin", delta_t(margin))
@@ -1360,4 +1466,101 @@ fn rotary_record(rotary: &Rotary, r: &RotaryResult, gas_out: Record) -> Record {
         .with("exhaust_margin", delta_t(margin))
         .with("energy", Value::Table(energy_table(f, Dim::POWER, "kW")))
         .with("cautions", cautions())
+}
+
+// ---------------------------------------------------------------------------
+// Plots (arranged by render::plot; no physics there)
+// ---------------------------------------------------------------------------
+
+/// Add a plot field when the plot could be built (it always can from finite results).
+fn with_plot(r: Record, name: &str, plot: Option<Plot>) -> Record {
+    match plot {
+        Some(p) => r.with(name, Value::Plot(Arc::new(p))),
+        None => r,
+    }
+}
+
+fn quantities(values: impl Iterator<Item = f64>, dim: Dim, kind: Kind) -> Vec<Quantity> {
+    values.map(|v| Quantity::new(v, dim, kind)).collect()
+}
+
+fn units(x: &str, y: &str) -> AxisUnits {
+    AxisUnits {
+        x: parse_unit(x).ok(),
+        y: parse_unit(y).ok(),
+    }
+}
+
+/// Zone boundaries as vertical lines on a profile plot.
+fn zone_marks(b: &mut PlotBuilder, r: &BeltResult) -> Option<()> {
+    let mut z = 0.0;
+    for i in 1..r.zones.len() {
+        z += r.zones[i - 1].length_m;
+        b.vline(
+            &Quantity::new(z, Dim::LENGTH, Kind::Plain),
+            format!("zone {}", i + 1),
+        )
+        .ok()?;
+    }
+    Some(())
+}
+
+fn profile_positions(r: &BeltResult) -> Vec<Quantity> {
+    quantities(r.profile.iter().map(|p| p.z_m), Dim::LENGTH, Kind::Plain)
+}
+
+fn moisture_profile_plot(r: &BeltResult) -> Option<Plot> {
+    let x = profile_positions(r);
+    let mut b = PlotBuilder::new(
+        "Moisture along the belt",
+        "position along the dryer",
+        "moisture content X",
+    )
+    .units(units("m", "db"));
+    let xs = quantities(r.profile.iter().map(|p| p.x_db), Dim::NONE, Kind::Moisture);
+    b.series(&Curve::new("product X", x, xs), SeriesStyle::Line)
+        .ok()?;
+    zone_marks(&mut b, r)?;
+    b.build().ok()
+}
+
+fn temperature_profile_plot(r: &BeltResult) -> Option<Plot> {
+    let x = profile_positions(r);
+    let mut b = PlotBuilder::new(
+        "Temperatures along the belt",
+        "position along the dryer",
+        "temperature",
+    )
+    .units(units("m", "degC"));
+    let abs = Kind::AbsoluteTemperature;
+    let tp = quantities(
+        r.profile.iter().map(|p| p.t_product_k),
+        Dim::TEMPERATURE,
+        abs,
+    );
+    let ta = quantities(
+        r.profile.iter().map(|p| p.air.t_kelvin()),
+        Dim::TEMPERATURE,
+        abs,
+    );
+    b.series(&Curve::new("product", x.clone(), tp), SeriesStyle::Line)
+        .ok()?;
+    b.series(&Curve::new("air", x, ta), SeriesStyle::Dashed)
+        .ok()?;
+    zone_marks(&mut b, r)?;
+    b.build().ok()
+}
+
+/// Drying curves of a batch: moisture of each tray or layer against time.
+fn drying_plot(history: &[BatchSample], element: &str) -> Option<Plot> {
+    let rows = thin(history);
+    let t = quantities(rows.iter().map(|s| s.t_s), Dim::TIME, Kind::Plain);
+    let n = rows.first().map_or(0, |s| s.x_db.len());
+    let curves: Vec<Curve> = (0..n)
+        .map(|i| {
+            let x = quantities(rows.iter().map(|s| s.x_db[i]), Dim::NONE, Kind::Moisture);
+            Curve::new(format!("{element} {}", i + 1), t.clone(), x)
+        })
+        .collect();
+    drying_curve("Drying curves", &[], &curves, units("h", "db")).ok()
 }

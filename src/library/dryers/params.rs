@@ -86,21 +86,23 @@ const T_PRODUCT: Param = opt(
 
 /// wet_product(...)
 pub const WET_PRODUCT: &[Param] = &[
-    req(
+    opt(
         "cp_solid",
         "J/(kg*K)",
+        "from `material`",
         "specific heat of the dry solid",
     ),
-    req(
+    opt(
         "X_critical",
         "db",
+        "from `material`",
         "critical moisture content: the constant-rate period ends here",
     ),
     opt(
         "X_eq",
-        "db",
-        "0 db",
-        "equilibrium moisture content in the dryer air (constant)",
+        "db or isotherm",
+        "0 db, or the material's isotherm",
+        "equilibrium moisture content: a constant, or an isotherm (isotherm, material or isotherm fit record) evaluated at the local air temperature and relative humidity",
     ),
     opt(
         "exponent",
@@ -111,8 +113,14 @@ pub const WET_PRODUCT: &[Param] = &[
     opt(
         "T_max",
         "degC",
-        "none",
+        "from `material`, else none",
         "maximum product temperature; designs above it are warned",
+    ),
+    opt(
+        "material",
+        "material",
+        "none",
+        "a material record (sorption family) supplying cp_solid, X_critical, the isotherm and T_max; arguments given here win",
     ),
 ];
 
