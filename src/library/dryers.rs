@@ -493,11 +493,6 @@ fn energy_table(f: &EnergyFlows, dim: Dim, unit: &str) -> Table {
         per_kg.push(q(amount / f.water, Dim::SPECIFIC_ENERGY, Kind::Plain));
         shares.push(q(amount / f.heater, Dim::NONE, Kind::Fraction));
     }
-    names.push(Value::Str("closure (heater - outflows)".into()));
-    let rest = f.heater - f.outflows();
-    amounts.push(q(rest, dim, Kind::Plain));
-    per_kg.push(q(rest / f.water, Dim::SPECIFIC_ENERGY, Kind::Plain));
-    shares.push(q(rest / f.heater, Dim::NONE, Kind::Fraction));
     Table {
         title: Some("energy flows".into()),
         columns: vec![
