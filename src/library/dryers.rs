@@ -1347,7 +1347,8 @@ fn deep_bed(args: &mut Args) -> Result<Value, Diagnostic> {
     );
     let r = dryer.simulate().map_err(|e| blame.error(e))?;
     warn_all(args, &r.warnings);
-    let rec = batch_record("deep_bed", &r, "layer_times", "layer")
+    let rec = batch_record("deep_bed", &r, "layer_times", "layer");
+    let rec = with_plot(rec, "outlet_plot", outlet_plot(&r.history))
         .with("pressure_drop", shown(bed_dp, Dim::PRESSURE, "Pa"))
         .with("h", q(h, Dim::HEAT_TRANSFER_COEFFICIENT, Kind::Plain))
         .with("specific_area", q(a, Dim::LENGTH.recip(), Kind::Plain))
@@ -1558,4 +1559,32 @@ fn drying_plot(history: &[BatchSample], element: &str) -> Option<Plot> {
         })
         .collect();
     drying_curve("Drying curves", &[], &curves, units("h", "db")).ok()
+}
+
+/// Air leaving a through-circulation bed against time: it stays cool and humid
+/// while the drying front crosses the bed, then rises towards the supply.
+fn outlet_plot(history: &[BatchSample]) -> Option<Plot> {
+    let rows = thin(history);
+    let t = quantities(rows.iter().map(|s| s.t_s), Dim::TIME, Kind::Plain);
+    let abs = Kind::AbsoluteTemperature;
+    let supply = quantities(
+        rows.iter().map(|s| s.supply.t_kelvin()),
+        Dim::TEMPERATURE,
+        abs,
+    );
+    let outlet = quantities(
+        rows.iter().map(|s| s.exhaust.t_kelvin()),
+        Dim::TEMPERATURE,
+        abs,
+    );
+    let mut b = PlotBuilder::new("Air through the bed", "time", "air temperature")
+        .units(units("h", "degC"));
+    b.series(
+        &Curve::new("supply", t.clone(), supply),
+        SeriesStyle::Dashed,
+    )
+    .ok()?;
+    b.series(&Curve::new("outlet", t, outlet), SeriesStyle::Line)
+        .ok()?;
+    b.build().ok()
 }
