@@ -504,6 +504,23 @@ fn energy_table(f: &EnergyFlows, dim: Dim, unit: &str) -> Table {
     }
 }
 
+/// Builder helpers for dryer records.
+trait DryerRecord {
+    /// The `exhaust_margin` field (exhaust temperature above its dew point), left
+    /// out when the exhaust is bone dry and has no dew point.
+    fn with_margin(self, margin: f64) -> Record;
+}
+
+impl DryerRecord for Record {
+    fn with_margin(self, margin: f64) -> Record {
+        if margin.is_finite() {
+            self.with("exhaust_margin", delta_t(margin))
+        } else {
+            self
+        }
+    }
+}
+
 /// Temperature above dew point of an air state, K (None when no dew point).
 fn dew_margin(a: &AirState) -> Option<f64> {
     a.dew_point().ok().map(|d| a.t_kelvin() - d.value)
@@ -872,7 +889,7 @@ fn belt_record(belt: &Belt, r: &BeltResult) -> Record {
             "falling_rate_length",
             shown(r.periods_m[2], Dim::LENGTH, "m"),
         )
-        .with("exhaust_margin", delta_t(margin))
+        .with_margin(margin)
         .with("exhaust_rh_max", q(rh_max, Dim::NONE, Kind::Activity))
         .with("zones", Value::Table(zones_table(belt, r)))
         .with(
@@ -899,7 +916,10 @@ fn zones_table(belt: &Belt, r: &BeltResult) -> Table {
         ("fan", Some("kW"), vec![]),
     ];
     for (i, (z, spec)) in r.zones.iter().zip(&belt.zones).enumerate() {
-        let dew = z.exhaust.dew_point().map_or(f64::NAN, |d| d.value);
+        let dew = z
+            .exhaust
+            .dew_point()
+            .map_or(Value::Str("none".into()), |d| abs_t(d.value));
         let flow = match spec.flow {
             Flow::Cocurrent => "cocurrent",
             Flow::Countercurrent => "countercurrent",
@@ -911,7 +931,7 @@ fn zones_table(belt: &Belt, r: &BeltResult) -> Table {
             q(z.residence_s, Dim::TIME, Kind::Plain),
             abs_t(z.supply.t_kelvin()),
             abs_t(z.exhaust.t_kelvin()),
-            abs_t(dew),
+            dew,
             q(z.exhaust.relative_humidity(), Dim::NONE, Kind::Activity),
             q(z.heater_w, Dim::POWER, Kind::Plain),
             q(z.fan_w, Dim::POWER, Kind::Plain),
@@ -1137,7 +1157,7 @@ fn batch_record(type_name: &str, r: &BatchResult, times_name: &str, element: &st
     let rec = with_plot(rec, "drying_plot", drying_plot(&r.history, element));
     with_closure(rec, &r.closure)
         .with("T_product_max", abs_t(t_max))
-        .with("exhaust_margin", delta_t(margin))
+        .with_margin(margin)
         .with("exhaust_rh_max", q(rh_max, Dim::NONE, Kind::Activity))
         .with("energy", Value::Table(energy_table(f, Dim::ENERGY, "kWh")))
         .with("history", Value::Table(history_table(&r.history, element)))
@@ -1459,7 +1479,7 @@ fn rotary_record(rotary: &Rotary, r: &RotaryResult, gas_out: Record) -> Record {
     let rec = with_merit(rec, f, r.latent_minimum_j_per_kg);
     let margin = dew_margin(&r.gas_out).unwrap_or(f64::INFINITY);
     with_closure(rec, &r.closure)
-        .with("exhaust_margin", delta_t(margin))
+        .with_margin(margin)
         .with("energy", Value::Table(energy_table(f, Dim::POWER, "kW")))
         .with("cautions", cautions())
 }
