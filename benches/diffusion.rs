@@ -10,7 +10,7 @@
 //! Run: `cargo bench --bench diffusion` (criterion), or the side-by-side
 //! comparison: `python benches/diffusion_compare.py`.
 
-use criterion::{criterion_group, criterion_main, Criterion};
+use criterion::{criterion_group, Criterion};
 use std::hint::black_box;
 use std::time::Instant;
 

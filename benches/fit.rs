@@ -4,7 +4,7 @@
 //! - `gab_15`: GAB isotherm, 15 points, one start `[0.07, 10, 0.85]` (the same
 //!   work scipy's `curve_fit` does in benches/fit_compare.py);
 //! - `gab_15_with_starts`: `fit_isotherm`, siccant's full route (start values
-//!   from the linearised form plus typical starts, best fit kept);
+//!   from the linearised form and typical values, most promising first);
 //! - `page_300`: Page drying model `MR = exp(-k t^n)`, 300 points, start
 //!   `[0.01, 1]`, derivatives by finite differences (as scipy does);
 //! - `page_300_gradient`: the same with analytic derivatives and `ln t`

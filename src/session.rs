@@ -24,7 +24,9 @@ pub use crate::eval::OutputItem;
 /// What one `eval` produced.
 #[derive(Clone, Debug, Default)]
 pub struct Output {
+    /// One item per statement that shows something, in order.
     pub items: Vec<OutputItem>,
+    /// Warnings (validity ranges and the like).
     pub warnings: Vec<Diagnostic>,
 }
 
@@ -33,16 +35,20 @@ pub struct Output {
 pub struct Completion {
     /// Byte range of the word being completed.
     pub start: usize,
+    /// End of the word (the cursor).
     pub end: usize,
+    /// Candidates, names first, then built-ins, keywords and units.
     pub matches: Vec<String>,
 }
 
 /// Whether a piece of input can be evaluated yet.
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub enum Completeness {
+    /// Ready to evaluate.
     Complete,
     /// Brackets are still open; continue on the next line with this indent.
     Incomplete {
+        /// Suggested indent for the next line.
         indent: String,
     },
     /// It can never become valid by adding text (e.g. an unmatched `)`).

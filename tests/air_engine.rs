@@ -342,3 +342,18 @@ fn ashrae_table_points_from_memory() {
         .get::<kilopascal>();
     assert!(rel(p60, 19.946) < 1e-3, "{p60}");
 }
+
+/// Evaporative cooling of hot dryer air whose outlet is still above the boiling point.
+#[test]
+fn partial_saturation_of_air_above_boiling() {
+    let s = AirState::from_w(c(200.0), 0.02, kpa(101.325)).unwrap();
+    let half = saturate(&s, 0.5).unwrap();
+    let twb = k(s.wet_bulb().unwrap());
+    assert!(
+        (k(half.outlet.temperature()) - (k(s.temperature()) - 0.5 * (k(s.temperature()) - twb)))
+            .abs()
+            < 1e-9
+    );
+    assert!((k(half.outlet.wet_bulb().unwrap()) - twb).abs() < 0.05);
+    assert!(half.water_kg_per_kg_da > 0.0);
+}

@@ -99,6 +99,9 @@ const CASES: &[(&str, usize, usize, &str)] = &[
     ("x = [1, 2] + [1, 2, 3]", 1, 5, "different lengths"),
     ("x = \"a\" + 1", 1, 5, "cannot combine"),
     ("then = 3", 1, 1, "is a keyword"),
+    ("a = 80 °C", 1, 8, "degC"),
+    ("b = 3 m²", 1, 8, "`^`"),
+    ("d = 5,5", 1, 6, "decimal separator"),
     // limits
     ("f(x) = f(x)\ny = f(1)", 1, 8, "nested deeper"),
     // loading

@@ -5,24 +5,18 @@
 
 pub use siccant::session::{Completeness, Output, OutputItem, Session};
 
-/// Renderers: text, HTML and JSON from the core; SVG and PNG for plots.
+/// Renderers: text, HTML and JSON of any value; SVG and PNG of a plot.
 pub mod render {
     pub use siccant::render::{html, json, text};
     use siccant::value::Plot;
 
     /// A plot as SVG text.
     pub fn svg(plot: &Plot) -> Result<String, String> {
-        Err(format!(
-            "this build has no plot renderer (plot `{}`)",
-            plot.title
-        ))
+        siccant::render::svg(plot).map_err(|e| e.to_string())
     }
 
     /// A plot as PNG bytes.
     pub fn png(plot: &Plot) -> Result<Vec<u8>, String> {
-        Err(format!(
-            "this build has no plot renderer (plot `{}`)",
-            plot.title
-        ))
+        siccant::render::png(plot).map_err(|e| e.to_string())
     }
 }

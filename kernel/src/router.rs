@@ -99,7 +99,37 @@ impl Router {
 
     async fn handle(&mut self, request: JupyterMessage) {
         let answer = self.dispatch(&request).await;
+        if stops_on_error(&request, &answer) {
+            // Before the failed cell's reply, so a request sent after the client
+            // saw that reply is never aborted.
+            self.abort_queued().await;
+        }
         self.answer(&request, answer).await;
+    }
+
+    /// Answer every request already waiting on the socket with status aborted,
+    /// as a cell failed with `stop_on_error` (a "run all" stops at the error).
+    async fn abort_queued(&mut self) {
+        loop {
+            let name = self.name();
+            let next = tokio::time::timeout(Duration::ZERO, wire::read(&mut self.conn, name)).await;
+            let request = match next {
+                Ok(Ok(Incoming::Request(r))) | Ok(Ok(Incoming::Malformed { request: r, .. })) => r,
+                Ok(Ok(Incoming::Dropped)) => continue,
+                _ => return,
+            };
+            self.ctx.iopub.publish(Status::busy(), &request);
+            log::info(&format!(
+                "aborting queued `{}` after a failed cell",
+                request.header.msg_type
+            ));
+            let reply = wire::aborted_reply(&request);
+            self.answer(
+                &request,
+                reply.map_or(Answer::Nothing, |m| Answer::Raw(Box::new(m))),
+            )
+            .await;
+        }
     }
 
     /// Busy, the reply, idle; then shut down if asked.
@@ -273,4 +303,12 @@ impl Router {
         }
         Answer::Reply(reply.into())
     }
+}
+
+/// Did an execute request with `stop_on_error` just fail?
+fn stops_on_error(request: &JupyterMessage, answer: &Answer) -> bool {
+    let stop =
+        matches!(&request.content, JupyterMessageContent::ExecuteRequest(e) if e.stop_on_error);
+    let failed = matches!(answer, Answer::Reply(JupyterMessageContent::ExecuteReply(r)) if r.status == ReplyStatus::Error);
+    stop && failed
 }

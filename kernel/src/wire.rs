@@ -117,3 +117,11 @@ pub fn error_reply(request: &JupyterMessage, ename: &str, evalue: &str) -> Optio
     let reply = unknown(format!("{base}_reply"), content);
     Some(JupyterMessage::new(reply, Some(request)))
 }
+
+/// An aborted reply (`<x>_reply` with status aborted) to a request of type `<x>_request`,
+/// sent for requests queued behind a cell that failed with `stop_on_error`.
+pub fn aborted_reply(request: &JupyterMessage) -> Option<JupyterMessage> {
+    let base = request.header.msg_type.strip_suffix("_request")?;
+    let reply = unknown(format!("{base}_reply"), json!({ "status": "aborted" }));
+    Some(JupyterMessage::new(reply, Some(request)))
+}

@@ -605,3 +605,78 @@ async fn malformed_messages_get_a_complaint_never_a_crash() {
     );
     assert!(!session.is_empty());
 }
+
+#[tokio::test(flavor = "multi_thread")]
+async fn cells_queued_behind_a_failed_cell_are_aborted() {
+    let mut k = Harness::start().await;
+    // The first cell computes for a while (4^9 calls) and then fails, so the
+    // second, sent right behind it, is already waiting when it fails.
+    let failing: JupyterMessage =
+        ExecuteRequest::new(slow_cell().replace("g14(1)", "g9(1) + \"text\"")).into();
+    let queued: JupyterMessage = ExecuteRequest::new("after = 1".into()).into();
+    let (failing_id, queued_id) = (failing.header.msg_id.clone(), queued.header.msg_id.clone());
+    k.shell.send(failing).await.unwrap();
+    k.shell.send(queued).await.unwrap();
+    let mut statuses = std::collections::HashMap::new();
+    while statuses.len() < 2 {
+        let reply = guarded("replies", k.shell.read()).await.unwrap();
+        let id = reply.parent_header.unwrap().msg_id;
+        let JupyterMessageContent::ExecuteReply(r) = reply.content else {
+            panic!("execute_reply expected")
+        };
+        statuses.insert(id, r.status);
+    }
+    assert_eq!(statuses[&failing_id], ReplyStatus::Error);
+    assert_eq!(statuses[&queued_id], ReplyStatus::Aborted);
+    let (reply, _) = k.execute("after").await;
+    assert_eq!(
+        reply.status,
+        ReplyStatus::Error,
+        "the aborted cell did not run"
+    );
+    let (reply, _) = k.execute("after = 2").await;
+    assert_eq!(
+        reply.status,
+        ReplyStatus::Ok,
+        "a cell sent after the failure runs"
+    );
+    k.finish();
+}
+
+#[tokio::test(flavor = "multi_thread")]
+async fn a_plot_is_shown_as_svg_and_png() {
+    let mut k = Harness::start().await;
+    let code = "xs = [1, 2, 3] * 1 m\nplot(curve(xs, xs * 2, label: \"twice\"), title: \"t\", x: \"a\", y: \"b\")";
+    let (reply, outputs) = k.execute(code).await;
+    assert_eq!(reply.status, ReplyStatus::Ok);
+    let result = outputs
+        .iter()
+        .find_map(|m| {
+            if let JupyterMessageContent::ExecuteResult(r) = &m.content {
+                Some(r.clone())
+            } else {
+                None
+            }
+        })
+        .expect("an execute_result");
+    let svg = result.data.content.iter().find_map(|m| {
+        if let MediaType::Svg(s) = m {
+            Some(s.clone())
+        } else {
+            None
+        }
+    });
+    assert!(svg.expect("image/svg+xml").contains("<svg"));
+    let png = result.data.content.iter().find_map(|m| {
+        if let MediaType::Png(p) = m {
+            Some(p.clone())
+        } else {
+            None
+        }
+    });
+    assert!(
+        png.expect("image/png").starts_with("iVBORw0KGgo"),
+        "base64 of the PNG signature"
+    );
+    k.finish();
+}

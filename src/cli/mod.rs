@@ -3,6 +3,7 @@
 //! Exit codes: 0 ok, 1 worksheet error, 2 usage error, 3 a check failed.
 
 mod format;
+mod progress;
 
 use std::io::IsTerminal;
 use std::path::{Path, PathBuf};
@@ -82,9 +83,13 @@ enum Command {
 /// Output formats of `run`.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
 pub enum Format {
+    /// Plain text, one value per line.
     Text,
+    /// One JSON object: values, checks, warnings.
     Json,
+    /// A Markdown table.
     Markdown,
+    /// A standalone HTML page.
     Html,
 }
 
@@ -141,7 +146,10 @@ fn run(file: &Path, set: &[String], format: Format) -> i32 {
             Err(code) => return code,
         }
     }
-    let output = match session.eval(&text) {
+    let progress = progress::install();
+    let result = session.eval(&text);
+    drop(progress);
+    let output = match result {
         Ok(o) => o,
         Err(diags) => {
             print_diagnostics(&session, &diags);

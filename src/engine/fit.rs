@@ -160,7 +160,18 @@ pub enum FitError {
     NotConverged { reason: String, evaluations: usize },
     /// The parameters cannot be told apart from these data.
     NotIdentifiable,
+    /// A parameter ran off to a value the data do not determine: its standard
+    /// error exceeds [`UNDETERMINED_RATIO`] times its size.
+    Undetermined {
+        index: usize,
+        value: f64,
+        std_error: f64,
+    },
 }
+
+/// Relative standard error above which a parameter counts as not determined
+/// by the data (it has drifted to where the sum of squares is flat).
+pub const UNDETERMINED_RATIO: f64 = 1e4;
 
 impl fmt::Display for FitError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
@@ -198,6 +209,12 @@ impl fmt::Display for FitError {
                 f,
                 "the fit did not converge ({reason}, after {evaluations} evaluations); try other start values \
                  (for example from a linearised fit), tighter bounds, or another model"
+            ),
+            FitError::Undetermined { index, value, std_error } => write!(
+                f,
+                "parameter {} = {value:.4e} +- {std_error:.1e} is not determined by these data (the fit drifted to where \
+                 the sum of squares is flat); bound or fix that parameter, try other start values, or use a simpler model",
+                index + 1
             ),
             FitError::NotIdentifiable => write!(
                 f,
@@ -305,7 +322,25 @@ pub fn fit(
     };
     let mut result = statistics(y, &weights, &params, fitted, &gradients, bounds)?;
     result.evaluations = report.number_of_evaluations;
+    check_determined(&result)?;
     Ok(result)
+}
+
+/// Refuse a fit where a parameter's standard error dwarfs its value.
+fn check_determined(result: &FitResult) -> Result<(), FitError> {
+    let bad = result
+        .params
+        .iter()
+        .zip(&result.std_errors)
+        .position(|(v, se)| *se > UNDETERMINED_RATIO * v.abs().max(f64::MIN_POSITIVE));
+    match bad {
+        Some(index) => Err(FitError::Undetermined {
+            index,
+            value: result.params[index],
+            std_error: result.std_errors[index],
+        }),
+        None => Ok(()),
+    }
 }
 
 fn check_len(what: &'static str, expected: usize, found: usize) -> Result<(), FitError> {
@@ -524,6 +559,9 @@ fn one_sided_internal(d: f64) -> f64 {
     ((d + 1.0) * (d + 1.0) - 1.0).sqrt()
 }
 
+/// Parameter count up to which the Jacobian's scratch space lives on the stack.
+const STACK_PARAMS: usize = 8;
+
 /// Residual value that replaces a non-finite one during a trial step, so the
 /// minimiser rejects the step and shrinks its trust region instead of stopping.
 const PENALTY: f64 = 1e50;
@@ -642,20 +680,28 @@ impl LeastSquaresProblem<f64, Dyn, Dyn> for Problem<'_> {
         let p = self.x.len();
         let mut jac = DMatrix::zeros(n, p);
         let cells = jac.as_mut_slice(); // column-major: (i, j) at j * n + i
-        let mut grad = vec![0.0; p];
-        let mut probe = self.x.clone();
-        let slopes: Vec<f64> = self
-            .maps
-            .iter()
-            .zip(self.u.iter())
-            .map(|(m, &u)| m.slope(u))
-            .collect();
+                                        // Scratch for gradient, probe parameters and slopes: on the stack for
+                                        // the usual few parameters (this runs once per iteration).
+        let mut stack = [0.0; 3 * STACK_PARAMS];
+        let mut heap;
+        let scratch: &mut [f64] = if p <= STACK_PARAMS {
+            &mut stack[..3 * p]
+        } else {
+            heap = vec![0.0; 3 * p];
+            &mut heap
+        };
+        let (grad, rest) = scratch.split_at_mut(p);
+        let (probe, slopes) = rest.split_at_mut(p);
+        probe.copy_from_slice(&self.x);
+        for (s, (m, &u)) in slopes.iter_mut().zip(self.maps.iter().zip(self.u.iter())) {
+            *s = m.slope(u);
+        }
         for i in 0..n {
             match &self.analytic {
                 Some(g) => grad.copy_from_slice(&g[i * p..(i + 1) * p]),
                 None => {
                     let fi = self.r[i] / self.weights[i] + self.y[i];
-                    forward_gradient(self.model, &mut probe, i, fi, &mut grad);
+                    forward_gradient(self.model, probe, i, fi, grad);
                 }
             }
             for j in 0..p {
@@ -667,13 +713,10 @@ impl LeastSquaresProblem<f64, Dyn, Dyn> for Problem<'_> {
     }
 }
 
-/// Gradient of the model at point `i` by the model's own derivatives or by
-/// forward differences with MINPACK's step `sqrt(eps) |x|`. `probe` holds the
-/// parameters and is restored on return; `fi` is the value at `probe`.
+/// Gradient of the model at point `i` by forward differences with MINPACK's
+/// step `sqrt(eps) |x|` (models with derivatives never come here). `probe`
+/// holds the parameters and is restored on return; `fi` is the value at `probe`.
 fn forward_gradient(model: &dyn Model, probe: &mut [f64], i: usize, fi: f64, grad: &mut [f64]) {
-    if model.gradient(probe, i, grad) {
-        return;
-    }
     for j in 0..probe.len() {
         let xj = probe[j];
         let h = step(xj);
@@ -683,11 +726,9 @@ fn forward_gradient(model: &dyn Model, probe: &mut [f64], i: usize, fi: f64, gra
     }
 }
 
-/// Central-difference gradient (for the covariance, where accuracy matters more than speed).
+/// Central-difference gradient (for the covariance, where accuracy matters
+/// more than speed; models with derivatives never come here).
 fn central_gradient(model: &dyn Model, probe: &mut [f64], i: usize, grad: &mut [f64]) {
-    if model.gradient(probe, i, grad) {
-        return;
-    }
     for j in 0..probe.len() {
         let xj = probe[j];
         let h = central_step(xj);
@@ -700,14 +741,19 @@ fn central_gradient(model: &dyn Model, probe: &mut [f64], i: usize, grad: &mut [
     }
 }
 
+/// `sqrt(eps)` for f64.
+const ROOT_EPS: f64 = 1.490_116_119_384_765_6e-8;
+/// `eps^(1/3)` for f64.
+const CUBE_ROOT_EPS: f64 = 6.055_454_452_393_343e-6;
+
 /// Forward-difference step, `sqrt(eps) |x|` (MINPACK's choice).
 fn step(x: f64) -> f64 {
-    f64::EPSILON.sqrt() * if x == 0.0 { 1.0 } else { x.abs() }
+    ROOT_EPS * if x == 0.0 { 1.0 } else { x.abs() }
 }
 
 /// Central-difference step, `eps^(1/3) |x|`, balancing truncation and rounding.
 fn central_step(x: f64) -> f64 {
-    f64::EPSILON.cbrt() * if x == 0.0 { 1.0 } else { x.abs() }
+    CUBE_ROOT_EPS * if x == 0.0 { 1.0 } else { x.abs() }
 }
 
 /// Statistics of a converged fit at `params`.
@@ -739,7 +785,7 @@ fn statistics(
     let std_errors: Vec<f64> = (0..p)
         .map(|j| covariance[j * p + j].max(0.0).sqrt())
         .collect();
-    let t_value = student_t_quantile(0.975, dof as f64);
+    let t_value = t_975(dof);
     let ci95 = params
         .iter()
         .zip(&std_errors)
@@ -807,16 +853,32 @@ fn covariance(weights: &[f64], gradients: &[f64], p: usize, s2: f64) -> Result<V
     }
 }
 
-/// Inverse of a symmetric positive-definite matrix by SVD, refusing a
-/// numerically singular one (condition number above about 1e14).
+/// Inverse of a symmetric positive-semidefinite matrix, refusing a
+/// numerically singular one. The matrix is first scaled to unit diagonal
+/// (`S^-1 M S^-1`, `S = sqrt(diag M)`), so parameters of very different sizes
+/// (a monolayer moisture of 0.07 and a heat of 9000 J/mol) do not look
+/// singular; the scaled matrix is inverted by SVD and refused when its
+/// condition number exceeds 1e12 (parameters correlated beyond 1 - 1e-12).
 fn invert_symmetric(m: DMatrix<f64>) -> Option<DMatrix<f64>> {
-    let svd = m.svd(true, true);
-    let largest = svd.singular_values.max();
-    let smallest = svd.singular_values.min();
-    if largest.is_nan() || largest <= 0.0 || smallest <= largest * 1e-14 {
+    let p = m.nrows();
+    let scale: Vec<f64> = (0..p).map(|i| m[(i, i)].sqrt()).collect();
+    if scale
+        .iter()
+        .any(|s| s.is_nan() || *s <= 0.0 || s.is_infinite())
+    {
         return None;
     }
-    svd.pseudo_inverse(0.0).ok()
+    let scaled = DMatrix::from_fn(p, p, |i, j| m[(i, j)] / (scale[i] * scale[j]));
+    let svd = scaled.svd(true, true);
+    let largest = svd.singular_values.max();
+    let smallest = svd.singular_values.min();
+    if largest.is_nan() || largest <= 0.0 || smallest <= largest * 1e-12 {
+        return None;
+    }
+    let inverse = svd.pseudo_inverse(0.0).ok()?;
+    Some(DMatrix::from_fn(p, p, |i, j| {
+        inverse[(i, j)] / (scale[i] * scale[j])
+    }))
 }
 
 fn mean_relative_deviation(y: &[f64], residuals: &[f64]) -> Option<f64> {
@@ -881,6 +943,26 @@ pub fn student_t_quantile(probability: f64, dof: f64) -> f64 {
         t = next;
     }
     t
+}
+
+/// The 97.5 % t quantile for `dof` degrees of freedom, remembered per thread
+/// (fits repeat with the same few `dof`; the quantile costs a few microseconds).
+fn t_975(dof: usize) -> f64 {
+    thread_local! {
+        static CACHE: std::cell::RefCell<Vec<(usize, f64)>> = const { std::cell::RefCell::new(Vec::new()) };
+    }
+    CACHE.with(|cache| {
+        if let Some(&(_, t)) = cache.borrow().iter().find(|(d, _)| *d == dof) {
+            return t;
+        }
+        let t = student_t_quantile(0.975, dof as f64);
+        let mut c = cache.borrow_mut();
+        if c.len() >= 64 {
+            c.remove(0);
+        }
+        c.push((dof, t));
+        t
+    })
 }
 
 /// A&S 26.7.5: t quantile from the normal quantile `z`, to order 1/dof^2.
@@ -1098,6 +1180,12 @@ mod tests {
             );
         }
         assert!(analytic.evaluations <= plain.evaluations + 2);
+    }
+
+    #[test]
+    fn difference_steps_are_the_epsilon_roots() {
+        assert_eq!(ROOT_EPS, f64::EPSILON.sqrt());
+        assert!((CUBE_ROOT_EPS - f64::EPSILON.cbrt()).abs() < 1e-20);
     }
 
     #[test]

@@ -16,7 +16,9 @@ pub mod rate_curve;
 pub mod stage;
 
 pub use batch::{BatchRun, ConstantRatePeriod, RatePoint};
-pub use rate_curve::{drying_time, numerical_time, DryingTime, MonotoneCubic, RateCurve};
+pub use rate_curve::{
+    drying_curve, drying_time, numerical_time, DryingTime, MonotoneCubic, RateCurve,
+};
 pub use stage::{chain_duration, stages, DryingStage, StageKind};
 
 use thiserror::Error;

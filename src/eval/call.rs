@@ -24,6 +24,9 @@ impl Ctx<'_> {
         if name == "load" {
             return self.load(args, span);
         }
+        if super::whatif::is_form(name) {
+            return self.whatif(callee, args, span);
+        }
         match library::find(name) {
             Some(b) => self.call_builtin(b, args, span),
             None => Err(self.unknown_function(callee).into()),

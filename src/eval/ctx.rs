@@ -36,19 +36,27 @@ pub type Flow<T> = Result<T, Stop>;
 /// Run the engine, or only check names, units and dimensions.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum Mode {
+    /// Evaluate everything, engine work included.
     Run,
+    /// Check names, units and dimensions; skip built-in calls.
     CheckOnly,
 }
 
 /// Evaluation state for one `eval` of one sheet.
 pub struct Ctx<'a> {
+    /// The definitions being evaluated.
     pub sheet: &'a mut Sheet,
+    /// The source map (loads add files to it).
     pub sources: &'a mut Sources,
+    /// Depth, step budget and interrupt flag.
     pub limits: &'a Limits,
+    /// Run, or check only.
     pub mode: Mode,
     /// Expression steps taken so far (shared with nested loads).
     pub ops: u64,
+    /// Warnings collected so far (validity ranges, failed checks in loads).
     pub warnings: Vec<Diagnostic>,
+    /// Errors collected so far.
     pub errors: Vec<Diagnostic>,
     /// Parameters of the user function being evaluated.
     pub(super) frame: Option<super::FastMap<String, Value>>,
@@ -230,7 +238,7 @@ impl<'a> Ctx<'a> {
 
     fn expr_kind(&mut self, e: &Expr) -> Flow<Value> {
         match &e.kind {
-            ExprKind::Quantity { value, unit } => self.quantity(*value, unit.as_ref()),
+            ExprKind::Quantity { value, unit } => self.quantity(*value, unit.as_ref(), e.span),
             ExprKind::Bool(b) => Ok(Value::Bool(*b)),
             ExprKind::Str(s) => Ok(Value::Str(s.clone())),
             ExprKind::Name(n) => self.name(n, e.span),
@@ -275,13 +283,21 @@ impl<'a> Ctx<'a> {
         self.force(n, span)
     }
 
-    fn quantity(&mut self, value: f64, unit: Option<&UnitExpr>) -> Flow<Value> {
+    fn quantity(&mut self, value: f64, unit: Option<&UnitExpr>, span: Span) -> Flow<Value> {
         match unit {
             None => Ok(Value::Quantity(Quantity::number(value), None)),
             Some(u) => {
                 let unit = self.unit(u)?;
-                let q = unit.to_si(value);
-                Ok(Value::Quantity(q, Some(unit)))
+                match unit.try_to_si(value) {
+                    Ok(q) => Ok(Value::Quantity(q, Some(unit))),
+                    Err(e) => {
+                        let mut d = Diagnostic::error(span, e.message);
+                        for h in e.hints {
+                            d = d.with_hint(h);
+                        }
+                        Err(d.into())
+                    }
+                }
             }
         }
     }
@@ -311,6 +327,10 @@ impl<'a> Ctx<'a> {
     }
 
     fn unary(&mut self, op: UnaryOp, a: &Expr, span: Span) -> Flow<Value> {
+        // `-10 degC` is a negative reading on the scale, not the negation of an absolute temperature.
+        if let (UnaryOp::Neg, ExprKind::Quantity { value, unit: Some(unit) }) = (op, &a.kind) {
+            return self.quantity(-*value, Some(unit), span);
+        }
         let v = self.expr(a)?;
         ops::unary(op, &v).map_err(|e| op_error(e, span, a.span, a.span).into())
     }

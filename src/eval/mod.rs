@@ -15,6 +15,7 @@ mod ops;
 mod sheet;
 mod sources;
 mod suggest;
+pub mod whatif;
 
 pub use ctx::{resolve_unit, Ctx, Flow, Mode, Stop};
 pub use fastmap::FastMap;
@@ -32,9 +33,19 @@ use crate::value::Value;
 #[derive(Clone, Debug)]
 pub enum OutputItem {
     /// A named value (binding or input) or a bare expression (`name: None`).
-    Value { name: Option<String>, value: Value },
+    Value {
+        /// The name of a binding or input; `None` for a bare expression.
+        name: Option<String>,
+        /// What it evaluated to.
+        value: Value,
+    },
     /// The outcome of a `check`.
-    Check { text: String, passed: bool },
+    Check {
+        /// The condition as written.
+        text: String,
+        /// Whether it held.
+        passed: bool,
+    },
 }
 
 /// Evaluate statements in source order. Errors and warnings collect in `ctx`.

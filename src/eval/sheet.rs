@@ -15,18 +15,24 @@ use crate::value::Value;
 /// What a definition defines.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum DefKind {
+    /// `name = expr`
     Value,
+    /// `input name = expr`
     Input,
+    /// `f(x) = expr`
     Function,
 }
 
 /// One definition: `name = expr`, `input name = expr` or `f(x) = expr`.
 #[derive(Clone, Debug)]
 pub struct Def {
+    /// The defined name, with its span.
     pub name: Ident,
+    /// Value, input or function.
     pub kind: DefKind,
     /// Parameter names of a function; empty otherwise.
     pub params: Vec<String>,
+    /// The defining expression (a function's body).
     pub expr: Arc<Expr>,
     /// Names the expression reads.
     pub deps: Vec<String>,
@@ -48,6 +54,7 @@ pub struct Defined {
 /// The definitions of one worksheet (or of a REPL / notebook session).
 #[derive(Clone, Debug, Default)]
 pub struct Sheet {
+    /// Definitions by name.
     pub defs: FastMap<String, Def>,
     /// Names in definition order.
     pub order: Vec<String>,

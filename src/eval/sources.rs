@@ -7,6 +7,7 @@ use std::path::{Path, PathBuf};
 pub struct SourceFile {
     /// Name shown in diagnostics (a path or `<repl 3>`).
     pub name: String,
+    /// The full text.
     pub text: String,
     /// Directory that `load("...")` paths in this text are relative to.
     pub dir: PathBuf,

@@ -66,6 +66,8 @@ pub fn read_table(path: &Path) -> Result<Table, DataError> {
 
 /// Parse CSV text with `name [unit]` headers into a table.
 pub fn parse_table(text: &str) -> Result<Table, DataError> {
+    // Spreadsheet programs often start UTF-8 files with a byte-order mark.
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     let mut reader = csv::ReaderBuilder::new()
         .has_headers(false)
         .flexible(true)
@@ -581,6 +583,13 @@ mod tests {
         assert!((si(&t, 3, 0) - 0.25).abs() < 1e-12);
         assert!((si(&t, 4, 0) - 313.15).abs() < 1e-9);
         assert!(matches!(&t.columns[5].cells[0], Value::Str(s) if s == "first"));
+    }
+
+    #[test]
+    fn byte_order_mark_and_crlf_are_accepted() {
+        let t = parse_table("\u{feff}aw [-],X [kg/kg db]\r\n0.5,0.1\r\n\r\n0.6,0.2\r\n").unwrap();
+        assert_eq!(t.columns[0].name, "aw");
+        assert_eq!(t.columns[1].cells.len(), 2);
     }
 
     #[test]

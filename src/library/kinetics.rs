@@ -14,12 +14,13 @@ use super::fit::{comparison_table, fit_record, FitPayload, QuantitySpec};
 use crate::diag::{Diagnostic, Span};
 use crate::engine::diffusion::{
     arrhenius_fit, diffusivity_from_slope, diffusivity_nonlinear, solve_drying, Body, CrankSeries,
-    DiffusionProblem, Diffusivity, ProductTemperature, Shape, SolverSettings, Surface,
+    DiffusionProblem, DiffusionRun, Diffusivity, ProductTemperature, Shape, SolverSettings,
+    Surface,
 };
 use crate::engine::fit::least_squares;
 use crate::engine::kinetics::{
-    drying_time as engine_drying_time, stages, BatchRun, ConstantRatePeriod, KineticsError,
-    RateCurve,
+    drying_curve as engine_drying_curve, drying_time as engine_drying_time, stages, BatchRun,
+    ConstantRatePeriod, KineticsError, RateCurve,
 };
 use crate::engine::thin_layer::{fit_thin_layer, ThinLayerFit, ThinLayerModel};
 use crate::library::{type_word, Args, Builtin, Param};
@@ -399,8 +400,12 @@ fn drying_test(args: &mut Args) -> Result<Value, Diagnostic> {
     Ok(Value::Record(test_record(run, period, curve)))
 }
 
-fn test_record(run: BatchRun, period: ConstantRatePeriod, curve: RateCurve) -> Record {
-    let points = Table {
+/// The readings of a test with smoothed moisture and rate.
+fn test_points(run: &BatchRun) -> Table {
+    let each = |f: &dyn Fn(&crate::engine::kinetics::RatePoint) -> Value| {
+        run.points.iter().map(f).collect()
+    };
+    Table {
         title: Some(format!(
             "drying test (Savitzky-Golay window {}, order {})",
             run.window, run.order
@@ -409,28 +414,17 @@ fn test_record(run: BatchRun, period: ConstantRatePeriod, curve: RateCurve) -> R
             column(
                 "t",
                 "min",
-                run.points
-                    .iter()
-                    .map(|p| shown(p.time_s, Dim::TIME, Kind::Plain, "min"))
-                    .collect(),
+                each(&|p| shown(p.time_s, Dim::TIME, Kind::Plain, "min")),
             ),
-            column(
-                "X",
-                "db",
-                run.points.iter().map(|p| moisture(p.moisture)).collect(),
-            ),
-            column(
-                "X smoothed",
-                "db",
-                run.points.iter().map(|p| moisture(p.smoothed)).collect(),
-            ),
-            column(
-                "R",
-                "kg/(m^2*h)",
-                run.points.iter().map(|p| rate(p.rate)).collect(),
-            ),
+            column("X", "db", each(&|p| moisture(p.moisture))),
+            column("X smoothed", "db", each(&|p| moisture(p.smoothed))),
+            column("R", "kg/(m^2*h)", each(&|p| rate(p.rate))),
         ],
-    };
+    }
+}
+
+fn test_record(run: BatchRun, period: ConstantRatePeriod, curve: RateCurve) -> Record {
+    let points = test_points(&run);
     let curve_record = curve_record(
         CurvePayload {
             curve,
@@ -681,6 +675,80 @@ fn drying_time(args: &mut Args) -> Result<Value, Diagnostic> {
     Ok(hours(t.total_s))
 }
 
+fn drying_curve(args: &mut Args) -> Result<Value, Diagnostic> {
+    let spans = spans_of(args, &["load", "from", "to"]);
+    let (payload, load, from, to) = span_args(args)?;
+    let points = opt_count(args, "points", 41)?;
+    args.finish()?;
+    warn_load(args, &payload, load);
+    let curve = engine_drying_curve(&payload.curve, load, from, to, points)
+        .map_err(|e| blame(&spans, args.call_span, e))?;
+    let columns = vec![
+        column("t", "h", curve.iter().map(|p| hours(p.0)).collect()),
+        column("X", "db", curve.iter().map(|p| moisture(p.1)).collect()),
+        column(
+            "R",
+            "kg/(m^2*h)",
+            curve
+                .iter()
+                .map(|p| rate(payload.curve.rate(p.1)))
+                .collect(),
+        ),
+    ];
+    Ok(Value::Table(Table {
+        title: Some("batch drying curve".into()),
+        columns,
+    }))
+}
+
+fn moisture_ratios(args: &mut Args) -> Result<Value, Diagnostic> {
+    let arg = args.required("test")?;
+    let xe_span = args.span_of("Xe");
+    let xe = required_moisture(args, "Xe")?;
+    args.finish()?;
+    let test = match &arg.value {
+        Value::Record(r) => r.payload::<TestPayload>(),
+        _ => None,
+    }
+    .ok_or_else(|| {
+        Diagnostic::error(
+            arg.span,
+            format!(
+                "`test` must be a drying test, found {}",
+                type_word(&arg.value)
+            ),
+        )
+        .with_hint("make one with drying_test(...)")
+    })?;
+    let x0 = test.run.points[0].moisture;
+    if !(xe >= 0.0 && xe < x0) {
+        return Err(Diagnostic::error(
+            xe_span,
+            format!(
+                "Xe = {} db must lie between 0 and the first moisture {} db",
+                crate::engine::kinetics::show(xe),
+                crate::engine::kinetics::show(x0)
+            ),
+        ));
+    }
+    let points = &test.run.points;
+    let columns = vec![
+        column("t", "h", points.iter().map(|p| hours(p.time_s)).collect()),
+        Column {
+            name: "MR".into(),
+            unit: None,
+            cells: points
+                .iter()
+                .map(|p| number((p.moisture - xe) / (x0 - xe)))
+                .collect(),
+        },
+    ];
+    Ok(Value::Table(Table {
+        title: Some("moisture ratios (X - Xe)/(X0 - Xe)".into()),
+        columns,
+    }))
+}
+
 fn drying_stages(args: &mut Args) -> Result<Value, Diagnostic> {
     let spans = spans_of(args, &["load", "from", "to"]);
     let (payload, load, from, to) = span_args(args)?;
@@ -757,7 +825,7 @@ fn crank_ratio(args: &mut Args) -> Result<Value, Diagnostic> {
         ));
     }
     let fo = body.fourier(d, t);
-    let series = CrankSeries::new(body.shape, biot, fo.clamp(1e-8, 1e-4))
+    let series = CrankSeries::new(body.shape, biot, fo.clamp(1e-7, 1e-4))
         .map_err(|e| kinetics_error(args.call_span, e))?;
     Ok(number(series.moisture_ratio(fo)))
 }
@@ -777,7 +845,8 @@ fn crank_time(args: &mut Args) -> Result<Value, Diagnostic> {
     Ok(hours(fo * body.length_m * body.length_m / d))
 }
 
-fn diffusion_drying(args: &mut Args) -> Result<Value, Diagnostic> {
+/// Read the arguments of `diffusion_drying` into a problem and settings.
+fn diffusion_problem(args: &mut Args) -> Result<(DiffusionProblem, SolverSettings), Diagnostic> {
     let ea_span = args.span_of("Ea");
     let body = body_arg(args)?;
     let x0 = required_moisture(args, "X0")?;
@@ -808,33 +877,49 @@ fn diffusion_drying(args: &mut Args) -> Result<Value, Diagnostic> {
         moisture_coefficient: a,
         reference_moisture: xe,
     };
+    let surface = alpha.map_or(Surface::Equilibrium, |alpha_m_per_s| Surface::Film {
+        alpha_m_per_s,
+    });
     let problem = DiffusionProblem {
         body,
         x_initial: x0,
         x_equilibrium: xe,
         diffusivity,
         temperature: ProductTemperature::Constant(t_k),
-        surface: alpha.map_or(Surface::Equilibrium, |alpha_m_per_s| Surface::Film {
-            alpha_m_per_s,
-        }),
+        surface,
         shrinkage,
     };
-    if cells < 20 {
-        args.warn(format!(
-            "{cells} cells is a coarse mesh; use 50 or more for 0.1 % accuracy"
-        ));
-    }
     let settings = SolverSettings {
         cells,
         target_ratio: target,
         ..SolverSettings::default()
     };
+    Ok((problem, settings))
+}
+
+fn diffusion_drying(args: &mut Args) -> Result<Value, Diagnostic> {
+    let (problem, settings) = diffusion_problem(args)?;
+    if settings.cells < 20 {
+        args.warn(format!(
+            "{} cells is a coarse mesh; use 50 or more for 0.1 % accuracy",
+            settings.cells
+        ));
+    }
     let run = solve_drying(&problem, &settings).map_err(|e| kinetics_error(args.call_span, e))?;
+    Ok(Value::Record(diffusion_record(&problem, &settings, &run)))
+}
+
+fn diffusion_record(
+    problem: &DiffusionProblem,
+    settings: &SolverSettings,
+    run: &DiffusionRun,
+) -> Record {
+    let (x0, xe) = (problem.x_initial, problem.x_equilibrium);
     let curve = Table {
         title: Some(format!(
             "diffusion drying, {} ({} cells, {} steps)",
-            body.shape.name(),
-            cells,
+            problem.body.shape.name(),
+            settings.cells,
             run.steps
         )),
         columns: vec![
@@ -854,17 +939,15 @@ fn diffusion_drying(args: &mut Args) -> Result<Value, Diagnostic> {
             ),
         ],
     };
-    Ok(Value::Record(
-        Record::new("diffusion_run")
-            .with("t", hours(run.time_to_target_s))
-            .with("MR", number(target))
-            .with(
-                "L_end",
-                shown(run.final_length_m, Dim::LENGTH, Kind::Plain, "mm"),
-            )
-            .with("steps", number(run.steps as f64))
-            .with("curve", Value::Table(curve)),
-    ))
+    Record::new("diffusion_run")
+        .with("t", hours(run.time_to_target_s))
+        .with("MR", number(settings.target_ratio))
+        .with(
+            "L_end",
+            shown(run.final_length_m, Dim::LENGTH, Kind::Plain, "mm"),
+        )
+        .with("steps", number(run.steps as f64))
+        .with("curve", Value::Table(curve))
 }
 
 fn fit_diffusivity(args: &mut Args) -> Result<Value, Diagnostic> {
@@ -1159,6 +1242,19 @@ const SPAN_PARAMS: &[Param] = &[
     },
 ];
 
+const CURVE_PARAMS: &[Param] = &[
+    SPAN_PARAMS[0],
+    SPAN_PARAMS[1],
+    SPAN_PARAMS[2],
+    SPAN_PARAMS[3],
+    Param {
+        name: "points",
+        unit: "-",
+        default: Some("41"),
+        doc: "number of moistures on the curve",
+    },
+];
+
 const STAGE_PARAMS: &[Param] = &[
     SPAN_PARAMS[0],
     SPAN_PARAMS[1],
@@ -1417,6 +1513,33 @@ pub const BUILTINS: &[Builtin] = &[
         validity: "equilibrium < to < from, and from within a measured curve's range",
         example: "drying_time(test, load: 18 kg/m^2, from: 1.3 db, to: 0.12 db)",
         func: drying_time,
+    },
+    Builtin {
+        name: "drying_curve",
+        family: "kinetics",
+        params: CURVE_PARAMS,
+        returns: "table: t, X, R",
+        doc: "The batch drying curve X(t) implied by a rate curve and load, at evenly spaced moistures from `from` to `to`, with the rate at each.",
+        method: "drying_time between consecutive moistures",
+        source: CURVE_SOURCE,
+        validity: "as drying_time",
+        example: "drying_curve(test, load: 18 kg/m^2, from: 1.3 db, to: 0.12 db)",
+        func: drying_curve,
+    },
+    Builtin {
+        name: "moisture_ratios",
+        family: "kinetics",
+        params: &[
+            Param { name: "test", unit: "drying_test", default: None, doc: "a processed drying test" },
+            Param { name: "Xe", unit: "db", default: None, doc: "equilibrium moisture with the test air" },
+        ],
+        returns: "table: t, MR",
+        doc: "Moisture ratios MR = (X - Xe)/(X0 - Xe) of a drying test's readings, for thin-layer models and diffusivity fits.",
+        method: "definition of the moisture ratio",
+        source: "Crank (1975) ch. 4; Mujumdar (ed.), Handbook of Industrial Drying, 4th ed., ch. 1",
+        validity: "0 <= Xe < X0",
+        example: "moisture_ratios(test, Xe: 0.06 db)",
+        func: moisture_ratios,
     },
     Builtin {
         name: "drying_stages",

@@ -14,6 +14,7 @@ pub mod math;
 pub mod plot;
 pub mod sorption;
 pub mod transfer;
+pub mod whatif;
 
 use crate::diag::{Diagnostic, Span};
 use crate::units::{describe_dim, Dim, Quantity};
@@ -255,6 +256,7 @@ pub fn registry() -> &'static [&'static Builtin] {
             plot::BUILTINS,
             sorption::BUILTINS,
             transfer::BUILTINS,
+            whatif::BUILTINS,
         ];
         let mut all: Vec<&'static Builtin> = FAMILIES.iter().flat_map(|f| f.iter()).collect();
         all.sort_by_key(|b| b.name);

@@ -42,7 +42,10 @@ impl NumberFormat {
         let exponent = libm::floor(libm::log10(max_abs)) as i32;
         let decimals = (sig as i32 - 1 - exponent).clamp(0, 12);
         // A small non-zero value that would print as 0 needs scientific notation.
-        let min_abs = finite.map(f64::abs).filter(|v| *v > 0.0).fold(max_abs, f64::min);
+        let min_abs = finite
+            .map(f64::abs)
+            .filter(|v| *v > 0.0)
+            .fold(max_abs, f64::min);
         if min_abs < libm::pow(10.0, -f64::from(decimals)) {
             return NumberFormat::Scientific(sig - 1);
         }
@@ -210,9 +213,18 @@ mod tests {
     fn whole_numbers_and_zero() {
         assert_eq!(format_sig(3.0, 4), "3");
         assert_eq!(format_sig(2.1e-10, 4), "2.1e-10");
-        assert_eq!(NumberFormat::for_values(&[1e-5, 100.0], 4), NumberFormat::Scientific(3));
-        assert_eq!(NumberFormat::for_values(&[0.02, 100.0], 4), NumberFormat::Scientific(3));
-        assert_eq!(NumberFormat::for_values(&[0.1, 100.0], 4), NumberFormat::Fixed(1));
+        assert_eq!(
+            NumberFormat::for_values(&[1e-5, 100.0], 4),
+            NumberFormat::Scientific(3)
+        );
+        assert_eq!(
+            NumberFormat::for_values(&[0.02, 100.0], 4),
+            NumberFormat::Scientific(3)
+        );
+        assert_eq!(
+            NumberFormat::for_values(&[0.1, 100.0], 4),
+            NumberFormat::Fixed(1)
+        );
         assert_eq!(format_sig(353.15 - 273.15, 4), "80");
         assert_eq!(format_sig(61.2, 4), "61.2");
         assert_eq!(format_sig(0.0, 4), "0");

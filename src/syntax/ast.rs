@@ -7,14 +7,18 @@ use crate::diag::Span;
 /// A name as written, with its span.
 #[derive(Clone, Debug, PartialEq)]
 pub struct Ident {
+    /// The name as written.
     pub name: String,
+    /// Where it is in the source.
     pub span: Span,
 }
 
 /// One statement of a worksheet (one logical line).
 #[derive(Clone, Debug, PartialEq)]
 pub struct Stmt {
+    /// What the statement does.
     pub kind: StmtKind,
+    /// Where it is in the source.
     pub span: Span,
 }
 
@@ -22,15 +26,28 @@ pub struct Stmt {
 #[derive(Clone, Debug, PartialEq)]
 pub enum StmtKind {
     /// `name = expr`
-    Binding { name: Ident, expr: Arc<Expr> },
+    Binding {
+        /// The defined name.
+        name: Ident,
+        /// Its expression.
+        expr: Arc<Expr>,
+    },
     /// `input name = expr`: a value a reader may override.
-    Input { name: Ident, expr: Arc<Expr> },
+    Input {
+        /// The input's name.
+        name: Ident,
+        /// Its default.
+        expr: Arc<Expr>,
+    },
     /// `check expr`: a design rule.
     Check(Arc<Expr>),
     /// `f(x, y) = expr`
     Function {
+        /// The function's name.
         name: Ident,
+        /// Parameter names.
         params: Vec<Ident>,
+        /// The body.
         body: Arc<Expr>,
     },
     /// A bare expression, shown.
@@ -52,7 +69,9 @@ impl Stmt {
 /// An expression with its span.
 #[derive(Clone, Debug, PartialEq)]
 pub struct Expr {
+    /// The form of the expression.
     pub kind: ExprKind,
+    /// Where it is in the source.
     pub span: Span,
 }
 
@@ -61,20 +80,30 @@ pub struct Expr {
 pub enum ExprKind {
     /// A number with an optional unit: `12 mm`, `0.5`.
     Quantity {
+        /// The number as written.
         value: f64,
+        /// The unit after it, if any.
         unit: Option<UnitExpr>,
     },
+    /// `true` or `false`.
     Bool(bool),
+    /// Text in double quotes (escapes resolved).
     Str(String),
+    /// A name: a value, an input or a function parameter.
     Name(String),
+    /// `[a, b, c]`
     List(Vec<Expr>),
     /// `{ a: 1, b: 2 m }`
     Record(Vec<(Ident, Expr)>),
+    /// `-x`, `not x`
     Unary(UnaryOp, Box<Expr>),
+    /// `a op b`
     Binary(BinaryOp, Box<Expr>, Box<Expr>),
     /// `name(args)`
     Call {
+        /// The function called.
         callee: Ident,
+        /// Its arguments, in order.
         args: Vec<CallArg>,
     },
     /// `expr.field`
@@ -88,33 +117,51 @@ pub enum ExprKind {
 /// One argument at a call site, positional or `name: value`.
 #[derive(Clone, Debug, PartialEq)]
 pub struct CallArg {
+    /// `Some` for `name: value`.
     pub name: Option<Ident>,
+    /// The argument's value.
     pub value: Expr,
+    /// Where it is in the source.
     pub span: Span,
 }
 
 /// Prefix operators.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum UnaryOp {
+    /// `-`
     Neg,
+    /// `not`
     Not,
 }
 
 /// Infix operators.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum BinaryOp {
+    /// `+`
     Add,
+    /// `-`
     Sub,
+    /// `*`
     Mul,
+    /// `/`
     Div,
+    /// `^`
     Pow,
+    /// `<`
     Lt,
+    /// `<=`
     Le,
+    /// `>`
     Gt,
+    /// `>=`
     Ge,
+    /// `==`
     Eq,
+    /// `!=`
     Ne,
+    /// `and`
     And,
+    /// `or`
     Or,
 }
 
@@ -142,15 +189,21 @@ impl BinaryOp {
 /// A unit expression as written: `kg/m^2`, `BTU/(h*ft^2*degF)`.
 #[derive(Clone, Debug, PartialEq)]
 pub struct UnitExpr {
+    /// The form of the unit expression.
     pub kind: UnitKind,
+    /// Where it is in the source.
     pub span: Span,
 }
 
 /// The forms of unit expression.
 #[derive(Clone, Debug, PartialEq)]
 pub enum UnitKind {
+    /// A unit symbol, e.g. `kg` or `degC`.
     Name(String),
+    /// `a*b`
     Mul(Box<UnitExpr>, Box<UnitExpr>),
+    /// `a/b`
     Div(Box<UnitExpr>, Box<UnitExpr>),
+    /// `a^n`
     Pow(Box<UnitExpr>, i32),
 }

@@ -567,10 +567,31 @@ fn expected_message(positives: &[Rule], found: &str) -> String {
     }
 }
 
+/// Hints for characters from word processors and other notations.
+fn typography_hint(c: char, before: &str) -> Option<&'static str> {
+    match c {
+        '°' => Some("write temperatures as `80 degC`, `176 degF` or `353 K`"),
+        '²' | '³' | '⁻' | '¹' => Some("write powers with `^`, e.g. `m^2`, `s^-1`"),
+        '×' | '·' | '⋅' => Some("multiply with `*`"),
+        '÷' => Some("divide with `/`"),
+        '−' | '–' => Some("write minus as `-`"),
+        ',' if before.ends_with(|b: char| b.is_ascii_digit()) => {
+            Some("the decimal separator is `.`; separate arguments inside brackets")
+        }
+        c if !c.is_ascii() && c.is_alphabetic() => {
+            Some("names and units use ASCII letters, digits and `_`")
+        }
+        _ => None,
+    }
+}
+
 /// A hint for common slips at `pos`.
 fn parse_hint(text: &str, pos: usize) -> Option<String> {
     let rest = text.get(pos..)?.trim_start();
     let before = text.get(..pos)?.trim_end();
+    if let Some(h) = rest.chars().next().and_then(|c| typography_hint(c, before)) {
+        return Some(h.into());
+    }
     if rest.starts_with('=') && !rest.starts_with("==") && !before.is_empty() {
         return Some("to compare, write `==`; to define a name, put it alone left of `=`".into());
     }

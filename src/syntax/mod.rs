@@ -26,7 +26,9 @@ pub fn parse(text: &str, file: u32) -> (Vec<Stmt>, Vec<Diagnostic>) {
 /// The result of [`parse_recovering`].
 #[derive(Debug, Default)]
 pub struct Parsed {
+    /// Statements that parsed.
     pub stmts: Vec<Stmt>,
+    /// Every parse error, by position.
     pub errors: Vec<Diagnostic>,
     /// Names that lines which failed to parse seem to define (`name = ...`),
     /// so that their uses elsewhere are not reported again as undefined.

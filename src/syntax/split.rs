@@ -13,14 +13,18 @@ pub const MAX_NESTING: usize = 64;
 /// One statement's byte range in the source.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub struct Chunk {
+    /// First byte.
     pub start: usize,
+    /// One past the last byte.
     pub end: usize,
 }
 
 /// The result of scanning a source text.
 #[derive(Debug, Default)]
 pub struct Scan {
+    /// Statements found, in order (bad ones left out).
     pub chunks: Vec<Chunk>,
+    /// Bracket and string errors.
     pub errors: Vec<Diagnostic>,
     /// Brackets still open at the end of the text (for the REPL).
     pub open_at_end: usize,

@@ -8,12 +8,13 @@ cd "$(dirname "$0")/../.."
 
 venv="${SICCANT_JUPYTER_VENV:-target/jupyter-venv}"
 python3 -m venv "$venv"
+venv="$(cd "$venv" && pwd)"
 "$venv/bin/python" -m pip install --quiet --upgrade pip
 "$venv/bin/python" -m pip install --quiet jupyter_kernel_test jupyter_client nbclient nbformat ipykernel pytest
 
 cargo build --quiet -p siccant-kernel
 target/debug/siccant-kernel install --prefix "$venv"
-export JUPYTER_PATH="$PWD/$venv/share/jupyter"
+export JUPYTER_PATH="$venv/share/jupyter"
 
 "$venv/bin/python" -m pytest -q tests/jupyter/test_kernel.py
 "$venv/bin/python" tests/jupyter/run_notebooks.py notebooks/*.ipynb

@@ -27,14 +27,17 @@ class SiccantKernelTests(jkt.KernelTests):
         {"code": "(80 degC - 35 degC) as K", "result": "45 K"},
         {"code": "2.5 m * 1.2 m", "mime": "text/html"},
         {"code": "air(T: 24 degC, rh: 55 %).T", "mime": "application/json"},
+        {"code": "plot(curve([1, 2, 3] * 1 m, [2, 4, 6] * 1 s))", "mime": "image/svg+xml"},
+        {"code": "plot(curve([1, 2, 3] * 1 m, [2, 4, 6] * 1 s))", "mime": "image/png"},
     ]
-    code_history_pattern = "6 *"
+    code_history_pattern = "6 *"  # matches only the first sample
     supported_history_operations = ("tail", "range", "search")
 
     # Every binding but the last is shown as display_data.
     code_display_data = [
         {"code": "amb = air(T: 24 degC, rh: 55 %)\nTw = amb.wetbulb", "mime": "text/html"},
         {"code": "q1 = 2 kW\nq2 = 3 kW", "mime": "text/plain"},
+        {"code": "p = plot(curve([1, 2] * 1 m, [3, 4] * 1 m))\nn = 1", "mime": "image/svg+xml"},
     ]
 
     code_generate_error = "belt_length = belt_sped * 3"

@@ -234,7 +234,8 @@ pub fn saturate(air: &AirState, effectiveness: f64) -> Result<ProcessOutcome, Ai
     let hc = thermo::condensed_enthalpy(twb);
     let rhs = h_of(t1, w1, p) - w1 * hc;
     let residual = |w: f64| h_of(t2, w, p) - w * hc - rhs;
-    let w_hi = ws_of(t2, p).unwrap_or(w1).max(w1);
+    // Above the boiling point at p any w is possible; 1000 kg/kg bounds the search.
+    let w_hi = ws_of(t2, p).unwrap_or(1e3).max(w1);
     let w2 = if effectiveness == 1.0 {
         w_hi
     } else {

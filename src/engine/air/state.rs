@@ -155,11 +155,14 @@ fn w_for_enthalpy(t: f64, p: f64, target: f64, hc: f64) -> Result<f64, AirError>
     })
 }
 
-/// The adiabatic-saturation residual `g(T*)` and an estimate of its slope, J/kg.
+/// The adiabatic-saturation balance in log form, and an estimate of its slope, 1/K.
 ///
-/// `g = h(T*, w_s*) - h1 - (w_s* - w) h_c(T*)`; the slope uses Clausius-Clapeyron
-/// for `dw_s*/dT*` and round specific heats (a start for Newton's method; the
-/// solver refines it by secants).
+/// The balance `h(T*, w_s*) - h1 - (w_s* - w) h_c(T*) = 0` is
+/// `w_s* (h_v* - h_c) = h1 - h_a(T*) - w h_c` (vapour "supply" = sensible "demand",
+/// h_a the enthalpy of everything but the vapour). The residual is the log of
+/// their ratio: same sign, nearly linear in T* (the supply grows like p_ws), so
+/// Newton's method needs few steps. The slope uses Clausius-Clapeyron for
+/// `d ln w_s*/dT*` and round specific heats; the solver refines it by secants.
 fn wet_bulb_residual(ts: f64, w: f64, p: f64, h1: f64, ice: bool) -> (f64, f64) {
     let pvs = sat::saturated_vapour_pressure(ts, p);
     if pvs >= p {
@@ -172,10 +175,15 @@ fn wet_bulb_residual(ts: f64, w: f64, p: f64, h1: f64, ice: bool) -> (f64, f64) 
     } else {
         (thermo::liquid_enthalpy(ts), 4186.0)
     };
-    let g = thermo::air_part_enthalpy(ts, p - pvs, pvs) + ws * hv - h1 - (ws - w) * hc;
     let latent = hv - hc;
-    let dws = ws * p / (p - pvs) * latent / (thermo::R_WATER_IF97 * ts * ts);
-    (g, 1006.0 + 1880.0 * ws + dws * latent - (ws - w) * cc)
+    let supply = ws * latent;
+    let demand = h1 - thermo::air_part_enthalpy(ts, p - pvs, pvs) - w * hc;
+    if demand <= 0.0 {
+        return (f64::INFINITY, f64::INFINITY);
+    }
+    let dln_ws = p / (p - pvs) * latent / (thermo::R_WATER_IF97 * ts * ts);
+    let slope = dln_ws + (1880.0 - cc) / latent + (1006.0 + w * cc) / demand;
+    ((supply / demand).ln(), slope)
 }
 
 impl AirState {
@@ -481,11 +489,26 @@ impl AirState {
             return Err(AirError::NoDewPoint { w: self.w });
         }
         let ln_pv = pv.ln();
-        let residual = |t: f64| sat::ln_saturated_vapour_pressure(t, p) - ln_pv;
+        // Slope by Clausius-Clapeyron, d ln p/dT = L/(R T^2) with L about 2.5 MJ/kg
+        // (2.83 MJ/kg over ice); the solver refines it by secants.
+        let residual = |t: f64| {
+            let latent = if t < T_ZERO_C {
+                2.834e6
+            } else {
+                2.501e6 - 2.4e3 * (t - T_ZERO_C)
+            };
+            (
+                sat::ln_saturated_vapour_pressure(t, p) - ln_pv,
+                latent.max(1e5) / (thermo::R_WATER_IF97 * t * t),
+            )
+        };
         let hi = self.t_k.max(T_ZERO_C + 1.0);
-        brent(residual, T_MIN_SATURATION, hi, T_TOL).map_err(|e| AirError::NotConverged {
-            what: "dew point",
-            reason: e,
+        let start = self.dew_point_estimate_k().clamp(T_MIN_SATURATION, hi);
+        newton_bracketed(residual, T_MIN_SATURATION, hi, start, T_TOL).map_err(|e| {
+            AirError::NotConverged {
+                what: "dew point",
+                reason: e,
+            }
         })
     }
 
@@ -514,9 +537,7 @@ impl AirState {
         // Over liquid water when a root at or above 0 degC exists, else over ice.
         let (lo, hi, ice) = if hi < T_ZERO_C {
             (T_MIN_SATURATION, hi, true)
-        } else if dew >= T_ZERO_C + 2.0 {
-            (T_ZERO_C, hi, false)
-        } else if wet_bulb_residual(T_ZERO_C, w, p, h1, false).0 <= 0.0 {
+        } else if dew >= T_ZERO_C + 2.0 || wet_bulb_residual(T_ZERO_C, w, p, h1, false).0 <= 0.0 {
             (T_ZERO_C, hi, false)
         } else {
             (T_MIN_SATURATION, T_ZERO_C, true)
@@ -525,6 +546,13 @@ impl AirState {
             return Ok(hi);
         }
         let f = |ts: f64| wet_bulb_residual(ts, w, p, h1, ice);
+        // Nearly pure steam (w of tens of kg/kg): the root may lie within 0.02 K of
+        // the boiling point, above the bracket; refuse rather than return its end.
+        if w > 50.0 && f(hi).0 < 0.0 {
+            return Err(AirError::ProcessOutOfRange {
+                what: format!("the wet-bulb of nearly pure steam (w = {w:.1} kg/kg) is within 0.02 K of the boiling point"),
+            });
+        }
         let ts = newton_bracketed(f, lo, hi, guess.clamp(lo, hi), T_TOL).map_err(err)?;
         // A saturated state: the root is the dry-bulb itself up to rounding.
         Ok(ts.min(t))
@@ -544,16 +572,15 @@ impl AirState {
         if ws_of(self.t_k, self.p_pa).is_some() {
             return Ok(self.t_k);
         }
-        let tb = sat::boiling_point(self.p_pa).map_err(|e| AirError::NotConverged {
-            what: "boiling point",
-            reason: e,
-        })?;
-        let mut hi = tb * (1.0 - 1e-9);
+        // Just below the boiling point (IF97 backward equation, within 0.01 K of
+        // our curve): w_s* there exceeds 100 kg/kg, so the balance is positive.
+        let tb = sat::if97_saturation_temperature(self.p_pa.clamp(611.3, sat::P_CRITICAL));
+        let mut hi = tb - 0.02;
         for _ in 0..40 {
             if ws_of(hi, self.p_pa).is_some() {
                 return Ok(hi);
             }
-            hi -= (tb - hi).max(1e-9) * 2.0;
+            hi -= 0.02;
         }
         Err(AirError::ProcessOutOfRange {
             what: "no saturated state below the boiling point".into(),

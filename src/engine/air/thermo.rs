@@ -66,8 +66,9 @@ pub fn air_residual_enthalpy(t: f64, pa: f64, pv: f64) -> f64 {
 
 /// Residual enthalpy of dry air at the reference state (0 degC, 101.325 kPa), J/kg.
 fn air_residual_reference() -> f64 {
-    static VALUE: std::sync::LazyLock<f64> =
-        std::sync::LazyLock::new(|| air_residual_enthalpy(super::saturation::T_ZERO_C, P_REFERENCE, 0.0));
+    static VALUE: std::sync::LazyLock<f64> = std::sync::LazyLock::new(|| {
+        air_residual_enthalpy(super::saturation::T_ZERO_C, P_REFERENCE, 0.0)
+    });
     *VALUE
 }
 
@@ -156,12 +157,17 @@ const IF97_VIRIAL: [(i32, f64); 5] = [
 
 /// Ideal-gas enthalpy of water vapour on the IF97 reference, J/kg.
 fn vapour_ideal_enthalpy_if97(t: f64) -> f64 {
+    // sum n J tau^(J-1) over the table, written out: tau t = 540 K, inv = 1/tau.
+    let n = |i: usize| IF97_IDEAL[i].1;
     let tau = 540.0 / t;
-    let g_tau: f64 = IF97_IDEAL
-        .iter()
-        .map(|&(j, n)| n * j as f64 * tau.powi(j - 1))
-        .sum();
-    R_WATER_IF97 * t * tau * g_tau
+    let inv = t / 540.0;
+    let negative = inv
+        * inv
+        * (-n(6)
+            + inv
+                * (-2.0 * n(5) + inv * (-3.0 * n(4) + inv * (-4.0 * n(3) + inv * (-5.0 * n(2))))));
+    let g_tau = n(1) + tau * (2.0 * n(7) + tau * 3.0 * n(8)) + negative;
+    R_WATER_IF97 * 540.0 * g_tau
 }
 
 /// Residual (second-virial) enthalpy of water vapour at partial pressure pv (Pa), J/kg.

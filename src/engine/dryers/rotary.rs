@@ -110,26 +110,33 @@ pub fn volumetric_coefficient(g: MassFlux, d: Length) -> f64 {
     0.5 * lb_per_h_ft2(g).powf(0.67) / ft(d) * btu_per_h_ft3_f
 }
 
+/// What the retention-time correlation needs.
+#[derive(Clone, Copy, Debug)]
+pub struct Drum {
+    pub length: Length,
+    pub diameter: Length,
+    /// Slope, length per length.
+    pub slope: f64,
+    pub speed_rpm: f64,
+    pub particle_diameter: Length,
+    /// Gas and solids mass velocities over the drum cross-section.
+    pub gas: MassFlux,
+    pub solids: MassFlux,
+    pub flow: Flow,
+}
+
 /// Friedman-Marshall retention time.
-#[allow(clippy::too_many_arguments)] // the correlation's own inputs, each named
-pub fn retention_time(
-    length: Length,
-    slope: f64,
-    rpm: f64,
-    d: Length,
-    dp: Length,
-    gas: MassFlux,
-    solids: MassFlux,
-    flow: Flow,
-) -> Time {
-    let b = 5.0 * dp.get::<micrometer>().powf(-0.5);
-    let gas_term = 0.6 * b * ft(length) * lb_per_h_ft2(gas) / lb_per_h_ft2(solids);
-    let sign = if flow == Flow::Countercurrent {
+pub fn retention_time(drum: &Drum) -> Time {
+    let b = 5.0 * drum.particle_diameter.get::<micrometer>().powf(-0.5);
+    let gas_term = 0.6 * b * ft(drum.length) * lb_per_h_ft2(drum.gas) / lb_per_h_ft2(drum.solids);
+    let sign = if drum.flow == Flow::Countercurrent {
         1.0
     } else {
         -1.0
     };
-    let minutes = 0.23 * ft(length) / (slope * rpm.powf(0.9) * ft(d)) + sign * gas_term;
+    let minutes = 0.23 * ft(drum.length)
+        / (drum.slope * drum.speed_rpm.powf(0.9) * ft(drum.diameter))
+        + sign * gas_term;
     Time::new::<minute>(minutes)
 }
 
@@ -299,16 +306,16 @@ impl Rotary {
         };
         let volume = to_product / (ua * lmtd);
         let length = volume / section;
-        let theta = retention_time(
-            Length::new::<meter>(length),
-            self.slope,
-            self.speed_rpm,
-            d,
-            Length::new::<meter>(self.particle_diameter_m),
-            g,
-            f_solids,
-            self.flow,
-        );
+        let theta = retention_time(&Drum {
+            length: Length::new::<meter>(length),
+            diameter: d,
+            slope: self.slope,
+            speed_rpm: self.speed_rpm,
+            particle_diameter: Length::new::<meter>(self.particle_diameter_m),
+            gas: g,
+            solids: f_solids,
+            flow: self.flow,
+        });
         let mut warnings = Vec::new();
         let gv = g.get::<kilogram_per_square_meter_second>();
         if !(0.5..=5.0).contains(&gv) {

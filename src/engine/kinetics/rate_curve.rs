@@ -338,6 +338,36 @@ fn closed_time(rc: f64, xc: f64, xe: f64, n: f64, load: f64, x1: f64, x2: f64) -
     }
 }
 
+/// The batch drying curve: (time s, moisture) at `points` moistures evenly
+/// spaced from `x_start` down to `x_end` (at least 2), time from the start.
+pub fn drying_curve(
+    curve: &RateCurve,
+    load_kg_per_m2: f64,
+    x_start: f64,
+    x_end: f64,
+    points: usize,
+) -> Result<Vec<(f64, f64)>, KineticsError> {
+    check_span(curve, load_kg_per_m2, x_start, x_end)?;
+    if points < 2 {
+        return Err(KineticsError::TooFewPoints {
+            what: "a drying curve",
+            needed: 2,
+            found: points,
+        });
+    }
+    let mut out = vec![(0.0, x_start)];
+    let mut elapsed = 0.0;
+    for k in 1..points {
+        let (from, to) = (
+            out[k - 1].1,
+            x_start + (x_end - x_start) * k as f64 / (points - 1) as f64,
+        );
+        elapsed += drying_time(curve, load_kg_per_m2, from, to)?.total_s;
+        out.push((elapsed, to));
+    }
+    Ok(out)
+}
+
 /// Drying time by adaptive quadrature of `1/R(X)`, for any curve.
 pub fn numerical_time(
     curve: &RateCurve,
@@ -393,6 +423,16 @@ mod tests {
     }
 
     #[test]
+    fn drying_curve_ends_at_the_total_time() {
+        let c = RateCurve::constant_linear(1e-3, 0.6, 0.05).unwrap();
+        let points = drying_curve(&c, 18.0, 1.3, 0.12, 25).unwrap();
+        let total = drying_time(&c, 18.0, 1.3, 0.12).unwrap().total_s;
+        assert_eq!(points.len(), 25);
+        assert!((points[24].0 / total - 1.0).abs() < 1e-10 && (points[24].1 - 0.12).abs() < 1e-12);
+        assert!(points.windows(2).all(|w| w[1].0 > w[0].0));
+    }
+
+    #[test]
     fn target_at_equilibrium_is_an_error_not_infinity() {
         let c = RateCurve::constant_linear(1e-3, 0.6, 0.05).unwrap();
         let e = drying_time(&c, 10.0, 1.0, 0.05).unwrap_err();
@@ -442,6 +482,48 @@ mod tests {
             let v = p.value(i as f64 * 0.01);
             assert!(v >= last - 1e-15 && v <= 1.0 + 1e-15, "not monotone at {i}");
             last = v;
+        }
+    }
+}
+
+#[cfg(test)]
+mod properties {
+    use super::*;
+    use proptest::prelude::*;
+
+    proptest! {
+        /// Drying times add over consecutive spans, for any constant + power curve.
+        #[test]
+        fn times_add_over_spans(rc in 1e-4f64..1e-2, xe in 0.0f64..0.1, span in 0.1f64..1.0, n in 0.3f64..3.0,
+                                a in 0.0f64..1.0, b in 0.0f64..1.0) {
+            let xc = xe + span;
+            let curve = RateCurve::constant_power(rc, xc, xe, n).unwrap();
+            let x1 = xc + 1.0;
+            let (hi, lo) = (xe + 1e-3 + (x1 - xe - 1e-3) * a.max(b), xe + 1e-3 + (x1 - xe - 1e-3) * a.min(b));
+            prop_assume!(hi - lo > 1e-6 && x1 - hi > 1e-6);
+            let whole = drying_time(&curve, 10.0, x1, lo).unwrap().total_s;
+            let parts = drying_time(&curve, 10.0, x1, hi).unwrap().total_s + drying_time(&curve, 10.0, hi, lo).unwrap().total_s;
+            prop_assert!((whole / parts - 1.0).abs() < 1e-9);
+        }
+
+        /// The monotone cubic never leaves the range of its neighbouring data
+        /// and keeps monotone data monotone.
+        #[test]
+        fn pchip_keeps_monotone_data_monotone(steps in proptest::collection::vec((0.01f64..1.0, 0.0f64..1.0), 3..12)) {
+            let mut x = vec![0.0];
+            let mut y = vec![0.0];
+            for (dx, dy) in &steps {
+                x.push(x[x.len() - 1] + dx);
+                y.push(y[y.len() - 1] + dy);
+            }
+            let p = MonotoneCubic::new(x.clone(), y.clone()).unwrap();
+            let mut last = f64::NEG_INFINITY;
+            for k in 0..=500 {
+                let t = x[x.len() - 1] * k as f64 / 500.0;
+                let v = p.value(t);
+                prop_assert!(v >= last - 1e-12);
+                last = v;
+            }
         }
     }
 }

@@ -3,8 +3,8 @@
 //! Start values come from each model's linearised form (for example
 //! `ln X = ln A + B ln(aw/(1-aw))` for Oswin, the quadratic `aw/X` form for GAB)
 //! solved by ordinary linear least squares, plus a few typical values; the
-//! nonlinear fit ([`crate::engine::fit`]) is run from each and the best
-//! converged one is kept. Data at one temperature (spread under 0.5 K) fit the
+//! nonlinear fit ([`crate::engine::fit`]) runs from the start with the least
+//! sum of squares, and from the next ones only when it fails. Data at one temperature (spread under 0.5 K) fit the
 //! model's isothermal parameters only, holding its temperature terms at zero,
 //! and the isotherm is marked as known at that temperature only.
 
@@ -132,7 +132,10 @@ fn best_fit(
         .collect();
     let mut best: Option<(Vec<f64>, FitResult)> = None;
     let mut first_error: Option<FitError> = None;
-    for full in candidates {
+    for full in by_starting_sse(problem, candidates) {
+        if best.is_some() {
+            break;
+        }
         let p = IsothermProblem {
             fixed: pad(full),
             ..*problem
@@ -160,6 +163,30 @@ fn best_fit(
         }
     }
     best.ok_or_else(|| fit_error(problem, first_error.unwrap_or(FitError::NotIdentifiable)))
+}
+
+/// Candidates ordered by their sum of squares before fitting (non-finite last):
+/// the fit runs from the most promising start, and from the next ones only
+/// when it fails.
+fn by_starting_sse<'c>(problem: &IsothermProblem, candidates: &'c [Vec<f64>]) -> Vec<&'c Vec<f64>> {
+    let sse = |full: &Vec<f64>| {
+        let p = IsothermProblem {
+            fixed: pad(full),
+            ..*problem
+        };
+        let start: Vec<f64> = problem.free.iter().map(|&i| full[i]).collect();
+        let s: f64 = (0..problem.data.x_db.len())
+            .map(|i| (p.value(&start, i) - problem.data.x_db[i]).powi(2))
+            .sum();
+        if s.is_finite() {
+            s
+        } else {
+            f64::INFINITY
+        }
+    };
+    let mut ranked: Vec<(f64, &Vec<f64>)> = candidates.iter().map(|c| (sse(c), c)).collect();
+    ranked.sort_by(|a, b| a.0.total_cmp(&b.0));
+    ranked.into_iter().map(|(_, c)| c).collect()
 }
 
 /// A fit error, with a hint when the data reach beyond the model's usual range.

@@ -42,6 +42,23 @@ def isotherm_25c():
           "sorption isotherm of an invented starchy powder at 25 degC (model plus seeded scatter)")
 
 
+def gab_three_temperatures():
+    """24 (aw, T, X) points at 25, 40 and 55 degC for an invented cereal flake,
+    from GAB with Arrhenius-type C and K about 40 degC."""
+    rng = np.random.default_rng(3)
+    r = 8.314462618
+    rows = []
+    for t_c in (25.0, 40.0, 55.0):
+        t_k = t_c + 273.15
+        c = 9.0 * np.exp(9000.0 / r * (1 / t_k - 1 / 313.15))
+        k = 0.85 * np.exp(1200.0 / r * (1 / t_k - 1 / 313.15))
+        aw = np.linspace(0.1, 0.85, 8)
+        x = gab(aw, 0.07, c, k) * (1 + 0.02 * rng.standard_normal(aw.size))
+        rows += [(f"{a:.3f}", f"{t_c:.0f}", f"{v:.5f}") for a, v in zip(aw, x)]
+    write(f"{HERE}/cereal_flakes_3T.csv", "aw [-],T [degC],X [kg/kg db]", rows,
+          "sorption isotherms of invented cereal flakes at 25, 40 and 55 degC (model plus seeded scatter)")
+
+
 def page_300():
     """300 (t, MR) points of an invented thin-layer drying run, Page model MR = exp(-k t^n)."""
     rng = np.random.default_rng(11)
@@ -55,4 +72,5 @@ def page_300():
 if __name__ == "__main__":
     isotherm_40c()
     isotherm_25c()
+    gab_three_temperatures()
     page_300()

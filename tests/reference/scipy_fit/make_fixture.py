@@ -52,6 +52,18 @@ def peleg(aw, a, b, c, d):
     return a * aw ** c + b * aw ** d
 
 
+def gab_arrhenius(t_ref_k):
+    """GAB with C(T) = C exp(dHc/R (1/T - 1/T_ref)), likewise K; x = (aw, T in K)."""
+    r = 8.314462618
+
+    def f(x, xm, c, k, dhc, dhk):
+        aw, t_k = x
+        ct = c * np.exp(dhc / r * (1 / t_k - 1 / t_ref_k))
+        kt = k * np.exp(dhk / r * (1 / t_k - 1 / t_ref_k))
+        return gab(aw, xm, ct, kt)
+    return f
+
+
 def page(t, k, n):
     return np.exp(-k * t ** n)
 
@@ -96,9 +108,19 @@ def main():
         "Peleg": [0.1, 0.3, 0.6, 5.0],
     }
     page_data = read(f"{HERE}/data/page_run_300.csv")
+    flakes = read(f"{HERE}/data/cereal_flakes_3T.csv")
+    t_k = flakes[:, 1] + 273.15
+    t_ref = float(t_k.mean())
     cases = [
         isotherm_cases("veg_chips_40C.csv", 40.0, common),
         isotherm_cases("starch_powder_25C.csv", 25.0, common),
+        {
+            "file": "cereal_flakes_3T.csv",
+            "t_ref_kelvin": t_ref,
+            "x_column": "aw,T",
+            "y_column": "X",
+            "fits": [fit("GAB", gab_arrhenius(t_ref), (flakes[:, 0], t_k), flakes[:, 2], [0.07, 10.0, 0.85, 5000.0, 1000.0])],
+        },
         {
             "file": "page_run_300.csv",
             "x_column": "t",

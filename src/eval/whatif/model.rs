@@ -1,0 +1,385 @@
+//! A worksheet prepared for re-evaluation at many points.
+//!
+//! [`Model::build`] finds the values that depend on the varied inputs (the
+//! reverse closure of the dependency graph), computes everything else once in
+//! the calling context, and keeps a copy of the sheet with that cache. Each
+//! point then clears only the dependent values, sets the inputs and forces the
+//! probes: values that do not depend on the inputs are never recomputed.
+//! Points run in parallel on rayon's pool; each worker borrows a private copy
+//! of the sheet from a small pool, so no state is shared between points.
+
+use std::collections::HashSet;
+use std::sync::Mutex;
+
+use rayon::prelude::*;
+
+use super::progress::{self, Progress};
+use crate::diag::{Diagnostic, Span};
+use crate::eval::{graph, Ctx, DefKind, FastMap, Flow, Limits, Mode, Sheet, Sources};
+use crate::syntax::{Expr, StmtKind};
+use crate::units::{Quantity, Unit};
+use crate::value::Value;
+
+/// One input a study varies.
+#[derive(Clone, Debug)]
+pub(super) struct Varied {
+    pub name: String,
+    /// Its value in the worksheet.
+    pub base: Quantity,
+    /// The unit it is shown in.
+    pub unit: Option<Unit>,
+}
+
+impl Varied {
+    /// The input's quantity at SI magnitude `si` (its dimension and kind).
+    pub fn at(&self, si: f64) -> Quantity {
+        Quantity::new(si, self.base.dim, self.base.kind)
+    }
+
+    /// The input's value at `si`, with its display unit.
+    pub fn shown(&self, si: f64) -> Value {
+        Value::Quantity(self.at(si), self.unit.clone())
+    }
+}
+
+/// A design rule (`check`) of the worksheet that the varied inputs can change.
+#[derive(Clone, Debug)]
+pub(super) struct Rule {
+    pub text: String,
+    pub expr: Expr,
+}
+
+/// What one point gave.
+#[derive(Clone, Debug)]
+pub(super) struct Outcome {
+    /// The probes' values, or the first error (`line:col: message`).
+    pub values: Result<Vec<Value>, String>,
+    /// Indices of the rules that failed (or could not be evaluated).
+    pub broken: Vec<usize>,
+    /// Warning messages raised at this point.
+    pub warnings: Vec<String>,
+}
+
+impl Outcome {
+    /// Probe `k` as a quantity, if the point succeeded and it is one.
+    pub fn quantity(&self, k: usize) -> Option<Quantity> {
+        match self.values.as_ref().ok()?.get(k)? {
+            Value::Quantity(q, _) if q.si.is_finite() => Some(*q),
+            _ => None,
+        }
+    }
+
+    /// True when the point evaluated and passed every rule.
+    pub fn feasible(&self) -> bool {
+        self.values.is_ok() && self.broken.is_empty()
+    }
+}
+
+/// A private copy of the sheet for one worker.
+struct Work {
+    sheet: Sheet,
+    sources: Sources,
+}
+
+/// A worksheet ready to be evaluated at points of its varied inputs.
+pub(super) struct Model {
+    sheet: Sheet,
+    sources: Sources,
+    limits: Limits,
+    depth: usize,
+    frame: Option<FastMap<String, Value>>,
+    pub inputs: Vec<Varied>,
+    pub probes: Vec<Expr>,
+    pub rules: Vec<Rule>,
+    /// Cached values to clear at every point (they depend on the inputs).
+    dependent: Vec<String>,
+    pool: Mutex<Vec<Work>>,
+}
+
+/// Words of the what-if forms; checks that call them are not re-run per point.
+const FORMS: &[&str] = super::FORMS;
+
+impl Model {
+    /// Prepare `ctx`'s sheet for varying `inputs` and reading `probes`. With
+    /// `with_rules`, the checks of the worksheet file that contains `span`
+    /// that depend on the inputs are evaluated at every point too.
+    pub fn build(
+        ctx: &mut Ctx,
+        inputs: Vec<Varied>,
+        probes: Vec<Expr>,
+        with_rules: bool,
+        span: Span,
+    ) -> Flow<Model> {
+        let names: Vec<String> = inputs.iter().map(|v| v.name.clone()).collect();
+        let dependent = dependents(&ctx.sheet.defs, &names);
+        let rules = if with_rules {
+            worksheet_rules(ctx, span.file, &dependent)
+        } else {
+            Vec::new()
+        };
+        let params: Vec<String> = ctx
+            .frame
+            .as_ref()
+            .map(|f| f.keys().cloned().collect())
+            .unwrap_or_default();
+        let roots: Vec<String> = probes
+            .iter()
+            .chain(rules.iter().map(|r| &r.expr))
+            .flat_map(|e| graph::dependencies(e, &params))
+            .collect();
+        force_independent(ctx, &roots, &dependent, span)?;
+        let mut sheet = ctx.sheet.clone();
+        for n in &dependent {
+            sheet.cache.remove(n);
+        }
+        Ok(Model {
+            sheet,
+            sources: ctx.sources.clone(),
+            limits: ctx.limits.clone(),
+            depth: ctx.depth,
+            frame: ctx.frame.clone(),
+            inputs,
+            probes,
+            rules,
+            dependent: dependent.into_iter().collect(),
+            pool: Mutex::new(Vec::new()),
+        })
+    }
+
+    /// Evaluate one point (SI magnitudes of the inputs, in order).
+    pub fn eval_one(&self, point: &[f64]) -> Outcome {
+        let mut work = self.take_work();
+        let out = self.eval(&mut work, point);
+        self.give_back(work);
+        out
+    }
+
+    /// Evaluate many points in parallel, in order, reporting progress under
+    /// `label` and stopping (with an error at `span`) when interrupted.
+    pub fn eval_many(
+        &self,
+        points: &[Vec<f64>],
+        label: &'static str,
+        span: Span,
+    ) -> Flow<Vec<Outcome>> {
+        let total = points.len();
+        let block = (total / 100).clamp(32, 8192);
+        let mut out = Vec::with_capacity(total);
+        for chunk in points.chunks(block) {
+            if self.limits.interrupted() {
+                break;
+            }
+            let part: Vec<Outcome> = chunk
+                .par_iter()
+                .map_init(
+                    || Lease {
+                        model: self,
+                        work: Some(self.take_work()),
+                    },
+                    |lease, p| lease.eval(p),
+                )
+                .collect();
+            out.extend(part);
+            let done = out.len();
+            progress::report(&Progress {
+                label,
+                done,
+                total,
+                finished: false,
+            });
+        }
+        let done = out.len();
+        progress::report(&Progress {
+            label,
+            done,
+            total,
+            finished: true,
+        });
+        if self.limits.interrupted() {
+            let msg = format!("interrupted after {done} of {total} points");
+            return Err(Diagnostic::error(span, msg).into());
+        }
+        Ok(out)
+    }
+
+    /// True when someone asked the evaluation to stop.
+    pub fn interrupted(&self) -> bool {
+        self.limits.interrupted()
+    }
+
+    fn take_work(&self) -> Work {
+        let spare = self.pool.lock().unwrap_or_else(|e| e.into_inner()).pop();
+        spare.unwrap_or_else(|| Work {
+            sheet: self.sheet.clone(),
+            sources: self.sources.clone(),
+        })
+    }
+
+    fn give_back(&self, work: Work) {
+        self.pool
+            .lock()
+            .unwrap_or_else(|e| e.into_inner())
+            .push(work);
+    }
+
+    fn eval(&self, work: &mut Work, point: &[f64]) -> Outcome {
+        for n in &self.dependent {
+            work.sheet.cache.remove(n);
+        }
+        for (v, &si) in self.inputs.iter().zip(point) {
+            work.sheet.cache.insert(v.name.clone(), v.shown(si));
+        }
+        let mut ctx = Ctx::new(&mut work.sheet, &mut work.sources, &self.limits, Mode::Run);
+        ctx.depth = self.depth + 1;
+        ctx.frame = self.frame.clone();
+        let mut values = Vec::with_capacity(self.probes.len());
+        for probe in &self.probes {
+            match ctx.expr(probe) {
+                Ok(v) => values.push(v),
+                Err(stop) => {
+                    ctx.report(stop);
+                    let message = first_error(&ctx);
+                    return Outcome {
+                        values: Err(message),
+                        broken: Vec::new(),
+                        warnings: Vec::new(),
+                    };
+                }
+            }
+        }
+        let broken = (0..self.rules.len())
+            .filter(|&i| !matches!(ctx.truth(&self.rules[i].expr, "check"), Ok(true)))
+            .collect();
+        let warnings = ctx.warnings.iter().map(|w| w.message.clone()).collect();
+        Outcome {
+            values: Ok(values),
+            broken,
+            warnings,
+        }
+    }
+}
+
+/// A worker's copy of the sheet, returned to the pool when the worker is done.
+struct Lease<'m> {
+    model: &'m Model,
+    work: Option<Work>,
+}
+
+impl Lease<'_> {
+    fn eval(&mut self, point: &[f64]) -> Outcome {
+        let model = self.model;
+        let work = self.work.get_or_insert_with(|| model.take_work());
+        model.eval(work, point)
+    }
+}
+
+impl Drop for Lease<'_> {
+    fn drop(&mut self) {
+        if let Some(w) = self.work.take() {
+            self.model.give_back(w);
+        }
+    }
+}
+
+/// `line:col: message` of the first error a point raised.
+fn first_error(ctx: &Ctx) -> String {
+    match ctx.errors.first() {
+        Some(d) => {
+            let (line, col) = ctx.sources.line_col(d.span);
+            format!("{line}:{col}: {}", d.message)
+        }
+        None => "failed".to_string(),
+    }
+}
+
+/// Every definition that reads one of `names`, directly or through others
+/// (including the names themselves).
+fn dependents(defs: &FastMap<String, crate::eval::Def>, names: &[String]) -> HashSet<String> {
+    let mut readers: FastMap<&str, Vec<&str>> = FastMap::default();
+    for d in defs.values() {
+        for dep in &d.deps {
+            readers
+                .entry(dep.as_str())
+                .or_default()
+                .push(d.name.name.as_str());
+        }
+    }
+    let mut out: HashSet<String> = HashSet::new();
+    let mut queue: Vec<&str> = names.iter().map(String::as_str).collect();
+    while let Some(n) = queue.pop() {
+        if out.insert(n.to_string()) {
+            queue.extend(readers.get(n).into_iter().flatten().copied());
+        }
+    }
+    out
+}
+
+/// Compute, once, every value the probes need that the inputs do not change.
+fn force_independent(
+    ctx: &mut Ctx,
+    roots: &[String],
+    dependent: &HashSet<String>,
+    span: Span,
+) -> Flow<()> {
+    let order: Vec<String> = {
+        let defs = &ctx.sheet.defs;
+        let get = |n: &str| defs.get(n).map(|d| d.deps.as_slice());
+        graph::postorder(roots.iter().map(String::as_str), &get)
+            .into_iter()
+            .filter(|n| {
+                defs.get(*n)
+                    .is_some_and(|d| d.kind != DefKind::Function && !dependent.contains(*n))
+            })
+            .map(String::from)
+            .collect()
+    };
+    for name in order {
+        ctx.force(&name, span)?;
+    }
+    Ok(())
+}
+
+/// The checks of source file `file` that read a value in `dependent` (and do
+/// not themselves run a study).
+fn worksheet_rules(ctx: &Ctx, file: u32, dependent: &HashSet<String>) -> Vec<Rule> {
+    let Some(source) = ctx.sources.get(file) else {
+        return Vec::new();
+    };
+    let (stmts, _) = crate::syntax::parse(&source.text, file);
+    stmts
+        .into_iter()
+        .filter_map(|s| match s.kind {
+            StmtKind::Check(e) => Some(Expr::clone(&e)),
+            _ => None,
+        })
+        .filter(|e| {
+            let deps = graph::dependencies(e, &[]);
+            deps.iter().any(|d| dependent.contains(d))
+                && !deps.iter().any(|d| FORMS.contains(&d.as_str()))
+        })
+        .map(|expr| Rule {
+            text: ctx.sources.slice(expr.span).to_string(),
+            expr,
+        })
+        .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn dependents_follow_values_and_user_functions() {
+        let text = "input a = 1 m\ninput b = 2 m\nf(x) = x * a\nc = f(b)\nd = b * 2\ne = c + d\n";
+        let (stmts, errors) = crate::syntax::parse(text, 0);
+        assert!(errors.is_empty(), "{errors:?}");
+        let mut sheet = Sheet::default();
+        assert!(sheet.define(&stmts, true).is_ok());
+        let mut got: Vec<String> = dependents(&sheet.defs, &["a".to_string()])
+            .into_iter()
+            .collect();
+        got.sort();
+        // `c` reads `a` through the function `f`; `b` and `d` do not depend on `a`.
+        assert_eq!(got, ["a", "c", "e", "f"]);
+    }
+}

@@ -1,0 +1,338 @@
+//! `sweep(values, INPUT: list, [INPUT2: list])`: the worksheet over a grid of
+//! one or two inputs, as a table and a plot.
+
+use std::collections::BTreeMap;
+use std::sync::Arc;
+
+use super::model::{Model, Outcome, Varied};
+use super::spec::{self, usage};
+use crate::diag::{Diagnostic, Span};
+use crate::eval::{Ctx, Flow, Mode, Stop};
+use crate::syntax::CallArg;
+use crate::units::{default_unit, Quantity, Unit};
+use crate::value::{Column, HeatMap, Plot, Record, Series, SeriesStyle, Table, Value};
+
+const EXAMPLE: &str = "sweep([t_dry, Rc], T_air: steps(60 degC, 90 degC, 5 K))";
+
+/// Most points one sweep evaluates.
+pub const MAX_POINTS: usize = 10_000_000;
+
+impl Ctx<'_> {
+    /// Evaluate `sweep(...)`.
+    pub(super) fn sweep(&mut self, args: &[CallArg], span: Span) -> Flow<Value> {
+        let parts = spec::split(args, &[]);
+        let probes = match parts.positional.as_slice() {
+            [one] => spec::probes(one),
+            [] => return Err(usage(span, "`sweep` needs the values to report", EXAMPLE).into()),
+            [_, extra, ..] => {
+                let msg = "`sweep` takes one list of values to report; name the inputs to vary";
+                return Err(usage(extra.span, msg, EXAMPLE).into());
+            }
+        };
+        if parts.inputs.is_empty() || parts.inputs.len() > 2 {
+            let msg = format!(
+                "`sweep` varies one or two inputs, given {}",
+                parts.inputs.len()
+            );
+            return Err(usage(span, msg, EXAMPLE).into());
+        }
+        let (varied, axes) = self.sweep_axes(&parts.inputs)?;
+        if self.mode == Mode::CheckOnly {
+            return Err(Stop::Skip);
+        }
+        let total: usize = axes.iter().map(Vec::len).product();
+        if total > MAX_POINTS {
+            let msg = format!("{total} points is more than the {MAX_POINTS} one sweep evaluates");
+            return Err(Diagnostic::error(span, msg).into());
+        }
+        let names: Vec<String> = probes.iter().map(|p| spec::probe_name(p, self)).collect();
+        let model = Model::build(self, varied, probes, true, span)?;
+        let points = grid(&axes);
+        let outcomes = model.eval_many(&points, "sweep", span)?;
+        self.point_warnings(&outcomes, span);
+        let table = sweep_table(&model, &names, &points, &outcomes);
+        let plot = sweep_plot(&model, &names, &axes, &outcomes);
+        let failed = outcomes.iter().filter(|o| o.values.is_err()).count();
+        let mut record = Record::new("sweep")
+            .with("table", Value::Table(table.clone()))
+            .with("plot", Value::Plot(Arc::new(plot)))
+            .with("points", number(total))
+            .with("failed", number(failed));
+        for c in table.columns {
+            if record.get(&c.name).is_none() && c.name != "checks" && c.name != "error" {
+                record = record.with(c.name, Value::List(c.cells));
+            }
+        }
+        Ok(Value::Record(record))
+    }
+
+    fn sweep_axes(
+        &mut self,
+        inputs: &[(&crate::syntax::Ident, &CallArg)],
+    ) -> Flow<(Vec<Varied>, Vec<Vec<f64>>)> {
+        let mut varied: Vec<Varied> = Vec::new();
+        let mut axes = Vec::new();
+        for (name, arg) in inputs {
+            if varied.iter().any(|v| v.name == name.name) {
+                let msg = format!("`{}` is given twice", name.name);
+                return Err(Diagnostic::error(name.span, msg).into());
+            }
+            let v = self.varied(name)?;
+            let (values, unit) = self.values_for(arg, &v)?;
+            varied.push(Varied { unit, ..v });
+            axes.push(values);
+        }
+        Ok((varied, axes))
+    }
+
+    /// Summarise the warnings raised at points (each distinct message once)
+    /// and say how many points failed.
+    pub(super) fn point_warnings(&mut self, outcomes: &[Outcome], span: Span) {
+        let total = outcomes.len();
+        let mut counts: BTreeMap<&str, usize> = BTreeMap::new();
+        for o in outcomes {
+            let mut seen: Vec<&str> = Vec::new();
+            for w in &o.warnings {
+                if !seen.contains(&w.as_str()) {
+                    seen.push(w);
+                    *counts.entry(w).or_default() += 1;
+                }
+            }
+        }
+        for (msg, n) in counts {
+            let text = format!("at {n} of {total} points: {msg}");
+            self.warnings.push(Diagnostic::warning(span, text));
+        }
+        let failed: Vec<&String> = outcomes
+            .iter()
+            .filter_map(|o| o.values.as_ref().err())
+            .collect();
+        if let Some(first) = failed.first() {
+            let text = format!("{} of {total} points failed (first: {first})", failed.len());
+            self.warnings.push(Diagnostic::warning(span, text));
+        }
+    }
+}
+
+/// Every combination of the axes' values, the first axis varying slowest.
+pub(super) fn grid(axes: &[Vec<f64>]) -> Vec<Vec<f64>> {
+    let mut points: Vec<Vec<f64>> = vec![Vec::new()];
+    for axis in axes {
+        points = points
+            .into_iter()
+            .flat_map(|p| {
+                axis.iter().map(move |&x| {
+                    let mut q = p.clone();
+                    q.push(x);
+                    q
+                })
+            })
+            .collect();
+    }
+    points
+}
+
+/// A plain number value.
+pub(super) fn number(n: usize) -> Value {
+    Value::Quantity(Quantity::number(n as f64), None)
+}
+
+/// The unit probe `k` is shown in: its own display unit at the first point
+/// that gave a quantity, else the default for its kind.
+pub(super) fn probe_unit(outcomes: &[Outcome], k: usize) -> Option<Unit> {
+    outcomes
+        .iter()
+        .find_map(|o| match o.values.as_ref().ok()?.get(k)? {
+            Value::Quantity(q, u) => Some(u.clone().unwrap_or_else(|| default_unit(q))),
+            _ => None,
+        })
+}
+
+/// A quantity's magnitude in `unit` (SI when the unit cannot show it).
+pub(super) fn in_unit(q: &Quantity, unit: Option<&Unit>) -> f64 {
+    unit.and_then(|u| u.from_si(q).ok()).unwrap_or(q.si)
+}
+
+fn axis_label(name: &str, unit: Option<&Unit>) -> String {
+    match unit {
+        Some(u) if !u.symbol.is_empty() => format!("{name} [{}]", u.symbol),
+        _ => name.to_string(),
+    }
+}
+
+fn sweep_table(
+    model: &Model,
+    names: &[String],
+    points: &[Vec<f64>],
+    outcomes: &[Outcome],
+) -> Table {
+    let mut columns: Vec<Column> = model
+        .inputs
+        .iter()
+        .enumerate()
+        .map(|(i, v)| Column {
+            name: v.name.clone(),
+            unit: v.unit.clone().or_else(|| Some(default_unit(&v.base))),
+            cells: points.iter().map(|p| v.shown(p[i])).collect(),
+        })
+        .collect();
+    for (k, name) in names.iter().enumerate() {
+        let cells = outcomes
+            .iter()
+            .map(|o| match &o.values {
+                Ok(vals) => vals[k].clone(),
+                Err(_) => Value::Str("-".into()),
+            })
+            .collect();
+        columns.push(Column {
+            name: name.clone(),
+            unit: probe_unit(outcomes, k),
+            cells,
+        });
+    }
+    if !model.rules.is_empty() {
+        let cells = outcomes
+            .iter()
+            .map(|o| Value::Str(rules_text(model, o)))
+            .collect();
+        columns.push(Column {
+            name: "checks".into(),
+            unit: None,
+            cells,
+        });
+    }
+    if outcomes.iter().any(|o| o.values.is_err()) {
+        let cells = outcomes
+            .iter()
+            .map(|o| Value::Str(o.values.as_ref().err().cloned().unwrap_or_default()))
+            .collect();
+        columns.push(Column {
+            name: "error".into(),
+            unit: None,
+            cells,
+        });
+    }
+    let over: Vec<&str> = model.inputs.iter().map(|v| v.name.as_str()).collect();
+    Table {
+        title: Some(format!("sweep over {}", over.join(" and "))),
+        columns,
+    }
+}
+
+/// `pass`, or the checks that fail at this point.
+fn rules_text(model: &Model, o: &Outcome) -> String {
+    if o.values.is_err() {
+        return "-".into();
+    }
+    if o.broken.is_empty() {
+        return "pass".into();
+    }
+    let texts: Vec<&str> = o
+        .broken
+        .iter()
+        .map(|&i| model.rules[i].text.as_str())
+        .collect();
+    format!("fails: {}", texts.join("; "))
+}
+
+fn sweep_plot(model: &Model, names: &[String], axes: &[Vec<f64>], outcomes: &[Outcome]) -> Plot {
+    let x_var = &model.inputs[0];
+    let x_unit = x_var
+        .unit
+        .clone()
+        .or_else(|| Some(default_unit(&x_var.base)));
+    let xs: Vec<f64> = axes[0]
+        .iter()
+        .map(|&si| in_unit(&x_var.at(si), x_unit.as_ref()))
+        .collect();
+    let unit0 = probe_unit(outcomes, 0);
+    let mut plot = Plot {
+        title: format!("{} over {}", names[0], x_var.name),
+        x_label: axis_label(&x_var.name, x_unit.as_ref()),
+        ..Plot::default()
+    };
+    if axes.len() == 2 {
+        let y_var = &model.inputs[1];
+        let y_unit = y_var
+            .unit
+            .clone()
+            .or_else(|| Some(default_unit(&y_var.base)));
+        plot.y_label = axis_label(&y_var.name, y_unit.as_ref());
+        plot.title = format!("{} over {} and {}", names[0], x_var.name, y_var.name);
+        plot.heat = Some(heat_map(
+            &xs,
+            &axes[1],
+            y_var,
+            y_unit.as_ref(),
+            outcomes,
+            unit0.as_ref(),
+            &names[0],
+        ));
+        return plot;
+    }
+    plot.y_label = match (&unit0, names.len()) {
+        (Some(u), 1) => axis_label(&names[0], Some(u)),
+        (Some(u), _) => format!("[{}]", u.symbol),
+        (None, _) => names[0].clone(),
+    };
+    let dim0 = outcomes.iter().find_map(|o| o.quantity(0)).map(|q| q.dim);
+    for (k, name) in names.iter().enumerate() {
+        let series = line(&xs, outcomes, k, unit0.as_ref(), dim0, name);
+        if let Some(s) = series {
+            plot.series.push(s);
+        }
+    }
+    plot
+}
+
+/// Probe `k` against x, for points where it is a quantity of dimension `dim`.
+fn line(
+    xs: &[f64],
+    outcomes: &[Outcome],
+    k: usize,
+    unit: Option<&Unit>,
+    dim: Option<crate::units::Dim>,
+    name: &str,
+) -> Option<Series> {
+    let mut s = Series {
+        label: name.to_string(),
+        style: SeriesStyle::Line,
+        ..Series::default()
+    };
+    for (x, o) in xs.iter().zip(outcomes) {
+        if let Some(q) = o.quantity(k).filter(|q| Some(q.dim) == dim) {
+            s.x.push(*x);
+            s.y.push(in_unit(&q, unit));
+        }
+    }
+    (!s.x.is_empty()).then_some(s)
+}
+
+fn heat_map(
+    xs: &[f64],
+    y_axis: &[f64],
+    y_var: &Varied,
+    y_unit: Option<&Unit>,
+    outcomes: &[Outcome],
+    z_unit: Option<&Unit>,
+    name: &str,
+) -> HeatMap {
+    let ny = y_axis.len();
+    let ys: Vec<f64> = y_axis
+        .iter()
+        .map(|&si| in_unit(&y_var.at(si), y_unit))
+        .collect();
+    let mut z = vec![f64::NAN; xs.len() * ny];
+    for (index, o) in outcomes.iter().enumerate() {
+        let (i, j) = (index / ny, index % ny);
+        if let Some(q) = o.quantity(0) {
+            z[j * xs.len() + i] = in_unit(&q, z_unit);
+        }
+    }
+    HeatMap {
+        x: xs.to_vec(),
+        y: ys,
+        z,
+        z_label: axis_label(name, z_unit),
+    }
+}
