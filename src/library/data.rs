@@ -231,7 +231,7 @@ fn basis_unit(ratio: &str, basis: &str, whole: &str) -> Result<Option<Unit>, Dat
         .ok_or_else(|| DataError::new(format!("unit table lacks `{kind_unit}`")))?;
     unit.factor *= ratio_unit.factor;
     unit.kind = kind;
-    unit.symbol = whole.to_string();
+    unit.symbol = std::sync::Arc::from(whole);
     Ok(Some(unit))
 }
 
