@@ -233,7 +233,33 @@ impl<'a> Ctx<'a> {
         self.nesting += 1;
         let result = self.expr_kind(e);
         self.nesting -= 1;
+        if let Ok(v @ (Value::List(_) | Value::Record(_))) = &result {
+            self.charge_list(v, e.span)?;
+        }
         result
+    }
+
+    /// Count a list's items against the step budget and refuse a list larger
+    /// than the limit, so that a worksheet cannot exhaust memory.
+    fn charge_list(&mut self, list: &Value, span: Span) -> Flow<()> {
+        let (items, depth) = list_items(list);
+        if depth > MAX_VALUE_DEPTH {
+            let msg = format!("lists and records nested deeper than {MAX_VALUE_DEPTH} levels");
+            return Err(Diagnostic::error(span, msg)
+                .with_hint("does a value contain itself through a chain of names?")
+                .into());
+        }
+        if items > self.limits.max_list_items {
+            let msg = format!(
+                "a list of {items} items is larger than the limit of {}",
+                self.limits.max_list_items
+            );
+            return Err(Diagnostic::error(span, msg)
+                .with_hint("sweep fewer points, or split the work into smaller lists")
+                .into());
+        }
+        self.ops += items as u64;
+        self.tick(span)
     }
 
     fn expr_kind(&mut self, e: &Expr) -> Flow<Value> {
@@ -539,4 +565,31 @@ fn unknown_unit(s: &str, span: Span) -> Diagnostic {
         Some(best) => d.with_hint(format!("did you mean `{best}`?")),
         None => d.with_hint("see `siccant help units` for the units siccant knows"),
     }
+}
+
+/// Deepest nesting of lists and records in one value; deeper values would
+/// overflow the stack when they are copied, shown or dropped.
+const MAX_VALUE_DEPTH: usize = 32;
+
+/// Items in a value's lists (nested lists counted item by item) and its
+/// nesting depth through lists and records, without recursion, so that a
+/// deeply nested value cannot overflow the stack here.
+fn list_items(value: &Value) -> (usize, usize) {
+    let (mut count, mut deepest) = (0usize, 0usize);
+    let mut stack = vec![(value, 0usize)];
+    while let Some((v, depth)) = stack.pop() {
+        deepest = deepest.max(depth);
+        if depth > MAX_VALUE_DEPTH {
+            break;
+        }
+        match v {
+            Value::List(items) => {
+                count = count.saturating_add(items.len());
+                stack.extend(items.iter().map(|i| (i, depth + 1)));
+            }
+            Value::Record(r) => stack.extend(r.fields.iter().map(|(_, f)| (f, depth + 1))),
+            _ => {}
+        }
+    }
+    (count, deepest)
 }

@@ -11,6 +11,9 @@ pub struct Limits {
     pub max_call_depth: usize,
     /// Most expression steps in one `eval`.
     pub max_operations: u64,
+    /// Most items in one list value (nested lists counted item by item); every
+    /// item built also counts as one step.
+    pub max_list_items: usize,
     /// Set from another thread to stop the evaluation.
     pub interrupt: Arc<AtomicBool>,
 }
@@ -20,6 +23,7 @@ impl Default for Limits {
         Limits {
             max_call_depth: 64,
             max_operations: 50_000_000,
+            max_list_items: 1_000_000,
             interrupt: Arc::new(AtomicBool::new(false)),
         }
     }

@@ -31,7 +31,7 @@ impl Ctx<'_> {
         if self.depth >= self.limits.max_call_depth {
             return Err(Diagnostic::error(span, "worksheet loads nested too deeply").into());
         }
-        let text = std::fs::read_to_string(&path)
+        let text = crate::library::data::read_text_file(&path)
             .map_err(|e| Diagnostic::error(path_arg.1, format!("cannot read `{shown}`: {e}")))?;
         let dir = path.parent().map_or_else(PathBuf::new, Path::to_path_buf);
         let file = self.sources.add(shown.clone(), text.clone(), &dir);

@@ -57,11 +57,31 @@ enum ColumnUnit {
 
 /// Read a CSV file with `name [unit]` headers into a table.
 pub fn read_table(path: &Path) -> Result<Table, DataError> {
-    let text = std::fs::read_to_string(path)
+    let text = read_text_file(path)
         .map_err(|e| DataError::new(format!("cannot read `{}`: {e}", path.display())))?;
     let mut table = parse_table(&text)?;
     table.title = path.file_name().map(|n| n.to_string_lossy().into_owned());
     Ok(table)
+}
+
+/// Largest text file a worksheet may read (a CSV table or a loaded worksheet).
+pub const MAX_FILE_BYTES: u64 = 64 * 1024 * 1024;
+
+/// Read a text file of at most [`MAX_FILE_BYTES`]. A device (`/dev/zero`),
+/// a directory or a larger file is an error, never a memory exhaustion.
+pub fn read_text_file(path: &Path) -> std::io::Result<String> {
+    use std::io::{Error, ErrorKind, Read};
+    let file = std::fs::File::open(path)?;
+    if !file.metadata()?.is_file() {
+        return Err(Error::new(ErrorKind::InvalidInput, "not a regular file"));
+    }
+    let mut text = String::new();
+    file.take(MAX_FILE_BYTES + 1).read_to_string(&mut text)?;
+    if text.len() as u64 > MAX_FILE_BYTES {
+        let mb = MAX_FILE_BYTES >> 20;
+        return Err(Error::new(ErrorKind::InvalidData, format!("larger than {mb} MB")));
+    }
+    Ok(text)
 }
 
 /// Parse CSV text with `name [unit]` headers into a table.
@@ -89,6 +109,14 @@ pub fn parse_table(text: &str) -> Result<Table, DataError> {
         .enumerate()
         .map(|(i, h)| parse_header(h, line, i + 1))
         .collect::<Result<_, _>>()?;
+    if let Some(i) = (1..heads.len()).find(|&i| heads[..i].iter().any(|h| h.0 == heads[i].0)) {
+        return Err(DataError::new(format!(
+            "line {line}, column {}: the column `{}` is named twice",
+            i + 1,
+            heads[i].0
+        ))
+        .with_hint("give every column its own name, so that functions can find it"));
+    }
     let mut columns: Vec<Column> = heads
         .iter()
         .map(|(name, unit)| Column {
@@ -618,6 +646,24 @@ mod tests {
             "{text}"
         );
         assert!(parse_table("").is_err());
+    }
+
+    #[test]
+    fn devices_and_directories_are_not_read() {
+        for path in ["/dev/zero", "."] {
+            let e = read_text_file(Path::new(path)).err().map(|e| e.to_string());
+            assert_eq!(e.as_deref(), Some("not a regular file"), "{path}");
+        }
+    }
+
+    #[test]
+    fn a_column_named_twice_is_an_error() {
+        let e = parse_table("t [h], m [g], t [min]\n0, 1, 2\n").err();
+        let msg = e.map(|e| e.message).unwrap_or_default();
+        assert!(
+            msg.contains("column 3: the column `t` is named twice"),
+            "{msg}"
+        );
     }
 
     #[test]

@@ -766,6 +766,10 @@ fn drying_stages(args: &mut Args) -> Result<Value, Diagnostic> {
         &conditions,
     )
     .map_err(|e| blame(&spans, args.call_span, e))?;
+    if chain.iter().any(|s| !s.duration_s.is_finite()) {
+        let msg = "a stage's duration is not a finite number: check the moistures and the load";
+        return Err(Diagnostic::error(args.call_span, msg));
+    }
     let columns = vec![
         Column {
             name: "stage".into(),

@@ -130,6 +130,15 @@ impl CrankSeries {
                 reason: "must lie strictly between 0 and 1",
             });
         }
+        // Below this the series underflows (ln MR = -inf) and no drying
+        // specification needs it.
+        if ratio < MIN_RATIO {
+            return Err(KineticsError::OutOfRange {
+                name: "target moisture ratio",
+                value: ratio,
+                reason: "is below 1e-12, where the series cannot be inverted",
+            });
+        }
         let b1 = self.roots[0];
         let upper = (1.0 / ratio).ln() / (b1 * b1);
         let lower = ((self.coefficients[0] / ratio).ln() / (b1 * b1)).max(0.0) * (1.0 - 1e-6);
@@ -138,6 +147,9 @@ impl CrankSeries {
         Ok(brent_root(f, lower, upper * (1.0 + 1e-12), 1e-15 * upper)?)
     }
 }
+
+/// Smallest moisture ratio [`CrankSeries::fourier_for_ratio`] inverts.
+const MIN_RATIO: f64 = 1e-12;
 
 fn coefficient(shape: Shape, biot: Option<f64>, beta: f64) -> f64 {
     let b2 = beta * beta;
@@ -270,6 +282,13 @@ mod tests {
                 "{shape:?}: {series} vs {short}"
             );
         }
+    }
+
+    #[test]
+    fn a_vanishing_ratio_is_refused_not_underflowed() {
+        let s = CrankSeries::new(Shape::Slab, None, 1e-6).unwrap();
+        assert!(s.fourier_for_ratio(1e-300).is_err());
+        assert!(s.fourier_for_ratio(1e-11).is_ok());
     }
 
     #[test]
