@@ -79,7 +79,10 @@ pub fn read_text_file(path: &Path) -> std::io::Result<String> {
     file.take(MAX_FILE_BYTES + 1).read_to_string(&mut text)?;
     if text.len() as u64 > MAX_FILE_BYTES {
         let mb = MAX_FILE_BYTES >> 20;
-        return Err(Error::new(ErrorKind::InvalidData, format!("larger than {mb} MB")));
+        return Err(Error::new(
+            ErrorKind::InvalidData,
+            format!("larger than {mb} MB"),
+        ));
     }
     Ok(text)
 }
