@@ -31,6 +31,31 @@ pub struct Param {
     pub doc: &'static str,
 }
 
+/// A required parameter (for the `params` lists of family files).
+pub const fn req(name: &'static str, unit: &'static str, doc: &'static str) -> Param {
+    Param {
+        name,
+        unit,
+        default: None,
+        doc,
+    }
+}
+
+/// An optional parameter with its default as the user would write it.
+pub const fn opt(
+    name: &'static str,
+    unit: &'static str,
+    default: &'static str,
+    doc: &'static str,
+) -> Param {
+    Param {
+        name,
+        unit,
+        default: Some(default),
+        doc,
+    }
+}
+
 /// A built-in function with its paper trail.
 #[derive(Clone, Copy, Debug)]
 pub struct Builtin {
