@@ -30,6 +30,21 @@ pub struct Output {
     pub warnings: Vec<Diagnostic>,
 }
 
+/// Sizes of what a [`Session`] keeps between `eval`s (see [`Session::retained`]).
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub struct Retained {
+    /// Source texts kept (entries, cells, loaded files).
+    pub sources: usize,
+    /// Resolved units cached by source position.
+    pub units: usize,
+    /// Resolved units cached by their text.
+    pub unit_texts: usize,
+    /// Definitions.
+    pub definitions: usize,
+    /// Computed values.
+    pub values: usize,
+}
+
 /// Candidates for completing the word that ends at the cursor.
 #[derive(Clone, Debug, Default, PartialEq, Eq)]
 pub struct Completion {
@@ -125,6 +140,9 @@ impl Session {
     /// results in order. All errors found are returned.
     pub fn eval(&mut self, text: &str) -> Result<Output, Vec<Diagnostic>> {
         self.limits.reset();
+        if !self.strict {
+            self.forget_unused_sources();
+        }
         let file = self.add_source(text);
         let parsed = syntax::parse_recovering(text, file);
         let mut early = parsed.errors;
@@ -170,6 +188,29 @@ impl Session {
             _ => format!("<input {}>", self.entries),
         };
         self.sources.add(name, text, &self.sheet.dir.clone())
+    }
+
+    /// Drop the texts of earlier entries that no live definition points into,
+    /// and the units resolved in them, so a long-lived session (REPL, notebook
+    /// kernel) keeps a bounded amount. The last entry's text is dropped only
+    /// here, at the start of the next `eval`, so its diagnostics can still be
+    /// rendered after it ran.
+    fn forget_unused_sources(&mut self) {
+        let live = self.sheet.live_files();
+        self.sources.retain(|id| live.contains(&id));
+        self.sheet.forget_files(&live);
+    }
+
+    /// How many source texts and resolved units this session keeps (for
+    /// checking that a long-lived session stays bounded).
+    pub fn retained(&self) -> Retained {
+        Retained {
+            sources: self.sources.len(),
+            units: self.sheet.units.len(),
+            unit_texts: self.sheet.unit_texts.len(),
+            definitions: self.sheet.defs.len(),
+            values: self.sheet.cache.len(),
+        }
     }
 
     fn apply_pending(&mut self, file: u32) -> Result<(), Vec<Diagnostic>> {
@@ -358,10 +399,13 @@ impl Session {
 /// Render a diagnostic against a source map (codespan-reporting).
 pub fn render_diagnostic(sources: &Sources, d: &Diagnostic, color: bool) -> String {
     let mut files = SimpleFiles::new();
-    for f in sources.files() {
-        files.add(f.name.clone(), f.text.clone());
+    let mut ids: Vec<(u32, usize)> = Vec::new();
+    for file in referenced_files(d) {
+        if let Some(f) = sources.get(file) {
+            ids.push((file, files.add(f.name.clone(), f.text.clone())));
+        }
     }
-    let report = to_report(d, sources);
+    let report = to_report(d, &ids);
     let config = term::Config::default();
     let mut buffer = Ansi::new(Vec::new());
     let result = if color {
@@ -379,25 +423,36 @@ pub fn render_diagnostic(sources: &Sources, d: &Diagnostic, color: bool) -> Stri
     }
 }
 
-fn to_report(d: &Diagnostic, sources: &Sources) -> Report<usize> {
+/// The source files a diagnostic's spans point into, each once.
+fn referenced_files(d: &Diagnostic) -> Vec<u32> {
+    let mut out = vec![d.span.file];
+    for s in d.hints.iter().filter_map(|(s, _)| *s) {
+        if !out.contains(&s.file) {
+            out.push(s.file);
+        }
+    }
+    out
+}
+
+/// `ids` maps source file ids to the ids of the files given to the renderer.
+fn to_report(d: &Diagnostic, ids: &[(u32, usize)]) -> Report<usize> {
     let base = match d.severity {
         Severity::Error => Report::error(),
         Severity::Warning => Report::warning(),
     };
+    let shown = |file: u32| ids.iter().find(|(f, _)| *f == file).map(|(_, i)| *i);
     let mut labels = Vec::new();
     let mut notes = Vec::new();
-    if sources.get(d.span.file).is_some() {
+    if let Some(i) = shown(d.span.file) {
         labels.push(Label::primary(
-            d.span.file as usize,
+            i,
             d.span.start as usize..d.span.end as usize,
         ));
     }
     for (span, hint) in &d.hints {
-        match span {
-            Some(s) if sources.get(s.file).is_some() => labels.push(
-                Label::secondary(s.file as usize, s.start as usize..s.end as usize)
-                    .with_message(hint),
-            ),
+        match span.and_then(|s| shown(s.file).map(|i| (s, i))) {
+            Some((s, i)) => labels
+                .push(Label::secondary(i, s.start as usize..s.end as usize).with_message(hint)),
             _ => notes.push(format!("hint: {hint}")),
         }
     }

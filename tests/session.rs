@@ -129,3 +129,44 @@ fn set_input_overrides_before_eval() {
     );
     assert_eq!(shown(&mut s, "input L = 1\ny = L * 3\ny"), "6");
 }
+
+#[test]
+fn a_long_lived_session_keeps_a_bounded_amount_between_cells() {
+    let mut s = Session::new();
+    s.eval("keep = 3 kg").expect("first cell");
+    let after_warm_up = {
+        for _ in 0..50 {
+            s.eval("x = 1 m").expect("definition");
+            s.eval("x + 1 m").expect("expression");
+            s.eval("x as cm").expect("conversion");
+        }
+        s.retained()
+    };
+    for _ in 0..5_000 {
+        s.eval("x = 1 m").expect("definition");
+        s.eval("x + 1 m").expect("expression");
+        s.eval("x as cm").expect("conversion");
+    }
+    let r = s.retained();
+    assert_eq!(r, after_warm_up, "retained collections grew with cells");
+    // `keep`, `x` and the last cell's text: nothing more.
+    assert_eq!(r.sources, 3);
+    assert_eq!(r.definitions, 2);
+    assert_eq!(shown(&mut s, "keep"), "3 kg");
+}
+
+#[test]
+fn an_old_cell_that_is_still_defined_keeps_its_source_for_diagnostics() {
+    let mut s = Session::new();
+    assert!(s.eval("a = 2 m\nbad = a + 1 s").is_err());
+    for _ in 0..100 {
+        s.eval("y = 1 m").expect("definition");
+    }
+    let errors = s.eval("bad").expect_err("still a dimension error");
+    let shown: String = errors
+        .iter()
+        .map(|d| s.render_diagnostic(d, false))
+        .collect();
+    assert!(shown.contains("bad = a + 1 s"), "{shown}");
+    assert!(shown.contains("<input 1>"), "{shown}");
+}

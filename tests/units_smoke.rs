@@ -15,7 +15,7 @@ fn worked_example_from_issue() {
     let x1 = u("db").to_si(1.40);
     assert_eq!(format_quantity(&x1, Some(&u("wb"))), "0.5833 wb");
     let htc = u("BTU").div(&u("h").mul(&u("ft").powi(2)).mul(&u("degF")));
-    assert_eq!(htc.symbol, "BTU/(h*ft^2*degF)");
+    assert_eq!(&*htc.symbol, "BTU/(h*ft^2*degF)");
     let big_u = htc.to_si(5.0);
     let si = u("W").div(&u("m").powi(2).mul(&u("K")));
     assert_eq!(format_quantity(&big_u, Some(&si)), "28.39 W/(m^2*K)");

@@ -414,7 +414,7 @@ fn si_prefixes() {
         let b = lookup_unit(base).unwrap();
         assert_eq!(u.dim, b.dim, "{sym}");
         assert!(relative_error(u.factor, b.factor * factor) < 1e-15, "{sym}");
-        assert_eq!(u.symbol, sym);
+        assert_eq!(&*u.symbol, sym);
     }
 }
 

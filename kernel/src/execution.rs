@@ -28,10 +28,10 @@ pub struct Executed {
     pub error: Option<ErrorOutput>,
 }
 
-/// Evaluate `cell` in the worksheet. The interrupt flag is cleared first, so
-/// an interrupt that arrived while idle does not stop the next cell.
+/// Evaluate `cell` in the worksheet. The router clears the interrupt flag
+/// before it announces the cell, so an interrupt that arrived while idle does
+/// not stop it and one sent after `execute_input` is never lost.
 pub fn execute(sheet: &mut Worksheet, cell: &Cell, interrupt: &AtomicBool) -> Executed {
-    interrupt.store(false, Ordering::SeqCst);
     let result = sheet.session.eval(&cell.code);
     let interrupted = interrupt.swap(false, Ordering::SeqCst);
     let executed = match result {

@@ -256,6 +256,9 @@ impl Router {
             self.execution_count += 1;
         }
         let count = self.execution_count;
+        // Clear a stale interrupt before the client learns the cell started, so an
+        // interrupt sent after execute_input is never lost.
+        self.ctx.interrupt.store(false, Ordering::SeqCst);
         if !ex.silent {
             let input = ExecuteInput {
                 code: ex.code.clone(),

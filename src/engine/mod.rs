@@ -15,4 +15,3 @@ pub mod stats;
 pub mod thin_layer;
 pub mod transfer;
 pub mod transport;
-

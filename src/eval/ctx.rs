@@ -354,7 +354,14 @@ impl<'a> Ctx<'a> {
 
     fn unary(&mut self, op: UnaryOp, a: &Expr, span: Span) -> Flow<Value> {
         // `-10 degC` is a negative reading on the scale, not the negation of an absolute temperature.
-        if let (UnaryOp::Neg, ExprKind::Quantity { value, unit: Some(unit) }) = (op, &a.kind) {
+        if let (
+            UnaryOp::Neg,
+            ExprKind::Quantity {
+                value,
+                unit: Some(unit),
+            },
+        ) = (op, &a.kind)
+        {
             return self.quantity(-*value, Some(unit), span);
         }
         let v = self.expr(a)?;

@@ -12,6 +12,10 @@ use crate::syntax::{Expr, Ident, Stmt, StmtKind};
 use crate::units::Unit;
 use crate::value::Value;
 
+/// Most distinct unit texts cached before the by-text cache is emptied (it
+/// refills on use; this only bounds a long-lived session).
+pub const MAX_UNIT_TEXTS: usize = 4096;
+
 /// What a definition defines.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum DefKind {
@@ -210,6 +214,23 @@ impl Sheet {
             }
         }
         self.cache.retain(|k, _| !dirty.contains(k));
+    }
+
+    /// Source files a live definition points into (its statement and name).
+    pub fn live_files(&self) -> HashSet<u32> {
+        self.defs
+            .values()
+            .flat_map(|d| [d.span.file, d.name.span.file])
+            .collect()
+    }
+
+    /// Forget resolved units of source files no longer kept, and the by-text
+    /// unit cache when it has grown past [`MAX_UNIT_TEXTS`] entries.
+    pub fn forget_files(&mut self, live: &HashSet<u32>) {
+        self.units.retain(|(file, _), _| live.contains(file));
+        if self.unit_texts.len() > MAX_UNIT_TEXTS {
+            self.unit_texts.clear();
+        }
     }
 
     /// Names of the inputs, in definition order.

@@ -79,7 +79,10 @@ pub fn read_text_file(path: &Path) -> std::io::Result<String> {
     file.take(MAX_FILE_BYTES + 1).read_to_string(&mut text)?;
     if text.len() as u64 > MAX_FILE_BYTES {
         let mb = MAX_FILE_BYTES >> 20;
-        return Err(Error::new(ErrorKind::InvalidData, format!("larger than {mb} MB")));
+        return Err(Error::new(
+            ErrorKind::InvalidData,
+            format!("larger than {mb} MB"),
+        ));
     }
     Ok(text)
 }
@@ -259,7 +262,7 @@ fn basis_unit(ratio: &str, basis: &str, whole: &str) -> Result<Option<Unit>, Dat
         .ok_or_else(|| DataError::new(format!("unit table lacks `{kind_unit}`")))?;
     unit.factor *= ratio_unit.factor;
     unit.kind = kind;
-    unit.symbol = whole.to_string();
+    unit.symbol = std::sync::Arc::from(whole);
     Ok(Some(unit))
 }
 

@@ -23,11 +23,14 @@ use crate::engine::dryers::continuous::{Belt, BeltResult, Flow, Zone};
 use crate::engine::dryers::product::{Equilibrium, FallingRate, Product, Surface};
 use crate::engine::dryers::rotary::{Rotary, RotaryResult};
 use crate::engine::dryers::{ergun, Closure, DryerError, EnergyFlows, CAUTIONS};
+use crate::engine::sorption::{Isotherm, Material};
 use crate::engine::transfer;
 use crate::engine::transport::Transport;
 use crate::library::air::{air_record, AirPayload};
+use crate::library::sorption::isotherm_record;
+use crate::render::plot::{drying_curve, AxisUnits, Curve, PlotBuilder};
 use crate::units::{parse_unit, Dim, Kind, Quantity};
-use crate::value::{Column, Payload, Record, Table, Value};
+use crate::value::{Column, Payload, Plot, Record, SeriesStyle, Table, Value};
 
 mod params;
 use params::*;
@@ -179,9 +182,7 @@ impl Blame {
         let key = match &e {
             DryerError::Invalid { name, .. } => *name,
             DryerError::BelowEquilibrium { .. } => "target",
-            DryerError::AirSaturates { what } if what.starts_with("the supply air") => {
-                "supply air"
-            }
+            DryerError::AirSaturates { what } if what.starts_with("the supply air") => "supply air",
             DryerError::AirSaturates { .. } => "saturates",
             DryerError::NotConverged { .. } | DryerError::Air(_) => "",
         };
@@ -291,7 +292,13 @@ fn moisture(args: &mut Args, name: &str) -> Result<f64, Diagnostic> {
     let span = args.span_of(name);
     let x = kinded(args, name, Dim::NONE, Kind::Moisture)?;
     let x = required(args, name, x)?;
-    checked(span, name, x, x >= 0.0, "a moisture content of at least 0 db")
+    checked(
+        span,
+        name,
+        x,
+        x >= 0.0,
+        "a moisture content of at least 0 db",
+    )
 }
 
 /// An absolute temperature, K.
@@ -318,7 +325,13 @@ fn fraction_or(args: &mut Args, name: &str, default: f64) -> Result<f64, Diagnos
 }
 
 /// A whole number between `lo` and `hi`.
-fn count(args: &mut Args, name: &str, lo: usize, hi: usize, default: Option<usize>) -> Result<usize, Diagnostic> {
+fn count(
+    args: &mut Args,
+    name: &str,
+    lo: usize,
+    hi: usize,
+    default: Option<usize>,
+) -> Result<usize, Diagnostic> {
     let span = args.span_of(name);
     let Some(q) = args.opt_quantity(name, Dim::NONE)? else {
         return required(args, name, default);
@@ -327,14 +340,22 @@ fn count(args: &mut Args, name: &str, lo: usize, hi: usize, default: Option<usiz
     if (q.si - n).abs() > 1e-9 || n < lo as f64 || n > hi as f64 {
         return Err(Diagnostic::error(
             span,
-            format!("`{name}` must be a whole number from {lo} to {hi}, got {}", q.si),
+            format!(
+                "`{name}` must be a whole number from {lo} to {hi}, got {}",
+                q.si
+            ),
         ));
     }
     Ok(n as usize)
 }
 
 /// A word from a list, with a default.
-fn word(args: &mut Args, name: &str, allowed: &[&str], default: &str) -> Result<String, Diagnostic> {
+fn word(
+    args: &mut Args,
+    name: &str,
+    allowed: &[&str],
+    default: &str,
+) -> Result<String, Diagnostic> {
     let Some(arg) = args.take(name) else {
         return Ok(default.to_string());
     };
@@ -472,11 +493,6 @@ fn energy_table(f: &EnergyFlows, dim: Dim, unit: &str) -> Table {
         per_kg.push(q(amount / f.water, Dim::SPECIFIC_ENERGY, Kind::Plain));
         shares.push(q(amount / f.heater, Dim::NONE, Kind::Fraction));
     }
-    names.push(Value::Str("closure (heater - outflows)".into()));
-    let rest = f.heater - f.outflows();
-    amounts.push(q(rest, dim, Kind::Plain));
-    per_kg.push(q(rest / f.water, Dim::SPECIFIC_ENERGY, Kind::Plain));
-    shares.push(q(rest / f.heater, Dim::NONE, Kind::Fraction));
     Table {
         title: Some("energy flows".into()),
         columns: vec![
@@ -485,6 +501,23 @@ fn energy_table(f: &EnergyFlows, dim: Dim, unit: &str) -> Table {
             column("per kg water", Some("kJ/kg"), per_kg),
             column("share of heater", Some("%"), shares),
         ],
+    }
+}
+
+/// Builder helpers for dryer records.
+trait DryerRecord {
+    /// The `exhaust_margin` field (exhaust temperature above its dew point), left
+    /// out when the exhaust is bone dry and has no dew point.
+    fn with_margin(self, margin: f64) -> Record;
+}
+
+impl DryerRecord for Record {
+    fn with_margin(self, margin: f64) -> Record {
+        if margin.is_finite() {
+            self.with("exhaust_margin", delta_t(margin))
+        } else {
+            self
+        }
     }
 }
 
@@ -503,21 +536,129 @@ fn warn_all(args: &mut Args, warnings: &[String]) {
 // wet_product
 // ---------------------------------------------------------------------------
 
+/// The isotherm in a sorption record: an `isotherm`, a `material`, or a fit with an `isotherm` field.
+fn isotherm_of(record: &Record) -> Option<Isotherm> {
+    if let Some(iso) = record.payload::<Isotherm>() {
+        return Some(iso.clone());
+    }
+    if let Some(m) = record.payload::<Material>() {
+        return Some(m.isotherm.clone());
+    }
+    match record.get("isotherm") {
+        Some(Value::Record(inner)) => inner.payload::<Isotherm>().cloned(),
+        _ => None,
+    }
+}
+
+/// The `material` argument, if given.
+fn material_arg(args: &mut Args) -> Result<Option<Material>, Diagnostic> {
+    let Some(arg) = args.take("material") else {
+        return Ok(None);
+    };
+    match &arg.value {
+        Value::Record(r) if r.payload::<Material>().is_some() => {
+            Ok(r.payload::<Material>().cloned())
+        }
+        other => Err(Diagnostic::error(
+            arg.span,
+            format!(
+                "`material` must be a material record (from the sorption family), found {}",
+                type_word(other)
+            ),
+        )),
+    }
+}
+
+/// `X_eq`: a constant moisture, or an isotherm (isotherm, material or fit record).
+fn equilibrium_arg(
+    args: &mut Args,
+    material: Option<&Material>,
+) -> Result<(Equilibrium, Value), Diagnostic> {
+    let from_material = material.map(|m| m.isotherm.clone());
+    let Some(arg) = args.take("X_eq") else {
+        return Ok(match from_material {
+            Some(iso) => isotherm_equilibrium(iso),
+            None => (Equilibrium::Constant(0.0), moisture_v(0.0)),
+        });
+    };
+    match &arg.value {
+        Value::Record(r) => isotherm_of(r).map(isotherm_equilibrium).ok_or_else(|| {
+            Diagnostic::error(
+                arg.span,
+                format!(
+                    "`X_eq` must be a moisture content or an isotherm, found {}",
+                    type_word(&arg.value)
+                ),
+            )
+        }),
+        Value::Quantity(q, _) => {
+            let x = q
+                .expect_kind(Dim::NONE, Kind::Moisture)
+                .map_err(|e| Diagnostic::error(arg.span, format!("`X_eq`: {e}")))?
+                .si;
+            let x = checked(
+                arg.span,
+                "X_eq",
+                x,
+                x >= 0.0,
+                "a moisture content of at least 0 db",
+            )?;
+            Ok((Equilibrium::Constant(x), moisture_v(x)))
+        }
+        other => Err(Diagnostic::error(
+            arg.span,
+            format!(
+                "`X_eq` must be a moisture content or an isotherm, found {}",
+                type_word(other)
+            ),
+        )),
+    }
+}
+
+/// Equilibrium from an isotherm, at the air's temperature and relative humidity.
+fn isotherm_equilibrium(iso: Isotherm) -> (Equilibrium, Value) {
+    let shown = Value::Record(isotherm_record(iso.clone()));
+    let curve = move |t_k: f64, rh: f64| iso.moisture_raw(rh.clamp(0.0, 1.0), t_k);
+    (Equilibrium::Curve(Arc::new(curve)), shown)
+}
+
 fn wet_product(args: &mut Args) -> Result<Value, Diagnostic> {
-    let cp = positive(args, "cp_solid", Dim::SPECIFIC_HEAT)?;
-    let xc = moisture(args, "X_critical")?;
+    let material = material_arg(args)?;
+    let cp_span = args.span_of("cp_solid");
+    let cp = match (args.has("cp_solid"), &material) {
+        (false, Some(m)) => m.cp_solid.value,
+        _ => positive(args, "cp_solid", Dim::SPECIFIC_HEAT)?,
+    };
+    let xc = match (
+        args.has("X_critical"),
+        material.as_ref().and_then(|m| m.critical_moisture_db),
+    ) {
+        (false, Some(x)) => x,
+        _ => moisture(args, "X_critical")?,
+    };
     let xe_span = args.span_of("X_eq");
-    let xe = kinded(args, "X_eq", Dim::NONE, Kind::Moisture)?.unwrap_or(0.0);
-    checked(xe_span, "X_eq", xe, (0.0..=xc).contains(&xe), "between 0 db and X_critical")?;
+    let (equilibrium, xe_value) = equilibrium_arg(args, material.as_ref())?;
+    if let Equilibrium::Constant(xe) = equilibrium {
+        checked(xe_span, "X_eq", xe, xe <= xc, "between 0 db and X_critical")?;
+    }
     let n_span = args.span_of("exponent");
-    let n = args.opt_quantity("exponent", Dim::NONE)?.map_or(1.0, |q| q.si);
+    let n = args
+        .opt_quantity("exponent", Dim::NONE)?
+        .map_or(1.0, |q| q.si);
     checked(n_span, "exponent", n, n > 0.0, "positive")?;
-    let t_max = temperature(args, "T_max")?;
+    let t_max = match temperature(args, "T_max")? {
+        Some(t) => Some(t),
+        None => material
+            .as_ref()
+            .and_then(|m| m.max_product_temperature)
+            .map(|t| t.value),
+    };
     args.finish()?;
+    checked(cp_span, "cp_solid", cp, cp > 0.0, "positive")?;
     let product = Product {
         cp_solid_j_per_kg_k: cp,
         x_critical_db: xc,
-        equilibrium: Equilibrium::Constant(xe),
+        equilibrium,
         falling: if n == 1.0 {
             FallingRate::Linear
         } else {
@@ -528,7 +669,7 @@ fn wet_product(args: &mut Args) -> Result<Value, Diagnostic> {
     let mut r = Record::new("wet_product")
         .with("cp_solid", q(cp, Dim::SPECIFIC_HEAT, Kind::Plain))
         .with("X_critical", moisture_v(xc))
-        .with("X_eq", moisture_v(xe))
+        .with("X_eq", xe_value)
         .with("exponent", number(n));
     if let Some(t) = t_max {
         r = r.with("T_max", abs_t(t));
@@ -562,7 +703,13 @@ fn belt_zone(args: &mut Args) -> Result<Value, Diagnostic> {
     let m = positive(args, "air_flow", Dim::MASS_FLOW)?;
     let h = positive(args, "h", Dim::HEAT_TRANSFER_COEFFICIENT)?;
     let length = match args.opt_quantity("length", Dim::LENGTH)? {
-        Some(l) => Some(checked(blame.span("length"), "length", l.si, l.si > 0.0, "positive")?),
+        Some(l) => Some(checked(
+            blame.span("length"),
+            "length",
+            l.si,
+            l.si > 0.0,
+            "positive",
+        )?),
         None => None,
     };
     let flow = flow_direction(args, "cocurrent")?;
@@ -596,10 +743,20 @@ fn zone_record(zone: Zone) -> Record {
     }
     r = r
         .with("T_supply", abs_t(zone.supply_t_k))
-        .with("air_flow", q(zone.dry_air_kg_per_s, Dim::MASS_FLOW, Kind::Plain))
+        .with(
+            "air_flow",
+            q(zone.dry_air_kg_per_s, Dim::MASS_FLOW, Kind::Plain),
+        )
         .with("recirculated", fraction_v(zone.recirculated))
         .with("flow", Value::Str(flow.into()))
-        .with("h", q(zone.surface.h_w_per_m2_k, Dim::HEAT_TRANSFER_COEFFICIENT, Kind::Plain))
+        .with(
+            "h",
+            q(
+                zone.surface.h_w_per_m2_k,
+                Dim::HEAT_TRANSFER_COEFFICIENT,
+                Kind::Plain,
+            ),
+        )
         .with("lewis", number(zone.surface.lewis));
     r.payload = Some(Arc::new(ZonePayload(zone)));
     r
@@ -613,25 +770,30 @@ fn zones_arg(args: &mut Args) -> Result<Vec<Zone>, Diagnostic> {
         one => vec![one],
     };
     if items.is_empty() {
-        return Err(Diagnostic::error(arg.span, "`zones` needs at least one belt_zone"));
+        return Err(Diagnostic::error(
+            arg.span,
+            "`zones` needs at least one belt_zone",
+        ));
     }
     items
         .iter()
         .enumerate()
-        .map(|(i, v)| match v {
-            Value::Record(r) => r.payload::<ZonePayload>().map(|z| z.0.clone()),
-            _ => None,
-        }
-        .ok_or_else(|| {
-            Diagnostic::error(
-                arg.span,
-                format!(
-                    "`zones` item {} must be a belt_zone(...), found {}",
-                    i + 1,
-                    type_word(v)
-                ),
-            )
-        }))
+        .map(|(i, v)| {
+            match v {
+                Value::Record(r) => r.payload::<ZonePayload>().map(|z| z.0.clone()),
+                _ => None,
+            }
+            .ok_or_else(|| {
+                Diagnostic::error(
+                    arg.span,
+                    format!(
+                        "`zones` item {} must be a belt_zone(...), found {}",
+                        i + 1,
+                        type_word(v)
+                    ),
+                )
+            })
+        })
         .collect()
 }
 
@@ -663,7 +825,13 @@ fn belt_dryer(args: &mut Args) -> Result<Value, Diagnostic> {
         x_target_db: moisture(args, "X_out")?,
         t_in_k: temperature(args, "T_product")?.unwrap_or(fresh_t),
         area_per_belt_area: match args.opt_quantity("area_ratio", Dim::NONE)? {
-            Some(a) => checked(blame.span("area_ratio"), "area_ratio", a.si, a.si > 0.0, "positive")?,
+            Some(a) => checked(
+                blame.span("area_ratio"),
+                "area_ratio",
+                a.si,
+                a.si > 0.0,
+                "positive",
+            )?,
             None => 1.0,
         },
         ambient_t_k: temperature(args, "ambient")?.unwrap_or(fresh_t),
@@ -676,18 +844,33 @@ fn belt_dryer(args: &mut Args) -> Result<Value, Diagnostic> {
 }
 
 fn belt_record(belt: &Belt, r: &BeltResult) -> Record {
-    let lengths = r.zones.iter().map(|z| q(z.length_m, Dim::LENGTH, Kind::Plain)).collect();
+    let lengths = r
+        .zones
+        .iter()
+        .map(|z| q(z.length_m, Dim::LENGTH, Kind::Plain))
+        .collect();
     let margin = r
         .zones
         .iter()
         .filter_map(|z| dew_margin(&z.exhaust))
         .fold(f64::INFINITY, f64::min);
-    let rh_max = r.zones.iter().map(|z| z.exhaust.relative_humidity()).fold(0.0, f64::max);
-    let t_max = r.profile.iter().map(|p| p.t_product_k).fold(r.t_out_k, f64::max);
+    let rh_max = r
+        .zones
+        .iter()
+        .map(|z| z.exhaust.relative_humidity())
+        .fold(0.0, f64::max);
+    let t_max = r
+        .profile
+        .iter()
+        .map(|p| p.t_product_k)
+        .fold(r.t_out_k, f64::max);
     let rec = Record::new("belt_dryer")
         .with("length", shown(r.length_m, Dim::LENGTH, "m"))
         .with("residence_time", shown(r.residence_s, Dim::TIME, "min"))
-        .with("belt_speed", shown(r.belt_speed_m_per_s, Dim::VELOCITY, "m/min"))
+        .with(
+            "belt_speed",
+            shown(r.belt_speed_m_per_s, Dim::VELOCITY, "m/min"),
+        )
         .with("zone_lengths", Value::List(lengths))
         .with("X_out", moisture_v(r.x_out_db))
         .with("T_out", abs_t(r.t_out_k))
@@ -698,13 +881,24 @@ fn belt_record(belt: &Belt, r: &BeltResult) -> Record {
     let rec = with_merit(rec, &r.flows, r.latent_minimum_j_per_kg);
     let rec = with_closure(rec, &r.closure)
         .with("preheat_length", shown(r.periods_m[0], Dim::LENGTH, "m"))
-        .with("constant_rate_length", shown(r.periods_m[1], Dim::LENGTH, "m"))
-        .with("falling_rate_length", shown(r.periods_m[2], Dim::LENGTH, "m"))
-        .with("exhaust_margin", delta_t(margin))
+        .with(
+            "constant_rate_length",
+            shown(r.periods_m[1], Dim::LENGTH, "m"),
+        )
+        .with(
+            "falling_rate_length",
+            shown(r.periods_m[2], Dim::LENGTH, "m"),
+        )
+        .with_margin(margin)
         .with("exhaust_rh_max", q(rh_max, Dim::NONE, Kind::Activity))
         .with("zones", Value::Table(zones_table(belt, r)))
-        .with("energy", Value::Table(energy_table(&r.flows, Dim::POWER, "kW")))
+        .with(
+            "energy",
+            Value::Table(energy_table(&r.flows, Dim::POWER, "kW")),
+        )
         .with("profile", Value::Table(profile_table(r)));
+    let rec = with_plot(rec, "moisture_plot", moisture_profile_plot(r));
+    let rec = with_plot(rec, "temperature_plot", temperature_profile_plot(r));
     rec.with("cautions", cautions())
 }
 
@@ -722,7 +916,10 @@ fn zones_table(belt: &Belt, r: &BeltResult) -> Table {
         ("fan", Some("kW"), vec![]),
     ];
     for (i, (z, spec)) in r.zones.iter().zip(&belt.zones).enumerate() {
-        let dew = z.exhaust.dew_point().map_or(f64::NAN, |d| d.value);
+        let dew = z
+            .exhaust
+            .dew_point()
+            .map_or(Value::Str("none".into()), |d| abs_t(d.value));
         let flow = match spec.flow {
             Flow::Cocurrent => "cocurrent",
             Flow::Countercurrent => "countercurrent",
@@ -734,7 +931,7 @@ fn zones_table(belt: &Belt, r: &BeltResult) -> Table {
             q(z.residence_s, Dim::TIME, Kind::Plain),
             abs_t(z.supply.t_kelvin()),
             abs_t(z.exhaust.t_kelvin()),
-            abs_t(dew),
+            dew,
             q(z.exhaust.relative_humidity(), Dim::NONE, Kind::Activity),
             q(z.heater_w, Dim::POWER, Kind::Plain),
             q(z.fan_w, Dim::POWER, Kind::Plain),
@@ -754,11 +951,33 @@ fn profile_table(r: &BeltResult) -> Table {
     Table {
         title: Some("profile along the belt".into()),
         columns: vec![
-            column("z", Some("m"), p.iter().map(|p| q(p.z_m, Dim::LENGTH, Kind::Plain)).collect()),
-            column("zone", None, p.iter().map(|p| number((p.zone + 1) as f64)).collect()),
-            column("X", Some("db"), p.iter().map(|p| moisture_v(p.x_db)).collect()),
-            column("T product", Some("degC"), p.iter().map(|p| abs_t(p.t_product_k)).collect()),
-            column("T air", Some("degC"), p.iter().map(|p| abs_t(p.air.t_kelvin())).collect()),
+            column(
+                "z",
+                Some("m"),
+                p.iter()
+                    .map(|p| q(p.z_m, Dim::LENGTH, Kind::Plain))
+                    .collect(),
+            ),
+            column(
+                "zone",
+                None,
+                p.iter().map(|p| number((p.zone + 1) as f64)).collect(),
+            ),
+            column(
+                "X",
+                Some("db"),
+                p.iter().map(|p| moisture_v(p.x_db)).collect(),
+            ),
+            column(
+                "T product",
+                Some("degC"),
+                p.iter().map(|p| abs_t(p.t_product_k)).collect(),
+            ),
+            column(
+                "T air",
+                Some("degC"),
+                p.iter().map(|p| abs_t(p.air.t_kelvin())).collect(),
+            ),
             column(
                 "w air",
                 Some("g/kg_da"),
@@ -825,7 +1044,13 @@ fn batch_air(args: &mut Args, blame: &Blame) -> Result<BatchAir, Diagnostic> {
         t_product: temperature(args, "T_product")?.unwrap_or(fresh.t_kelvin()),
         ambient: temperature(args, "ambient")?.unwrap_or(fresh.t_kelvin()),
         max_time_s: match args.opt_quantity("max_time", Dim::TIME)? {
-            Some(t) => checked(blame.span("max_time"), "max_time", t.si, t.si > 0.0, "positive")?,
+            Some(t) => checked(
+                blame.span("max_time"),
+                "max_time",
+                t.si,
+                t.si > 0.0,
+                "positive",
+            )?,
             None => 100.0 * 3600.0,
         },
     })
@@ -871,7 +1096,12 @@ fn tray_dryer(args: &mut Args) -> Result<Value, Diagnostic> {
         h_w_per_m2_k: positive(args, "h", Dim::HEAT_TRANSFER_COEFFICIENT)?,
         lewis: lewis(args, &air.supply)?,
     };
-    let wall_loss = non_negative_or(args, "wall_loss", Dim::HEAT_TRANSFER_COEFFICIENT * Dim::AREA, 0.0)?;
+    let wall_loss = non_negative_or(
+        args,
+        "wall_loss",
+        Dim::HEAT_TRANSFER_COEFFICIENT * Dim::AREA,
+        0.0,
+    )?;
     let fan = fan(args)?;
     args.finish()?;
     let element = Element {
@@ -894,13 +1124,22 @@ fn batch_record(type_name: &str, r: &BatchResult, times_name: &str, element: &st
         .iter()
         .map(|t| shown(*t, Dim::TIME, "h"))
         .collect();
-    let t = r.batch_time_s.max(f64::MIN_POSITIVE);
+    // The energies run to the end of the last time step (just past the batch time).
+    let t = r
+        .history
+        .last()
+        .map_or(r.batch_time_s, |s| s.t_s)
+        .max(f64::MIN_POSITIVE);
     let margin = r
         .history
         .iter()
         .filter_map(|s| dew_margin(&s.exhaust))
         .fold(f64::INFINITY, f64::min);
-    let rh_max = r.history.iter().map(|s| s.exhaust.relative_humidity()).fold(0.0, f64::max);
+    let rh_max = r
+        .history
+        .iter()
+        .map(|s| s.exhaust.relative_humidity())
+        .fold(0.0, f64::max);
     let t_max = r
         .history
         .iter()
@@ -915,9 +1154,10 @@ fn batch_record(type_name: &str, r: &BatchResult, times_name: &str, element: &st
         .with("fan", shown(f.fan / t, Dim::POWER, "kW"))
         .with("fan_energy", shown(f.fan, Dim::ENERGY, "kWh"));
     let rec = with_merit(rec, f, r.latent_minimum_j_per_kg);
+    let rec = with_plot(rec, "drying_plot", drying_plot(&r.history, element));
     with_closure(rec, &r.closure)
         .with("T_product_max", abs_t(t_max))
-        .with("exhaust_margin", delta_t(margin))
+        .with_margin(margin)
         .with("exhaust_rh_max", q(rh_max, Dim::NONE, Kind::Activity))
         .with("energy", Value::Table(energy_table(f, Dim::ENERGY, "kWh")))
         .with("history", Value::Table(history_table(&r.history, element)))
@@ -941,7 +1181,9 @@ fn history_table(history: &[BatchSample], element: &str) -> Table {
     let mut columns = vec![column(
         "t",
         Some("h"),
-        rows.iter().map(|s| q(s.t_s, Dim::TIME, Kind::Plain)).collect(),
+        rows.iter()
+            .map(|s| q(s.t_s, Dim::TIME, Kind::Plain))
+            .collect(),
     )];
     for i in 0..n {
         columns.push(column(
@@ -952,10 +1194,26 @@ fn history_table(history: &[BatchSample], element: &str) -> Table {
     }
     let last = n.saturating_sub(1);
     columns.extend([
-        column("T product first", Some("degC"), rows.iter().map(|s| abs_t(s.t_product_k[0])).collect()),
-        column("T product last", Some("degC"), rows.iter().map(|s| abs_t(s.t_product_k[last])).collect()),
-        column("T supply", Some("degC"), rows.iter().map(|s| abs_t(s.supply.t_kelvin())).collect()),
-        column("T exhaust", Some("degC"), rows.iter().map(|s| abs_t(s.exhaust.t_kelvin())).collect()),
+        column(
+            "T product first",
+            Some("degC"),
+            rows.iter().map(|s| abs_t(s.t_product_k[0])).collect(),
+        ),
+        column(
+            "T product last",
+            Some("degC"),
+            rows.iter().map(|s| abs_t(s.t_product_k[last])).collect(),
+        ),
+        column(
+            "T supply",
+            Some("degC"),
+            rows.iter().map(|s| abs_t(s.supply.t_kelvin())).collect(),
+        ),
+        column(
+            "T exhaust",
+            Some("degC"),
+            rows.iter().map(|s| abs_t(s.exhaust.t_kelvin())).collect(),
+        ),
         column(
             "w exhaust",
             Some("g/kg_da"),
@@ -1014,9 +1272,15 @@ fn bed_arg(args: &mut Args, blame: &Blame) -> Result<Bed, Diagnostic> {
     let area = positive(args, "bed_area", Dim::AREA)?;
     let dp = positive(args, "particle_diameter", Dim::LENGTH)?;
     let e = args.quantity("voidage", Dim::NONE)?.si;
-    checked(blame.span("voidage"), "voidage", e, e > 0.0 && e < 1.0, "a fraction between 0 and 1")?;
+    checked(
+        blame.span("voidage"),
+        "voidage",
+        e,
+        e > 0.0 && e < 1.0,
+        "a fraction between 0 and 1",
+    )?;
     let bulk = positive(args, "bulk_density", Dim::DENSITY)?;
-    let layers = count(args, "layers", 2, 200, Some(20))?;
+    let layers = count(args, "layers", 2, 200, Some(10))?;
     Ok(Bed {
         depth,
         area,
@@ -1028,7 +1292,13 @@ fn bed_arg(args: &mut Args, blame: &Blame) -> Result<Bed, Diagnostic> {
 }
 
 /// Wakao-Kaguei film coefficient at the supply air, with its range warnings.
-fn packed_bed_h(args: &mut Args, blame: &Blame, supply: &AirState, u: f64, dp: f64) -> Result<f64, Diagnostic> {
+fn packed_bed_h(
+    args: &mut Args,
+    blame: &Blame,
+    supply: &AirState,
+    u: f64,
+    dp: f64,
+) -> Result<f64, Diagnostic> {
     let t = Transport::of(supply);
     let re = t.density_kg_per_m3 * u * dp / t.viscosity_pa_s;
     let nu = transfer::packed_bed_wakao_kaguei(re, t.prandtl())
@@ -1054,7 +1324,12 @@ fn deep_bed(args: &mut Args) -> Result<Value, Diagnostic> {
         h_w_per_m2_k: h,
         lewis: lewis(args, &air.supply)?,
     };
-    let wall_loss = non_negative_or(args, "wall_loss", Dim::HEAT_TRANSFER_COEFFICIENT * Dim::AREA, 0.0)?;
+    let wall_loss = non_negative_or(
+        args,
+        "wall_loss",
+        Dim::HEAT_TRANSFER_COEFFICIENT * Dim::AREA,
+        0.0,
+    )?;
     let extra = non_negative_or(args, "extra_pressure", Dim::PRESSURE, 0.0)?;
     let efficiency = fraction_or(args, "fan_efficiency", 0.6)?;
     args.finish()?;
@@ -1081,10 +1356,19 @@ fn deep_bed(args: &mut Args) -> Result<Value, Diagnostic> {
         pressure_rise_pa: bed_dp + extra,
         efficiency,
     };
-    let dryer = batch_dryer(product, vec![element; bed.layers], x, &air, m, wall_loss, fan);
+    let dryer = batch_dryer(
+        product,
+        vec![element; bed.layers],
+        x,
+        &air,
+        m,
+        wall_loss,
+        fan,
+    );
     let r = dryer.simulate().map_err(|e| blame.error(e))?;
     warn_all(args, &r.warnings);
-    let rec = batch_record("deep_bed", &r, "layer_times", "layer")
+    let rec = batch_record("deep_bed", &r, "layer_times", "layer");
+    let rec = with_plot(rec, "outlet_plot", outlet_plot(&r.history))
         .with("pressure_drop", shown(bed_dp, Dim::PRESSURE, "Pa"))
         .with("h", q(h, Dim::HEAT_TRANSFER_COEFFICIENT, Kind::Plain))
         .with("specific_area", q(a, Dim::LENGTH.recip(), Kind::Plain))
@@ -1163,23 +1447,164 @@ fn rotary_record(rotary: &Rotary, r: &RotaryResult, gas_out: Record) -> Record {
         .gas_mass_velocity
         .get::<uom::si::mass_flux::kilogram_per_square_meter_second>();
     let rec = Record::new("rotary_dryer")
-        .with("gas_flow", shown(r.dry_gas_kg_per_s, Dim::MASS_FLOW, "kg/s"))
+        .with(
+            "gas_flow",
+            shown(r.dry_gas_kg_per_s, Dim::MASS_FLOW, "kg/s"),
+        )
         .with("gas_out", Value::Record(gas_out))
         .with("length", shown(r.length_m, Dim::LENGTH, "m"))
         .with("L_over_D", number(r.length_m / rotary.diameter_m))
-        .with("retention_time", shown(r.retention_time_s, Dim::TIME, "min"))
+        .with(
+            "retention_time",
+            shown(r.retention_time_s, Dim::TIME, "min"),
+        )
         .with("holdup", fraction_v(r.holdup_fraction))
-        .with("Ua", q(r.ua_w_per_m3_k, Dim::HEAT_TRANSFER_COEFFICIENT / Dim::LENGTH, Kind::Plain))
+        .with(
+            "Ua",
+            shown(
+                r.ua_w_per_m3_k,
+                Dim::HEAT_TRANSFER_COEFFICIENT / Dim::LENGTH,
+                "W/(m^3*K)",
+            ),
+        )
         .with("log_mean_difference", delta_t(r.log_mean_difference_k))
         .with("G", shown(g, Dim::MASS_FLUX, "kg/(m^2*h)"))
         .with("water", shown(r.water_kg_per_s, Dim::MASS_FLOW, "kg/h"))
-        .with("heat_to_product", shown(r.heat_to_product_w, Dim::POWER, "kW"))
+        .with(
+            "heat_to_product",
+            shown(r.heat_to_product_w, Dim::POWER, "kW"),
+        )
         .with("heater", shown(f.heater, Dim::POWER, "kW"))
         .with("fan", shown(f.fan, Dim::POWER, "kW"));
     let rec = with_merit(rec, f, r.latent_minimum_j_per_kg);
     let margin = dew_margin(&r.gas_out).unwrap_or(f64::INFINITY);
     with_closure(rec, &r.closure)
-        .with("exhaust_margin", delta_t(margin))
+        .with_margin(margin)
         .with("energy", Value::Table(energy_table(f, Dim::POWER, "kW")))
         .with("cautions", cautions())
+}
+
+// ---------------------------------------------------------------------------
+// Plots (arranged by render::plot; no physics there)
+// ---------------------------------------------------------------------------
+
+/// Add a plot field when the plot could be built (it always can from finite results).
+fn with_plot(r: Record, name: &str, plot: Option<Plot>) -> Record {
+    match plot {
+        Some(p) => r.with(name, Value::Plot(Arc::new(p))),
+        None => r,
+    }
+}
+
+fn quantities(values: impl Iterator<Item = f64>, dim: Dim, kind: Kind) -> Vec<Quantity> {
+    values.map(|v| Quantity::new(v, dim, kind)).collect()
+}
+
+fn units(x: &str, y: &str) -> AxisUnits {
+    AxisUnits {
+        x: parse_unit(x).ok(),
+        y: parse_unit(y).ok(),
+    }
+}
+
+/// Zone boundaries as vertical lines on a profile plot.
+fn zone_marks(b: &mut PlotBuilder, r: &BeltResult) -> Option<()> {
+    let mut z = 0.0;
+    for i in 1..r.zones.len() {
+        z += r.zones[i - 1].length_m;
+        b.vline(
+            &Quantity::new(z, Dim::LENGTH, Kind::Plain),
+            format!("zone {}", i + 1),
+        )
+        .ok()?;
+    }
+    Some(())
+}
+
+fn profile_positions(r: &BeltResult) -> Vec<Quantity> {
+    quantities(r.profile.iter().map(|p| p.z_m), Dim::LENGTH, Kind::Plain)
+}
+
+fn moisture_profile_plot(r: &BeltResult) -> Option<Plot> {
+    let x = profile_positions(r);
+    let mut b = PlotBuilder::new(
+        "Moisture along the belt",
+        "position along the dryer",
+        "moisture content X",
+    )
+    .units(units("m", "db"));
+    let xs = quantities(r.profile.iter().map(|p| p.x_db), Dim::NONE, Kind::Moisture);
+    b.series(&Curve::new("product X", x, xs), SeriesStyle::Line)
+        .ok()?;
+    zone_marks(&mut b, r)?;
+    b.build().ok()
+}
+
+fn temperature_profile_plot(r: &BeltResult) -> Option<Plot> {
+    let x = profile_positions(r);
+    let mut b = PlotBuilder::new(
+        "Temperatures along the belt",
+        "position along the dryer",
+        "temperature",
+    )
+    .units(units("m", "degC"));
+    let abs = Kind::AbsoluteTemperature;
+    let tp = quantities(
+        r.profile.iter().map(|p| p.t_product_k),
+        Dim::TEMPERATURE,
+        abs,
+    );
+    let ta = quantities(
+        r.profile.iter().map(|p| p.air.t_kelvin()),
+        Dim::TEMPERATURE,
+        abs,
+    );
+    b.series(&Curve::new("product", x.clone(), tp), SeriesStyle::Line)
+        .ok()?;
+    b.series(&Curve::new("air", x, ta), SeriesStyle::Dashed)
+        .ok()?;
+    zone_marks(&mut b, r)?;
+    b.build().ok()
+}
+
+/// Drying curves of a batch: moisture of each tray or layer against time.
+fn drying_plot(history: &[BatchSample], element: &str) -> Option<Plot> {
+    let rows = thin(history);
+    let t = quantities(rows.iter().map(|s| s.t_s), Dim::TIME, Kind::Plain);
+    let n = rows.first().map_or(0, |s| s.x_db.len());
+    let curves: Vec<Curve> = (0..n)
+        .map(|i| {
+            let x = quantities(rows.iter().map(|s| s.x_db[i]), Dim::NONE, Kind::Moisture);
+            Curve::new(format!("{element} {}", i + 1), t.clone(), x)
+        })
+        .collect();
+    drying_curve("Drying curves", &[], &curves, units("h", "db")).ok()
+}
+
+/// Air leaving a through-circulation bed against time: it stays cool and humid
+/// while the drying front crosses the bed, then rises towards the supply.
+fn outlet_plot(history: &[BatchSample]) -> Option<Plot> {
+    let rows = thin(history);
+    let t = quantities(rows.iter().map(|s| s.t_s), Dim::TIME, Kind::Plain);
+    let abs = Kind::AbsoluteTemperature;
+    let supply = quantities(
+        rows.iter().map(|s| s.supply.t_kelvin()),
+        Dim::TEMPERATURE,
+        abs,
+    );
+    let outlet = quantities(
+        rows.iter().map(|s| s.exhaust.t_kelvin()),
+        Dim::TEMPERATURE,
+        abs,
+    );
+    let mut b = PlotBuilder::new("Air through the bed", "time", "air temperature")
+        .units(units("h", "degC"));
+    b.series(
+        &Curve::new("supply", t.clone(), supply),
+        SeriesStyle::Dashed,
+    )
+    .ok()?;
+    b.series(&Curve::new("outlet", t, outlet), SeriesStyle::Line)
+        .ok()?;
+    b.build().ok()
 }

@@ -20,7 +20,6 @@ use crate::diag::{Diagnostic, Span};
 use crate::units::{describe_dim, Dim, Quantity};
 use crate::value::{Record, Value};
 
-
 /// What a parameter accepts, for docs, completion and checking.
 #[derive(Clone, Copy, Debug)]
 pub struct Param {
@@ -30,6 +29,31 @@ pub struct Param {
     /// Default written as the user would write it, or `None` when required.
     pub default: Option<&'static str>,
     pub doc: &'static str,
+}
+
+/// A required parameter (for the `params` lists of family files).
+pub const fn req(name: &'static str, unit: &'static str, doc: &'static str) -> Param {
+    Param {
+        name,
+        unit,
+        default: None,
+        doc,
+    }
+}
+
+/// An optional parameter with its default as the user would write it.
+pub const fn opt(
+    name: &'static str,
+    unit: &'static str,
+    default: &'static str,
+    doc: &'static str,
+) -> Param {
+    Param {
+        name,
+        unit,
+        default: Some(default),
+        doc,
+    }
 }
 
 /// A built-in function with its paper trail.
@@ -79,26 +103,41 @@ pub struct Args {
 
 impl Args {
     /// Bind call-site arguments to `builtin`'s parameters.
-    pub fn bind(builtin: &'static Builtin, call_span: Span, args: Vec<Arg>) -> Result<Args, Diagnostic> {
+    pub fn bind(
+        builtin: &'static Builtin,
+        call_span: Span,
+        args: Vec<Arg>,
+    ) -> Result<Args, Diagnostic> {
         let mut bound: Vec<Option<Arg>> = vec![None; builtin.params.len()];
         let mut next_positional = 0;
         for arg in args {
             let index = match &arg.name {
-                Some(name) => builtin.params.iter().position(|p| p.name == name).ok_or_else(|| {
-                    let names: Vec<&str> = builtin.params.iter().map(|p| p.name).collect();
-                    let mut d = Diagnostic::error(arg.span, format!("`{}` has no argument named `{name}`", builtin.name));
-                    if let Some(best) = closest(name, &names) {
-                        d = d.with_hint(format!("did you mean `{best}`?"));
-                    }
-                    d.with_hint(format!("arguments: {}", names.join(", ")))
-                })?,
+                Some(name) => builtin
+                    .params
+                    .iter()
+                    .position(|p| p.name == name)
+                    .ok_or_else(|| {
+                        let names: Vec<&str> = builtin.params.iter().map(|p| p.name).collect();
+                        let mut d = Diagnostic::error(
+                            arg.span,
+                            format!("`{}` has no argument named `{name}`", builtin.name),
+                        );
+                        if let Some(best) = closest(name, &names) {
+                            d = d.with_hint(format!("did you mean `{best}`?"));
+                        }
+                        d.with_hint(format!("arguments: {}", names.join(", ")))
+                    })?,
                 None => {
                     let i = next_positional;
                     next_positional += 1;
                     if i >= builtin.params.len() {
                         return Err(Diagnostic::error(
                             arg.span,
-                            format!("`{}` takes at most {} arguments", builtin.name, builtin.params.len()),
+                            format!(
+                                "`{}` takes at most {} arguments",
+                                builtin.name,
+                                builtin.params.len()
+                            ),
                         ));
                     }
                     i
@@ -107,12 +146,21 @@ impl Args {
             if bound[index].is_some() {
                 return Err(Diagnostic::error(
                     arg.span,
-                    format!("argument `{}` of `{}` is given twice", builtin.params[index].name, builtin.name),
+                    format!(
+                        "argument `{}` of `{}` is given twice",
+                        builtin.params[index].name, builtin.name
+                    ),
                 ));
             }
             bound[index] = Some(arg);
         }
-        Ok(Args { builtin, call_span, bound, warnings: Vec::new(), dir: None })
+        Ok(Args {
+            builtin,
+            call_span,
+            bound,
+            warnings: Vec::new(),
+            dir: None,
+        })
     }
 
     fn index(&self, name: &str) -> usize {
@@ -120,7 +168,12 @@ impl Args {
             .params
             .iter()
             .position(|p| p.name == name)
-            .unwrap_or_else(|| panic!("built-in `{}` reads undeclared parameter `{name}`", self.builtin.name))
+            .unwrap_or_else(|| {
+                panic!(
+                    "built-in `{}` reads undeclared parameter `{name}`",
+                    self.builtin.name
+                )
+            })
     }
 
     /// Take an argument if it was given.
@@ -136,14 +189,19 @@ impl Args {
 
     /// The span of an argument if given, else the call's span.
     pub fn span_of(&self, name: &str) -> Span {
-        self.bound[self.index(name)].as_ref().map_or(self.call_span, |a| a.span)
+        self.bound[self.index(name)]
+            .as_ref()
+            .map_or(self.call_span, |a| a.span)
     }
 
     /// Take a required argument.
     pub fn required(&mut self, name: &str) -> Result<Arg, Diagnostic> {
         self.take(name).ok_or_else(|| {
-            Diagnostic::error(self.call_span, format!("`{}` needs the argument `{name}`", self.builtin.name))
-                .with_hint(format!("call it as {}", self.builtin.example))
+            Diagnostic::error(
+                self.call_span,
+                format!("`{}` needs the argument `{name}`", self.builtin.name),
+            )
+            .with_hint(format!("call it as {}", self.builtin.example))
         })
     }
 
@@ -168,14 +226,19 @@ impl Args {
             Value::Record(r) if r.type_name == type_name => Ok(r),
             other => Err(Diagnostic::error(
                 arg.span,
-                format!("argument `{name}` of `{}` must be {type_name}, found {}", self.builtin.name, type_word(&other)),
+                format!(
+                    "argument `{name}` of `{}` must be {type_name}, found {}",
+                    self.builtin.name,
+                    type_word(&other)
+                ),
             )),
         }
     }
 
     /// Add a warning about this call (for example outside a validity range).
     pub fn warn(&mut self, message: impl Into<String>) {
-        self.warnings.push(Diagnostic::warning(self.call_span, message));
+        self.warnings
+            .push(Diagnostic::warning(self.call_span, message));
     }
 
     /// An error blaming one argument.
@@ -186,7 +249,10 @@ impl Args {
     /// Report arguments that were given but never read.
     pub fn finish(&self) -> Result<(), Diagnostic> {
         match self.bound.iter().flatten().next() {
-            Some(arg) => Err(Diagnostic::error(arg.span, format!("`{}` does not use this argument here", self.builtin.name))),
+            Some(arg) => Err(Diagnostic::error(
+                arg.span,
+                format!("`{}` does not use this argument here", self.builtin.name),
+            )),
             None => Ok(()),
         }
     }
@@ -208,7 +274,11 @@ fn expect_quantity(b: &Builtin, name: &str, arg: &Arg, dim: Dim) -> Result<Quant
         )),
         other => Err(Diagnostic::error(
             arg.span,
-            format!("argument `{name}` of `{}` expects a quantity, found {}", b.name, type_word(other)),
+            format!(
+                "argument `{name}` of `{}` expects a quantity, found {}",
+                b.name,
+                type_word(other)
+            ),
         )),
     }
 }
@@ -268,4 +338,3 @@ pub fn registry() -> &'static [&'static Builtin] {
 pub fn find(name: &str) -> Option<&'static Builtin> {
     registry().iter().copied().find(|b| b.name == name)
 }
-

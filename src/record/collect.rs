@@ -162,7 +162,7 @@ fn placed(session: &Session, w: &Diagnostic) -> String {
 /// Worksheets loaded during the run (files after the first in the source map), each once.
 fn loaded_files(session: &Session) -> Vec<FileDigest> {
     let mut out: Vec<FileDigest> = Vec::new();
-    for file in session.sources().files().iter().skip(1) {
+    for file in session.sources().files().skip(1) {
         let digest = FileDigest {
             path: file.name.clone(),
             sha256: sha256_hex(file.text.as_bytes()),

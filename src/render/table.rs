@@ -74,7 +74,7 @@ impl Layout {
             self.rows[i].push(shown);
             self.exact[i].push(exact);
         }
-        let symbol = unit.map(|u| u.symbol).unwrap_or_default();
+        let symbol = unit.map(|u| u.symbol.to_string()).unwrap_or_default();
         self.headers.push((column.name.clone(), symbol));
         self.numeric
             .push(!numbers.is_empty() && numbers.len() == cells.len());

@@ -76,8 +76,8 @@ fn coherent_unit(dim: Dim, si: f64) -> Unit {
         format!("{prefix}{symbol}")
     };
     Unit {
-        parts: vec![(symbol.clone(), 1)],
-        symbol,
+        parts: std::sync::Arc::from([(symbol.clone(), 1)]),
+        symbol: symbol.into(),
         factor,
         offset: 0.0,
         dim,

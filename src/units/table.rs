@@ -5,6 +5,8 @@
 //! temperature, offset applied); inside a compound (`W/(m^2*degC)`,
 //! `BTU/(h*ft^2*degF)`) it is a difference of size 1 K or 5/9 K.
 
+use std::sync::Arc;
+
 use strsim::levenshtein;
 
 use super::catalog::{base_units, find_base, find_prefixed, BaseUnit, Basis, Prefix, Scale};
@@ -15,8 +17,8 @@ pub use super::names::describe_dim;
 /// A unit: how to turn a number written in it into SI, and back.
 #[derive(Clone, PartialEq, Debug)]
 pub struct Unit {
-    /// Canonical display symbol, e.g. `W/(m^2*K)`.
-    pub symbol: String,
+    /// Canonical display symbol, e.g. `W/(m^2*K)` (shared: cloning a unit is cheap).
+    pub symbol: Arc<str>,
     /// SI value of one unit (for affine units, of one degree).
     pub factor: f64,
     /// SI offset added after scaling (273.15 for degC); zero for linear units.
@@ -29,8 +31,9 @@ pub struct Unit {
     pub scale: Scale,
     /// Which dry mass the unit counts (`kg_da`, `kg_ds`); decides the kind of a ratio.
     pub basis: Basis,
-    /// The symbols and exponents the unit is built from, for its display symbol.
-    pub parts: Vec<(String, i32)>,
+    /// The symbols and exponents the unit is built from, for its display symbol
+    /// (shared: cloning a unit is cheap).
+    pub parts: Arc<[(String, i32)]>,
 }
 
 /// Look up a unit symbol, with SI prefixes (`kPa`, `mm`, `kJ`, `kWh`).
@@ -173,8 +176,8 @@ impl Unit {
         let (p_sym, p_factor) = prefix.map_or(("", 1.0), |p| (p.symbol, p.factor));
         let symbol = format!("{p_sym}{}", base.symbol);
         Unit {
-            parts: vec![(symbol.clone(), 1)],
-            symbol,
+            parts: Arc::from([(symbol.clone(), 1)]),
+            symbol: symbol.into(),
             factor: base.factor * p_factor,
             offset: base.offset,
             dim: base.dim,
@@ -187,14 +190,14 @@ impl Unit {
     /// The unit of a dimensionless plain number (`1`, as in `1/h`).
     pub fn one() -> Unit {
         Unit {
-            symbol: String::new(),
+            symbol: Arc::from(""),
             factor: 1.0,
             offset: 0.0,
             dim: Dim::NONE,
             kind: Kind::Plain,
             scale: Scale::Linear,
             basis: Basis::None,
-            parts: Vec::new(),
+            parts: Arc::from([]),
         }
     }
 
@@ -371,14 +374,14 @@ fn ratio_kind(a: &Unit, b: &Unit, dim: Dim) -> Kind {
 
 fn compound(parts: Vec<(String, i32)>, factor: f64, dim: Dim, kind: Kind) -> Unit {
     Unit {
-        symbol: render_parts(&parts),
+        symbol: render_parts(&parts).into(),
         factor,
         offset: 0.0,
         dim,
         kind,
         scale: Scale::Linear,
         basis: Basis::None,
-        parts,
+        parts: parts.into(),
     }
 }
 

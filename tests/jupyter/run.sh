@@ -18,3 +18,6 @@ export JUPYTER_PATH="$venv/share/jupyter"
 
 "$venv/bin/python" -m pytest -q tests/jupyter/test_kernel.py
 "$venv/bin/python" tests/jupyter/run_notebooks.py notebooks/*.ipynb
+
+# Robustness: 10,000 consecutive cells after 1,000 warm-up; resident memory must grow under 10 %.
+"$venv/bin/python" tests/jupyter/soak.py --cells 10000 --warmup 1000

@@ -340,7 +340,9 @@ mod tests {
 
     #[test]
     fn pressure_and_its_log_agree() {
-        for t in [173.15, 233.15, 273.15, 273.155, 273.16, 300.0, 373.0, 450.0, 600.0] {
+        for t in [
+            173.15, 233.15, 273.15, 273.155, 273.16, 300.0, 373.0, 450.0, 600.0,
+        ] {
             for p in [50e3, 101_325.0, 200e3] {
                 let a = saturated_vapour_pressure(t, p);
                 let b = ln_saturated_vapour_pressure(t, p).exp();

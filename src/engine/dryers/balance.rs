@@ -3,6 +3,9 @@
 //! Energies are totals over a batch (J) or rates for a continuous dryer (W);
 //! the same struct serves both, with `per` saying which.
 
+use crate::engine::air::thermo::vapour_enthalpy;
+use crate::engine::air::AirState;
+
 /// Where the heater's energy went, in the same unit as `heater` (J or W).
 ///
 /// `heater = exhaust_air_sensible + evaporation + vapour_superheat
@@ -61,6 +64,20 @@ impl EnergyFlows {
             ("wall losses", self.losses),
         ]
     }
+}
+
+/// Enthalpy per kg dry air of `exhaust` with the fresh air's humidity ratio `w_fresh`:
+/// the reference that splits the exhaust into "air sensible" and "vapour". When
+/// the exhaust is colder than the fresh air's dew point that state does not
+/// exist as humid air, and the water above `w_fresh` is taken out as vapour at
+/// the exhaust temperature instead.
+pub(crate) fn exhaust_at_fresh_w(exhaust: &AirState, w_fresh: f64) -> f64 {
+    AirState::from_w(exhaust.temperature(), w_fresh, exhaust.pressure())
+        .map(|s| s.enthalpy().value)
+        .unwrap_or_else(|_| {
+            exhaust.enthalpy().value
+                - (exhaust.humidity_ratio() - w_fresh) * vapour_enthalpy(exhaust.t_kelvin(), 0.0)
+        })
 }
 
 /// How well a balance closes.

@@ -13,7 +13,7 @@ use uom::si::available_energy::joule_per_kilogram;
 use uom::si::f64::{AvailableEnergy, ThermodynamicTemperature};
 use uom::si::thermodynamic_temperature::kelvin;
 
-use super::balance::{Closure, EnergyFlows, Ledger};
+use super::balance::{exhaust_at_fresh_w, Closure, EnergyFlows, Ledger};
 use super::product::{exchange, surface_humidity_ratio, Product, Surface};
 use super::{check_drying_air, non_negative, positive, settle_recirculation, DryerError};
 use crate::engine::air::AirState;
@@ -86,6 +86,9 @@ pub struct BatchResult {
     /// Latent heat of the water at the supply air's wet-bulb, J/kg: the least
     /// energy per kg of water a convective dryer without heat recovery can use.
     pub latent_minimum_j_per_kg: f64,
+    /// Water that condensed from the air onto cold elements over the batch, kg
+    /// (fog in a cold deep bed), included in the balances.
+    pub condensed_kg: f64,
     pub warnings: Vec<String>,
 }
 
@@ -179,6 +182,7 @@ struct Run<'a> {
     history: Vec<BatchSample>,
     warnings: Vec<String>,
     t_max_seen: f64,
+    condensed_kg: f64,
 }
 
 /// One pass of the air along the path.
@@ -187,6 +191,8 @@ struct Pass {
     mixed_h: f64,
     exhaust: AirState,
     loss_w: f64,
+    /// Water condensing from the air onto cold elements, kg/s.
+    condensed: f64,
     /// Per element: (water kg/s, net enthalpy into product W, latent J/kg, liquid J/kg).
     elements: Vec<(f64, f64, f64, f64)>,
 }
@@ -208,6 +214,7 @@ impl<'a> Run<'a> {
             history: Vec::new(),
             warnings: Vec::new(),
             t_max_seen: d.t_product_initial_k,
+            condensed_kg: 0.0,
         })
     }
 
@@ -241,6 +248,7 @@ impl<'a> Run<'a> {
             });
         }
         let mut air = supply;
+        let mut condensed = 0.0;
         let mut elements = Vec::with_capacity(d.elements.len());
         for (i, el) in d.elements.iter().enumerate() {
             let ex = exchange(
@@ -260,6 +268,7 @@ impl<'a> Run<'a> {
                 ex.vapour_j_per_kg - ex.latent_j_per_kg,
             ));
             air = ex.air_out;
+            condensed += ex.condensed_kg_per_s;
         }
         let loss_w = d.loss_w_per_k * (air.t_kelvin() - d.ambient_t_k);
         let h_after = air.enthalpy().value - loss_w / d.dry_air_kg_per_s;
@@ -273,6 +282,7 @@ impl<'a> Run<'a> {
             mixed_h,
             exhaust,
             loss_w,
+            condensed,
             elements,
         })
     }
@@ -290,7 +300,14 @@ impl<'a> Run<'a> {
                 - surface_humidity_ratio(self.t_p[i] - 0.5, p))
             .max(0.0);
             let cs = pass.supply.humid_heat().value;
-            let conductance = el.surface.h_w_per_m2_k * el.area_m2 * (1.0 + 2.5e6 * dws / cs);
+            // How fast the element's net heat gain changes with its temperature: the
+            // air-side effectiveness (1 - exp(-NTU)) caps it at m c_s when the
+            // element is deep (through-circulation layers), h A when it is thin.
+            let m = d.dry_air_kg_per_s;
+            let ha = el.surface.h_w_per_m2_k * el.area_m2;
+            let ntu_h = ha / (m * cs);
+            let ntu_m = ntu_h / el.surface.lewis.powf(2.0 / 3.0);
+            let conductance = m * cs * -(-ntu_h).exp_m1() + 2.5e6 * dws * m * -(-ntu_m).exp_m1();
             let capacity = el.dry_solid_kg * (d.product.cp_solid_j_per_kg_k + 4186.0 * self.x[i]);
             dt = dt.min(0.2 * capacity / conductance);
             if water > 0.0 {
@@ -358,6 +375,7 @@ impl<'a> Run<'a> {
             flows,
             closure,
             latent_minimum_j_per_kg: latent_minimum,
+            condensed_kg: self.condensed_kg,
             warnings: self.warnings,
         })
     }
@@ -389,13 +407,11 @@ impl<'a> Run<'a> {
         let purge = m * (1.0 - d.recirculated) * dt;
         let fresh = (d.fresh_air.enthalpy().value, d.fresh_air.humidity_ratio());
         let ex = (pass.exhaust.enthalpy().value, pass.exhaust.humidity_ratio());
-        let ex_at_fresh_w =
-            AirState::from_w(pass.exhaust.temperature(), fresh.1, pass.exhaust.pressure())?
-                .enthalpy()
-                .value;
+        let ex_at_fresh_w = exhaust_at_fresh_w(&pass.exhaust, fresh.1);
         self.ledger.book_exhaust(purge, fresh, ex, ex_at_fresh_w);
         self.ledger.flows.heater += m * (pass.supply.enthalpy().value - pass.mixed_h) * dt;
         self.ledger.flows.losses += pass.loss_w * dt;
+        self.condensed_kg += pass.condensed * dt;
         for (i, el) in d.elements.iter().enumerate() {
             let (water, net, latent, liquid) = pass.elements[i];
             self.ledger.book_evaporation(water * dt, latent, liquid);
@@ -441,6 +457,12 @@ impl<'a> Run<'a> {
                     t_max - 273.15
                 ));
             }
+        }
+        if self.condensed_kg > 1e-3 * self.ledger.flows.water.abs().max(1e-9) {
+            self.warnings.push(format!(
+                "{:.3} kg of water condenses from the air onto cold product further along the air path (fog): warm the load first or use more or hotter air",
+                self.condensed_kg
+            ));
         }
         let near = self
             .history

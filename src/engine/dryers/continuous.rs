@@ -14,7 +14,7 @@ use uom::si::available_energy::joule_per_kilogram;
 use uom::si::f64::{AvailableEnergy, ThermodynamicTemperature};
 use uom::si::thermodynamic_temperature::kelvin;
 
-use super::balance::{Closure, EnergyFlows, Ledger};
+use super::balance::{exhaust_at_fresh_w, Closure, EnergyFlows, Ledger};
 use super::batch::{latent_minimum, Fan};
 use super::product::{exchange, Exchange, Product, Surface};
 use super::{check_drying_air, non_negative, positive, settle_recirculation, DryerError};
@@ -78,7 +78,10 @@ impl Zone {
                 expected: "at or above the zone's fresh air",
             });
         }
-        check_drying_air(&heated(self, self.fresh_air.humidity_ratio())?, self.surface.lewis)
+        check_drying_air(
+            &heated(self, self.fresh_air.humidity_ratio())?,
+            self.surface.lewis,
+        )
     }
 }
 
@@ -488,10 +491,7 @@ impl Belt {
                 zone.fresh_air.humidity_ratio(),
             );
             let ex = (run.exhaust.enthalpy().value, run.exhaust.humidity_ratio());
-            let at_fresh_w =
-                AirState::from_w(run.exhaust.temperature(), fresh.1, run.exhaust.pressure())
-                    .map(|s| s.enthalpy().value)
-                    .unwrap_or(fresh.0);
+            let at_fresh_w = exhaust_at_fresh_w(&run.exhaust, fresh.1);
             ledger.book_exhaust(purge, fresh, ex, at_fresh_w);
             for e in &run.exchanges {
                 ledger.book_evaporation(
@@ -499,6 +499,15 @@ impl Belt {
                     e.latent_j_per_kg,
                     e.vapour_j_per_kg - e.latent_j_per_kg,
                 );
+            }
+            let condensed: f64 = run.exchanges.iter().map(|e| e.condensed_kg_per_s).sum();
+            let evaporated: f64 = run.exchanges.iter().map(|e| e.water_kg_per_s).sum();
+            if condensed > 1e-3 * evaporated.abs() {
+                warnings.push(format!(
+                    "in zone {} {:.3} kg/h of water condenses from the air onto cold product (fog): preheat the feed or use more or hotter air",
+                    i + 1,
+                    condensed * 3600.0
+                ));
             }
             let n = run.exchanges.len();
             for (j, p) in run.product.iter().enumerate() {

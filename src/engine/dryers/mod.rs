@@ -75,7 +75,20 @@ impl From<AirError> for DryerError {
 impl fmt::Display for DryerError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         match self {
-            DryerError::Invalid { name, value, expected } => write!(f, "`{name}` = {value} is not valid: expected {expected}"),
+            DryerError::Invalid {
+                name,
+                value,
+                expected,
+            } if name.ends_with("temperature") && value.is_finite() => write!(
+                f,
+                "`{name}` = {:.2} degC is not valid: expected {expected}",
+                value - product::T_REF_K
+            ),
+            DryerError::Invalid {
+                name,
+                value,
+                expected,
+            } => write!(f, "`{name}` = {value} is not valid: expected {expected}"),
             DryerError::BelowEquilibrium { target_db, equilibrium_db } => write!(
                 f,
                 "target moisture {target_db:.4} db is at or below the equilibrium moisture {equilibrium_db:.4} db of the product in the supply air: this air cannot dry it that far (use drier or hotter air, or a higher target)"

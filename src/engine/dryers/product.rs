@@ -148,6 +148,9 @@ pub struct Exchange {
     pub latent_j_per_kg: f64,
     /// Air after passing the product.
     pub air_out: AirState,
+    /// Water that condensed from the air (fog) and settled on the product, kg/s;
+    /// already netted out of `water_kg_per_s`.
+    pub condensed_kg_per_s: f64,
 }
 
 /// Saturation humidity ratio over a wet surface at `t_k` and total pressure `p_pa`
@@ -219,14 +222,72 @@ pub fn exchange(
         AvailableEnergy::new::<joule_per_kilogram>(h_out),
         w_out,
         air_in.pressure(),
-    )
-    .map_err(|e| saturation_error(e, air_in))?;
-    Ok(Exchange {
+    );
+    let exchange = Exchange {
         heat_w,
         water_kg_per_s: water,
         vapour_j_per_kg: hv,
         latent_j_per_kg: hv - liquid_enthalpy(t_k),
+        air_out: *air_in,
+        condensed_kg_per_s: 0.0,
+    };
+    match air_out {
+        Ok(air_out) => Ok(Exchange {
+            air_out,
+            ..exchange
+        }),
+        Err(AirError::HumidityRatioAboveSaturation { .. }) => {
+            condense(exchange, air_in, m, h_out, w_out, t_k)
+        }
+        Err(e) => Err(saturation_error(e, air_in)),
+    }
+}
+
+/// Air that would leave above saturation (cold product downstream in a deep bed,
+/// or air cooled by a cold feed) forms fog: it leaves saturated at the temperature
+/// where its enthalpy, with the condensate as liquid, is `h_out`, and the
+/// condensate settles on the product. Energy and water stay conserved: the
+/// product takes the condensate with its liquid enthalpy.
+fn condense(
+    ex: Exchange,
+    air_in: &AirState,
+    m: f64,
+    h_out: f64,
+    w_out: f64,
+    t_k: f64,
+) -> Result<Exchange, DryerError> {
+    let p = air_in.pressure();
+    let saturated = |t: f64| {
+        AirState::from_rh(
+            uom::si::f64::ThermodynamicTemperature::new::<uom::si::thermodynamic_temperature::kelvin>(
+                t,
+            ),
+            1.0,
+            p,
+        )
+    };
+    let residual = |t: f64| match saturated(t) {
+        Ok(s) => s.enthalpy().value + (w_out - s.humidity_ratio()) * liquid_enthalpy(t) - h_out,
+        Err(_) => f64::NAN,
+    };
+    let hi = air_in.t_kelvin().max(t_k) + 1.0;
+    let lo = (air_in.t_kelvin().min(t_k) - 60.0).max(T_REF_K + 0.01);
+    let t = brent(residual, lo, hi, Tolerance::new(1e-10, 1e-12)).map_err(|e| {
+        DryerError::AirSaturates {
+            what: format!(
+                "air at {:.1} degC leaves above saturation and its fog temperature was not found ({e}); raise the air flow or its temperature",
+                air_in.t_kelvin() - T_REF_K
+            ),
+        }
+    })?;
+    let air_out = saturated(t).map_err(|e| saturation_error(e, air_in))?;
+    let condensed = m * (w_out - air_out.humidity_ratio()).max(0.0);
+    Ok(Exchange {
+        heat_w: ex.heat_w - condensed * (ex.vapour_j_per_kg - liquid_enthalpy(t)),
+        water_kg_per_s: ex.water_kg_per_s - condensed,
         air_out,
+        condensed_kg_per_s: condensed,
+        ..ex
     })
 }
 

@@ -1,31 +1,12 @@
 //! Parameter lists of the dryer built-ins (names, units for docs, defaults).
 
-use crate::library::Param;
+use crate::library::{opt, req, Param};
 
-const fn req(name: &'static str, unit: &'static str, doc: &'static str) -> Param {
-    Param {
-        name,
-        unit,
-        default: None,
-        doc,
-    }
-}
-
-const fn opt(
-    name: &'static str,
-    unit: &'static str,
-    default: &'static str,
-    doc: &'static str,
-) -> Param {
-    Param {
-        name,
-        unit,
-        default: Some(default),
-        doc,
-    }
-}
-
-const PRODUCT: Param = req("product", "wet_product", "the product, from wet_product(...)");
+const PRODUCT: Param = req(
+    "product",
+    "wet_product",
+    "the product, from wet_product(...)",
+);
 const AIR: Param = req(
     "air",
     "air",
@@ -82,21 +63,23 @@ const T_PRODUCT: Param = opt(
 
 /// wet_product(...)
 pub const WET_PRODUCT: &[Param] = &[
-    req(
+    opt(
         "cp_solid",
         "J/(kg*K)",
+        "from `material`",
         "specific heat of the dry solid",
     ),
-    req(
+    opt(
         "X_critical",
         "db",
+        "from `material`",
         "critical moisture content: the constant-rate period ends here",
     ),
     opt(
         "X_eq",
-        "db",
-        "0 db",
-        "equilibrium moisture content in the dryer air (constant)",
+        "db or isotherm",
+        "0 db, or the material's isotherm",
+        "equilibrium moisture content: a constant, or an isotherm (isotherm, material or isotherm fit record) evaluated at the local air temperature and relative humidity",
     ),
     opt(
         "exponent",
@@ -107,8 +90,14 @@ pub const WET_PRODUCT: &[Param] = &[
     opt(
         "T_max",
         "degC",
-        "none",
+        "from `material`, else none",
         "maximum product temperature; designs above it are warned",
+    ),
+    opt(
+        "material",
+        "material",
+        "none",
+        "a material record (sorption family) supplying cp_solid, X_critical, the isotherm and T_max; arguments given here win",
     ),
 ];
 
@@ -209,11 +198,7 @@ pub const DEEP_BED: &[Param] = &[
     req("voidage", "-", "bed voidage, 0.3 to 0.6 typical"),
     req("bulk_density", "kg/m^3", "dry solid per m^3 of bed"),
     req("X_initial", "db", "moisture content at loading"),
-    req(
-        "X_final",
-        "db",
-        "moisture content every layer must reach",
-    ),
+    req("X_final", "db", "moisture content every layer must reach"),
     AIR,
     T_SUPPLY,
     req(
@@ -224,7 +209,7 @@ pub const DEEP_BED: &[Param] = &[
     opt(
         "layers",
         "-",
-        "20",
+        "10",
         "number of layers the bed is cut into (2 to 200)",
     ),
     opt(
@@ -261,15 +246,19 @@ pub const ROTARY_DRYER: &[Param] = &[
     req("X_out", "db", "discharge moisture content"),
     req("T_solid_in", "degC", "solids temperature at the feed"),
     req("T_solid_out", "degC", "solids temperature at discharge"),
+    req("gas", "air", "hot gas entering the drum (an `air` record)"),
     req(
-        "gas",
-        "air",
-        "hot gas entering the drum (an `air` record)",
+        "T_gas_out",
+        "degC",
+        "gas temperature leaving the drum (a design choice)",
     ),
-    req("T_gas_out", "degC", "gas temperature leaving the drum (a design choice)"),
     req("diameter", "m", "drum diameter"),
     req("slope", "-", "drum slope, m/m (e.g. 0.04 or 4 %)"),
-    req("speed", "1/min", "drum speed in revolutions per time, e.g. 4 min^-1"),
+    req(
+        "speed",
+        "1/min",
+        "drum speed in revolutions per time, e.g. 4 min^-1",
+    ),
     req(
         "particle_diameter",
         "um",

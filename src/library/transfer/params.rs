@@ -1,29 +1,6 @@
 //! Parameter lists of the transfer built-ins (names, units for docs, defaults).
 
-use crate::library::Param;
-
-const fn req(name: &'static str, unit: &'static str, doc: &'static str) -> Param {
-    Param {
-        name,
-        unit,
-        default: None,
-        doc,
-    }
-}
-
-const fn opt(
-    name: &'static str,
-    unit: &'static str,
-    default: &'static str,
-    doc: &'static str,
-) -> Param {
-    Param {
-        name,
-        unit,
-        default: Some(default),
-        doc,
-    }
-}
+use crate::library::{opt, req, Param};
 
 const AIR: Param = req("air", "air", "the humid air (an `air` record)");
 const VELOCITY: Param = req(
