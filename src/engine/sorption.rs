@@ -172,13 +172,15 @@ impl Isotherm {
                 t_k,
             });
         }
-        let mut warnings = self.range_warnings(aw, t_k);
         if x_db < 0.0 {
-            warnings.push(format!(
-                "the {} isotherm gives a negative moisture ({x_db:.4} kg/kg) at aw = {aw}: outside its range",
-                self.kind.name()
-            ));
+            // A negative equilibrium moisture is never physical: refuse it rather than show it.
+            return Err(SorptionError::Undefined {
+                model: self.kind.name(),
+                aw,
+                t_k,
+            });
         }
+        let warnings = self.range_warnings(aw, t_k);
         Ok(Reading {
             value: x_db,
             warnings,

@@ -1046,7 +1046,7 @@ pub const BUILTINS: &[Builtin] = &[
         params: &[param!("A", "K", "constant"), param!("B", "K", "temperature offset"), param!("C", "-", "moisture coefficient (per kg/kg)")],
         returns: "isotherm",
         doc: "The modified Chung-Pfost isotherm aw = exp(-(A / (T + B)) exp(-C X)), T in degC. \
-              It gives negative moisture at low activity (a warning).",
+              At low activity it would give a negative moisture, which is refused as an error.",
         method: "modified Chung-Pfost",
         source: ISO_SOURCE,
         validity: "aw 0.2..0.9",
