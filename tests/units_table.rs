@@ -4,7 +4,7 @@
 //!
 //! Provenance is named beside each row (see tests/reference/nist_sp811/README.md):
 //! - "SP 811 B.8" / "SP 811 B.9": the value as printed there, cross-read
-//!   against machine transcriptions of Appendix B (see the README);
+//!   against machine-readable copies of Appendix B (see the README);
 //! - "SI definition": exact by the definition of the SI unit or prefix;
 //! - "from memory": recalled from SP 811, not re-read for this test.
 //!

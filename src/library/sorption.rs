@@ -1211,7 +1211,7 @@ pub const BUILTINS: &[Builtin] = &[
               parameters with standard errors and 95 % intervals, R2, RMSE, P, chi2, AIC, BIC, residuals, and \
               the fitted `isotherm`. Points at one temperature fit the isothermal form.",
         method: "Levenberg-Marquardt least squares; start values from linearised forms",
-        source: "More (1978), Lecture Notes in Mathematics 630; Bates & Watts (1988), Nonlinear Regression Analysis",
+        source: "Moré (1978), Numerical Analysis, Springer LNM 630; Bates & Watts (1988), Nonlinear Regression Analysis",
         validity: "more points than parameters; aw strictly between 0 and 1",
         example: "fit_isotherm(lab, model: \"GAB\", T: 40 degC)",
         func: fit_isotherm,
