@@ -18,7 +18,7 @@ use uom::si::pressure::pascal;
 use uom::si::thermodynamic_temperature::kelvin;
 use uom::si::volume_rate::cubic_meter_per_second;
 
-use super::{type_word, Args, Builtin, Param};
+use super::{p, type_word, Args, Builtin, Param};
 use crate::diag::{Diagnostic, Span};
 use crate::engine::air::{self, AirError, AirState, ProcessOutcome, Stream};
 use crate::engine::transport::Transport;
@@ -46,20 +46,6 @@ error outside 1 kPa to 10 MPa)";
 const METHOD_PROCESS: &str =
     "Steady-flow energy and water balances per kg of dry air; condensate leaves at the \
 outlet temperature; kinetic energy and fan work neglected";
-
-const fn p(
-    name: &'static str,
-    unit: &'static str,
-    default: Option<&'static str>,
-    doc: &'static str,
-) -> Param {
-    Param {
-        name,
-        unit,
-        default,
-        doc,
-    }
-}
 
 const AIR_PARAMS: &[Param] = &[
     p("T", "degC", None, "dry-bulb temperature, -40 to 350 degC"),

@@ -31,14 +31,24 @@ pub struct Param {
     pub doc: &'static str,
 }
 
-/// A required parameter (for the `params` lists of family files).
-pub const fn req(name: &'static str, unit: &'static str, doc: &'static str) -> Param {
+/// A parameter with an optional default (for the `params` lists of family files).
+pub const fn p(
+    name: &'static str,
+    unit: &'static str,
+    default: Option<&'static str>,
+    doc: &'static str,
+) -> Param {
     Param {
         name,
         unit,
-        default: None,
+        default,
         doc,
     }
+}
+
+/// A required parameter (for the `params` lists of family files).
+pub const fn req(name: &'static str, unit: &'static str, doc: &'static str) -> Param {
+    p(name, unit, None, doc)
 }
 
 /// An optional parameter with its default as the user would write it.
@@ -48,12 +58,7 @@ pub const fn opt(
     default: &'static str,
     doc: &'static str,
 ) -> Param {
-    Param {
-        name,
-        unit,
-        default: Some(default),
-        doc,
-    }
+    p(name, unit, Some(default), doc)
 }
 
 /// A built-in function with its paper trail.

@@ -7,7 +7,7 @@
 //! evaluator runs them (src/eval/whatif); their entries here give them help,
 //! completion and a place in docs/builtins.md.
 
-use super::{type_word, Arg, Args, Builtin, Param};
+use super::{p, type_word, Arg, Args, Builtin, Param};
 use crate::diag::Diagnostic;
 use crate::engine::stats::{Shape, ShapeError};
 use crate::units::{lookup_unit, Dim, Kind, Quantity, Unit};
@@ -31,20 +31,6 @@ pub struct Distribution {
 impl Payload for Distribution {
     fn as_any(&self) -> &dyn std::any::Any {
         self
-    }
-}
-
-const fn p(
-    name: &'static str,
-    unit: &'static str,
-    default: Option<&'static str>,
-    doc: &'static str,
-) -> Param {
-    Param {
-        name,
-        unit,
-        default,
-        doc,
     }
 }
 
