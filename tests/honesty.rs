@@ -2,7 +2,7 @@
 //! an error, never a number. (Out-of-range warnings of the correlations are
 //! tested in the language suite, tests/suite/harden/validity.sicc.)
 
-use siccant::engine::integrate::{brent_root, gauss_kronrod, IntegrateError};
+use siccant::engine::integrate::gauss_kronrod;
 use siccant::engine::solve::{brent, expand_bracket, newton_bracketed, SolveError, Tolerance};
 
 fn tight(max_iterations: u32) -> Tolerance {
@@ -53,9 +53,7 @@ fn a_bracket_that_never_changes_sign_is_an_error() {
 }
 
 #[test]
-fn the_kinetics_root_finder_and_quadrature_refuse_too() {
-    let e = brent_root(|x| x * x + 1.0, -1.0, 1.0, 1e-12);
-    assert!(matches!(e, Err(IntegrateError::NoBracket { .. })), "{e:?}");
+fn the_quadrature_refuses_too() {
     // an integrand with a non-integrable singularity: the budget runs out or
     // a non-finite value is met; either way an error
     let e = gauss_kronrod(|x| 1.0 / (x - 0.3).abs(), 0.0, 1.0, 1e-12, 0.0);

@@ -1,14 +1,14 @@
-//! Numerics for drying kinetics: adaptive Gauss-Kronrod quadrature and a
-//! bracketed root finder.
+//! Numerics for drying kinetics: adaptive Gauss-Kronrod quadrature.
 //!
 //! Quadrature: the 7-point Gauss rule embedded in the 15-point Kronrod rule
 //! (G7-K15), applied adaptively with global error control: the interval with
 //! the largest error estimate is halved until the summed estimate meets the
 //! tolerance (the strategy of QUADPACK's QAG; Piessens et al., *QUADPACK*,
-//! Springer 1983). Root finding: Brent's method (R. P. Brent, *Algorithms for
-//! Minimization without Derivatives*, 1973, ch. 4) on a sign-changing bracket.
+//! Springer 1983). Root searches use the shared [`crate::engine::solve::brent`].
 
 use thiserror::Error;
+
+use super::solve::SolveError;
 
 /// Why a quadrature or root search failed.
 #[derive(Debug, Clone, PartialEq, Error)]
@@ -23,17 +23,9 @@ pub enum IntegrateError {
         intervals: usize,
         estimate: f64,
     },
-    /// A root search was given a bracket without a sign change.
-    #[error("no sign change between {lo:.6e} (f = {f_lo:.3e}) and {hi:.6e} (f = {f_hi:.3e})")]
-    NoBracket {
-        lo: f64,
-        hi: f64,
-        f_lo: f64,
-        f_hi: f64,
-    },
-    /// A root search did not converge.
-    #[error("root search did not converge in {iterations} iterations")]
-    RootNoConvergence { iterations: usize },
+    /// A root search inside an integration-based method failed.
+    #[error("{0}")]
+    Root(#[from] SolveError),
 }
 
 /// Result of an adaptive quadrature.
@@ -181,94 +173,6 @@ fn worst_interval(intervals: &[(f64, f64, f64, f64)]) -> usize {
     worst
 }
 
-/// Find a root of `f` in `[lo, hi]` by Brent's method.
-///
-/// `f(lo)` and `f(hi)` must differ in sign (or one be zero), otherwise
-/// [`IntegrateError::NoBracket`]. Converges to `x_tol` absolute plus four
-/// machine epsilons relative. Source: Brent (1973), ch. 4, algorithm `zero`.
-pub fn brent_root<F: FnMut(f64) -> f64>(
-    mut f: F,
-    lo: f64,
-    hi: f64,
-    x_tol: f64,
-) -> Result<f64, IntegrateError> {
-    let (mut a, mut b) = (lo, hi);
-    let (mut fa, mut fb) = (f(a), f(b));
-    if fa == 0.0 {
-        return Ok(a);
-    }
-    if fb == 0.0 {
-        return Ok(b);
-    }
-    if !(fa.is_finite() && fb.is_finite()) || fa.signum() == fb.signum() {
-        return Err(IntegrateError::NoBracket {
-            lo,
-            hi,
-            f_lo: fa,
-            f_hi: fb,
-        });
-    }
-    let (mut c, mut fc) = (a, fa);
-    let mut d = b - a;
-    let mut e = d;
-    for _ in 0..200 {
-        if fb.signum() == fc.signum() {
-            c = a;
-            fc = fa;
-            d = b - a;
-            e = d;
-        }
-        if fc.abs() < fb.abs() {
-            a = b;
-            b = c;
-            c = a;
-            fa = fb;
-            fb = fc;
-            fc = fa;
-        }
-        let tol = 2.0 * f64::EPSILON * b.abs() + 0.5 * x_tol;
-        let m = 0.5 * (c - b);
-        if m.abs() <= tol || fb == 0.0 {
-            return Ok(b);
-        }
-        if e.abs() < tol || fa.abs() <= fb.abs() {
-            d = m;
-            e = m;
-        } else {
-            let (p, q) = interpolation_step(a, b, c, fa, fb, fc);
-            let (p, q) = if p > 0.0 { (p, -q) } else { (-p, q) };
-            if 2.0 * p < (3.0 * m * q - (tol * q).abs()).min((e * q).abs()) {
-                e = d;
-                d = p / q;
-            } else {
-                d = m;
-                e = m;
-            }
-        }
-        a = b;
-        fa = fb;
-        b += if d.abs() > tol { d } else { tol.copysign(m) };
-        fb = f(b);
-        if !fb.is_finite() {
-            return Err(IntegrateError::NotFinite { x: b, value: fb });
-        }
-    }
-    Err(IntegrateError::RootNoConvergence { iterations: 200 })
-}
-
-/// Secant or inverse quadratic interpolation step of Brent's method, as (p, q).
-fn interpolation_step(a: f64, b: f64, c: f64, fa: f64, fb: f64, fc: f64) -> (f64, f64) {
-    let s = fb / fa;
-    if a == c {
-        (2.0 * 0.5 * (c - b) * s, 1.0 - s)
-    } else {
-        let q = fa / fc;
-        let r = fb / fc;
-        let p = s * (2.0 * 0.5 * (c - b) * q * (q - r) - (b - a) * (r - 1.0));
-        (p, (q - 1.0) * (r - 1.0) * (s - 1.0))
-    }
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -336,17 +240,5 @@ mod tests {
             r.is_err(),
             "divergent integral must not return a number: {r:?}"
         );
-    }
-
-    #[test]
-    fn brent_finds_roots_and_rejects_bad_brackets() {
-        let r = brent_root(|x: f64| x.cos() - x, 0.0, 1.0, 1e-14).unwrap();
-        assert!((r - 0.739_085_133_215_160_6).abs() < 1e-12);
-        let r = brent_root(|x: f64| x * x * x - 2.0, 0.0, 5.0, 1e-14).unwrap();
-        assert!((r - 2f64.cbrt()).abs() < 1e-12);
-        assert!(matches!(
-            brent_root(|x: f64| x * x + 1.0, -1.0, 1.0, 1e-12),
-            Err(IntegrateError::NoBracket { .. })
-        ));
     }
 }

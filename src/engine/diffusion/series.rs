@@ -22,8 +22,9 @@
 
 use std::f64::consts::PI;
 
-use super::super::integrate::brent_root;
+use super::super::integrate::IntegrateError;
 use super::super::kinetics::KineticsError;
+use super::super::solve::{brent, Tolerance};
 use super::Shape;
 
 /// Terms are kept until `beta_n^2 Fo` exceeds this (exp(-45) ~ 3e-20).
@@ -144,8 +145,15 @@ impl CrankSeries {
         let lower = ((self.coefficients[0] / ratio).ln() / (b1 * b1)).max(0.0) * (1.0 - 1e-6);
         let target = ratio.ln();
         let f = |fo: f64| self.moisture_ratio(fo).ln() - target;
-        Ok(brent_root(f, lower, upper * (1.0 + 1e-12), 1e-15 * upper)?)
+        root(f, lower, upper * (1.0 + 1e-12), 1e-15 * upper)
     }
+}
+
+/// Root of `f` in `[lo, hi]` to `x_tol` absolute (plus a few ulps) by the shared
+/// Brent solver; a missing bracket or non-convergence is an error, never a number.
+fn root<F: FnMut(f64) -> f64>(f: F, lo: f64, hi: f64, x_tol: f64) -> Result<f64, KineticsError> {
+    brent(f, lo, hi, Tolerance::new(x_tol, 2.0 * f64::EPSILON))
+        .map_err(|e| KineticsError::from(IntegrateError::from(e)))
 }
 
 /// Smallest moisture ratio [`CrankSeries::fourier_for_ratio`] inverts.
@@ -178,7 +186,7 @@ fn film_roots(shape: Shape, biot: f64, terms: usize) -> Result<Vec<f64>, Kinetic
         let k = n as f64;
         let root = match shape {
             // beta sin(beta) - L cos(beta) on ((n-1) pi, (n-1/2) pi)
-            Shape::Slab => brent_root(
+            Shape::Slab => root(
                 |b: f64| b * b.sin() - biot * b.cos(),
                 (k - 1.0) * PI,
                 (k - 0.5) * PI,
@@ -187,7 +195,7 @@ fn film_roots(shape: Shape, biot: f64, terms: usize) -> Result<Vec<f64>, Kinetic
             // beta J1 - L J0 between the (n-1)-th zero of J1 and the n-th zero of J0
             Shape::Cylinder => {
                 let lo = if n == 1 { 0.0 } else { bessel_j1_zero(n - 1) };
-                brent_root(
+                root(
                     |b: f64| b * libm::j1(b) - biot * libm::j0(b),
                     lo,
                     bessel_j0_zero(n),
@@ -195,7 +203,7 @@ fn film_roots(shape: Shape, biot: f64, terms: usize) -> Result<Vec<f64>, Kinetic
                 )?
             }
             // cos(beta) + (L - 1) sin(beta)/beta on ((n-1) pi, n pi)
-            Shape::Sphere => brent_root(
+            Shape::Sphere => root(
                 |b: f64| b.cos() + (biot - 1.0) * sinc(b),
                 (k - 1.0) * PI,
                 k * PI,
