@@ -12,7 +12,7 @@ mod graph;
 mod limits;
 mod load;
 mod ops;
-
+mod shape;
 mod sheet;
 mod sources;
 mod suggest;
