@@ -82,9 +82,9 @@ pub const SHAPES: &[(&str, Shape)] = &[
     ("air", Shape::Record("air", &[AIR])),
     ("heat", Shape::Record("air", &[AIR, HEAT, FLOW])),
     ("cool", Shape::Record("air", &[AIR, COOL, FLOW])),
-    ("saturate", Shape::Record("air", &[AIR, WATER])),
-    ("add_steam", Shape::Record("air", &[AIR, WATER])),
-    ("add_water", Shape::Record("air", &[AIR, WATER])),
+    ("saturate", Shape::Record("air", &[AIR, WATER, FLOW])),
+    ("add_steam", Shape::Record("air", &[AIR, WATER, FLOW])),
+    ("add_water", Shape::Record("air", &[AIR, WATER, FLOW])),
     ("mix", Shape::Record("air", &[AIR, MIX])),
     ("wet_surface", Shape::Record("wet_surface", &[WET_SURFACE])),
     ("wet_product", Shape::Record("wet_product", &[WET_PRODUCT])),
@@ -94,8 +94,8 @@ pub const SHAPES: &[(&str, Shape)] = &[
     ),
     ("gab", Shape::Record("isotherm", &[ISOTHERM, GAB])),
     ("bet", Shape::Record("isotherm", &[ISOTHERM, BET])),
-    ("oswin", Shape::Record("isotherm", &[ISOTHERM, TWO_AT_T])),
-    ("smith", Shape::Record("isotherm", &[ISOTHERM, TWO_AT_T])),
+    ("oswin", Shape::Record("isotherm", &[ISOTHERM, OSWIN])),
+    ("smith", Shape::Record("isotherm", &[ISOTHERM, SMITH])),
     ("peleg", Shape::Record("isotherm", &[ISOTHERM, PELEG])),
     (
         "henderson",
@@ -103,11 +103,11 @@ pub const SHAPES: &[(&str, Shape)] = &[
     ),
     (
         "modified_halsey",
-        Shape::Record("isotherm", &[ISOTHERM, A_B_PER_K]),
+        Shape::Record("isotherm", &[ISOTHERM, MOD_HALSEY]),
     ),
     (
         "modified_oswin",
-        Shape::Record("isotherm", &[ISOTHERM, A_B_PER_K]),
+        Shape::Record("isotherm", &[ISOTHERM, MOD_OSWIN]),
     ),
     (
         "modified_henderson",
@@ -165,18 +165,20 @@ const GAB: Fields = &[
     ("T", "degC"),
 ];
 const BET: Fields = &[("Xm", "db"), ("C", "-"), ("T", "degC")];
-const TWO_AT_T: Fields = &[("A", "-"), ("B", "-"), ("T", "degC")];
+const OSWIN: Fields = &[("A", "db"), ("B", "-"), ("T", "degC")];
+const SMITH: Fields = &[("A", "db"), ("B", "db"), ("T", "degC")];
 const PELEG: Fields = &[
-    ("A", "-"),
-    ("B", "-"),
+    ("A", "db"),
+    ("B", "db"),
     ("C", "-"),
     ("D", "-"),
     ("T", "degC"),
 ];
 const HENDERSON: Fields = &[("k", "1/K"), ("n", "-")];
-const A_B_PER_K: Fields = &[("A", "-"), ("B", "1/K"), ("C", "-")];
-const MOD_HENDERSON: Fields = &[("A", "1/K"), ("B", "K"), ("C", "-")];
-const CHUNG_PFOST: Fields = &[("A", "K"), ("B", "K"), ("C", "-")];
+const MOD_OSWIN: Fields = &[("A", "db"), ("B", "1/K"), ("C", "-")];
+const MOD_HALSEY: Fields = &[("A", "-"), ("B", "1/K"), ("C", "-")];
+const MOD_HENDERSON: Fields = &[("A", "1/K"), ("B", "delta_degC"), ("C", "-")];
+const CHUNG_PFOST: Fields = &[("A", "delta_degC"), ("B", "delta_degC"), ("C", "-")];
 
 /// The shape of `b`'s result: from [`SHAPES`], else its `returns` text read as
 /// a unit, else unknown.
@@ -188,6 +190,28 @@ pub fn result_shape(b: &Builtin) -> Shape {
         Some(unit) => Shape::Unit(unit),
         None => Shape::Unknown,
     }
+}
+
+/// Words of a `returns` text for results whose shape is not fixed before the
+/// call runs (see [`Shape::Unknown`]).
+const NOT_FIXED: &[&str] = &[
+    "record",
+    "table",
+    "plot",
+    "list",
+    "fit",
+    "material",
+    "distribution",
+    "curve",
+    "text",
+    "the input's value",
+];
+
+/// Does a `returns` text say the result's shape is not fixed (a table, a
+/// plot, a list, a fit, a dryer result, ...)? A test checks that every
+/// built-in's result is either shaped or says so.
+pub fn says_not_fixed(returns: &str) -> bool {
+    NOT_FIXED.iter().any(|w| returns.contains(w))
 }
 
 /// The unit in a `returns` text: all of it, or the part after the last `, `.
