@@ -312,13 +312,11 @@ fn check(file: &Path) -> i32 {
         Ok(out) => {
             print_diagnostics(&session, &out.warnings);
             let total = format::statement_count(&text);
-            let done = out.items.len();
-            let detail = if done >= total {
-                format!("all {total} statements evaluated")
-            } else {
-                format!("{done} of {total} statements evaluated; the rest need engine work, which `check` does not run")
-            };
-            println!("{}: no errors found ({detail})", file.display());
+            println!(
+                "{}: no errors found ({})",
+                file.display(),
+                check_detail(&session, &out.items, total)
+            );
             EXIT_OK
         }
         Err(diags) => {
@@ -326,6 +324,51 @@ fn check(file: &Path) -> i32 {
             EXIT_WORKSHEET
         }
     }
+}
+
+/// How much `check` could check: every statement, or which values it had to
+/// leave unchecked because they follow a result of no fixed shape.
+fn check_detail(session: &Session, items: &[OutputItem], total: usize) -> String {
+    let done = items.len();
+    if done >= total {
+        return format!("all {total} statements checked");
+    }
+    let checked: Vec<&str> = items
+        .iter()
+        .filter_map(|i| match i {
+            OutputItem::Value { name: Some(n), .. } => Some(n.as_str()),
+            _ => None,
+        })
+        .collect();
+    let unchecked: Vec<&str> = session
+        .names()
+        .iter()
+        .map(String::as_str)
+        .filter(|n| !checked.contains(n))
+        .filter(|n| {
+            session
+                .definition(n)
+                .is_some_and(|d| d.kind != crate::eval::DefKind::Function)
+        })
+        .collect();
+    let mut names = unchecked
+        .iter()
+        .take(6)
+        .copied()
+        .collect::<Vec<_>>()
+        .join(", ");
+    if unchecked.len() > 6 {
+        names.push_str(", ...");
+    }
+    let which = if names.is_empty() {
+        String::new()
+    } else {
+        format!(" (not checked: {names})")
+    };
+    format!(
+        "{done} of {total} statements checked{which}; the rest follow results whose shape \
+is only known after a run (tables, plots, fits, dryer results, what-if studies, loads)"
+    )
 }
 
 /// `siccant help [NAME]`.

@@ -29,6 +29,8 @@ pub struct Checking {
     pub blind: u32,
     /// User functions being called, while checking (catches recursion).
     pub calls: Vec<String>,
+    /// Recursive calls skipped so far.
+    pub recursions: u32,
 }
 
 /// Does `v` hold a quantity of unknown magnitude?
@@ -126,12 +128,31 @@ impl Ctx<'_> {
 
     /// `if` while checking: the condition must be a truth value and both
     /// branches must agree; the result's magnitude is unknown.
+    ///
+    /// A branch that recurses into the function being checked takes the other
+    /// branch's shape (the base case decides, as in type inference).
     pub(super) fn both_branches(&mut self, c: &Expr, a: &Expr, b: &Expr) -> Flow<Value> {
         self.truth(c, "if")?;
-        let x = self.blind_expr(a)?;
-        let y = self.blind_expr(b)?;
-        agree(&x, &y, a.span, b.span)?;
-        Ok(forget(&x))
+        let x = self.branch(a)?;
+        let y = self.branch(b)?;
+        match (x, y) {
+            (Some(x), Some(y)) => {
+                agree(&x, &y, a.span, b.span)?;
+                Ok(forget(&x))
+            }
+            (Some(v), None) | (None, Some(v)) => Ok(forget(&v)),
+            (None, None) => Err(Stop::Skip),
+        }
+    }
+
+    /// One branch, blind; `None` when it was skipped only for recursion.
+    fn branch(&mut self, e: &Expr) -> Flow<Option<Value>> {
+        let before = self.checking.recursions;
+        match self.blind_expr(e) {
+            Ok(v) => Ok(Some(v)),
+            Err(Stop::Skip) if self.checking.recursions > before => Ok(None),
+            Err(stop) => Err(stop),
+        }
     }
 
     /// `if` in a run, after the taken branch gave `taken`: check the other
@@ -207,6 +228,7 @@ impl Ctx<'_> {
             return Ok(false);
         }
         if self.checking.calls.iter().any(|n| n == name) {
+            self.checking.recursions += 1;
             return Err(Stop::Skip);
         }
         self.checking.calls.push(name.to_string());
