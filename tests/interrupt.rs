@@ -70,11 +70,30 @@ fn sigint(child: &Child) {
     assert_eq!(rc, 0, "kill(SIGINT) failed");
 }
 
-/// Read a pipe to the end on a thread, into a shared string.
-fn collect(mut pipe: impl Read + Send + 'static) -> Arc<Mutex<String>> {
+/// A pipe read to its end on a thread, into a shared string.
+struct Reader {
+    text: Arc<Mutex<String>>,
+    thread: std::thread::JoinHandle<()>,
+}
+
+impl Reader {
+    /// What has been read so far.
+    fn contains(&self, fragment: &str) -> bool {
+        self.text.lock().expect("lock").contains(fragment)
+    }
+
+    /// Everything, once the pipe is closed (the process has ended).
+    fn finish(self) -> String {
+        self.thread.join().expect("reader thread");
+        let text = self.text.lock().expect("lock").clone();
+        text
+    }
+}
+
+fn collect(mut pipe: impl Read + Send + 'static) -> Reader {
     let text = Arc::new(Mutex::new(String::new()));
     let sink = text.clone();
-    std::thread::spawn(move || {
+    let thread = std::thread::spawn(move || {
         let mut buf = [0u8; 4096];
         while let Ok(n) = pipe.read(&mut buf) {
             if n == 0 {
@@ -84,7 +103,7 @@ fn collect(mut pipe: impl Read + Send + 'static) -> Arc<Mutex<String>> {
             sink.lock().expect("lock").push_str(&chunk);
         }
     });
-    text
+    Reader { text, thread }
 }
 
 fn wait_exit(child: &mut Child) -> i32 {
@@ -107,10 +126,7 @@ fn interrupt_batch(args: &[&str]) -> (i32, String, String) {
     wait_for_handler(&child);
     sigint(&child);
     let code = wait_exit(&mut child);
-    // Let the reader threads see the end of the pipes.
-    let settled = |s: &Arc<Mutex<String>>| s.lock().expect("lock").clone();
-    std::thread::sleep(Duration::from_millis(100));
-    (code, settled(&out), settled(&err))
+    (code, out.finish(), err.finish())
 }
 
 #[test]
@@ -158,7 +174,7 @@ fn ctrl_c_in_the_repl_stops_the_cell_and_keeps_the_session() {
         stdin.flush().expect("flush");
         let shown = (0..POLLS).any(|_| {
             std::thread::sleep(Duration::from_millis(50));
-            out.lock().expect("lock").contains(shows)
+            out.contains(shows)
         });
         assert!(shown, "`{cell}` never showed `{shows}`");
     };
@@ -176,14 +192,13 @@ fn ctrl_c_in_the_repl_stops_the_cell_and_keeps_the_session() {
     let stopped = (0..POLLS).any(|_| {
         sigint(&child);
         std::thread::sleep(Duration::from_millis(50));
-        out.lock().expect("lock").contains("interrupted")
+        out.contains("interrupted")
     });
     assert!(stopped, "the cell never reported the interruption");
     stdin.write_all(b"k * 2\n").expect("write");
     drop(stdin);
     let code = wait_exit(&mut child);
-    std::thread::sleep(Duration::from_millis(100));
-    let text = out.lock().expect("lock").clone();
+    let text = out.finish();
     assert_eq!(code, 0, "stdout: {text}");
     let after = text.rsplit("interrupted").next().unwrap_or_default();
     assert!(after.contains("14 m"), "the session survived: {text}");
