@@ -124,7 +124,10 @@ impl Session {
     }
 
     /// Only check names, units and dimensions; do not run engine work
-    /// (`siccant check`). Values that need a built-in are skipped.
+    /// (`siccant check`). A built-in call gives a value of known shape and
+    /// unknown magnitude (NaN), so what follows it is checked too; such values
+    /// are for checking only and never to be shown. Values that follow a
+    /// result of no fixed shape (tables, fits, studies, loads) are skipped.
     pub fn check_only(mut self) -> Session {
         self.mode = Mode::CheckOnly;
         self

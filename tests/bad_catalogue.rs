@@ -10,6 +10,8 @@ use std::process::Command;
 /// What one bad worksheet's header comments expect.
 #[derive(Debug, Default)]
 struct Expect {
+    /// `run` (default) or `check`.
+    command: String,
     args: Vec<String>,
     exit: i32,
     /// (line, column, fragment) of diagnostics in this file
@@ -45,6 +47,7 @@ fn file_name(p: &Path) -> String {
 fn expectations(text: &str) -> Result<Expect, String> {
     let mut e = Expect {
         exit: 1,
+        command: "run".into(),
         ..Expect::default()
     };
     for line in text.lines().take_while(|l| l.starts_with('#')) {
@@ -54,6 +57,7 @@ fn expectations(text: &str) -> Result<Expect, String> {
         let value = value.trim().to_string();
         match key.trim() {
             "arg" => e.args.push(value),
+            "command" => e.command = value,
             "expect-exit" => e.exit = value.parse().map_err(|_| format!("bad exit `{value}`"))?,
             "expect-error" => e.errors.push(location(&value)?),
             "expect-message" => e.messages.push(value),
@@ -131,15 +135,23 @@ fn check_one(path: &Path) -> Vec<String> {
         Err(why) => return vec![format!("{name}: header: {why}")],
     };
     let mut problems = Vec::new();
-    for format in ["text", "json"] {
-        let out = Command::new(env!("CARGO_BIN_EXE_siccant"))
+    // `check` has one output format.
+    let formats: &[&str] = if expect.command == "run" {
+        &["text", "json"]
+    } else {
+        &["text"]
+    };
+    for &format in formats {
+        let mut command = Command::new(env!("CARGO_BIN_EXE_siccant"));
+        command
             .current_dir(catalogue_dir())
-            .arg("run")
+            .arg(&expect.command)
             .arg(&name)
-            .args(&expect.args)
-            .args(["--format", format])
-            .output()
-            .expect("the siccant binary runs");
+            .args(&expect.args);
+        if expect.command == "run" {
+            command.args(["--format", format]);
+        }
+        let out = command.output().expect("the siccant binary runs");
         let stdout = String::from_utf8_lossy(&out.stdout);
         let stderr = String::from_utf8_lossy(&out.stderr);
         let mut fail = |what: String| problems.push(format!("{name} ({format}): {what}"));

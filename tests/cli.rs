@@ -181,3 +181,67 @@ fn set_with_the_wrong_dimension_is_a_usage_error() {
     assert_eq!(out.status.code(), Some(2));
     assert!(String::from_utf8_lossy(&out.stderr).contains("input `L` is length [m]"));
 }
+
+#[test]
+fn check_follows_a_builtin_result_to_a_later_check() {
+    // invented: a tray film coefficient times a mass is not a heat flux
+    let (_dir, path) = sheet(
+        "amb = air(T: 24 degC, rh: 55 %)\n\
+         hot = heat(amb, to: 80 degC)\n\
+         q = h_tray_parallel(air: hot, velocity: 3 m/s) * 3 kg\n\
+         check q > 1 kW/m^2\n",
+    );
+    let out = siccant(&["check", path.to_str().expect("utf-8")]);
+    let stderr = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(1), "{stderr}");
+    assert!(stderr.contains("sheet.sicc:4:7"), "{stderr}");
+    assert!(
+        stderr.contains("comparison needs equal dimensions"),
+        "{stderr}"
+    );
+    assert!(!stderr.contains("NaN"), "{stderr}");
+}
+
+#[test]
+fn check_passes_a_sound_sheet_and_names_what_it_could_not_check() {
+    // invented: a heat flux from a film coefficient, then a table of no fixed shape
+    let (_dir, path) = sheet(
+        "amb = air(T: 24 degC, rh: 55 %)\n\
+         hot = heat(amb, to: 80 degC)\n\
+         q = h_tray_parallel(air: hot, velocity: 3 m/s) * (hot.T - amb.wetbulb)\n\
+         check q > 1 kW/m^2\n\
+         rows = steps(20 degC, 30 degC, 5 K)\n\
+         twice = rows\n",
+    );
+    let out = siccant(&["check", path.to_str().expect("utf-8")]);
+    let stdout = String::from_utf8_lossy(&out.stdout);
+    assert_eq!(out.status.code(), Some(0), "{stdout}");
+    assert!(stdout.contains("4 of 6 statements checked"), "{stdout}");
+    assert!(stdout.contains("not checked: rows, twice"), "{stdout}");
+}
+
+#[test]
+fn check_survives_a_recursive_function_and_checks_both_branches() {
+    // invented: a recursive sum of layer depths
+    let (_dir, path) = sheet(
+        "depth(n) = if n <= 0 then 0 m else 2 mm + depth(n - 1)\n\
+         total = depth(5)\n\
+         odd = if total > 1 m then 1 m else 4 s\n",
+    );
+    let out = siccant(&["check", path.to_str().expect("utf-8")]);
+    let stderr = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(1), "{stderr}");
+    assert!(stderr.contains("sheet.sicc:3:"), "{stderr}");
+    assert!(stderr.contains("different dimensions"), "{stderr}");
+    assert!(!stderr.contains("nested deeper"), "{stderr}");
+    let run = siccant(&["run", path.to_str().expect("utf-8")]);
+    let run_err = String::from_utf8_lossy(&run.stderr);
+    assert!(run_err.contains("different dimensions"), "{run_err}");
+}
+
+#[test]
+fn help_names_the_interrupt_exit_code() {
+    let out = siccant(&["--help"]);
+    let stdout = String::from_utf8_lossy(&out.stdout);
+    assert!(stdout.contains("130 stopped by Ctrl-C"), "{stdout}");
+}

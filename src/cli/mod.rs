@@ -1,8 +1,10 @@
 //! The `siccant` command line: `run`, `check`, `repl`, `help`.
 //!
-//! Exit codes: 0 ok, 1 worksheet error, 2 usage error, 3 a check failed.
+//! Exit codes: 0 ok, 1 worksheet error, 2 usage error, 3 a check failed,
+//! 130 stopped by Ctrl-C.
 
 mod format;
+pub mod interrupt;
 mod progress;
 
 use std::io::IsTerminal;
@@ -23,12 +25,20 @@ pub const EXIT_WORKSHEET: i32 = 1;
 pub const EXIT_USAGE: i32 = 2;
 /// Exit code: a `check` failed.
 pub const EXIT_CHECK: i32 = 3;
+/// Exit code: stopped by Ctrl-C (128 + SIGINT, the shell convention).
+pub use interrupt::EXIT_INTERRUPTED;
+
+/// Exit codes as shown at the end of `siccant --help`.
+const EXIT_CODES_HELP: &str = "Exit codes: 0 ok, 1 worksheet error (file:line:col on stderr), \
+2 usage error, 3 a check failed, 130 stopped by Ctrl-C (nothing printed or written; \
+a second Ctrl-C stops at once).";
 
 #[derive(Parser, Debug)]
 #[command(
     name = "siccant",
     version,
     about = "Unit-checked worksheets for convective dryer design",
+    after_help = EXIT_CODES_HELP,
     disable_help_subcommand = true
 )]
 struct Cli {
@@ -146,9 +156,13 @@ fn run(file: &Path, set: &[String], format: Format) -> i32 {
             Err(code) => return code,
         }
     }
+    let presses = interrupt::install(session.interrupt_handle(), interrupt::Policy::Batch);
     let progress = progress::install();
     let result = session.eval(&text);
     drop(progress);
+    if presses.any() {
+        return interrupted(&session, result.err().as_deref(), "");
+    }
     let output = match result {
         Ok(o) => o,
         Err(diags) => {
@@ -192,7 +206,12 @@ fn record(file: &Path, output: &Path, set: &[String], reproducible: bool) -> i32
             Err(code) => return code,
         }
     }
-    let out = match session.eval(&text) {
+    let presses = interrupt::install(session.interrupt_handle(), interrupt::Policy::Batch);
+    let result = session.eval(&text);
+    if presses.any() {
+        return interrupted(&session, result.err().as_deref(), "; no record written");
+    }
+    let out = match result {
         Ok(o) => o,
         Err(diags) => {
             print_diagnostics(&session, &diags);
@@ -229,6 +248,19 @@ fn record(file: &Path, output: &Path, set: &[String], reproducible: bool) -> i32
     } else {
         EXIT_OK
     }
+}
+
+/// After Ctrl-C: show the errors found (the `interrupted` one names the
+/// statement that was running) and nothing else; exit 130.
+fn interrupted(session: &Session, diags: Option<&[Diagnostic]>, what: &str) -> i32 {
+    let diags = diags.unwrap_or_default();
+    print_diagnostics(session, diags);
+    // Without an `interrupted` diagnostic the evaluation ended before it saw the flag.
+    let told = diags.iter().any(|d| d.message.starts_with("interrupted"));
+    if !told || !what.is_empty() {
+        eprintln!("error: interrupted{what}");
+    }
+    EXIT_INTERRUPTED
 }
 
 /// Parse `NAME=EXPR` and evaluate EXPR on its own.
@@ -271,17 +303,20 @@ fn check(file: &Path) -> i32 {
         Err(code) => return code,
     };
     let mut session = Session::with_file(file).check_only();
-    match session.eval(&text) {
+    let presses = interrupt::install(session.interrupt_handle(), interrupt::Policy::Batch);
+    let result = session.eval(&text);
+    if presses.any() {
+        return interrupted(&session, result.err().as_deref(), "");
+    }
+    match result {
         Ok(out) => {
             print_diagnostics(&session, &out.warnings);
             let total = format::statement_count(&text);
-            let done = out.items.len();
-            let detail = if done >= total {
-                format!("all {total} statements evaluated")
-            } else {
-                format!("{done} of {total} statements evaluated; the rest need engine work, which `check` does not run")
-            };
-            println!("{}: no errors found ({detail})", file.display());
+            println!(
+                "{}: no errors found ({})",
+                file.display(),
+                check_detail(&session, &out.items, total)
+            );
             EXIT_OK
         }
         Err(diags) => {
@@ -289,6 +324,51 @@ fn check(file: &Path) -> i32 {
             EXIT_WORKSHEET
         }
     }
+}
+
+/// How much `check` could check: every statement, or which values it had to
+/// leave unchecked because they follow a result of no fixed shape.
+fn check_detail(session: &Session, items: &[OutputItem], total: usize) -> String {
+    let done = items.len();
+    if done >= total {
+        return format!("all {total} statements checked");
+    }
+    let checked: Vec<&str> = items
+        .iter()
+        .filter_map(|i| match i {
+            OutputItem::Value { name: Some(n), .. } => Some(n.as_str()),
+            _ => None,
+        })
+        .collect();
+    let unchecked: Vec<&str> = session
+        .names()
+        .iter()
+        .map(String::as_str)
+        .filter(|n| !checked.contains(n))
+        .filter(|n| {
+            session
+                .definition(n)
+                .is_some_and(|d| d.kind != crate::eval::DefKind::Function)
+        })
+        .collect();
+    let mut names = unchecked
+        .iter()
+        .take(6)
+        .copied()
+        .collect::<Vec<_>>()
+        .join(", ");
+    if unchecked.len() > 6 {
+        names.push_str(", ...");
+    }
+    let which = if names.is_empty() {
+        String::new()
+    } else {
+        format!(" (not checked: {names})")
+    };
+    format!(
+        "{done} of {total} statements checked{which}; the rest follow results whose shape \
+is only known after a run (tables, plots, fits, dryer results, what-if studies, loads)"
+    )
 }
 
 /// `siccant help [NAME]`.

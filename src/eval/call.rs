@@ -2,7 +2,7 @@
 
 use std::panic::{catch_unwind, AssertUnwindSafe};
 
-use super::ctx::{Ctx, Flow, Mode, Stop};
+use super::ctx::{Ctx, Flow};
 use super::DefKind;
 use crate::diag::{Diagnostic, Span};
 use crate::library::{self, Arg, Args, Builtin};
@@ -67,11 +67,11 @@ impl Ctx<'_> {
     fn call_builtin(&mut self, b: &'static Builtin, args: &[CallArg], span: Span) -> Flow<Value> {
         check_arg_names(b, args)?;
         let values = self.arguments(args)?;
+        if self.check_call(b, &values) {
+            return self.builtin_shape(b, values, span);
+        }
         let mut bound = Args::bind(b, span, values)?;
         bound.dir = Some(self.sheet.dir.clone());
-        if self.mode == Mode::CheckOnly {
-            return Err(Stop::Skip);
-        }
         let result = catch_unwind(AssertUnwindSafe(|| (b.func)(&mut bound)));
         self.warnings.append(&mut bound.warnings);
         match result {
@@ -102,11 +102,13 @@ impl Ctx<'_> {
         }
         let values = self.arguments(args)?;
         let frame = bind_params(&callee.name, &params, values, span)?;
+        let entered = self.enter_user(&callee.name)?;
         self.depth += 1;
         let saved = self.frame.replace(frame);
         let result = self.expr(&body);
         self.frame = saved;
         self.depth -= 1;
+        self.leave_user(entered);
         result
     }
 }

@@ -70,6 +70,8 @@ pub struct Ctx<'a> {
     pub depth: usize,
     /// Expressions being evaluated, nested (guards the native stack).
     nesting: usize,
+    /// Shape checking: blind evaluation and user calls (see `shape.rs`).
+    pub(super) checking: super::shape::Checking,
 }
 
 /// Most expression evaluations nested inside one another (across calls).
@@ -97,6 +99,7 @@ impl<'a> Ctx<'a> {
             load_stack: Vec::new(),
             depth: 0,
             nesting: 0,
+            checking: super::shape::Checking::default(),
         }
     }
 
@@ -161,10 +164,12 @@ impl<'a> Ctx<'a> {
             .flatten();
         self.active.push(name.to_string());
         let saved = self.frame.take();
+        let blind = std::mem::take(&mut self.checking.blind);
         let result = match overridden {
             Some(v) => self.checked_override(name, &expr, v),
             None => self.expr(&expr),
         };
+        self.checking.blind = blind;
         self.frame = saved;
         self.active.pop();
         match result {
@@ -365,7 +370,12 @@ impl<'a> Ctx<'a> {
             return self.quantity(-*value, Some(unit), span);
         }
         let v = self.expr(a)?;
-        ops::unary(op, &v).map_err(|e| op_error(e, span, a.span, a.span).into())
+        let result = if self.shapes_only(&[&v]) {
+            self.on_shapes(None, &v, None, |x, _| ops::unary(op, x))?
+        } else {
+            ops::unary(op, &v)
+        };
+        result.map_err(|e| op_error(e, span, a.span, a.span).into())
     }
 
     fn binary(&mut self, op: BinaryOp, a: &Expr, b: &Expr, span: Span) -> Flow<Value> {
@@ -375,7 +385,14 @@ impl<'a> Ctx<'a> {
         let x = self.operand(a)?;
         let y = self.operand(b)?;
         let (x, y) = (self.view(&x), self.view(&y));
-        ops::binary(op, x, y).map_err(|e| {
+        let result = if self.shapes_only(&[x, y]) {
+            self.on_shapes(Some(op), x, Some(y), |x, y| {
+                ops::binary(op, x, y.unwrap_or(x))
+            })?
+        } else {
+            ops::binary(op, x, y)
+        };
+        result.map_err(|e| {
             let mut d = op_error(e, span, a.span, b.span);
             if op == BinaryOp::Add && ops::is_absolute(x) && ops::is_absolute(y) {
                 d.hints.push((
@@ -389,7 +406,8 @@ impl<'a> Ctx<'a> {
 
     fn logic(&mut self, op: BinaryOp, a: &Expr, b: &Expr) -> Flow<Value> {
         let x = self.truth(a, op.symbol())?;
-        if (op == BinaryOp::And && !x) || (op == BinaryOp::Or && x) {
+        let decided = (op == BinaryOp::And && !x) || (op == BinaryOp::Or && x);
+        if decided && !self.both_sides() {
             return Ok(Value::Bool(x));
         }
         Ok(Value::Bool(self.truth(b, op.symbol())?))
@@ -410,11 +428,13 @@ impl<'a> Ctx<'a> {
     }
 
     fn conditional(&mut self, c: &Expr, a: &Expr, b: &Expr) -> Flow<Value> {
-        if self.truth(c, "if")? {
-            self.expr(a)
-        } else {
-            self.expr(b)
+        if self.both_sides() {
+            return self.both_branches(c, a, b);
         }
+        let then_taken = self.truth(c, "if")?;
+        let v = self.expr(if then_taken { a } else { b })?;
+        self.branch_not_taken(&v, then_taken, a, b)?;
+        Ok(v)
     }
 
     fn field(&mut self, a: &Expr, field: &crate::syntax::Ident) -> Flow<Value> {
@@ -444,7 +464,13 @@ impl<'a> Ctx<'a> {
                 u,
             )?),
         };
-        show_in(view(&self.frame, &self.sheet.cache, &v), unit).map_err(|msg| {
+        let shown = view(&self.frame, &self.sheet.cache, &v);
+        let result = if self.mode == Mode::CheckOnly || self.checking.blind > 0 {
+            show_shape(shown, unit)
+        } else {
+            show_in(shown, unit)
+        };
+        result.map_err(|msg| {
             let mut d = Diagnostic::error(u.span, msg);
             d.hints.push((Some(a.span), "this value".into()));
             d.into()
@@ -472,6 +498,14 @@ enum Operand<'e> {
     Owned(Value),
     Param(&'e str),
     Global(&'e str),
+}
+
+/// `show_in` on a stand-in when the magnitude is unknown (or ignored).
+fn show_shape(v: &Value, unit: &Unit) -> Result<Value, String> {
+    if !super::shape::is_unknown(v) {
+        return show_in(v, unit);
+    }
+    show_in(&super::shape::stand_in(v), unit).map(|s| super::shape::forget(&s))
 }
 
 /// Attach a display unit to a quantity (or every quantity in a list).

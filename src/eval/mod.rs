@@ -12,6 +12,7 @@ mod graph;
 mod limits;
 mod load;
 mod ops;
+mod shape;
 mod sheet;
 mod sources;
 mod suggest;
@@ -53,6 +54,10 @@ pub fn run_statements(ctx: &mut Ctx, stmts: &[Stmt]) -> Vec<OutputItem> {
     precompute(ctx, stmts);
     let mut items = Vec::new();
     for stmt in stmts {
+        if ctx.limits.interrupted() {
+            report_interrupt(ctx, stmt.span);
+            break;
+        }
         let item = match &stmt.kind {
             StmtKind::Binding { name, .. } | StmtKind::Input { name, .. } => ctx
                 .force(&name.name, name.span)
@@ -106,9 +111,24 @@ fn precompute(ctx: &mut Ctx, stmts: &[Stmt]) {
             .collect()
     };
     for (name, span) in order {
+        if ctx.limits.interrupted() {
+            break;
+        }
         if let Err(stop) = ctx.force(&name, span) {
             ctx.report(stop);
         }
+    }
+}
+
+/// Report `interrupted` at the statement reached, unless a value already did.
+fn report_interrupt(ctx: &mut Ctx, span: crate::diag::Span) {
+    if !ctx
+        .errors
+        .iter()
+        .any(|d| d.message.starts_with("interrupted"))
+    {
+        ctx.errors
+            .push(crate::diag::Diagnostic::error(span, "interrupted"));
     }
 }
 

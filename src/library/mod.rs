@@ -12,6 +12,7 @@ pub mod fit;
 pub mod kinetics;
 pub mod math;
 pub mod plot;
+pub mod shape;
 pub mod sorption;
 pub mod transfer;
 pub mod whatif;

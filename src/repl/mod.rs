@@ -3,7 +3,8 @@
 //! Multi-line input needs no continuation characters: a validator asks
 //! [`Session::is_complete`] whether brackets are still open. Tab completes
 //! names, built-ins and units; `help NAME` shows documentation; errors are
-//! coloured when the terminal allows.
+//! coloured when the terminal allows. Ctrl-C during an evaluation stops that
+//! cell and keeps the session (see `cli::interrupt`).
 
 use std::cell::RefCell;
 use std::io::IsTerminal;
@@ -62,6 +63,9 @@ fn history_path() -> Option<PathBuf> {
 /// Run the REPL until end of input; returns the exit code.
 pub fn run() -> i32 {
     let session = Rc::new(RefCell::new(Session::new()));
+    // Ctrl-C during an evaluation stops that cell; the session stays as it was.
+    let flag = session.borrow().interrupt_handle();
+    crate::cli::interrupt::install(flag, crate::cli::interrupt::Policy::Interactive);
     let mut editor: Editor<ReplHelper, rustyline::history::DefaultHistory> = match Editor::new() {
         Ok(e) => e,
         Err(e) => {
@@ -77,7 +81,7 @@ pub fn run() -> i32 {
         let _ = editor.load_history(h);
     }
     println!(
-        "siccant {} -- `help` lists built-ins, `help NAME` explains one, Ctrl-D quits.",
+        "siccant {} -- `help` lists built-ins, `help NAME` explains one, Ctrl-C stops a long evaluation, Ctrl-D quits.",
         env!("CARGO_PKG_VERSION")
     );
     loop {
