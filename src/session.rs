@@ -141,8 +141,11 @@ impl Session {
 
     /// Evaluate text: add its definitions, then compute and return its statements'
     /// results in order. All errors found are returned.
+    ///
+    /// The interrupt flag is left as it is: the front end clears it
+    /// ([`Session::clear_interrupt`]) when a new request begins, so an interrupt
+    /// that arrives between announcing a cell and starting it is never lost.
     pub fn eval(&mut self, text: &str) -> Result<Output, Vec<Diagnostic>> {
-        self.limits.reset();
         if !self.strict {
             self.forget_unused_sources();
         }
@@ -389,8 +392,15 @@ impl Session {
     }
 
     /// A flag that stops a running evaluation when set (from another thread).
+    /// It stays raised until [`Session::clear_interrupt`].
     pub fn interrupt_handle(&self) -> Arc<AtomicBool> {
         self.limits.interrupt.clone()
+    }
+
+    /// Lower the interrupt flag: call it when a new request begins (the REPL
+    /// before each entry, the kernel before it announces a cell).
+    pub fn clear_interrupt(&self) {
+        self.limits.reset();
     }
 
     /// Render a diagnostic as `file:line:col` with the source line underlined.

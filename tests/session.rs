@@ -107,7 +107,9 @@ fn interrupt_flag_stops_evaluation() {
         .and_then(|d| d.first().map(|d| d.message.clone()))
         .unwrap_or_default();
     assert_eq!(message, "interrupted");
-    // The next evaluation starts with the flag cleared.
+    // The flag stays raised until the front end clears it for the next request.
+    assert!(s.eval("1 + 1").is_err());
+    s.clear_interrupt();
     assert!(s.eval("1 + 1").is_ok());
 }
 

@@ -6,17 +6,16 @@
 //! `interrupted` diagnostic at the statement it was working on.
 //!
 //! - Batch commands (`run`, `record`, `check`) evaluate once: the first Ctrl-C
-//!   keeps the flag raised until the process ends (so that a press just before
-//!   the evaluation starts is not cleared by the session's per-evaluation
-//!   reset), and a second Ctrl-C stops the process at once with
-//!   [`EXIT_INTERRUPTED`], for a built-in that takes long between checks.
+//!   raises the flag, which stays raised (the session never lowers it by
+//!   itself, so a press just before the evaluation starts is not lost), and a
+//!   second Ctrl-C stops the process at once with [`EXIT_INTERRUPTED`], for a
+//!   built-in that takes long between checks.
 //! - The REPL only raises the flag: the cell stops, the session stays, and the
-//!   next evaluation clears the flag. At the prompt rustyline reads Ctrl-C
+//!   REPL lowers the flag before the next entry. At the prompt rustyline reads Ctrl-C
 //!   itself (the terminal is in raw mode), so no signal arrives there.
 
 use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
 use std::sync::Arc;
-use std::time::Duration;
 
 /// Exit code after Ctrl-C (128 + SIGINT, the shell convention).
 pub const EXIT_INTERRUPTED: i32 = 130;
@@ -68,26 +67,10 @@ fn on_press(flag: &Arc<AtomicBool>, presses: &Presses, policy: Policy) {
     if policy == Policy::Interactive {
         return;
     }
-    if n == 1 {
-        keep_raised(flag.clone());
-    } else {
+    if n > 1 {
         eprintln!("error: interrupted again; stopping at once");
         std::process::exit(EXIT_INTERRUPTED);
     }
-}
-
-/// Re-raise the flag now and then until the process ends: a batch command
-/// evaluates once, and the session clears the flag when an evaluation starts.
-fn keep_raised(flag: Arc<AtomicBool>) {
-    // Without the thread the flag is still raised once; a press just before
-    // the evaluation starts may then be missed, and the command reports the
-    // interruption when the evaluation ends.
-    let _ = std::thread::Builder::new()
-        .name("ctrl-c".into())
-        .spawn(move || loop {
-            flag.store(true, Ordering::SeqCst);
-            std::thread::sleep(Duration::from_millis(20));
-        });
 }
 
 #[cfg(test)]
@@ -107,18 +90,11 @@ mod tests {
     }
 
     #[test]
-    fn batch_press_keeps_the_flag_raised_after_a_reset() {
+    fn batch_first_press_raises_the_flag_and_counts() {
         let flag = Arc::new(AtomicBool::new(false));
         let presses = Presses::default();
         on_press(&flag, &presses, Policy::Batch);
-        flag.store(false, Ordering::SeqCst);
-        // Poll with a generous bound (no speed is asserted): the keeper
-        // thread raises the flag again.
-        let raised = (0..3000).any(|_| {
-            std::thread::sleep(Duration::from_millis(10));
-            flag.load(Ordering::SeqCst)
-        });
-        assert!(raised, "the flag stayed down after a reset");
+        assert!(flag.load(Ordering::SeqCst));
         assert!(presses.any());
     }
 }

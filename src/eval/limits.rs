@@ -35,7 +35,7 @@ impl Limits {
         self.interrupt.load(Ordering::Relaxed)
     }
 
-    /// Clear the interrupt flag before a new evaluation.
+    /// Lower the interrupt flag (the front end does it when a new request begins).
     pub fn reset(&self) {
         self.interrupt.store(false, Ordering::Relaxed);
     }

@@ -118,6 +118,7 @@ pub fn handle(session: &mut Session, line: &str) {
         }
         return;
     }
+    session.clear_interrupt();
     match session.eval(line) {
         Ok(out) => {
             for w in &out.warnings {
