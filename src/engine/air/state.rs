@@ -24,7 +24,7 @@ use uom::si::thermodynamic_temperature::kelvin;
 use super::saturation::{self as sat, T_MIN_SATURATION, T_ZERO_C};
 use super::thermo::{self, EPSILON};
 use super::AirError;
-use crate::engine::solve::{brent, newton_bracketed, Tolerance};
+use crate::engine::solve::{brent, newton_exact, Tolerance};
 
 /// Lowest dry-bulb temperature of an air state, K (-40 degC).
 pub const T_MIN_K: f64 = 233.15;
@@ -155,34 +155,39 @@ fn w_for_enthalpy(t: f64, p: f64, target: f64, hc: f64) -> Result<f64, AirError>
     })
 }
 
-/// The adiabatic-saturation balance in log form, and an estimate of its slope, 1/K.
+/// The adiabatic-saturation balance in log form, and its slope, 1/K.
 ///
 /// The balance `h(T*, w_s*) - h1 - (w_s* - w) h_c(T*) = 0` is
 /// `w_s* (h_v* - h_c) = h1 - h_a(T*) - w h_c` (vapour "supply" = sensible "demand",
 /// h_a the enthalpy of everything but the vapour). The residual is the log of
 /// their ratio: same sign, nearly linear in T* (the supply grows like p_ws), so
-/// Newton's method needs few steps. The slope uses Clausius-Clapeyron for
-/// `d ln w_s*/dT*` and round specific heats; the solver refines it by secants.
+/// Newton's method needs few steps. The slope is exact (every term differentiated
+/// analytically, the vapour pressure moving along the saturation line), so the
+/// iteration converges quadratically.
 fn wet_bulb_residual(ts: f64, w: f64, p: f64, h1: f64, ice: bool) -> (f64, f64) {
-    let pvs = sat::saturated_vapour_pressure(ts, p);
+    let (pvs, dln_pvs) = sat::saturated_vapour_pressure_and_slope(ts, p);
     if pvs >= p {
         return (f64::INFINITY, f64::INFINITY);
     }
     let ws = w_of(pvs, p);
-    let hv = thermo::vapour_enthalpy(ts, pvs);
+    let dpvs = pvs * dln_pvs;
+    let hv = thermo::vapour_enthalpy_and_slopes(ts, pvs);
     let (hc, cc) = if ice {
-        (thermo::ice_enthalpy(ts), 2100.0)
+        (thermo::ice_enthalpy(ts), thermo::ICE_CP)
     } else {
-        (thermo::liquid_enthalpy(ts), 4186.0)
+        (thermo::liquid_enthalpy(ts), thermo::LIQUID_CP)
     };
-    let latent = hv - hc;
+    let latent = hv.value - hc;
     let supply = ws * latent;
-    let demand = h1 - thermo::air_part_enthalpy(ts, p - pvs, pvs) - w * hc;
+    let ha = thermo::air_part_enthalpy_and_slopes(ts, p - pvs, pvs);
+    let demand = h1 - ha.value - w * hc;
     if demand <= 0.0 {
         return (f64::INFINITY, f64::INFINITY);
     }
-    let dln_ws = p / (p - pvs) * latent / (thermo::R_WATER_IF97 * ts * ts);
-    let slope = dln_ws + (1880.0 - cc) / latent + (1006.0 + w * cc) / demand;
+    let dln_ws = p / (p - pvs) * dln_pvs;
+    let dlatent = hv.d_t + hv.d_pv * dpvs - cc;
+    let ddemand = -(ha.d_t + (ha.d_pv - ha.d_pa) * dpvs) - w * cc;
+    let slope = dln_ws + dlatent / latent - ddemand / demand;
     ((supply / demand).ln(), slope)
 }
 
@@ -469,9 +474,11 @@ impl AirState {
     }
 
     pub(crate) fn humid_heat_j_per_kg_da_k(&self) -> f64 {
-        let dt = 1e-3;
-        (h_of(self.t_k + dt, self.w, self.p_pa) - h_of(self.t_k - dt, self.w, self.p_pa))
-            / (2.0 * dt)
+        // dh/dT at constant partial pressures (w and p fixed), analytic.
+        let pv = pv_of(self.w, self.p_pa);
+        let air = thermo::air_part_enthalpy_and_slopes(self.t_k, self.p_pa - pv, pv);
+        let vapour = thermo::vapour_enthalpy_and_slopes(self.t_k, pv);
+        air.d_t + self.w * vapour.d_t
     }
 
     /// Dew point (frost point below 0 degC): where saturated air has this vapour pressure.
@@ -489,22 +496,14 @@ impl AirState {
             return Err(AirError::NoDewPoint { w: self.w });
         }
         let ln_pv = pv.ln();
-        // Slope by Clausius-Clapeyron, d ln p/dT = L/(R T^2) with L about 2.5 MJ/kg
-        // (2.83 MJ/kg over ice); the solver refines it by secants.
+        // ln of the saturation vapour pressure against ln pv, with its exact slope.
         let residual = |t: f64| {
-            let latent = if t < T_ZERO_C {
-                2.834e6
-            } else {
-                2.501e6 - 2.4e3 * (t - T_ZERO_C)
-            };
-            (
-                sat::ln_saturated_vapour_pressure(t, p) - ln_pv,
-                latent.max(1e5) / (thermo::R_WATER_IF97 * t * t),
-            )
+            let (pvs, dln_pvs) = sat::saturated_vapour_pressure_and_slope(t, p);
+            (pvs.ln() - ln_pv, dln_pvs)
         };
         let hi = self.t_k.max(T_ZERO_C + 1.0);
         let start = self.dew_point_estimate_k().clamp(T_MIN_SATURATION, hi);
-        newton_bracketed(residual, T_MIN_SATURATION, hi, start, T_TOL).map_err(|e| {
+        newton_exact(residual, T_MIN_SATURATION, hi, start, T_TOL).map_err(|e| {
             AirError::NotConverged {
                 what: "dew point",
                 reason: e,
@@ -553,7 +552,7 @@ impl AirState {
                 what: format!("the wet-bulb of nearly pure steam (w = {w:.1} kg/kg) is within 0.02 K of the boiling point"),
             });
         }
-        let ts = newton_bracketed(f, lo, hi, guess.clamp(lo, hi), T_TOL).map_err(err)?;
+        let ts = newton_exact(f, lo, hi, guess.clamp(lo, hi), T_TOL).map_err(err)?;
         // A saturated state: the root is the dry-bulb itself up to rounding.
         Ok(ts.min(t))
     }
@@ -569,21 +568,70 @@ impl AirState {
     /// Upper end of the wet-bulb bracket: the dry-bulb, or just below the boiling
     /// point at p when the dry-bulb is above it.
     fn wet_bulb_upper_k(&self) -> Result<f64, AirError> {
-        if ws_of(self.t_k, self.p_pa).is_some() {
+        let limits = boiling_limits(self.p_pa)?;
+        // Clearly below or above the boiling point; within rounding of it, ask
+        // the saturation curve itself.
+        let margin = 1e-6;
+        if self.t_k < limits.boiling_k - margin {
             return Ok(self.t_k);
         }
-        // Just below the boiling point (IF97 backward equation, within 0.01 K of
-        // our curve): w_s* there exceeds 100 kg/kg, so the balance is positive.
-        let tb = sat::if97_saturation_temperature(self.p_pa.clamp(611.3, sat::P_CRITICAL));
-        let mut hi = tb - 0.02;
-        for _ in 0..40 {
-            if ws_of(hi, self.p_pa).is_some() {
-                return Ok(hi);
-            }
-            hi -= 0.02;
+        if self.t_k <= limits.boiling_k + margin && ws_of(self.t_k, self.p_pa).is_some() {
+            return Ok(self.t_k);
         }
-        Err(AirError::ProcessOutOfRange {
-            what: "no saturated state below the boiling point".into(),
-        })
+        Ok(limits.wet_bulb_cap_k)
     }
+}
+
+/// Where humid air at one total pressure stops being saturable.
+#[derive(Clone, Copy, Debug, PartialEq)]
+struct BoilingLimits {
+    /// Total pressure, Pa.
+    p_pa: f64,
+    /// Boiling point of water at p (where `f p_ws = p`), K.
+    boiling_k: f64,
+    /// Highest temperature below it, on a 0.02 K grid down from the IF97
+    /// backward equation, where saturated air exists: the top of the wet-bulb
+    /// bracket for dry-bulbs above the boiling point, K.
+    wet_bulb_cap_k: f64,
+}
+
+thread_local! {
+    /// The limits at the last pressure used on this thread: a sweep at one
+    /// pressure solves for the boiling point once, not once per state.
+    static BOILING: std::cell::Cell<Option<BoilingLimits>> = const { std::cell::Cell::new(None) };
+}
+
+/// The boiling limits at `p` (Pa), from the per-thread cache or computed.
+fn boiling_limits(p: f64) -> Result<BoilingLimits, AirError> {
+    if let Some(cached) = BOILING.with(std::cell::Cell::get) {
+        if cached.p_pa == p {
+            return Ok(cached);
+        }
+    }
+    let limits = BoilingLimits {
+        p_pa: p,
+        boiling_k: sat::boiling_point(p).map_err(|e| AirError::NotConverged {
+            what: "boiling point",
+            reason: e,
+        })?,
+        wet_bulb_cap_k: wet_bulb_cap_k(p)?,
+    };
+    BOILING.with(|cell| cell.set(Some(limits)));
+    Ok(limits)
+}
+
+/// Just below the boiling point at p (IF97 backward equation, within 0.01 K of
+/// our curve): w_s* there exceeds 100 kg/kg, so the wet-bulb balance is positive.
+fn wet_bulb_cap_k(p: f64) -> Result<f64, AirError> {
+    let tb = sat::if97_saturation_temperature(p.clamp(611.3, sat::P_CRITICAL));
+    let mut hi = tb - 0.02;
+    for _ in 0..40 {
+        if ws_of(hi, p).is_some() {
+            return Ok(hi);
+        }
+        hi -= 0.02;
+    }
+    Err(AirError::ProcessOutOfRange {
+        what: "no saturated state below the boiling point".into(),
+    })
 }
