@@ -60,28 +60,28 @@ const HW_WATER: [f64; 6] = [
 #[inline]
 pub fn ln_ice_hyland_wexler(t: f64) -> f64 {
     let c = &HW_ICE;
-    c[0] / t + c[1] + t * (c[2] + t * (c[3] + t * (c[4] + t * c[5]))) + c[6] * t.ln()
+    c[0] * (1.0 / t) + c[1] + t * (c[2] + t * (c[3] + t * (c[4] + t * c[5]))) + c[6] * t.ln()
 }
 
 /// `d ln p_ws / dT` over ice (Hyland-Wexler, differentiated term by term), 1/K.
 #[inline]
 fn ln_ice_slope(t: f64) -> f64 {
-    let c = &HW_ICE;
-    -c[0] / (t * t) + c[2] + t * (2.0 * c[3] + t * (3.0 * c[4] + t * 4.0 * c[5])) + c[6] / t
+    let (c, inv) = (&HW_ICE, 1.0 / t);
+    (c[6] - c[0] * inv) * inv + c[2] + t * (2.0 * c[3] + t * (3.0 * c[4] + t * 4.0 * c[5]))
 }
 
 /// ln p_ws over liquid water, Hyland-Wexler (ASHRAE Fundamentals 2017 ch. 1 eq. 6), T in K, p in Pa.
 #[inline]
 pub fn ln_water_hyland_wexler(t: f64) -> f64 {
     let c = &HW_WATER;
-    c[0] / t + c[1] + t * (c[2] + t * (c[3] + t * c[4])) + c[5] * t.ln()
+    c[0] * (1.0 / t) + c[1] + t * (c[2] + t * (c[3] + t * c[4])) + c[5] * t.ln()
 }
 
 /// `d ln p_ws / dT` over liquid water (Hyland-Wexler, differentiated term by term), 1/K.
 #[inline]
 fn ln_water_hyland_wexler_slope(t: f64) -> f64 {
-    let c = &HW_WATER;
-    -c[0] / (t * t) + c[2] + t * (2.0 * c[3] + t * 3.0 * c[4]) + c[5] / t
+    let (c, inv) = (&HW_WATER, 1.0 / t);
+    (c[5] - c[0] * inv) * inv + c[2] + t * (2.0 * c[3] + t * 3.0 * c[4])
 }
 
 /// IAPWS-IF97 region 4 coefficients n1..n10 (R7-97(2012) table 34).
@@ -250,7 +250,8 @@ fn enhancement_exponent_and_slope(
     let inside = if raw == tc { 1.0 } else { 0.0 };
     let alpha = c[0] + tc * (c[1] + tc * (c[2] + tc * c[3]));
     let beta = (c[4] + tc * (c[5] + tc * (c[6] + tc * c[7]))).exp();
-    let (dry, wet) = (es / p, p / es);
+    let dry = es * (1.0 / p);
+    let wet = 1.0 / dry;
     let value = alpha * (1.0 - dry) + beta * (wet - 1.0);
     let dalpha = c[1] + tc * (2.0 * c[2] + tc * 3.0 * c[3]);
     let dbeta = beta * (c[5] + tc * (2.0 * c[6] + tc * 3.0 * c[7]));
@@ -264,7 +265,7 @@ fn enhancement_exponent_and_slope(
 /// transcendental call for the enhancement factor, which is within 1 % of 1.
 fn exp_small(x: f64) -> f64 {
     if x.abs() < 0.01 {
-        1.0 + x * (1.0 + x / 2.0 * (1.0 + x / 3.0 * (1.0 + x / 4.0 * (1.0 + x / 5.0))))
+        1.0 + x * (1.0 + x * 0.5 * (1.0 + x * (1.0 / 3.0) * (1.0 + x * 0.25 * (1.0 + x * 0.2))))
     } else {
         x.exp()
     }

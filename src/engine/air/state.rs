@@ -169,7 +169,8 @@ fn wet_bulb_residual(ts: f64, w: f64, p: f64, h1: f64, ice: bool) -> (f64, f64) 
     if pvs >= p {
         return (f64::INFINITY, f64::INFINITY);
     }
-    let ws = w_of(pvs, p);
+    let per_pa = 1.0 / (p - pvs);
+    let ws = EPSILON * pvs * per_pa;
     let dpvs = pvs * dln_pvs;
     let hv = thermo::vapour_enthalpy_and_slopes(ts, pvs);
     let (hc, cc) = if ice {
@@ -184,11 +185,41 @@ fn wet_bulb_residual(ts: f64, w: f64, p: f64, h1: f64, ice: bool) -> (f64, f64) 
     if demand <= 0.0 {
         return (f64::INFINITY, f64::INFINITY);
     }
-    let dln_ws = p / (p - pvs) * dln_pvs;
+    let per_demand = 1.0 / demand;
+    let dln_ws = p * per_pa * dln_pvs;
     let dlatent = hv.d_t + hv.d_pv * dpvs - cc;
     let ddemand = -(ha.d_t + (ha.d_pv - ha.d_pa) * dpvs) - w * cc;
-    let slope = dln_ws + dlatent / latent - ddemand / demand;
-    ((supply / demand).ln(), slope)
+    let slope = dln_ws + dlatent / latent - ddemand * per_demand;
+    (ln_near_one(supply * per_demand), slope)
+}
+
+/// `ln x`, by the series of `ln(1 + u)` to u^6 when `|u| = |x - 1| < 1e-3`
+/// (truncation below 2e-22, under the rounding of `ln` itself), else by `ln`.
+/// The wet-bulb residual is the log of a ratio that tends to 1.
+#[inline]
+fn ln_near_one(x: f64) -> f64 {
+    let u = x - 1.0;
+    if u.abs() < 1e-3 {
+        let tail = 0.2 - u * (1.0 / 6.0);
+        let series = 1.0 / 3.0 - u * (0.25 - u * tail);
+        u - u * u * (0.5 - u * series)
+    } else {
+        x.ln()
+    }
+}
+
+/// Rough wet-bulb from the dew point `dew` (K) and dry-bulb `t` (K), to start
+/// the exact solve: the balance linearised at the dew point, where the supply
+/// `w_s* L` grows by `w L k` per kelvin (`k = d ln w_s/dT` by Clausius-Clapeyron
+/// with L = 2.5 MJ/kg) and the demand falls by the humid heat `c`, puts the
+/// wet-bulb a fraction `c / (c + w L k)` of the way from the dew point to the
+/// dry-bulb. Within a few kelvin; the Newton solve needs two or three steps.
+fn wet_bulb_estimate_k(t: f64, w: f64, p: f64, dew: f64) -> f64 {
+    const LATENT: f64 = 2.5e6;
+    let pv = pv_of(w, p);
+    let k = LATENT / (thermo::R_WATER_IF97 * dew * dew) * p / (p - pv);
+    let humid_heat = 1006.0 + 1860.0 * w;
+    dew + (t - dew) * humid_heat / (humid_heat + w * LATENT * k)
 }
 
 impl AirState {
@@ -530,9 +561,7 @@ impl AirState {
             what: "wet-bulb temperature",
             reason: e,
         };
-        // A start about a fifth of the way from the dew point (common practice: the
-        // wet-bulb sits nearer the dew point than the dry-bulb).
-        let guess = dew + (hi - dew) * 0.2;
+        let guess = wet_bulb_estimate_k(t.min(hi), w, p, dew);
         // Over liquid water when a root at or above 0 degC exists, else over ice.
         let (lo, hi, ice) = if hi < T_ZERO_C {
             (T_MIN_SATURATION, hi, true)
@@ -634,4 +663,19 @@ fn wet_bulb_cap_k(p: f64) -> Result<f64, AirError> {
     Err(AirError::ProcessOutOfRange {
         what: "no saturated state below the boiling point".into(),
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn log_series_matches_ln() {
+        for i in -1000..=1000 {
+            let x = 1.0 + i as f64 * 0.999e-6;
+            let (ours, libm) = (ln_near_one(x), x.ln());
+            assert!((ours - libm).abs() <= 2e-16 * libm.abs().max(1e-300), "{x}");
+        }
+        assert_eq!(ln_near_one(2.0), 2f64.ln());
+    }
 }

@@ -91,14 +91,16 @@ pub struct WithSlopes {
 fn air_residual_enthalpy_and_slopes(t: f64, pa: f64, pv: f64) -> WithSlopes {
     let (baa, t_dbaa) = virial(t, &B_AIR_AIR);
     let (baw, t_dbaw) = virial(t, &B_AIR_WATER);
+    let per_kg = 1.0 / M_DRY_AIR;
+    let (d_pa, d_pv) = ((baa - t_dbaa) * per_kg, 2.0 * (baw - t_dbaw) * per_kg);
     let d_t = (pa * virial_enthalpy_slope(t, &B_AIR_AIR)
         + 2.0 * pv * virial_enthalpy_slope(t, &B_AIR_WATER))
-        / M_DRY_AIR;
+        * per_kg;
     WithSlopes {
-        value: (pa * (baa - t_dbaa) + 2.0 * pv * (baw - t_dbaw)) / M_DRY_AIR,
+        value: pa * d_pa + pv * d_pv,
         d_t,
-        d_pa: (baa - t_dbaa) / M_DRY_AIR,
-        d_pv: 2.0 * (baw - t_dbaw) / M_DRY_AIR,
+        d_pa,
+        d_pv,
     }
 }
 
@@ -160,21 +162,21 @@ const LEMMON_T_RED: f64 = 132.6312;
 const LEMMON_R: f64 = 8.314_51 / 0.028_958_6;
 
 /// tau * d(alpha0)/d(tau) for air, without the constant N5 term (it cancels in
-/// differences), and tau times its tau-derivative.
+/// differences), and tau times its tau-derivative; `inv` is 1/tau.
 #[inline]
-fn air_tau_alpha_tau(tau: f64) -> (f64, f64) {
+fn air_tau_alpha_tau(tau: f64, inv: f64) -> (f64, f64) {
     let n = &LEMMON_N;
-    let poly = -3.0 * n[0] * tau.powi(-3) - 2.0 * n[1] * tau.powi(-2) - n[2] / tau;
-    let tau_dpoly = 9.0 * n[0] * tau.powi(-3) + 4.0 * n[1] * tau.powi(-2) + n[2] / tau;
+    let (inv2, inv3) = (inv * inv, inv * inv * inv);
+    let poly = -3.0 * n[0] * inv3 - 2.0 * n[1] * inv2 - n[2] * inv;
+    let tau_dpoly = 9.0 * n[0] * inv3 + 4.0 * n[1] * inv2 + n[2] * inv;
     // a b tau / (e^(b tau) - 1) and tau times its derivative.
     let planck = |a: f64, b: f64| {
         let e = (b * tau).exp();
-        let value = a * b * tau / (e - 1.0);
-        (value, value * (1.0 - b * tau * e / (e - 1.0)))
+        let r = 1.0 / (e - 1.0);
+        let value = a * b * tau * r;
+        (value, value * (1.0 - b * tau * e * r))
     };
-    let q = 2.0 / 3.0 * (-n[12] * tau).exp();
-    let last = n[9] * n[12] * tau / (q + 1.0);
-    let tau_dlast = last * (1.0 + n[12] * tau * q / (q + 1.0));
+    let (last, tau_dlast) = air_last_term(tau);
     let root = tau.sqrt();
     let (p1, tau_dp1) = planck(n[7], n[10]);
     let (p2, tau_dp2) = planck(n[8], n[11]);
@@ -183,10 +185,28 @@ fn air_tau_alpha_tau(tau: f64) -> (f64, f64) {
     (value, tau_dvalue)
 }
 
+/// Lemmon's last term `N10 N13 tau / (2/3 e^(-N13 tau) + 1)` and tau times its
+/// derivative. Below about 31 degC (N13 tau > 37) the exponential is under
+/// 2^-54 and drops out of the sum exactly, so it is not evaluated.
+#[inline]
+fn air_last_term(tau: f64) -> (f64, f64) {
+    let n = &LEMMON_N;
+    let x = n[12] * tau;
+    if x > 37.0 {
+        let last = n[9] * x;
+        return (last, last);
+    }
+    let q = 2.0 / 3.0 * (-x).exp();
+    let r = 1.0 / (q + 1.0);
+    let last = n[9] * x * r;
+    (last, last * (1.0 + x * q * r))
+}
+
 /// Ideal-gas enthalpy of dry air from an arbitrary origin (J/kg) and its cp (J/(kg K)).
 #[inline]
 fn air_ideal_enthalpy_and_cp(t: f64) -> (f64, f64) {
-    let (g, tau_dg) = air_tau_alpha_tau(LEMMON_T_RED / t);
+    let inv_tau = t * (1.0 / LEMMON_T_RED);
+    let (g, tau_dg) = air_tau_alpha_tau(1.0 / inv_tau, inv_tau);
     (LEMMON_R * t * (1.0 + g), LEMMON_R * (1.0 + g - tau_dg))
 }
 
@@ -245,8 +265,9 @@ fn vapour_ideal_enthalpy_if97(t: f64) -> f64 {
 fn vapour_ideal_enthalpy_and_cp(t: f64) -> (f64, f64) {
     // sum n J tau^(J-1) over the table, written out: tau t = 540 K, inv = 1/tau.
     let n = |i: usize| IF97_IDEAL[i].1;
-    let tau = 540.0 / t;
-    let inv = t / 540.0;
+    let inv_t = 1.0 / t;
+    let tau = 540.0 * inv_t;
+    let inv = t * (1.0 / 540.0);
     let negative = inv
         * inv
         * (-n(6)
@@ -262,7 +283,7 @@ fn vapour_ideal_enthalpy_and_cp(t: f64) -> (f64, f64) {
     let g_tau_tau = 2.0 * n(7) + 6.0 * n(8) * tau + negative_slope;
     (
         R_WATER_IF97 * 540.0 * g_tau,
-        -R_WATER_IF97 * 540.0 * g_tau_tau * tau / t,
+        -R_WATER_IF97 * 540.0 * g_tau_tau * tau * inv_t,
     )
 }
 
@@ -276,7 +297,8 @@ fn vapour_residual_enthalpy(t: f64, pv: f64) -> f64 {
 /// (J/(kg K)) and pv (J/(kg Pa)).
 #[inline]
 fn vapour_residual_enthalpy_and_slopes(t: f64, pv: f64) -> (f64, f64, f64) {
-    let tau = 540.0 / t;
+    let inv_t = 1.0 / t;
+    let tau = 540.0 * inv_t;
     let x = tau - 0.5;
     let g_tau: f64 = IF97_VIRIAL
         .iter()
@@ -287,11 +309,11 @@ fn vapour_residual_enthalpy_and_slopes(t: f64, pv: f64) -> (f64, f64, f64) {
         .filter(|&&(j, _)| j >= 2)
         .map(|&(j, n)| n * (j * (j - 1)) as f64 * x.powi(j - 2))
         .sum();
-    let scale = R_WATER_IF97 * t * tau;
+    let scale = R_WATER_IF97 * 540.0 * 1e-6;
     (
-        scale * (pv / 1e6) * g_tau,
-        -scale * (pv / 1e6) * g_tau_tau * tau / t,
-        scale / 1e6 * g_tau,
+        scale * pv * g_tau,
+        -scale * pv * g_tau_tau * tau * inv_t,
+        scale * g_tau,
     )
 }
 
