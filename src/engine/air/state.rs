@@ -53,6 +53,10 @@ pub struct AirState {
     t_k: f64,
     p_pa: f64,
     w: f64,
+    /// Vapour pressure of saturated air at (T, p), `f p_ws`, Pa: derived from
+    /// the three above, kept because the constructor's saturation check needs
+    /// it anyway and rh, w_s and the degree of saturation use it again.
+    pvs_pa: f64,
 }
 
 pub(crate) fn check_pressure(p: f64) -> Result<(), AirError> {
@@ -226,13 +230,25 @@ impl AirState {
     fn new_checked(t: f64, w: f64, p: f64, w_name: &'static str) -> Result<AirState, AirError> {
         check_dry_bulb("T", t)?;
         check_pressure(p)?;
+        AirState::with_saturation(t, w, p, w_name, sat::saturated_vapour_pressure(t, p))
+    }
+
+    /// The state after T and p are checked, given `pvs = f p_ws` at (T, p).
+    fn with_saturation(
+        t: f64,
+        w: f64,
+        p: f64,
+        w_name: &'static str,
+        pvs: f64,
+    ) -> Result<AirState, AirError> {
         if !(w.is_finite() && w >= 0.0) {
             return Err(AirError::HumidityRatioNegative {
                 name: w_name,
                 value: w,
             });
         }
-        if let Some(ws) = ws_of(t, p) {
+        if pvs < p {
+            let ws = w_of(pvs, p);
             if w > ws * (1.0 + SLACK) {
                 return Err(AirError::HumidityRatioAboveSaturation {
                     name: w_name,
@@ -242,7 +258,12 @@ impl AirState {
                 });
             }
         }
-        Ok(AirState { t_k: t, p_pa: p, w })
+        Ok(AirState {
+            t_k: t,
+            p_pa: p,
+            w,
+            pvs_pa: pvs,
+        })
     }
 
     /// State from dry-bulb, humidity ratio (kg water / kg dry air) and total pressure.
@@ -283,7 +304,7 @@ impl AirState {
                 p_pa: p,
             });
         }
-        AirState::new_checked(t, w_of(pv, p), p, "rh")
+        AirState::with_saturation(t, w_of(pv, p), p, "rh", pvs)
     }
 
     /// State from dry-bulb, dew point (frost point below 0 degC) and total pressure.
@@ -340,13 +361,9 @@ impl AirState {
         let hc = thermo::condensed_enthalpy(twb);
         let target = h_of(twb, ws_star, p) - ws_star * hc;
         if target < h_of(t, 0.0, p) {
-            let min_k = AirState {
-                t_k: t,
-                p_pa: p,
-                w: 0.0,
-            }
-            .wet_bulb_k()
-            .unwrap_or(f64::NAN);
+            let min_k = AirState::new_checked(t, 0.0, p, "wetbulb")
+                .and_then(|dry| dry.wet_bulb_k())
+                .unwrap_or(f64::NAN);
             return Err(AirError::WetBulbTooLow {
                 value_k: twb,
                 min_k,
@@ -460,13 +477,13 @@ impl AirState {
 
     /// Relative humidity, fraction 0..1: `pv / (f p_ws)` (over ice below 0 degC).
     pub fn relative_humidity(&self) -> f64 {
-        pv_of(self.w, self.p_pa) / sat::saturated_vapour_pressure(self.t_k, self.p_pa)
+        pv_of(self.w, self.p_pa) / self.pvs_pa
     }
 
     /// Saturation humidity ratio at the dry-bulb and pressure, kg/kg dry air;
     /// `None` when the dry-bulb is at or above the boiling point at p.
     pub fn saturation_humidity_ratio(&self) -> Option<f64> {
-        ws_of(self.t_k, self.p_pa)
+        (self.pvs_pa < self.p_pa).then(|| w_of(self.pvs_pa, self.p_pa))
     }
 
     /// Degree of saturation `w / w_s` (ASHRAE); `None` above the boiling point.
@@ -604,7 +621,7 @@ impl AirState {
         if self.t_k < limits.boiling_k - margin {
             return Ok(self.t_k);
         }
-        if self.t_k <= limits.boiling_k + margin && ws_of(self.t_k, self.p_pa).is_some() {
+        if self.t_k <= limits.boiling_k + margin && self.pvs_pa < self.p_pa {
             return Ok(self.t_k);
         }
         Ok(limits.wet_bulb_cap_k)
