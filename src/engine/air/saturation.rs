@@ -263,7 +263,8 @@ fn enhancement_exponent_and_slope(
 /// `exp(x)`, by its Taylor series to x^5 when |x| < 0.01 (truncation below
 /// 1.4e-15 relative, the rounding of `exp` itself), else by `exp`. Saves a
 /// transcendental call for the enhancement factor, which is within 1 % of 1.
-fn exp_small(x: f64) -> f64 {
+#[inline]
+pub(crate) fn exp_small(x: f64) -> f64 {
     if x.abs() < 0.01 {
         1.0 + x * (1.0 + x * 0.5 * (1.0 + x * (1.0 / 3.0) * (1.0 + x * 0.25 * (1.0 + x * 0.2))))
     } else {
