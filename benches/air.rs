@@ -17,6 +17,8 @@
 //! CPU time per state (best of a few rounds; on a shared machine CPU time,
 //! unlike wall time, does not count the time other processes hold the core),
 //! or the comparison with `python3 benches/air_compare.py`.
+//! `-- --single-pass build|wet_bulb|builtin` runs one pass of one workload,
+//! for instruction counts with `valgrind --tool=callgrind`.
 
 use criterion::Criterion;
 use std::hint::black_box;
@@ -208,9 +210,33 @@ fn oneshot() {
     );
 }
 
+/// One pass of one workload, for instruction counts under
+/// `valgrind --tool=callgrind` (repeatable on a shared machine): `build` makes
+/// the 100,000 states, `wet_bulb` makes them and solves each wet-bulb once,
+/// `builtin` makes 10,000 `air()` records. Per-state figure: (wet_bulb - build)
+/// / 100,000.
+fn single_pass(what: &str) {
+    match what {
+        "build" => {
+            black_box(build_all());
+        }
+        "wet_bulb" => {
+            let states: Vec<AirState> = (0..STATES).map(build).collect();
+            wet_bulb_sum(&states);
+        }
+        "builtin" => builtin_calls(10_000),
+        other => panic!("--single-pass takes build, wet_bulb or builtin, not {other}"),
+    }
+}
+
 fn main() {
-    if std::env::args().any(|a| a == "--oneshot") {
+    let args: Vec<String> = std::env::args().collect();
+    if args.iter().any(|a| a == "--oneshot") {
         oneshot();
+        return;
+    }
+    if let Some(i) = args.iter().position(|a| a == "--single-pass") {
+        single_pass(args.get(i + 1).map_or("wet_bulb", String::as_str));
         return;
     }
     let mut c = Criterion::default().configure_from_args();
