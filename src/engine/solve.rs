@@ -262,6 +262,71 @@ pub fn newton_bracketed<F: FnMut(f64) -> (f64, f64)>(
     })
 }
 
+/// Find the root of an increasing `f` in `[lo, hi]` by Newton's method with
+/// an exact slope, bisection as a safeguard, starting at `x0`.
+///
+/// `f(x)` returns the residual and its derivative, which must be exact up to a
+/// relative error near 1e-8 (analytic, or a careful central difference): the
+/// iteration relies on quadratic convergence. The caller vouches that
+/// `f(lo) <= 0 <= f(hi)` (the ends are not evaluated). Stops when a Newton step
+/// is below `tol`, or when two successive Newton steps `s1`, `s2` show
+/// quadratic convergence (`|s2| <= |s1| / 4`) with a predicted next correction
+/// `|s2|^3 / s1^2` below `tol`: the error after the last step is then below
+/// `tol` without one more evaluation. Returns [`SolveError::NotConverged`]
+/// after `tol.max_iterations` and [`SolveError::NotFinite`] for a NaN residual.
+pub fn newton_exact<F: FnMut(f64) -> (f64, f64)>(
+    mut f: F,
+    lo: f64,
+    hi: f64,
+    x0: f64,
+    tol: Tolerance,
+) -> Result<f64, SolveError> {
+    let (mut a, mut b) = (lo, hi);
+    let mut x = x0.clamp(lo, hi);
+    let mut last_newton: Option<f64> = None;
+    for _ in 0..tol.max_iterations {
+        let (fx, slope) = f(x);
+        if fx.is_nan() || slope.is_nan() {
+            return Err(SolveError::NotFinite { x });
+        }
+        if fx == 0.0 {
+            return Ok(x);
+        }
+        if fx < 0.0 {
+            a = x;
+        } else {
+            b = x;
+        }
+        let limit = tol.abs + tol.rel * x.abs() + f64::EPSILON * x.abs();
+        let step = -fx / slope;
+        let next = x + step;
+        if step.abs() <= limit {
+            return Ok(next.clamp(a, b));
+        }
+        let inside = next > a && next < b;
+        if let (true, Some(previous)) = (inside, last_newton) {
+            let quadratic = step.abs() <= 0.25 * previous.abs();
+            if quadratic && step.abs().powi(3) <= limit * previous * previous {
+                return Ok(next);
+            }
+        }
+        if inside {
+            x = next;
+            last_newton = Some(step);
+        } else {
+            x = 0.5 * (a + b);
+            last_newton = None;
+        }
+        if b - a <= limit {
+            return Ok(x);
+        }
+    }
+    Err(SolveError::NotConverged {
+        iterations: tol.max_iterations,
+        width: b - a,
+    })
+}
+
 /// Widen `[a, b]` geometrically toward `limit` (beyond `b`) until `f` changes sign.
 ///
 /// Returns the new bracket `(lo, hi)` or [`SolveError::NotBracketed`] when `limit`
@@ -365,6 +430,34 @@ mod tests {
             max_iterations: 2,
         };
         assert!(newton_bracketed(f, 0.0, 3.0, 2.9, budget).is_err());
+    }
+
+    #[test]
+    fn exact_newton_converges_quadratically() {
+        let mut calls = 0;
+        let f = |x: f64| {
+            calls += 1;
+            (x.exp() - 5.0, x.exp())
+        };
+        let x = newton_exact(f, 0.0, 3.0, 1.0, Tolerance::new(1e-14, 1e-15)).unwrap();
+        assert!((x - 5f64.ln()).abs() < 1e-14, "{x}");
+        assert!(calls <= 6, "{calls} evaluations");
+        // A start outside the basin of a far-off Newton step falls back to bisection.
+        let g = |x: f64| (x.atan(), 1.0 / (1.0 + x * x));
+        let x = newton_exact(g, -2.0, 30.0, 25.0, Tolerance::new(1e-14, 1e-15)).unwrap();
+        assert!(x.abs() < 1e-14, "{x}");
+        let budget = Tolerance {
+            abs: 0.0,
+            rel: 0.0,
+            max_iterations: 2,
+        };
+        let h = |x: f64| (x.exp() - 5.0, x.exp());
+        assert!(newton_exact(h, 0.0, 3.0, 2.9, budget).is_err());
+        let nan = |_: f64| (f64::NAN, 1.0);
+        assert!(matches!(
+            newton_exact(nan, 0.0, 1.0, 0.5, Tolerance::default()),
+            Err(SolveError::NotFinite { .. })
+        ));
     }
 
     #[test]

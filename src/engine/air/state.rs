@@ -24,7 +24,7 @@ use uom::si::thermodynamic_temperature::kelvin;
 use super::saturation::{self as sat, T_MIN_SATURATION, T_ZERO_C};
 use super::thermo::{self, EPSILON};
 use super::AirError;
-use crate::engine::solve::{brent, newton_bracketed, Tolerance};
+use crate::engine::solve::{brent, newton_exact, Tolerance};
 
 /// Lowest dry-bulb temperature of an air state, K (-40 degC).
 pub const T_MIN_K: f64 = 233.15;
@@ -53,6 +53,10 @@ pub struct AirState {
     t_k: f64,
     p_pa: f64,
     w: f64,
+    /// Vapour pressure of saturated air at (T, p), `f p_ws`, Pa: derived from
+    /// the three above, kept because the constructor's saturation check needs
+    /// it anyway and rh, w_s and the degree of saturation use it again.
+    pvs_pa: f64,
 }
 
 pub(crate) fn check_pressure(p: f64) -> Result<(), AirError> {
@@ -155,48 +159,96 @@ fn w_for_enthalpy(t: f64, p: f64, target: f64, hc: f64) -> Result<f64, AirError>
     })
 }
 
-/// The adiabatic-saturation balance in log form, and an estimate of its slope, 1/K.
+/// The adiabatic-saturation balance in log form, and its slope, 1/K.
 ///
 /// The balance `h(T*, w_s*) - h1 - (w_s* - w) h_c(T*) = 0` is
 /// `w_s* (h_v* - h_c) = h1 - h_a(T*) - w h_c` (vapour "supply" = sensible "demand",
 /// h_a the enthalpy of everything but the vapour). The residual is the log of
 /// their ratio: same sign, nearly linear in T* (the supply grows like p_ws), so
-/// Newton's method needs few steps. The slope uses Clausius-Clapeyron for
-/// `d ln w_s*/dT*` and round specific heats; the solver refines it by secants.
+/// Newton's method needs few steps. The slope is exact (every term differentiated
+/// analytically, the vapour pressure moving along the saturation line), so the
+/// iteration converges quadratically.
 fn wet_bulb_residual(ts: f64, w: f64, p: f64, h1: f64, ice: bool) -> (f64, f64) {
-    let pvs = sat::saturated_vapour_pressure(ts, p);
+    let (pvs, dln_pvs) = sat::saturated_vapour_pressure_and_slope(ts, p);
     if pvs >= p {
         return (f64::INFINITY, f64::INFINITY);
     }
-    let ws = w_of(pvs, p);
-    let hv = thermo::vapour_enthalpy(ts, pvs);
+    let per_pa = 1.0 / (p - pvs);
+    let ws = EPSILON * pvs * per_pa;
+    let dpvs = pvs * dln_pvs;
+    let hv = thermo::vapour_enthalpy_and_slopes(ts, pvs);
     let (hc, cc) = if ice {
-        (thermo::ice_enthalpy(ts), 2100.0)
+        (thermo::ice_enthalpy(ts), thermo::ICE_CP)
     } else {
-        (thermo::liquid_enthalpy(ts), 4186.0)
+        (thermo::liquid_enthalpy(ts), thermo::LIQUID_CP)
     };
-    let latent = hv - hc;
+    let latent = hv.value - hc;
     let supply = ws * latent;
-    let demand = h1 - thermo::air_part_enthalpy(ts, p - pvs, pvs) - w * hc;
+    let ha = thermo::air_part_enthalpy_and_slopes(ts, p - pvs, pvs);
+    let demand = h1 - ha.value - w * hc;
     if demand <= 0.0 {
         return (f64::INFINITY, f64::INFINITY);
     }
-    let dln_ws = p / (p - pvs) * latent / (thermo::R_WATER_IF97 * ts * ts);
-    let slope = dln_ws + (1880.0 - cc) / latent + (1006.0 + w * cc) / demand;
-    ((supply / demand).ln(), slope)
+    let per_demand = 1.0 / demand;
+    let dln_ws = p * per_pa * dln_pvs;
+    let dlatent = hv.d_t + hv.d_pv * dpvs - cc;
+    let ddemand = -(ha.d_t + (ha.d_pv - ha.d_pa) * dpvs) - w * cc;
+    let slope = dln_ws + dlatent / latent - ddemand * per_demand;
+    (ln_near_one(supply * per_demand), slope)
+}
+
+/// `ln x`, by the series of `ln(1 + u)` to u^6 when `|u| = |x - 1| < 1e-3`
+/// (truncation below 2e-22, under the rounding of `ln` itself), else by `ln`.
+/// The wet-bulb residual is the log of a ratio that tends to 1.
+#[inline]
+fn ln_near_one(x: f64) -> f64 {
+    let u = x - 1.0;
+    if u.abs() < 1e-3 {
+        let tail = 0.2 - u * (1.0 / 6.0);
+        let series = 1.0 / 3.0 - u * (0.25 - u * tail);
+        u - u * u * (0.5 - u * series)
+    } else {
+        x.ln()
+    }
+}
+
+/// Rough wet-bulb from the dew point `dew` (K) and dry-bulb `t` (K), to start
+/// the exact solve: the balance linearised at the dew point, where the supply
+/// `w_s* L` grows by `w L k` per kelvin (`k = d ln w_s/dT` by Clausius-Clapeyron
+/// with L = 2.5 MJ/kg) and the demand falls by the humid heat `c`, puts the
+/// wet-bulb a fraction `c / (c + w L k)` of the way from the dew point to the
+/// dry-bulb. Within a few kelvin; the Newton solve needs two or three steps.
+fn wet_bulb_estimate_k(t: f64, w: f64, p: f64, dew: f64) -> f64 {
+    const LATENT: f64 = 2.5e6;
+    let pv = pv_of(w, p);
+    let k = LATENT / (thermo::R_WATER_IF97 * dew * dew) * p / (p - pv);
+    let humid_heat = 1006.0 + 1860.0 * w;
+    dew + (t - dew) * humid_heat / (humid_heat + w * LATENT * k)
 }
 
 impl AirState {
     fn new_checked(t: f64, w: f64, p: f64, w_name: &'static str) -> Result<AirState, AirError> {
         check_dry_bulb("T", t)?;
         check_pressure(p)?;
+        AirState::with_saturation(t, w, p, w_name, sat::saturated_vapour_pressure(t, p))
+    }
+
+    /// The state after T and p are checked, given `pvs = f p_ws` at (T, p).
+    fn with_saturation(
+        t: f64,
+        w: f64,
+        p: f64,
+        w_name: &'static str,
+        pvs: f64,
+    ) -> Result<AirState, AirError> {
         if !(w.is_finite() && w >= 0.0) {
             return Err(AirError::HumidityRatioNegative {
                 name: w_name,
                 value: w,
             });
         }
-        if let Some(ws) = ws_of(t, p) {
+        if pvs < p {
+            let ws = w_of(pvs, p);
             if w > ws * (1.0 + SLACK) {
                 return Err(AirError::HumidityRatioAboveSaturation {
                     name: w_name,
@@ -206,7 +258,12 @@ impl AirState {
                 });
             }
         }
-        Ok(AirState { t_k: t, p_pa: p, w })
+        Ok(AirState {
+            t_k: t,
+            p_pa: p,
+            w,
+            pvs_pa: pvs,
+        })
     }
 
     /// State from dry-bulb, humidity ratio (kg water / kg dry air) and total pressure.
@@ -247,7 +304,7 @@ impl AirState {
                 p_pa: p,
             });
         }
-        AirState::new_checked(t, w_of(pv, p), p, "rh")
+        AirState::with_saturation(t, w_of(pv, p), p, "rh", pvs)
     }
 
     /// State from dry-bulb, dew point (frost point below 0 degC) and total pressure.
@@ -303,20 +360,23 @@ impl AirState {
         })?;
         let hc = thermo::condensed_enthalpy(twb);
         let target = h_of(twb, ws_star, p) - ws_star * hc;
-        if target < h_of(t, 0.0, p) {
-            let min_k = AirState {
-                t_k: t,
-                p_pa: p,
-                w: 0.0,
-            }
-            .wet_bulb_k()
-            .unwrap_or(f64::NAN);
+        // The wet-bulb of bone-dry air, given back, may land a rounding error
+        // below h_dry: read it as dry air, as from_enthalpy does.
+        let h_dry = h_of(t, 0.0, p);
+        if target < h_dry - SLACK * h_dry.abs() {
+            let min_k = AirState::new_checked(t, 0.0, p, "wetbulb")
+                .and_then(|dry| dry.wet_bulb_k())
+                .unwrap_or(f64::NAN);
             return Err(AirError::WetBulbTooLow {
                 value_k: twb,
                 min_k,
             });
         }
-        let w = w_for_enthalpy(t, p, target, hc)?;
+        let w = if target <= h_dry {
+            0.0
+        } else {
+            w_for_enthalpy(t, p, target, hc)?.max(0.0)
+        };
         AirState::new_checked(t, w, p, "wetbulb")
     }
 
@@ -424,13 +484,13 @@ impl AirState {
 
     /// Relative humidity, fraction 0..1: `pv / (f p_ws)` (over ice below 0 degC).
     pub fn relative_humidity(&self) -> f64 {
-        pv_of(self.w, self.p_pa) / sat::saturated_vapour_pressure(self.t_k, self.p_pa)
+        pv_of(self.w, self.p_pa) / self.pvs_pa
     }
 
     /// Saturation humidity ratio at the dry-bulb and pressure, kg/kg dry air;
     /// `None` when the dry-bulb is at or above the boiling point at p.
     pub fn saturation_humidity_ratio(&self) -> Option<f64> {
-        ws_of(self.t_k, self.p_pa)
+        (self.pvs_pa < self.p_pa).then(|| w_of(self.pvs_pa, self.p_pa))
     }
 
     /// Degree of saturation `w / w_s` (ASHRAE); `None` above the boiling point.
@@ -469,9 +529,11 @@ impl AirState {
     }
 
     pub(crate) fn humid_heat_j_per_kg_da_k(&self) -> f64 {
-        let dt = 1e-3;
-        (h_of(self.t_k + dt, self.w, self.p_pa) - h_of(self.t_k - dt, self.w, self.p_pa))
-            / (2.0 * dt)
+        // dh/dT at constant partial pressures (w and p fixed), analytic.
+        let pv = pv_of(self.w, self.p_pa);
+        let air = thermo::air_part_enthalpy_and_slopes(self.t_k, self.p_pa - pv, pv);
+        let vapour = thermo::vapour_enthalpy_and_slopes(self.t_k, pv);
+        air.d_t + self.w * vapour.d_t
     }
 
     /// Dew point (frost point below 0 degC): where saturated air has this vapour pressure.
@@ -489,22 +551,14 @@ impl AirState {
             return Err(AirError::NoDewPoint { w: self.w });
         }
         let ln_pv = pv.ln();
-        // Slope by Clausius-Clapeyron, d ln p/dT = L/(R T^2) with L about 2.5 MJ/kg
-        // (2.83 MJ/kg over ice); the solver refines it by secants.
+        // ln of the saturation vapour pressure against ln pv, with its exact slope.
         let residual = |t: f64| {
-            let latent = if t < T_ZERO_C {
-                2.834e6
-            } else {
-                2.501e6 - 2.4e3 * (t - T_ZERO_C)
-            };
-            (
-                sat::ln_saturated_vapour_pressure(t, p) - ln_pv,
-                latent.max(1e5) / (thermo::R_WATER_IF97 * t * t),
-            )
+            let (pvs, dln_pvs) = sat::saturated_vapour_pressure_and_slope(t, p);
+            (pvs.ln() - ln_pv, dln_pvs)
         };
         let hi = self.t_k.max(T_ZERO_C + 1.0);
         let start = self.dew_point_estimate_k().clamp(T_MIN_SATURATION, hi);
-        newton_bracketed(residual, T_MIN_SATURATION, hi, start, T_TOL).map_err(|e| {
+        newton_exact(residual, T_MIN_SATURATION, hi, start, T_TOL).map_err(|e| {
             AirError::NotConverged {
                 what: "dew point",
                 reason: e,
@@ -531,9 +585,7 @@ impl AirState {
             what: "wet-bulb temperature",
             reason: e,
         };
-        // A start about a fifth of the way from the dew point (common practice: the
-        // wet-bulb sits nearer the dew point than the dry-bulb).
-        let guess = dew + (hi - dew) * 0.2;
+        let guess = wet_bulb_estimate_k(t.min(hi), w, p, dew);
         // Over liquid water when a root at or above 0 degC exists, else over ice.
         let (lo, hi, ice) = if hi < T_ZERO_C {
             (T_MIN_SATURATION, hi, true)
@@ -553,7 +605,7 @@ impl AirState {
                 what: format!("the wet-bulb of nearly pure steam (w = {w:.1} kg/kg) is within 0.02 K of the boiling point"),
             });
         }
-        let ts = newton_bracketed(f, lo, hi, guess.clamp(lo, hi), T_TOL).map_err(err)?;
+        let ts = newton_exact(f, lo, hi, guess.clamp(lo, hi), T_TOL).map_err(err)?;
         // A saturated state: the root is the dry-bulb itself up to rounding.
         Ok(ts.min(t))
     }
@@ -569,21 +621,123 @@ impl AirState {
     /// Upper end of the wet-bulb bracket: the dry-bulb, or just below the boiling
     /// point at p when the dry-bulb is above it.
     fn wet_bulb_upper_k(&self) -> Result<f64, AirError> {
-        if ws_of(self.t_k, self.p_pa).is_some() {
+        let limits = boiling_limits(self.p_pa)?;
+        // Clearly below or above the boiling point; within rounding of it, ask
+        // the saturation curve itself.
+        let margin = 1e-6;
+        if self.t_k < limits.boiling_k - margin {
             return Ok(self.t_k);
         }
-        // Just below the boiling point (IF97 backward equation, within 0.01 K of
-        // our curve): w_s* there exceeds 100 kg/kg, so the balance is positive.
-        let tb = sat::if97_saturation_temperature(self.p_pa.clamp(611.3, sat::P_CRITICAL));
-        let mut hi = tb - 0.02;
-        for _ in 0..40 {
-            if ws_of(hi, self.p_pa).is_some() {
-                return Ok(hi);
-            }
-            hi -= 0.02;
+        if self.t_k <= limits.boiling_k + margin && self.pvs_pa < self.p_pa {
+            return Ok(self.t_k);
         }
-        Err(AirError::ProcessOutOfRange {
-            what: "no saturated state below the boiling point".into(),
-        })
+        Ok(limits.wet_bulb_cap_k)
+    }
+}
+
+/// Where humid air at one total pressure stops being saturable.
+#[derive(Clone, Copy, Debug, PartialEq)]
+struct BoilingLimits {
+    /// Total pressure, Pa.
+    p_pa: f64,
+    /// Boiling point of water at p (where `f p_ws = p`), K.
+    boiling_k: f64,
+    /// Highest temperature below it, on a 0.02 K grid down from the IF97
+    /// backward equation, where saturated air exists: the top of the wet-bulb
+    /// bracket for dry-bulbs above the boiling point, K.
+    wet_bulb_cap_k: f64,
+}
+
+thread_local! {
+    /// The limits at the last pressure used on this thread: a sweep at one
+    /// pressure solves for the boiling point once, not once per state.
+    static BOILING: std::cell::Cell<Option<BoilingLimits>> = const { std::cell::Cell::new(None) };
+}
+
+/// The boiling limits at `p` (Pa), from the per-thread cache or computed.
+fn boiling_limits(p: f64) -> Result<BoilingLimits, AirError> {
+    if let Some(cached) = BOILING.with(std::cell::Cell::get) {
+        if cached.p_pa == p {
+            return Ok(cached);
+        }
+    }
+    let limits = BoilingLimits {
+        p_pa: p,
+        boiling_k: sat::boiling_point(p).map_err(|e| AirError::NotConverged {
+            what: "boiling point",
+            reason: e,
+        })?,
+        wet_bulb_cap_k: wet_bulb_cap_k(p)?,
+    };
+    BOILING.with(|cell| cell.set(Some(limits)));
+    Ok(limits)
+}
+
+/// Just below the boiling point at p (IF97 backward equation, within 0.01 K of
+/// our curve): w_s* there exceeds 100 kg/kg, so the wet-bulb balance is positive.
+fn wet_bulb_cap_k(p: f64) -> Result<f64, AirError> {
+    let tb = sat::if97_saturation_temperature(p.clamp(611.3, sat::P_CRITICAL));
+    let mut hi = tb - 0.02;
+    for _ in 0..40 {
+        if ws_of(hi, p).is_some() {
+            return Ok(hi);
+        }
+        hi -= 0.02;
+    }
+    Err(AirError::ProcessOutOfRange {
+        what: "no saturated state below the boiling point".into(),
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn log_series_matches_ln() {
+        for i in -1000..=1000 {
+            let x = 1.0 + i as f64 * 0.999e-6;
+            let (ours, libm) = (ln_near_one(x), x.ln());
+            assert!((ours - libm).abs() <= 2e-16 * libm.abs().max(1e-300), "{x}");
+        }
+        assert_eq!(ln_near_one(2.0), 2f64.ln());
+    }
+
+    /// The exact-slope wet-bulb over a dense grid of the design range (-40..350
+    /// degC, 50..200 kPa, dry to saturated or to 20 kg/kg above the boiling
+    /// point): it solves, lies between the dew point and the dry-bulb, and the
+    /// state comes back from it (1e-9 relative in w, as tests/air_engine.rs, or
+    /// 1e-13 kg/kg for nearly dry air).
+    #[test]
+    fn wet_bulb_solves_and_inverts_over_a_dense_grid() {
+        for p in [50e3, 101_325.0, 200e3] {
+            let mut t = T_MIN_K;
+            while t <= T_MAX_K {
+                let w_max = ws_of(t, p).unwrap_or(20.0).min(20.0);
+                for i in 0..=12 {
+                    let w = if i == 0 {
+                        0.0
+                    } else {
+                        w_max * 10f64.powf(-0.5 * (12 - i) as f64)
+                    };
+                    let s = AirState::new_checked(t, w, p, "w").unwrap();
+                    let twb = s.wet_bulb_k().unwrap_or_else(|e| panic!("{s:?}: {e}"));
+                    assert!(twb <= t && twb >= T_MIN_SATURATION, "{s:?}: {twb}");
+                    if let Ok(dew) = s.dew_point_k() {
+                        assert!(dew <= twb + 1e-9, "{s:?}: dew {dew} above wet-bulb {twb}");
+                    }
+                    let back = AirState::from_wet_bulb(
+                        ThermodynamicTemperature::new::<kelvin>(t),
+                        ThermodynamicTemperature::new::<kelvin>(twb),
+                        Pressure::new::<pascal>(p),
+                    )
+                    .unwrap_or_else(|e| panic!("{s:?} from wet-bulb {twb}: {e}"));
+                    let dw = (back.w - w).abs();
+                    // Absolute floor: rounding of enthalpies near 1e6 J/kg over a latent heat.
+                    assert!(dw <= 1e-9 * w || dw < 1e-13, "{s:?}: w back {}", back.w);
+                }
+                t += 1.37;
+            }
+        }
     }
 }

@@ -44,6 +44,15 @@ fn virial(t: f64, c: &[f64; 5]) -> (f64, f64) {
     (b, t_db)
 }
 
+/// `d(B - T dB/dT)/dT` of a virial coefficient from [`virial`]'s series, m^3/(mol K).
+#[inline]
+fn virial_enthalpy_slope(t: f64, c: &[f64; 5]) -> f64 {
+    // B - T B' = sum (1 + k) c_k x^k with x = 1/T; its T-derivative is
+    // -x sum k (1 + k) c_k x^k.
+    let x = 1.0 / t;
+    -x * x * (2.0 * c[1] + x * (6.0 * c[2] + x * (12.0 * c[3] + x * 20.0 * c[4])))
+}
+
 /// Hyland-Wexler (1983) B_aa of dry air.
 const B_AIR_AIR: [f64; 5] = [0.349_568e-4, -0.668_772e-2, -0.210_141e1, 0.924_746e2, 0.0];
 /// Hyland-Wexler (1983) B_aw, air-water cross coefficient.
@@ -58,10 +67,41 @@ const B_AIR_WATER: [f64; 5] = [
 /// Residual enthalpy per kg dry air of the air-air and air-water interactions at
 /// air partial pressure `pa` and vapour partial pressure `pv`, J/kg dry air
 /// (second-virial level: `H_res = p sum x_i x_j (B_ij - T B_ij')`).
+#[inline]
 pub fn air_residual_enthalpy(t: f64, pa: f64, pv: f64) -> f64 {
+    air_residual_enthalpy_and_slopes(t, pa, pv).value
+}
+
+/// A function value with its partial derivatives in temperature, air partial
+/// pressure and vapour partial pressure (SI: per K, per Pa).
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct WithSlopes {
+    /// The value.
+    pub value: f64,
+    /// Partial derivative in temperature at constant partial pressures, per K.
+    pub d_t: f64,
+    /// Partial derivative in the dry-air partial pressure, per Pa.
+    pub d_pa: f64,
+    /// Partial derivative in the vapour partial pressure, per Pa.
+    pub d_pv: f64,
+}
+
+/// [`air_residual_enthalpy`] with its partial derivatives.
+#[inline]
+fn air_residual_enthalpy_and_slopes(t: f64, pa: f64, pv: f64) -> WithSlopes {
     let (baa, t_dbaa) = virial(t, &B_AIR_AIR);
     let (baw, t_dbaw) = virial(t, &B_AIR_WATER);
-    (pa * (baa - t_dbaa) + 2.0 * pv * (baw - t_dbaw)) / M_DRY_AIR
+    let per_kg = 1.0 / M_DRY_AIR;
+    let (d_pa, d_pv) = ((baa - t_dbaa) * per_kg, 2.0 * (baw - t_dbaw) * per_kg);
+    let d_t = (pa * virial_enthalpy_slope(t, &B_AIR_AIR)
+        + 2.0 * pv * virial_enthalpy_slope(t, &B_AIR_WATER))
+        * per_kg;
+    WithSlopes {
+        value: pa * d_pa + pv * d_pv,
+        d_t,
+        d_pa,
+        d_pv,
+    }
 }
 
 /// Residual enthalpy of dry air at the reference state (0 degC, 101.325 kPa), J/kg.
@@ -84,8 +124,22 @@ pub fn mixture_compressibility_excess(t: f64, p: f64, x_w: f64) -> f64 {
 
 /// Enthalpy of the dry air and the air-water interaction per kg dry air, relative
 /// to dry air at 0 degC and 101.325 kPa, J/kg (all of h except `w h_v`).
+#[inline]
 pub fn air_part_enthalpy(t: f64, pa: f64, pv: f64) -> f64 {
     dry_air_enthalpy(t) + air_residual_enthalpy(t, pa, pv) - air_residual_reference()
+}
+
+/// [`air_part_enthalpy`] (J/kg dry air) with its partial derivatives in T
+/// (J/(kg K)), `pa` and `pv` (J/(kg Pa)), analytic.
+#[inline]
+pub fn air_part_enthalpy_and_slopes(t: f64, pa: f64, pv: f64) -> WithSlopes {
+    let (h_dry, cp_dry) = dry_air_enthalpy_and_cp(t);
+    let residual = air_residual_enthalpy_and_slopes(t, pa, pv);
+    WithSlopes {
+        value: h_dry + residual.value - air_residual_reference(),
+        d_t: cp_dry + residual.d_t,
+        ..residual
+    }
 }
 
 /// Lemmon et al. (2000) ideal-gas coefficients for air, N1..N13, and reducing temperature.
@@ -107,31 +161,80 @@ const LEMMON_N: [f64; 13] = [
 const LEMMON_T_RED: f64 = 132.6312;
 const LEMMON_R: f64 = 8.314_51 / 0.028_958_6;
 
-/// tau * d(alpha0)/d(tau) for air, without the constant N5 term (it cancels in differences).
-fn air_tau_alpha_tau(tau: f64) -> f64 {
+/// tau * d(alpha0)/d(tau) for air, without the constant N5 term (it cancels in
+/// differences), and tau times its tau-derivative; `inv` is 1/tau.
+#[inline]
+fn air_tau_alpha_tau(tau: f64, inv: f64) -> (f64, f64) {
     let n = &LEMMON_N;
-    let poly = -3.0 * n[0] * tau.powi(-3) - 2.0 * n[1] * tau.powi(-2) - n[2] / tau;
-    let planck = |a: f64, b: f64| a * b * tau / ((b * tau).exp() - 1.0);
-    let last = n[9] * n[12] * tau / (2.0 / 3.0 * (-n[12] * tau).exp() + 1.0);
-    poly + 1.5 * n[5] * tau * tau.sqrt() + n[6] + planck(n[7], n[10]) + planck(n[8], n[11]) + last
+    let (inv2, inv3) = (inv * inv, inv * inv * inv);
+    let poly = -3.0 * n[0] * inv3 - 2.0 * n[1] * inv2 - n[2] * inv;
+    let tau_dpoly = 9.0 * n[0] * inv3 + 4.0 * n[1] * inv2 + n[2] * inv;
+    // a b tau / (e^(b tau) - 1) and tau times its derivative.
+    // Given e = e^(b tau).
+    let planck = |a: f64, b: f64, e: f64| {
+        let r = 1.0 / (e - 1.0);
+        let value = a * b * tau * r;
+        (value, value * (1.0 - b * tau * e * r))
+    };
+    let (last, tau_dlast) = air_last_term(tau);
+    let root = tau.sqrt();
+    // N11 = 1.5 N12 + 0.002535: e^(N11 tau) is e^(N12 tau)^1.5 times a factor
+    // within 0.2 % of 1 (a short series), one exponential instead of two
+    // (a few units in the last place on terms below 3 % of the sum).
+    let e12 = (n[11] * tau).exp();
+    let e11 = e12 * e12.sqrt() * super::saturation::exp_small((n[10] - 1.5 * n[11]) * tau);
+    let (p1, tau_dp1) = planck(n[7], n[10], e11);
+    let (p2, tau_dp2) = planck(n[8], n[11], e12);
+    let value = poly + 1.5 * n[5] * tau * root + n[6] + p1 + p2 + last;
+    let tau_dvalue = tau_dpoly + 2.25 * n[5] * tau * root + tau_dp1 + tau_dp2 + tau_dlast;
+    (value, tau_dvalue)
 }
 
-/// Ideal-gas enthalpy of dry air from an arbitrary origin, J/kg.
-fn air_ideal_enthalpy(t: f64) -> f64 {
-    LEMMON_R * t * (1.0 + air_tau_alpha_tau(LEMMON_T_RED / t))
+/// Lemmon's last term `N10 N13 tau / (2/3 e^(-N13 tau) + 1)` and tau times its
+/// derivative. Below about 31 degC (N13 tau > 37) the exponential is under
+/// 2^-54 and drops out of the sum exactly, so it is not evaluated.
+#[inline]
+fn air_last_term(tau: f64) -> (f64, f64) {
+    let n = &LEMMON_N;
+    let x = n[12] * tau;
+    if x > 37.0 {
+        let last = n[9] * x;
+        return (last, last);
+    }
+    let q = 2.0 / 3.0 * (-x).exp();
+    let r = 1.0 / (q + 1.0);
+    let last = n[9] * x * r;
+    (last, last * (1.0 + x * q * r))
+}
+
+/// Ideal-gas enthalpy of dry air from an arbitrary origin (J/kg) and its cp (J/(kg K)).
+#[inline]
+fn air_ideal_enthalpy_and_cp(t: f64) -> (f64, f64) {
+    let inv_tau = t * (1.0 / LEMMON_T_RED);
+    let (g, tau_dg) = air_tau_alpha_tau(1.0 / inv_tau, inv_tau);
+    (LEMMON_R * t * (1.0 + g), LEMMON_R * (1.0 + g - tau_dg))
 }
 
 /// Enthalpy of dry air at T (K) relative to 0 degC, J/kg (ideal gas).
+#[inline]
 pub fn dry_air_enthalpy(t: f64) -> f64 {
-    static REFERENCE: std::sync::LazyLock<f64> =
-        std::sync::LazyLock::new(|| air_ideal_enthalpy(super::saturation::T_ZERO_C));
-    air_ideal_enthalpy(t) - *REFERENCE
+    dry_air_enthalpy_and_cp(t).0
 }
 
-/// Ideal-gas specific heat of dry air, J/(kg K), by central difference of the enthalpy.
+/// Enthalpy of dry air relative to 0 degC (J/kg) and its ideal-gas specific
+/// heat (J/(kg K)), both from Lemmon et al. (2000), the specific heat
+/// analytically.
+#[inline]
+pub fn dry_air_enthalpy_and_cp(t: f64) -> (f64, f64) {
+    static REFERENCE: std::sync::LazyLock<f64> =
+        std::sync::LazyLock::new(|| air_ideal_enthalpy_and_cp(super::saturation::T_ZERO_C).0);
+    let (h, cp) = air_ideal_enthalpy_and_cp(t);
+    (h - *REFERENCE, cp)
+}
+
+/// Ideal-gas specific heat of dry air, J/(kg K) (Lemmon et al. 2000, analytic).
 pub fn dry_air_cp(t: f64) -> f64 {
-    let dt = 0.01;
-    (air_ideal_enthalpy(t + dt) - air_ideal_enthalpy(t - dt)) / (2.0 * dt)
+    air_ideal_enthalpy_and_cp(t).1
 }
 
 /// IF97 region 2 ideal-gas coefficients (J, n), R7-97(2012) table 10.
@@ -156,29 +259,67 @@ const IF97_VIRIAL: [(i32, f64); 5] = [
 ];
 
 /// Ideal-gas enthalpy of water vapour on the IF97 reference, J/kg.
+#[inline]
 fn vapour_ideal_enthalpy_if97(t: f64) -> f64 {
+    vapour_ideal_enthalpy_and_cp(t).0
+}
+
+/// Ideal-gas enthalpy of water vapour on the IF97 reference (J/kg) and its
+/// specific heat (J/(kg K)), analytic.
+#[inline]
+fn vapour_ideal_enthalpy_and_cp(t: f64) -> (f64, f64) {
     // sum n J tau^(J-1) over the table, written out: tau t = 540 K, inv = 1/tau.
     let n = |i: usize| IF97_IDEAL[i].1;
-    let tau = 540.0 / t;
-    let inv = t / 540.0;
+    let inv_t = 1.0 / t;
+    let tau = 540.0 * inv_t;
+    let inv = t * (1.0 / 540.0);
     let negative = inv
         * inv
         * (-n(6)
             + inv
                 * (-2.0 * n(5) + inv * (-3.0 * n(4) + inv * (-4.0 * n(3) + inv * (-5.0 * n(2))))));
     let g_tau = n(1) + tau * (2.0 * n(7) + tau * 3.0 * n(8)) + negative;
-    R_WATER_IF97 * 540.0 * g_tau
+    // Its tau-derivative, sum n J (J - 1) tau^(J-2); dtau/dT = -tau/T.
+    let negative_slope = inv
+        * inv
+        * inv
+        * (2.0 * n(6)
+            + inv * (6.0 * n(5) + inv * (12.0 * n(4) + inv * (20.0 * n(3) + inv * 30.0 * n(2)))));
+    let g_tau_tau = 2.0 * n(7) + 6.0 * n(8) * tau + negative_slope;
+    (
+        R_WATER_IF97 * 540.0 * g_tau,
+        -R_WATER_IF97 * 540.0 * g_tau_tau * tau * inv_t,
+    )
 }
 
 /// Residual (second-virial) enthalpy of water vapour at partial pressure pv (Pa), J/kg.
+#[inline]
 fn vapour_residual_enthalpy(t: f64, pv: f64) -> f64 {
-    let tau = 540.0 / t;
+    vapour_residual_enthalpy_and_slopes(t, pv).0
+}
+
+/// [`vapour_residual_enthalpy`] (J/kg) with its partial derivatives in T
+/// (J/(kg K)) and pv (J/(kg Pa)).
+#[inline]
+fn vapour_residual_enthalpy_and_slopes(t: f64, pv: f64) -> (f64, f64, f64) {
+    let inv_t = 1.0 / t;
+    let tau = 540.0 * inv_t;
     let x = tau - 0.5;
     let g_tau: f64 = IF97_VIRIAL
         .iter()
         .map(|&(j, n)| n * j as f64 * x.powi(j - 1))
         .sum();
-    R_WATER_IF97 * t * tau * (pv / 1e6) * g_tau
+    let g_tau_tau: f64 = IF97_VIRIAL
+        .iter()
+        .filter(|&&(j, _)| j >= 2)
+        .map(|&(j, n)| n * (j * (j - 1)) as f64 * x.powi(j - 2))
+        .sum();
+    let scale = R_WATER_IF97 * 540.0 * 1e-6;
+    (
+        scale * pv * g_tau,
+        -scale * pv * g_tau_tau * tau * inv_t,
+        scale * g_tau,
+    )
 }
 
 /// Compressibility excess `Z - 1` of water vapour at partial pressure pv (Pa), second-virial level.
@@ -190,25 +331,44 @@ pub fn vapour_compressibility_excess(t: f64, pv: f64) -> f64 {
 
 /// Enthalpy of water vapour at T (K) and partial pressure pv (Pa), relative to
 /// liquid water at 0 degC, J/kg.
+#[inline]
 pub fn vapour_enthalpy(t: f64, pv: f64) -> f64 {
     vapour_ideal_enthalpy_if97(t) + vapour_residual_enthalpy(t, pv) - H_LIQUID_0C_IF97
 }
 
-/// Ideal-gas specific heat of water vapour, J/(kg K).
-pub fn vapour_cp(t: f64) -> f64 {
-    let dt = 0.01;
-    (vapour_ideal_enthalpy_if97(t + dt) - vapour_ideal_enthalpy_if97(t - dt)) / (2.0 * dt)
+/// [`vapour_enthalpy`] (J/kg) with its partial derivatives in T (J/(kg K)) and
+/// pv (J/(kg Pa)), analytic; `d_pa` is zero.
+#[inline]
+pub fn vapour_enthalpy_and_slopes(t: f64, pv: f64) -> WithSlopes {
+    let (ideal, cp) = vapour_ideal_enthalpy_and_cp(t);
+    let (residual, d_t, d_pv) = vapour_residual_enthalpy_and_slopes(t, pv);
+    WithSlopes {
+        value: ideal + residual - H_LIQUID_0C_IF97,
+        d_t: cp + d_t,
+        d_pa: 0.0,
+        d_pv,
+    }
 }
+
+/// Ideal-gas specific heat of water vapour, J/(kg K) (IF97 region 2, analytic).
+pub fn vapour_cp(t: f64) -> f64 {
+    vapour_ideal_enthalpy_and_cp(t).1
+}
+
+/// Specific heat of liquid water, J/(kg K) (ASHRAE Fundamentals 2017 ch. 1 eq. 35).
+pub const LIQUID_CP: f64 = 4186.0;
+/// Specific heat of ice, J/(kg K) (ASHRAE Fundamentals 2017 ch. 1 eq. 36).
+pub const ICE_CP: f64 = 2100.0;
 
 /// Enthalpy of liquid water at T (K) relative to 0 degC, J/kg: `4186 t` (ASHRAE eq. 35).
 pub fn liquid_enthalpy(t: f64) -> f64 {
-    4186.0 * (t - super::saturation::T_ZERO_C)
+    LIQUID_CP * (t - super::saturation::T_ZERO_C)
 }
 
 /// Enthalpy of ice at T (K) relative to liquid water at 0 degC, J/kg:
 /// `-333.4e3 + 2100 t` (ASHRAE eq. 36).
 pub fn ice_enthalpy(t: f64) -> f64 {
-    -333.4e3 + 2100.0 * (t - super::saturation::T_ZERO_C)
+    -333.4e3 + ICE_CP * (t - super::saturation::T_ZERO_C)
 }
 
 /// Enthalpy of the condensed phase in equilibrium at T: ice below 0 degC, else liquid.
@@ -235,6 +395,79 @@ mod tests {
         ] {
             let h = (vapour_ideal_enthalpy_if97(t) + vapour_residual_enthalpy(t, 3500.0)) / 1e3;
             assert!((h - h_kj).abs() < tol, "T={t}: {h} vs {h_kj}");
+        }
+    }
+
+    /// Central difference of `f` at t, step 1e-3 K.
+    fn difference(f: impl Fn(f64) -> f64, t: f64) -> f64 {
+        (f(t + 1e-3) - f(t - 1e-3)) / 2e-3
+    }
+
+    /// Analytic temperature and pressure derivatives against central differences.
+    #[test]
+    fn analytic_slopes_match_differences() {
+        let close = |a: f64, b: f64, what: &str| {
+            assert!(
+                (a - b).abs() <= 1e-7 * b.abs().max(1e-3),
+                "{what}: {a} vs {b}"
+            );
+        };
+        for i in 0..60 {
+            let t = 175.0 + 8.0 * i as f64;
+            let (pa, pv) = (90e3, 8e3);
+            let (h, cp) = dry_air_enthalpy_and_cp(t);
+            assert_eq!(h, dry_air_enthalpy(t));
+            close(cp, difference(dry_air_enthalpy, t), "dry-air cp");
+            let v = vapour_enthalpy_and_slopes(t, pv);
+            assert_eq!(v.value, vapour_enthalpy(t, pv));
+            close(
+                v.d_t,
+                difference(|t| vapour_enthalpy(t, pv), t),
+                "vapour d/dT",
+            );
+            let dp = (vapour_enthalpy(t, pv + 1.0) - vapour_enthalpy(t, pv - 1.0)) / 2.0;
+            close(v.d_pv, dp, "vapour d/dpv");
+            let a = air_part_enthalpy_and_slopes(t, pa, pv);
+            assert_eq!(a.value, air_part_enthalpy(t, pa, pv));
+            close(
+                a.d_t,
+                difference(|t| air_part_enthalpy(t, pa, pv), t),
+                "air d/dT",
+            );
+            let dpa =
+                (air_part_enthalpy(t, pa + 1.0, pv) - air_part_enthalpy(t, pa - 1.0, pv)) / 2.0;
+            close(a.d_pa, dpa, "air d/dpa");
+            let dpv =
+                (air_part_enthalpy(t, pa, pv + 1.0) - air_part_enthalpy(t, pa, pv - 1.0)) / 2.0;
+            close(a.d_pv, dpv, "air d/dpv");
+        }
+    }
+
+    /// Lemmon's ideal-gas term written directly (two exponentials, no shortcut
+    /// for the last term) against the production form, 173..650 K.
+    #[test]
+    fn dry_air_terms_match_the_direct_formula() {
+        let n = &LEMMON_N;
+        let direct = |tau: f64| {
+            let planck = |a: f64, b: f64| a * b * tau / ((b * tau).exp() - 1.0);
+            let last = n[9] * n[12] * tau / (2.0 / 3.0 * (-n[12] * tau).exp() + 1.0);
+            -3.0 * n[0] * tau.powi(-3) - 2.0 * n[1] * tau.powi(-2) - n[2] / tau
+                + 1.5 * n[5] * tau * tau.sqrt()
+                + n[6]
+                + planck(n[7], n[10])
+                + planck(n[8], n[11])
+                + last
+        };
+        let mut t = 173.15;
+        while t < 650.0 {
+            let tau = LEMMON_T_RED / t;
+            let (ours, _) = air_tau_alpha_tau(tau, 1.0 / tau);
+            let want = direct(tau);
+            assert!(
+                (ours - want).abs() <= 1e-14 * want.abs(),
+                "T={t}: {ours} vs {want}"
+            );
+            t += 0.37;
         }
     }
 
