@@ -144,7 +144,8 @@ fn cpu_seconds() -> f64 {
 /// CPU time per fit: repeat for about one CPU second, best of three rounds.
 fn cpu_timing() {
     for (name, fit) in cases() {
-        let params = fit().params;
+        let first = fit();
+        let (params, evaluations) = (first.params, first.evaluations);
         let once = {
             let t0 = cpu_seconds();
             black_box(fit());
@@ -161,6 +162,7 @@ fn cpu_timing() {
             })
             .fold(f64::INFINITY, f64::min);
         println!("PARAMS {name} {params:?}");
+        println!("EVALUATIONS {name} {evaluations}");
         println!("CPU {name} {best:e}");
     }
 }
