@@ -15,8 +15,9 @@
 //!   the steps do not depend on the parameters' units);
 //! * a step is accepted when the gain ratio `rho` (actual over predicted
 //!   reduction of the sum of squares) exceeds 1e-4; then
-//!   `lambda *= max(1/3, 1 - (2 rho - 1)^3)`, otherwise `lambda *= nu`,
-//!   `nu *= 2`;
+//!   `lambda *= max(1/3, 1 - (2 rho - 1)^3)`, otherwise
+//!   `lambda = max(lambda nu, 0.01)`, `nu *= 2` (the floor is ours: the first
+//!   damping is tiny, so a failed Gauss-Newton step needs a real cut);
 //! * convergence as in MINPACK: relative reductions (actual and predicted)
 //!   both below the tolerance, or a scaled step below the tolerance times the
 //!   scaled parameters.
@@ -53,6 +54,10 @@ const ROUNDING: f64 = 8.0 * f64::EPSILON;
 /// Damping at the start, relative to the scaling `D`: small, so the first
 /// step is nearly a Gauss-Newton step (good starts are the common case).
 const INITIAL_DAMPING: f64 = 1e-6;
+
+/// Least damping after a rejected step: a nearly Gauss-Newton step that
+/// failed is retried much shorter at once, not after many doublings.
+const REJECTED_DAMPING: f64 = 1e-2;
 
 /// Damping beyond which no step can make progress any more.
 const MAX_DAMPING: f64 = 1e20;
@@ -273,7 +278,7 @@ pub(super) fn minimise(
             damping *= (1.0 - (2.0 * rho - 1.0).powi(3)).max(1.0 / 3.0);
             growth = 2.0;
         } else {
-            damping *= growth;
+            damping = (damping * growth).max(REJECTED_DAMPING);
             growth *= 2.0;
         }
         if step_small || reduction_small {
