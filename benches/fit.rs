@@ -17,7 +17,8 @@
 //! `cargo bench --bench fit` runs criterion (wall-clock time). With
 //! `FIT_CPU_TIMING=1` it instead prints the fitted parameters and the CPU time
 //! per fit (process CPU clock, fair when other jobs share the machine), which
-//! benches/fit_compare.py compares with scipy in one run.
+//! benches/fit_compare.py compares with scipy in one run (`FIT_CASE=name`
+//! times one case only, for profiling).
 //! Target: at least 20 times faster than scipy, parameters within 0.5 %.
 
 use std::hint::black_box;
@@ -170,7 +171,11 @@ fn cpu_seconds() -> f64 {
 
 /// CPU time per fit: repeat for about one CPU second, best of three rounds.
 fn cpu_timing() {
+    let only = std::env::var("FIT_CASE").ok();
     for (name, fit) in cases() {
+        if only.as_deref().is_some_and(|o| o != name) {
+            continue;
+        }
         let (params, evaluations) = fit();
         let once = {
             let t0 = cpu_seconds();

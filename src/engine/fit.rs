@@ -1,8 +1,13 @@
 //! Nonlinear least squares: fit a model's parameters to measured data.
 //!
-//! The minimiser is the Levenberg-Marquardt trust-region method of the
-//! `levenberg-marquardt` crate (a Rust port of MINPACK's LMDER, Moré 1978).
-//! That crate has no parameter bounds, so bounds are handled by a smooth change
+//! Up to 6 parameters the minimiser is a compact
+//! Levenberg-Marquardt on the normal equations (module `compact`: one pass over the
+//! points per evaluation, stack arrays, Cholesky); it hands over to the general
+//! minimiser when the normal equations are too ill-conditioned or it does not
+//! converge. The general minimiser is the Levenberg-Marquardt trust-region
+//! method of the `levenberg-marquardt` crate (a Rust port of MINPACK's LMDER,
+//! Moré 1978), on the QR factors of the stored Jacobian.
+//! Neither has parameter bounds, so bounds are handled by a smooth change
 //! of variables (the transformation used by MINUIT, James & Roos 1975): the
 //! minimiser works on unbounded internal variables `u` and every model call sees
 //! `x(u)`, which can never leave its bounds.
@@ -290,7 +295,7 @@ pub fn least_squares_rows(
 
 /// The general entry point: fit `model` to `y` from `start` within `bounds`.
 ///
-/// Up to [`compact::MAX_PARAMS`] parameters the compact minimiser on the normal
+/// Up to 6 parameters the compact minimiser on the normal
 /// equations runs first; when it hands over (ill-conditioned normal equations,
 /// or no convergence) the general QR-based trust-region minimiser starts again
 /// from `start`.
@@ -1190,6 +1195,42 @@ mod tests {
             );
         }
         assert!(analytic.evaluations <= plain.evaluations + 2);
+    }
+
+    /// The compact minimiser (which must not hand over here) and the general
+    /// one reach the same fit and the same statistics, with bounds active in
+    /// the change of variables.
+    #[test]
+    fn compact_and_general_minimisers_agree() {
+        let t: Vec<f64> = (1..=30).map(|i| i as f64 * 0.3).collect();
+        let y: Vec<f64> = t
+            .iter()
+            .enumerate()
+            .map(|(i, t)| 0.9 * (-0.4 * t).exp() + 0.08 + 0.004 * ((i * 5 % 7) as f64 - 3.0))
+            .collect();
+        let model = OneInput {
+            model: &|p: &[f64], t: f64| p[0] * (-p[1] * t).exp() + p[2],
+            x: &t,
+        };
+        let start = [1.0, 0.2, 0.02];
+        let bounds = [(0.0, 5.0), (0.0, f64::INFINITY), (-1.0, f64::INFINITY)];
+        let options = FitOptions::default();
+        let weights = vec![1.0; y.len()];
+        let maps: Vec<Transform> = start
+            .iter()
+            .zip(&bounds)
+            .map(|(&x0, &b)| Transform::new(x0, b))
+            .collect();
+        assert!(compact::minimise(&model, &y, &weights, &maps, &start, &options).is_ok());
+        let quick = fit(&model, &y, &start, &bounds, &options).unwrap();
+        let general = fit_general(&model, &y, &weights, maps, &start, &bounds, &options).unwrap();
+        for j in 0..3 {
+            let (a, b) = (quick.params[j], general.params[j]);
+            assert!((a - b).abs() <= 1e-7 * b.abs(), "param {j}: {a} vs {b}");
+            let (a, b) = (quick.std_errors[j], general.std_errors[j]);
+            assert!((a - b).abs() <= 1e-5 * b, "std error {j}: {a} vs {b}");
+        }
+        assert!((quick.sse - general.sse).abs() <= 1e-12 * general.sse);
     }
 
     #[test]
