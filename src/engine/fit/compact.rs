@@ -110,15 +110,18 @@ impl Sums {
     }
 
     /// Add one point's weighted residual `wr` and weighted derivatives `wg`
-    /// (lower triangle only; mirrored by [`Sums::mirror`]).
+    /// (a derivative that is not finite counts as zero; lower triangle only,
+    /// mirrored by [`Sums::mirror`]).
     fn add(&mut self, p: usize, wr: f64, wg: &[f64]) {
+        let mut g = [0.0; MAX_PARAMS];
+        for (gj, &v) in g.iter_mut().zip(&wg[..p]) {
+            *gj = if v.is_finite() { v } else { 0.0 };
+        }
         self.chi2 += wr * wr;
         for a in 0..p {
-            let ga = if wg[a].is_finite() { wg[a] } else { 0.0 };
-            self.gradient[a] += ga * wr;
+            self.gradient[a] += g[a] * wr;
             for b in 0..=a {
-                let gb = if wg[b].is_finite() { wg[b] } else { 0.0 };
-                self.matrix[a][b] += ga * gb;
+                self.matrix[a][b] += g[a] * g[b];
             }
         }
     }
