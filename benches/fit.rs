@@ -8,12 +8,17 @@
 //! - `page_300`: Page drying model `MR = exp(-k t^n)`, 300 points, start
 //!   `[0.01, 1]`, derivatives by finite differences (as scipy does);
 //! - `page_300_gradient`: the same with analytic derivatives and `ln t`
-//!   computed once (`least_squares_with_gradient`), as a model file would.
+//!   computed once (`least_squares_with_gradient`), as a model file would;
+//! - `page_300_thin_layer`: `fit_thin_layer`, siccant's full route for the
+//!   Page model (start from the linearised form `ln(-ln MR) = ln k + n ln t`,
+//!   analytic derivatives, a fit on time scaled by the last reading, then a
+//!   polishing fit in minutes).
 //!
 //! `cargo bench --bench fit` runs criterion (wall-clock time). With
 //! `FIT_CPU_TIMING=1` it instead prints the fitted parameters and the CPU time
 //! per fit (process CPU clock, fair when other jobs share the machine), which
-//! benches/fit_compare.py compares with scipy in one run.
+//! benches/fit_compare.py compares with scipy in one run (`FIT_CASE=name`
+//! times one case only, for profiling).
 //! Target: at least 20 times faster than scipy, parameters within 0.5 %.
 
 use std::hint::black_box;
@@ -22,6 +27,7 @@ use std::path::Path;
 use criterion::Criterion;
 use siccant::engine::fit::{least_squares, least_squares_with_gradient, unbounded, FitResult};
 use siccant::engine::sorption::{fit_isotherm, IsothermKind};
+use siccant::engine::thin_layer::{fit_thin_layer, ThinLayerModel};
 use siccant::library::data::read_table;
 use siccant::value::Value;
 
@@ -62,8 +68,13 @@ fn page_with_gradient(p: &[f64], ln_t: f64, gradient: &mut [f64]) -> f64 {
     mr
 }
 
-/// One benchmark case: its name and a closure doing one fit.
-type Case = (&'static str, Box<dyn Fn() -> FitResult>);
+/// One benchmark case: its name and a closure doing one fit, returning the
+/// parameters and, where known, the evaluations used.
+type Case = (&'static str, Box<dyn Fn() -> (Vec<f64>, Option<usize>)>);
+
+fn outcome(fit: FitResult) -> (Vec<f64>, Option<usize>) {
+    (fit.params, Some(fit.evaluations))
+}
 
 /// The benchmark cases.
 fn cases() -> Vec<Case> {
@@ -77,8 +88,9 @@ fn cases() -> Vec<Case> {
         .map(|s| s / 60.0)
         .collect();
     let ln_minutes: Vec<f64> = minutes.iter().map(|t| t.ln()).collect();
+    let seconds = column("page_run_300.csv", "t");
     let mr = column("page_run_300.csv", "MR");
-    let (aw2, x2, mr2, mr3) = (aw.clone(), x.clone(), mr.clone(), mr.clone());
+    let (aw2, x2, mr2, mr3, mr4) = (aw.clone(), x.clone(), mr.clone(), mr.clone(), mr.clone());
     vec![
         (
             "gab_15",
@@ -90,6 +102,7 @@ fn cases() -> Vec<Case> {
                     &[0.07, 10.0, 0.85],
                     &unbounded(3),
                 )
+                .map(outcome)
                 .expect("GAB fit")
             }),
         ),
@@ -97,8 +110,8 @@ fn cases() -> Vec<Case> {
             "gab_15_with_starts",
             Box::new(move || {
                 fit_isotherm(IsothermKind::Gab, black_box(&aw2), &t, black_box(&x2), None)
+                    .map(|f| outcome(f.result))
                     .expect("GAB fit")
-                    .result
             }),
         ),
         (
@@ -111,6 +124,7 @@ fn cases() -> Vec<Case> {
                     &[0.01, 1.0],
                     &unbounded(2),
                 )
+                .map(outcome)
                 .expect("Page fit")
             }),
         ),
@@ -124,7 +138,21 @@ fn cases() -> Vec<Case> {
                     &[0.01, 1.0],
                     &unbounded(2),
                 )
+                .map(outcome)
                 .expect("Page fit")
+            }),
+        ),
+        (
+            "page_300_thin_layer",
+            Box::new(move || {
+                let fit = fit_thin_layer(
+                    ThinLayerModel::Page,
+                    black_box(&seconds),
+                    black_box(&mr4),
+                    60.0,
+                )
+                .expect("Page fit");
+                (fit.params, None)
             }),
         ),
     ]
@@ -143,8 +171,12 @@ fn cpu_seconds() -> f64 {
 
 /// CPU time per fit: repeat for about one CPU second, best of three rounds.
 fn cpu_timing() {
+    let only = std::env::var("FIT_CASE").ok();
     for (name, fit) in cases() {
-        let params = fit().params;
+        if only.as_deref().is_some_and(|o| o != name) {
+            continue;
+        }
+        let (params, evaluations) = fit();
         let once = {
             let t0 = cpu_seconds();
             black_box(fit());
@@ -161,6 +193,9 @@ fn cpu_timing() {
             })
             .fold(f64::INFINITY, f64::min);
         println!("PARAMS {name} {params:?}");
+        if let Some(evaluations) = evaluations {
+            println!("EVALUATIONS {name} {evaluations}");
+        }
         println!("CPU {name} {best:e}");
     }
 }

@@ -1,8 +1,13 @@
 //! Nonlinear least squares: fit a model's parameters to measured data.
 //!
-//! The minimiser is the Levenberg-Marquardt trust-region method of the
-//! `levenberg-marquardt` crate (a Rust port of MINPACK's LMDER, Moré 1978).
-//! That crate has no parameter bounds, so bounds are handled by a smooth change
+//! Up to 6 parameters the minimiser is a compact
+//! Levenberg-Marquardt on the normal equations (module `compact`: one pass over the
+//! points per evaluation, stack arrays, Cholesky); it hands over to the general
+//! minimiser when the normal equations are too ill-conditioned or it does not
+//! converge. The general minimiser is the Levenberg-Marquardt trust-region
+//! method of the `levenberg-marquardt` crate (a Rust port of MINPACK's LMDER,
+//! Moré 1978), on the QR factors of the stored Jacobian.
+//! Neither has parameter bounds, so bounds are handled by a smooth change
 //! of variables (the transformation used by MINUIT, James & Roos 1975): the
 //! minimiser works on unbounded internal variables `u` and every model call sees
 //! `x(u)`, which can never leave its bounds.
@@ -32,6 +37,11 @@
 //! 2002, *Model Selection and Multimodel Inference*, sec. 2.2).
 
 use std::fmt;
+
+mod compact;
+mod transform;
+
+use transform::Transform;
 
 use levenberg_marquardt::{LeastSquaresProblem, LevenbergMarquardt, TerminationReason};
 use nalgebra::storage::Owned;
@@ -284,6 +294,11 @@ pub fn least_squares_rows(
 }
 
 /// The general entry point: fit `model` to `y` from `start` within `bounds`.
+///
+/// Up to 6 parameters the compact minimiser on the normal
+/// equations runs first; when it hands over (ill-conditioned normal equations,
+/// or no convergence) the general QR-based trust-region minimiser starts again
+/// from `start`.
 pub fn fit(
     model: &dyn Model,
     y: &[f64],
@@ -297,7 +312,44 @@ pub fn fit(
         .zip(bounds)
         .map(|(&x0, &b)| Transform::new(x0, b))
         .collect();
-    let problem = Problem::new(model, y, &weights, maps, start);
+    if start.len() <= compact::MAX_PARAMS {
+        match compact::minimise(model, y, &weights, &maps, start, options) {
+            Ok(done) => {
+                let normal = match done.normal {
+                    Some(normal) => normal,
+                    None => central_normal(model, &weights, &done.params),
+                };
+                return finish(
+                    y,
+                    &weights,
+                    done.params,
+                    done.fitted,
+                    &normal,
+                    bounds,
+                    done.evaluations,
+                );
+            }
+            Err(compact::Stop::UndefinedAtStart(point)) => {
+                return Err(FitError::ModelUndefined { point })
+            }
+            Err(compact::Stop::HandOver) => {}
+        }
+    }
+    fit_general(model, y, &weights, maps, start, bounds, options)
+}
+
+/// The general path: MINPACK's trust-region method from the
+/// `levenberg-marquardt` crate, with the Jacobian stored.
+fn fit_general(
+    model: &dyn Model,
+    y: &[f64],
+    weights: &[f64],
+    maps: Vec<Transform>,
+    start: &[f64],
+    bounds: &[(f64, f64)],
+    options: &FitOptions,
+) -> Result<FitResult, FitError> {
+    let problem = Problem::new(model, y, weights, maps, start);
     if let Some(point) = problem.first_penalised() {
         return Err(FitError::ModelUndefined { point });
     }
@@ -316,12 +368,34 @@ pub fn fit(
     }
     let params = problem.external();
     let fitted = problem.fitted();
-    let gradients = match problem.analytic {
-        Some(g) => g,
-        None => central_jacobian(model, &params, y.len()),
+    let p = params.len();
+    let normal = match &problem.analytic {
+        Some(g) => normal_matrix(weights, g, p),
+        None => central_normal(model, weights, &params),
     };
-    let mut result = statistics(y, &weights, &params, fitted, &gradients, bounds)?;
-    result.evaluations = report.number_of_evaluations;
+    finish(
+        y,
+        weights,
+        params,
+        fitted,
+        &normal,
+        bounds,
+        report.number_of_evaluations,
+    )
+}
+
+/// Statistics of a converged fit, refused when a parameter is not determined.
+fn finish(
+    y: &[f64],
+    weights: &[f64],
+    params: Vec<f64>,
+    fitted: Vec<f64>,
+    normal: &[f64],
+    bounds: &[(f64, f64)],
+    evaluations: usize,
+) -> Result<FitResult, FitError> {
+    let mut result = statistics(y, weights, &params, fitted, normal, bounds)?;
+    result.evaluations = evaluations;
     check_determined(&result)?;
     Ok(result)
 }
@@ -484,79 +558,6 @@ impl Model for RowInput<'_> {
     fn value(&self, params: &[f64], point: usize) -> f64 {
         (self.model)(params, &self.rows[point])
     }
-}
-
-/// The change of variables that keeps one parameter inside its bounds.
-#[derive(Clone, Copy, Debug)]
-enum Transform {
-    Free,
-    Lower { lo: f64, scale: f64 },
-    Upper { hi: f64, scale: f64 },
-    Both { lo: f64, hi: f64 },
-}
-
-impl Transform {
-    fn new(start: f64, (lo, hi): (f64, f64)) -> Transform {
-        let scale = |gap: f64| {
-            if gap > 0.0 {
-                gap
-            } else {
-                1e-3 * start.abs().max(1e-6)
-            }
-        };
-        match (lo.is_finite(), hi.is_finite()) {
-            (false, false) => Transform::Free,
-            (true, false) => Transform::Lower {
-                lo,
-                scale: scale(start - lo),
-            },
-            (false, true) => Transform::Upper {
-                hi,
-                scale: scale(hi - start),
-            },
-            (true, true) => Transform::Both { lo, hi },
-        }
-    }
-
-    /// Internal (unbounded) variable for a parameter value; a start on a bound
-    /// is moved just inside so that the derivative `dx/du` is not zero.
-    fn internal(self, x: f64) -> f64 {
-        match self {
-            Transform::Free => x,
-            Transform::Lower { lo, scale } => one_sided_internal((x - lo) / scale),
-            Transform::Upper { hi, scale } => one_sided_internal((hi - x) / scale),
-            Transform::Both { lo, hi } => {
-                let s = (2.0 * (x - lo) / (hi - lo) - 1.0).clamp(-0.999_999, 0.999_999);
-                s.asin()
-            }
-        }
-    }
-
-    /// Parameter value for an internal variable.
-    fn external(self, u: f64) -> f64 {
-        match self {
-            Transform::Free => u,
-            Transform::Lower { lo, scale } => lo + scale * ((u * u + 1.0).sqrt() - 1.0),
-            Transform::Upper { hi, scale } => hi - scale * ((u * u + 1.0).sqrt() - 1.0),
-            Transform::Both { lo, hi } => lo + (hi - lo) * 0.5 * (1.0 + u.sin()),
-        }
-    }
-
-    /// Derivative `dx/du`.
-    fn slope(self, u: f64) -> f64 {
-        match self {
-            Transform::Free => 1.0,
-            Transform::Lower { scale, .. } => scale * u / (u * u + 1.0).sqrt(),
-            Transform::Upper { scale, .. } => -scale * u / (u * u + 1.0).sqrt(),
-            Transform::Both { lo, hi } => (hi - lo) * 0.5 * u.cos(),
-        }
-    }
-}
-
-/// Inverse of `d = sqrt(u^2 + 1) - 1` for a scaled distance `d >= 0`, kept off zero.
-fn one_sided_internal(d: f64) -> f64 {
-    let d = d.max(1e-6);
-    ((d + 1.0) * (d + 1.0) - 1.0).sqrt()
 }
 
 /// Parameter count up to which the Jacobian's scratch space lives on the stack.
@@ -756,15 +757,14 @@ fn central_step(x: f64) -> f64 {
     CUBE_ROOT_EPS * if x == 0.0 { 1.0 } else { x.abs() }
 }
 
-/// Statistics of a converged fit at `params`.
 /// Statistics of a converged fit at `params`, from the model values `fitted`
-/// and the model derivatives `gradients` (row-major `n x p`) there.
+/// and the normal matrix `J^T W^2 J` (row-major `p x p`) there.
 fn statistics(
     y: &[f64],
     weights: &[f64],
     params: &[f64],
     fitted: Vec<f64>,
-    gradients: &[f64],
+    normal: &[f64],
     bounds: &[(f64, f64)],
 ) -> Result<FitResult, FitError> {
     let n = y.len();
@@ -781,7 +781,7 @@ fn statistics(
         .sum();
     let dof = n - p;
     let reduced_chi_square = chi2 / dof as f64;
-    let covariance = covariance(weights, gradients, p, reduced_chi_square)?;
+    let covariance = covariance(normal, p, reduced_chi_square)?;
     let std_errors: Vec<f64> = (0..p)
         .map(|j| covariance[j * p + j].max(0.0).sqrt())
         .collect();
@@ -820,29 +820,44 @@ fn statistics(
     })
 }
 
-/// `s^2 (J^T W^2 J)^-1`, row-major.
-/// Model derivatives at `params` by central differences, row-major `n x p`.
-fn central_jacobian(model: &dyn Model, params: &[f64], n: usize) -> Vec<f64> {
-    let p = params.len();
-    let mut out = vec![0.0; n * p];
-    let mut probe = params.to_vec();
-    for (i, row) in out.chunks_mut(p).enumerate() {
-        central_gradient(model, &mut probe, i, row);
+/// `J^T W^2 J`, row-major `p x p`, from row-major model derivatives (`n x p`).
+fn normal_matrix(weights: &[f64], gradients: &[f64], p: usize) -> Vec<f64> {
+    let mut normal = vec![0.0; p * p];
+    for (row, w) in gradients.chunks(p).zip(weights) {
+        accumulate_normal(&mut normal, row, w * w);
     }
-    out
+    normal
 }
 
-/// `s^2 (J^T W^2 J)^-1`, row-major, from row-major model derivatives.
-fn covariance(weights: &[f64], gradients: &[f64], p: usize, s2: f64) -> Result<Vec<f64>, FitError> {
-    let mut normal = DMatrix::zeros(p, p);
-    for (row, w) in gradients.chunks(p).zip(weights) {
-        let w2 = w * w;
-        for a in 0..p {
-            for b in 0..p {
-                normal[(a, b)] += w2 * row[a] * row[b];
-            }
+/// Add `w2 g g^T` to the row-major `normal`.
+fn accumulate_normal(normal: &mut [f64], g: &[f64], w2: f64) {
+    let p = g.len();
+    for a in 0..p {
+        for b in 0..p {
+            normal[a * p + b] += w2 * g[a] * g[b];
         }
     }
+}
+
+/// `J^T W^2 J` at `params` with model derivatives by central differences
+/// (for the covariance, where accuracy matters more than speed; models with
+/// derivatives never come here). Each point's gradient is used at once, so the
+/// `n x p` Jacobian is not stored.
+fn central_normal(model: &dyn Model, weights: &[f64], params: &[f64]) -> Vec<f64> {
+    let p = params.len();
+    let mut normal = vec![0.0; p * p];
+    let mut probe = params.to_vec();
+    let mut grad = vec![0.0; p];
+    for (i, w) in weights.iter().enumerate() {
+        central_gradient(model, &mut probe, i, &mut grad);
+        accumulate_normal(&mut normal, &grad, w * w);
+    }
+    normal
+}
+
+/// `s^2 (J^T W^2 J)^-1`, row-major, from the row-major normal matrix.
+fn covariance(normal: &[f64], p: usize, s2: f64) -> Result<Vec<f64>, FitError> {
+    let normal = DMatrix::from_row_slice(p, p, normal);
     let inverse = invert_symmetric(normal).ok_or(FitError::NotIdentifiable)?;
     // Row-major copy (nalgebra stores columns; the matrix is symmetric anyway).
     let row_major: Vec<f64> = (0..p * p).map(|k| s2 * inverse[(k / p, k % p)]).collect();
@@ -1180,6 +1195,42 @@ mod tests {
             );
         }
         assert!(analytic.evaluations <= plain.evaluations + 2);
+    }
+
+    /// The compact minimiser (which must not hand over here) and the general
+    /// one reach the same fit and the same statistics, with bounds active in
+    /// the change of variables.
+    #[test]
+    fn compact_and_general_minimisers_agree() {
+        let t: Vec<f64> = (1..=30).map(|i| i as f64 * 0.3).collect();
+        let y: Vec<f64> = t
+            .iter()
+            .enumerate()
+            .map(|(i, t)| 0.9 * (-0.4 * t).exp() + 0.08 + 0.004 * ((i * 5 % 7) as f64 - 3.0))
+            .collect();
+        let model = OneInput {
+            model: &|p: &[f64], t: f64| p[0] * (-p[1] * t).exp() + p[2],
+            x: &t,
+        };
+        let start = [1.0, 0.2, 0.02];
+        let bounds = [(0.0, 5.0), (0.0, f64::INFINITY), (-1.0, f64::INFINITY)];
+        let options = FitOptions::default();
+        let weights = vec![1.0; y.len()];
+        let maps: Vec<Transform> = start
+            .iter()
+            .zip(&bounds)
+            .map(|(&x0, &b)| Transform::new(x0, b))
+            .collect();
+        assert!(compact::minimise(&model, &y, &weights, &maps, &start, &options).is_ok());
+        let quick = fit(&model, &y, &start, &bounds, &options).unwrap();
+        let general = fit_general(&model, &y, &weights, maps, &start, &bounds, &options).unwrap();
+        for j in 0..3 {
+            let (a, b) = (quick.params[j], general.params[j]);
+            assert!((a - b).abs() <= 1e-7 * b.abs(), "param {j}: {a} vs {b}");
+            let (a, b) = (quick.std_errors[j], general.std_errors[j]);
+            assert!((a - b).abs() <= 1e-5 * b, "std error {j}: {a} vs {b}");
+        }
+        assert!((quick.sse - general.sse).abs() <= 1e-12 * general.sse);
     }
 
     #[test]

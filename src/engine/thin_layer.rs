@@ -20,8 +20,11 @@
 //! models, and the best fit is polished in the caller's time unit so the
 //! standard errors are in that unit.
 
-use super::fit::{least_squares, FitResult};
+mod curve;
+
+use super::fit::{self, FitOptions, FitResult};
 use super::kinetics::{positive, KineticsError};
+use curve::Curve;
 
 /// A thin-layer model.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -301,14 +304,21 @@ pub fn fit_thin_layer(
     let scale = times_s.iter().copied().fold(0.0, f64::max);
     positive("last reading time", scale)?;
     let scaled: Vec<f64> = times_s.iter().map(|t| t / scale).collect();
+    let ln_times: Vec<f64> = times_s.iter().map(|t| t.ln()).collect();
+    let ln_scaled: Vec<f64> = ln_times.iter().map(|l| l - scale.ln()).collect();
     let guess = linearised(&scaled, ratios);
-    let f = |p: &[f64], t: f64| model.ratio(p, t);
+    let on_scaled = Curve {
+        model,
+        t: &scaled,
+        ln_t: &ln_scaled,
+    };
     let bounds = model.bounds();
+    let options = FitOptions::default();
     let mut best: Option<FitResult> = None;
     let mut last_error = None;
     for start in model.starts(&guess) {
         let start = clamp_start(&start, &bounds);
-        match least_squares(&f, &scaled, ratios, &start, &bounds) {
+        match fit::fit(&on_scaled, ratios, &start, &bounds, &options) {
             Ok(r) if best.as_ref().is_none_or(|b| r.sse < b.sse) => best = Some(r),
             Ok(_) => {}
             Err(e) => last_error = Some(e),
@@ -322,11 +332,17 @@ pub fn fit_thin_layer(
         });
     };
     let in_unit: Vec<f64> = times_s.iter().map(|t| t / time_unit_s).collect();
+    let ln_in_unit: Vec<f64> = ln_times.iter().map(|l| l - time_unit_s.ln()).collect();
+    let on_unit = Curve {
+        model,
+        t: &in_unit,
+        ln_t: &ln_in_unit,
+    };
     let start = clamp_start(
         &model.rescale(&scaled_fit.params, time_unit_s / scale),
         &bounds,
     );
-    let polished = least_squares(&f, &in_unit, ratios, &start, &bounds)
+    let polished = fit::fit(&on_unit, ratios, &start, &bounds, &options)
         .unwrap_or_else(|_| rescaled_result(model, &scaled_fit, time_unit_s / scale));
     Ok(summary(model, time_unit_s, polished))
 }

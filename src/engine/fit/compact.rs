@@ -1,0 +1,459 @@
+//! Levenberg-Marquardt for models with few parameters, on the normal equations.
+//!
+//! With a handful of parameters the work of a fit is in the model evaluations,
+//! not in linear algebra, so this minimiser keeps everything small: one pass
+//! over the points accumulates the normal matrix `J^T W^2 J` and the gradient
+//! `J^T W^2 r` in stack arrays (the `n x p` Jacobian is never stored, nothing
+//! is allocated per iteration), and each step solves the damped `p x p` system
+//! `(A + lambda D) du = -b` by Cholesky factorisation.
+//!
+//! Method (Marquardt 1963; Moré 1978 for the scaling and tests; Nielsen 1999,
+//! *Damping parameter in Marquardt's method*, IMM-REP-1999-05, for the damping
+//! update; all from memory):
+//!
+//! * `D` is the largest diagonal of `A` seen so far (Marquardt's scaling, so
+//!   the steps do not depend on the parameters' units);
+//! * a step is accepted when the gain ratio `rho` (actual over predicted
+//!   reduction of the sum of squares) exceeds 1e-4; then
+//!   `lambda *= max(1/3, 1 - (2 rho - 1)^3)`, otherwise
+//!   `lambda = max(lambda nu, 0.01)`, `nu *= 2` (the floor is ours: the first
+//!   damping is tiny, so a failed Gauss-Newton step needs a real cut);
+//! * convergence as in MINPACK: relative reductions (actual and predicted)
+//!   both below the tolerance, or a scaled step below the tolerance times the
+//!   scaled parameters.
+//!
+//! Safeguards: a trial point where the model is not finite is rejected like a
+//! step that increases the sum of squares; a damped system whose Cholesky
+//! pivots fall below [`PIVOT_FLOOR`] of their diagonal (normal equations too
+//! ill-conditioned to trust) and a run that does not converge are handed back
+//! to the caller, which then runs the general QR-based minimiser from the start.
+
+// Index loops over the small p x p arrays read like the formulas they code.
+#![allow(clippy::needless_range_loop)]
+
+use super::transform::Transform;
+use super::{forward_gradient, FitOptions, Model};
+
+/// Largest parameter count handled here.
+pub(super) const MAX_PARAMS: usize = 6;
+
+/// Smallest Cholesky pivot accepted, relative to its diagonal entry: below it
+/// the scaled system has a condition number beyond about 1e12 and the normal
+/// equations lose too many digits.
+const PIVOT_FLOOR: f64 = 1e-12;
+
+/// Acceptance threshold of the gain ratio (MINPACK's value).
+const ACCEPT_RATIO: f64 = 1e-4;
+
+/// Relative change of the sum of squares that is rounding noise: at the
+/// minimum a step that changes the sum by no more than this is accepted when
+/// the reduction tests are met, since the solved step locates the minimum
+/// more precisely (to about eps) than comparing sums can (about sqrt(eps)).
+const ROUNDING: f64 = 8.0 * f64::EPSILON;
+
+/// Damping at the start, relative to the scaling `D`: small, so the first
+/// step is nearly a Gauss-Newton step (good starts are the common case).
+const INITIAL_DAMPING: f64 = 1e-6;
+
+/// Least damping after a rejected step: a nearly Gauss-Newton step that
+/// failed is retried much shorter at once, not after many doublings.
+const REJECTED_DAMPING: f64 = 1e-2;
+
+/// Damping beyond which no step can make progress any more.
+const MAX_DAMPING: f64 = 1e20;
+
+type Vector = [f64; MAX_PARAMS];
+type Matrix = [[f64; MAX_PARAMS]; MAX_PARAMS];
+
+/// The minimiser's result at its converged point.
+pub(super) struct Converged {
+    /// Parameters (external, within their bounds).
+    pub params: Vec<f64>,
+    /// Model values at `params`.
+    pub fitted: Vec<f64>,
+    /// `J^T W^2 J` with respect to the external parameters, row-major `p x p`,
+    /// when the model gives analytic derivatives (finite-difference models get
+    /// theirs by central differences afterwards).
+    pub normal: Option<Vec<f64>>,
+    /// Passes over the data that computed model values.
+    pub evaluations: usize,
+}
+
+/// Why the minimiser stopped without a result.
+#[derive(Debug, Clone, PartialEq)]
+pub(super) enum Stop {
+    /// The model has no finite value at the start, at this point.
+    UndefinedAtStart(usize),
+    /// Not converged, or the normal equations too ill-conditioned: let the
+    /// general minimiser try.
+    HandOver,
+}
+
+/// Sums over the data at one parameter point.
+#[derive(Clone, Copy)]
+struct Sums {
+    /// `sum w^2 (f - y)^2`.
+    chi2: f64,
+    /// `sum w^2 g g^T`, external parameters (`g` the model's derivatives).
+    matrix: Matrix,
+    /// `sum w^2 g (f - y)`.
+    gradient: Vector,
+}
+
+impl Sums {
+    fn empty() -> Sums {
+        Sums {
+            chi2: 0.0,
+            matrix: [[0.0; MAX_PARAMS]; MAX_PARAMS],
+            gradient: [0.0; MAX_PARAMS],
+        }
+    }
+
+    /// Add one point's weighted residual `wr` and weighted derivatives `wg`
+    /// (a derivative that is not finite counts as zero; lower triangle only,
+    /// mirrored by [`Sums::mirror`]).
+    fn add(&mut self, p: usize, wr: f64, wg: &[f64]) {
+        let mut g = [0.0; MAX_PARAMS];
+        for (gj, &v) in g.iter_mut().zip(&wg[..p]) {
+            *gj = if v.is_finite() { v } else { 0.0 };
+        }
+        self.chi2 += wr * wr;
+        for a in 0..p {
+            self.gradient[a] += g[a] * wr;
+            for b in 0..=a {
+                self.matrix[a][b] += g[a] * g[b];
+            }
+        }
+    }
+
+    fn mirror(&mut self, p: usize) {
+        for a in 0..p {
+            for b in 0..a {
+                self.matrix[b][a] = self.matrix[a][b];
+            }
+        }
+    }
+}
+
+/// The data and model of one fit.
+struct Data<'a> {
+    model: &'a dyn Model,
+    y: &'a [f64],
+    weights: &'a [f64],
+    analytic: bool,
+    p: usize,
+}
+
+impl Data<'_> {
+    /// Values (into `fitted`) and, for analytic models, the full sums at `x`;
+    /// `Err(point)` at the first point where the model is not finite.
+    fn evaluate(&self, x: &[f64], fitted: &mut [f64]) -> Result<Sums, usize> {
+        let mut sums = Sums::empty();
+        let mut g = [0.0; MAX_PARAMS];
+        for i in 0..self.y.len() {
+            let f = if self.analytic {
+                self.model
+                    .value_and_gradient(x, i, &mut g[..self.p])
+                    .unwrap_or(f64::NAN)
+            } else {
+                self.model.value(x, i)
+            };
+            let w = self.weights[i];
+            let wr = w * (f - self.y[i]);
+            if !wr.is_finite() {
+                return Err(i);
+            }
+            fitted[i] = f;
+            if self.analytic {
+                for gj in &mut g[..self.p] {
+                    *gj *= w;
+                }
+                sums.add(self.p, wr, &g);
+            } else {
+                sums.chi2 += wr * wr;
+            }
+        }
+        sums.mirror(self.p);
+        Ok(sums)
+    }
+
+    /// For finite-difference models: the sums with forward-difference
+    /// derivatives at `x`, whose model values are `fitted`.
+    fn differences(&self, x: &[f64], fitted: &[f64], chi2: f64) -> Sums {
+        let mut sums = Sums::empty();
+        let mut probe = [0.0; MAX_PARAMS];
+        probe[..self.p].copy_from_slice(x);
+        let mut g = [0.0; MAX_PARAMS];
+        for (i, &f) in fitted.iter().enumerate() {
+            forward_gradient(self.model, &mut probe[..self.p], i, f, &mut g[..self.p]);
+            let w = self.weights[i];
+            for gj in &mut g[..self.p] {
+                *gj *= w;
+            }
+            sums.add(self.p, w * (f - self.y[i]), &g);
+        }
+        sums.mirror(self.p);
+        sums.chi2 = chi2;
+        sums
+    }
+
+    /// Evaluate at `x`, with the derivatives for either kind of model.
+    fn full(&self, x: &[f64], fitted: &mut [f64]) -> Result<Sums, usize> {
+        let sums = self.evaluate(x, fitted)?;
+        Ok(if self.analytic {
+            sums
+        } else {
+            self.differences(x, fitted, sums.chi2)
+        })
+    }
+}
+
+/// The iterate: internal variables, parameters and the sums there.
+struct Point {
+    u: Vector,
+    x: Vector,
+    sums: Sums,
+}
+
+/// Minimise the weighted sum of squares from `start` (at most
+/// [`MAX_PARAMS`] parameters, already checked by the caller).
+pub(super) fn minimise(
+    model: &dyn Model,
+    y: &[f64],
+    weights: &[f64],
+    maps: &[Transform],
+    start: &[f64],
+    options: &FitOptions,
+) -> Result<Converged, Stop> {
+    let p = start.len();
+    let mut probe = [0.0; MAX_PARAMS];
+    let data = Data {
+        model,
+        y,
+        weights,
+        analytic: model
+            .value_and_gradient(start, 0, &mut probe[..p])
+            .is_some(),
+        p,
+    };
+    let mut fitted = vec![0.0; y.len()];
+    let mut trial_fitted = vec![0.0; y.len()];
+    let mut point = start_point(&data, maps, start, &mut fitted)?;
+    let max_evaluations = options.patience.max(1) * (p + 1);
+    let tolerance = options.tolerance;
+    let mut evaluations = 1;
+    let mut scale = [0.0; MAX_PARAMS];
+    let (mut damping, mut growth) = (INITIAL_DAMPING, 2.0);
+    loop {
+        let (a, b) = internal_system(&point, maps, p);
+        update_scale(&mut scale, &a, p);
+        if point.sums.chi2 == 0.0 || b[..p].iter().all(|v| *v == 0.0) {
+            break;
+        }
+        if evaluations >= max_evaluations || damping > MAX_DAMPING {
+            return Err(Stop::HandOver);
+        }
+        let step = damped_step(&a, &b, &scale, damping, p).ok_or(Stop::HandOver)?;
+        let predicted = predicted_reduction(&a, &scale, &step, damping, p);
+        let trial = trial_point(&point, &step, maps, p);
+        evaluations += 1;
+        let sums = data.evaluate(&trial.x[..p], &mut trial_fitted);
+        let actual = sums.map_or(f64::NEG_INFINITY, |s| point.sums.chi2 - s.chi2);
+        let rho = actual / predicted;
+        let step_small =
+            scaled_norm(&step, &scale, p) <= tolerance * scaled_norm(&point.u, &scale, p);
+        let reduction_small = actual.abs() <= tolerance * point.sums.chi2
+            && predicted <= tolerance * point.sums.chi2
+            && rho <= 2.0;
+        let within_noise = reduction_small && actual >= -ROUNDING * point.sums.chi2;
+        if rho > ACCEPT_RATIO || within_noise {
+            if let Ok(s) = sums {
+                point = Point {
+                    sums: if data.analytic {
+                        s
+                    } else {
+                        data.differences(&trial.x[..p], &trial_fitted, s.chi2)
+                    },
+                    ..trial
+                };
+                std::mem::swap(&mut fitted, &mut trial_fitted);
+            }
+            damping *= (1.0 - (2.0 * rho - 1.0).powi(3)).max(1.0 / 3.0);
+            growth = 2.0;
+        } else {
+            damping = (damping * growth).max(REJECTED_DAMPING);
+            growth *= 2.0;
+        }
+        if step_small || reduction_small {
+            break;
+        }
+    }
+    Ok(Converged {
+        params: point.x[..p].to_vec(),
+        fitted,
+        normal: data.analytic.then(|| row_major(&point.sums.matrix, p)),
+        evaluations,
+    })
+}
+
+/// The first iterate, at the start values.
+fn start_point(
+    data: &Data,
+    maps: &[Transform],
+    start: &[f64],
+    fitted: &mut [f64],
+) -> Result<Point, Stop> {
+    let mut u = [0.0; MAX_PARAMS];
+    let mut x = [0.0; MAX_PARAMS];
+    for (j, (m, &x0)) in maps.iter().zip(start).enumerate() {
+        u[j] = m.internal(x0);
+        x[j] = m.external(u[j]);
+    }
+    let sums = data
+        .full(&x[..data.p], fitted)
+        .map_err(Stop::UndefinedAtStart)?;
+    Ok(Point { u, x, sums })
+}
+
+/// Normal matrix and gradient in the internal variables: the external ones
+/// scaled by the slopes `dx/du`.
+fn internal_system(point: &Point, maps: &[Transform], p: usize) -> (Matrix, Vector) {
+    let mut slopes = [0.0; MAX_PARAMS];
+    for (j, m) in maps.iter().enumerate() {
+        slopes[j] = m.slope(point.u[j]);
+    }
+    let mut a = [[0.0; MAX_PARAMS]; MAX_PARAMS];
+    let mut b = [0.0; MAX_PARAMS];
+    for i in 0..p {
+        b[i] = slopes[i] * point.sums.gradient[i];
+        for j in 0..p {
+            a[i][j] = slopes[i] * slopes[j] * point.sums.matrix[i][j];
+        }
+    }
+    (a, b)
+}
+
+/// Marquardt's scaling: the largest diagonal seen so far (one where it is zero).
+fn update_scale(scale: &mut Vector, a: &Matrix, p: usize) {
+    for j in 0..p {
+        scale[j] = scale[j].max(a[j][j]);
+        if !(scale[j] > 0.0 && scale[j].is_finite()) {
+            scale[j] = 1.0;
+        }
+    }
+}
+
+/// Solve `(A + damping D) step = -b` on the system scaled to unit `D`;
+/// `None` when it is too ill-conditioned for the normal equations.
+fn damped_step(a: &Matrix, b: &Vector, scale: &Vector, damping: f64, p: usize) -> Option<Vector> {
+    let mut d = [0.0; MAX_PARAMS];
+    for j in 0..p {
+        d[j] = scale[j].sqrt();
+    }
+    let mut m = [[0.0; MAX_PARAMS]; MAX_PARAMS];
+    let mut rhs = [0.0; MAX_PARAMS];
+    for i in 0..p {
+        rhs[i] = -b[i] / d[i];
+        for j in 0..p {
+            m[i][j] = a[i][j] / (d[i] * d[j]);
+        }
+        m[i][i] += damping;
+    }
+    let z = cholesky_solve(&m, &rhs, p)?;
+    let mut step = [0.0; MAX_PARAMS];
+    for j in 0..p {
+        step[j] = z[j] / d[j];
+    }
+    step[..p].iter().all(|s| s.is_finite()).then_some(step)
+}
+
+/// Reduction of the sum of squares the linear model predicts for `step`:
+/// `step^T A step + 2 damping step^T D step` (positive).
+fn predicted_reduction(a: &Matrix, scale: &Vector, step: &Vector, damping: f64, p: usize) -> f64 {
+    let mut total = 0.0;
+    for i in 0..p {
+        let row: f64 = (0..p).map(|j| a[i][j] * step[j]).sum();
+        total += step[i] * row + 2.0 * damping * scale[i] * step[i] * step[i];
+    }
+    total
+}
+
+/// The point one step away (its sums are filled in when it is accepted).
+fn trial_point(point: &Point, step: &Vector, maps: &[Transform], p: usize) -> Point {
+    let mut u = point.u;
+    let mut x = point.x;
+    for j in 0..p {
+        u[j] += step[j];
+        x[j] = maps[j].external(u[j]);
+    }
+    Point {
+        u,
+        x,
+        sums: point.sums,
+    }
+}
+
+/// `|| D^(1/2) v ||`.
+fn scaled_norm(v: &Vector, scale: &Vector, p: usize) -> f64 {
+    (0..p).map(|j| scale[j] * v[j] * v[j]).sum::<f64>().sqrt()
+}
+
+/// Solve `M z = r` for symmetric positive definite `M` by Cholesky
+/// factorisation; `None` when a pivot falls below [`PIVOT_FLOOR`] of its
+/// diagonal entry.
+fn cholesky_solve(m: &Matrix, r: &Vector, p: usize) -> Option<Vector> {
+    let mut l = [[0.0; MAX_PARAMS]; MAX_PARAMS];
+    for j in 0..p {
+        let pivot = m[j][j] - (0..j).map(|k| l[j][k] * l[j][k]).sum::<f64>();
+        if pivot.is_nan() || pivot <= PIVOT_FLOOR * m[j][j] {
+            return None;
+        }
+        l[j][j] = pivot.sqrt();
+        for i in j + 1..p {
+            let s = m[i][j] - (0..j).map(|k| l[i][k] * l[j][k]).sum::<f64>();
+            l[i][j] = s / l[j][j];
+        }
+    }
+    let mut z = [0.0; MAX_PARAMS];
+    for i in 0..p {
+        z[i] = (r[i] - (0..i).map(|k| l[i][k] * z[k]).sum::<f64>()) / l[i][i];
+    }
+    for i in (0..p).rev() {
+        z[i] = (z[i] - (i + 1..p).map(|k| l[k][i] * z[k]).sum::<f64>()) / l[i][i];
+    }
+    Some(z)
+}
+
+fn row_major(m: &Matrix, p: usize) -> Vec<f64> {
+    (0..p * p).map(|k| m[k / p][k % p]).collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn cholesky_solves_a_small_system() {
+        let mut m = [[0.0; MAX_PARAMS]; MAX_PARAMS];
+        m[0][0] = 4.0;
+        m[0][1] = 2.0;
+        m[1][0] = 2.0;
+        m[1][1] = 3.0;
+        let mut r = [0.0; MAX_PARAMS];
+        r[0] = 2.0;
+        r[1] = 1.0;
+        // 4 z0 + 2 z1 = 2, 2 z0 + 3 z1 = 1  =>  z = (0.5, 0).
+        let z = cholesky_solve(&m, &r, 2).unwrap();
+        assert!((z[0] - 0.5).abs() < 1e-15 && z[1].abs() < 1e-15);
+    }
+
+    #[test]
+    fn cholesky_refuses_a_singular_system() {
+        let mut m = [[0.0; MAX_PARAMS]; MAX_PARAMS];
+        for row in m.iter_mut().take(2) {
+            row[0] = 1.0;
+            row[1] = 1.0;
+        }
+        assert!(cholesky_solve(&m, &[1.0; MAX_PARAMS], 2).is_none());
+    }
+}
