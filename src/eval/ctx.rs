@@ -347,7 +347,7 @@ impl<'a> Ctx<'a> {
         let mut r = Record::new("record");
         for (name, e) in fields {
             let v = self.expr(e)?;
-            r.fields.push((name.name.clone(), v));
+            r.push(name.name.clone(), v);
         }
         Ok(Value::Record(r))
     }
@@ -503,7 +503,7 @@ fn show_in(v: &Value, unit: &Unit) -> Result<Value, String> {
 }
 
 fn no_field(r: &Record, field: &crate::syntax::Ident) -> Diagnostic {
-    let names: Vec<&str> = r.fields.iter().map(|(n, _)| n.as_str()).collect();
+    let names: Vec<&str> = r.fields.iter().map(|(n, _)| &**n).collect();
     let mut d = Diagnostic::error(
         field.span,
         format!("{} has no field `{}`", record_word(r), field.name),

@@ -722,7 +722,7 @@ fn process_record(
     args: &mut Args,
     o: &ProcessOutcome,
     stream: Option<&Stream>,
-    water: Option<(&str, f64)>,
+    water: Option<(&'static str, f64)>,
 ) -> Result<Value, Diagnostic> {
     let mut r = air_record(args, &o.outlet)?;
     r = r.with("q", q(o.heat.value, Dim::SPECIFIC_ENERGY, Kind::Plain));
