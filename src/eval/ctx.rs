@@ -372,19 +372,27 @@ impl<'a> Ctx<'a> {
         if matches!(op, BinaryOp::And | BinaryOp::Or) {
             return self.logic(op, a, b);
         }
+        // Both operands already computed names (the common case in a worksheet):
+        // one lookup each, nothing forced, nothing copied.
+        if let (Some(x), Some(y)) = (self.computed(a), self.computed(b)) {
+            return binary_values(op, x, y, (a.span, b.span), span);
+        }
         let x = self.operand(a)?;
         let y = self.operand(b)?;
         let (x, y) = (self.view(&x), self.view(&y));
-        ops::binary(op, x, y).map_err(|e| {
-            let mut d = op_error(e, span, a.span, b.span);
-            if op == BinaryOp::Add && ops::is_absolute(x) && ops::is_absolute(y) {
-                d.hints.push((
-                    Some(b.span),
-                    "this is an absolute temperature too; use a difference such as `10 K`".into(),
-                ));
-            }
-            d.into()
-        })
+        binary_values(op, x, y, (a.span, b.span), span)
+    }
+
+    /// The value of `e` when it is a name whose value is already at hand (a
+    /// parameter or a computed value); `None` otherwise (nothing is forced).
+    fn computed(&self, e: &Expr) -> Option<&Value> {
+        let ExprKind::Name(n) = &e.kind else {
+            return None;
+        };
+        if let Some(v) = self.frame.as_ref().and_then(|f| f.get(n)) {
+            return Some(v);
+        }
+        self.sheet.cache.get(n)
     }
 
     fn logic(&mut self, op: BinaryOp, a: &Expr, b: &Expr) -> Flow<Value> {
@@ -418,6 +426,12 @@ impl<'a> Ctx<'a> {
     }
 
     fn field(&mut self, a: &Expr, field: &crate::syntax::Ident) -> Flow<Value> {
+        // A field of a computed record: read in place.
+        if let Some(Value::Record(r)) = self.computed(a) {
+            if let Some(v) = r.get(&field.name) {
+                return Ok(v.clone());
+            }
+        }
         match self.expr(a)? {
             Value::Record(r) => r
                 .get(&field.name)
@@ -450,6 +464,26 @@ impl<'a> Ctx<'a> {
             d.into()
         })
     }
+}
+
+/// Apply a binary operator to two values, blaming the operands' spans.
+fn binary_values(
+    op: BinaryOp,
+    x: &Value,
+    y: &Value,
+    (a, b): (Span, Span),
+    span: Span,
+) -> Flow<Value> {
+    ops::binary(op, x, y).map_err(|e| {
+        let mut d = op_error(e, span, a, b);
+        if op == BinaryOp::Add && ops::is_absolute(x) && ops::is_absolute(y) {
+            d.hints.push((
+                Some(b),
+                "this is an absolute temperature too; use a difference such as `10 K`".into(),
+            ));
+        }
+        d.into()
+    })
 }
 
 /// The value an operand stands for (a free function so that callers can
@@ -582,6 +616,17 @@ const MAX_VALUE_DEPTH: usize = 32;
 /// nesting depth through lists and records, without recursion, so that a
 /// deeply nested value cannot overflow the stack here.
 fn list_items(value: &Value) -> (usize, usize) {
+    // A record of plain fields (an air state, a surface balance): one level,
+    // no items, nothing to walk.
+    if let Value::Record(r) = value {
+        let nested = r
+            .fields
+            .iter()
+            .any(|(_, f)| matches!(f, Value::List(_) | Value::Record(_)));
+        if !nested {
+            return (0, usize::from(!r.fields.is_empty()));
+        }
+    }
     let (mut count, mut deepest) = (0usize, 0usize);
     let mut stack = vec![(value, 0usize)];
     while let Some((v, depth)) = stack.pop() {
