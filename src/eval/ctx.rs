@@ -107,8 +107,19 @@ impl<'a> Ctx<'a> {
     }
 
     /// Count one step against the budget; check the interrupt flag now and then.
+    #[inline]
     fn tick(&mut self, span: Span) -> Flow<()> {
         self.ops += 1;
+        if self.ops <= self.limits.max_operations && self.ops % 1024 != 0 {
+            return Ok(());
+        }
+        self.tick_checks(span)
+    }
+
+    /// The checks of [`Ctx::tick`] when the budget may be spent or the
+    /// interrupt flag is due to be read (one step in 1024).
+    #[cold]
+    fn tick_checks(&mut self, span: Span) -> Flow<()> {
         if self.ops > self.limits.max_operations {
             let msg = format!(
                 "evaluation stopped after {} steps",
