@@ -6,9 +6,12 @@
 //!   evaluator, names already computed (target: under 100 ns; pint takes tens
 //!   of microseconds, see benches/pint_anchor.py).
 //!
-//! Run: `cargo bench --bench core_eval`
+//! Run: `cargo bench --bench core_eval` (criterion, wall time), or
+//! `cargo bench --bench core_eval -- --cpu` (thread CPU time of both targets,
+//! best of several runs, as `key=value` lines; on a shared machine this is the
+//! figure to compare with the targets).
 
-use criterion::{criterion_group, criterion_main, Criterion};
+use criterion::Criterion;
 use std::hint::black_box;
 
 use siccant::eval::{Ctx, Limits, Mode, Sheet, Sources};
@@ -20,7 +23,8 @@ use siccant::syntax::{self, StmtKind};
 pub fn generated_worksheet(lines: usize) -> String {
     let mut s = String::from("input T_in = 80 degC\ninput L = 12 mm\nflux(h, dT) = h * dT\n");
     let mut i = 0;
-    while s.lines().count() < lines {
+    // Three header lines, then one line per step.
+    while 3 + i < lines {
         let line = match i % 8 {
             0 => format!("a{i} = 2.4 m * 1.8 m + {} m^2", i % 7),
             1 => format!("m{i} = 14 kg/m^2 * a{}", i - 1),
@@ -57,18 +61,30 @@ fn worksheet(c: &mut Criterion) {
     });
 }
 
-fn multiply_and_convert(c: &mut Criterion) {
+/// The parsed `q * t as kWh` with `q` and `t` defined in `sheet`.
+fn multiply_setup(sheet: &mut Sheet) -> siccant::syntax::Expr {
     let (defs, _) = syntax::parse("q = 3 kW\nt = 2 h\n", 0);
     let (shown, _) = syntax::parse("q * t as kWh", 1);
     let Some(StmtKind::Show(expr)) = shown.into_iter().next().map(|s| s.kind) else {
         panic!("bench expression parses")
     };
-    let mut sheet = Sheet::default();
     assert!(sheet.define(&defs, true).is_ok());
-    let mut sources = Sources::default();
-    let limits = Limits::default();
-    let mut ctx = Ctx::new(&mut sheet, &mut sources, &limits, Mode::Run);
-    assert!(ctx.force("q", defs[0].span).is_ok() && ctx.force("t", defs[1].span).is_ok());
+    siccant::syntax::Expr::clone(&expr)
+}
+
+/// A context over `sheet` with `q` and `t` computed.
+fn multiply_ctx<'a>(sheet: &'a mut Sheet, sources: &'a mut Sources, limits: &'a Limits) -> Ctx<'a> {
+    let mut ctx = Ctx::new(sheet, sources, limits, Mode::Run);
+    let span = siccant::diag::Span::default();
+    assert!(ctx.force("q", span).is_ok() && ctx.force("t", span).is_ok());
+    ctx
+}
+
+fn multiply_and_convert(c: &mut Criterion) {
+    let mut sheet = Sheet::default();
+    let expr = multiply_setup(&mut sheet);
+    let (mut sources, limits) = (Sources::default(), Limits::default());
+    let mut ctx = multiply_ctx(&mut sheet, &mut sources, &limits);
     assert!(ctx.expr(&expr).is_ok());
     c.bench_function("multiply_and_convert", |b| {
         b.iter(|| {
@@ -78,5 +94,60 @@ fn multiply_and_convert(c: &mut Criterion) {
     });
 }
 
-criterion_group!(benches, worksheet, multiply_and_convert);
-criterion_main!(benches);
+/// CPU time of this thread in seconds (`CLOCK_THREAD_CPUTIME_ID`): on a
+/// shared machine it does not count the time other processes hold the core.
+fn thread_cpu_seconds() -> f64 {
+    let mut ts = libc::timespec {
+        tv_sec: 0,
+        tv_nsec: 0,
+    };
+    // SAFETY: clock_gettime writes into the timespec we own.
+    let rc = unsafe { libc::clock_gettime(libc::CLOCK_THREAD_CPUTIME_ID, &mut ts) };
+    assert_eq!(rc, 0, "thread CPU clock");
+    ts.tv_sec as f64 + ts.tv_nsec as f64 * 1e-9
+}
+
+/// Best CPU time of `f` over `repeat` runs.
+fn best_cpu(repeat: usize, mut f: impl FnMut()) -> f64 {
+    (0..repeat)
+        .map(|_| {
+            let start = thread_cpu_seconds();
+            f();
+            thread_cpu_seconds() - start
+        })
+        .fold(f64::INFINITY, f64::min)
+}
+
+/// `--cpu`: both targets timed in thread CPU time (best of several runs),
+/// printed as `key=value` lines (used by benches/pint_anchor.py).
+fn cpu_report() {
+    let mut sheet = Sheet::default();
+    let expr = multiply_setup(&mut sheet);
+    let (mut sources, limits) = (Sources::default(), Limits::default());
+    let mut ctx = multiply_ctx(&mut sheet, &mut sources, &limits);
+    let n = 2_000_000;
+    let per_op = best_cpu(5, || {
+        for _ in 0..n {
+            ctx.ops = 0;
+            black_box(ctx.expr(black_box(&expr)).is_ok());
+        }
+    }) / n as f64;
+    println!("multiply_and_convert_cpu_ns={:.1}", per_op * 1e9);
+    let text = generated_worksheet(2000);
+    let sheet_cpu = best_cpu(15, || {
+        let mut session = Session::with_file("bench.sicc");
+        black_box(session.eval(black_box(&text)).is_ok());
+    });
+    println!("worksheet_2000_lines_cpu_ms={:.2}", sheet_cpu * 1e3);
+}
+
+fn main() {
+    if std::env::args().any(|a| a == "--cpu") {
+        cpu_report();
+        return;
+    }
+    let mut c = Criterion::default().configure_from_args();
+    worksheet(&mut c);
+    multiply_and_convert(&mut c);
+    c.final_summary();
+}

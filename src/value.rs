@@ -1,6 +1,7 @@
 //! Values produced by evaluating a worksheet.
 
 use std::any::Any;
+use std::borrow::Cow;
 use std::fmt;
 use std::sync::Arc;
 
@@ -26,15 +27,24 @@ pub trait Callable: fmt::Debug + Send + Sync {
     fn name(&self) -> &str;
 }
 
+/// The name of a record field or type: a `&'static str` for the records the
+/// library builds (no allocation), an owned string for records written in a
+/// worksheet.
+pub type FieldName = Cow<'static, str>;
+
 /// A record: ordered named fields, read with `.`.
 ///
 /// Engine objects (an air state, an isotherm model, a material, a fit, a drying
 /// stage) are records whose `type_name` says what they are, with fields for
 /// people and an optional typed payload for the library functions that consume them.
+///
+/// The fields are shared: cloning a record (reading it by name, passing it to
+/// a built-in) copies two pointers, not its fields. Adding a field to a shared
+/// record copies the fields first ([`Arc::make_mut`]).
 #[derive(Clone, Debug, Default)]
 pub struct Record {
-    pub type_name: String,
-    pub fields: Vec<(String, Value)>,
+    pub type_name: FieldName,
+    pub fields: Arc<Vec<(FieldName, Value)>>,
     pub payload: Option<Arc<dyn Payload>>,
 }
 
@@ -45,18 +55,33 @@ pub trait Payload: fmt::Debug + Send + Sync {
 
 impl Record {
     /// A record with no payload.
-    pub fn new(type_name: impl Into<String>) -> Record {
+    pub fn new(type_name: impl Into<FieldName>) -> Record {
         Record {
             type_name: type_name.into(),
-            fields: Vec::new(),
+            fields: Arc::new(Vec::new()),
+            payload: None,
+        }
+    }
+
+    /// A record with room for `fields` fields (built-ins that know their
+    /// record's size, so the fields are allocated once).
+    pub fn with_capacity(type_name: impl Into<FieldName>, fields: usize) -> Record {
+        Record {
+            type_name: type_name.into(),
+            fields: Arc::new(Vec::with_capacity(fields)),
             payload: None,
         }
     }
 
     /// Append a field (builder style).
-    pub fn with(mut self, name: impl Into<String>, value: Value) -> Record {
-        self.fields.push((name.into(), value));
+    pub fn with(mut self, name: impl Into<FieldName>, value: Value) -> Record {
+        self.push(name, value);
         self
+    }
+
+    /// Append a field.
+    pub fn push(&mut self, name: impl Into<FieldName>, value: Value) {
+        Arc::make_mut(&mut self.fields).push((name.into(), value));
     }
 
     /// Read a field by name.

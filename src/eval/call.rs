@@ -3,7 +3,7 @@
 use std::panic::{catch_unwind, AssertUnwindSafe};
 
 use super::ctx::{Ctx, Flow};
-use super::DefKind;
+use super::{DefKind, Mode};
 use crate::diag::{Diagnostic, Span};
 use crate::library::{self, Arg, Args, Builtin};
 use crate::syntax::{CallArg, Ident};
@@ -65,13 +65,33 @@ impl Ctx<'_> {
     }
 
     fn call_builtin(&mut self, b: &'static Builtin, args: &[CallArg], span: Span) -> Flow<Value> {
-        check_arg_names(b, args)?;
-        let values = self.arguments(args)?;
-        if self.check_call(b, &values) {
-            return self.builtin_shape(b, values, span);
+        let slots = arg_slots(b, args)?;
+        if self.mode == Mode::CheckOnly || self.checking.blind > 0 {
+            // Checking keeps the argument names: shapes are matched by name.
+            let values = self.arguments(args)?;
+            if self.check_call(b, &values) {
+                return self.builtin_shape(b, values, span);
+            }
+            let bound = Args::bind(b, span, values)?;
+            return self.run_builtin(b, bound, span);
         }
-        let mut bound = Args::bind(b, span, values)?;
-        bound.dir = Some(self.sheet.dir.clone());
+        let mut values = Vec::with_capacity(args.len());
+        for (a, slot) in args.iter().zip(slots) {
+            let value = self.expr(&a.value)?;
+            let arg = Arg {
+                name: None,
+                value,
+                span: a.span,
+            };
+            values.push((slot, arg));
+        }
+        let bound = Args::bind_slots(b, span, values)?;
+        self.run_builtin(b, bound, span)
+    }
+
+    /// Run a built-in on bound arguments, catching panics as internal errors.
+    fn run_builtin(&mut self, b: &'static Builtin, mut bound: Args, span: Span) -> Flow<Value> {
+        bound.dir = Some(self.sheet.shared_dir());
         let result = catch_unwind(AssertUnwindSafe(|| (b.func)(&mut bound)));
         self.warnings.append(&mut bound.warnings);
         match result {
@@ -113,23 +133,30 @@ impl Ctx<'_> {
     }
 }
 
-/// Report a misspelt argument name before evaluating anything.
-fn check_arg_names(b: &Builtin, args: &[CallArg]) -> Result<(), Diagnostic> {
+/// The parameter index of each argument (`None`: positional), reporting a
+/// misspelt argument name before evaluating anything.
+fn arg_slots(b: &Builtin, args: &[CallArg]) -> Result<Vec<Option<usize>>, Diagnostic> {
+    args.iter()
+        .map(|a| match &a.name {
+            None => Ok(None),
+            Some(n) => match b.params.iter().position(|p| p.name == n.name) {
+                Some(i) => Ok(Some(i)),
+                None => Err(misspelt_arg(b, n)),
+            },
+        })
+        .collect()
+}
+
+fn misspelt_arg(b: &Builtin, n: &Ident) -> Diagnostic {
     let names: Vec<&str> = b.params.iter().map(|p| p.name).collect();
-    for a in args {
-        let Some(n) = &a.name else { continue };
-        if !names.contains(&n.name.as_str()) {
-            let mut d = Diagnostic::error(
-                n.span,
-                format!("`{}` has no argument named `{}`", b.name, n.name),
-            );
-            if let Some(best) = super::suggest(&n.name, &names) {
-                d = d.with_hint(format!("did you mean `{best}`?"));
-            }
-            return Err(d.with_hint(format!("arguments: {}", names.join(", "))));
-        }
+    let mut d = Diagnostic::error(
+        n.span,
+        format!("`{}` has no argument named `{}`", b.name, n.name),
+    );
+    if let Some(best) = super::suggest(&n.name, &names) {
+        d = d.with_hint(format!("did you mean `{best}`?"));
     }
-    Ok(())
+    d.with_hint(format!("arguments: {}", names.join(", ")))
 }
 
 fn check_finite(v: Value, b: &Builtin, span: Span) -> Flow<Value> {

@@ -110,8 +110,19 @@ impl<'a> Ctx<'a> {
     }
 
     /// Count one step against the budget; check the interrupt flag now and then.
+    #[inline]
     fn tick(&mut self, span: Span) -> Flow<()> {
         self.ops += 1;
+        if self.ops <= self.limits.max_operations && self.ops % 1024 != 0 {
+            return Ok(());
+        }
+        self.tick_checks(span)
+    }
+
+    /// The checks of [`Ctx::tick`] when the budget may be spent or the
+    /// interrupt flag is due to be read (one step in 1024).
+    #[cold]
+    fn tick_checks(&mut self, span: Span) -> Flow<()> {
         if self.ops > self.limits.max_operations {
             let msg = format!(
                 "evaluation stopped after {} steps",
@@ -352,7 +363,7 @@ impl<'a> Ctx<'a> {
         let mut r = Record::new("record");
         for (name, e) in fields {
             let v = self.expr(e)?;
-            r.fields.push((name.name.clone(), v));
+            r.push(name.name.clone(), v);
         }
         Ok(Value::Record(r))
     }
@@ -382,26 +393,35 @@ impl<'a> Ctx<'a> {
         if matches!(op, BinaryOp::And | BinaryOp::Or) {
             return self.logic(op, a, b);
         }
+        // Both operands already computed names (the common case in a worksheet):
+        // one lookup each, nothing forced, nothing copied.
+        if let (Some(x), Some(y)) = (self.computed(a), self.computed(b)) {
+            if !self.shapes_only(&[x, y]) {
+                return binary_values(op, x, y, (a.span, b.span), span);
+            }
+        }
         let x = self.operand(a)?;
         let y = self.operand(b)?;
         let (x, y) = (self.view(&x), self.view(&y));
-        let result = if self.shapes_only(&[x, y]) {
-            self.on_shapes(Some(op), x, Some(y), |x, y| {
+        if self.shapes_only(&[x, y]) {
+            let result = self.on_shapes(Some(op), x, Some(y), |x, y| {
                 ops::binary(op, x, y.unwrap_or(x))
-            })?
-        } else {
-            ops::binary(op, x, y)
+            })?;
+            return result.map_err(|e| binary_failure(op, e, x, y, (a.span, b.span), span));
+        }
+        binary_values(op, x, y, (a.span, b.span), span)
+    }
+
+    /// The value of `e` when it is a name whose value is already at hand (a
+    /// parameter or a computed value); `None` otherwise (nothing is forced).
+    fn computed(&self, e: &Expr) -> Option<&Value> {
+        let ExprKind::Name(n) = &e.kind else {
+            return None;
         };
-        result.map_err(|e| {
-            let mut d = op_error(e, span, a.span, b.span);
-            if op == BinaryOp::Add && ops::is_absolute(x) && ops::is_absolute(y) {
-                d.hints.push((
-                    Some(b.span),
-                    "this is an absolute temperature too; use a difference such as `10 K`".into(),
-                ));
-            }
-            d.into()
-        })
+        if let Some(v) = self.frame.as_ref().and_then(|f| f.get(n)) {
+            return Some(v);
+        }
+        self.sheet.cache.get(n)
     }
 
     fn logic(&mut self, op: BinaryOp, a: &Expr, b: &Expr) -> Flow<Value> {
@@ -438,6 +458,12 @@ impl<'a> Ctx<'a> {
     }
 
     fn field(&mut self, a: &Expr, field: &crate::syntax::Ident) -> Flow<Value> {
+        // A field of a computed record: read in place.
+        if let Some(Value::Record(r)) = self.computed(a) {
+            if let Some(v) = r.get(&field.name) {
+                return Ok(v.clone());
+            }
+        }
         match self.expr(a)? {
             Value::Record(r) => r
                 .get(&field.name)
@@ -476,6 +502,36 @@ impl<'a> Ctx<'a> {
             d.into()
         })
     }
+}
+
+/// Apply a binary operator to two values, blaming the operands' spans.
+fn binary_values(
+    op: BinaryOp,
+    x: &Value,
+    y: &Value,
+    (a, b): (Span, Span),
+    span: Span,
+) -> Flow<Value> {
+    ops::binary(op, x, y).map_err(|e| binary_failure(op, e, x, y, (a, b), span))
+}
+
+/// The diagnostic for a failed `x op y`, with a hint for two absolute temperatures.
+fn binary_failure(
+    op: BinaryOp,
+    e: ops::OpError,
+    x: &Value,
+    y: &Value,
+    (a, b): (Span, Span),
+    span: Span,
+) -> Stop {
+    let mut d = op_error(e, span, a, b);
+    if op == BinaryOp::Add && ops::is_absolute(x) && ops::is_absolute(y) {
+        d.hints.push((
+            Some(b),
+            "this is an absolute temperature too; use a difference such as `10 K`".into(),
+        ));
+    }
+    d.into()
 }
 
 /// The value an operand stands for (a free function so that callers can
@@ -537,7 +593,7 @@ fn show_in(v: &Value, unit: &Unit) -> Result<Value, String> {
 }
 
 fn no_field(r: &Record, field: &crate::syntax::Ident) -> Diagnostic {
-    let names: Vec<&str> = r.fields.iter().map(|(n, _)| n.as_str()).collect();
+    let names: Vec<&str> = r.fields.iter().map(|(n, _)| &**n).collect();
     let mut d = Diagnostic::error(
         field.span,
         format!("{} has no field `{}`", record_word(r), field.name),
@@ -616,6 +672,17 @@ const MAX_VALUE_DEPTH: usize = 32;
 /// nesting depth through lists and records, without recursion, so that a
 /// deeply nested value cannot overflow the stack here.
 fn list_items(value: &Value) -> (usize, usize) {
+    // A record of plain fields (an air state, a surface balance): one level,
+    // no items, nothing to walk.
+    if let Value::Record(r) = value {
+        let nested = r
+            .fields
+            .iter()
+            .any(|(_, f)| matches!(f, Value::List(_) | Value::Record(_)));
+        if !nested {
+            return (0, usize::from(!r.fields.is_empty()));
+        }
+    }
     let (mut count, mut deepest) = (0usize, 0usize);
     let mut stack = vec![(value, 0usize)];
     while let Some((v, depth)) = stack.pop() {

@@ -31,9 +31,13 @@ impl Hasher for WordHasher {
         }
         let rest = chunks.remainder();
         if !rest.is_empty() {
-            let mut w = [0u8; 8];
-            w[..rest.len()].copy_from_slice(rest);
-            self.add(u64::from_le_bytes(w));
+            // Byte by byte (at most seven): a copy of variable length would
+            // call memcpy, which costs more than the hashing for short names.
+            let w = rest
+                .iter()
+                .enumerate()
+                .fold(0u64, |w, (i, b)| w | (u64::from(*b) << (8 * i)));
+            self.add(w);
         }
     }
 

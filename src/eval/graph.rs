@@ -3,7 +3,7 @@
 
 use std::collections::HashMap;
 
-use crate::syntax::{children, Expr, ExprKind};
+use crate::syntax::{Expr, ExprKind};
 
 /// Names an expression reads (values and called functions), excluding `params`,
 /// in first-use order without repeats.
@@ -21,11 +21,23 @@ pub fn dependencies(expr: &Expr, params: &[String]) -> Vec<String> {
                 out.push(n.clone());
             }
         }
-        let mut kids = children(e);
-        kids.reverse();
-        stack.extend(kids);
+        push_children_reversed(e, &mut stack);
     }
     out
+}
+
+/// Push `e`'s sub-expressions last-first, so that they pop in source order
+/// (the same order as [`crate::syntax::children`], without a list per node).
+fn push_children_reversed<'e>(e: &'e Expr, stack: &mut Vec<&'e Expr>) {
+    match &e.kind {
+        ExprKind::Quantity { .. } | ExprKind::Bool(_) | ExprKind::Str(_) | ExprKind::Name(_) => {}
+        ExprKind::List(items) => stack.extend(items.iter().rev()),
+        ExprKind::Record(fields) => stack.extend(fields.iter().rev().map(|(_, e)| e)),
+        ExprKind::Unary(_, a) | ExprKind::Field(a, _) | ExprKind::As(a, _) => stack.push(a),
+        ExprKind::Binary(_, a, b) => stack.extend([&**b, &**a]),
+        ExprKind::Call { args, .. } => stack.extend(args.iter().rev().map(|a| &a.value)),
+        ExprKind::If(c, a, b) => stack.extend([&**b, &**a, &**c]),
+    }
 }
 
 /// Every cycle among `names` (in definition order), each as the chain of names
@@ -120,6 +132,18 @@ mod tests {
         .into();
         let get = |n: &str| deps.get(n).map(Vec::as_slice);
         assert_eq!(postorder(["c"], &get), vec!["a", "b", "c"]);
+    }
+
+    #[test]
+    fn dependencies_in_first_use_order_through_every_form() {
+        let text = "x = if c then f(a, k: [b, {r: d.e}]) else -g as m + (h < i)\n";
+        let (stmts, errors) = crate::syntax::parse(text, 0);
+        assert!(errors.is_empty(), "{errors:?}");
+        let def = crate::eval::definition(&stmts[0]).expect("a binding");
+        assert_eq!(
+            dependencies(&def.expr, &["k".to_string(), "h".to_string()]),
+            ["c", "f", "a", "b", "d", "g", "i"]
+        );
     }
 
     #[test]

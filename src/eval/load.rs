@@ -170,7 +170,7 @@ impl Ctx<'_> {
         let mut record = Record::new("worksheet");
         for name in &sheet.order {
             if let Some(v) = sheet.cache.get(name) {
-                record.fields.push((name.clone(), v.clone()));
+                record.push(name.clone(), v.clone());
             }
         }
         Ok(Value::Record(record))

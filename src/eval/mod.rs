@@ -87,19 +87,21 @@ pub fn run_statements(ctx: &mut Ctx, stmts: &[Stmt]) -> Vec<OutputItem> {
 /// Compute every value the statements need, dependencies first, so that
 /// forcing a value never recurses down a long chain of names.
 fn precompute(ctx: &mut Ctx, stmts: &[Stmt]) {
-    let roots: Vec<String> = stmts
-        .iter()
-        .flat_map(|s| match crate::eval::definition(s) {
-            Some(def) => def
-                .deps
-                .into_iter()
-                .chain([def.name.name])
-                .collect::<Vec<_>>(),
-            None => statement_deps(s),
-        })
-        .collect();
     let order: Vec<(String, crate::diag::Span)> = {
         let defs = &ctx.sheet.defs;
+        let mut roots: Vec<String> = Vec::new();
+        for s in stmts {
+            match defined_name(s) {
+                // The sheet already knows what the definition reads.
+                Some(name) => {
+                    if let Some(d) = defs.get(name) {
+                        roots.extend(d.deps.iter().cloned());
+                    }
+                    roots.push(name.to_string());
+                }
+                None => roots.extend(statement_deps(s)),
+            }
+        }
         let get = |n: &str| defs.get(n).map(|d| d.deps.as_slice());
         graph::postorder(roots.iter().map(String::as_str), &get)
             .into_iter()
@@ -129,6 +131,16 @@ fn report_interrupt(ctx: &mut Ctx, span: crate::diag::Span) {
     {
         ctx.errors
             .push(crate::diag::Diagnostic::error(span, "interrupted"));
+    }
+}
+
+/// The name a binding, input or function statement defines.
+fn defined_name(stmt: &Stmt) -> Option<&str> {
+    match &stmt.kind {
+        StmtKind::Binding { name, .. }
+        | StmtKind::Input { name, .. }
+        | StmtKind::Function { name, .. } => Some(&name.name),
+        StmtKind::Check(_) | StmtKind::Show(_) => None,
     }
 }
 

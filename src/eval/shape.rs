@@ -49,11 +49,12 @@ pub fn forget(v: &Value) -> Value {
         Value::List(items) => Value::List(items.iter().map(forget).collect()),
         Value::Record(r) => Value::Record(Record {
             type_name: r.type_name.clone(),
-            fields: r
-                .fields
-                .iter()
-                .map(|(n, f)| (n.clone(), forget(f)))
-                .collect(),
+            fields: std::sync::Arc::new(
+                r.fields
+                    .iter()
+                    .map(|(n, f)| (n.clone(), forget(f)))
+                    .collect(),
+            ),
             payload: None,
         }),
         other => other.clone(),

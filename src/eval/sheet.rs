@@ -2,7 +2,7 @@
 //! dependencies each one reads, and the cache of values already computed.
 
 use std::collections::{HashMap, HashSet};
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 use std::sync::Arc;
 
 use super::fastmap::FastMap;
@@ -72,6 +72,8 @@ pub struct Sheet {
     pub unit_texts: FastMap<String, Unit>,
     /// Directory `load` paths are relative to.
     pub dir: PathBuf,
+    /// `dir` shared with built-ins (each call receives it), made on first use.
+    shared_dir: Option<Arc<Path>>,
 }
 
 impl Sheet {
@@ -80,6 +82,18 @@ impl Sheet {
         Sheet {
             dir,
             ..Sheet::default()
+        }
+    }
+
+    /// [`Sheet::dir`] as a shared path (built once, then cloned cheaply).
+    pub fn shared_dir(&mut self) -> Arc<Path> {
+        match &self.shared_dir {
+            Some(d) if **d == *self.dir => d.clone(),
+            _ => {
+                let d: Arc<Path> = Arc::from(self.dir.as_path());
+                self.shared_dir = Some(d.clone());
+                d
+            }
         }
     }
 

@@ -616,10 +616,13 @@ fn abs_t(t_k: f64) -> Value {
     q(t_k, Dim::TEMPERATURE, Kind::AbsoluteTemperature)
 }
 
+/// Fields of an `air` record (with the outlet fields a process adds).
+const AIR_FIELDS: usize = 20;
+
 /// The record of an air state, with its payload. Warnings go to `args`.
 pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
     let t = s.temperature().get::<kelvin>();
-    let mut r = Record::new("air")
+    let mut r = Record::with_capacity("air", AIR_FIELDS)
         .with("T", abs_t(t))
         .with("rh", q(s.relative_humidity(), Dim::NONE, Kind::Activity))
         .with("w", q(s.humidity_ratio(), Dim::NONE, Kind::HumidityRatio));
@@ -657,7 +660,9 @@ pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
                 Kind::Plain,
             ),
         );
-    if let (Some(ws), Some(mu)) = (s.saturation_humidity_ratio(), s.degree_of_saturation()) {
+    if let Some(ws) = s.saturation_humidity_ratio() {
+        // The degree of saturation w / w_s, from the w_s just computed.
+        let mu = s.humidity_ratio() / ws;
         r = r
             .with("w_sat", q(ws, Dim::NONE, Kind::HumidityRatio))
             .with("degree_of_saturation", q(mu, Dim::NONE, Kind::Fraction));
@@ -722,7 +727,7 @@ fn process_record(
     args: &mut Args,
     o: &ProcessOutcome,
     stream: Option<&Stream>,
-    water: Option<(&str, f64)>,
+    water: Option<(&'static str, f64)>,
 ) -> Result<Value, Diagnostic> {
     let mut r = air_record(args, &o.outlet)?;
     r = r.with("q", q(o.heat.value, Dim::SPECIFIC_ENERGY, Kind::Plain));

@@ -100,7 +100,7 @@ fn air_list(args: &mut Args, name: &str) -> Result<Vec<(Quantity, Quantity)>, Di
 
 fn state_point(v: &Value) -> Option<(Quantity, Quantity)> {
     let Value::Record(r) = v else { return None };
-    match (r.type_name.as_str(), r.get("T"), r.get("w")) {
+    match (&*r.type_name, r.get("T"), r.get("w")) {
         ("air", Some(Value::Quantity(t, _)), Some(Value::Quantity(w, _))) => Some((*t, *w)),
         _ => None,
     }

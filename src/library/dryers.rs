@@ -1117,7 +1117,12 @@ fn tray_dryer(args: &mut Args) -> Result<Value, Diagnostic> {
 }
 
 /// Fields shared by the batch dryers.
-fn batch_record(type_name: &str, r: &BatchResult, times_name: &str, element: &str) -> Record {
+fn batch_record(
+    type_name: &'static str,
+    r: &BatchResult,
+    times_name: &'static str,
+    element: &str,
+) -> Record {
     let f = &r.flows;
     let times = r
         .element_times_s
@@ -1489,7 +1494,7 @@ fn rotary_record(rotary: &Rotary, r: &RotaryResult, gas_out: Record) -> Record {
 // ---------------------------------------------------------------------------
 
 /// Add a plot field when the plot could be built (it always can from finite results).
-fn with_plot(r: Record, name: &str, plot: Option<Plot>) -> Record {
+fn with_plot(r: Record, name: &'static str, plot: Option<Plot>) -> Record {
     match plot {
         Some(p) => r.with(name, Value::Plot(Arc::new(p))),
         None => r,

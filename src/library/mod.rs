@@ -104,7 +104,7 @@ pub struct Args {
     /// Warnings attached to the call (validity ranges and the like).
     pub warnings: Vec<Diagnostic>,
     /// Folder of the calling worksheet, for relative file paths (None: current folder).
-    pub dir: Option<std::path::PathBuf>,
+    pub dir: Option<std::sync::Arc<std::path::Path>>,
 }
 
 impl Args {
@@ -114,37 +114,42 @@ impl Args {
         call_span: Span,
         args: Vec<Arg>,
     ) -> Result<Args, Diagnostic> {
+        let mut slots = Vec::with_capacity(args.len());
+        for arg in args {
+            let slot = match &arg.name {
+                Some(name) => Some(
+                    builtin
+                        .params
+                        .iter()
+                        .position(|p| p.name == name)
+                        .ok_or_else(|| unknown_argument(builtin, name, arg.span))?,
+                ),
+                None => None,
+            };
+            slots.push((slot, arg));
+        }
+        Args::bind_slots(builtin, call_span, slots)
+    }
+
+    /// Bind arguments whose parameter index is already known (`None`:
+    /// positional, in declaration order). The evaluator binds this way, so
+    /// names are neither compared again nor copied (its `Arg`s carry no name).
+    pub fn bind_slots(
+        builtin: &'static Builtin,
+        call_span: Span,
+        args: Vec<(Option<usize>, Arg)>,
+    ) -> Result<Args, Diagnostic> {
         let mut bound: Vec<Option<Arg>> = vec![None; builtin.params.len()];
         let mut next_positional = 0;
-        for arg in args {
-            let index = match &arg.name {
-                Some(name) => builtin
-                    .params
-                    .iter()
-                    .position(|p| p.name == name)
-                    .ok_or_else(|| {
-                        let names: Vec<&str> = builtin.params.iter().map(|p| p.name).collect();
-                        let mut d = Diagnostic::error(
-                            arg.span,
-                            format!("`{}` has no argument named `{name}`", builtin.name),
-                        );
-                        if let Some(best) = closest(name, &names) {
-                            d = d.with_hint(format!("did you mean `{best}`?"));
-                        }
-                        d.with_hint(format!("arguments: {}", names.join(", ")))
-                    })?,
+        for (slot, arg) in args {
+            let index = match slot {
+                Some(i) if i < builtin.params.len() => i,
+                Some(_) => return Err(too_many(builtin, arg.span)),
                 None => {
                     let i = next_positional;
                     next_positional += 1;
                     if i >= builtin.params.len() {
-                        return Err(Diagnostic::error(
-                            arg.span,
-                            format!(
-                                "`{}` takes at most {} arguments",
-                                builtin.name,
-                                builtin.params.len()
-                            ),
-                        ));
+                        return Err(too_many(builtin, arg.span));
                     }
                     i
                 }
@@ -264,6 +269,29 @@ impl Args {
     }
 }
 
+fn unknown_argument(builtin: &Builtin, name: &str, span: Span) -> Diagnostic {
+    let names: Vec<&str> = builtin.params.iter().map(|p| p.name).collect();
+    let mut d = Diagnostic::error(
+        span,
+        format!("`{}` has no argument named `{name}`", builtin.name),
+    );
+    if let Some(best) = closest(name, &names) {
+        d = d.with_hint(format!("did you mean `{best}`?"));
+    }
+    d.with_hint(format!("arguments: {}", names.join(", ")))
+}
+
+fn too_many(builtin: &Builtin, span: Span) -> Diagnostic {
+    Diagnostic::error(
+        span,
+        format!(
+            "`{}` takes at most {} arguments",
+            builtin.name,
+            builtin.params.len()
+        ),
+    )
+}
+
 fn expect_quantity(b: &Builtin, name: &str, arg: &Arg, dim: Dim) -> Result<Quantity, Diagnostic> {
     match &arg.value {
         Value::Quantity(q, _) if q.dim == dim => Ok(*q),
@@ -340,7 +368,33 @@ pub fn registry() -> &'static [&'static Builtin] {
     })
 }
 
-/// Look up a built-in by name.
+/// Look up a built-in by name (a hash lookup: this runs on every call).
 pub fn find(name: &str) -> Option<&'static Builtin> {
-    registry().iter().copied().find(|b| b.name == name)
+    static BY_NAME: std::sync::OnceLock<crate::eval::FastMap<&'static str, &'static Builtin>> =
+        std::sync::OnceLock::new();
+    BY_NAME
+        .get_or_init(|| registry().iter().map(|b| (b.name, *b)).collect())
+        .get(name)
+        .copied()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn names_are_unique_and_each_is_found() {
+        let all = registry();
+        for pair in all.windows(2) {
+            assert!(
+                pair[0].name < pair[1].name,
+                "built-in `{}` is registered twice",
+                pair[1].name
+            );
+        }
+        for b in all {
+            assert!(find(b.name).is_some_and(|f| std::ptr::eq(f, *b)));
+        }
+        assert!(find("no_such_builtin").is_none());
+    }
 }

@@ -277,14 +277,14 @@ fn quantity_like(v: &Value) -> Option<Value> {
     }
 }
 
-fn record(type_name: &str, groups: &[Fields]) -> Option<Value> {
+fn record(type_name: &'static str, groups: &[Fields]) -> Option<Value> {
     let mut r = Record::new(type_name);
     for (name, unit) in groups.iter().flat_map(|g| g.iter()) {
         let v = match *unit {
             "text" => Value::Str(String::new()),
             u => unknown_in(u)?,
         };
-        r.fields.push(((*name).to_string(), v));
+        r.push(*name, v);
     }
     Some(Value::Record(r))
 }
@@ -381,9 +381,7 @@ pub fn check_arg(b: &Builtin, index: usize, arg: &Arg) -> Result<(), Diagnostic>
             Some(None) => Ok(()),
             None => Err(wrong(format!("expects a quantity, found {}", type_word(v)))),
         },
-        (Accepts::Records(types), Value::Record(r)) if types.contains(&r.type_name.as_str()) => {
-            Ok(())
-        }
+        (Accepts::Records(types), Value::Record(r)) if types.contains(&&*r.type_name) => Ok(()),
         // Only air parameters take one record type and nothing else; others
         // also take records their text does not name (a material, a fit).
         (Accepts::Records(types), Value::Record(r))

@@ -996,7 +996,7 @@ fn surface_record(s: WetSurface, h: f64) -> Record {
     let ts = s
         .temperature
         .get::<uom::si::thermodynamic_temperature::kelvin>();
-    let mut r = Record::new("wet_surface")
+    let mut r = Record::with_capacity("wet_surface", 10)
         .with(
             "Ts",
             Value::Quantity(

@@ -313,7 +313,7 @@ fn distribution(
     shape: Shape,
     q: Quantity,
     unit: Option<Unit>,
-    fields: Vec<(&str, Value)>,
+    fields: Vec<(&'static str, Value)>,
 ) -> Value {
     let mean = Quantity::new(shape.mean(), q.dim, q.kind);
     let std = Quantity::new(shape.std(), q.dim, spread_kind(q.kind));
@@ -383,7 +383,7 @@ fn distribution_at(
     args: &Args,
     made: Result<Shape, ShapeError>,
     v: &[(Quantity, Arg)],
-    fields: Vec<(&str, Value)>,
+    fields: Vec<(&'static str, Value)>,
 ) -> Result<Value, Diagnostic> {
     let made = made.map_err(|e| {
         let blame = match &e {

@@ -39,7 +39,7 @@ fn record(r: &Record) -> String {
         "<table class=\"siccant-record\">\n<caption>{}</caption>\n",
         escape_html(&r.type_name)
     );
-    for (name, v) in &r.fields {
+    for (name, v) in r.fields.iter() {
         s.push_str(&format!(
             "<tr><th scope=\"row\">{}</th><td>{}</td></tr>\n",
             escape_html(name),

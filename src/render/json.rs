@@ -21,7 +21,7 @@ pub fn json(value: &Value) -> Json {
         }
         Value::List(items) => list(items, &mut obj),
         Value::Record(r) => {
-            obj.insert("type".into(), Json::String(r.type_name.clone()));
+            obj.insert("type".into(), Json::String(r.type_name.to_string()));
             let fields = r.fields.iter().map(|(n, v)| named(n, v)).collect();
             obj.insert("fields".into(), Json::Array(fields));
         }

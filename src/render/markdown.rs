@@ -27,7 +27,7 @@ fn record(r: &Record) -> String {
         "*{}*\n\n| field | value |\n| --- | --- |\n",
         escape_markdown(&r.type_name)
     );
-    for (name, v) in &r.fields {
+    for (name, v) in r.fields.iter() {
         let shown = match v {
             Value::Table(_) | Value::Plot(_) | Value::Record(_) => {
                 format!("({})", crate::library::type_word(v))

@@ -351,14 +351,14 @@ pub fn from_records(title: Option<String>, rows: &[Value]) -> Result<Table, Rend
         title: title.clone(),
     })?;
     let mut columns = Vec::new();
-    for (name, _) in &first.fields {
+    for (name, _) in first.fields.iter() {
         let cells = records
             .iter()
             .enumerate()
             .map(|(i, r)| field_of(i, r, name))
             .collect::<Result<Vec<_>, _>>()?;
         columns.push(Column {
-            name: name.clone(),
+            name: name.to_string(),
             unit: None,
             cells,
         });

@@ -15,8 +15,8 @@ pub fn text(value: &Value) -> String {
             format!("[{}]", parts.join(", "))
         }
         Value::Record(r) => {
-            let mut s = r.type_name.clone();
-            for (name, v) in &r.fields {
+            let mut s = r.type_name.to_string();
+            for (name, v) in r.fields.iter() {
                 let inner = text(v).replace('\n', "\n    ");
                 s.push_str(&format!("\n  {name} = {inner}"));
             }

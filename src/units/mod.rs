@@ -13,6 +13,7 @@
 //! | `table.rs` | `Unit`: lookup, compound units, conversion to and from SI |
 //! | `parse.rs` | unit expressions as text (`W/(m^2*K)`) |
 //! | `format.rs` | showing quantities with fixed significant figures |
+//! | `memo.rs` | per-thread memory of units already looked up or parsed |
 //!
 //! The rules are written up for users in `docs/units.md`.
 
@@ -20,6 +21,7 @@ mod catalog;
 mod dim;
 mod format;
 mod kind;
+mod memo;
 mod names;
 mod parse;
 mod quantity;

@@ -7,13 +7,23 @@
 //! follows the same rules: `*` and `/` associate left to right, `^` binds
 //! tighter and takes an integer exponent, parentheses group.
 
-use super::{lookup_unit, suggest_unit, Unit, UnitError};
+use std::cell::RefCell;
+use std::collections::HashMap;
+
+use super::{lookup_unit, memo, suggest_unit, Unit, UnitError};
 
 /// Parse a unit expression into a [`Unit`].
 ///
 /// Errors name the unknown symbol (with a "did you mean" hint) or the
 /// position of the syntax error.
 pub fn parse_unit(text: &str) -> Result<Unit, UnitError> {
+    thread_local! {
+        static PARSED: RefCell<HashMap<String, Unit>> = RefCell::new(HashMap::new());
+    }
+    memo::remembered(&PARSED, text, parse_uncached)
+}
+
+fn parse_uncached(text: &str) -> Result<Unit, UnitError> {
     let mut p = Parser {
         chars: text.chars().collect(),
         pos: 0,

@@ -5,12 +5,14 @@
 //! temperature, offset applied); inside a compound (`W/(m^2*degC)`,
 //! `BTU/(h*ft^2*degF)`) it is a difference of size 1 K or 5/9 K.
 
+use std::cell::RefCell;
+use std::collections::HashMap;
 use std::sync::Arc;
 
 use strsim::levenshtein;
 
 use super::catalog::{base_units, find_base, find_prefixed, BaseUnit, Basis, Prefix, Scale};
-use super::{Dim, Kind, Quantity, UnitError};
+use super::{memo, Dim, Kind, Quantity, UnitError};
 
 pub use super::names::describe_dim;
 
@@ -41,6 +43,13 @@ pub struct Unit {
 /// Exact symbols win over prefixed readings; prefixes apply only to SI-named
 /// units (m, g, s, K, mol, A, rad, N, Pa, bar, J, Wh, W, L).
 pub fn lookup_unit(symbol: &str) -> Option<Unit> {
+    thread_local! {
+        static LOOKED_UP: RefCell<HashMap<String, Unit>> = RefCell::new(HashMap::new());
+    }
+    memo::remembered(&LOOKED_UP, symbol, |s| lookup_uncached(s).ok_or(())).ok()
+}
+
+fn lookup_uncached(symbol: &str) -> Option<Unit> {
     if let Some(base) = find_base(symbol) {
         return Some(Unit::from_base(base, None));
     }
