@@ -403,7 +403,24 @@ impl Lower {
 
     fn unit_chain(&self, pair: Pair<Rule>) -> Lowered<UnitExpr> {
         let mut inner = pair.into_inner();
-        let mut acc = self.unit(next(&mut inner)?)?;
+        let first = next(&mut inner)?;
+        let mut acc = if first.as_rule() == Rule::unit_one {
+            // `1/u` is `u^-1`; the grammar puts `/` between them.
+            let start = self.span(&first).start;
+            next(&mut inner)?;
+            let base = self.unit(next(&mut inner)?)?;
+            let span = Span {
+                file: self.file,
+                start,
+                end: base.span.end,
+            };
+            UnitExpr {
+                kind: UnitKind::Pow(Box::new(base), -1),
+                span,
+            }
+        } else {
+            self.unit(first)?
+        };
         while let Some(op) = inner.next() {
             let rhs = self.unit(next(&mut inner)?)?;
             let span = Span {
