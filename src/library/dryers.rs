@@ -526,6 +526,15 @@ fn dew_margin(a: &AirState) -> Option<f64> {
     a.dew_point().ok().map(|d| a.t_kelvin() - d.value)
 }
 
+/// Over a run's exhaust states: the smallest margin above the dew point, K
+/// (infinite when none has a dew point), and the highest relative humidity.
+fn exhaust_extremes<'a>(exhausts: impl Iterator<Item = &'a AirState>) -> (f64, f64) {
+    exhausts.fold((f64::INFINITY, 0.0), |(margin, rh), e| {
+        let margin = dew_margin(e).map_or(margin, |m| margin.min(m));
+        (margin, rh.max(e.relative_humidity()))
+    })
+}
+
 fn warn_all(args: &mut Args, warnings: &[String]) {
     for w in warnings {
         args.warn(w.clone());
@@ -849,16 +858,7 @@ fn belt_record(belt: &Belt, r: &BeltResult) -> Record {
         .iter()
         .map(|z| q(z.length_m, Dim::LENGTH, Kind::Plain))
         .collect();
-    let margin = r
-        .zones
-        .iter()
-        .filter_map(|z| dew_margin(&z.exhaust))
-        .fold(f64::INFINITY, f64::min);
-    let rh_max = r
-        .zones
-        .iter()
-        .map(|z| z.exhaust.relative_humidity())
-        .fold(0.0, f64::max);
+    let (margin, rh_max) = exhaust_extremes(r.zones.iter().map(|z| &z.exhaust));
     let t_max = r
         .profile
         .iter()
@@ -1135,16 +1135,7 @@ fn batch_record(
         .last()
         .map_or(r.batch_time_s, |s| s.t_s)
         .max(f64::MIN_POSITIVE);
-    let margin = r
-        .history
-        .iter()
-        .filter_map(|s| dew_margin(&s.exhaust))
-        .fold(f64::INFINITY, f64::min);
-    let rh_max = r
-        .history
-        .iter()
-        .map(|s| s.exhaust.relative_humidity())
-        .fold(0.0, f64::max);
+    let (margin, rh_max) = exhaust_extremes(r.history.iter().map(|s| &s.exhaust));
     let t_max = r
         .history
         .iter()
