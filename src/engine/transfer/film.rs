@@ -12,7 +12,7 @@ use uom::si::mass_flux::kilogram_per_square_meter_second;
 use uom::si::thermodynamic_temperature::degree_celsius;
 use uom::si::velocity::meter_per_second;
 
-use super::{check_range, positive, Correlated, TransferError};
+use super::{check_range, positive, Correlated, RangeWarning, TransferError};
 
 /// Seconds per hour: the tray correlations are written for G in kg/(m^2 h).
 const S_PER_H: f64 = 3600.0;
@@ -73,18 +73,21 @@ pub fn tray_parallel_flow(
             "degC",
         );
     }
+    check_velocity(&mut out.warnings, NAME, velocity, PARALLEL_V_RANGE_M_PER_S);
+    Ok(out)
+}
+
+/// Warn when a tray correlation's optional air velocity lies outside `range`, m/s.
+fn check_velocity(
+    warnings: &mut Vec<RangeWarning>,
+    correlation: &'static str,
+    velocity: Option<Velocity>,
+    range: (f64, f64),
+) {
     if let Some(v) = velocity {
         let v = v.get::<meter_per_second>();
-        check_range(
-            &mut out.warnings,
-            NAME,
-            "velocity",
-            v,
-            PARALLEL_V_RANGE_M_PER_S,
-            "m/s",
-        );
+        check_range(warnings, correlation, "velocity", v, range, "m/s");
     }
-    Ok(out)
 }
 
 /// Heat-transfer coefficient for air flowing perpendicular to (impinging on)
@@ -113,17 +116,12 @@ pub fn tray_perpendicular_flow(
         PERPENDICULAR_G_RANGE_KG_PER_M2_H,
         "kg/(m^2 h)",
     );
-    if let Some(v) = velocity {
-        let v = v.get::<meter_per_second>();
-        check_range(
-            &mut out.warnings,
-            NAME,
-            "velocity",
-            v,
-            PERPENDICULAR_V_RANGE_M_PER_S,
-            "m/s",
-        );
-    }
+    check_velocity(
+        &mut out.warnings,
+        NAME,
+        velocity,
+        PERPENDICULAR_V_RANGE_M_PER_S,
+    );
     Ok(out)
 }
 
