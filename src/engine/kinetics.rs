@@ -101,6 +101,21 @@ pub(crate) fn above(a: f64, b: f64) -> bool {
     a > b
 }
 
+/// Check that times rise strictly from one reading to the next (a NaN is not
+/// a rise); the first that does not is an error naming its index.
+pub(crate) fn increasing_times(times_s: &[f64]) -> Result<(), KineticsError> {
+    for (i, pair) in times_s.windows(2).enumerate() {
+        if !above(pair[1], pair[0]) {
+            return Err(KineticsError::TimeNotIncreasing {
+                index: i + 1,
+                previous_s: pair[0],
+                time_s: pair[1],
+            });
+        }
+    }
+    Ok(())
+}
+
 /// Check that a named value is finite and strictly positive.
 pub(crate) fn positive(name: &'static str, value: f64) -> Result<f64, KineticsError> {
     if value.is_finite() && value > 0.0 {

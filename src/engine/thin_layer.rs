@@ -23,7 +23,7 @@
 mod curve;
 
 use super::fit::{self, FitOptions, FitResult};
-use super::kinetics::{positive, KineticsError};
+use super::kinetics::{increasing_times, positive, KineticsError};
 use curve::Curve;
 
 /// A thin-layer model.
@@ -407,15 +407,7 @@ fn check_data(times_s: &[f64], ratios: &[f64]) -> Result<(), KineticsError> {
             found: times_s.len(),
         });
     }
-    for (i, pair) in times_s.windows(2).enumerate() {
-        if !super::kinetics::above(pair[1], pair[0]) {
-            return Err(KineticsError::TimeNotIncreasing {
-                index: i + 1,
-                previous_s: pair[0],
-                time_s: pair[1],
-            });
-        }
-    }
+    increasing_times(times_s)?;
     if let Some(bad) = times_s.iter().chain(ratios).find(|v| !v.is_finite()) {
         return Err(KineticsError::OutOfRange {
             name: "reading",

@@ -20,7 +20,7 @@
 use nalgebra::{DMatrix, DVector};
 
 use super::rate_curve::RateCurve;
-use super::{positive, KineticsError};
+use super::{increasing_times, positive, KineticsError};
 
 /// One processed reading.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -159,15 +159,7 @@ fn check_readings(
             reason: "must equal the number of times",
         });
     }
-    for (i, pair) in times_s.windows(2).enumerate() {
-        if !super::above(pair[1], pair[0]) {
-            return Err(KineticsError::TimeNotIncreasing {
-                index: i + 1,
-                previous_s: pair[0],
-                time_s: pair[1],
-            });
-        }
-    }
+    increasing_times(times_s)?;
     for (index, &m) in masses_kg.iter().enumerate() {
         if !m.is_finite() || m < dry_solid_kg {
             return Err(KineticsError::BelowDrySolid {
