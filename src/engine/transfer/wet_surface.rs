@@ -216,13 +216,19 @@ pub fn wet_surface(
         radiation,
     };
     // Film temperature depends on Ts: start at the air temperature, re-solve
-    // until Ts moves less than 1 mK (two or three passes).
+    // until Ts moves less than 1 mK (two or three passes). The bracket ends
+    // (dew point, boiling point) do not depend on k_Y: find them once.
+    let bracket = surface_bracket(&balance)?;
     let mut ts = balance.t_air;
     let mut factor = colburn_factor(1.0, 1.0)?;
-    for _ in 0..20 {
+    for pass in 0..20 {
         factor = film_colburn_factor(air, 0.5 * (balance.t_air + ts))?;
         balance.k_y = h_si / cs * factor.value;
-        let next = solve_surface(&balance)?;
+        let next = if pass == 0 {
+            solve_surface(&balance, bracket)?
+        } else {
+            resolve_surface(&balance, bracket, ts)?
+        };
         let done = (next - ts).abs() < 1e-3;
         ts = next;
         if done {
@@ -249,37 +255,117 @@ fn radiation_terms(radiation: Option<Radiation>) -> Result<Option<(f64, f64)>, T
     Ok(Some((r.emissivity, tw)))
 }
 
-/// (Pr/Sc)^(2/3) of the air's humidity at the film temperature.
+/// (Pr/Sc)^(2/3) of the air's humidity at the film temperature: one humid-air
+/// state there, with its transport properties.
 fn film_colburn_factor(
     air: &AirState,
     t_film_k: f64,
 ) -> Result<super::Correlated<f64>, TransferError> {
     let t = ThermodynamicTemperature::new::<kelvin>(t_film_k);
-    let (w, p) = (air.humidity_ratio(), air.pressure());
-    let pr = transport::prandtl(t, w, p).map_err(air_error)?;
-    let sc = transport::schmidt(t, w, p).map_err(air_error)?;
-    colburn_factor(pr, sc)
+    let film = AirState::from_w(t, air.humidity_ratio(), air.pressure()).map_err(air_error)?;
+    let props = transport::Transport::of(&film);
+    colburn_factor(props.prandtl(), props.schmidt())
 }
 
 /// Residual below which the surface counts as not drying, W/m^2.
 const NO_DRIVE_W_PER_M2: f64 = 1e-6;
 
+/// Tolerance on the surface temperature, K.
+const TS_TOL: Tolerance = Tolerance::new(1e-9, 1e-13);
+
+/// Where the surface temperature can lie, K: from the dew point of the air
+/// (below it nothing evaporates) to the hotter of air and wall, kept below
+/// boiling.
+#[derive(Clone, Copy)]
+struct SurfaceBracket {
+    lowest: f64,
+    highest: f64,
+}
+
+fn surface_bracket(b: &Balance) -> Result<SurfaceBracket, TransferError> {
+    let boiling = boiling_point_k(b.p)?;
+    Ok(SurfaceBracket {
+        lowest: lowest_surface_temperature(b, boiling)?,
+        highest: highest_surface_temperature(b, boiling),
+    })
+}
+
 /// Bracket and solve the balance for Ts in kelvin.
-fn solve_surface(b: &Balance) -> Result<f64, TransferError> {
-    let lo = lowest_surface_temperature(b)?;
+fn solve_surface(b: &Balance, bracket: SurfaceBracket) -> Result<f64, TransferError> {
+    let lo = bracket.lowest;
     let r_lo = b.residual(lo);
     if r_lo.is_nan() || r_lo <= NO_DRIVE_W_PER_M2 {
         return Err(no_driving_force(b));
     }
-    let hi = highest_surface_temperature(b)?;
-    let tol = Tolerance::new(1e-9, 1e-13);
-    brent(|ts| b.residual(ts), lo, hi, tol).map_err(|e| TransferError::NoConvergence(e.to_string()))
+    solve_between(
+        b,
+        (lo, r_lo),
+        (bracket.highest, b.residual(bracket.highest)),
+    )
+}
+
+/// Brent's method between two points whose residuals are already known.
+fn solve_between(b: &Balance, lo: (f64, f64), hi: (f64, f64)) -> Result<f64, TransferError> {
+    let residual = |ts: f64| {
+        if ts == lo.0 {
+            lo.1
+        } else if ts == hi.0 {
+            hi.1
+        } else {
+            b.residual(ts)
+        }
+    };
+    brent(residual, lo.0, hi.0, TS_TOL).map_err(|e| TransferError::NoConvergence(e.to_string()))
+}
+
+/// Solve again after k_Y changed a little, starting from the last surface
+/// temperature `near`: step away from it (downhill in the residual, doubling
+/// the step) until the residual changes sign, then solve in that bracket.
+/// Falls back to the full bracket when the walk reaches its ends.
+fn resolve_surface(b: &Balance, bracket: SurfaceBracket, near: f64) -> Result<f64, TransferError> {
+    let r_near = b.residual(near);
+    if r_near == 0.0 {
+        return Ok(near);
+    }
+    if !r_near.is_finite() {
+        return solve_surface(b, bracket);
+    }
+    // The residual falls with Ts: a positive residual puts the root above.
+    let up = r_near > 0.0;
+    let mut step = 0.01;
+    let (mut x, mut r) = (near, r_near);
+    for _ in 0..12 {
+        let next = if up {
+            (x + step).min(bracket.highest)
+        } else {
+            (x - step).max(bracket.lowest)
+        };
+        if next == x {
+            break;
+        }
+        let r_next = b.residual(next);
+        if !r_next.is_finite() {
+            break;
+        }
+        if (r_next > 0.0) != up || r_next == 0.0 {
+            let (lo, hi) = if up {
+                ((x, r), (next, r_next))
+            } else {
+                ((next, r_next), (x, r))
+            };
+            return solve_between(b, lo, hi);
+        }
+        (x, r) = (next, r_next);
+        step *= 4.0;
+    }
+    solve_surface(b, bracket)
 }
 
 /// The surface cannot be colder than the dew point and still evaporate: the
 /// dew point of the air on the same saturation curve as the balance (or near
-/// the bottom of that curve for bone-dry air).
-fn lowest_surface_temperature(b: &Balance) -> Result<f64, TransferError> {
+/// the bottom of that curve for bone-dry air). `boiling` is the boiling point
+/// at the total pressure, K.
+fn lowest_surface_temperature(b: &Balance, boiling: f64) -> Result<f64, TransferError> {
     let floor = air::saturation::T_MIN_SATURATION + 1.0;
     if b.w_air <= 0.0 {
         return Ok(floor);
@@ -289,8 +375,7 @@ fn lowest_surface_temperature(b: &Balance) -> Result<f64, TransferError> {
     if f(floor) >= 0.0 {
         return Ok(floor);
     }
-    let top = boiling_point_k(b.p)?;
-    brent(f, floor, top, Tolerance::new(1e-10, 1e-14))
+    brent(f, floor, boiling, Tolerance::new(1e-10, 1e-14))
         .map_err(|e| TransferError::NoConvergence(format!("dew point: {e}")))
 }
 
@@ -302,11 +387,11 @@ fn boiling_point_k(p: f64) -> Result<f64, TransferError> {
 }
 
 /// Above the hotter of air and wall nothing heats the surface; it also stays
-/// below the boiling point at the total pressure (0.5 K margin keeps the
-/// saturated vapour pressure, with its enhancement factor, below p).
-fn highest_surface_temperature(b: &Balance) -> Result<f64, TransferError> {
+/// below the boiling point `boiling` (K) at the total pressure (0.5 K margin
+/// keeps the saturated vapour pressure, with its enhancement factor, below p).
+fn highest_surface_temperature(b: &Balance, boiling: f64) -> f64 {
     let hottest = b.radiation.map_or(b.t_air, |(_, tw)| tw.max(b.t_air));
-    Ok(hottest.min(boiling_point_k(b.p)? - 0.5))
+    hottest.min(boiling - 0.5)
 }
 
 fn no_driving_force(b: &Balance) -> TransferError {
