@@ -71,17 +71,32 @@ pub fn vapour_conductivity_w_per_m_k(t: f64) -> f64 {
     1e-3 * tr.sqrt() / sum
 }
 
-/// Wilke's interaction factor phi_ij for component viscosities and molar masses.
-fn wilke_phi(mu_i: f64, mu_j: f64, m_i: f64, m_j: f64) -> f64 {
-    let num = 1.0 + (mu_i / mu_j).sqrt() * (m_j / m_i).powf(0.25);
-    num * num / (8.0 * (1.0 + m_i / m_j)).sqrt()
+/// Wilke's factors (phi_aw, phi_wa) between dry air (a) and water vapour (w):
+/// `phi_ij = (1 + (mu_i/mu_j)^(1/2) (M_j/M_i)^(1/4))^2 / (8 (1 + M_i/M_j))^(1/2)`.
+/// The two viscosity ratios are reciprocal, so one square root serves both;
+/// the molar-mass terms are fixed and computed once.
+fn wilke_factors(mu_a: f64, mu_w: f64) -> (f64, f64) {
+    use std::sync::OnceLock;
+    // (M_w/M_a)^(1/4), (M_a/M_w)^(1/4), sqrt(8 (1 + M_a/M_w)), sqrt(8 (1 + M_w/M_a)).
+    static MASS_TERMS: OnceLock<[f64; 4]> = OnceLock::new();
+    let [q_aw, q_wa, d_aw, d_wa] = *MASS_TERMS.get_or_init(|| {
+        [
+            (M_WATER / M_DRY_AIR).powf(0.25),
+            (M_DRY_AIR / M_WATER).powf(0.25),
+            (8.0 * (1.0 + M_DRY_AIR / M_WATER)).sqrt(),
+            (8.0 * (1.0 + M_WATER / M_DRY_AIR)).sqrt(),
+        ]
+    });
+    let r = (mu_a / mu_w).sqrt();
+    let num_aw = 1.0 + r * q_aw;
+    let num_wa = 1.0 + q_wa / r;
+    (num_aw * num_aw / d_aw, num_wa * num_wa / d_wa)
 }
 
-/// Mole-fraction mixing of a property of air (a) and water vapour (w) with Wilke's factors.
-fn wilke_mix(x_w: f64, prop_a: f64, prop_w: f64, mu_a: f64, mu_w: f64) -> f64 {
+/// Mole-fraction mixing of a property of air (a) and water vapour (w) with
+/// Wilke's factors.
+fn wilke_mix_with(x_w: f64, prop_a: f64, prop_w: f64, phi_aw: f64, phi_wa: f64) -> f64 {
     let x_a = 1.0 - x_w;
-    let phi_aw = wilke_phi(mu_a, mu_w, M_DRY_AIR, M_WATER);
-    let phi_wa = wilke_phi(mu_w, mu_a, M_WATER, M_DRY_AIR);
     let air = if x_a > 0.0 {
         x_a * prop_a / (x_a + x_w * phi_aw)
     } else {
@@ -125,9 +140,10 @@ impl Transport {
             dry_air_conductivity_w_per_m_k(t),
             vapour_conductivity_w_per_m_k(t),
         );
+        let (phi_aw, phi_wa) = wilke_factors(mu_a, mu_w);
         Transport {
-            viscosity_pa_s: wilke_mix(x_w, mu_a, mu_w, mu_a, mu_w),
-            conductivity_w_per_m_k: wilke_mix(x_w, k_a, k_w, mu_a, mu_w),
+            viscosity_pa_s: wilke_mix_with(x_w, mu_a, mu_w, phi_aw, phi_wa),
+            conductivity_w_per_m_k: wilke_mix_with(x_w, k_a, k_w, phi_aw, phi_wa),
             cp_j_per_kg_k: air.humid_heat_j_per_kg_da_k() / (1.0 + w),
             density_kg_per_m3: (1.0 + w) / air.humid_volume_m3_per_kg_da(),
             diffusivity_m2_per_s: fuller_diffusivity_m2_per_s(t, p),
@@ -156,11 +172,20 @@ impl Transport {
 /// `D = 0.00143 T^1.75 / (p_bar M_AB^0.5 (V_a^1/3 + V_w^1/3)^2)` cm^2/s with
 /// `M_AB = 2 / (1/M_a + 1/M_w)` (g/mol) and diffusion volumes 19.7 (air), 13.1 (H2O).
 pub fn fuller_diffusivity_m2_per_s(t: f64, p: f64) -> f64 {
+    use std::sync::OnceLock;
     const V_AIR: f64 = 19.7;
     const V_WATER: f64 = 13.1;
-    let m_ab = 2.0 / (1.0 / (M_DRY_AIR * 1e3) + 1.0 / (M_WATER * 1e3));
-    let volumes = V_AIR.cbrt() + V_WATER.cbrt();
-    let d_cm2_s = 0.00143 * t.powf(1.75) / ((p / 1e5) * m_ab.sqrt() * volumes * volumes);
+    // M_AB^0.5 (V_a^1/3 + V_w^1/3)^2: fixed, computed once.
+    static MASS_AND_VOLUMES: OnceLock<f64> = OnceLock::new();
+    let fixed = *MASS_AND_VOLUMES.get_or_init(|| {
+        let m_ab = 2.0 / (1.0 / (M_DRY_AIR * 1e3) + 1.0 / (M_WATER * 1e3));
+        let volumes = V_AIR.cbrt() + V_WATER.cbrt();
+        m_ab.sqrt() * volumes * volumes
+    });
+    // T^1.75 = T T^(1/2) T^(1/4).
+    let root = t.sqrt();
+    let t_175 = t * root * root.sqrt();
+    let d_cm2_s = 0.00143 * t_175 / ((p / 1e5) * fixed);
     d_cm2_s * 1e-4
 }
 
@@ -252,4 +277,47 @@ pub fn lewis(
     p: Pressure,
 ) -> Result<f64, AirError> {
     Ok(state(t, w_kg_per_kg_da, p)?.lewis())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Wilke's factors against eq. 9-5.14 of Poling, Prausnitz & O'Connell
+    /// (2001) written out term by term, over the viscosities of -40..350 degC.
+    #[test]
+    fn wilke_factors_match_the_textbook_form() {
+        let phi = |mu_i: f64, mu_j: f64, m_i: f64, m_j: f64| {
+            let num = 1.0 + (mu_i / mu_j).sqrt() * (m_j / m_i).powf(0.25);
+            num * num / (8.0 * (1.0 + m_i / m_j)).sqrt()
+        };
+        for t in (0..40).map(|i| 233.15 + 10.0 * f64::from(i)) {
+            let (mu_a, mu_w) = (dry_air_viscosity_pa_s(t), vapour_viscosity_pa_s(t));
+            let (aw, wa) = wilke_factors(mu_a, mu_w);
+            let want_aw = phi(mu_a, mu_w, M_DRY_AIR, M_WATER);
+            let want_wa = phi(mu_w, mu_a, M_WATER, M_DRY_AIR);
+            assert!((aw / want_aw - 1.0).abs() < 1e-14, "{t}: {aw} {want_aw}");
+            assert!((wa / want_wa - 1.0).abs() < 1e-14, "{t}: {wa} {want_wa}");
+        }
+    }
+
+    /// The Fuller diffusivity against its formula written with powf and cbrt
+    /// (Poling et al. 2001 eq. 11-4.4), and the handbook order of magnitude
+    /// (about 2.5e-5 m^2/s at 25 degC and 1 atm).
+    #[test]
+    fn fuller_diffusivity_matches_its_formula() {
+        let direct = |t: f64, p: f64| {
+            let m_ab = 2.0 / (1.0 / (M_DRY_AIR * 1e3) + 1.0 / (M_WATER * 1e3));
+            let v = 19.7_f64.cbrt() + 13.1_f64.cbrt();
+            0.00143 * t.powf(1.75) / ((p / 1e5) * m_ab.sqrt() * v * v) * 1e-4
+        };
+        for t in [233.15, 298.15, 373.15, 623.15] {
+            for p in [50e3, 101_325.0, 200e3] {
+                let (got, want) = (fuller_diffusivity_m2_per_s(t, p), direct(t, p));
+                assert!((got / want - 1.0).abs() < 1e-14, "{t} {p}: {got} {want}");
+            }
+        }
+        let d = fuller_diffusivity_m2_per_s(298.15, 101_325.0);
+        assert!((2.4e-5..2.7e-5).contains(&d), "{d}");
+    }
 }

@@ -318,16 +318,10 @@ pub fn saturated_liquid_density(t: f64) -> f64 {
         -45.517_035_2,
         -6.746_944_50e5,
     ];
-    const E: [f64; 6] = [
-        1.0 / 3.0,
-        2.0 / 3.0,
-        5.0 / 3.0,
-        16.0 / 3.0,
-        43.0 / 3.0,
-        110.0 / 3.0,
-    ];
-    let tau = (1.0 - t / T_CRITICAL).max(0.0);
-    let sum: f64 = B.iter().zip(E).map(|(b, e)| b * tau.powf(e)).sum();
+    // Exponents 1/3, 2/3, 5/3, 16/3, 43/3, 110/3: integer powers of tau^(1/3).
+    const E: [i32; 6] = [1, 2, 5, 16, 43, 110];
+    let root = (1.0 - t / T_CRITICAL).max(0.0).cbrt();
+    let sum: f64 = B.iter().zip(E).map(|(b, e)| b * root.powi(e)).sum();
     RHO_CRITICAL * (1.0 + sum)
 }
 
@@ -341,16 +335,10 @@ pub fn saturated_vapour_density(t: f64) -> f64 {
         -44.758_658_1,
         -63.920_106_3,
     ];
-    const E: [f64; 6] = [
-        2.0 / 6.0,
-        4.0 / 6.0,
-        8.0 / 6.0,
-        18.0 / 6.0,
-        37.0 / 6.0,
-        71.0 / 6.0,
-    ];
-    let tau = (1.0 - t / T_CRITICAL).max(0.0);
-    let sum: f64 = C.iter().zip(E).map(|(c, e)| c * tau.powf(e)).sum();
+    // Exponents 2/6, 4/6, 8/6, 18/6, 37/6, 71/6: integer powers of tau^(1/6).
+    const E: [i32; 6] = [2, 4, 8, 18, 37, 71];
+    let root = (1.0 - t / T_CRITICAL).max(0.0).sqrt().cbrt();
+    let sum: f64 = C.iter().zip(E).map(|(c, e)| c * root.powi(e)).sum();
     RHO_CRITICAL * sum.exp()
 }
 

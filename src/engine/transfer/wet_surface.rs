@@ -35,6 +35,7 @@ use uom::si::thermodynamic_temperature::kelvin;
 
 use super::analogy::colburn_factor;
 use super::{positive, RangeWarning, TransferError};
+use crate::engine::air::thermo::{EPSILON, R_WATER_IF97};
 use crate::engine::air::{self, AirState};
 use crate::engine::solve::{brent, Tolerance};
 use crate::engine::transport;
@@ -154,21 +155,53 @@ impl Balance {
             .map_err(air_error)
     }
 
-    /// Evaporation flux k_Y (w_s - w) in kg/(m^2 s) and latent heat in J/kg.
-    fn evaporation(&self, ts: f64) -> Result<(f64, f64), TransferError> {
-        let flux = self.k_y * (self.w_surface(ts)? - self.w_air);
-        let latent = air::latent_heat_vaporization(ThermodynamicTemperature::new::<kelvin>(ts));
-        Ok((flux, latent.get::<joule_per_kilogram>()))
-    }
-
-    /// Heat in minus heat carried off as latent heat, W/m^2; decreasing in ts.
-    fn residual(&self, ts: f64) -> f64 {
+    /// The parts of the balance at ts that do not depend on k_Y.
+    fn sample(&self, ts: f64) -> Sample {
         let (conv, rad, cond) = self.heat_in(ts);
-        match self.evaporation(ts) {
-            Ok((flux, latent)) => conv + rad + cond - flux * latent,
-            Err(_) => f64::NAN,
+        let latent = air::latent_heat_vaporization(ThermodynamicTemperature::new::<kelvin>(ts));
+        Sample {
+            ts,
+            heat_in: conv + rad + cond,
+            w_surface: self.w_surface(ts).unwrap_or(f64::NAN),
+            latent: latent.get::<joule_per_kilogram>(),
         }
     }
+
+    /// Heat in minus heat carried off as latent heat, W/m^2, at the sample's
+    /// surface temperature; decreasing in ts.
+    fn residual_of(&self, s: &Sample) -> f64 {
+        s.heat_in - self.k_y * (s.w_surface - self.w_air) * s.latent
+    }
+
+    /// An estimate of d(residual)/d(ts) at the sample, W/(m^2 K), within a
+    /// few per cent: the heat terms exactly, the evaporation through
+    /// Clausius-Clapeyron (d ln p_s/dT = lambda/(R_w T^2)) with lambda held.
+    /// Only steers the search; the solution comes from the residual itself.
+    fn slope_estimate(&self, s: &Sample) -> f64 {
+        let ts = s.ts;
+        let heat = -(self.h + self.u_bottom)
+            - self
+                .radiation
+                .map_or(0.0, |(eps, _)| 4.0 * eps * STEFAN_BOLTZMANN * ts.powi(3));
+        let ws = s.w_surface;
+        let dln_ps = s.latent / (R_WATER_IF97 * ts * ts);
+        let dws = ws * (1.0 + ws / EPSILON) * dln_ps;
+        heat - self.k_y * dws * s.latent
+    }
+}
+
+/// The balance at one surface temperature, split so that the residual can be
+/// formed again for another k_Y without evaluating the saturation curve.
+#[derive(Clone, Copy, Debug)]
+struct Sample {
+    ts: f64,
+    /// Heat in by convection, radiation and conduction, W/m^2.
+    heat_in: f64,
+    /// Humidity ratio of saturated air at ts, kg/kg dry air (NaN where it
+    /// is undefined).
+    w_surface: f64,
+    /// Latent heat at ts, J/kg.
+    latent: f64,
 }
 
 /// Vapour pressure of air saturated over the surface at ts, total pressure p.
@@ -216,17 +249,24 @@ pub fn wet_surface(
         radiation,
     };
     // Film temperature depends on Ts: start at the air temperature, re-solve
-    // until Ts moves less than 1 mK (two or three passes).
+    // until Ts moves less than 1 mK (two or three passes). The bracket ends
+    // (dew point, boiling point) do not depend on k_Y: find them once.
+    let bracket = surface_bracket(air, &balance)?;
     let mut ts = balance.t_air;
+    let mut last: Option<Sample> = None;
     let mut factor = colburn_factor(1.0, 1.0)?;
     for _ in 0..20 {
         factor = film_colburn_factor(air, 0.5 * (balance.t_air + ts))?;
         balance.k_y = h_si / cs * factor.value;
-        let next = solve_surface(&balance)?;
-        let done = (next - ts).abs() < 1e-3;
-        ts = next;
+        let next = match last {
+            None => solve_surface(&balance, bracket)?,
+            Some(s) => solve_from(&balance, bracket, s)?,
+        };
+        let done = (next.ts - ts).abs() < 1e-3;
+        ts = next.ts;
+        last = Some(next);
         if done {
-            return finish(&balance, ts, factor.value, factor.warnings);
+            return finish(&balance, &next, factor.value, factor.warnings);
         }
     }
     Err(TransferError::NoConvergence(format!(
@@ -249,48 +289,150 @@ fn radiation_terms(radiation: Option<Radiation>) -> Result<Option<(f64, f64)>, T
     Ok(Some((r.emissivity, tw)))
 }
 
-/// (Pr/Sc)^(2/3) of the air's humidity at the film temperature.
+/// (Pr/Sc)^(2/3) of the air's humidity at the film temperature: one humid-air
+/// state there, with its transport properties.
 fn film_colburn_factor(
     air: &AirState,
     t_film_k: f64,
 ) -> Result<super::Correlated<f64>, TransferError> {
     let t = ThermodynamicTemperature::new::<kelvin>(t_film_k);
-    let (w, p) = (air.humidity_ratio(), air.pressure());
-    let pr = transport::prandtl(t, w, p).map_err(air_error)?;
-    let sc = transport::schmidt(t, w, p).map_err(air_error)?;
-    colburn_factor(pr, sc)
+    let film = AirState::from_w(t, air.humidity_ratio(), air.pressure()).map_err(air_error)?;
+    let props = transport::Transport::of(&film);
+    colburn_factor(props.prandtl(), props.schmidt())
 }
 
 /// Residual below which the surface counts as not drying, W/m^2.
 const NO_DRIVE_W_PER_M2: f64 = 1e-6;
 
-/// Bracket and solve the balance for Ts in kelvin.
-fn solve_surface(b: &Balance) -> Result<f64, TransferError> {
-    let lo = lowest_surface_temperature(b)?;
-    let r_lo = b.residual(lo);
+/// Tolerance on the surface temperature, K.
+const TS_TOL: Tolerance = Tolerance::new(1e-9, 1e-13);
+
+/// Where the surface temperature can lie, K: from the dew point of the air
+/// (below it nothing evaporates) to the hotter of air and wall, kept below
+/// boiling.
+#[derive(Clone, Copy)]
+struct SurfaceBracket {
+    lowest: f64,
+    highest: f64,
+}
+
+fn surface_bracket(air: &AirState, b: &Balance) -> Result<SurfaceBracket, TransferError> {
+    Ok(SurfaceBracket {
+        lowest: lowest_surface_temperature(air, b)?,
+        highest: highest_surface_temperature(b)?,
+    })
+}
+
+/// Solve the balance for Ts in the whole bracket: check that the surface
+/// dries at all (a positive residual at the dew point), then start from the
+/// tangent there.
+fn solve_surface(b: &Balance, bracket: SurfaceBracket) -> Result<Sample, TransferError> {
+    let lo = b.sample(bracket.lowest);
+    let r_lo = b.residual_of(&lo);
     if r_lo.is_nan() || r_lo <= NO_DRIVE_W_PER_M2 {
         return Err(no_driving_force(b));
     }
-    let hi = highest_surface_temperature(b)?;
-    let tol = Tolerance::new(1e-9, 1e-13);
-    brent(|ts| b.residual(ts), lo, hi, tol).map_err(|e| TransferError::NoConvergence(e.to_string()))
+    let tangent = lo.ts - r_lo / b.slope_estimate(&lo);
+    if tangent.is_finite() && tangent > lo.ts && tangent < bracket.highest {
+        if let Some(s) = search_from(b, bracket, b.sample(tangent))? {
+            return Ok(s);
+        }
+    }
+    let hi = b.sample(bracket.highest);
+    solve_between(b, (lo, r_lo), (hi, b.residual_of(&hi)))
+}
+
+/// Solve again after k_Y changed, from the last pass's solution `near`
+/// (whose residual for the new k_Y needs no new evaluation).
+fn solve_from(b: &Balance, bracket: SurfaceBracket, near: Sample) -> Result<Sample, TransferError> {
+    match search_from(b, bracket, near)? {
+        Some(s) => Ok(s),
+        None => solve_surface(b, bracket),
+    }
+}
+
+/// Newton steps from `start` on the estimated slope, each stretched by 5 %
+/// so that it tends to pass the root; once the residual changes sign,
+/// Brent's method between the last two points. `None` when the walk leaves
+/// the bracket or the residual is not finite.
+fn search_from(
+    b: &Balance,
+    bracket: SurfaceBracket,
+    start: Sample,
+) -> Result<Option<Sample>, TransferError> {
+    const STRETCH: f64 = 1.05;
+    let mut a = start;
+    let mut ra = b.residual_of(&a);
+    if ra == 0.0 {
+        return Ok(Some(a));
+    }
+    let mut slope = b.slope_estimate(&a);
+    for _ in 0..8 {
+        if !(ra.is_finite() && slope.is_finite() && slope < 0.0) {
+            return Ok(None);
+        }
+        let x = (a.ts - STRETCH * ra / slope).clamp(bracket.lowest, bracket.highest);
+        if x == a.ts {
+            return Ok(None);
+        }
+        let next = b.sample(x);
+        let r = b.residual_of(&next);
+        if r == 0.0 || (r > 0.0) != (ra > 0.0) {
+            let (lo, hi) = if x > a.ts {
+                ((a, ra), (next, r))
+            } else {
+                ((next, r), (a, ra))
+            };
+            return solve_between(b, lo, hi).map(Some);
+        }
+        slope = (r - ra) / (x - a.ts);
+        (a, ra) = (next, r);
+    }
+    Ok(None)
+}
+
+/// Brent's method between two samples (low and high surface temperature)
+/// whose residuals are known; the sample at the solution.
+fn solve_between(
+    b: &Balance,
+    lo: (Sample, f64),
+    hi: (Sample, f64),
+) -> Result<Sample, TransferError> {
+    // The samples seen, newest last (a ring), so that the solution's sample
+    // is at hand without evaluating it again.
+    let mut seen = [lo.0; 8];
+    seen[1] = hi.0;
+    let mut count = 2;
+    let residual = |ts: f64| {
+        if let Some(s) = seen.iter().find(|s| s.ts == ts) {
+            return b.residual_of(s);
+        }
+        let s = b.sample(ts);
+        seen[count % seen.len()] = s;
+        count += 1;
+        b.residual_of(&s)
+    };
+    let ts = brent(residual, lo.0.ts, hi.0.ts, TS_TOL)
+        .map_err(|e| TransferError::NoConvergence(e.to_string()))?;
+    Ok(match seen.iter().find(|s| s.ts == ts) {
+        Some(s) => *s,
+        None => b.sample(ts),
+    })
 }
 
 /// The surface cannot be colder than the dew point and still evaporate: the
-/// dew point of the air on the same saturation curve as the balance (or near
-/// the bottom of that curve for bone-dry air).
-fn lowest_surface_temperature(b: &Balance) -> Result<f64, TransferError> {
+/// dew point of the air on the same saturation curve as the balance (the air
+/// engine's own), or near the bottom of that curve for bone-dry air.
+fn lowest_surface_temperature(air: &AirState, b: &Balance) -> Result<f64, TransferError> {
     let floor = air::saturation::T_MIN_SATURATION + 1.0;
     if b.w_air <= 0.0 {
         return Ok(floor);
     }
     let pv = air::vapour_pressure(b.w_air, Pressure::new::<pascal>(b.p)).get::<pascal>();
-    let f = |t: f64| saturated_pressure_pa(t, b.p) - pv;
-    if f(floor) >= 0.0 {
+    if saturated_pressure_pa(floor, b.p) >= pv {
         return Ok(floor);
     }
-    let top = boiling_point_k(b.p)?;
-    brent(f, floor, top, Tolerance::new(1e-10, 1e-14))
+    air.dew_point_k()
         .map_err(|e| TransferError::NoConvergence(format!("dew point: {e}")))
 }
 
@@ -306,6 +448,13 @@ fn boiling_point_k(p: f64) -> Result<f64, TransferError> {
 /// saturated vapour pressure, with its enhancement factor, below p).
 fn highest_surface_temperature(b: &Balance) -> Result<f64, TransferError> {
     let hottest = b.radiation.map_or(b.t_air, |(_, tw)| tw.max(b.t_air));
+    // Water at hottest + 0.5 K still below its boiling pressure: the boiling
+    // point lies above, and need not be solved for.
+    let boiling_above = (hottest + 0.5) < air::saturation::T_CRITICAL
+        && air::saturation::ln_water(hottest + 0.5) < b.p.ln();
+    if boiling_above {
+        return Ok(hottest);
+    }
     Ok(hottest.min(boiling_point_k(b.p)? - 0.5))
 }
 
@@ -325,12 +474,17 @@ fn no_driving_force(b: &Balance) -> TransferError {
 
 fn finish(
     b: &Balance,
-    ts: f64,
+    solution: &Sample,
     factor: f64,
     mut warnings: Vec<RangeWarning>,
 ) -> Result<WetSurface, TransferError> {
+    let ts = solution.ts;
     let (conv, rad, cond) = b.heat_in(ts);
-    let (flux, latent) = b.evaporation(ts)?;
+    let w_surface = match solution.w_surface {
+        ws if ws.is_nan() => b.w_surface(ts)?,
+        ws => ws,
+    };
+    let (flux, latent) = (b.k_y * (w_surface - b.w_air), solution.latent);
     if flux <= 0.0 {
         return Err(no_driving_force(b));
     }
@@ -347,7 +501,7 @@ fn finish(
     let q = |x: f64| HeatFluxDensity::new::<watt_per_square_meter>(x);
     Ok(WetSurface {
         temperature: ThermodynamicTemperature::new::<kelvin>(ts),
-        w_surface_kg_per_kg_da: b.w_surface(ts)?,
+        w_surface_kg_per_kg_da: w_surface,
         rate: MassFlux::new::<kilogram_per_square_meter_second>(flux),
         heat_flux: q(flux * latent),
         convective: q(conv),
