@@ -225,19 +225,21 @@ impl fmt::Debug for UnitExpr {
 /// A unit expression always means the same unit (resolution depends on its
 /// text alone), so the evaluator keeps the unit here and reads it back without
 /// a lookup each time the expression is evaluated again.
+///
+/// Boxed, so that the slot adds two words to a syntax node, not a whole unit.
 #[derive(Clone, Default)]
-pub struct ResolvedUnit(OnceLock<Unit>);
+pub struct ResolvedUnit(OnceLock<Box<Unit>>);
 
 impl ResolvedUnit {
     /// The unit, if resolved.
     #[inline]
     pub fn get(&self) -> Option<&Unit> {
-        self.0.get()
+        self.0.get().map(|u| &**u)
     }
 
     /// Keep `unit` (unless a unit is already kept) and return the kept unit.
     pub fn keep(&self, unit: Unit) -> &Unit {
-        self.0.get_or_init(|| unit)
+        self.0.get_or_init(|| Box::new(unit))
     }
 }
 
