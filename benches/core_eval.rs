@@ -10,6 +10,10 @@
 //! `cargo bench --bench core_eval -- --cpu` (thread CPU time of both targets,
 //! best of several runs, as `key=value` lines; on a shared machine this is the
 //! figure to compare with the targets).
+//! `cargo bench --bench core_eval -- --calls N` evaluates `q * t as kWh` N
+//! times and nothing else, for instruction counts with
+//! `valgrind --tool=callgrind` (two runs with different N give the count per
+//! evaluation as the difference over the difference in N).
 
 use criterion::Criterion;
 use std::hint::black_box;
@@ -141,7 +145,27 @@ fn cpu_report() {
     println!("worksheet_2000_lines_cpu_ms={:.2}", sheet_cpu * 1e3);
 }
 
+/// `--calls N`: only N evaluations of `q * t as kWh` (for callgrind).
+fn calls_only(n: usize) {
+    let mut sheet = Sheet::default();
+    let expr = multiply_setup(&mut sheet);
+    let (mut sources, limits) = (Sources::default(), Limits::default());
+    let mut ctx = multiply_ctx(&mut sheet, &mut sources, &limits);
+    let mut ok = 0usize;
+    for _ in 0..n {
+        ctx.ops = 0;
+        ok += usize::from(black_box(ctx.expr(black_box(&expr)).is_ok()));
+    }
+    println!("multiply_and_convert_calls={ok}");
+}
+
 fn main() {
+    let args: Vec<String> = std::env::args().collect();
+    if let Some(i) = args.iter().position(|a| a == "--calls") {
+        let n = args.get(i + 1).and_then(|n| n.parse().ok()).unwrap_or(1);
+        calls_only(n);
+        return;
+    }
     if std::env::args().any(|a| a == "--cpu") {
         cpu_report();
         return;

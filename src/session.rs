@@ -35,8 +35,6 @@ pub struct Output {
 pub struct Retained {
     /// Source texts kept (entries, cells, loaded files).
     pub sources: usize,
-    /// Resolved units cached by source position.
-    pub units: usize,
     /// Resolved units cached by their text.
     pub unit_texts: usize,
     /// Definitions.
@@ -196,15 +194,15 @@ impl Session {
         self.sources.add(name, text, &self.sheet.dir.clone())
     }
 
-    /// Drop the texts of earlier entries that no live definition points into,
-    /// and the units resolved in them, so a long-lived session (REPL, notebook
+    /// Drop the texts of earlier entries that no live definition points into
+    /// (and an overgrown cache of units by text), so a long-lived session (REPL, notebook
     /// kernel) keeps a bounded amount. The last entry's text is dropped only
     /// here, at the start of the next `eval`, so its diagnostics can still be
     /// rendered after it ran.
     fn forget_unused_sources(&mut self) {
         let live = self.sheet.live_files();
         self.sources.retain(|id| live.contains(&id));
-        self.sheet.forget_files(&live);
+        self.sheet.trim_unit_texts();
     }
 
     /// How many source texts and resolved units this session keeps (for
@@ -212,7 +210,6 @@ impl Session {
     pub fn retained(&self) -> Retained {
         Retained {
             sources: self.sources.len(),
-            units: self.sheet.units.len(),
             unit_texts: self.sheet.unit_texts.len(),
             definitions: self.sheet.defs.len(),
             values: self.sheet.cache.len(),

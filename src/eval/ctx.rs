@@ -1,7 +1,6 @@
 //! The evaluator: forces named values through the dependency graph and
 //! evaluates expressions, attaching spans to span-less unit errors.
 
-use std::collections::hash_map::Entry;
 use std::collections::HashSet;
 use std::path::PathBuf;
 
@@ -241,10 +240,7 @@ impl<'a> Ctx<'a> {
     pub fn expr(&mut self, e: &Expr) -> Flow<Value> {
         self.tick(e.span)?;
         if self.nesting >= MAX_NESTING {
-            let msg = "evaluation nested too deeply";
-            return Err(Diagnostic::error(e.span, msg)
-                .with_hint("does a function call itself without end?")
-                .into());
+            return Err(nested_too_deeply(e.span));
         }
         self.nesting += 1;
         let result = self.expr_kind(e);
@@ -344,19 +340,9 @@ impl<'a> Ctx<'a> {
         }
     }
 
-    /// Resolve a unit expression (cached per source position).
+    /// Resolve a unit expression (once; the unit is kept in the expression).
     pub fn unit(&mut self, u: &UnitExpr) -> Flow<Unit> {
-        self.unit_ref(u).cloned()
-    }
-
-    /// The resolved unit, borrowed from the cache (no copy).
-    fn unit_ref(&mut self, u: &UnitExpr) -> Flow<&Unit> {
-        let key = (u.span.file, u.span.start);
-        if !self.sheet.units.contains_key(&key) {
-            let unit = resolve_by_text(&mut self.sheet.unit_texts, self.sources, u)?;
-            self.sheet.units.insert(key, unit);
-        }
-        self.sheet.units.get(&key).ok_or(Stop::Reported)
+        Ok(unit_at(&mut self.sheet.unit_texts, self.sources, u)?.clone())
     }
 
     fn record(&mut self, fields: &[(crate::syntax::Ident, Expr)]) -> Flow<Value> {
@@ -414,6 +400,7 @@ impl<'a> Ctx<'a> {
 
     /// The value of `e` when it is a name whose value is already at hand (a
     /// parameter or a computed value); `None` otherwise (nothing is forced).
+    #[inline(always)]
     fn computed(&self, e: &Expr) -> Option<&Value> {
         let ExprKind::Name(n) = &e.kind else {
             return None;
@@ -480,28 +467,105 @@ impl<'a> Ctx<'a> {
         }
     }
 
+    #[inline]
     fn shown_as(&mut self, a: &Expr, u: &UnitExpr) -> Flow<Value> {
+        // `x * y as UNIT` over computed quantities: no value is built for the product.
+        if let Some(q) = self.computed_arithmetic(a)? {
+            let unit = unit_at(&mut self.sheet.unit_texts, self.sources, u)?;
+            return show_quantity(q, unit).map_err(|msg| shown_as_failure(msg, a, u));
+        }
+        self.shown_as_value(a, u)
+    }
+
+    /// `a as u` in general: lists, shapes, any operand.
+    #[inline(never)]
+    fn shown_as_value(&mut self, a: &Expr, u: &UnitExpr) -> Flow<Value> {
         let v = self.operand(a)?;
-        let unit = match self.sheet.units.entry((u.span.file, u.span.start)) {
-            Entry::Occupied(e) => e.into_mut(),
-            Entry::Vacant(e) => e.insert(resolve_by_text(
-                &mut self.sheet.unit_texts,
-                self.sources,
-                u,
-            )?),
-        };
+        let unit = unit_at(&mut self.sheet.unit_texts, self.sources, u)?;
         let shown = view(&self.frame, &self.sheet.cache, &v);
         let result = if self.mode == Mode::CheckOnly || self.checking.blind > 0 {
             show_shape(shown, unit)
         } else {
             show_in(shown, unit)
         };
-        result.map_err(|msg| {
-            let mut d = Diagnostic::error(u.span, msg);
-            d.hints.push((Some(a.span), "this value".into()));
-            d.into()
-        })
+        result.map_err(|msg| shown_as_failure(msg, a, u))
     }
+
+    /// `x op y` for an arithmetic operator whose operands are names of
+    /// computed quantities, in a run (not checking shapes): the quantity alone,
+    /// with the same step, nesting check and errors as [`Ctx::expr`] on `e`.
+    /// `None` (nothing evaluated, no step counted) when `e` has another form.
+    #[inline]
+    fn computed_arithmetic(&mut self, e: &Expr) -> Flow<Option<Quantity>> {
+        let ExprKind::Binary(op, a, b) = &e.kind else {
+            return Ok(None);
+        };
+        let op = *op;
+        if !ops::is_arithmetic(op) || self.mode != Mode::Run || self.checking.blind > 0 {
+            return Ok(None);
+        }
+        let (x, y) = match (self.computed(a), self.computed(b)) {
+            (Some(Value::Quantity(x, _)), Some(Value::Quantity(y, _))) => (*x, *y),
+            _ => return Ok(None),
+        };
+        self.tick(e.span)?;
+        if self.nesting >= MAX_NESTING {
+            return Err(nested_too_deeply(e.span));
+        }
+        match ops::arithmetic(op, &x, &y) {
+            Ok(q) => Ok(Some(q)),
+            Err(err) => Err(self.computed_failure(op, err, a, b, e.span)),
+        }
+    }
+
+    /// The error of [`Ctx::computed_arithmetic`], as [`Ctx::binary`] reports it.
+    #[cold]
+    fn computed_failure(&self, op: BinaryOp, err: OpError, a: &Expr, b: &Expr, span: Span) -> Stop {
+        static MISSING: Value = Value::Bool(false);
+        let x = self.computed(a).unwrap_or(&MISSING);
+        let y = self.computed(b).unwrap_or(&MISSING);
+        binary_failure(op, err, x, y, (a.span, b.span), span)
+    }
+}
+
+/// The unit of a literal or an `as`: kept in the expression once resolved.
+#[inline]
+fn unit_at<'u>(
+    texts: &mut super::FastMap<String, Unit>,
+    sources: &Sources,
+    u: &'u UnitExpr,
+) -> Result<&'u Unit, Diagnostic> {
+    match u.resolved.get() {
+        Some(unit) => Ok(unit),
+        None => resolve_and_keep(texts, sources, u),
+    }
+}
+
+/// Resolve a unit expression for the first time and keep the unit in it.
+#[inline(never)]
+fn resolve_and_keep<'u>(
+    texts: &mut super::FastMap<String, Unit>,
+    sources: &Sources,
+    u: &'u UnitExpr,
+) -> Result<&'u Unit, Diagnostic> {
+    let unit = resolve_by_text(texts, sources, u)?;
+    Ok(u.resolved.keep(unit))
+}
+
+/// The error of a failed `a as u`.
+#[cold]
+fn shown_as_failure(msg: String, a: &Expr, u: &UnitExpr) -> Stop {
+    let mut d = Diagnostic::error(u.span, msg);
+    d.hints.push((Some(a.span), "this value".into()));
+    d.into()
+}
+
+/// The error for expressions nested deeper than [`MAX_NESTING`].
+#[cold]
+fn nested_too_deeply(span: Span) -> Stop {
+    Diagnostic::error(span, "evaluation nested too deeply")
+        .with_hint("does a function call itself without end?")
+        .into()
 }
 
 /// Apply a binary operator to two values, blaming the operands' spans.
@@ -567,19 +631,7 @@ fn show_shape(v: &Value, unit: &Unit) -> Result<Value, String> {
 /// Attach a display unit to a quantity (or every quantity in a list).
 fn show_in(v: &Value, unit: &Unit) -> Result<Value, String> {
     match v {
-        Value::Quantity(q, _) => {
-            let q = *q;
-            if q.dim != unit.dim {
-                return Err(format!(
-                    "cannot show {} in `{}`, which is {}",
-                    dim_words(q.dim),
-                    unit.symbol,
-                    dim_words(unit.dim)
-                ));
-            }
-            unit.from_si(&q).map_err(|e| e.message)?;
-            Ok(Value::Quantity(q, Some(unit.clone())))
-        }
+        Value::Quantity(q, _) => show_quantity(*q, unit),
         Value::List(items) => items
             .iter()
             .map(|i| show_in(i, unit))
@@ -590,6 +642,26 @@ fn show_in(v: &Value, unit: &Unit) -> Result<Value, String> {
             type_word(other)
         )),
     }
+}
+
+/// A quantity with `unit` as its display unit, when it can be shown in it.
+#[inline(always)]
+fn show_quantity(q: Quantity, unit: &Unit) -> Result<Value, String> {
+    if q.dim != unit.dim {
+        return Err(cannot_show(&q, unit));
+    }
+    unit.from_si(&q).map_err(|e| e.message)?;
+    Ok(Value::Quantity(q, Some(unit.clone())))
+}
+
+#[cold]
+fn cannot_show(q: &Quantity, unit: &Unit) -> String {
+    format!(
+        "cannot show {} in `{}`, which is {}",
+        dim_words(q.dim),
+        unit.symbol,
+        dim_words(unit.dim)
+    )
 }
 
 fn no_field(r: &Record, field: &crate::syntax::Ident) -> Diagnostic {

@@ -26,6 +26,7 @@ impl OpError {
         }
     }
 
+    #[cold]
     fn unit(e: UnitError, a: &Quantity, b: &Quantity) -> OpError {
         let dims = (a.dim != b.dim).then_some((a.dim, b.dim));
         OpError {
@@ -105,12 +106,8 @@ fn quantity_op(
     shown: Option<&crate::units::Unit>,
     y: &Quantity,
 ) -> Result<Value, OpError> {
-    let err = |e| OpError::unit(e, x, y);
     let q = match op {
-        BinaryOp::Add => x.add(y).map_err(err)?,
-        BinaryOp::Sub => x.sub(y).map_err(err)?,
-        BinaryOp::Mul => x.mul(y).map_err(err)?,
-        BinaryOp::Div => x.div(y).map_err(err)?,
+        BinaryOp::Add | BinaryOp::Sub | BinaryOp::Mul | BinaryOp::Div => arithmetic(op, x, y)?,
         BinaryOp::Pow => power(x, y)?,
         _ => return compare(op, x, y),
     };
@@ -118,6 +115,34 @@ fn quantity_op(
     // A sum keeps the left operand's display unit while it means the same kind of thing.
     let keep = matches!(op, BinaryOp::Add | BinaryOp::Sub) && q.kind == x.kind && q.dim == x.dim;
     Ok(Value::Quantity(q, if keep { shown.cloned() } else { None }))
+}
+
+/// True for `+ - * /`, which [`arithmetic`] applies.
+#[inline]
+pub fn is_arithmetic(op: BinaryOp) -> bool {
+    matches!(
+        op,
+        BinaryOp::Add | BinaryOp::Sub | BinaryOp::Mul | BinaryOp::Div
+    )
+}
+
+/// `x op y` for `+ - * /` on two quantities (a result that is not finite is
+/// an error); any other operator is refused.
+#[inline(always)]
+pub fn arithmetic(op: BinaryOp, x: &Quantity, y: &Quantity) -> Result<Quantity, OpError> {
+    let q = match op {
+        BinaryOp::Add => x.add(y),
+        BinaryOp::Sub => x.sub(y),
+        BinaryOp::Mul => x.mul(y),
+        BinaryOp::Div => x.div(y),
+        _ => return Err(not_arithmetic(op)),
+    };
+    q.map_err(|e| OpError::unit(e, x, y))
+}
+
+#[cold]
+fn not_arithmetic(op: BinaryOp) -> OpError {
+    OpError::plain(format!("`{}` is not arithmetic", op.symbol()))
 }
 
 fn power(x: &Quantity, y: &Quantity) -> Result<Quantity, OpError> {

@@ -66,8 +66,6 @@ pub struct Sheet {
     pub cache: FastMap<String, Value>,
     /// Input values set from outside (`--set`, `load(..., name: value)`).
     pub overrides: FastMap<String, Value>,
-    /// Resolved units of literals and `as`, keyed by (file, start).
-    pub units: FastMap<(u32, u32), Unit>,
     /// Resolved units by their text (`kg/m^2`), so each is looked up once.
     pub unit_texts: FastMap<String, Unit>,
     /// Directory `load` paths are relative to.
@@ -238,10 +236,10 @@ impl Sheet {
             .collect()
     }
 
-    /// Forget resolved units of source files no longer kept, and the by-text
-    /// unit cache when it has grown past [`MAX_UNIT_TEXTS`] entries.
-    pub fn forget_files(&mut self, live: &HashSet<u32>) {
-        self.units.retain(|(file, _), _| live.contains(file));
+    /// Forget the by-text unit cache when it has grown past
+    /// [`MAX_UNIT_TEXTS`] entries. (The unit of each literal and `as` is kept
+    /// in its syntax tree and goes with it.)
+    pub fn trim_unit_texts(&mut self) {
         if self.unit_texts.len() > MAX_UNIT_TEXTS {
             self.unit_texts.clear();
         }

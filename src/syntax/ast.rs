@@ -1,8 +1,10 @@
 //! The typed syntax tree of a worksheet. Every node carries a span.
 
-use std::sync::Arc;
+use std::fmt;
+use std::sync::{Arc, OnceLock};
 
 use crate::diag::Span;
+use crate::units::Unit;
 
 /// A name as written, with its span.
 #[derive(Clone, Debug, PartialEq)]
@@ -187,12 +189,65 @@ impl BinaryOp {
 }
 
 /// A unit expression as written: `kg/m^2`, `BTU/(h*ft^2*degF)`.
-#[derive(Clone, Debug, PartialEq)]
+#[derive(Clone, PartialEq)]
 pub struct UnitExpr {
     /// The form of the unit expression.
     pub kind: UnitKind,
     /// Where it is in the source.
     pub span: Span,
+    /// The unit it stands for, kept by the evaluator once resolved (not
+    /// syntax: `==` and `{:?}` ignore it).
+    pub resolved: ResolvedUnit,
+}
+
+impl UnitExpr {
+    /// A unit expression, not yet resolved.
+    pub fn new(kind: UnitKind, span: Span) -> UnitExpr {
+        UnitExpr {
+            kind,
+            span,
+            resolved: ResolvedUnit::default(),
+        }
+    }
+}
+
+impl fmt::Debug for UnitExpr {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.debug_struct("UnitExpr")
+            .field("kind", &self.kind)
+            .field("span", &self.span)
+            .finish()
+    }
+}
+
+/// The unit a unit expression resolves to, filled once on first use.
+///
+/// A unit expression always means the same unit (resolution depends on its
+/// text alone), so the evaluator keeps the unit here and reads it back without
+/// a lookup each time the expression is evaluated again.
+///
+/// Boxed, so that the slot adds two words to a syntax node, not a whole unit.
+#[derive(Clone, Default)]
+pub struct ResolvedUnit(OnceLock<Box<Unit>>);
+
+impl ResolvedUnit {
+    /// The unit, if resolved.
+    #[inline]
+    pub fn get(&self) -> Option<&Unit> {
+        self.0.get().map(|u| &**u)
+    }
+
+    /// Keep `unit` (unless a unit is already kept) and return the kept unit.
+    pub fn keep(&self, unit: Unit) -> &Unit {
+        self.0.get_or_init(|| Box::new(unit))
+    }
+}
+
+impl PartialEq for ResolvedUnit {
+    /// Always equal: the resolved unit is a cache, not part of the syntax.
+    fn eq(&self, _: &ResolvedUnit) -> bool {
+        true
+    }
 }
 
 /// The forms of unit expression.

@@ -370,10 +370,10 @@ impl Lower {
                 span,
                 ..self.unit(first(pair)?)?
             }),
-            Rule::unit_name => Ok(UnitExpr {
-                kind: UnitKind::Name(pair.as_str().to_string()),
+            Rule::unit_name => Ok(UnitExpr::new(
+                UnitKind::Name(pair.as_str().to_string()),
                 span,
-            }),
+            )),
             Rule::unit_factor => {
                 let mut inner = pair.into_inner();
                 let base = self.unit(next(&mut inner)?)?;
@@ -386,10 +386,7 @@ impl Lower {
                                 format!("exponent `{}` is too large", exp.as_str()),
                             )
                         })?;
-                        Ok(UnitExpr {
-                            kind: UnitKind::Pow(Box::new(base), n),
-                            span,
-                        })
+                        Ok(UnitExpr::new(UnitKind::Pow(Box::new(base), n), span))
                     }
                     None => Ok(base),
                 }
@@ -414,10 +411,7 @@ impl Lower {
                 start,
                 end: base.span.end,
             };
-            UnitExpr {
-                kind: UnitKind::Pow(Box::new(base), -1),
-                span,
-            }
+            UnitExpr::new(UnitKind::Pow(Box::new(base), -1), span)
         } else {
             self.unit(first)?
         };
@@ -433,7 +427,7 @@ impl Lower {
             } else {
                 UnitKind::Div(Box::new(acc), Box::new(rhs))
             };
-            acc = UnitExpr { kind, span };
+            acc = UnitExpr::new(kind, span);
         }
         Ok(acc)
     }

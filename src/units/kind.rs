@@ -52,11 +52,13 @@ impl Kind {
 
     /// True for the dimensionless kinds that name a physical ratio
     /// (moisture, humidity ratio, activity): two different ones never mix.
+    #[inline]
     pub fn is_named_ratio(self) -> bool {
         matches!(self, Kind::Moisture | Kind::HumidityRatio | Kind::Activity)
     }
 
     /// True for the temperature kinds (absolute or difference).
+    #[inline]
     pub fn is_temperature(self) -> bool {
         matches!(
             self,
@@ -86,6 +88,7 @@ pub enum KindClash {
 /// a named ratio with a plain number keeps the ratio's kind; a fraction (`%`)
 /// joins a relative humidity / activity but is refused with a moisture content
 /// or a humidity ratio, since a percentage does not say its basis.
+#[inline]
 pub fn add_kind(a: Kind, b: Kind) -> Result<Kind, KindClash> {
     use Kind::*;
     match (a, b) {
@@ -101,6 +104,7 @@ pub fn add_kind(a: Kind, b: Kind) -> Result<Kind, KindClash> {
 /// Rules: abs - abs is a difference; abs - (difference or plain) is abs;
 /// plain - abs is a difference (the plain value is read as absolute kelvin);
 /// difference - abs is refused; otherwise as for `+`.
+#[inline]
 pub fn sub_kind(a: Kind, b: Kind) -> Result<Kind, KindClash> {
     use Kind::*;
     match (a, b) {
@@ -129,6 +133,7 @@ pub fn compare_kinds(a: Kind, b: Kind) -> Result<(), KindClash> {
 }
 
 /// Combine two non-temperature kinds under `+ - compare`.
+#[inline]
 fn ratio_kind(a: Kind, b: Kind) -> Result<Kind, KindClash> {
     use Kind::*;
     match (a, b) {
@@ -151,6 +156,7 @@ fn ratio_kind(a: Kind, b: Kind) -> Result<Kind, KindClash> {
 /// plain number or fraction keeps the other side's kind (`2 * dT` is still a
 /// difference, `0.5 * X` still a moisture, `50 % * 20 %` still a fraction);
 /// anything else is plain.
+#[inline]
 pub fn mul_kind(a: Kind, a_scalar: bool, b: Kind, b_scalar: bool) -> Kind {
     if a == Kind::AbsoluteTemperature || b == Kind::AbsoluteTemperature {
         return Kind::Plain;
@@ -168,6 +174,7 @@ pub fn mul_kind(a: Kind, a_scalar: bool, b: Kind, b_scalar: bool) -> Kind {
 /// Rules: a ratio of two equal kinds is plain (`X1 / X2`); dividing by a plain
 /// number or fraction keeps `a`'s kind; absolute temperatures are used as kelvin
 /// and give plain results; anything else is plain.
+#[inline]
 pub fn div_kind(a: Kind, b: Kind, b_scalar: bool) -> Kind {
     if a == Kind::AbsoluteTemperature || b == Kind::AbsoluteTemperature {
         return Kind::Plain;

@@ -103,6 +103,7 @@ fn article(words: &str) -> String {
 
 impl Quantity {
     /// A quantity from its SI magnitude, dimension and kind.
+    #[inline]
     pub fn new(si: f64, dim: Dim, kind: Kind) -> Quantity {
         Quantity { si, dim, kind }
     }
@@ -113,11 +114,13 @@ impl Quantity {
     }
 
     /// True for a dimensionless plain number or fraction: a pure scaling factor.
+    #[inline]
     pub fn is_scalar(&self) -> bool {
         self.dim.is_dimensionless() && matches!(self.kind, Kind::Plain | Kind::Fraction)
     }
 
     /// `self + other`: equal dimensions, kinds combined by [`kind::add_kind`].
+    #[inline(always)]
     pub fn add(&self, other: &Quantity) -> Result<Quantity, UnitError> {
         self.same_dim("`+` needs equal dimensions: ", other)?;
         let kind = kind::add_kind(self.kind, other.kind).map_err(|c| clash_error("add", c))?;
@@ -126,6 +129,7 @@ impl Quantity {
 
     /// `self - other`: equal dimensions, kinds combined by [`kind::sub_kind`]
     /// (absolute - absolute is a temperature difference).
+    #[inline(always)]
     pub fn sub(&self, other: &Quantity) -> Result<Quantity, UnitError> {
         self.same_dim("`-` needs equal dimensions: ", other)?;
         let kind = kind::sub_kind(self.kind, other.kind).map_err(|c| clash_error("subtract", c))?;
@@ -133,20 +137,32 @@ impl Quantity {
     }
 
     /// `self * other`: dimensions add, kinds by [`kind::mul_kind`].
+    #[inline(always)]
     pub fn mul(&self, other: &Quantity) -> Result<Quantity, UnitError> {
         let dim = combine_dims(self.dim, other.dim, 1)?;
-        let kind = kind::mul_kind(self.kind, self.is_scalar(), other.kind, other.is_scalar());
+        // Plain times plain is plain whatever the dimensions (the common case).
+        let kind = if self.kind == Kind::Plain && other.kind == Kind::Plain {
+            Kind::Plain
+        } else {
+            kind::mul_kind(self.kind, self.is_scalar(), other.kind, other.is_scalar())
+        };
         finite(self.si * other.si, dim, kind)
     }
 
     /// `self / other`: dimensions subtract, kinds by [`kind::div_kind`];
     /// division by zero is an error.
+    #[inline(always)]
     pub fn div(&self, other: &Quantity) -> Result<Quantity, UnitError> {
         if other.si == 0.0 {
-            return Err(UnitError::new("division by zero"));
+            return Err(division_by_zero());
         }
         let dim = combine_dims(self.dim, other.dim, -1)?;
-        let kind = kind::div_kind(self.kind, other.kind, other.is_scalar());
+        // A ratio of two equal kinds is plain (the common case).
+        let kind = if self.kind == other.kind {
+            Kind::Plain
+        } else {
+            kind::div_kind(self.kind, other.kind, other.is_scalar())
+        };
         finite(self.si / other.si, dim, kind)
     }
 
@@ -263,11 +279,12 @@ impl Quantity {
         Err(expect_kind_error(kind, self.kind))
     }
 
+    #[inline]
     fn same_dim(&self, context: &str, other: &Quantity) -> Result<(), UnitError> {
         if self.dim == other.dim {
             Ok(())
         } else {
-            Err(UnitError::dim_mismatch(context, self.dim, other.dim))
+            Err(dim_mismatch(context, self.dim, other.dim))
         }
     }
 
@@ -286,6 +303,16 @@ impl Quantity {
             ))
         })
     }
+}
+
+#[cold]
+fn division_by_zero() -> UnitError {
+    UnitError::new("division by zero")
+}
+
+#[cold]
+fn dim_mismatch(context: &str, expected: Dim, found: Dim) -> UnitError {
+    UnitError::dim_mismatch(context, expected, found)
 }
 
 /// Whether a value of kind `found` may stand where `wanted` is expected.
@@ -367,7 +394,7 @@ fn ratio_hint(a: Kind, b: Kind) -> &'static str {
 
 /// Add (`sign = 1`) or subtract (`sign = -1`) dimension vectors, refusing
 /// exponents outside the i8 range.
-#[inline]
+#[inline(always)]
 fn combine_dims(a: Dim, b: Dim, sign: i32) -> Result<Dim, UnitError> {
     // The seven exponents as bytes of one word, added or subtracted lane by
     // lane without carries between lanes; a lane overflows when its result
@@ -388,8 +415,13 @@ fn combine_dims(a: Dim, b: Dim, sign: i32) -> Result<Dim, UnitError> {
             [b[0], b[1], b[2], b[3], b[4], b[5], b[6]].map(|e| e as i8)
         ))
     } else {
-        Err(UnitError::new("a dimension exponent is too large"))
+        Err(exponent_too_large())
     }
+}
+
+#[cold]
+fn exponent_too_large() -> UnitError {
+    UnitError::new("a dimension exponent is too large")
 }
 
 /// A dimension's exponents as the low seven bytes of a word (the eighth is 0).
@@ -424,17 +456,19 @@ fn rational(e: f64) -> Option<(i32, i32)> {
 }
 
 /// A result quantity, or an error when the magnitude is not finite.
+#[inline]
 fn finite(si: f64, dim: Dim, kind: Kind) -> Result<Quantity, UnitError> {
     if si.is_finite() {
         Ok(Quantity::new(si, dim, kind))
     } else {
-        Err(
-            UnitError::new("the result is not a finite number (overflow or invalid operation)")
-                .with_hint(
-                    "an operand may itself be invalid, e.g. a wet-basis moisture of 1 or more",
-                ),
-        )
+        Err(not_finite())
     }
+}
+
+#[cold]
+fn not_finite() -> UnitError {
+    UnitError::new("the result is not a finite number (overflow or invalid operation)")
+        .with_hint("an operand may itself be invalid, e.g. a wet-basis moisture of 1 or more")
 }
 
 #[cfg(test)]

@@ -288,15 +288,15 @@ impl Unit {
     /// difference may not (show it in K or delta_degC); an absolute temperature
     /// may not be shown in delta_degC; a named ratio (moisture, humidity ratio,
     /// activity) is shown only in its own kind's units or as a plain number.
+    #[inline]
     pub fn from_si(&self, q: &Quantity) -> Result<f64, UnitError> {
         if q.dim != self.dim {
-            return Err(UnitError::dim_mismatch(
-                &format!("cannot show the value in {}: ", self.symbol),
-                self.dim,
-                q.dim,
-            ));
+            return Err(self.cannot_show_dim(q.dim));
         }
-        self.check_display_kind(q.kind)?;
+        // Most units are plain or of the quantity's own kind.
+        if self.kind != Kind::Plain && self.kind != q.kind {
+            self.check_display_kind(q.kind)?;
+        }
         let x = match self.scale {
             Scale::Linear => (q.si - self.offset) / self.factor,
             Scale::WetBasis => wet_from_dry(q.si)? / self.factor,
@@ -304,10 +304,20 @@ impl Unit {
         if x.is_finite() {
             Ok(x)
         } else {
-            Err(UnitError::new("the value is not a finite number"))
+            Err(not_finite_value())
         }
     }
 
+    #[cold]
+    fn cannot_show_dim(&self, dim: Dim) -> UnitError {
+        UnitError::dim_mismatch(
+            &format!("cannot show the value in {}: ", self.symbol),
+            self.dim,
+            dim,
+        )
+    }
+
+    #[inline(never)]
     fn check_display_kind(&self, kind: Kind) -> Result<(), UnitError> {
         use Kind::*;
         let ok = match (self.kind, kind) {
@@ -328,6 +338,12 @@ impl Unit {
     }
 }
 
+#[cold]
+fn not_finite_value() -> UnitError {
+    UnitError::new("the value is not a finite number")
+}
+
+#[cold]
 fn display_kind_error(symbol: &str, unit_kind: Kind, kind: Kind) -> UnitError {
     let err = UnitError::new(format!(
         "cannot show {} in {symbol}, which is a unit of {}",
