@@ -1,0 +1,242 @@
+//! What the humid-air engine keeps per total pressure, on each thread: the
+//! boiling limits, and a table of the wet-bulb balance on a 1 K grid of trial
+//! wet-bulbs, filled node by node as states ask for it. A sweep at one
+//! pressure solves for the boiling point once and evaluates each node of the
+//! table once; a state at a new pressure replaces both.
+//!
+//! The table holds, at T_k = 0 degC + k K (liquid water, up to the top of the
+//! wet-bulb bracket), the enthalpy `G = h(T*, w_s*) - w_s* h_c(T*)` of the
+//! balance `G(T*) + w h_c(T*) = h1` and its exact slope. Cubic Hermite
+//! interpolation between two nodes, inverted, puts the wet-bulb within about
+//! 1e-5 K of the root (the fourth derivative of G over 1 K is small), a start
+//! from which the exact Newton solve stops after two evaluations. The table
+//! only chooses where the solve starts: the result is the root of the exact
+//! balance either way.
+
+use std::cell::RefCell;
+
+use super::saturation::{self as sat, T_ZERO_C};
+use super::state::{ws_of, SaturatedSide};
+use super::thermo;
+use super::AirError;
+
+/// Where humid air at one total pressure stops being saturable.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub(super) struct BoilingLimits {
+    /// Total pressure, Pa.
+    pub p_pa: f64,
+    /// Boiling point of water at p (where `f p_ws = p`), K.
+    pub boiling_k: f64,
+    /// Highest temperature below it, on a 0.02 K grid down from the IF97
+    /// backward equation, where saturated air exists: the top of the wet-bulb
+    /// bracket for dry-bulbs above the boiling point, K.
+    pub wet_bulb_cap_k: f64,
+}
+
+/// Spacing of the wet-bulb table, K.
+const STEP: f64 = 1.0;
+
+/// The balance at trial wet-bulbs `origin + k STEP`, over one phase.
+struct Grid {
+    origin: f64,
+    ice: bool,
+    /// `(G, dG/dT*)` at node k, J/kg dry air and J/(kg K); NaN until first used.
+    nodes: Vec<(f64, f64)>,
+}
+
+/// The limits and the wet-bulb tables at one pressure: over liquid water from
+/// 0 degC up to the top of the bracket, over ice from -100 to 0 degC.
+struct PressureCache {
+    limits: BoilingLimits,
+    liquid: Grid,
+    ice: Grid,
+}
+
+thread_local! {
+    /// The cache of the last pressure used on this thread.
+    static CACHE: RefCell<Option<PressureCache>> = const { RefCell::new(None) };
+}
+
+/// The boiling limits at `p` (Pa), from the per-thread cache or computed (a
+/// new pressure also empties the wet-bulb table).
+pub(super) fn boiling_limits(p: f64) -> Result<BoilingLimits, AirError> {
+    let cached = CACHE.with(|cell| {
+        cell.borrow()
+            .as_ref()
+            .filter(|c| c.limits.p_pa == p)
+            .map(|c| c.limits)
+    });
+    if let Some(limits) = cached {
+        return Ok(limits);
+    }
+    let limits = BoilingLimits {
+        p_pa: p,
+        boiling_k: sat::boiling_point(p).map_err(|e| AirError::NotConverged {
+            what: "boiling point",
+            reason: e,
+        })?,
+        wet_bulb_cap_k: wet_bulb_cap_k(p)?,
+    };
+    let count = if limits.wet_bulb_cap_k >= T_ZERO_C {
+        ((limits.wet_bulb_cap_k - T_ZERO_C) / STEP).floor() as usize + 1
+    } else {
+        0
+    };
+    let grid = |origin: f64, ice: bool, count: usize| Grid {
+        origin,
+        ice,
+        nodes: vec![(f64::NAN, f64::NAN); count],
+    };
+    let ice_count = ((T_ZERO_C - sat::T_MIN_SATURATION) / STEP).round() as usize + 1;
+    let cache = PressureCache {
+        limits,
+        liquid: grid(T_ZERO_C, false, count),
+        ice: grid(sat::T_MIN_SATURATION, true, ice_count),
+    };
+    CACHE.with(|cell| *cell.borrow_mut() = Some(cache));
+    Ok(limits)
+}
+
+/// Just below the boiling point at p (IF97 backward equation, within 0.01 K of
+/// our curve): w_s* there exceeds 100 kg/kg, so the wet-bulb balance is positive.
+fn wet_bulb_cap_k(p: f64) -> Result<f64, AirError> {
+    let tb = sat::if97_saturation_temperature(p.clamp(611.3, sat::P_CRITICAL));
+    let mut hi = tb - 0.02;
+    for _ in 0..40 {
+        if ws_of(hi, p).is_some() {
+            return Ok(hi);
+        }
+        hi -= 0.02;
+    }
+    Err(AirError::ProcessOutOfRange {
+        what: "no saturated state below the boiling point".into(),
+    })
+}
+
+/// A start for the wet-bulb of air with humidity ratio `w` and enthalpy `h1`
+/// (J/kg dry air) at `p` (Pa), over ice or liquid water, from the table:
+/// `None` when `p` is not the cached pressure or the root is not between two
+/// nodes. `rough` (K) is where the search of the table begins.
+pub(super) fn wet_bulb_start(p: f64, w: f64, h1: f64, rough: f64, ice: bool) -> Option<f64> {
+    with_cache(p, |cache| {
+        let grid = if ice {
+            &mut cache.ice
+        } else {
+            &mut cache.liquid
+        };
+        grid.wet_bulb_start(p, w, h1, rough)
+    })
+}
+
+/// Whether the wet-bulb lies over liquid water (at or above 0 degC): the
+/// balance at 0 degC over liquid water is at or below h1. `None` when `p` is
+/// not the cached pressure.
+pub(super) fn wet_bulb_over_liquid(p: f64, w: f64, h1: f64) -> Option<bool> {
+    with_cache(p, |cache| Some(cache.liquid.node(0, p, w)?.0 <= h1))
+}
+
+fn with_cache<R>(p: f64, f: impl FnOnce(&mut PressureCache) -> Option<R>) -> Option<R> {
+    CACHE.with(|cell| {
+        let mut cell = cell.borrow_mut();
+        f(cell.as_mut().filter(|c| c.limits.p_pa == p)?)
+    })
+}
+
+impl Grid {
+    /// `G + w h_c` and its slope at node k, filling the node on first use.
+    fn node(&mut self, k: usize, p: f64, w: f64) -> Option<(f64, f64)> {
+        let t = self.origin + k as f64 * STEP;
+        let node = self.nodes.get_mut(k)?;
+        if node.0.is_nan() {
+            let side = SaturatedSide::at(t, p, self.ice)?;
+            *node = side.balance_enthalpy(0.0);
+        }
+        let (hc, cc) = if self.ice {
+            (thermo::ice_enthalpy(t), thermo::ICE_CP)
+        } else {
+            (thermo::liquid_enthalpy(t), thermo::LIQUID_CP)
+        };
+        Some((node.0 + w * hc, node.1 + w * cc))
+    }
+
+    fn wet_bulb_start(&mut self, p: f64, w: f64, h1: f64, rough: f64) -> Option<f64> {
+        // Interval k lies between nodes k and k + 1; search lo..=hi, narrowing.
+        let mut hi = self.nodes.len().checked_sub(2)?;
+        let mut lo = 0;
+        let origin = self.origin;
+        let index = |t: f64, lo: usize, hi: usize| {
+            let k = ((t - origin) / STEP).floor();
+            if k.is_nan() {
+                lo
+            } else {
+                (k.max(0.0) as usize).clamp(lo, hi)
+            }
+        };
+        let mut k = index(rough, lo, hi);
+        // Each pass narrows lo..=hi by at least one interval.
+        for _ in 0..self.nodes.len() {
+            let (ha, da) = self.node(k, p, w)?;
+            let ta = origin + k as f64 * STEP;
+            if ha > h1 {
+                hi = k.checked_sub(1)?;
+                if lo > hi {
+                    return None;
+                }
+                k = index(ta - (ha - h1) / da, lo, hi);
+                continue;
+            }
+            let (hb, db) = self.node(k + 1, p, w)?;
+            if hb < h1 {
+                lo = k + 1;
+                if lo > hi {
+                    return None;
+                }
+                k = index(ta + STEP + (h1 - hb) / db, lo, hi);
+                continue;
+            }
+            let s = inverse_hermite(h1, (ha, da * STEP), (hb, db * STEP));
+            return Some(ta + s * STEP);
+        }
+        None
+    }
+}
+
+/// The s in [0, 1] where the cubic Hermite interpolant through `(y0, slope m0)`
+/// at 0 and `(y1, m1)` at 1 equals `y` (`y0 <= y <= y1`, increasing), by Newton
+/// steps from linear interpolation.
+fn inverse_hermite(y: f64, (y0, m0): (f64, f64), (y1, m1): (f64, f64)) -> f64 {
+    let rise = y1 - y0;
+    if rise <= 0.0 {
+        return 0.5;
+    }
+    let mut s = ((y - y0) / rise).clamp(0.0, 1.0);
+    for _ in 0..4 {
+        let s2 = s * s;
+        let s3 = s2 * s;
+        let value = y0 + m0 * (s3 - 2.0 * s2 + s) + rise * (3.0 * s2 - 2.0 * s3) + m1 * (s3 - s2);
+        let slope = m0 * (3.0 * s2 - 4.0 * s + 1.0)
+            + rise * (6.0 * s - 6.0 * s2)
+            + m1 * (3.0 * s2 - 2.0 * s);
+        if slope <= 0.0 {
+            break;
+        }
+        s = (s - (value - y) / slope).clamp(0.0, 1.0);
+    }
+    s
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn inverse_hermite_inverts_a_cubic() {
+        // p(s) = 1 + s + s^3: p(0) = 1, p'(0) = 1, p(1) = 3, p'(1) = 4.
+        for i in 0..=10 {
+            let s = i as f64 / 10.0;
+            let y = 1.0 + s + s * s * s;
+            let got = inverse_hermite(y, (1.0, 1.0), (3.0, 4.0));
+            assert!((got - s).abs() < 1e-12, "{s}: {got}");
+        }
+    }
+}
