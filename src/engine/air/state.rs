@@ -21,7 +21,7 @@ use uom::si::specific_heat_capacity::joule_per_kilogram_kelvin;
 use uom::si::specific_volume::cubic_meter_per_kilogram;
 use uom::si::thermodynamic_temperature::kelvin;
 
-use super::per_pressure::{boiling_limits, wet_bulb_over_liquid, wet_bulb_start};
+use super::per_pressure::{with_pressure, BoilingLimits, PressureCache};
 use super::saturation::{self as sat, T_MIN_SATURATION, T_ZERO_C};
 use super::thermo::{self, EPSILON};
 use super::AirError;
@@ -624,9 +624,14 @@ impl AirState {
     }
 
     pub(crate) fn wet_bulb_k(&self) -> Result<f64, AirError> {
+        with_pressure(self.p_pa, |cache| self.wet_bulb_with(cache))
+    }
+
+    /// [`AirState::wet_bulb_k`] with the cache of this state's pressure.
+    fn wet_bulb_with(&self, cache: &mut PressureCache) -> Result<f64, AirError> {
         let (t, w, p) = (self.t_k, self.w, self.p_pa);
         let h1 = h_of(t, w, p);
-        let hi = self.wet_bulb_upper_k()?;
+        let hi = self.wet_bulb_upper_k(cache.limits());
         let dew = self.dew_point_estimate_k().min(hi);
         let err = |e| AirError::NotConverged {
             what: "wet-bulb temperature",
@@ -637,7 +642,8 @@ impl AirState {
         let (lo, hi, ice) = if hi < T_ZERO_C {
             (T_MIN_SATURATION, hi, true)
         } else if dew >= T_ZERO_C + 2.0
-            || wet_bulb_over_liquid(p, w, h1)
+            || cache
+                .wet_bulb_over_liquid(w, h1)
                 .unwrap_or_else(|| wet_bulb_residual(T_ZERO_C, w, p, h1, false).0 <= 0.0)
         {
             (T_ZERO_C, hi, false)
@@ -657,7 +663,8 @@ impl AirState {
         }
         // The table of the balance at this pressure gives a start within
         // micro-kelvins (two evaluations of the exact balance).
-        let start = wet_bulb_start(p, w, h1, guess, ice)
+        let start = cache
+            .wet_bulb_start(w, h1, guess, ice)
             .unwrap_or(guess)
             .clamp(lo, hi);
         let ts = newton_exact(f, lo, hi, start, T_TOL).map_err(err)?;
@@ -675,18 +682,17 @@ impl AirState {
 
     /// Upper end of the wet-bulb bracket: the dry-bulb, or just below the boiling
     /// point at p when the dry-bulb is above it.
-    fn wet_bulb_upper_k(&self) -> Result<f64, AirError> {
-        let limits = boiling_limits(self.p_pa)?;
+    fn wet_bulb_upper_k(&self, limits: BoilingLimits) -> f64 {
         // Clearly below or above the boiling point; within rounding of it, ask
         // the saturation curve itself.
         let margin = 1e-6;
         if self.t_k < limits.boiling_k - margin {
-            return Ok(self.t_k);
+            return self.t_k;
         }
         if self.t_k <= limits.boiling_k + margin && self.pvs_pa < self.p_pa {
-            return Ok(self.t_k);
+            return self.t_k;
         }
-        Ok(limits.wet_bulb_cap_k)
+        limits.wet_bulb_cap_k
     }
 }
 

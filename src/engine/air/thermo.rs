@@ -305,15 +305,12 @@ fn vapour_residual_enthalpy_and_slopes(t: f64, pv: f64) -> (f64, f64, f64) {
     let inv_t = 1.0 / t;
     let tau = 540.0 * inv_t;
     let x = tau - 0.5;
-    let g_tau: f64 = IF97_VIRIAL
-        .iter()
-        .map(|&(j, n)| n * j as f64 * x.powi(j - 1))
-        .sum();
-    let g_tau_tau: f64 = IF97_VIRIAL
-        .iter()
-        .filter(|&&(j, _)| j >= 2)
-        .map(|&(j, n)| n * (j * (j - 1)) as f64 * x.powi(j - 2))
-        .sum();
+    // sum n J x^(J-1) and sum n J (J-1) x^(J-2) over the table (J = 0, 1, 2, 3, 6),
+    // written out.
+    let n = |i: usize| IF97_VIRIAL[i].1;
+    let (x2, x4) = (x * x, x * x * x * x);
+    let g_tau = n(1) + 2.0 * n(2) * x + 3.0 * n(3) * x2 + 6.0 * n(4) * (x4 * x);
+    let g_tau_tau = 2.0 * n(2) + 6.0 * n(3) * x + 30.0 * n(4) * x4;
     let scale = R_WATER_IF97 * 540.0 * 1e-6;
     (
         scale * pv * g_tau,
@@ -325,7 +322,9 @@ fn vapour_residual_enthalpy_and_slopes(t: f64, pv: f64) -> (f64, f64, f64) {
 /// Compressibility excess `Z - 1` of water vapour at partial pressure pv (Pa), second-virial level.
 pub fn vapour_compressibility_excess(t: f64, pv: f64) -> f64 {
     let x = 540.0 / t - 0.5;
-    let sum: f64 = IF97_VIRIAL.iter().map(|&(j, n)| n * x.powi(j)).sum();
+    let n = |i: usize| IF97_VIRIAL[i].1;
+    let (x2, x3) = (x * x, x * x * x);
+    let sum = n(0) + n(1) * x + n(2) * x2 + n(3) * x3 + n(4) * (x3 * x3);
     (pv / 1e6) * sum
 }
 
@@ -395,6 +394,29 @@ mod tests {
         ] {
             let h = (vapour_ideal_enthalpy_if97(t) + vapour_residual_enthalpy(t, 3500.0)) / 1e3;
             assert!((h - h_kj).abs() < tol, "T={t}: {h} vs {h_kj}");
+        }
+    }
+
+    /// The written-out virial sums against the table of (J, n) they come from.
+    #[test]
+    fn virial_sums_match_the_table() {
+        for i in 0..50 {
+            let t = 233.15 + 8.0 * i as f64;
+            let x = 540.0 / t - 0.5;
+            let sum = |f: &dyn Fn(i32, f64) -> f64| -> f64 {
+                IF97_VIRIAL.iter().map(|&(j, n)| f(j, n)).sum()
+            };
+            let g_tau = sum(&|j, n| n * j as f64 * x.powi(j - 1));
+            let g_tau_tau = sum(&|j, n| n * (j * (j - 1)) as f64 * x.powi(j - 2));
+            let z = sum(&|j, n| n * x.powi(j));
+            let scale = R_WATER_IF97 * 540.0 * 1e-6;
+            let (h, dh_dt, dh_dpv) = vapour_residual_enthalpy_and_slopes(t, 1e4);
+            let close = |a: f64, b: f64| (a - b).abs() <= 1e-14 * b.abs();
+            assert!(close(dh_dpv, scale * g_tau), "T={t}");
+            assert!(close(h, scale * 1e4 * g_tau), "T={t}");
+            let tau = 540.0 / t;
+            assert!(close(dh_dt, -scale * 1e4 * g_tau_tau * tau / t), "T={t}");
+            assert!(close(vapour_compressibility_excess(t, 1e6), z), "T={t}");
         }
     }
 
