@@ -259,6 +259,17 @@ fn ln_near_one(x: f64) -> f64 {
     }
 }
 
+/// `ln x` within 2e-4 for normal positive x: the binary exponent, and for the
+/// mantissa m in [1, 2) the series `2 atanh z`, `z = (m - 1)/(m + 1)`, to z^5.
+fn rough_ln(x: f64) -> f64 {
+    let bits = x.to_bits();
+    let exponent = ((bits >> 52) & 0x7ff) as f64 - 1023.0;
+    let m = f64::from_bits((bits & 0x000f_ffff_ffff_ffff) | 0x3ff0_0000_0000_0000);
+    let z = (m - 1.0) / (m + 1.0);
+    let z2 = z * z;
+    exponent * std::f64::consts::LN_2 + 2.0 * z * (1.0 + z2 * (1.0 / 3.0 + z2 * 0.2))
+}
+
 /// Rough wet-bulb from the dew point `dew` (K) and dry-bulb `t` (K), to start
 /// the exact solve: the balance linearised at the dew point, where the supply
 /// `w_s* L` grows by `w L k` per kelvin (`k = d ln w_s/dT` by Clausius-Clapeyron
@@ -632,7 +643,7 @@ impl AirState {
         let (t, w, p) = (self.t_k, self.w, self.p_pa);
         let h1 = h_of(t, w, p);
         let hi = self.wet_bulb_upper_k(cache.limits());
-        let dew = self.dew_point_estimate_k().min(hi);
+        let dew = self.rough_dew_point_k().min(hi);
         let err = |e| AirError::NotConverged {
             what: "wet-bulb temperature",
             reason: e,
@@ -680,6 +691,14 @@ impl AirState {
         (T_ZERO_C + 243.04 * l / (17.625 - l)).max(T_MIN_SATURATION)
     }
 
+    /// [`AirState::dew_point_estimate_k`] with a rough logarithm (within 2e-4,
+    /// a few millikelvin in the dew point): where the wet-bulb search begins.
+    fn rough_dew_point_k(&self) -> f64 {
+        let pv = pv_of(self.w, self.p_pa);
+        let l = rough_ln(pv.max(1e-3) * (1.0 / 610.94));
+        (T_ZERO_C + 243.04 * l / (17.625 - l)).max(T_MIN_SATURATION)
+    }
+
     /// Upper end of the wet-bulb bracket: the dry-bulb, or just below the boiling
     /// point at p when the dry-bulb is above it.
     fn wet_bulb_upper_k(&self, limits: BoilingLimits) -> f64 {
@@ -699,6 +718,14 @@ impl AirState {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn rough_log_is_within_its_bound() {
+        for i in 0..4000 {
+            let x = 1e-3 * 1.01f64.powi(i);
+            assert!((rough_ln(x) - x.ln()).abs() < 2e-4, "{x}");
+        }
+    }
 
     #[test]
     fn log_series_matches_ln() {
