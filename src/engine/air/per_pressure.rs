@@ -36,20 +36,23 @@ pub(super) struct BoilingLimits {
 /// Spacing of the wet-bulb table, K.
 const STEP: f64 = 1.0;
 
-/// The balance at trial wet-bulbs `origin + k STEP`, over one phase.
+/// Nodes of an increasing function of temperature at `origin + k STEP`.
 struct Grid {
     origin: f64,
-    ice: bool,
-    /// `(G, dG/dT*)` at node k, J/kg dry air and J/(kg K); NaN until first used.
+    /// `(value, slope)` at node k; NaN until first used.
     nodes: Vec<(f64, f64)>,
 }
 
-/// The limits and the wet-bulb tables at one pressure: over liquid water from
-/// 0 degC up to the top of the bracket, over ice from -100 to 0 degC.
+/// The limits and the tables at one pressure: the wet-bulb balance over liquid
+/// water from 0 degC up to the top of the bracket and over ice from -100 to
+/// 0 degC; `ln(f p_ws)` from -100 degC up to the top of the bracket.
 pub(super) struct PressureCache {
     limits: BoilingLimits,
     liquid: Grid,
     ice: Grid,
+    saturation: Grid,
+    /// `f p_ws` at -100 degC, Pa: the lowest dew point's vapour pressure.
+    lowest_pvs: f64,
 }
 
 thread_local! {
@@ -83,27 +86,36 @@ impl PressureCache {
             })?,
             wet_bulb_cap_k: wet_bulb_cap_k(p)?,
         };
-        let liquid_count = if limits.wet_bulb_cap_k >= T_ZERO_C {
-            ((limits.wet_bulb_cap_k - T_ZERO_C) / STEP).floor() as usize + 1
-        } else {
-            0
+        let cap = limits.wet_bulb_cap_k;
+        let count = |from: f64, to: f64| {
+            if to >= from {
+                ((to - from) / STEP + 1e-9).floor() as usize + 1
+            } else {
+                0
+            }
         };
-        let ice_count = ((T_ZERO_C - sat::T_MIN_SATURATION) / STEP).round() as usize + 1;
-        let grid = |origin: f64, ice: bool, count: usize| Grid {
+        let grid = |origin: f64, count: usize| Grid {
             origin,
-            ice,
             nodes: vec![(f64::NAN, f64::NAN); count],
         };
+        let lowest = sat::T_MIN_SATURATION;
         Ok(PressureCache {
             limits,
-            liquid: grid(T_ZERO_C, false, liquid_count),
-            ice: grid(sat::T_MIN_SATURATION, true, ice_count),
+            liquid: grid(T_ZERO_C, count(T_ZERO_C, cap)),
+            ice: grid(lowest, count(lowest, T_ZERO_C.min(cap))),
+            saturation: grid(lowest, count(lowest, cap)),
+            lowest_pvs: sat::saturated_vapour_pressure(lowest, p),
         })
     }
 
     /// The boiling limits at this pressure.
     pub(super) fn limits(&self) -> BoilingLimits {
         self.limits
+    }
+
+    /// `f p_ws` at -100 degC at this pressure, Pa.
+    pub(super) fn lowest_saturation_pressure(&self) -> f64 {
+        self.lowest_pvs
     }
 
     /// A start for the wet-bulb of air with humidity ratio `w` and enthalpy
@@ -113,7 +125,7 @@ impl PressureCache {
     pub(super) fn wet_bulb_start(&mut self, w: f64, h1: f64, rough: f64, ice: bool) -> Option<f64> {
         let p = self.limits.p_pa;
         let grid = if ice { &mut self.ice } else { &mut self.liquid };
-        grid.wet_bulb_start(p, w, h1, rough)
+        grid.invert(h1, rough, &balance(p, w, ice))
     }
 
     /// Whether the wet-bulb lies over liquid water (at or above 0 degC): the
@@ -121,8 +133,38 @@ impl PressureCache {
     /// saturated air at 0 degC does not exist at this pressure.
     pub(super) fn wet_bulb_over_liquid(&mut self, w: f64, h1: f64) -> Option<bool> {
         let p = self.limits.p_pa;
-        Some(self.liquid.node(0, p, w)?.0 <= h1)
+        Some(self.liquid.node(0, &balance(p, w, false))?.0 <= h1)
     }
+
+    /// A start for the dew point where `ln(f p_ws) = ln_pv`, from the table;
+    /// `None` when it is not between two nodes.
+    pub(super) fn dew_point_start(&mut self, ln_pv: f64, rough: f64) -> Option<f64> {
+        let p = self.limits.p_pa;
+        let saturation = |t: f64| Some(sat::ln_saturated_vapour_pressure_and_slope(t, p));
+        self.saturation
+            .invert(ln_pv, rough, &(saturation, |_| (0.0, 0.0)))
+    }
+}
+
+/// The wet-bulb balance as a table function: G at a node (computed once per
+/// pressure) and the `w h_c` added for one state, with their slopes.
+fn balance(
+    p: f64,
+    w: f64,
+    ice: bool,
+) -> (
+    impl Fn(f64) -> Option<(f64, f64)>,
+    impl Fn(f64) -> (f64, f64),
+) {
+    let fill = move |t: f64| Some(SaturatedSide::at(t, p, ice)?.balance_enthalpy(0.0));
+    let add = move |t: f64| {
+        if ice {
+            (w * thermo::ice_enthalpy(t), w * thermo::ICE_CP)
+        } else {
+            (w * thermo::liquid_enthalpy(t), w * thermo::LIQUID_CP)
+        }
+    };
+    (fill, add)
 }
 
 /// Just below the boiling point at p (IF97 backward equation, within 0.01 K of
@@ -141,24 +183,35 @@ fn wet_bulb_cap_k(p: f64) -> Result<f64, AirError> {
     })
 }
 
+/// A table function: how to fill a node (`None` where it is undefined), and
+/// what one caller adds to every node value (with its slope).
+type TableFunction<F, A> = (F, A);
+
 impl Grid {
-    /// `G + w h_c` and its slope at node k, filling the node on first use.
-    fn node(&mut self, k: usize, p: f64, w: f64) -> Option<(f64, f64)> {
+    /// Node k with the caller's addition, filling the node on first use.
+    fn node<F, A>(&mut self, k: usize, (fill, add): &TableFunction<F, A>) -> Option<(f64, f64)>
+    where
+        F: Fn(f64) -> Option<(f64, f64)>,
+        A: Fn(f64) -> (f64, f64),
+    {
         let t = self.origin + k as f64 * STEP;
         let node = self.nodes.get_mut(k)?;
         if node.0.is_nan() {
-            let side = SaturatedSide::at(t, p, self.ice)?;
-            *node = side.balance_enthalpy(0.0);
+            *node = fill(t)?;
         }
-        let (hc, cc) = if self.ice {
-            (thermo::ice_enthalpy(t), thermo::ICE_CP)
-        } else {
-            (thermo::liquid_enthalpy(t), thermo::LIQUID_CP)
-        };
-        Some((node.0 + w * hc, node.1 + w * cc))
+        let (value, slope) = add(t);
+        Some((node.0 + value, node.1 + slope))
     }
 
-    fn wet_bulb_start(&mut self, p: f64, w: f64, h1: f64, rough: f64) -> Option<f64> {
+    /// Where the (increasing) function equals `target`, by inverse cubic
+    /// Hermite interpolation between the two nodes around it; `None` when
+    /// they are not in the table. The search begins at `rough` (K) and jumps
+    /// by Newton steps on the nodes, narrowing the candidate intervals.
+    fn invert<F, A>(&mut self, target: f64, rough: f64, f: &TableFunction<F, A>) -> Option<f64>
+    where
+        F: Fn(f64) -> Option<(f64, f64)>,
+        A: Fn(f64) -> (f64, f64),
+    {
         // Interval k lies between nodes k and k + 1; search lo..=hi, narrowing.
         let mut hi = self.nodes.len().checked_sub(2)?;
         let mut lo = 0;
@@ -171,26 +224,26 @@ impl Grid {
         let mut k = index(rough, lo, hi);
         // Each pass narrows lo..=hi by at least one interval.
         for _ in 0..self.nodes.len() {
-            let (ha, da) = self.node(k, p, w)?;
+            let (ya, da) = self.node(k, f)?;
             let ta = origin + k as f64 * STEP;
-            if ha > h1 {
+            if ya > target {
                 hi = k.checked_sub(1)?;
                 if lo > hi {
                     return None;
                 }
-                k = index(ta - (ha - h1) / da, lo, hi);
+                k = index(ta - (ya - target) / da, lo, hi);
                 continue;
             }
-            let (hb, db) = self.node(k + 1, p, w)?;
-            if hb < h1 {
+            let (yb, db) = self.node(k + 1, f)?;
+            if yb < target {
                 lo = k + 1;
                 if lo > hi {
                     return None;
                 }
-                k = index(ta + STEP + (h1 - hb) / db, lo, hi);
+                k = index(ta + STEP + (target - yb) / db, lo, hi);
                 continue;
             }
-            let s = inverse_hermite(h1, (ha, da * STEP), (hb, db * STEP));
+            let s = inverse_hermite(target, (ya, da * STEP), (yb, db * STEP));
             return Some(ta + s * STEP);
         }
         None

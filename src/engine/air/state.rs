@@ -605,17 +605,30 @@ impl AirState {
     pub(crate) fn dew_point_k(&self) -> Result<f64, AirError> {
         let pv = pv_of(self.w, self.p_pa);
         let p = self.p_pa;
-        if self.w <= 0.0 || sat::saturated_vapour_pressure(T_MIN_SATURATION, p) > pv {
+        let ln_pv = pv.ln();
+        // The lowest saturation pressure and a start within micro-kelvins from
+        // the tables at this pressure (else computed here, and Magnus's start).
+        let cached = with_pressure(p, |cache| {
+            let lowest = cache.lowest_saturation_pressure();
+            let start = (self.w > 0.0 && lowest <= pv)
+                .then(|| cache.dew_point_start(ln_pv, self.rough_dew_point_k()))
+                .flatten();
+            Ok((lowest, start))
+        });
+        let (lowest, start) =
+            cached.unwrap_or_else(|_| (sat::saturated_vapour_pressure(T_MIN_SATURATION, p), None));
+        if self.w <= 0.0 || lowest > pv {
             return Err(AirError::NoDewPoint { w: self.w });
         }
-        let ln_pv = pv.ln();
         // ln of the saturation vapour pressure against ln pv, with its exact slope.
         let residual = |t: f64| {
-            let (pvs, dln_pvs) = sat::saturated_vapour_pressure_and_slope(t, p);
-            (pvs.ln() - ln_pv, dln_pvs)
+            let (ln_pvs, dln_pvs) = sat::ln_saturated_vapour_pressure_and_slope(t, p);
+            (ln_pvs - ln_pv, dln_pvs)
         };
         let hi = self.t_k.max(T_ZERO_C + 1.0);
-        let start = self.dew_point_estimate_k().clamp(T_MIN_SATURATION, hi);
+        let start = start
+            .unwrap_or_else(|| self.dew_point_estimate_k())
+            .clamp(T_MIN_SATURATION, hi);
         newton_exact(residual, T_MIN_SATURATION, hi, start, T_TOL).map_err(|e| {
             AirError::NotConverged {
                 what: "dew point",
@@ -741,7 +754,7 @@ mod tests {
     /// degC, 50..200 kPa, dry to saturated or to 20 kg/kg above the boiling
     /// point): it solves, lies between the dew point and the dry-bulb, and the
     /// state comes back from it (1e-9 relative in w, as tests/air_engine.rs, or
-    /// 1e-13 kg/kg for nearly dry air).
+    /// 1e-13 kg/kg for nearly dry air); so does it from the dew point.
     #[test]
     fn wet_bulb_solves_and_inverts_over_a_dense_grid() {
         for p in [50e3, 101_325.0, 200e3] {
@@ -759,6 +772,13 @@ mod tests {
                     assert!(twb <= t && twb >= T_MIN_SATURATION, "{s:?}: {twb}");
                     if let Ok(dew) = s.dew_point_k() {
                         assert!(dew <= twb + 1e-9, "{s:?}: dew {dew} above wet-bulb {twb}");
+                        let back = AirState::from_dew_point(
+                            ThermodynamicTemperature::new::<kelvin>(t),
+                            ThermodynamicTemperature::new::<kelvin>(dew),
+                            Pressure::new::<pascal>(p),
+                        )
+                        .unwrap_or_else(|e| panic!("{s:?} from dew point {dew}: {e}"));
+                        assert!((back.w - w).abs() <= 1e-9 * w, "{s:?}: w back {}", back.w);
                     }
                     let back = AirState::from_wet_bulb(
                         ThermodynamicTemperature::new::<kelvin>(t),
