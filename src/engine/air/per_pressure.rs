@@ -148,14 +148,7 @@ impl PressureCache {
 
 /// The wet-bulb balance as a table function: G at a node (computed once per
 /// pressure) and the `w h_c` added for one state, with their slopes.
-fn balance(
-    p: f64,
-    w: f64,
-    ice: bool,
-) -> (
-    impl Fn(f64) -> Option<(f64, f64)>,
-    impl Fn(f64) -> (f64, f64),
-) {
+fn balance(p: f64, w: f64, ice: bool) -> TableFunction<impl Fill, impl Add> {
     let fill = move |t: f64| Some(SaturatedSide::at(t, p, ice)?.balance_enthalpy(0.0));
     let add = move |t: f64| {
         if ice {
@@ -187,12 +180,20 @@ fn wet_bulb_cap_k(p: f64) -> Result<f64, AirError> {
 /// what one caller adds to every node value (with its slope).
 type TableFunction<F, A> = (F, A);
 
+/// Fills a node at a temperature: `(value, slope)`, `None` where undefined.
+trait Fill: Fn(f64) -> Option<(f64, f64)> {}
+impl<F: Fn(f64) -> Option<(f64, f64)>> Fill for F {}
+
+/// What one caller adds to a node value at a temperature, with its slope.
+trait Add: Fn(f64) -> (f64, f64) {}
+impl<A: Fn(f64) -> (f64, f64)> Add for A {}
+
 impl Grid {
     /// Node k with the caller's addition, filling the node on first use.
     fn node<F, A>(&mut self, k: usize, (fill, add): &TableFunction<F, A>) -> Option<(f64, f64)>
     where
-        F: Fn(f64) -> Option<(f64, f64)>,
-        A: Fn(f64) -> (f64, f64),
+        F: Fill,
+        A: Add,
     {
         let t = self.origin + k as f64 * STEP;
         let node = self.nodes.get_mut(k)?;
@@ -209,8 +210,8 @@ impl Grid {
     /// by Newton steps on the nodes, narrowing the candidate intervals.
     fn invert<F, A>(&mut self, target: f64, rough: f64, f: &TableFunction<F, A>) -> Option<f64>
     where
-        F: Fn(f64) -> Option<(f64, f64)>,
-        A: Fn(f64) -> (f64, f64),
+        F: Fill,
+        A: Add,
     {
         // Interval k lies between nodes k and k + 1; search lo..=hi, narrowing.
         let mut hi = self.nodes.len().checked_sub(2)?;
