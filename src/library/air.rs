@@ -23,7 +23,7 @@ use crate::diag::{Diagnostic, Span};
 use crate::engine::air::{self, AirError, AirState, ProcessOutcome, Stream};
 use crate::engine::transport::Transport;
 use crate::units::{Dim, Kind, Quantity};
-use crate::value::{Payload, Record, Value};
+use crate::value::{FieldName, Payload, Record, Value};
 
 /// The typed engine state carried by every `air` record.
 #[derive(Debug)]
@@ -561,6 +561,19 @@ struct Spans {
 }
 
 impl Spans {
+    /// The spans of the given parameters among `names`.
+    fn of_names(args: &Args, names: &[&'static str]) -> Spans {
+        let given = names
+            .iter()
+            .filter(|n| args.has(n))
+            .map(|n| (*n, args.span_of(n)))
+            .collect();
+        Spans {
+            call: args.call_span,
+            given,
+        }
+    }
+
     fn of(args: &Args) -> Spans {
         let given = args
             .builtin
@@ -621,75 +634,83 @@ const AIR_FIELDS: usize = 20;
 
 /// The record of an air state, with its payload. Warnings go to `args`.
 pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
-    let t = s.temperature().get::<kelvin>();
-    let mut r = Record::with_capacity("air", AIR_FIELDS)
-        .with("T", abs_t(t))
-        .with("rh", q(s.relative_humidity(), Dim::NONE, Kind::Activity))
-        .with("w", q(s.humidity_ratio(), Dim::NONE, Kind::HumidityRatio));
+    let mut fields: Vec<(FieldName, Value)> = Vec::with_capacity(AIR_FIELDS);
+    let mut field =
+        |name: &'static str, value: Value| fields.push((FieldName::Borrowed(name), value));
+    let w = s.humidity_ratio();
+    field("T", abs_t(s.t_kelvin()));
+    field("rh", q(s.relative_humidity(), Dim::NONE, Kind::Activity));
+    field("w", q(w, Dim::NONE, Kind::HumidityRatio));
     match s.dew_point() {
-        Ok(td) => r = r.with("dewpoint", abs_t(td.get::<kelvin>())),
+        Ok(td) => field("dewpoint", abs_t(td.get::<kelvin>())),
         Err(e) => args.warn(format!("no dew point field: {e}")),
     }
     let twb = s
         .wet_bulb()
         .map_err(|e| Diagnostic::error(args.call_span, e.to_string()))?;
-    r = r
-        .with("wetbulb", abs_t(twb.get::<kelvin>()))
-        .with(
-            "h",
-            q(s.enthalpy().value, Dim::SPECIFIC_ENERGY, Kind::Plain),
-        )
-        .with(
-            "v",
-            q(s.humid_volume().value, Dim::SPECIFIC_VOLUME, Kind::Plain),
-        )
-        .with("rho", q(s.density().value, Dim::DENSITY, Kind::Plain))
-        .with(
-            "cp",
-            q(s.humid_heat().value, Dim::SPECIFIC_HEAT, Kind::Plain),
-        )
-        .with(
-            "p",
-            q(s.pressure().get::<pascal>(), Dim::PRESSURE, Kind::Plain),
-        )
-        .with(
-            "pv",
-            q(
-                s.vapour_pressure().get::<pascal>(),
-                Dim::PRESSURE,
-                Kind::Plain,
-            ),
-        );
+    field("wetbulb", abs_t(twb.get::<kelvin>()));
+    field(
+        "h",
+        q(s.enthalpy().value, Dim::SPECIFIC_ENERGY, Kind::Plain),
+    );
+    // rho = (1 + w) / v, as AirState::density, from the volume just computed.
+    let v = s.humid_volume().value;
+    field("v", q(v, Dim::SPECIFIC_VOLUME, Kind::Plain));
+    field("rho", q((1.0 + w) / v, Dim::DENSITY, Kind::Plain));
+    field(
+        "cp",
+        q(s.humid_heat().value, Dim::SPECIFIC_HEAT, Kind::Plain),
+    );
+    field("p", q(s.p_pascal(), Dim::PRESSURE, Kind::Plain));
+    field(
+        "pv",
+        q(
+            s.vapour_pressure().get::<pascal>(),
+            Dim::PRESSURE,
+            Kind::Plain,
+        ),
+    );
     if let Some(ws) = s.saturation_humidity_ratio() {
         // The degree of saturation w / w_s, from the w_s just computed.
-        let mu = s.humidity_ratio() / ws;
-        r = r
-            .with("w_sat", q(ws, Dim::NONE, Kind::HumidityRatio))
-            .with("degree_of_saturation", q(mu, Dim::NONE, Kind::Fraction));
+        field("w_sat", q(ws, Dim::NONE, Kind::HumidityRatio));
+        field("degree_of_saturation", q(w / ws, Dim::NONE, Kind::Fraction));
     }
-    r.payload = Some(Arc::new(AirPayload(*s)));
-    Ok(r)
+    Ok(Record {
+        type_name: FieldName::Borrowed("air"),
+        fields: Arc::new(fields),
+        payload: Some(Arc::new(AirPayload(*s))),
+    })
 }
 
 // ---- air(...) ------------------------------------------------------------------------
 
 fn air_state(args: &mut Args) -> Result<Value, Diagnostic> {
-    let spans = Spans::of(args);
+    // The second property given (one of five), without allocating.
+    let mut given = [""; 5];
+    let mut count = 0;
+    for name in ["rh", "w", "wetbulb", "dewpoint", "h"] {
+        if args.has(name) {
+            given[count] = name;
+            count += 1;
+        }
+    }
+    // Engine errors name T, p or the second property.
+    let spans = if count == 1 {
+        Spans::of_names(args, &["T", given[0], "p"])
+    } else {
+        Spans::of_names(args, &["T", "p"])
+    };
     let t = temperature(args, "T")?;
-    let given: Vec<&str> = ["rh", "w", "wetbulb", "dewpoint", "h"]
-        .into_iter()
-        .filter(|n| args.has(n))
-        .collect();
-    if given.len() != 1 {
-        let message = if given.is_empty() {
+    if count != 1 {
+        let message = if count == 0 {
             "`air` needs one of rh, w, wetbulb, dewpoint or h besides T".to_string()
         } else {
             format!(
                 "`air` takes exactly one of rh, w, wetbulb, dewpoint, h; found {}",
-                given.join(", ")
+                given[..count].join(", ")
             )
         };
-        let span = if given.len() > 1 {
+        let span = if count > 1 {
             args.span_of(given[1])
         } else {
             args.call_span

@@ -13,6 +13,7 @@
 
 mod altitude;
 mod error;
+mod per_pressure;
 mod process;
 pub mod saturation;
 mod state;

@@ -272,13 +272,42 @@ pub(crate) fn exp_small(x: f64) -> f64 {
     }
 }
 
+/// `p_ws`, `ln f` and `d ln(f p_ws) / dT` over one phase, given ln p_ws of
+/// that phase and its slope.
+#[inline]
+fn phase_terms(t: f64, p: f64, ln_es: f64, dln_es: f64, c: &[f64; 8]) -> (f64, f64, f64) {
+    let es = ln_es.exp();
+    let (ln_f, dln_f) = enhancement_exponent_and_slope(t, p, es, dln_es, c);
+    (es, ln_f, dln_es + dln_f)
+}
+
 /// `f p_ws` over one phase and `d ln(f p_ws) / dT`, given ln p_ws of that
 /// phase and its slope.
 #[inline]
 fn phase_pressure_and_slope(t: f64, p: f64, ln_es: f64, dln_es: f64, c: &[f64; 8]) -> (f64, f64) {
-    let es = ln_es.exp();
-    let (ln_f, dln_f) = enhancement_exponent_and_slope(t, p, es, dln_es, c);
-    (es * exp_small(ln_f), dln_es + dln_f)
+    let (es, ln_f, slope) = phase_terms(t, p, ln_es, dln_es, c);
+    (es * exp_small(ln_f), slope)
+}
+
+/// [`ln_saturated_vapour_pressure`] and its temperature derivative (1/K),
+/// analytic as in [`saturated_vapour_pressure_and_slope`] (a central
+/// difference across 0..0.01 degC), without taking the logarithm of the
+/// pressure: the dew-point residual.
+#[inline]
+pub fn ln_saturated_vapour_pressure_and_slope(t: f64, p: f64) -> (f64, f64) {
+    let (ln_es, dln_es, c) = if t >= T_TRIPLE {
+        (ln_water(t), ln_water_slope(t), &HARDY_WATER)
+    } else if t <= T_ZERO_C {
+        (ln_ice_hyland_wexler(t), ln_ice_slope(t), &HARDY_ICE)
+    } else {
+        let dt = 1e-6;
+        let slope = (ln_saturated_vapour_pressure(t + dt, p)
+            - ln_saturated_vapour_pressure(t - dt, p))
+            / (2.0 * dt);
+        return (ln_saturated_vapour_pressure(t, p), slope);
+    };
+    let (_, ln_f, slope) = phase_terms(t, p, ln_es, dln_es, c);
+    (ln_es + ln_f, slope)
 }
 
 /// Vapour partial pressure of saturated moist air at T (K) and total pressure p (Pa):
@@ -392,6 +421,23 @@ mod tests {
         ] {
             let got = if97_saturation_temperature(p_mpa * 1e6);
             assert!((got / t - 1.0).abs() < 1e-8, "p={p_mpa}: {got} vs {t}");
+        }
+    }
+
+    #[test]
+    fn log_pressure_and_slope_match_the_pressure() {
+        for t in [
+            173.15, 200.0, 273.15, 273.155, 273.16, 300.0, 373.0, 450.0, 600.0,
+        ] {
+            for p in [50e3, 101_325.0, 200e3] {
+                let (ln_pvs, dln) = ln_saturated_vapour_pressure_and_slope(t, p);
+                let (pvs, slope) = saturated_vapour_pressure_and_slope(t, p);
+                assert!(
+                    (ln_pvs - pvs.ln()).abs() < 1e-14 * pvs.ln().abs().max(1.0),
+                    "{t} {p}"
+                );
+                assert!((dln - slope).abs() <= 1e-12 * slope.abs(), "{t} {p}");
+            }
         }
     }
 

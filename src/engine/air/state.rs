@@ -21,6 +21,7 @@ use uom::si::specific_heat_capacity::joule_per_kilogram_kelvin;
 use uom::si::specific_volume::cubic_meter_per_kilogram;
 use uom::si::thermodynamic_temperature::kelvin;
 
+use super::per_pressure::{with_pressure, BoilingLimits, PressureCache};
 use super::saturation::{self as sat, T_MIN_SATURATION, T_ZERO_C};
 use super::thermo::{self, EPSILON};
 use super::AirError;
@@ -159,6 +160,67 @@ fn w_for_enthalpy(t: f64, p: f64, target: f64, hc: f64) -> Result<f64, AirError>
     })
 }
 
+/// The saturated side of the adiabatic-saturation balance at a trial wet-bulb
+/// T* (everything that depends on T* and p only), with T*-derivatives along
+/// the saturation line.
+#[derive(Clone, Copy, Debug)]
+pub(super) struct SaturatedSide {
+    /// `w_s* (h_v* - h_c)`, the vapour "supply", J/kg dry air.
+    pub supply: f64,
+    /// `d ln supply / dT*`, 1/K.
+    pub dln_supply: f64,
+    /// `h_a(T*)`, the enthalpy of everything but the vapour, J/kg dry air.
+    pub ha: f64,
+    /// `d h_a / dT*` along the saturation line, J/(kg K).
+    pub dha: f64,
+    /// Enthalpy of the condensed phase `h_c(T*)`, J/kg, and its slope `c_c`, J/(kg K).
+    pub hc: f64,
+    pub cc: f64,
+}
+
+impl SaturatedSide {
+    /// The terms at T* (K) and p (Pa), over ice when `ice`; `None` at or above
+    /// the boiling point at p (no saturated air).
+    #[inline]
+    pub(super) fn at(ts: f64, p: f64, ice: bool) -> Option<SaturatedSide> {
+        let (pvs, dln_pvs) = sat::saturated_vapour_pressure_and_slope(ts, p);
+        if pvs >= p {
+            return None;
+        }
+        let per_pa = 1.0 / (p - pvs);
+        let ws = EPSILON * pvs * per_pa;
+        let dpvs = pvs * dln_pvs;
+        let hv = thermo::vapour_enthalpy_and_slopes(ts, pvs);
+        let (hc, cc) = if ice {
+            (thermo::ice_enthalpy(ts), thermo::ICE_CP)
+        } else {
+            (thermo::liquid_enthalpy(ts), thermo::LIQUID_CP)
+        };
+        let latent = hv.value - hc;
+        let ha = thermo::air_part_enthalpy_and_slopes(ts, p - pvs, pvs);
+        let dln_ws = p * per_pa * dln_pvs;
+        let dlatent = hv.d_t + hv.d_pv * dpvs - cc;
+        Some(SaturatedSide {
+            supply: ws * latent,
+            dln_supply: dln_ws + dlatent / latent,
+            ha: ha.value,
+            dha: ha.d_t + (ha.d_pv - ha.d_pa) * dpvs,
+            hc,
+            cc,
+        })
+    }
+
+    /// `h(T*, w_s*) - (w_s* - w) h_c(T*)`: the enthalpy the balance sets equal to
+    /// h1 (increasing in T*), J/kg dry air, with its slope, J/(kg K).
+    #[inline]
+    pub(super) fn balance_enthalpy(&self, w: f64) -> (f64, f64) {
+        (
+            self.ha + self.supply + w * self.hc,
+            self.dha + self.supply * self.dln_supply + w * self.cc,
+        )
+    }
+}
+
 /// The adiabatic-saturation balance in log form, and its slope, 1/K.
 ///
 /// The balance `h(T*, w_s*) - h1 - (w_s* - w) h_c(T*) = 0` is
@@ -169,32 +231,17 @@ fn w_for_enthalpy(t: f64, p: f64, target: f64, hc: f64) -> Result<f64, AirError>
 /// analytically, the vapour pressure moving along the saturation line), so the
 /// iteration converges quadratically.
 fn wet_bulb_residual(ts: f64, w: f64, p: f64, h1: f64, ice: bool) -> (f64, f64) {
-    let (pvs, dln_pvs) = sat::saturated_vapour_pressure_and_slope(ts, p);
-    if pvs >= p {
+    let Some(side) = SaturatedSide::at(ts, p, ice) else {
         return (f64::INFINITY, f64::INFINITY);
-    }
-    let per_pa = 1.0 / (p - pvs);
-    let ws = EPSILON * pvs * per_pa;
-    let dpvs = pvs * dln_pvs;
-    let hv = thermo::vapour_enthalpy_and_slopes(ts, pvs);
-    let (hc, cc) = if ice {
-        (thermo::ice_enthalpy(ts), thermo::ICE_CP)
-    } else {
-        (thermo::liquid_enthalpy(ts), thermo::LIQUID_CP)
     };
-    let latent = hv.value - hc;
-    let supply = ws * latent;
-    let ha = thermo::air_part_enthalpy_and_slopes(ts, p - pvs, pvs);
-    let demand = h1 - ha.value - w * hc;
+    let demand = h1 - side.ha - w * side.hc;
     if demand <= 0.0 {
         return (f64::INFINITY, f64::INFINITY);
     }
     let per_demand = 1.0 / demand;
-    let dln_ws = p * per_pa * dln_pvs;
-    let dlatent = hv.d_t + hv.d_pv * dpvs - cc;
-    let ddemand = -(ha.d_t + (ha.d_pv - ha.d_pa) * dpvs) - w * cc;
-    let slope = dln_ws + dlatent / latent - ddemand * per_demand;
-    (ln_near_one(supply * per_demand), slope)
+    let ddemand = -side.dha - w * side.cc;
+    let slope = side.dln_supply - ddemand * per_demand;
+    (ln_near_one(side.supply * per_demand), slope)
 }
 
 /// `ln x`, by the series of `ln(1 + u)` to u^6 when `|u| = |x - 1| < 1e-3`
@@ -210,6 +257,17 @@ fn ln_near_one(x: f64) -> f64 {
     } else {
         x.ln()
     }
+}
+
+/// `ln x` within 2e-4 for normal positive x: the binary exponent, and for the
+/// mantissa m in [1, 2) the series `2 atanh z`, `z = (m - 1)/(m + 1)`, to z^5.
+fn rough_ln(x: f64) -> f64 {
+    let bits = x.to_bits();
+    let exponent = ((bits >> 52) & 0x7ff) as f64 - 1023.0;
+    let m = f64::from_bits((bits & 0x000f_ffff_ffff_ffff) | 0x3ff0_0000_0000_0000);
+    let z = (m - 1.0) / (m + 1.0);
+    let z2 = z * z;
+    exponent * std::f64::consts::LN_2 + 2.0 * z * (1.0 + z2 * (1.0 / 3.0 + z2 * 0.2))
 }
 
 /// Rough wet-bulb from the dew point `dew` (K) and dry-bulb `t` (K), to start
@@ -547,17 +605,30 @@ impl AirState {
     pub(crate) fn dew_point_k(&self) -> Result<f64, AirError> {
         let pv = pv_of(self.w, self.p_pa);
         let p = self.p_pa;
-        if self.w <= 0.0 || sat::saturated_vapour_pressure(T_MIN_SATURATION, p) > pv {
+        let ln_pv = pv.ln();
+        // The lowest saturation pressure and a start within micro-kelvins from
+        // the tables at this pressure (else computed here, and Magnus's start).
+        let cached = with_pressure(p, |cache| {
+            let lowest = cache.lowest_saturation_pressure();
+            let start = (self.w > 0.0 && lowest <= pv)
+                .then(|| cache.dew_point_start(ln_pv, self.rough_dew_point_k()))
+                .flatten();
+            Ok((lowest, start))
+        });
+        let (lowest, start) =
+            cached.unwrap_or_else(|_| (sat::saturated_vapour_pressure(T_MIN_SATURATION, p), None));
+        if self.w <= 0.0 || lowest > pv {
             return Err(AirError::NoDewPoint { w: self.w });
         }
-        let ln_pv = pv.ln();
         // ln of the saturation vapour pressure against ln pv, with its exact slope.
         let residual = |t: f64| {
-            let (pvs, dln_pvs) = sat::saturated_vapour_pressure_and_slope(t, p);
-            (pvs.ln() - ln_pv, dln_pvs)
+            let (ln_pvs, dln_pvs) = sat::ln_saturated_vapour_pressure_and_slope(t, p);
+            (ln_pvs - ln_pv, dln_pvs)
         };
         let hi = self.t_k.max(T_ZERO_C + 1.0);
-        let start = self.dew_point_estimate_k().clamp(T_MIN_SATURATION, hi);
+        let start = start
+            .unwrap_or_else(|| self.dew_point_estimate_k())
+            .clamp(T_MIN_SATURATION, hi);
         newton_exact(residual, T_MIN_SATURATION, hi, start, T_TOL).map_err(|e| {
             AirError::NotConverged {
                 what: "dew point",
@@ -577,10 +648,15 @@ impl AirState {
     }
 
     pub(crate) fn wet_bulb_k(&self) -> Result<f64, AirError> {
+        with_pressure(self.p_pa, |cache| self.wet_bulb_with(cache))
+    }
+
+    /// [`AirState::wet_bulb_k`] with the cache of this state's pressure.
+    fn wet_bulb_with(&self, cache: &mut PressureCache) -> Result<f64, AirError> {
         let (t, w, p) = (self.t_k, self.w, self.p_pa);
         let h1 = h_of(t, w, p);
-        let hi = self.wet_bulb_upper_k()?;
-        let dew = self.dew_point_estimate_k().min(hi);
+        let hi = self.wet_bulb_upper_k(cache.limits());
+        let dew = self.rough_dew_point_k().min(hi);
         let err = |e| AirError::NotConverged {
             what: "wet-bulb temperature",
             reason: e,
@@ -589,7 +665,11 @@ impl AirState {
         // Over liquid water when a root at or above 0 degC exists, else over ice.
         let (lo, hi, ice) = if hi < T_ZERO_C {
             (T_MIN_SATURATION, hi, true)
-        } else if dew >= T_ZERO_C + 2.0 || wet_bulb_residual(T_ZERO_C, w, p, h1, false).0 <= 0.0 {
+        } else if dew >= T_ZERO_C + 2.0
+            || cache
+                .wet_bulb_over_liquid(w, h1)
+                .unwrap_or_else(|| wet_bulb_residual(T_ZERO_C, w, p, h1, false).0 <= 0.0)
+        {
             (T_ZERO_C, hi, false)
         } else {
             (T_MIN_SATURATION, T_ZERO_C, true)
@@ -605,7 +685,13 @@ impl AirState {
                 what: format!("the wet-bulb of nearly pure steam (w = {w:.1} kg/kg) is within 0.02 K of the boiling point"),
             });
         }
-        let ts = newton_exact(f, lo, hi, guess.clamp(lo, hi), T_TOL).map_err(err)?;
+        // The table of the balance at this pressure gives a start within
+        // micro-kelvins (two evaluations of the exact balance).
+        let start = cache
+            .wet_bulb_start(w, h1, guess, ice)
+            .unwrap_or(guess)
+            .clamp(lo, hi);
+        let ts = newton_exact(f, lo, hi, start, T_TOL).map_err(err)?;
         // A saturated state: the root is the dry-bulb itself up to rounding.
         Ok(ts.min(t))
     }
@@ -618,80 +704,41 @@ impl AirState {
         (T_ZERO_C + 243.04 * l / (17.625 - l)).max(T_MIN_SATURATION)
     }
 
+    /// [`AirState::dew_point_estimate_k`] with a rough logarithm (within 2e-4,
+    /// a few millikelvin in the dew point): where the wet-bulb search begins.
+    fn rough_dew_point_k(&self) -> f64 {
+        let pv = pv_of(self.w, self.p_pa);
+        let l = rough_ln(pv.max(1e-3) * (1.0 / 610.94));
+        (T_ZERO_C + 243.04 * l / (17.625 - l)).max(T_MIN_SATURATION)
+    }
+
     /// Upper end of the wet-bulb bracket: the dry-bulb, or just below the boiling
     /// point at p when the dry-bulb is above it.
-    fn wet_bulb_upper_k(&self) -> Result<f64, AirError> {
-        let limits = boiling_limits(self.p_pa)?;
+    fn wet_bulb_upper_k(&self, limits: BoilingLimits) -> f64 {
         // Clearly below or above the boiling point; within rounding of it, ask
         // the saturation curve itself.
         let margin = 1e-6;
         if self.t_k < limits.boiling_k - margin {
-            return Ok(self.t_k);
+            return self.t_k;
         }
         if self.t_k <= limits.boiling_k + margin && self.pvs_pa < self.p_pa {
-            return Ok(self.t_k);
+            return self.t_k;
         }
-        Ok(limits.wet_bulb_cap_k)
+        limits.wet_bulb_cap_k
     }
-}
-
-/// Where humid air at one total pressure stops being saturable.
-#[derive(Clone, Copy, Debug, PartialEq)]
-struct BoilingLimits {
-    /// Total pressure, Pa.
-    p_pa: f64,
-    /// Boiling point of water at p (where `f p_ws = p`), K.
-    boiling_k: f64,
-    /// Highest temperature below it, on a 0.02 K grid down from the IF97
-    /// backward equation, where saturated air exists: the top of the wet-bulb
-    /// bracket for dry-bulbs above the boiling point, K.
-    wet_bulb_cap_k: f64,
-}
-
-thread_local! {
-    /// The limits at the last pressure used on this thread: a sweep at one
-    /// pressure solves for the boiling point once, not once per state.
-    static BOILING: std::cell::Cell<Option<BoilingLimits>> = const { std::cell::Cell::new(None) };
-}
-
-/// The boiling limits at `p` (Pa), from the per-thread cache or computed.
-fn boiling_limits(p: f64) -> Result<BoilingLimits, AirError> {
-    if let Some(cached) = BOILING.with(std::cell::Cell::get) {
-        if cached.p_pa == p {
-            return Ok(cached);
-        }
-    }
-    let limits = BoilingLimits {
-        p_pa: p,
-        boiling_k: sat::boiling_point(p).map_err(|e| AirError::NotConverged {
-            what: "boiling point",
-            reason: e,
-        })?,
-        wet_bulb_cap_k: wet_bulb_cap_k(p)?,
-    };
-    BOILING.with(|cell| cell.set(Some(limits)));
-    Ok(limits)
-}
-
-/// Just below the boiling point at p (IF97 backward equation, within 0.01 K of
-/// our curve): w_s* there exceeds 100 kg/kg, so the wet-bulb balance is positive.
-fn wet_bulb_cap_k(p: f64) -> Result<f64, AirError> {
-    let tb = sat::if97_saturation_temperature(p.clamp(611.3, sat::P_CRITICAL));
-    let mut hi = tb - 0.02;
-    for _ in 0..40 {
-        if ws_of(hi, p).is_some() {
-            return Ok(hi);
-        }
-        hi -= 0.02;
-    }
-    Err(AirError::ProcessOutOfRange {
-        what: "no saturated state below the boiling point".into(),
-    })
 }
 
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn rough_log_is_within_its_bound() {
+        for i in 0..4000 {
+            let x = 1e-3 * 1.01f64.powi(i);
+            assert!((rough_ln(x) - x.ln()).abs() < 2e-4, "{x}");
+        }
+    }
 
     #[test]
     fn log_series_matches_ln() {
@@ -707,7 +754,7 @@ mod tests {
     /// degC, 50..200 kPa, dry to saturated or to 20 kg/kg above the boiling
     /// point): it solves, lies between the dew point and the dry-bulb, and the
     /// state comes back from it (1e-9 relative in w, as tests/air_engine.rs, or
-    /// 1e-13 kg/kg for nearly dry air).
+    /// 1e-13 kg/kg for nearly dry air); so does it from the dew point.
     #[test]
     fn wet_bulb_solves_and_inverts_over_a_dense_grid() {
         for p in [50e3, 101_325.0, 200e3] {
@@ -725,6 +772,13 @@ mod tests {
                     assert!(twb <= t && twb >= T_MIN_SATURATION, "{s:?}: {twb}");
                     if let Ok(dew) = s.dew_point_k() {
                         assert!(dew <= twb + 1e-9, "{s:?}: dew {dew} above wet-bulb {twb}");
+                        let back = AirState::from_dew_point(
+                            ThermodynamicTemperature::new::<kelvin>(t),
+                            ThermodynamicTemperature::new::<kelvin>(dew),
+                            Pressure::new::<pascal>(p),
+                        )
+                        .unwrap_or_else(|e| panic!("{s:?} from dew point {dew}: {e}"));
+                        assert!((back.w - w).abs() <= 1e-9 * w, "{s:?}: w back {}", back.w);
                     }
                     let back = AirState::from_wet_bulb(
                         ThermodynamicTemperature::new::<kelvin>(t),

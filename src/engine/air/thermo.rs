@@ -176,12 +176,12 @@ fn air_tau_alpha_tau(tau: f64, inv: f64) -> (f64, f64) {
         let value = a * b * tau * r;
         (value, value * (1.0 - b * tau * e * r))
     };
-    let (last, tau_dlast) = air_last_term(tau);
     let root = tau.sqrt();
     // N11 = 1.5 N12 + 0.002535: e^(N11 tau) is e^(N12 tau)^1.5 times a factor
     // within 0.2 % of 1 (a short series), one exponential instead of two
     // (a few units in the last place on terms below 3 % of the sum).
     let e12 = (n[11] * tau).exp();
+    let (last, tau_dlast) = air_last_term(tau, e12);
     let e11 = e12 * e12.sqrt() * super::saturation::exp_small((n[10] - 1.5 * n[11]) * tau);
     let (p1, tau_dp1) = planck(n[7], n[10], e11);
     let (p2, tau_dp2) = planck(n[8], n[11], e12);
@@ -191,17 +191,34 @@ fn air_tau_alpha_tau(tau: f64, inv: f64) -> (f64, f64) {
 }
 
 /// Lemmon's last term `N10 N13 tau / (2/3 e^(-N13 tau) + 1)` and tau times its
-/// derivative. Below about 31 degC (N13 tau > 37) the exponential is under
-/// 2^-54 and drops out of the sum exactly, so it is not evaluated.
+/// derivative, given `e12 = e^(N12 tau)`. Below about 31 degC (N13 tau > 37)
+/// the exponential is under 2^-54 and drops out of the sum exactly, so it is
+/// not evaluated. Between 31 and 190 degC (25 < N13 tau <= 37) it is under
+/// 1.4e-11 and needs only a few digits: `e^(-N13 tau) = e12^-5 e^(-c tau)` with
+/// `c = N13 - 5 N12`, `c tau` within 0.21 of 1, by a series to the sixth power
+/// (relative error under 4e-9, so under 1e-19 of the term). Above, `exp`.
 #[inline]
-fn air_last_term(tau: f64) -> (f64, f64) {
+fn air_last_term(tau: f64, e12: f64) -> (f64, f64) {
     let n = &LEMMON_N;
     let x = n[12] * tau;
     if x > 37.0 {
         let last = n[9] * x;
         return (last, last);
     }
-    let q = 2.0 / 3.0 * (-x).exp();
+    let small = if x > 25.0 {
+        let u = 1.0 - (n[12] - 5.0 * n[11]) * tau;
+        let series = 1.0
+            + u * (1.0
+                + u * 0.5
+                    * (1.0
+                        + u * (1.0 / 3.0)
+                            * (1.0 + u * 0.25 * (1.0 + u * 0.2 * (1.0 + u * (1.0 / 6.0))))));
+        let e2 = e12 * e12;
+        std::f64::consts::E.recip() * series / (e2 * e2 * e12)
+    } else {
+        (-x).exp()
+    };
+    let q = 2.0 / 3.0 * small;
     let r = 1.0 / (q + 1.0);
     let last = n[9] * x * r;
     (last, last * (1.0 + x * q * r))
@@ -305,15 +322,12 @@ fn vapour_residual_enthalpy_and_slopes(t: f64, pv: f64) -> (f64, f64, f64) {
     let inv_t = 1.0 / t;
     let tau = 540.0 * inv_t;
     let x = tau - 0.5;
-    let g_tau: f64 = IF97_VIRIAL
-        .iter()
-        .map(|&(j, n)| n * j as f64 * x.powi(j - 1))
-        .sum();
-    let g_tau_tau: f64 = IF97_VIRIAL
-        .iter()
-        .filter(|&&(j, _)| j >= 2)
-        .map(|&(j, n)| n * (j * (j - 1)) as f64 * x.powi(j - 2))
-        .sum();
+    // sum n J x^(J-1) and sum n J (J-1) x^(J-2) over the table (J = 0, 1, 2, 3, 6),
+    // written out.
+    let n = |i: usize| IF97_VIRIAL[i].1;
+    let (x2, x4) = (x * x, x * x * x * x);
+    let g_tau = n(1) + 2.0 * n(2) * x + 3.0 * n(3) * x2 + 6.0 * n(4) * (x4 * x);
+    let g_tau_tau = 2.0 * n(2) + 6.0 * n(3) * x + 30.0 * n(4) * x4;
     let scale = R_WATER_IF97 * 540.0 * 1e-6;
     (
         scale * pv * g_tau,
@@ -325,7 +339,9 @@ fn vapour_residual_enthalpy_and_slopes(t: f64, pv: f64) -> (f64, f64, f64) {
 /// Compressibility excess `Z - 1` of water vapour at partial pressure pv (Pa), second-virial level.
 pub fn vapour_compressibility_excess(t: f64, pv: f64) -> f64 {
     let x = 540.0 / t - 0.5;
-    let sum: f64 = IF97_VIRIAL.iter().map(|&(j, n)| n * x.powi(j)).sum();
+    let n = |i: usize| IF97_VIRIAL[i].1;
+    let (x2, x3) = (x * x, x * x * x);
+    let sum = n(0) + n(1) * x + n(2) * x2 + n(3) * x3 + n(4) * (x3 * x3);
     (pv / 1e6) * sum
 }
 
@@ -395,6 +411,29 @@ mod tests {
         ] {
             let h = (vapour_ideal_enthalpy_if97(t) + vapour_residual_enthalpy(t, 3500.0)) / 1e3;
             assert!((h - h_kj).abs() < tol, "T={t}: {h} vs {h_kj}");
+        }
+    }
+
+    /// The written-out virial sums against the table of (J, n) they come from.
+    #[test]
+    fn virial_sums_match_the_table() {
+        for i in 0..50 {
+            let t = 233.15 + 8.0 * i as f64;
+            let x = 540.0 / t - 0.5;
+            let sum = |f: &dyn Fn(i32, f64) -> f64| -> f64 {
+                IF97_VIRIAL.iter().map(|&(j, n)| f(j, n)).sum()
+            };
+            let g_tau = sum(&|j, n| n * j as f64 * x.powi(j - 1));
+            let g_tau_tau = sum(&|j, n| n * (j * (j - 1)) as f64 * x.powi(j - 2));
+            let z = sum(&|j, n| n * x.powi(j));
+            let scale = R_WATER_IF97 * 540.0 * 1e-6;
+            let (h, dh_dt, dh_dpv) = vapour_residual_enthalpy_and_slopes(t, 1e4);
+            let close = |a: f64, b: f64| (a - b).abs() <= 1e-14 * b.abs();
+            assert!(close(dh_dpv, scale * g_tau), "T={t}");
+            assert!(close(h, scale * 1e4 * g_tau), "T={t}");
+            let tau = 540.0 / t;
+            assert!(close(dh_dt, -scale * 1e4 * g_tau_tau * tau / t), "T={t}");
+            assert!(close(vapour_compressibility_excess(t, 1e6), z), "T={t}");
         }
     }
 
@@ -468,6 +507,26 @@ mod tests {
                 "T={t}: {ours} vs {want}"
             );
             t += 0.37;
+        }
+    }
+
+    /// The last term's short exponential (25 < N13 tau <= 37) against `exp`.
+    #[test]
+    fn last_term_matches_exp() {
+        let n = &LEMMON_N;
+        let mut x = 24.0;
+        while x <= 37.0 {
+            let tau = x / n[12];
+            let (ours, tau_d) = air_last_term(tau, (n[11] * tau).exp());
+            let q = 2.0 / 3.0 * (-x).exp();
+            let want = n[9] * x / (q + 1.0);
+            let want_d = want * (1.0 + x * q / (q + 1.0));
+            assert!(
+                (ours - want).abs() <= 2.5e-16 * want.abs(),
+                "x={x}: {ours} vs {want}"
+            );
+            assert!((tau_d - want_d).abs() <= 2.5e-16 * want_d.abs(), "x={x}");
+            x += 0.013;
         }
     }
 
