@@ -71,6 +71,31 @@ pub trait Model {
         self.gradient(params, point, out)
             .then(|| self.value(params, point))
     }
+
+    /// Values at every point (into `values`) and analytic derivatives
+    /// (into `gradients`, row-major `n x p`) in one call; `false` when the
+    /// model has no derivatives. The default calls
+    /// [`Model::value_and_gradient`] point by point; a model can do better by
+    /// choosing its formula once and running one tight loop over the points.
+    fn values_and_gradients(
+        &self,
+        params: &[f64],
+        values: &mut [f64],
+        gradients: &mut [f64],
+    ) -> bool {
+        let p = params.len();
+        for (i, (v, g)) in values
+            .iter_mut()
+            .zip(gradients.chunks_exact_mut(p))
+            .enumerate()
+        {
+            match self.value_and_gradient(params, i, g) {
+                Some(f) => *v = f,
+                None => return false,
+            }
+        }
+        true
+    }
 }
 
 /// Options for [`fit`].
@@ -315,16 +340,12 @@ pub fn fit(
     if start.len() <= compact::MAX_PARAMS {
         match compact::minimise(model, y, &weights, &maps, start, options) {
             Ok(done) => {
-                let normal = match done.normal {
-                    Some(normal) => normal,
-                    None => central_normal(model, &weights, &done.params),
-                };
                 return finish(
                     y,
                     &weights,
                     done.params,
                     done.fitted,
-                    &normal,
+                    &done.normal,
                     bounds,
                     done.evaluations,
                 );
