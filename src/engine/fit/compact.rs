@@ -33,7 +33,7 @@
 #![allow(clippy::needless_range_loop)]
 
 use super::transform::Transform;
-use super::{forward_gradient, FitOptions, Model};
+use super::{forward_gradient, least_sizes, FitOptions, Model};
 
 /// Largest parameter count handled here.
 pub(super) const MAX_PARAMS: usize = 6;
@@ -193,11 +193,12 @@ fn difference_sums<const P: usize>(
     weights: &[f64],
     fitted: &[f64],
     x: &[f64],
+    least: &[f64],
 ) -> Result<Sums, usize> {
     let mut probe = [0.0; P];
     probe.copy_from_slice(x);
     accumulate::<P>(y, weights, fitted, |i, g| {
-        forward_gradient(model, &mut probe, i, fitted[i], g);
+        forward_gradient(model, &mut probe, least, i, fitted[i], g);
     })
 }
 
@@ -208,6 +209,8 @@ struct Data<'a> {
     weights: &'a [f64],
     analytic: bool,
     p: usize,
+    /// Least size of each parameter for difference steps.
+    least: Vec<f64>,
 }
 
 impl Data<'_> {
@@ -248,7 +251,7 @@ impl Data<'_> {
     fn differences(&self, x: &[f64], fitted: &[f64], chi2: f64) -> Sums {
         let sums = for_count!(
             self.p,
-            difference_sums(self.model, self.y, self.weights, fitted, x)
+            difference_sums(self.model, self.y, self.weights, fitted, x, &self.least)
         );
         // The values were finite when `chi2` was summed, so every residual is.
         let mut sums = sums.unwrap_or_else(|_| Sums::empty());
@@ -294,6 +297,7 @@ pub(super) fn minimise(
             .value_and_gradient(start, 0, &mut probe[..p])
             .is_some(),
         p,
+        least: least_sizes(start),
     };
     let mut fitted = vec![0.0; y.len()];
     let mut trial_fitted = vec![0.0; y.len()];
