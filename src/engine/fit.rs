@@ -340,16 +340,7 @@ pub fn fit(
     if start.len() <= compact::MAX_PARAMS {
         match compact::minimise(model, y, &weights, &maps, start, options) {
             Ok(done) => {
-                return finish(
-                    y,
-                    &weights,
-                    start,
-                    done.params,
-                    done.fitted,
-                    &done.normal,
-                    bounds,
-                    done.evaluations,
-                );
+                return finish(y, &weights, start, bounds, done);
             }
             Err(compact::Stop::UndefinedAtStart(point)) => {
                 return Err(FitError::ModelUndefined { point })
@@ -395,31 +386,26 @@ fn fit_general(
         Some(g) => normal_matrix(weights, g, p),
         None => central_normal(model, weights, &params, &least_sizes(start)),
     };
-    finish(
-        y,
-        weights,
-        start,
+    let done = compact::Converged {
         params,
         fitted,
-        &normal,
-        bounds,
-        report.number_of_evaluations,
-    )
+        normal,
+        evaluations: report.number_of_evaluations,
+    };
+    finish(y, weights, start, bounds, done)
 }
 
 /// Statistics of a converged fit, refused when a parameter is not determined.
+/// (`done` comes from either minimiser.)
 fn finish(
     y: &[f64],
     weights: &[f64],
     start: &[f64],
-    params: Vec<f64>,
-    fitted: Vec<f64>,
-    normal: &[f64],
     bounds: &[(f64, f64)],
-    evaluations: usize,
+    done: compact::Converged,
 ) -> Result<FitResult, FitError> {
-    let mut result = statistics(y, weights, &params, fitted, normal, bounds)?;
-    result.evaluations = evaluations;
+    let mut result = statistics(y, weights, &done.params, done.fitted, &done.normal, bounds)?;
+    result.evaluations = done.evaluations;
     check_determined(&result, start)?;
     Ok(result)
 }
