@@ -18,7 +18,10 @@
 //! `FIT_CPU_TIMING=1` it instead prints the fitted parameters and the CPU time
 //! per fit (process CPU clock, fair when other jobs share the machine), which
 //! benches/fit_compare.py compares with scipy in one run (`FIT_CASE=name`
-//! times one case only, for profiling).
+//! times one case only, for profiling; `FIT_REPS=n` repeats each case exactly
+//! `n` times in one round, so that instruction counts under callgrind are
+//! repeatable: the difference of two counts over the difference of `n` is
+//! the count per fit).
 //! Target: at least 20 times faster than scipy, parameters within 0.5 %.
 
 use std::hint::black_box;
@@ -182,8 +185,9 @@ fn cpu_timing() {
             black_box(fit());
             (cpu_seconds() - t0).max(1e-7)
         };
-        let reps = ((0.3 / once) as usize).max(10);
-        let best = (0..3)
+        let fixed = std::env::var("FIT_REPS").ok().and_then(|r| r.parse().ok());
+        let reps = fixed.unwrap_or(((0.3 / once) as usize).max(10));
+        let best = (0..if fixed.is_some() { 1 } else { 3 })
             .map(|_| {
                 let t0 = cpu_seconds();
                 for _ in 0..reps {

@@ -71,6 +71,31 @@ pub trait Model {
         self.gradient(params, point, out)
             .then(|| self.value(params, point))
     }
+
+    /// Values at every point (into `values`) and analytic derivatives
+    /// (into `gradients`, row-major `n x p`) in one call; `false` when the
+    /// model has no derivatives. The default calls
+    /// [`Model::value_and_gradient`] point by point; a model can do better by
+    /// choosing its formula once and running one tight loop over the points.
+    fn values_and_gradients(
+        &self,
+        params: &[f64],
+        values: &mut [f64],
+        gradients: &mut [f64],
+    ) -> bool {
+        let p = params.len();
+        for (i, (v, g)) in values
+            .iter_mut()
+            .zip(gradients.chunks_exact_mut(p))
+            .enumerate()
+        {
+            match self.value_and_gradient(params, i, g) {
+                Some(f) => *v = f,
+                None => return false,
+            }
+        }
+        true
+    }
 }
 
 /// Options for [`fit`].
@@ -315,19 +340,7 @@ pub fn fit(
     if start.len() <= compact::MAX_PARAMS {
         match compact::minimise(model, y, &weights, &maps, start, options) {
             Ok(done) => {
-                let normal = match done.normal {
-                    Some(normal) => normal,
-                    None => central_normal(model, &weights, &done.params),
-                };
-                return finish(
-                    y,
-                    &weights,
-                    done.params,
-                    done.fitted,
-                    &normal,
-                    bounds,
-                    done.evaluations,
-                );
+                return finish(y, &weights, start, bounds, done);
             }
             Err(compact::Stop::UndefinedAtStart(point)) => {
                 return Err(FitError::ModelUndefined { point })
@@ -371,42 +384,48 @@ fn fit_general(
     let p = params.len();
     let normal = match &problem.analytic {
         Some(g) => normal_matrix(weights, g, p),
-        None => central_normal(model, weights, &params),
+        None => central_normal(model, weights, &params, &least_sizes(start)),
     };
-    finish(
-        y,
-        weights,
+    let done = compact::Converged {
         params,
         fitted,
-        &normal,
-        bounds,
-        report.number_of_evaluations,
-    )
+        normal,
+        evaluations: report.number_of_evaluations,
+    };
+    finish(y, weights, start, bounds, done)
 }
 
 /// Statistics of a converged fit, refused when a parameter is not determined.
+/// (`done` comes from either minimiser.)
 fn finish(
     y: &[f64],
     weights: &[f64],
-    params: Vec<f64>,
-    fitted: Vec<f64>,
-    normal: &[f64],
+    start: &[f64],
     bounds: &[(f64, f64)],
-    evaluations: usize,
+    done: compact::Converged,
 ) -> Result<FitResult, FitError> {
-    let mut result = statistics(y, weights, &params, fitted, normal, bounds)?;
-    result.evaluations = evaluations;
-    check_determined(&result)?;
+    let mut result = statistics(y, weights, &done.params, done.fitted, &done.normal, bounds)?;
+    result.evaluations = done.evaluations;
+    check_determined(&result, start)?;
     Ok(result)
 }
 
-/// Refuse a fit where a parameter's standard error dwarfs its value.
-fn check_determined(result: &FitResult) -> Result<(), FitError> {
+/// Refuse a fit where a parameter's standard error dwarfs its size.
+///
+/// The size is the parameter's value; for a parameter started at exactly 0
+/// it is at least 1 (the scale the difference steps assume for it too).
+/// A parameter started at 0 carries no size of its own, and its best value
+/// may well be 0 (a temperature coefficient of data that show no
+/// temperature effect), where it ends within rounding of 0 (say -2.2e-16):
+/// any standard error dwarfs that, yet the parameter is determined.
+fn check_determined(result: &FitResult, start: &[f64]) -> Result<(), FitError> {
+    let size = |v: f64, s: f64| if s == 0.0 { v.abs().max(1.0) } else { v.abs() };
     let bad = result
         .params
         .iter()
+        .zip(start)
         .zip(&result.std_errors)
-        .position(|(v, se)| *se > UNDETERMINED_RATIO * v.abs().max(f64::MIN_POSITIVE));
+        .position(|((v, s), se)| *se > UNDETERMINED_RATIO * size(*v, *s).max(f64::MIN_POSITIVE));
     match bad {
         Some(index) => Err(FitError::Undetermined {
             index,
@@ -582,6 +601,8 @@ struct Problem<'a> {
     /// Model derivatives at `x` (row-major n x p), when the model gives them;
     /// then residuals and Jacobian come from one pass over the data.
     analytic: Option<Vec<f64>>,
+    /// Least size of each parameter for difference steps ([`least_sizes`]).
+    least: Vec<f64>,
 }
 
 impl<'a> Problem<'a> {
@@ -606,6 +627,7 @@ impl<'a> Problem<'a> {
             r: DVector::zeros(y.len()),
             penalised: 0,
             analytic: None,
+            least: least_sizes(start),
         };
         let mut probe = vec![0.0; start.len()];
         if !y.is_empty() && model.value_and_gradient(start, 0, &mut probe).is_some() {
@@ -702,7 +724,7 @@ impl LeastSquaresProblem<f64, Dyn, Dyn> for Problem<'_> {
                 Some(g) => grad.copy_from_slice(&g[i * p..(i + 1) * p]),
                 None => {
                     let fi = self.r[i] / self.weights[i] + self.y[i];
-                    forward_gradient(self.model, probe, i, fi, grad);
+                    forward_gradient(self.model, probe, &self.least, i, fi, grad);
                 }
             }
             for j in 0..p {
@@ -715,12 +737,20 @@ impl LeastSquaresProblem<f64, Dyn, Dyn> for Problem<'_> {
 }
 
 /// Gradient of the model at point `i` by forward differences with MINPACK's
-/// step `sqrt(eps) |x|` (models with derivatives never come here). `probe`
-/// holds the parameters and is restored on return; `fi` is the value at `probe`.
-fn forward_gradient(model: &dyn Model, probe: &mut [f64], i: usize, fi: f64, grad: &mut [f64]) {
+/// step `sqrt(eps) |x|` (models with derivatives never come here), `|x|` at
+/// least `least[j]` (see [`least_sizes`]). `probe` holds the parameters and
+/// is restored on return; `fi` is the value at `probe`.
+fn forward_gradient(
+    model: &dyn Model,
+    probe: &mut [f64],
+    least: &[f64],
+    i: usize,
+    fi: f64,
+    grad: &mut [f64],
+) {
     for j in 0..probe.len() {
         let xj = probe[j];
-        let h = step(xj);
+        let h = step(xj.abs().max(least[j]));
         probe[j] = xj + h;
         grad[j] = (model.value(probe, i) - fi) / h;
         probe[j] = xj;
@@ -729,10 +759,16 @@ fn forward_gradient(model: &dyn Model, probe: &mut [f64], i: usize, fi: f64, gra
 
 /// Central-difference gradient (for the covariance, where accuracy matters
 /// more than speed; models with derivatives never come here).
-fn central_gradient(model: &dyn Model, probe: &mut [f64], i: usize, grad: &mut [f64]) {
+fn central_gradient(
+    model: &dyn Model,
+    probe: &mut [f64],
+    least: &[f64],
+    i: usize,
+    grad: &mut [f64],
+) {
     for j in 0..probe.len() {
         let xj = probe[j];
-        let h = central_step(xj);
+        let h = central_step(xj.abs().max(least[j]));
         probe[j] = xj + h;
         let up = model.value(probe, i);
         probe[j] = xj - h;
@@ -746,6 +782,20 @@ fn central_gradient(model: &dyn Model, probe: &mut [f64], i: usize, grad: &mut [
 const ROOT_EPS: f64 = 1.490_116_119_384_765_6e-8;
 /// `eps^(1/3)` for f64.
 const CUBE_ROOT_EPS: f64 = 6.055_454_452_393_343e-6;
+
+/// The least size of each parameter for its difference steps: 1 for a
+/// parameter started at exactly 0, none (0) for the others. A parameter
+/// started at 0 has no size of its own, and when its best value is 0 it
+/// ends within rounding of it (say -2.2e-16), where a step relative to its
+/// value would be lost in rounding and the derivative come out 0 (and the
+/// fit be called not identifiable). 1 is the size MINPACK's rule already
+/// gives a parameter at exactly 0.
+fn least_sizes(start: &[f64]) -> Vec<f64> {
+    start
+        .iter()
+        .map(|&s| if s == 0.0 { 1.0 } else { 0.0 })
+        .collect()
+}
 
 /// Forward-difference step, `sqrt(eps) |x|` (MINPACK's choice).
 fn step(x: f64) -> f64 {
@@ -843,13 +893,13 @@ fn accumulate_normal(normal: &mut [f64], g: &[f64], w2: f64) {
 /// (for the covariance, where accuracy matters more than speed; models with
 /// derivatives never come here). Each point's gradient is used at once, so the
 /// `n x p` Jacobian is not stored.
-fn central_normal(model: &dyn Model, weights: &[f64], params: &[f64]) -> Vec<f64> {
+fn central_normal(model: &dyn Model, weights: &[f64], params: &[f64], least: &[f64]) -> Vec<f64> {
     let p = params.len();
     let mut normal = vec![0.0; p * p];
     let mut probe = params.to_vec();
     let mut grad = vec![0.0; p];
     for (i, w) in weights.iter().enumerate() {
-        central_gradient(model, &mut probe, i, &mut grad);
+        central_gradient(model, &mut probe, least, i, &mut grad);
         accumulate_normal(&mut normal, &grad, w * w);
     }
     normal
@@ -1143,6 +1193,21 @@ mod tests {
         )
         .unwrap_err();
         assert_eq!(err, FitError::NotIdentifiable);
+    }
+
+    /// Data symmetric about x = 0 have a least-squares slope of exactly 0;
+    /// started at 0 it ends within rounding of 0, and is still determined
+    /// (closed form of the straight line: slope 0, intercept the mean).
+    #[test]
+    fn parameter_started_and_ending_at_zero_is_determined() {
+        let x = [-2.0, -1.0, 0.0, 1.0, 2.0];
+        let y = [1.0, 2.0, 1.5, 2.0, 1.0];
+        let fit =
+            least_squares(&|p, x| p[0] + p[1] * x, &x, &y, &[1.0, 0.0], &unbounded(2)).unwrap();
+        assert!(fit.params[1].abs() < 1e-12, "{:?}", fit.params);
+        assert!((fit.params[0] - 1.5).abs() < 1e-9);
+        // s^2 / Sxx with s^2 = SSE / 3 = 1 / 3 and Sxx = 10.
+        assert!((fit.std_errors[1] - (1.0f64 / 30.0).sqrt()).abs() < 1e-6);
     }
 
     #[test]

@@ -17,8 +17,9 @@
 //! Fitting: time is first scaled by the last reading (so rate constants are
 //! of order one), starts come from the linearised forms (ln MR against t;
 //! ln(-ln MR) against ln t), several starts are tried for the multi-term
-//! models, and the best fit is polished in the caller's time unit so the
-//! standard errors are in that unit.
+//! models, and the best fit is converted to the caller's time unit, its
+//! covariance by the chain rule (the optimum does not depend on the unit, so
+//! no second fit is needed).
 
 mod curve;
 
@@ -154,6 +155,26 @@ impl ThinLayerModel {
         }
     }
 
+    /// Derivatives of [`ThinLayerModel::rescale`]'s parameters in the old ones,
+    /// row-major `p x p`.
+    fn rescale_derivatives(self, p: &[f64], r: f64) -> Vec<f64> {
+        let q = p.len();
+        let factors = self.rescale(&vec![1.0; q], r);
+        let mut m = vec![0.0; q * q];
+        for (j, f) in factors.iter().enumerate() {
+            m[j * q + j] = *f;
+        }
+        // Page and Midilli rescale k by r^n: d(k r^n)/dk = r^n, d(k r^n)/dn = k r^n ln r.
+        let (k, n) = match self {
+            ThinLayerModel::Page => (0, 1),
+            ThinLayerModel::Midilli => (1, 2),
+            _ => return m,
+        };
+        m[k * q + k] = r.powf(p[n]);
+        m[k * q + n] = p[k] * r.powf(p[n]) * r.ln();
+        m
+    }
+
     /// Bounds keeping rate constants and exponents positive.
     fn bounds(self) -> Vec<(f64, f64)> {
         let free = (f64::NEG_INFINITY, f64::INFINITY);
@@ -203,27 +224,23 @@ struct Linearised {
     quadratic: [f64; 2],
 }
 
-fn linearised(t: &[f64], mr: &[f64]) -> Linearised {
-    let usable: Vec<(f64, f64)> = t
-        .iter()
-        .zip(mr)
-        .filter(|(ti, m)| **ti > 0.0 && **m > 0.0 && **m < 1.0)
-        .map(|(a, b)| (*a, *b))
-        .collect();
-    let (slope, intercept) = line(
-        &usable
-            .iter()
-            .map(|(ti, m)| (*ti, m.ln()))
-            .collect::<Vec<_>>(),
-    )
-    .unwrap_or((-1.0, 0.0));
-    let (n, ln_k) = line(
-        &usable
-            .iter()
-            .map(|(ti, m)| (ti.ln(), (-m.ln()).ln()))
-            .collect::<Vec<_>>(),
-    )
-    .unwrap_or((1.0, 0.0));
+/// `ln t` is given with `t` (computed once per time axis). The lines are
+/// weighted to undo the stretching of the scatter by the transforms (the
+/// first-order variance of `ln MR` is `var(MR) / MR^2`, of `ln(-ln MR)` it is
+/// `var(MR) / (MR ln MR)^2`), so they weigh the points as the nonlinear fit
+/// will and the start lies close to its optimum.
+fn linearised(t: &[f64], ln_t: &[f64], mr: &[f64]) -> Linearised {
+    let mut exponential = Vec::with_capacity(t.len());
+    let mut power = Vec::with_capacity(t.len());
+    for ((&ti, &lti), &m) in t.iter().zip(ln_t).zip(mr) {
+        if ti > 0.0 && m > 0.0 && m < 1.0 {
+            let ln_m = m.ln();
+            exponential.push((ti, ln_m, m * m));
+            power.push((lti, (-ln_m).ln(), (m * ln_m) * (m * ln_m)));
+        }
+    }
+    let (slope, intercept) = line(&exponential).unwrap_or((-1.0, 0.0));
+    let (n, ln_k) = line(&power).unwrap_or((1.0, 0.0));
     let k = (-slope).max(1e-3);
     let n = n.clamp(0.1, 10.0);
     // Wang-Singh is linear in (a, b): least squares of (MR - 1) on (t, t^2).
@@ -254,17 +271,18 @@ fn linearised(t: &[f64], mr: &[f64]) -> Linearised {
     }
 }
 
-fn line(points: &[(f64, f64)]) -> Option<(f64, f64)> {
+/// Weighted least-squares line through `(x, y, weight)` points: `(slope, intercept)`.
+fn line(points: &[(f64, f64, f64)]) -> Option<(f64, f64)> {
     if points.len() < 2 {
         return None;
     }
-    let n = points.len() as f64;
-    let mx = points.iter().map(|p| p.0).sum::<f64>() / n;
-    let my = points.iter().map(|p| p.1).sum::<f64>() / n;
-    let sxx: f64 = points.iter().map(|p| (p.0 - mx).powi(2)).sum();
-    let sxy: f64 = points.iter().map(|p| (p.0 - mx) * (p.1 - my)).sum();
+    let total: f64 = points.iter().map(|p| p.2).sum();
+    let mx = points.iter().map(|p| p.2 * p.0).sum::<f64>() / total;
+    let my = points.iter().map(|p| p.2 * p.1).sum::<f64>() / total;
+    let sxx: f64 = points.iter().map(|p| p.2 * (p.0 - mx).powi(2)).sum();
+    let sxy: f64 = points.iter().map(|p| p.2 * (p.0 - mx) * (p.1 - my)).sum();
     let slope = sxy / sxx;
-    (slope.is_finite()).then_some((slope, my - slope * mx))
+    (slope.is_finite() && my.is_finite()).then_some((slope, my - slope * mx))
 }
 
 /// A fitted thin-layer model.
@@ -306,7 +324,7 @@ pub fn fit_thin_layer(
     let scaled: Vec<f64> = times_s.iter().map(|t| t / scale).collect();
     let ln_times: Vec<f64> = times_s.iter().map(|t| t.ln()).collect();
     let ln_scaled: Vec<f64> = ln_times.iter().map(|l| l - scale.ln()).collect();
-    let guess = linearised(&scaled, ratios);
+    let guess = linearised(&scaled, &ln_scaled, ratios);
     let on_scaled = Curve {
         model,
         t: &scaled,
@@ -331,29 +349,48 @@ pub fn fit_thin_layer(
             detail: format!("{}: {detail}", model.name()),
         });
     };
-    let in_unit: Vec<f64> = times_s.iter().map(|t| t / time_unit_s).collect();
-    let ln_in_unit: Vec<f64> = ln_times.iter().map(|l| l - time_unit_s.ln()).collect();
-    let on_unit = Curve {
-        model,
-        t: &in_unit,
-        ln_t: &ln_in_unit,
-    };
-    let start = clamp_start(
-        &model.rescale(&scaled_fit.params, time_unit_s / scale),
-        &bounds,
-    );
-    let polished = fit::fit(&on_unit, ratios, &start, &bounds, &options)
-        .unwrap_or_else(|_| rescaled_result(model, &scaled_fit, time_unit_s / scale));
-    Ok(summary(model, time_unit_s, polished))
+    let result = rescaled_result(model, &scaled_fit, time_unit_s / scale);
+    Ok(summary(model, time_unit_s, result))
 }
 
-/// When polishing fails, keep the scaled fit with parameters converted
-/// (statistics of the residuals do not depend on the time unit).
+/// The scaled fit in the caller's time unit (ratio `r` of the units): the
+/// parameters by [`ThinLayerModel::rescale`], the covariance by the chain
+/// rule `M C M^T` with `M` the derivatives of the new parameters in the old
+/// ones (exact for the least-squares covariance: the residuals are the same
+/// functions of either set), the statistics of the residuals unchanged. The
+/// optimum in one time unit is the optimum in any other, so no second fit
+/// is needed.
 fn rescaled_result(model: ThinLayerModel, fit: &FitResult, r: f64) -> FitResult {
-    let mut out = fit.clone();
-    out.params = model.rescale(&fit.params, r);
-    out.std_errors = vec![f64::NAN; fit.params.len()];
-    out
+    let p = fit.params.len();
+    let m = model.rescale_derivatives(&fit.params, r);
+    let mut covariance = vec![0.0; p * p];
+    for i in 0..p {
+        for j in 0..p {
+            let mut sum = 0.0;
+            for a in 0..p {
+                for b in 0..p {
+                    sum += m[i * p + a] * fit.covariance[a * p + b] * m[j * p + b];
+                }
+            }
+            covariance[i * p + j] = sum;
+        }
+    }
+    let params = model.rescale(&fit.params, r);
+    let std_errors: Vec<f64> = (0..p)
+        .map(|j| covariance[j * p + j].max(0.0).sqrt())
+        .collect();
+    let ci95 = params
+        .iter()
+        .zip(&std_errors)
+        .map(|(x, se)| (x - fit.t_value * se, x + fit.t_value * se))
+        .collect();
+    FitResult {
+        params,
+        std_errors,
+        ci95,
+        covariance,
+        ..fit.clone()
+    }
 }
 
 fn clamp_start(start: &[f64], bounds: &[(f64, f64)]) -> Vec<f64> {

@@ -15,7 +15,8 @@
 //!   the steps do not depend on the parameters' units);
 //! * a step is accepted when the gain ratio `rho` (actual over predicted
 //!   reduction of the sum of squares) exceeds 1e-4; then
-//!   `lambda *= max(1/3, 1 - (2 rho - 1)^3)`, otherwise
+//!   `lambda *= max(1/10, 1 - (2 rho - 1)^3)` (Nielsen has 1/3; a smaller
+//!   floor lets a run of good steps reach Gauss-Newton sooner), otherwise
 //!   `lambda = max(lambda nu, 0.01)`, `nu *= 2` (the floor is ours: the first
 //!   damping is tiny, so a failed Gauss-Newton step needs a real cut);
 //! * convergence as in MINPACK: relative reductions (actual and predicted)
@@ -32,7 +33,7 @@
 #![allow(clippy::needless_range_loop)]
 
 use super::transform::Transform;
-use super::{forward_gradient, FitOptions, Model};
+use super::{forward_gradient, least_sizes, FitOptions, Model};
 
 /// Largest parameter count handled here.
 pub(super) const MAX_PARAMS: usize = 6;
@@ -59,6 +60,9 @@ const INITIAL_DAMPING: f64 = 1e-6;
 /// failed is retried much shorter at once, not after many doublings.
 const REJECTED_DAMPING: f64 = 1e-2;
 
+/// Smallest factor by which an accepted step cuts the damping.
+const LEAST_DAMPING_CUT: f64 = 0.1;
+
 /// Damping beyond which no step can make progress any more.
 const MAX_DAMPING: f64 = 1e20;
 
@@ -72,9 +76,10 @@ pub(super) struct Converged {
     /// Model values at `params`.
     pub fitted: Vec<f64>,
     /// `J^T W^2 J` with respect to the external parameters, row-major `p x p`,
-    /// when the model gives analytic derivatives (finite-difference models get
-    /// theirs by central differences afterwards).
-    pub normal: Option<Vec<f64>>,
+    /// from the analytic derivatives or, for other models, from the
+    /// forward differences of the last iteration (MINPACK's Jacobian, which
+    /// scipy's `curve_fit` uses for its covariance too).
+    pub normal: Vec<f64>,
     /// Passes over the data that computed model values.
     pub evaluations: usize,
 }
@@ -108,31 +113,93 @@ impl Sums {
             gradient: [0.0; MAX_PARAMS],
         }
     }
+}
 
-    /// Add one point's weighted residual `wr` and weighted derivatives `wg`
-    /// (a derivative that is not finite counts as zero; lower triangle only,
-    /// mirrored by [`Sums::mirror`]).
-    fn add(&mut self, p: usize, wr: f64, wg: &[f64]) {
-        let mut g = [0.0; MAX_PARAMS];
-        for (gj, &v) in g.iter_mut().zip(&wg[..p]) {
+/// Run `$f::<P>($args)` for the parameter count `$p` (1 to [`MAX_PARAMS`]), so
+/// the loops over parameters have a length known at compile time.
+macro_rules! for_count {
+    ($p:expr, $f:ident($($arg:expr),*)) => {
+        match $p {
+            1 => $f::<1>($($arg),*),
+            2 => $f::<2>($($arg),*),
+            3 => $f::<3>($($arg),*),
+            4 => $f::<4>($($arg),*),
+            5 => $f::<5>($($arg),*),
+            _ => $f::<6>($($arg),*),
+        }
+    };
+}
+
+/// The sums from model values `fitted` and weighted-in-place derivatives:
+/// `rows(i)` gives point `i`'s derivatives (a derivative that is not finite
+/// counts as zero); `Err(point)` at the first point whose residual is not
+/// finite. Lower triangle accumulated, then mirrored.
+fn accumulate<const P: usize>(
+    y: &[f64],
+    weights: &[f64],
+    fitted: &[f64],
+    mut rows: impl FnMut(usize, &mut [f64; P]),
+) -> Result<Sums, usize> {
+    let mut chi2 = 0.0;
+    let mut matrix = [[0.0; P]; P];
+    let mut gradient = [0.0; P];
+    let mut g = [0.0; P];
+    for (i, ((&f, &yi), &w)) in fitted.iter().zip(y).zip(weights).enumerate() {
+        let wr = w * (f - yi);
+        if !wr.is_finite() {
+            return Err(i);
+        }
+        rows(i, &mut g);
+        for gj in g.iter_mut() {
+            let v = w * *gj;
             *gj = if v.is_finite() { v } else { 0.0 };
         }
-        self.chi2 += wr * wr;
-        for a in 0..p {
-            self.gradient[a] += g[a] * wr;
+        chi2 += wr * wr;
+        for a in 0..P {
+            gradient[a] += g[a] * wr;
             for b in 0..=a {
-                self.matrix[a][b] += g[a] * g[b];
+                matrix[a][b] += g[a] * g[b];
             }
         }
     }
+    let mut sums = Sums::empty();
+    sums.chi2 = chi2;
+    for a in 0..P {
+        sums.gradient[a] = gradient[a];
+        for b in 0..=a {
+            sums.matrix[a][b] = matrix[a][b];
+            sums.matrix[b][a] = matrix[a][b];
+        }
+    }
+    Ok(sums)
+}
 
-    fn mirror(&mut self, p: usize) {
-        for a in 0..p {
-            for b in 0..a {
-                self.matrix[b][a] = self.matrix[a][b];
-            }
-        }
-    }
+/// The sums of an analytic model from its stored derivatives (row-major `n x P`).
+fn analytic_sums<const P: usize>(
+    y: &[f64],
+    weights: &[f64],
+    fitted: &[f64],
+    gradients: &[f64],
+) -> Result<Sums, usize> {
+    accumulate::<P>(y, weights, fitted, |i, g| {
+        g.copy_from_slice(&gradients[i * P..(i + 1) * P]);
+    })
+}
+
+/// The sums of a finite-difference model at `x`, whose values are `fitted`.
+fn difference_sums<const P: usize>(
+    model: &dyn Model,
+    y: &[f64],
+    weights: &[f64],
+    fitted: &[f64],
+    x: &[f64],
+    least: &[f64],
+) -> Result<Sums, usize> {
+    let mut probe = [0.0; P];
+    probe.copy_from_slice(x);
+    accumulate::<P>(y, weights, fitted, |i, g| {
+        forward_gradient(model, &mut probe, least, i, fitted[i], g);
+    })
 }
 
 /// The data and model of one fit.
@@ -142,64 +209,59 @@ struct Data<'a> {
     weights: &'a [f64],
     analytic: bool,
     p: usize,
+    /// Least size of each parameter for difference steps.
+    least: Vec<f64>,
 }
 
 impl Data<'_> {
-    /// Values (into `fitted`) and, for analytic models, the full sums at `x`;
-    /// `Err(point)` at the first point where the model is not finite.
-    fn evaluate(&self, x: &[f64], fitted: &mut [f64]) -> Result<Sums, usize> {
-        let mut sums = Sums::empty();
-        let mut g = [0.0; MAX_PARAMS];
-        for i in 0..self.y.len() {
-            let f = if self.analytic {
-                self.model
-                    .value_and_gradient(x, i, &mut g[..self.p])
-                    .unwrap_or(f64::NAN)
-            } else {
-                self.model.value(x, i)
-            };
-            let w = self.weights[i];
-            let wr = w * (f - self.y[i]);
+    /// Values (into `fitted`) and, for analytic models, the full sums at `x`
+    /// (derivatives stored in `gradients`, `n x p`); `Err(point)` at the first
+    /// point where the model is not finite.
+    fn evaluate(
+        &self,
+        x: &[f64],
+        fitted: &mut [f64],
+        gradients: &mut [f64],
+    ) -> Result<Sums, usize> {
+        if self.analytic {
+            if !self.model.values_and_gradients(x, fitted, gradients) {
+                return Err(0);
+            }
+            return for_count!(
+                self.p,
+                analytic_sums(self.y, self.weights, fitted, gradients)
+            );
+        }
+        let mut chi2 = 0.0;
+        for (i, f) in fitted.iter_mut().enumerate() {
+            *f = self.model.value(x, i);
+            let wr = self.weights[i] * (*f - self.y[i]);
             if !wr.is_finite() {
                 return Err(i);
             }
-            fitted[i] = f;
-            if self.analytic {
-                for gj in &mut g[..self.p] {
-                    *gj *= w;
-                }
-                sums.add(self.p, wr, &g);
-            } else {
-                sums.chi2 += wr * wr;
-            }
+            chi2 += wr * wr;
         }
-        sums.mirror(self.p);
+        let mut sums = Sums::empty();
+        sums.chi2 = chi2;
         Ok(sums)
     }
 
     /// For finite-difference models: the sums with forward-difference
     /// derivatives at `x`, whose model values are `fitted`.
     fn differences(&self, x: &[f64], fitted: &[f64], chi2: f64) -> Sums {
-        let mut sums = Sums::empty();
-        let mut probe = [0.0; MAX_PARAMS];
-        probe[..self.p].copy_from_slice(x);
-        let mut g = [0.0; MAX_PARAMS];
-        for (i, &f) in fitted.iter().enumerate() {
-            forward_gradient(self.model, &mut probe[..self.p], i, f, &mut g[..self.p]);
-            let w = self.weights[i];
-            for gj in &mut g[..self.p] {
-                *gj *= w;
-            }
-            sums.add(self.p, w * (f - self.y[i]), &g);
-        }
-        sums.mirror(self.p);
+        let sums = for_count!(
+            self.p,
+            difference_sums(self.model, self.y, self.weights, fitted, x, &self.least)
+        );
+        // The values were finite when `chi2` was summed, so every residual is.
+        let mut sums = sums.unwrap_or_else(|_| Sums::empty());
         sums.chi2 = chi2;
         sums
     }
 
     /// Evaluate at `x`, with the derivatives for either kind of model.
-    fn full(&self, x: &[f64], fitted: &mut [f64]) -> Result<Sums, usize> {
-        let sums = self.evaluate(x, fitted)?;
+    fn full(&self, x: &[f64], fitted: &mut [f64], gradients: &mut [f64]) -> Result<Sums, usize> {
+        let sums = self.evaluate(x, fitted, gradients)?;
         Ok(if self.analytic {
             sums
         } else {
@@ -235,10 +297,12 @@ pub(super) fn minimise(
             .value_and_gradient(start, 0, &mut probe[..p])
             .is_some(),
         p,
+        least: least_sizes(start),
     };
     let mut fitted = vec![0.0; y.len()];
     let mut trial_fitted = vec![0.0; y.len()];
-    let mut point = start_point(&data, maps, start, &mut fitted)?;
+    let mut gradients = vec![0.0; if data.analytic { y.len() * p } else { 0 }];
+    let mut point = start_point(&data, maps, start, &mut fitted, &mut gradients)?;
     let max_evaluations = options.patience.max(1) * (p + 1);
     let tolerance = options.tolerance;
     let mut evaluations = 1;
@@ -250,6 +314,9 @@ pub(super) fn minimise(
         if point.sums.chi2 == 0.0 || b[..p].iter().all(|v| *v == 0.0) {
             break;
         }
+        if at_minimum(&a, &b, &scale, &point.u, tolerance, point.sums.chi2, p) {
+            break;
+        }
         if evaluations >= max_evaluations || damping > MAX_DAMPING {
             return Err(Stop::HandOver);
         }
@@ -257,7 +324,7 @@ pub(super) fn minimise(
         let predicted = predicted_reduction(&a, &scale, &step, damping, p);
         let trial = trial_point(&point, &step, maps, p);
         evaluations += 1;
-        let sums = data.evaluate(&trial.x[..p], &mut trial_fitted);
+        let sums = data.evaluate(&trial.x[..p], &mut trial_fitted, &mut gradients);
         let actual = sums.map_or(f64::NEG_INFINITY, |s| point.sums.chi2 - s.chi2);
         let rho = actual / predicted;
         let step_small =
@@ -278,7 +345,7 @@ pub(super) fn minimise(
                 };
                 std::mem::swap(&mut fitted, &mut trial_fitted);
             }
-            damping *= (1.0 - (2.0 * rho - 1.0).powi(3)).max(1.0 / 3.0);
+            damping *= (1.0 - (2.0 * rho - 1.0).powi(3)).max(LEAST_DAMPING_CUT);
             growth = 2.0;
         } else {
             damping = (damping * growth).max(REJECTED_DAMPING);
@@ -291,8 +358,31 @@ pub(super) fn minimise(
     Ok(Converged {
         params: point.x[..p].to_vec(),
         fitted,
-        normal: data.analytic.then(|| row_major(&point.sums.matrix, p)),
+        normal: row_major(&point.sums.matrix, p),
         evaluations,
+    })
+}
+
+/// Whether the point is the minimum to within the tolerance, judged by the
+/// undamped (Gauss-Newton) step from it: that step is shorter than the
+/// tolerance times the parameters (scaled norm) and would reduce the sum of
+/// squares `chi2` by no more than the tolerance times itself. Then the step
+/// need not be tried, which saves a pass over the data (and for
+/// finite-difference models a Jacobian). The Gauss-Newton reduction
+/// `-b^T A^-1 b` bounds what any damped step predicts; a system too
+/// ill-conditioned to solve says nothing.
+fn at_minimum(
+    a: &Matrix,
+    b: &Vector,
+    scale: &Vector,
+    u: &Vector,
+    tolerance: f64,
+    chi2: f64,
+    p: usize,
+) -> bool {
+    damped_step(a, b, scale, 0.0, p).is_some_and(|step| {
+        predicted_reduction(a, scale, &step, 0.0, p) <= tolerance * chi2
+            && scaled_norm(&step, scale, p) <= tolerance * scaled_norm(u, scale, p)
     })
 }
 
@@ -302,6 +392,7 @@ fn start_point(
     maps: &[Transform],
     start: &[f64],
     fitted: &mut [f64],
+    gradients: &mut [f64],
 ) -> Result<Point, Stop> {
     let mut u = [0.0; MAX_PARAMS];
     let mut x = [0.0; MAX_PARAMS];
@@ -310,7 +401,7 @@ fn start_point(
         x[j] = m.external(u[j]);
     }
     let sums = data
-        .full(&x[..data.p], fitted)
+        .full(&x[..data.p], fitted, gradients)
         .map_err(Stop::UndefinedAtStart)?;
     Ok(Point { u, x, sums })
 }

@@ -118,6 +118,50 @@ impl Model for Curve<'_> {
                 .ratio_and_gradient(params, self.t[point], self.ln_t[point], out),
         )
     }
+
+    fn values_and_gradients(
+        &self,
+        params: &[f64],
+        values: &mut [f64],
+        gradients: &mut [f64],
+    ) -> bool {
+        match self.model {
+            // The common case gets its own loop: two exponentials per point.
+            ThinLayerModel::Page => page_all(params[0], params[1], self, values, gradients),
+            model => {
+                let p = params.len();
+                let points = self.t.iter().zip(self.ln_t);
+                for ((v, g), (&t, &ln_t)) in values
+                    .iter_mut()
+                    .zip(gradients.chunks_exact_mut(p))
+                    .zip(points)
+                {
+                    *v = model.ratio_and_gradient(params, t, ln_t, g);
+                }
+            }
+        }
+        true
+    }
+}
+
+/// The Page model `exp(-k t^n)` and its derivatives at every time of `curve`.
+fn page_all(k: f64, n: f64, curve: &Curve, values: &mut [f64], gradients: &mut [f64]) {
+    let points = curve.t.iter().zip(curve.ln_t);
+    for ((v, g), (&t, &ln_t)) in values
+        .iter_mut()
+        .zip(gradients.chunks_exact_mut(2))
+        .zip(points)
+    {
+        if t > 0.0 {
+            let tn = (n * ln_t).exp();
+            let value = (-k * tn).exp();
+            g[0] = -tn * value;
+            g[1] = -k * tn * ln_t * value;
+            *v = value;
+        } else {
+            *v = power_decay(k, n, t, ln_t, g);
+        }
+    }
 }
 
 #[cfg(test)]
