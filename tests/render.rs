@@ -619,3 +619,55 @@ fn mixed_cells_negative_and_scientific_columns() {
     };
     insta::assert_snapshot!(table::text(&t).unwrap());
 }
+
+/// A fit's parameter table (invented values): one column holds a moisture
+/// (`db`), a plain number and a coefficient per kelvin, so no one unit can
+/// head it and each cell shows its own.
+fn mixed_parameters() -> Table {
+    let per_kelvin = Dim::TEMPERATURE.recip();
+    Table {
+        title: Some("parameters (invented)".into()),
+        columns: vec![
+            Column {
+                name: "parameter".into(),
+                unit: None,
+                cells: ["A", "B", "C"]
+                    .iter()
+                    .map(|n| Value::Str(n.to_string()))
+                    .collect(),
+            },
+            Column {
+                name: "value".into(),
+                unit: None,
+                cells: vec![
+                    q(0.1144, Dim::NONE, Kind::Moisture),
+                    q(-0.0031, per_kelvin, Kind::Plain),
+                    q(2.209, Dim::NONE, Kind::Plain),
+                ],
+            },
+        ],
+    }
+}
+
+#[test]
+fn column_of_mixed_units_shows_each_cell_in_its_own() {
+    let text = table::text(&mixed_parameters()).unwrap();
+    let lines: Vec<&str> = text.lines().collect();
+    assert_eq!(
+        lines[1].split_whitespace().collect::<Vec<_>>(),
+        ["parameter", "value"]
+    );
+    assert!(lines[3].ends_with("0.1144 db"), "{text}");
+    assert!(lines[4].ends_with("-0.0031 1/K"), "{text}");
+    assert!(lines[5].ends_with("2.209"), "{text}");
+    let csv = table::csv(&mixed_parameters()).unwrap();
+    assert!(csv.contains("-0.0031 1/K"), "{csv}");
+    let json = siccant::render::json(&Value::Table(mixed_parameters()));
+    assert_eq!(json["columns"][1]["unit"], serde_json::Value::Null);
+    assert_eq!(json["rows"][1][1]["unit"], "1/K");
+    assert_eq!(json["rows"][1][1]["si"], -0.0031);
+    // A column that does set its unit still refuses a cell of another dimension.
+    let mut t = mixed_parameters();
+    t.columns[1].unit = Some(unit("db"));
+    assert!(table::text(&t).unwrap_err().to_string().contains("row 2"));
+}

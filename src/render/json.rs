@@ -34,7 +34,13 @@ pub fn json(value: &Value) -> Json {
             obj.insert("columns".into(), Json::Array(cols));
             let n = t.columns.first().map_or(0, |c| c.cells.len());
             let rows = (0..n)
-                .map(|r| Json::Array(t.columns.iter().map(|c| cell(c.cells.get(r))).collect()))
+                .map(|r| {
+                    let cells = t.columns.iter().map(|c| {
+                        let mixed = column_dim(c).is_none();
+                        cell(c.cells.get(r), mixed)
+                    });
+                    Json::Array(cells.collect())
+                })
                 .collect();
             obj.insert("rows".into(), Json::Array(rows));
         }
@@ -81,21 +87,36 @@ fn list(items: &[Value], obj: &mut Map<String, Json>) {
     }
 }
 
+/// The SI unit of a column's quantities; null for a column without
+/// quantities or whose quantities differ in dimension (a fit's parameters).
 fn column_unit(c: &crate::value::Column) -> Json {
-    match c.cells.iter().find_map(|v| {
-        if let Value::Quantity(q, _) = v {
-            Some(q.dim)
-        } else {
-            None
-        }
-    }) {
-        Some(d) => Json::String(d.si_unit()),
-        None => Json::Null,
+    match column_dim(c) {
+        Some(Some(d)) => Json::String(d.si_unit()),
+        _ => Json::Null,
     }
 }
 
-fn cell(v: Option<&Value>) -> Json {
+/// `Some(dim)` when every quantity in the column has that dimension
+/// (`Some(None)` when it holds none), `None` when they differ.
+fn column_dim(c: &crate::value::Column) -> Option<Option<crate::units::Dim>> {
+    let mut dims = c.cells.iter().filter_map(|v| match v {
+        Value::Quantity(q, _) => Some(q.dim),
+        _ => None,
+    });
+    let first = dims.next();
+    match first {
+        Some(d) if dims.any(|e| e != d) => None,
+        _ => Some(first),
+    }
+}
+
+/// One cell: a quantity as its SI number, or, in a column of mixed
+/// dimensions, as `{ "si": ..., "unit": ... }`.
+fn cell(v: Option<&Value>, mixed: bool) -> Json {
     match v {
+        Some(Value::Quantity(q, _)) if mixed => {
+            j!({ "si": number(q.si), "unit": q.dim.si_unit() })
+        }
         Some(Value::Quantity(q, _)) => number(q.si),
         Some(Value::Bool(b)) => Json::Bool(*b),
         Some(other) => Json::String(text(other)),

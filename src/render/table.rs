@@ -29,9 +29,11 @@ pub struct Layout {
     pub exact: Vec<Vec<String>>,
 }
 
-/// One column's cells as numbers in its unit, or text.
+/// One column's cells as numbers in its unit, numbers in a unit of their own
+/// (a column whose quantities differ in unit), or text.
 enum Cell {
     Number(f64),
+    Own(f64, String),
     Text(String),
 }
 
@@ -54,7 +56,12 @@ impl Layout {
 
     fn add_column(&mut self, column: &Column) -> Result<(), RenderError> {
         let unit = column_unit(column);
-        let cells = column_cells(column, unit.as_ref())?;
+        let cells = if unit.is_some() && mixed_units(column) {
+            own_unit_cells(column)?
+        } else {
+            column_cells(column, unit.as_ref())?
+        };
+        let unit = unit.filter(|_| !cells.iter().any(|c| matches!(c, Cell::Own(..))));
         let numbers: Vec<f64> = cells
             .iter()
             .filter_map(|c| {
@@ -69,6 +76,13 @@ impl Layout {
         for (i, cell) in cells.iter().enumerate() {
             let (shown, exact) = match cell {
                 Cell::Number(x) => (format.write(*x), exact_text(*x)),
+                Cell::Own(x, symbol) => {
+                    let own = NumberFormat::for_column(&[*x], SIG_FIGS);
+                    (
+                        with_symbol(own.write(*x), symbol),
+                        with_symbol(exact_text(*x), symbol),
+                    )
+                }
                 Cell::Text(t) => (t.clone(), t.clone()),
             };
             self.rows[i].push(shown);
@@ -76,8 +90,8 @@ impl Layout {
         }
         let symbol = unit.map(|u| u.symbol.to_string()).unwrap_or_default();
         self.headers.push((column.name.clone(), symbol));
-        self.numeric
-            .push(!numbers.is_empty() && numbers.len() == cells.len());
+        let quantities = cells.iter().filter(|c| !matches!(c, Cell::Text(_)));
+        self.numeric.push(quantities.count() == cells.len());
         Ok(())
     }
 
@@ -128,6 +142,48 @@ fn column_unit(column: &Column) -> Option<Unit> {
         Value::Quantity(q, shown) => Some(default_unit(q, shown.as_ref())),
         _ => None,
     })
+}
+
+/// True when a column without a set unit holds quantities that would show in
+/// different units (a fit's parameters: `db`, `1/K` and plain numbers), so no
+/// one unit can head it.
+fn mixed_units(column: &Column) -> bool {
+    if column.unit.is_some() {
+        return false;
+    }
+    let mut symbols = column.cells.iter().filter_map(|cell| match cell {
+        Value::Quantity(q, shown) => Some(default_unit(q, shown.as_ref()).symbol),
+        _ => None,
+    });
+    let first = symbols.next();
+    symbols.any(|s| Some(&s) != first.as_ref())
+}
+
+/// Cells of a mixed column: each quantity as a number in its own unit.
+fn own_unit_cells(column: &Column) -> Result<Vec<Cell>, RenderError> {
+    let mut cells = Vec::with_capacity(column.cells.len());
+    for (row, cell) in column.cells.iter().enumerate() {
+        cells.push(match cell {
+            Value::Quantity(q, shown) => {
+                let unit = default_unit(q, shown.as_ref());
+                match quantity_cell(column, row + 1, q, &unit)? {
+                    Cell::Number(x) => Cell::Own(x, unit.symbol.to_string()),
+                    other => other,
+                }
+            }
+            other => cell_value(column, row + 1, other, None)?,
+        });
+    }
+    Ok(cells)
+}
+
+/// A number followed by its unit symbol (nothing for a plain number).
+fn with_symbol(number: String, symbol: &str) -> String {
+    if symbol.is_empty() {
+        number
+    } else {
+        format!("{number} {symbol}")
+    }
 }
 
 fn column_cells(column: &Column, unit: Option<&Unit>) -> Result<Vec<Cell>, RenderError> {
