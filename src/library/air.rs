@@ -39,7 +39,8 @@ const SOURCE: &str = "ASHRAE Handbook - Fundamentals (2017) ch. 1 (Hyland-Wexler
 IAPWS-IF97 R7-97(2012) region 4 and region 2; Lemmon et al. (2000) J. Phys. Chem. Ref. Data 29, 331 (dry air); \
 Hardy (1998) enhancement factor; Hyland & Wexler (1983) ASHRAE Trans. 89(2A) virial coefficients";
 const METHOD_STATE: &str = "Ideal-gas mixture with second-virial corrections; saturation over ice below 0 degC with \
-the enhancement factor; thermodynamic wet-bulb by Brent's method on the exact adiabatic-saturation balance";
+the enhancement factor; thermodynamic wet-bulb and dew point by Newton's method with exact slopes on the exact adiabatic-saturation \
+balance and the saturation curve, started from per-pressure tables (see docs/methods/air.md)";
 const VALIDITY: &str =
     "dry-bulb -40 to 350 degC (error outside); total pressure 50 to 200 kPa (warning outside, \
 error outside 1 kPa to 10 MPa)";
