@@ -83,19 +83,31 @@ pub trait Model {
         values: &mut [f64],
         gradients: &mut [f64],
     ) -> bool {
-        let p = params.len();
-        for (i, (v, g)) in values
-            .iter_mut()
-            .zip(gradients.chunks_exact_mut(p))
-            .enumerate()
-        {
-            match self.value_and_gradient(params, i, g) {
-                Some(f) => *v = f,
-                None => return false,
-            }
-        }
-        true
+        point_by_point(self, params, values, gradients)
     }
+}
+
+/// [`Model::values_and_gradients`] by one [`Model::value_and_gradient`] call
+/// per point: the default, and the fallback of models that loop faster only
+/// for some of their forms.
+pub fn point_by_point<M: Model + ?Sized>(
+    model: &M,
+    params: &[f64],
+    values: &mut [f64],
+    gradients: &mut [f64],
+) -> bool {
+    let p = params.len();
+    for (i, (v, g)) in values
+        .iter_mut()
+        .zip(gradients.chunks_exact_mut(p))
+        .enumerate()
+    {
+        match model.value_and_gradient(params, i, g) {
+            Some(f) => *v = f,
+            None => return false,
+        }
+    }
+    true
 }
 
 /// Options for [`fit`].

@@ -4,7 +4,7 @@
 //! and iteration instead of once per parameter as finite differences would.
 
 use super::ThinLayerModel;
-use crate::engine::fit::Model;
+use crate::engine::fit::{point_by_point, Model};
 
 impl ThinLayerModel {
     /// Moisture ratio at time `t` (in the parameters' time unit) and its
@@ -127,20 +127,12 @@ impl Model for Curve<'_> {
     ) -> bool {
         match self.model {
             // The common case gets its own loop: two exponentials per point.
-            ThinLayerModel::Page => page_all(params[0], params[1], self, values, gradients),
-            model => {
-                let p = params.len();
-                let points = self.t.iter().zip(self.ln_t);
-                for ((v, g), (&t, &ln_t)) in values
-                    .iter_mut()
-                    .zip(gradients.chunks_exact_mut(p))
-                    .zip(points)
-                {
-                    *v = model.ratio_and_gradient(params, t, ln_t, g);
-                }
+            ThinLayerModel::Page => {
+                page_all(params[0], params[1], self, values, gradients);
+                true
             }
+            _ => point_by_point(self, params, values, gradients),
         }
-        true
     }
 }
 
