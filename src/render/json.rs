@@ -33,13 +33,11 @@ pub fn json(value: &Value) -> Json {
                 .collect();
             obj.insert("columns".into(), Json::Array(cols));
             let n = t.columns.first().map_or(0, |c| c.cells.len());
+            let mixed: Vec<bool> = t.columns.iter().map(|c| column_dim(c).is_none()).collect();
             let rows = (0..n)
                 .map(|r| {
-                    let cells = t.columns.iter().map(|c| {
-                        let mixed = column_dim(c).is_none();
-                        cell(c.cells.get(r), mixed)
-                    });
-                    Json::Array(cells.collect())
+                    let cells = t.columns.iter().zip(&mixed);
+                    Json::Array(cells.map(|(c, &m)| cell(c.cells.get(r), m)).collect())
                 })
                 .collect();
             obj.insert("rows".into(), Json::Array(rows));

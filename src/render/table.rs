@@ -55,13 +55,13 @@ impl Layout {
     }
 
     fn add_column(&mut self, column: &Column) -> Result<(), RenderError> {
-        let unit = column_unit(column);
-        let cells = if unit.is_some() && mixed_units(column) {
-            own_unit_cells(column)?
+        let (unit, cells) = if mixed_units(column) {
+            (None, own_unit_cells(column)?)
         } else {
-            column_cells(column, unit.as_ref())?
+            let unit = column_unit(column);
+            let cells = column_cells(column, unit.as_ref())?;
+            (unit, cells)
         };
-        let unit = unit.filter(|_| !cells.iter().any(|c| matches!(c, Cell::Own(..))));
         let numbers: Vec<f64> = cells
             .iter()
             .filter_map(|c| {
