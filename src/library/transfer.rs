@@ -456,27 +456,8 @@ fn quantity(si: f64, dim: Dim) -> Value {
 
 /// A quantity shown in the trade's usual unit (`text` parsed by the unit
 /// table; the value itself stays SI).
-fn shown(si: f64, dim: Dim, text: &'static str) -> Value {
-    Value::Quantity(Quantity::new(si, dim, Kind::Plain), display_unit(text))
-}
-
-/// The unit `text` from the unit table, parsed once per thread (sweeps build
-/// these records at every point; a parsed unit is cheap to clone).
-fn display_unit(text: &'static str) -> Option<crate::units::Unit> {
-    use std::cell::RefCell;
-    thread_local! {
-        static PARSED: RefCell<Vec<(&'static str, Option<crate::units::Unit>)>> =
-            const { RefCell::new(Vec::new()) };
-    }
-    PARSED.with(|cell| {
-        let mut parsed = cell.borrow_mut();
-        if let Some((_, unit)) = parsed.iter().find(|(t, _)| *t == text) {
-            return unit.clone();
-        }
-        let unit = parse_unit(text).ok();
-        parsed.push((text, unit.clone()));
-        unit
-    })
+fn shown(si: f64, dim: Dim, text: &str) -> Value {
+    Value::Quantity(Quantity::new(si, dim, Kind::Plain), parse_unit(text).ok())
 }
 
 fn number(x: f64) -> Value {

@@ -8,17 +8,21 @@
 //! Only successes are kept; a miss or an error is recomputed with its message.
 
 use std::cell::RefCell;
-use std::collections::HashMap;
 use std::thread::LocalKey;
 
 use super::Unit;
+use crate::eval::FastMap;
 
 /// Most texts kept per table and thread before the table is emptied (it
 /// refills on use; this only bounds memory when many distinct texts are read).
 pub const MAX_TEXTS: usize = 512;
 
+/// Units by text (hashed with the evaluator's fast word hash: the texts
+/// are the program's own and a worksheet's, not hostile keys).
+pub type Texts = RefCell<FastMap<String, Unit>>;
+
 /// A table of units by text, one per thread.
-pub type Memo = LocalKey<RefCell<HashMap<String, Unit>>>;
+pub type Memo = LocalKey<Texts>;
 
 /// The unit remembered for `text`, else `make(text)`, remembered when it succeeds.
 pub fn remembered<E>(
@@ -45,7 +49,7 @@ mod tests {
     use super::*;
 
     thread_local! {
-        static TEST_MEMO: RefCell<HashMap<String, Unit>> = RefCell::new(HashMap::new());
+        static TEST_MEMO: Texts = RefCell::new(FastMap::default());
     }
 
     #[test]

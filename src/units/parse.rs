@@ -7,8 +7,8 @@
 //! follows the same rules: `*` and `/` associate left to right, `^` binds
 //! tighter and takes an integer exponent, parentheses group.
 
+use crate::eval::FastMap;
 use std::cell::RefCell;
-use std::collections::HashMap;
 
 use super::{lookup_unit, memo, suggest_unit, Unit, UnitError};
 
@@ -18,7 +18,7 @@ use super::{lookup_unit, memo, suggest_unit, Unit, UnitError};
 /// position of the syntax error.
 pub fn parse_unit(text: &str) -> Result<Unit, UnitError> {
     thread_local! {
-        static PARSED: RefCell<HashMap<String, Unit>> = RefCell::new(HashMap::new());
+        static PARSED: memo::Texts = RefCell::new(FastMap::default());
     }
     memo::remembered(&PARSED, text, parse_uncached)
 }

@@ -5,8 +5,8 @@
 //! temperature, offset applied); inside a compound (`W/(m^2*degC)`,
 //! `BTU/(h*ft^2*degF)`) it is a difference of size 1 K or 5/9 K.
 
+use crate::eval::FastMap;
 use std::cell::RefCell;
-use std::collections::HashMap;
 use std::sync::Arc;
 
 use strsim::levenshtein;
@@ -44,7 +44,7 @@ pub struct Unit {
 /// units (m, g, s, K, mol, A, rad, N, Pa, bar, J, Wh, W, L).
 pub fn lookup_unit(symbol: &str) -> Option<Unit> {
     thread_local! {
-        static LOOKED_UP: RefCell<HashMap<String, Unit>> = RefCell::new(HashMap::new());
+        static LOOKED_UP: memo::Texts = RefCell::new(FastMap::default());
     }
     memo::remembered(&LOOKED_UP, symbol, |s| lookup_uncached(s).ok_or(())).ok()
 }
