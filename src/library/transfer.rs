@@ -293,7 +293,7 @@ pub const BUILTINS: &[Builtin] = &[
         params: WET_SURFACE,
         returns: "wet_surface record: Ts, w_s, Rc, q, q_conv, q_rad, q_cond, latent, ky, h",
         doc: "Temperature and constant drying rate of a freely wet surface under air with film coefficient h, solving the coupled heat and mass balance exactly (Chilton-Colburn k_Y, saturation pressure at Ts). Optional radiation from surroundings at `wall` (emissivity 0..1) and conduction from the air under the tray through the tray bottom (h_under in series with tray and bed layers) lift the surface above the wet-bulb.",
-        method: "h(T-Ts) + eps sigma (Tw^4-Ts^4) + U(T-Ts) = k_Y (w_s(Ts)-w) lambda(Ts), solved by Brent's method",
+        method: "h(T-Ts) + eps sigma (Tw^4-Ts^4) + U(T-Ts) = k_Y (w_s(Ts)-w) lambda(Ts), solved by Newton's method with the exact slope (Brent's method in a bracket where Newton's cannot vouch for the root)",
         source: "Geankoplis, Transport Processes and Separation Process Principles, section 9.6; Chilton and Colburn (1934)",
         validity: "surface above 0 degC and below boiling; air must be able to take up water",
         example: "wet_surface(air(T: 70 degC, rh: 4 %), h: 25 W/(m^2*K))",

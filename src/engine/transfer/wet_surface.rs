@@ -12,8 +12,10 @@
 //! 1/U = 1/h_under + sum(z_i / k_i)                (tray bottom, layers in series)
 //! ```
 //!
-//! The balance is solved for Ts exactly (Brent's method on the full,
-//! non-linear saturation pressure; radiation kept as T^4, not linearised).
+//! The balance is solved for Ts exactly (on the full, non-linear saturation
+//! pressure; radiation kept as T^4, not linearised): by Newton's method with
+//! its exact slope from a rough start ([`newton`]), and by brackets and
+//! Brent's method where that cannot vouch for its answer.
 //! With neither radiation nor conduction the surface sits at the
 //! psychrometric wet-bulb. Source of the balance: Geankoplis, *Transport
 //! Processes and Separation Process Principles*, section 9.6 (there with a
