@@ -28,14 +28,11 @@ import sys
 import time
 
 P = 101325.0
-# Humid-air states (AirState::from_w with transport properties) the wet-surface
-# solve builds per point in this sheet: one per film-temperature pass, three
-# passes; counted with valgrind --tool=callgrind on a 500-point sweep (1503
-# Transport::of calls, each on its own AirState::from_w, / 501 evaluations, the
-# extra one being the worksheet's own value before the sweep). Not counted: the ~14
-# evaluations per point of saturated air at trial surface temperatures
-# (w_s(Ts) and the latent heat) inside the surface-temperature solve.
-STATES_IN_WET_SURFACE = 3
+# Full humid-air states per sweep point (the worksheet's air() state plus one
+# AirState::from_w with transport properties per film-temperature pass of the
+# wet-surface solve) and the evaluations of saturated air at trial surface
+# temperatures (not counted as states): printed by benches/whatif.rs --oneshot,
+# which documents how they were counted (callgrind, 2,500-point sweep).
 V_AIR = 3.0  # m/s
 LOAD, X1, X2 = 20.0, 1.6, 0.5  # kg/m^2, db, db
 T_GRID = [40.2 + 0.2 * i for i in range(400)]  # degC, as steps(40.2 degC, 120 degC, 0.2 K)
@@ -144,10 +141,14 @@ def main():
               f"({r['sweep_cpu_seconds_all_threads']:.2f} s CPU); {r['sweep_seconds_one_thread']:.3f} s wall on one thread "
               f"({r['sweep_cpu_seconds_one_thread']:.2f} s CPU)")
         per_core = n / r["sweep_cpu_seconds_one_thread"]
+        states = r["full_states_per_point"]
         print(f"siccant: {per_core:,.0f} sweep points per CPU-second; per point the worksheet builds 1 air(T, rh) state "
-              f"and the wet-surface solve {STATES_IN_WET_SURFACE} more (with their transport properties): "
-              f"{per_core * (1 + STATES_IN_WET_SURFACE):,.0f} humid-air states/s/core "
+              f"and the wet-surface solve {states - 1:.2f} more on average (one per film-temperature pass, with their "
+              f"transport properties): {per_core * states:,.0f} humid-air states/s/core "
               f"({per_core:,.0f} counting only the worksheet's own air(...) state)")
+        sat = r["saturated_surface_evaluations_per_point"]
+        print(f"siccant: (information, not counted as states) {sat:.2f} evaluations of saturated air at trial surface "
+              f"temperatures per point: {per_core * sat:,.0f} per CPU-second")
         print(f"siccant: {r['monte_carlo_samples']:.0f}-sample Monte Carlo: {r['monte_carlo_seconds']:.3f} s wall "
               f"({r['monte_carlo_cpu_seconds']:.2f} s CPU)")
 

@@ -12,6 +12,7 @@ pub mod constant_rate;
 pub mod film;
 pub mod groups;
 pub mod jets;
+mod surface_side;
 pub mod wet_surface;
 
 use std::fmt;

@@ -19,6 +19,8 @@
 //!
 //! Validity: -40..350 degC, 50..200 kPa, any humidity ratio up to saturation.
 
+use std::sync::OnceLock;
+
 use uom::si::diffusion_coefficient::square_meter_per_second;
 use uom::si::dynamic_viscosity::pascal_second;
 use uom::si::f64::{
@@ -31,34 +33,67 @@ use uom::si::thermal_conductivity::watt_per_meter_kelvin;
 use crate::engine::air::thermo::{EPSILON, M_DRY_AIR, M_WATER};
 use crate::engine::air::{AirError, AirState};
 
+/// ln of the dry-air energy parameter eps/k = 103.3 K (Lemmon & Jacobsen 2004).
+const LN_EPS_K: f64 = 4.637_637_376_125_593;
+/// Reducing temperature of the dry-air conductivity, K, and its ln.
+const T_REDUCING: f64 = 132.6312;
+const LN_T_REDUCING: f64 = 4.887_572_344_192_089_5;
+
 /// Dilute-gas viscosity of dry air, Pa s (Lemmon & Jacobsen 2004 eqs. 2-4).
 pub fn dry_air_viscosity_pa_s(t: f64) -> f64 {
+    dry_air_viscosity_from_logs(t.sqrt(), t.ln())
+}
+
+/// [`dry_air_viscosity_pa_s`] from `sqrt(T)` and `ln T`, shared with the
+/// other properties of one state.
+fn dry_air_viscosity_from_logs(root_t: f64, ln_t: f64) -> f64 {
     const B: [f64; 5] = [0.431, -0.4623, 0.08406, 0.005341, -0.00331];
     const SIGMA_NM: f64 = 0.360;
-    const EPS_K: f64 = 103.3;
     const M_G_PER_MOL: f64 = 28.9586;
-    let ln_ts = (t / EPS_K).ln();
+    let ln_ts = ln_t - LN_EPS_K;
     let ln_omega = B[0] + ln_ts * (B[1] + ln_ts * (B[2] + ln_ts * (B[3] + ln_ts * B[4])));
-    1e-6 * 0.026_695_8 * (M_G_PER_MOL * t).sqrt() / (SIGMA_NM * SIGMA_NM * ln_omega.exp())
+    1e-6 * 0.026_695_8 * M_G_PER_MOL.sqrt() * root_t / (SIGMA_NM * SIGMA_NM * ln_omega.exp())
 }
 
 /// Dilute-gas thermal conductivity of dry air, W/(m K) (Lemmon & Jacobsen 2004 eq. 5).
 pub fn dry_air_conductivity_w_per_m_k(t: f64) -> f64 {
-    let tau = 132.6312 / t;
-    let eta_upa_s = dry_air_viscosity_pa_s(t) * 1e6;
-    1e-3 * (1.308 * eta_upa_s + 1.405 * tau.powf(-1.1) - 1.036 * tau.powf(-0.3))
+    let ln_t = t.ln();
+    dry_air_conductivity_from(t, ln_t, dry_air_viscosity_from_logs(t.sqrt(), ln_t))
+}
+
+/// [`dry_air_conductivity_w_per_m_k`] from `T`, `ln T` and the dilute-gas
+/// viscosity at T: `tau^-1.1 = (T/T_c) tau^-0.1`, `tau^-0.3 = (tau^-0.1)^3`,
+/// one exponential for both powers.
+fn dry_air_conductivity_from(t: f64, ln_t: f64, viscosity_pa_s: f64) -> f64 {
+    let tau_m01 = (0.1 * (ln_t - LN_T_REDUCING)).exp();
+    let tau_m03 = tau_m01 * tau_m01 * tau_m01;
+    let tau_m11 = t / T_REDUCING * tau_m01;
+    let eta_upa_s = viscosity_pa_s * 1e6;
+    1e-3 * (1.308 * eta_upa_s + 1.405 * tau_m11 - 1.036 * tau_m03)
 }
 
 /// Dilute-gas viscosity of water vapour, Pa s (IAPWS R12-08 eq. 11).
 pub fn vapour_viscosity_pa_s(t: f64) -> f64 {
+    vapour_viscosity_from(t / T_CRITICAL_WATER, (t / T_CRITICAL_WATER).sqrt())
+}
+
+/// Reducing temperature of the IAPWS water-vapour equations, K.
+const T_CRITICAL_WATER: f64 = 647.096;
+
+/// [`vapour_viscosity_pa_s`] from `T_r = T / 647.096 K` and its square root.
+fn vapour_viscosity_from(tr: f64, root_tr: f64) -> f64 {
     const H: [f64; 4] = [1.67752, 2.20462, 0.636_656_4, -0.241_605];
-    let tr = t / 647.096;
     let sum = H[0] + (H[1] + (H[2] + H[3] / tr) / tr) / tr;
-    1e-6 * 100.0 * tr.sqrt() / sum
+    1e-6 * 100.0 * root_tr / sum
 }
 
 /// Dilute-gas thermal conductivity of water vapour, W/(m K) (IAPWS R15-11 eq. 16).
 pub fn vapour_conductivity_w_per_m_k(t: f64) -> f64 {
+    vapour_conductivity_from(t / T_CRITICAL_WATER, (t / T_CRITICAL_WATER).sqrt())
+}
+
+/// [`vapour_conductivity_w_per_m_k`] from `T_r` and its square root.
+fn vapour_conductivity_from(tr: f64, root_tr: f64) -> f64 {
     const L: [f64; 5] = [
         2.443_221e-3,
         1.323_095e-2,
@@ -66,9 +101,8 @@ pub fn vapour_conductivity_w_per_m_k(t: f64) -> f64 {
         -3.454_586e-3,
         4.096_266e-4,
     ];
-    let tr = t / 647.096;
     let sum = L[0] + (L[1] + (L[2] + (L[3] + L[4] / tr) / tr) / tr) / tr;
-    1e-3 * tr.sqrt() / sum
+    1e-3 * root_tr / sum
 }
 
 /// Wilke's factors (phi_aw, phi_wa) between dry air (a) and water vapour (w):
@@ -76,7 +110,6 @@ pub fn vapour_conductivity_w_per_m_k(t: f64) -> f64 {
 /// The two viscosity ratios are reciprocal, so one square root serves both;
 /// the molar-mass terms are fixed and computed once.
 fn wilke_factors(mu_a: f64, mu_w: f64) -> (f64, f64) {
-    use std::sync::OnceLock;
     // (M_w/M_a)^(1/4), (M_a/M_w)^(1/4), sqrt(8 (1 + M_a/M_w)), sqrt(8 (1 + M_w/M_a)).
     static MASS_TERMS: OnceLock<[f64; 4]> = OnceLock::new();
     let [q_aw, q_wa, d_aw, d_wa] = *MASS_TERMS.get_or_init(|| {
@@ -131,14 +164,20 @@ pub struct Transport {
 }
 
 impl Transport {
-    /// All transport properties of `air`.
+    /// All transport properties of `air`. The temperature functions of the
+    /// four pure-gas properties and the diffusivity share one `sqrt T` and
+    /// one `ln T`.
     pub fn of(air: &AirState) -> Transport {
         let (t, w, p) = (air.t_kelvin(), air.humidity_ratio(), air.p_pascal());
         let x_w = water_mole_fraction(w);
-        let (mu_a, mu_w) = (dry_air_viscosity_pa_s(t), vapour_viscosity_pa_s(t));
-        let (k_a, k_w) = (
-            dry_air_conductivity_w_per_m_k(t),
-            vapour_conductivity_w_per_m_k(t),
+        let (root_t, ln_t) = (t.sqrt(), t.ln());
+        let mu_a = dry_air_viscosity_from_logs(root_t, ln_t);
+        let k_a = dry_air_conductivity_from(t, ln_t, mu_a);
+        let tr = t / T_CRITICAL_WATER;
+        let root_tr = root_t * (1.0 / T_CRITICAL_WATER.sqrt());
+        let (mu_w, k_w) = (
+            vapour_viscosity_from(tr, root_tr),
+            vapour_conductivity_from(tr, root_tr),
         );
         let (phi_aw, phi_wa) = wilke_factors(mu_a, mu_w);
         Transport {
@@ -146,7 +185,7 @@ impl Transport {
             conductivity_w_per_m_k: wilke_mix_with(x_w, k_a, k_w, phi_aw, phi_wa),
             cp_j_per_kg_k: air.humid_heat_j_per_kg_da_k() / (1.0 + w),
             density_kg_per_m3: (1.0 + w) / air.humid_volume_m3_per_kg_da(),
-            diffusivity_m2_per_s: fuller_diffusivity_m2_per_s(t, p),
+            diffusivity_m2_per_s: fuller_from_root(t, root_t, p),
         }
     }
 
@@ -172,7 +211,11 @@ impl Transport {
 /// `D = 0.00143 T^1.75 / (p_bar M_AB^0.5 (V_a^1/3 + V_w^1/3)^2)` cm^2/s with
 /// `M_AB = 2 / (1/M_a + 1/M_w)` (g/mol) and diffusion volumes 19.7 (air), 13.1 (H2O).
 pub fn fuller_diffusivity_m2_per_s(t: f64, p: f64) -> f64 {
-    use std::sync::OnceLock;
+    fuller_from_root(t, t.sqrt(), p)
+}
+
+/// [`fuller_diffusivity_m2_per_s`] given `sqrt T`.
+fn fuller_from_root(t: f64, root_t: f64, p: f64) -> f64 {
     const V_AIR: f64 = 19.7;
     const V_WATER: f64 = 13.1;
     // M_AB^0.5 (V_a^1/3 + V_w^1/3)^2: fixed, computed once.
@@ -183,8 +226,7 @@ pub fn fuller_diffusivity_m2_per_s(t: f64, p: f64) -> f64 {
         m_ab.sqrt() * volumes * volumes
     });
     // T^1.75 = T T^(1/2) T^(1/4).
-    let root = t.sqrt();
-    let t_175 = t * root * root.sqrt();
+    let t_175 = t * root_t * root_t.sqrt();
     let d_cm2_s = 0.00143 * t_175 / ((p / 1e5) * fixed);
     d_cm2_s * 1e-4
 }
@@ -298,6 +340,33 @@ mod tests {
             let want_wa = phi(mu_w, mu_a, M_WATER, M_DRY_AIR);
             assert!((aw / want_aw - 1.0).abs() < 1e-14, "{t}: {aw} {want_aw}");
             assert!((wa / want_wa - 1.0).abs() < 1e-14, "{t}: {wa} {want_wa}");
+        }
+    }
+
+    /// The logarithms written as constants are those of the published
+    /// reducing temperatures, and the properties computed from a shared
+    /// `sqrt T` and `ln T` equal the formulas written with `powf` (Lemmon &
+    /// Jacobsen 2004 eqs. 2-5, IAPWS R12-08 eq. 11, R15-11 eq. 16).
+    #[test]
+    fn shared_roots_and_logs_match_the_formulas() {
+        let close = |a: f64, b: f64| (a / b - 1.0).abs() < 1e-14;
+        assert!((LN_EPS_K - 103.3_f64.ln()).abs() < 1e-15);
+        assert!((LN_T_REDUCING - T_REDUCING.ln()).abs() < 1e-15);
+        for t in (0..40).map(|i| 233.15 + 10.0 * f64::from(i)) {
+            let mu = {
+                const B: [f64; 5] = [0.431, -0.4623, 0.08406, 0.005341, -0.00331];
+                let l = (t / 103.3).ln();
+                let ln_omega = B[0] + l * (B[1] + l * (B[2] + l * (B[3] + l * B[4])));
+                1e-6 * 0.026_695_8 * (28.9586 * t).sqrt() / (0.36 * 0.36 * ln_omega.exp())
+            };
+            assert!(close(dry_air_viscosity_pa_s(t), mu), "{t}");
+            let tau = 132.6312 / t;
+            let k = 1e-3 * (1.308 * mu * 1e6 + 1.405 * tau.powf(-1.1) - 1.036 * tau.powf(-0.3));
+            assert!(close(dry_air_conductivity_w_per_m_k(t), k), "{t}");
+            let tr = t / 647.096;
+            let mu_w = 1e-4 * tr.sqrt()
+                / (1.67752 + 2.20462 / tr + 0.636_656_4 / (tr * tr) - 0.241_605 / (tr * tr * tr));
+            assert!(close(vapour_viscosity_pa_s(t), mu_w), "{t}");
         }
     }
 

@@ -293,7 +293,7 @@ pub const BUILTINS: &[Builtin] = &[
         params: WET_SURFACE,
         returns: "wet_surface record: Ts, w_s, Rc, q, q_conv, q_rad, q_cond, latent, ky, h",
         doc: "Temperature and constant drying rate of a freely wet surface under air with film coefficient h, solving the coupled heat and mass balance exactly (Chilton-Colburn k_Y, saturation pressure at Ts). Optional radiation from surroundings at `wall` (emissivity 0..1) and conduction from the air under the tray through the tray bottom (h_under in series with tray and bed layers) lift the surface above the wet-bulb.",
-        method: "h(T-Ts) + eps sigma (Tw^4-Ts^4) + U(T-Ts) = k_Y (w_s(Ts)-w) lambda(Ts), solved by Brent's method",
+        method: "h(T-Ts) + eps sigma (Tw^4-Ts^4) + U(T-Ts) = k_Y (w_s(Ts)-w) lambda(Ts), solved by Newton's method with the exact slope (Brent's method in a bracket where Newton's cannot vouch for the root)",
         source: "Geankoplis, Transport Processes and Separation Process Principles, section 9.6; Chilton and Colburn (1934)",
         validity: "surface above 0 degC and below boiling; air must be able to take up water",
         example: "wet_surface(air(T: 70 degC, rh: 4 %), h: 25 W/(m^2*K))",
@@ -900,6 +900,9 @@ impl Payload for WetSurface {
 }
 
 fn radiation_arg(args: &mut Args) -> Result<Option<Radiation>, Diagnostic> {
+    if !args.has("emissivity") && !args.has("wall") {
+        return Ok(None);
+    }
     let eps_span = args.span_of("emissivity");
     let eps = match args.opt_quantity("emissivity", Dim::NONE)? {
         Some(q) if (0.0..=1.0).contains(&q.si) => Some(q.si),
@@ -929,6 +932,16 @@ fn radiation_arg(args: &mut Args) -> Result<Option<Radiation>, Diagnostic> {
 /// layer (`tray_thickness`, `tray_k`) and wet-bed layer (`bed_thickness`,
 /// `bed_k`); present when any of these is given.
 fn bottom_arg(args: &mut Args, h: f64) -> Result<Option<TrayBottom>, Diagnostic> {
+    const NAMES: [&str; 5] = [
+        "h_under",
+        "tray_thickness",
+        "tray_k",
+        "bed_thickness",
+        "bed_k",
+    ];
+    if !NAMES.iter().any(|name| args.has(name)) {
+        return Ok(None);
+    }
     let h_under = opt_positive(args, "h_under", Dim::HEAT_TRANSFER_COEFFICIENT)?;
     let tray = layer_arg(args, "tray_thickness", "tray_k")?;
     let bed = layer_arg(args, "bed_thickness", "bed_k")?;
@@ -999,46 +1012,51 @@ fn surface_record(s: WetSurface, h: f64) -> Record {
     let ts = s
         .temperature
         .get::<uom::si::thermodynamic_temperature::kelvin>();
-    let mut r = Record::with_capacity("wet_surface", 10)
-        .with(
-            "Ts",
+    // The fields in one vector, allocated once.
+    let fields = vec![
+        (
+            "Ts".into(),
             Value::Quantity(
                 Quantity::new(ts, Dim::TEMPERATURE, Kind::AbsoluteTemperature),
                 None,
             ),
-        )
-        .with(
-            "w_s",
+        ),
+        (
+            "w_s".into(),
             Value::Quantity(
                 Quantity::new(s.w_surface_kg_per_kg_da, Dim::NONE, Kind::HumidityRatio),
                 None,
             ),
-        )
-        .with(
-            "Rc",
+        ),
+        (
+            "Rc".into(),
             shown(
                 s.rate
                     .get::<uom::si::mass_flux::kilogram_per_square_meter_second>(),
                 Dim::MASS_FLUX,
                 "kg/(m^2*h)",
             ),
-        )
-        .with("q", q(s.heat_flux))
-        .with("q_conv", q(s.convective))
-        .with("q_rad", q(s.radiative))
-        .with("q_cond", q(s.conductive))
-        .with(
-            "latent",
+        ),
+        ("q".into(), q(s.heat_flux)),
+        ("q_conv".into(), q(s.convective)),
+        ("q_rad".into(), q(s.radiative)),
+        ("q_cond".into(), q(s.conductive)),
+        (
+            "latent".into(),
             quantity(
                 s.latent_heat
                     .get::<uom::si::available_energy::joule_per_kilogram>(),
                 Dim::SPECIFIC_ENERGY,
             ),
-        )
-        .with("ky", kg_m2_s(s.k_y))
-        .with("h", quantity(h, Dim::HEAT_TRANSFER_COEFFICIENT));
-    r.payload = Some(std::sync::Arc::new(s));
-    r
+        ),
+        ("ky".into(), kg_m2_s(s.k_y)),
+        ("h".into(), quantity(h, Dim::HEAT_TRANSFER_COEFFICIENT)),
+    ];
+    Record {
+        type_name: "wet_surface".into(),
+        fields: std::sync::Arc::new(fields),
+        payload: Some(std::sync::Arc::new(s)),
+    }
 }
 
 /// A dry-basis moisture content: kind Moisture or a plain number.

@@ -23,7 +23,9 @@ const NAME: &str = "Chilton-Colburn analogy";
 pub fn colburn_factor(pr: f64, sc: f64) -> Result<Correlated<f64>, TransferError> {
     let pr = positive("Prandtl number", pr, "")?;
     let sc = positive("Schmidt number", sc, "")?;
-    let mut out = Correlated::new((pr / sc).powf(2.0 / 3.0));
+    // (Pr/Sc)^(2/3) as the cube root of the square: one root, no power.
+    let ratio = pr / sc;
+    let mut out = Correlated::new((ratio * ratio).cbrt());
     check_range(&mut out.warnings, NAME, "Pr", pr, (0.6, 60.0), "");
     check_range(&mut out.warnings, NAME, "Sc", sc, (0.6, 3000.0), "");
     Ok(out)

@@ -12,8 +12,10 @@
 //! 1/U = 1/h_under + sum(z_i / k_i)                (tray bottom, layers in series)
 //! ```
 //!
-//! The balance is solved for Ts exactly (Brent's method on the full,
-//! non-linear saturation pressure; radiation kept as T^4, not linearised).
+//! The balance is solved for Ts exactly (on the full, non-linear saturation
+//! pressure; radiation kept as T^4, not linearised): by Newton's method with
+//! its exact slope from a rough start ([`newton`]), and by brackets and
+//! Brent's method where that cannot vouch for its answer.
 //! With neither radiation nor conduction the surface sits at the
 //! psychrometric wet-bulb. Source of the balance: Geankoplis, *Transport
 //! Processes and Separation Process Principles*, section 9.6 (there with a
@@ -39,6 +41,8 @@ use crate::engine::air::thermo::{EPSILON, R_WATER_IF97};
 use crate::engine::air::{self, AirState};
 use crate::engine::solve::{brent, Tolerance};
 use crate::engine::transport;
+
+mod newton;
 
 /// Stefan-Boltzmann constant, W/(m^2 K^4) (CODATA 2018, exact in SI).
 pub const STEFAN_BOLTZMANN: f64 = 5.670_374_419e-8;
@@ -226,6 +230,20 @@ pub fn wet_surface(
     h: HeatTransfer,
     extra: &ExtraHeat,
 ) -> Result<WetSurface, TransferError> {
+    let (mut balance, cs) = balance_of(air, h, extra)?;
+    if let Some((solution, factor)) = newton::solve(air, &mut balance, cs) {
+        return finish(&balance, &solution, factor.value, factor.warnings);
+    }
+    solve_by_brackets(air, &mut balance, cs, FILM_TOL_K)
+}
+
+/// The balance's fixed coefficients (k_Y still zero) after checking the
+/// inputs, and the humid heat of the air, J/(kg dry air K).
+fn balance_of(
+    air: &AirState,
+    h: HeatTransfer,
+    extra: &ExtraHeat,
+) -> Result<(Balance, f64), TransferError> {
     let h_si = positive(
         "heat-transfer coefficient h",
         h.get::<watt_per_square_meter_kelvin>(),
@@ -239,7 +257,7 @@ pub fn wet_surface(
     let cs = air
         .humid_heat()
         .get::<uom::si::specific_heat_capacity::joule_per_kilogram_kelvin>();
-    let mut balance = Balance {
+    let balance = Balance {
         t_air: air.t_kelvin(),
         w_air: air.humidity_ratio(),
         p: air.p_pascal(),
@@ -248,25 +266,49 @@ pub fn wet_surface(
         u_bottom,
         radiation,
     };
+    Ok((balance, cs))
+}
+
+/// The film-temperature iteration stops when the surface temperature the
+/// film temperature was taken from and the one solved with it differ by less
+/// than this, K.
+const FILM_TOL_K: f64 = 1e-3;
+
+/// Most film-temperature passes before the iteration counts as not settling.
+const MAX_FILM_PASSES: usize = 20;
+
+/// The wet-surface balance solved by bracketing, without slopes: the film
+/// temperature starts at the air temperature and is iterated until the
+/// surface temperature moves less than `film_tol` (K); each pass brackets the
+/// root (Newton steps on an estimated slope) and closes the bracket by
+/// Brent's method. Robust everywhere (the ice-liquid join, the IF97 join,
+/// a surface held below the dew point): the fallback of the Newton solve in
+/// [`newton`], and the reference it is tested against.
+fn solve_by_brackets(
+    air: &AirState,
+    balance: &mut Balance,
+    cs: f64,
+    film_tol: f64,
+) -> Result<WetSurface, TransferError> {
     // Film temperature depends on Ts: start at the air temperature, re-solve
-    // until Ts moves less than 1 mK (two or three passes). The bracket ends
-    // (dew point, boiling point) do not depend on k_Y: find them once.
-    let bracket = surface_bracket(air, &balance)?;
+    // until Ts moves less than `film_tol` (two or three passes). The bracket
+    // ends (dew point, boiling point) do not depend on k_Y: find them once.
+    let bracket = surface_bracket(air, balance)?;
     let mut ts = balance.t_air;
     let mut last: Option<Sample> = None;
     let mut factor = colburn_factor(1.0, 1.0)?;
-    for _ in 0..20 {
+    for _ in 0..MAX_FILM_PASSES {
         factor = film_colburn_factor(air, 0.5 * (balance.t_air + ts))?;
-        balance.k_y = h_si / cs * factor.value;
+        balance.k_y = balance.h / cs * factor.value;
         let next = match last {
-            None => solve_surface(&balance, bracket)?,
-            Some(s) => solve_from(&balance, bracket, s)?,
+            None => solve_surface(balance, bracket)?,
+            Some(s) => solve_from(balance, bracket, s)?,
         };
-        let done = (next.ts - ts).abs() < 1e-3;
+        let done = (next.ts - ts).abs() < film_tol;
         ts = next.ts;
         last = Some(next);
         if done {
-            return finish(&balance, &next, factor.value, factor.warnings);
+            return finish(balance, &next, factor.value, factor.warnings);
         }
     }
     Err(TransferError::NoConvergence(format!(
