@@ -12,6 +12,8 @@ use crate::value::Value;
 impl Ctx<'_> {
     /// Evaluate `callee(args)`.
     pub fn call(&mut self, callee: &Ident, args: &[CallArg], span: Span) -> Flow<Value> {
+        // Meant for this call alone, not for calls in its arguments.
+        let wanted = self.wanted.take();
         let name = callee.name.as_str();
         match self.sheet.defs.get(name).map(|d| d.kind) {
             Some(DefKind::Function) => return self.call_user(callee, args, span),
@@ -28,7 +30,7 @@ impl Ctx<'_> {
             return self.whatif(callee, args, span);
         }
         match library::find(name) {
-            Some(b) => self.call_builtin(b, args, span),
+            Some(b) => self.call_builtin(b, args, span, wanted),
             None => Err(self.unknown_function(callee).into()),
         }
     }
@@ -64,7 +66,13 @@ impl Ctx<'_> {
         Ok(out)
     }
 
-    fn call_builtin(&mut self, b: &'static Builtin, args: &[CallArg], span: Span) -> Flow<Value> {
+    fn call_builtin(
+        &mut self,
+        b: &'static Builtin,
+        args: &[CallArg],
+        span: Span,
+        wanted: Option<std::sync::Arc<[String]>>,
+    ) -> Flow<Value> {
         let slots = arg_slots(b, args)?;
         if self.mode == Mode::CheckOnly || self.checking.blind > 0 {
             // Checking keeps the argument names: shapes are matched by name.
@@ -85,7 +93,8 @@ impl Ctx<'_> {
             };
             values.push((slot, arg));
         }
-        let bound = Args::bind_slots(b, span, values)?;
+        let mut bound = Args::bind_slots(b, span, values)?;
+        bound.wanted = wanted;
         self.run_builtin(b, bound, span)
     }
 

@@ -71,6 +71,9 @@ pub struct Ctx<'a> {
     nesting: usize,
     /// Shape checking: blind evaluation and user calls (see `shape.rs`).
     pub(super) checking: super::shape::Checking,
+    /// The fields wanted of the built-in call being forced (its definition's
+    /// [`super::Def::wanted`]); taken by that call.
+    pub(super) wanted: Option<std::sync::Arc<[String]>>,
 }
 
 /// Most expression evaluations nested inside one another (across calls).
@@ -99,6 +102,7 @@ impl<'a> Ctx<'a> {
             depth: 0,
             nesting: 0,
             checking: super::shape::Checking::default(),
+            wanted: None,
         }
     }
 
@@ -157,8 +161,8 @@ impl<'a> Ctx<'a> {
         if self.failed.contains(name) {
             return Err(Stop::Reported);
         }
-        let (kind, expr) = match self.sheet.defs.get(name) {
-            Some(d) => (d.kind, d.expr.clone()),
+        let (kind, expr, wanted) = match self.sheet.defs.get(name) {
+            Some(d) => (d.kind, d.expr.clone(), d.wanted.clone()),
             None => return Err(self.undefined(name, use_span)),
         };
         if kind == DefKind::Function {
@@ -177,7 +181,13 @@ impl<'a> Ctx<'a> {
         let blind = std::mem::take(&mut self.checking.blind);
         let result = match overridden {
             Some(v) => self.checked_override(name, &expr, v),
-            None => self.expr(&expr),
+            None => {
+                // The definition is a call; the call takes this first.
+                self.wanted = wanted;
+                let v = self.expr(&expr);
+                self.wanted = None;
+                v
+            }
         };
         self.checking.blind = blind;
         self.frame = saved;

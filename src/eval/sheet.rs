@@ -42,6 +42,10 @@ pub struct Def {
     pub deps: Vec<String>,
     /// Span of the whole statement.
     pub span: Span,
+    /// For a value that is a built-in call: the only fields of its record
+    /// that are ever read, when a what-if study has worked them out (passed to
+    /// the built-in as [`crate::library::Args::wanted`]); `None` otherwise.
+    pub wanted: Option<Arc<[String]>>,
 }
 
 /// What [`Sheet::define_all`] did.
@@ -282,5 +286,6 @@ pub fn definition(stmt: &Stmt) -> Option<Def> {
         expr: expr.clone(),
         deps,
         span: stmt.span,
+        wanted: None,
     })
 }

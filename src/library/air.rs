@@ -633,48 +633,142 @@ fn abs_t(t_k: f64) -> Value {
 /// Fields of an `air` record (with the outlet fields a process adds).
 const AIR_FIELDS: usize = 20;
 
+/// The fields of an `air` record, in order.
+const AIR_RECORD_FIELDS: [&str; 13] = [
+    "T",
+    "rh",
+    "w",
+    "dewpoint",
+    "wetbulb",
+    "h",
+    "v",
+    "rho",
+    "cp",
+    "p",
+    "pv",
+    "w_sat",
+    "degree_of_saturation",
+];
+
+/// The position of `name` in [`AIR_RECORD_FIELDS`] (evaluated at compile
+/// time, where a name not in the list is an error).
+const fn field_index(name: &str) -> usize {
+    let mut i = 0;
+    while i < AIR_RECORD_FIELDS.len() {
+        if const_eq(AIR_RECORD_FIELDS[i], name) {
+            return i;
+        }
+        i += 1;
+    }
+    panic!("not a field of an air record")
+}
+
+const fn const_eq(a: &str, b: &str) -> bool {
+    let (a, b) = (a.as_bytes(), b.as_bytes());
+    if a.len() != b.len() {
+        return false;
+    }
+    let mut i = 0;
+    while i < a.len() {
+        if a[i] != b[i] {
+            return false;
+        }
+        i += 1;
+    }
+    true
+}
+
 /// The record of an air state, with its payload. Warnings go to `args`.
+///
+/// Only the fields the caller reads are computed when it says which
+/// ([`Args::wants`]; a what-if study's points): an unread wet-bulb or dew point
+/// is not solved, so its error or warning is not raised either.
 pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
-    let mut fields: Vec<(FieldName, Value)> = Vec::with_capacity(AIR_FIELDS);
+    let mask = AIR_RECORD_FIELDS
+        .iter()
+        .enumerate()
+        .filter(|(_, name)| args.wants(name))
+        .fold(0u16, |m, (i, _)| m | 1 << i);
+    // By position in AIR_RECORD_FIELDS, found at compile time.
+    macro_rules! wants {
+        ($name:literal) => {
+            mask & 1 << const { field_index($name) } != 0
+        };
+    }
+    let mut fields: Vec<(FieldName, Value)> = Vec::with_capacity(if args.wanted.is_none() {
+        AIR_FIELDS
+    } else {
+        mask.count_ones() as usize
+    });
     let mut field =
         |name: &'static str, value: Value| fields.push((FieldName::Borrowed(name), value));
     let w = s.humidity_ratio();
-    field("T", abs_t(s.t_kelvin()));
-    field("rh", q(s.relative_humidity(), Dim::NONE, Kind::Activity));
-    field("w", q(w, Dim::NONE, Kind::HumidityRatio));
-    match s.dew_point() {
-        Ok(td) => field("dewpoint", abs_t(td.get::<kelvin>())),
-        Err(e) => args.warn(format!("no dew point field: {e}")),
+    if wants!("T") {
+        field("T", abs_t(s.t_kelvin()));
     }
-    let twb = s
-        .wet_bulb()
-        .map_err(|e| Diagnostic::error(args.call_span, e.to_string()))?;
-    field("wetbulb", abs_t(twb.get::<kelvin>()));
-    field(
-        "h",
-        q(s.enthalpy().value, Dim::SPECIFIC_ENERGY, Kind::Plain),
-    );
-    // rho = (1 + w) / v, as AirState::density, from the volume just computed.
-    let v = s.humid_volume().value;
-    field("v", q(v, Dim::SPECIFIC_VOLUME, Kind::Plain));
-    field("rho", q((1.0 + w) / v, Dim::DENSITY, Kind::Plain));
-    field(
-        "cp",
-        q(s.humid_heat().value, Dim::SPECIFIC_HEAT, Kind::Plain),
-    );
-    field("p", q(s.p_pascal(), Dim::PRESSURE, Kind::Plain));
-    field(
-        "pv",
-        q(
-            s.vapour_pressure().get::<pascal>(),
-            Dim::PRESSURE,
-            Kind::Plain,
-        ),
-    );
-    if let Some(ws) = s.saturation_humidity_ratio() {
-        // The degree of saturation w / w_s, from the w_s just computed.
-        field("w_sat", q(ws, Dim::NONE, Kind::HumidityRatio));
-        field("degree_of_saturation", q(w / ws, Dim::NONE, Kind::Fraction));
+    if wants!("rh") {
+        field("rh", q(s.relative_humidity(), Dim::NONE, Kind::Activity));
+    }
+    if wants!("w") {
+        field("w", q(w, Dim::NONE, Kind::HumidityRatio));
+    }
+    if wants!("dewpoint") {
+        match s.dew_point() {
+            Ok(td) => field("dewpoint", abs_t(td.get::<kelvin>())),
+            Err(e) => args.warn(format!("no dew point field: {e}")),
+        }
+    }
+    if wants!("wetbulb") {
+        let twb = s
+            .wet_bulb()
+            .map_err(|e| Diagnostic::error(args.call_span, e.to_string()))?;
+        field("wetbulb", abs_t(twb.get::<kelvin>()));
+    }
+    if wants!("h") {
+        field(
+            "h",
+            q(s.enthalpy().value, Dim::SPECIFIC_ENERGY, Kind::Plain),
+        );
+    }
+    if wants!("v") || wants!("rho") {
+        // rho = (1 + w) / v, as AirState::density, from the volume just computed.
+        let v = s.humid_volume().value;
+        if wants!("v") {
+            field("v", q(v, Dim::SPECIFIC_VOLUME, Kind::Plain));
+        }
+        if wants!("rho") {
+            field("rho", q((1.0 + w) / v, Dim::DENSITY, Kind::Plain));
+        }
+    }
+    if wants!("cp") {
+        field(
+            "cp",
+            q(s.humid_heat().value, Dim::SPECIFIC_HEAT, Kind::Plain),
+        );
+    }
+    if wants!("p") {
+        field("p", q(s.p_pascal(), Dim::PRESSURE, Kind::Plain));
+    }
+    if wants!("pv") {
+        field(
+            "pv",
+            q(
+                s.vapour_pressure().get::<pascal>(),
+                Dim::PRESSURE,
+                Kind::Plain,
+            ),
+        );
+    }
+    if wants!("w_sat") || wants!("degree_of_saturation") {
+        if let Some(ws) = s.saturation_humidity_ratio() {
+            // The degree of saturation w / w_s, from the w_s just computed.
+            if wants!("w_sat") {
+                field("w_sat", q(ws, Dim::NONE, Kind::HumidityRatio));
+            }
+            if wants!("degree_of_saturation") {
+                field("degree_of_saturation", q(w / ws, Dim::NONE, Kind::Fraction));
+            }
+        }
     }
     Ok(Record {
         type_name: FieldName::Borrowed("air"),

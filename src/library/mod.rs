@@ -105,6 +105,10 @@ pub struct Args {
     pub warnings: Vec<Diagnostic>,
     /// Folder of the calling worksheet, for relative file paths (None: current folder).
     pub dir: Option<std::sync::Arc<std::path::Path>>,
+    /// The fields of the resulting record that the caller will read, when it
+    /// knows them all (a what-if study's points); `None`: every field. A
+    /// built-in may leave out the fields not named here (see [`Args::wants`]).
+    pub wanted: Option<std::sync::Arc<[String]>>,
 }
 
 impl Args {
@@ -171,7 +175,17 @@ impl Args {
             bound,
             warnings: Vec::new(),
             dir: None,
+            wanted: None,
         })
+    }
+
+    /// Will the caller read field `name` of the record this call returns?
+    /// True unless the caller named the fields it reads and `name` is not one.
+    #[inline]
+    pub fn wants(&self, name: &str) -> bool {
+        self.wanted
+            .as_ref()
+            .is_none_or(|w| w.iter().any(|f| f == name))
     }
 
     fn index(&self, name: &str) -> usize {

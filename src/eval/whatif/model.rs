@@ -9,14 +9,14 @@
 //! of the sheet from a small pool, so no state is shared between points.
 
 use std::collections::HashSet;
-use std::sync::Mutex;
+use std::sync::{Arc, Mutex};
 
 use rayon::prelude::*;
 
 use super::progress::{self, Progress};
 use crate::diag::{Diagnostic, Span};
 use crate::eval::{graph, Ctx, DefKind, FastMap, Flow, Limits, Mode, Sheet, Sources};
-use crate::syntax::{Expr, StmtKind};
+use crate::syntax::{Expr, ExprKind, StmtKind};
 use crate::units::{Quantity, Unit};
 use crate::value::Value;
 
@@ -131,6 +131,12 @@ impl Model {
         let mut sheet = ctx.sheet.clone();
         for n in &dependent {
             sheet.cache.remove(n);
+        }
+        let exprs = probes.iter().chain(rules.iter().map(|r| &r.expr));
+        for (name, fields) in wanted_fields(&sheet.defs, &dependent, exprs) {
+            if let Some(d) = sheet.defs.get_mut(&name) {
+                d.wanted = Some(fields);
+            }
         }
         Ok(Model {
             sheet,
@@ -312,6 +318,85 @@ fn dependents(defs: &FastMap<String, crate::eval::Def>, names: &[String]) -> Has
         }
     }
     out
+}
+
+/// The values recomputed at each point that are built-in calls whose records
+/// are only ever read field by field (`a.wetbulb`), in the worksheet's
+/// definitions, `probes` and rules, with the fields read: the built-in need
+/// compute no other field. A value read whole anywhere (shown, passed to a
+/// function, listed) is left out.
+fn wanted_fields<'e>(
+    defs: &'e FastMap<String, crate::eval::Def>,
+    dependent: &HashSet<String>,
+    probes: impl Iterator<Item = &'e Expr>,
+) -> Vec<(String, Arc<[String]>)> {
+    let candidates: Vec<&str> = dependent
+        .iter()
+        .filter(|n| defs.get(*n).is_some_and(|d| is_builtin_call(defs, d)))
+        .map(String::as_str)
+        .collect();
+    if candidates.is_empty() {
+        return Vec::new();
+    }
+    // Per name: the fields read, or None once it is read whole.
+    let mut reads: FastMap<&str, Option<Vec<&str>>> =
+        candidates.iter().map(|n| (*n, Some(Vec::new()))).collect();
+    let mut stack: Vec<&Expr> = defs.values().map(|d| &*d.expr).chain(probes).collect();
+    while let Some(e) = stack.pop() {
+        match &e.kind {
+            ExprKind::Field(a, field) => match &a.kind {
+                ExprKind::Name(n) => {
+                    if let Some(Some(fields)) = reads.get_mut(n.as_str()) {
+                        if !fields.contains(&field.name.as_str()) {
+                            fields.push(&field.name);
+                        }
+                    }
+                }
+                _ => stack.push(a),
+            },
+            ExprKind::Name(n) => {
+                if let Some(r) = reads.get_mut(n.as_str()) {
+                    *r = None;
+                }
+            }
+            ExprKind::Call { callee, args } => {
+                if let Some(r) = reads.get_mut(callee.name.as_str()) {
+                    *r = None;
+                }
+                stack.extend(args.iter().map(|a| &a.value));
+            }
+            ExprKind::Quantity { .. } | ExprKind::Bool(_) | ExprKind::Str(_) => {}
+            ExprKind::List(items) => stack.extend(items),
+            ExprKind::Record(fields) => stack.extend(fields.iter().map(|(_, e)| e)),
+            ExprKind::Unary(_, a) | ExprKind::As(a, _) => stack.push(a),
+            ExprKind::Binary(_, a, b) => stack.extend([&**a, &**b]),
+            ExprKind::If(c, a, b) => stack.extend([&**c, &**a, &**b]),
+        }
+    }
+    reads
+        .into_iter()
+        .filter_map(|(n, r)| {
+            let fields: Vec<String> = r?.into_iter().map(String::from).collect();
+            Some((n.to_string(), Arc::from(fields)))
+        })
+        .collect()
+}
+
+/// Is `d` a value defined by a call of a built-in (not a user function, a
+/// load or a what-if form)?
+fn is_builtin_call(defs: &FastMap<String, crate::eval::Def>, d: &crate::eval::Def) -> bool {
+    match &d.expr.kind {
+        ExprKind::Call { callee, .. } => {
+            d.kind == DefKind::Value
+                && callee.name != "load"
+                && defs
+                    .get(&callee.name)
+                    .is_none_or(|f| f.kind != DefKind::Function)
+                && !FORMS.contains(&callee.name.as_str())
+                && crate::library::find(&callee.name).is_some()
+        }
+        _ => false,
+    }
 }
 
 /// Compute, once, every value the probes need that the inputs do not change.
