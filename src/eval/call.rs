@@ -73,7 +73,7 @@ impl Ctx<'_> {
         span: Span,
         wanted: Option<std::sync::Arc<[String]>>,
     ) -> Flow<Value> {
-        let slots = arg_slots(b, args)?;
+        check_arg_names(b, args)?;
         if self.mode == Mode::CheckOnly || self.checking.blind > 0 {
             // Checking keeps the argument names: shapes are matched by name.
             let values = self.arguments(args)?;
@@ -84,7 +84,8 @@ impl Ctx<'_> {
             return self.run_builtin(b, bound, span);
         }
         let mut values = Vec::with_capacity(args.len());
-        for (a, slot) in args.iter().zip(slots) {
+        for a in args {
+            let slot = a.name.as_ref().and_then(|n| param_index(b, &n.name));
             let value = self.expr(&a.value)?;
             let arg = Arg {
                 name: None,
@@ -142,18 +143,22 @@ impl Ctx<'_> {
     }
 }
 
-/// The parameter index of each argument (`None`: positional), reporting a
-/// misspelt argument name before evaluating anything.
-fn arg_slots(b: &Builtin, args: &[CallArg]) -> Result<Vec<Option<usize>>, Diagnostic> {
-    args.iter()
-        .map(|a| match &a.name {
-            None => Ok(None),
-            Some(n) => match b.params.iter().position(|p| p.name == n.name) {
-                Some(i) => Ok(Some(i)),
-                None => Err(misspelt_arg(b, n)),
-            },
-        })
-        .collect()
+/// Report a misspelt argument name before evaluating anything.
+fn check_arg_names(b: &Builtin, args: &[CallArg]) -> Result<(), Diagnostic> {
+    for a in args {
+        if let Some(n) = &a.name {
+            if param_index(b, &n.name).is_none() {
+                return Err(misspelt_arg(b, n));
+            }
+        }
+    }
+    Ok(())
+}
+
+/// The index of `b`'s parameter `name`.
+#[inline]
+fn param_index(b: &Builtin, name: &str) -> Option<usize> {
+    b.params.iter().position(|p| p.name == name)
 }
 
 fn misspelt_arg(b: &Builtin, n: &Ident) -> Diagnostic {

@@ -32,6 +32,8 @@ pub enum DefKind {
 pub struct Def {
     /// The defined name, with its span.
     pub name: Ident,
+    /// The name, shared: the key of its value in [`Sheet::cache`].
+    pub key: Arc<str>,
     /// Value, input or function.
     pub kind: DefKind,
     /// Parameter names of a function; empty otherwise.
@@ -66,8 +68,9 @@ pub struct Sheet {
     pub defs: FastMap<String, Def>,
     /// Names in definition order.
     pub order: Vec<String>,
-    /// Values already computed.
-    pub cache: FastMap<String, Value>,
+    /// Values already computed, by name (the definitions' shared
+    /// [`Def::key`]s, so that caching a value allocates no name).
+    pub cache: FastMap<Arc<str>, Value>,
     /// Input values set from outside (`--set`, `load(..., name: value)`).
     pub overrides: FastMap<String, Value>,
     /// Resolved units by their text (`kg/m^2`), so each is looked up once.
@@ -229,7 +232,7 @@ impl Sheet {
                 queue.extend(readers.get(n).into_iter().flatten().copied());
             }
         }
-        self.cache.retain(|k, _| !dirty.contains(k));
+        self.cache.retain(|k, _| !dirty.contains(&**k));
     }
 
     /// Source files a live definition points into (its statement and name).
@@ -280,6 +283,7 @@ pub fn definition(stmt: &Stmt) -> Option<Def> {
     };
     let deps = graph::dependencies(expr, &params);
     Some(Def {
+        key: Arc::from(name.name.as_str()),
         name: name.clone(),
         kind,
         params,

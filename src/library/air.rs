@@ -558,20 +558,28 @@ fn opt_stream(args: &mut Args, name: &str, state: &AirState) -> Result<Option<St
 /// Where each parameter was given (captured before arguments are consumed).
 struct Spans {
     call: Span,
-    given: Vec<(&'static str, Span)>,
+    given: Given,
+}
+
+/// The given parameters with their spans: up to three inline (`air`'s T, p
+/// and second property, without allocating), or any number.
+enum Given {
+    Few([(&'static str, Span); 3], usize),
+    Many(Vec<(&'static str, Span)>),
 }
 
 impl Spans {
-    /// The spans of the given parameters among `names`.
+    /// The spans of the given parameters among `names` (at most three).
     fn of_names(args: &Args, names: &[&'static str]) -> Spans {
-        let given = names
-            .iter()
-            .filter(|n| args.has(n))
-            .map(|n| (*n, args.span_of(n)))
-            .collect();
+        let mut few = [("", Span::default()); 3];
+        let mut len = 0;
+        for n in names.iter().filter(|n| args.has(n)) {
+            few[len] = (*n, args.span_of(n));
+            len += 1;
+        }
         Spans {
             call: args.call_span,
-            given,
+            given: Given::Few(few, len),
         }
     }
 
@@ -585,15 +593,18 @@ impl Spans {
             .collect();
         Spans {
             call: args.call_span,
-            given,
+            given: Given::Many(given),
         }
     }
 
     /// An engine error as a diagnostic on the argument it names (else on the call).
     fn blame(&self, e: AirError) -> Diagnostic {
         let name = error_argument(&e);
-        let span = self
-            .given
+        let given = match &self.given {
+            Given::Few(few, len) => &few[..*len],
+            Given::Many(many) => many.as_slice(),
+        };
+        let span = given
             .iter()
             .find(|(n, _)| *n == name)
             .map_or(self.call, |(_, s)| *s);

@@ -79,6 +79,8 @@ impl Outcome {
 struct Work {
     sheet: Sheet,
     sources: Sources,
+    /// Room for the evaluator's stack of names, reused from point to point.
+    active: Vec<Arc<str>>,
 }
 
 /// A worksheet ready to be evaluated at points of its varied inputs.
@@ -92,7 +94,9 @@ pub(super) struct Model {
     pub probes: Vec<Expr>,
     pub rules: Vec<Rule>,
     /// Cached values to clear at every point (they depend on the inputs).
-    dependent: Vec<String>,
+    dependent: Vec<Arc<str>>,
+    /// The cache keys of the inputs, in order (set at every point).
+    input_keys: Vec<Arc<str>>,
     pool: Mutex<Vec<Work>>,
 }
 
@@ -130,8 +134,20 @@ impl Model {
         force_independent(ctx, &roots, &dependent, span)?;
         let mut sheet = ctx.sheet.clone();
         for n in &dependent {
-            sheet.cache.remove(n);
+            sheet.cache.remove(n.as_str());
         }
+        let key = |n: &str| {
+            sheet
+                .defs
+                .get(n)
+                .map_or_else(|| Arc::from(n), |d| d.key.clone())
+        };
+        let input_keys: Vec<Arc<str>> = names.iter().map(|n| key(n)).collect();
+        let recomputed: Vec<Arc<str>> = dependent
+            .iter()
+            .filter(|n| !names.contains(n))
+            .map(|n| key(n))
+            .collect();
         let exprs = probes.iter().chain(rules.iter().map(|r| &r.expr));
         for (name, fields) in wanted_fields(&sheet.defs, &dependent, exprs) {
             if let Some(d) = sheet.defs.get_mut(&name) {
@@ -147,7 +163,8 @@ impl Model {
             inputs,
             probes,
             rules,
-            dependent: dependent.into_iter().collect(),
+            dependent: recomputed,
+            input_keys,
             pool: Mutex::new(Vec::new()),
         })
     }
@@ -218,6 +235,7 @@ impl Model {
         spare.unwrap_or_else(|| Work {
             sheet: self.sheet.clone(),
             sources: self.sources.clone(),
+            active: Vec::new(),
         })
     }
 
@@ -229,22 +247,38 @@ impl Model {
     }
 
     fn eval(&self, work: &mut Work, point: &[f64]) -> Outcome {
+        let cache = &mut work.sheet.cache;
         for n in &self.dependent {
-            work.sheet.cache.remove(n);
+            cache.remove(&**n);
         }
-        for (v, &si) in self.inputs.iter().zip(point) {
-            work.sheet.cache.insert(v.name.clone(), v.shown(si));
+        // The inputs' entries are kept from point to point and overwritten.
+        for ((v, key), &si) in self.inputs.iter().zip(&self.input_keys).zip(point) {
+            match cache.get_mut(&**key) {
+                Some(slot) => *slot = v.shown(si),
+                None => {
+                    cache.insert(key.clone(), v.shown(si));
+                }
+            }
         }
-        let mut ctx = Ctx::new(&mut work.sheet, &mut work.sources, &self.limits, Mode::Run);
+        let active = std::mem::take(&mut work.active);
+        let mut ctx = Ctx::new(&mut work.sheet, &mut work.sources, &self.limits, Mode::Run)
+            .with_active(active);
         ctx.depth = self.depth + 1;
         ctx.frame = self.frame.clone();
+        let outcome = self.outcome(&mut ctx);
+        work.active = ctx.take_active();
+        outcome
+    }
+
+    /// Force the probes and rules in `ctx`, set up at a point.
+    fn outcome(&self, ctx: &mut Ctx) -> Outcome {
         let mut values = Vec::with_capacity(self.probes.len());
         for probe in &self.probes {
             match ctx.expr(probe) {
                 Ok(v) => values.push(v),
                 Err(stop) => {
                     ctx.report(stop);
-                    let message = first_error(&ctx);
+                    let message = first_error(ctx);
                     return Outcome {
                         values: Err(message),
                         broken: Vec::new(),
