@@ -83,7 +83,10 @@ impl Ctx<'_> {
             let bound = Args::bind(b, span, values)?;
             return self.run_builtin(b, bound, span);
         }
-        let mut values = Vec::with_capacity(args.len());
+        // Every argument is evaluated before a binding error is reported
+        // (an error in a later argument comes first).
+        let mut bound = Args::unbound(b, span);
+        let mut unbindable = None;
         for a in args {
             let slot = a.name.as_ref().and_then(|n| param_index(b, &n.name));
             let value = self.expr(&a.value)?;
@@ -92,9 +95,13 @@ impl Ctx<'_> {
                 value,
                 span: a.span,
             };
-            values.push((slot, arg));
+            if unbindable.is_none() {
+                unbindable = bound.bind_one(slot, arg).err();
+            }
         }
-        let mut bound = Args::bind_slots(b, span, values)?;
+        if let Some(d) = unbindable {
+            return Err(d.into());
+        }
         bound.wanted = wanted;
         self.run_builtin(b, bound, span)
     }

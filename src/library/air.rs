@@ -569,13 +569,13 @@ enum Given {
 }
 
 impl Spans {
-    /// The spans of the given parameters among `names` (at most three).
+    /// The spans of the parameters `names` (at most three); one not given
+    /// has the call's span, where [`Spans::blame`] would put it anyway.
     fn of_names(args: &Args, names: &[&'static str]) -> Spans {
         let mut few = [("", Span::default()); 3];
-        let mut len = 0;
-        for n in names.iter().filter(|n| args.has(n)) {
-            few[len] = (*n, args.span_of(n));
-            len += 1;
+        let len = names.len().min(3);
+        for (slot, n) in few.iter_mut().zip(names) {
+            *slot = (*n, args.span_of(n));
         }
         Spans {
             call: args.call_span,
@@ -781,10 +781,15 @@ pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
             }
         }
     }
+    // A caller that named the fields it reads reads nothing else: no payload.
+    let payload: Option<Arc<dyn Payload>> = match args.wanted {
+        None => Some(Arc::new(AirPayload(*s))),
+        Some(_) => None,
+    };
     Ok(Record {
         type_name: FieldName::Borrowed("air"),
         fields: Arc::new(fields),
-        payload: Some(Arc::new(AirPayload(*s))),
+        payload,
     })
 }
 

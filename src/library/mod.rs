@@ -101,6 +101,8 @@ pub struct Args {
     pub builtin: &'static Builtin,
     pub call_span: Span,
     bound: Vec<Option<Arg>>,
+    /// The parameter the next positional argument binds to.
+    next_positional: usize,
     /// Warnings attached to the call (validity ranges and the like).
     pub warnings: Vec<Diagnostic>,
     /// Folder of the calling worksheet, for relative file paths (None: current folder).
@@ -143,40 +145,53 @@ impl Args {
         call_span: Span,
         args: Vec<(Option<usize>, Arg)>,
     ) -> Result<Args, Diagnostic> {
-        let mut bound: Vec<Option<Arg>> = vec![None; builtin.params.len()];
-        let mut next_positional = 0;
+        let mut bound = Args::unbound(builtin, call_span);
         for (slot, arg) in args {
-            let index = match slot {
-                Some(i) if i < builtin.params.len() => i,
-                Some(_) => return Err(too_many(builtin, arg.span)),
-                None => {
-                    let i = next_positional;
-                    next_positional += 1;
-                    if i >= builtin.params.len() {
-                        return Err(too_many(builtin, arg.span));
-                    }
-                    i
-                }
-            };
-            if bound[index].is_some() {
-                return Err(Diagnostic::error(
-                    arg.span,
-                    format!(
-                        "argument `{}` of `{}` is given twice",
-                        builtin.params[index].name, builtin.name
-                    ),
-                ));
-            }
-            bound[index] = Some(arg);
+            bound.bind_one(slot, arg)?;
         }
-        Ok(Args {
+        Ok(bound)
+    }
+
+    /// No arguments bound yet: bind them one at a time with [`Args::bind_one`]
+    /// (as [`Args::bind_slots`] does, without a list of them first).
+    pub fn unbound(builtin: &'static Builtin, call_span: Span) -> Args {
+        Args {
             builtin,
             call_span,
-            bound,
+            bound: vec![None; builtin.params.len()],
+            next_positional: 0,
             warnings: Vec::new(),
             dir: None,
             wanted: None,
-        })
+        }
+    }
+
+    /// Bind one argument to parameter `slot` (`None`: the next positional).
+    pub fn bind_one(&mut self, slot: Option<usize>, arg: Arg) -> Result<(), Diagnostic> {
+        let builtin = self.builtin;
+        let index = match slot {
+            Some(i) if i < builtin.params.len() => i,
+            Some(_) => return Err(too_many(builtin, arg.span)),
+            None => {
+                let i = self.next_positional;
+                self.next_positional += 1;
+                if i >= builtin.params.len() {
+                    return Err(too_many(builtin, arg.span));
+                }
+                i
+            }
+        };
+        if self.bound[index].is_some() {
+            return Err(Diagnostic::error(
+                arg.span,
+                format!(
+                    "argument `{}` of `{}` is given twice",
+                    builtin.params[index].name, builtin.name
+                ),
+            ));
+        }
+        self.bound[index] = Some(arg);
+        Ok(())
     }
 
     /// Will the caller read field `name` of the record this call returns?
