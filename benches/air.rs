@@ -234,9 +234,9 @@ fn single_pass(what: &str) {
             let mut session = Session::new();
             black_box(session.eval(SWEEP_SHEET).is_ok());
         }
-        other => panic!(
-            "--single-pass takes build, wet_bulb, builtin, sweep or sheet, not {other}"
-        ),
+        other => {
+            panic!("--single-pass takes build, wet_bulb, builtin, sweep or sheet, not {other}")
+        }
     }
 }
 

@@ -115,10 +115,9 @@ impl<'a> Ctx<'a> {
     }
 
     /// Reuse `active`'s room for the stack of names being computed.
-    pub(super) fn with_active(mut self, mut active: Vec<std::sync::Arc<str>>) -> Self {
+    pub(super) fn reuse_active(&mut self, mut active: Vec<std::sync::Arc<str>>) {
         active.clear();
         self.active = active;
-        self
     }
 
     /// Treat these names as already failed and reported (e.g. caught in a

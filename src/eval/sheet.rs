@@ -93,7 +93,8 @@ impl Sheet {
     /// [`Sheet::dir`] as a shared path (built once, then cloned cheaply).
     pub fn shared_dir(&mut self) -> Arc<Path> {
         match &self.shared_dir {
-            Some(d) if **d == *self.dir => d.clone(),
+            // Byte for byte (comparing paths parses their components).
+            Some(d) if d.as_os_str() == self.dir.as_os_str() => d.clone(),
             _ => {
                 let d: Arc<Path> = Arc::from(self.dir.as_path());
                 self.shared_dir = Some(d.clone());

@@ -692,8 +692,8 @@ const fn const_eq(a: &str, b: &str) -> bool {
 /// The record of an air state, with its payload. Warnings go to `args`.
 ///
 /// Only the fields the caller reads are computed when it says which
-/// ([`Args::wants`]; a what-if study's points): an unread wet-bulb or dew point
-/// is not solved, so its error or warning is not raised either.
+/// ([`Args::wants`]; a what-if study's points), except the dew point and
+/// wet-bulb where they may fail (see below).
 pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
     let mask = AIR_RECORD_FIELDS
         .iter()
@@ -723,13 +723,20 @@ pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
     if wants!("w") {
         field("w", q(w, Dim::NONE, Kind::HumidityRatio));
     }
-    if wants!("dewpoint") {
+    // Near the edges of the formulation an unread dew point or wet-bulb is
+    // computed anyway, so that its warning or error is raised just as when
+    // the whole record is built: the dew point fails for bone-dry air and
+    // below -100 degC (a vapour pressure far under 1 Pa, about -61 degC over
+    // ice), the wet-bulb of nearly pure steam (w of tens of kg/kg).
+    let near_no_dew_point = w <= 0.0 || s.vapour_pressure().get::<pascal>() < 1.0;
+    let near_steam = w > 1.0;
+    if wants!("dewpoint") || near_no_dew_point {
         match s.dew_point() {
             Ok(td) => field("dewpoint", abs_t(td.get::<kelvin>())),
             Err(e) => args.warn(format!("no dew point field: {e}")),
         }
     }
-    if wants!("wetbulb") {
+    if wants!("wetbulb") || near_steam {
         let twb = s
             .wet_bulb()
             .map_err(|e| Diagnostic::error(args.call_span, e.to_string()))?;

@@ -207,7 +207,7 @@ impl Args {
         self.builtin
             .params
             .iter()
-            .position(|p| p.name == name)
+            .position(|p| same_name(p.name, name))
             .unwrap_or_else(|| {
                 panic!(
                     "built-in `{}` reads undeclared parameter `{name}`",
@@ -296,6 +296,13 @@ impl Args {
             None => Ok(()),
         }
     }
+}
+
+/// `a == b` for the short names of parameters, compared in place (a call to
+/// `memcmp` costs more than the comparison; built-ins look names up often).
+#[inline]
+fn same_name(a: &str, b: &str) -> bool {
+    a.len() == b.len() && a.bytes().zip(b.bytes()).all(|(x, y)| x == y)
 }
 
 fn unknown_argument(builtin: &Builtin, name: &str, span: Span) -> Diagnostic {

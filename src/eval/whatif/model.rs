@@ -148,6 +148,12 @@ impl Model {
             .filter(|n| !names.contains(n))
             .map(|n| key(n))
             .collect();
+        // (A study inside a study's point starts from its own findings.)
+        for d in sheet.defs.values_mut() {
+            if dependent.contains(d.name.name.as_str()) {
+                d.wanted = None;
+            }
+        }
         let exprs = probes.iter().chain(rules.iter().map(|r| &r.expr));
         for (name, fields) in wanted_fields(&sheet.defs, &dependent, exprs) {
             if let Some(d) = sheet.defs.get_mut(&name) {
@@ -261,8 +267,8 @@ impl Model {
             }
         }
         let active = std::mem::take(&mut work.active);
-        let mut ctx = Ctx::new(&mut work.sheet, &mut work.sources, &self.limits, Mode::Run)
-            .with_active(active);
+        let mut ctx = Ctx::new(&mut work.sheet, &mut work.sources, &self.limits, Mode::Run);
+        ctx.reuse_active(active);
         ctx.depth = self.depth + 1;
         ctx.frame = self.frame.clone();
         let outcome = self.outcome(&mut ctx);
@@ -500,5 +506,46 @@ mod tests {
         got.sort();
         // `c` reads `a` through the function `f`; `b` and `d` do not depend on `a`.
         assert_eq!(got, ["a", "c", "e", "f"]);
+    }
+
+    #[test]
+    fn a_built_in_record_read_only_by_fields_wants_those_fields() {
+        let text = "input T = 60 degC\ninput w = 0.02 kg/kg_da\na = air(T: T, w: w)\n\
+                    twb = a.wetbulb\nb = air(T: T, rh: 50 %)\nc = heat(b, to: 90 degC)\n\
+                    d = air(T: T, w: w)\nf(x) = d.h * x\ng = f(2)\n";
+        let (stmts, errors) = crate::syntax::parse(text, 0);
+        assert!(errors.is_empty(), "{errors:?}");
+        let mut sheet = Sheet::default();
+        assert!(sheet.define(&stmts, true).is_ok());
+        let names = ["T".to_string(), "w".to_string()];
+        let dependent = dependents(&sheet.defs, &names);
+        let (probe, _) = crate::syntax::parse("x = [a.rho, c.h]", 0);
+        let probe = match &probe[0].kind {
+            StmtKind::Binding { expr, .. } => Expr::clone(expr),
+            other => panic!("{other:?}"),
+        };
+        let mut got: Vec<(String, Vec<String>)> =
+            wanted_fields(&sheet.defs, &dependent, std::iter::once(&probe))
+                .into_iter()
+                .map(|(n, f)| {
+                    let mut f = f.to_vec();
+                    f.sort();
+                    (n, f)
+                })
+                .collect();
+        got.sort();
+        // `b` is passed whole to `heat`, so it is left out; `c` (a call of
+        // `heat`) is read by field in the probe and `d` in a function's body;
+        // `g` calls a user function.
+        let want = [
+            ("a", vec!["rho", "wetbulb"]),
+            ("c", vec!["h"]),
+            ("d", vec!["h"]),
+        ];
+        let want: Vec<(String, Vec<String>)> = want
+            .iter()
+            .map(|(n, f)| (n.to_string(), f.iter().map(|s| s.to_string()).collect()))
+            .collect();
+        assert_eq!(got, want);
     }
 }
