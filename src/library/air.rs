@@ -569,20 +569,6 @@ enum Given {
 }
 
 impl Spans {
-    /// The spans of the parameters `names` (at most three); one not given
-    /// has the call's span, where [`Spans::blame`] would put it anyway.
-    fn of_names(args: &Args, names: &[&'static str]) -> Spans {
-        let mut few = [("", Span::default()); 3];
-        let len = names.len().min(3);
-        for (slot, n) in few.iter_mut().zip(names) {
-            *slot = (*n, args.span_of(n));
-        }
-        Spans {
-            call: args.call_span,
-            given: Given::Few(few, len),
-        }
-    }
-
     fn of(args: &Args) -> Spans {
         let given = args
             .builtin
@@ -803,20 +789,27 @@ pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
 // ---- air(...) ------------------------------------------------------------------------
 
 fn air_state(args: &mut Args) -> Result<Value, Diagnostic> {
-    // The second property given (one of five), without allocating.
+    // The second property given (one of five, in declaration order), and
+    // the spans engine errors may blame (T, p, the second property), in one
+    // pass without allocating.
     let mut given = [""; 5];
     let mut count = 0;
-    for name in ["rh", "w", "wetbulb", "dewpoint", "h"] {
-        if args.has(name) {
+    let mut few = [("", args.call_span); 3];
+    let mut spans_len = 0;
+    for (name, span) in args.given() {
+        let second = ["rh", "w", "wetbulb", "dewpoint", "h"].contains(&name);
+        if second {
             given[count] = name;
             count += 1;
         }
+        if (second && count == 1) || name == "T" || name == "p" {
+            few[spans_len] = (name, span);
+            spans_len += 1;
+        }
     }
-    // Engine errors name T, p or the second property.
-    let spans = if count == 1 {
-        Spans::of_names(args, &["T", given[0], "p"])
-    } else {
-        Spans::of_names(args, &["T", "p"])
+    let spans = Spans {
+        call: args.call_span,
+        given: Given::Few(few, spans_len),
     };
     let t = temperature(args, "T")?;
     if count != 1 {

@@ -227,6 +227,16 @@ impl Args {
         self.bound[self.index(name)].is_some()
     }
 
+    /// The parameters given at the call, in declaration order, with the
+    /// spans of their arguments.
+    pub fn given(&self) -> impl Iterator<Item = (&'static str, Span)> + '_ {
+        self.builtin
+            .params
+            .iter()
+            .zip(&self.bound)
+            .filter_map(|(p, a)| a.as_ref().map(|a| (p.name, a.span)))
+    }
+
     /// The span of an argument if given, else the call's span.
     pub fn span_of(&self, name: &str) -> Span {
         self.bound[self.index(name)]
