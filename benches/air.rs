@@ -17,7 +17,7 @@
 //! CPU time per state (best of a few rounds; on a shared machine CPU time,
 //! unlike wall time, does not count the time other processes hold the core),
 //! or the comparison with `python3 benches/air_compare.py`.
-//! `-- --single-pass build|wet_bulb|builtin` runs one pass of one workload,
+//! `-- --single-pass build|wet_bulb|builtin|sweep|sheet` runs one pass of one workload,
 //! for instruction counts with `valgrind --tool=callgrind`.
 
 use criterion::Criterion;
@@ -213,8 +213,10 @@ fn oneshot() {
 /// One pass of one workload, for instruction counts under
 /// `valgrind --tool=callgrind` (repeatable on a shared machine): `build` makes
 /// the 100,000 states, `wet_bulb` makes them and solves each wet-bulb once,
-/// `builtin` makes 10,000 `air()` records. Per-state figure: (wet_bulb - build)
-/// / 100,000.
+/// `builtin` makes 10,000 `air()` records, `sweep` runs the worksheet sweep
+/// ([`SWEEP_SHEET`], 100,000 states) on one thread and `sheet` only its
+/// worksheet, without the sweep. Per-state figures: (wet_bulb - build) /
+/// 100,000, and (sweep - sheet) / 100,000.
 fn single_pass(what: &str) {
     match what {
         "build" => {
@@ -225,7 +227,16 @@ fn single_pass(what: &str) {
             wet_bulb_sum(&states);
         }
         "builtin" => builtin_calls(10_000),
-        other => panic!("--single-pass takes build, wet_bulb or builtin, not {other}"),
+        "sweep" => {
+            black_box(sweep_run(1));
+        }
+        "sheet" => {
+            let mut session = Session::new();
+            black_box(session.eval(SWEEP_SHEET).is_ok());
+        }
+        other => {
+            panic!("--single-pass takes build, wet_bulb, builtin, sweep or sheet, not {other}")
+        }
     }
 }
 

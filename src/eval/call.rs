@@ -12,6 +12,8 @@ use crate::value::Value;
 impl Ctx<'_> {
     /// Evaluate `callee(args)`.
     pub fn call(&mut self, callee: &Ident, args: &[CallArg], span: Span) -> Flow<Value> {
+        // Meant for this call alone, not for calls in its arguments.
+        let wanted = self.wanted.take();
         let name = callee.name.as_str();
         match self.sheet.defs.get(name).map(|d| d.kind) {
             Some(DefKind::Function) => return self.call_user(callee, args, span),
@@ -28,7 +30,7 @@ impl Ctx<'_> {
             return self.whatif(callee, args, span);
         }
         match library::find(name) {
-            Some(b) => self.call_builtin(b, args, span),
+            Some(b) => self.call_builtin(b, args, span, wanted),
             None => Err(self.unknown_function(callee).into()),
         }
     }
@@ -64,8 +66,14 @@ impl Ctx<'_> {
         Ok(out)
     }
 
-    fn call_builtin(&mut self, b: &'static Builtin, args: &[CallArg], span: Span) -> Flow<Value> {
-        let slots = arg_slots(b, args)?;
+    fn call_builtin(
+        &mut self,
+        b: &'static Builtin,
+        args: &[CallArg],
+        span: Span,
+        wanted: Option<std::sync::Arc<[String]>>,
+    ) -> Flow<Value> {
+        check_arg_names(b, args)?;
         if self.mode == Mode::CheckOnly || self.checking.blind > 0 {
             // Checking keeps the argument names: shapes are matched by name.
             let values = self.arguments(args)?;
@@ -75,17 +83,26 @@ impl Ctx<'_> {
             let bound = Args::bind(b, span, values)?;
             return self.run_builtin(b, bound, span);
         }
-        let mut values = Vec::with_capacity(args.len());
-        for (a, slot) in args.iter().zip(slots) {
+        // Every argument is evaluated before a binding error is reported
+        // (an error in a later argument comes first).
+        let mut bound = Args::unbound(b, span);
+        let mut unbindable = None;
+        for a in args {
+            let slot = a.name.as_ref().and_then(|n| param_index(b, &n.name));
             let value = self.expr(&a.value)?;
             let arg = Arg {
                 name: None,
                 value,
                 span: a.span,
             };
-            values.push((slot, arg));
+            if unbindable.is_none() {
+                unbindable = bound.bind_one(slot, arg).err();
+            }
         }
-        let bound = Args::bind_slots(b, span, values)?;
+        if let Some(d) = unbindable {
+            return Err(d.into());
+        }
+        bound.wanted = wanted;
         self.run_builtin(b, bound, span)
     }
 
@@ -133,18 +150,22 @@ impl Ctx<'_> {
     }
 }
 
-/// The parameter index of each argument (`None`: positional), reporting a
-/// misspelt argument name before evaluating anything.
-fn arg_slots(b: &Builtin, args: &[CallArg]) -> Result<Vec<Option<usize>>, Diagnostic> {
-    args.iter()
-        .map(|a| match &a.name {
-            None => Ok(None),
-            Some(n) => match b.params.iter().position(|p| p.name == n.name) {
-                Some(i) => Ok(Some(i)),
-                None => Err(misspelt_arg(b, n)),
-            },
-        })
-        .collect()
+/// Report a misspelt argument name before evaluating anything.
+fn check_arg_names(b: &Builtin, args: &[CallArg]) -> Result<(), Diagnostic> {
+    for a in args {
+        if let Some(n) = &a.name {
+            if param_index(b, &n.name).is_none() {
+                return Err(misspelt_arg(b, n));
+            }
+        }
+    }
+    Ok(())
+}
+
+/// The index of `b`'s parameter `name`.
+#[inline]
+fn param_index(b: &Builtin, name: &str) -> Option<usize> {
+    b.params.iter().position(|p| p.name == name)
 }
 
 fn misspelt_arg(b: &Builtin, n: &Ident) -> Diagnostic {

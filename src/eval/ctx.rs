@@ -60,7 +60,7 @@ pub struct Ctx<'a> {
     /// Parameters of the user function being evaluated.
     pub(super) frame: Option<super::FastMap<String, Value>>,
     /// Names being computed right now (catches cycles the static check could not see).
-    active: Vec<String>,
+    active: Vec<std::sync::Arc<str>>,
     /// Names whose evaluation failed in this run.
     failed: HashSet<String>,
     /// Canonical paths of the worksheets being loaded, outermost first.
@@ -71,6 +71,9 @@ pub struct Ctx<'a> {
     nesting: usize,
     /// Shape checking: blind evaluation and user calls (see `shape.rs`).
     pub(super) checking: super::shape::Checking,
+    /// The fields wanted of the built-in call being forced (its definition's
+    /// [`super::Def::wanted`]); taken by that call.
+    pub(super) wanted: Option<std::sync::Arc<[String]>>,
 }
 
 /// Most expression evaluations nested inside one another (across calls).
@@ -99,7 +102,22 @@ impl<'a> Ctx<'a> {
             depth: 0,
             nesting: 0,
             checking: super::shape::Checking::default(),
+            wanted: None,
         }
+    }
+
+    /// The stack of names being computed, empty, to hand to the next context
+    /// (a what-if study's points reuse its room).
+    pub(super) fn take_active(&mut self) -> Vec<std::sync::Arc<str>> {
+        let mut active = std::mem::take(&mut self.active);
+        active.clear();
+        active
+    }
+
+    /// Reuse `active`'s room for the stack of names being computed.
+    pub(super) fn reuse_active(&mut self, mut active: Vec<std::sync::Arc<str>>) {
+        active.clear();
+        self.active = active;
     }
 
     /// Treat these names as already failed and reported (e.g. caught in a
@@ -157,34 +175,40 @@ impl<'a> Ctx<'a> {
         if self.failed.contains(name) {
             return Err(Stop::Reported);
         }
-        let (kind, expr) = match self.sheet.defs.get(name) {
-            Some(d) => (d.kind, d.expr.clone()),
+        let (kind, expr, wanted, key) = match self.sheet.defs.get(name) {
+            Some(d) => (d.kind, d.expr.clone(), d.wanted.clone(), d.key.clone()),
             None => return Err(self.undefined(name, use_span)),
         };
         if kind == DefKind::Function {
             let msg = format!("`{name}` is a function; call it with arguments, e.g. `{name}(...)`");
             return Err(Diagnostic::error(use_span, msg).into());
         }
-        if self.active.iter().any(|n| n == name) {
+        if self.active.iter().any(|n| **n == *name) {
             let chain = format!("{} -> {name}", self.active.join(" -> "));
             return Err(Diagnostic::error(use_span, format!("cycle: {chain}")).into());
         }
         let overridden = (kind == DefKind::Input)
             .then(|| self.sheet.overrides.get(name).cloned())
             .flatten();
-        self.active.push(name.to_string());
+        self.active.push(key.clone());
         let saved = self.frame.take();
         let blind = std::mem::take(&mut self.checking.blind);
         let result = match overridden {
             Some(v) => self.checked_override(name, &expr, v),
-            None => self.expr(&expr),
+            None => {
+                // The definition is a call; the call takes this first.
+                self.wanted = wanted;
+                let v = self.expr(&expr);
+                self.wanted = None;
+                v
+            }
         };
         self.checking.blind = blind;
         self.frame = saved;
         self.active.pop();
         match result {
             Ok(v) => {
-                self.sheet.cache.insert(name.to_string(), v.clone());
+                self.sheet.cache.insert(key, v.clone());
                 Ok(v)
             }
             Err(stop) => {
@@ -301,7 +325,7 @@ impl<'a> Ctx<'a> {
             if self.frame.as_ref().is_some_and(|f| f.contains_key(n)) {
                 return Ok(Operand::Param(n));
             }
-            if !self.sheet.cache.contains_key(n) {
+            if !self.sheet.cache.contains_key(n.as_str()) {
                 self.force(n, e.span)?;
             }
             return Ok(Operand::Global(n));
@@ -408,7 +432,7 @@ impl<'a> Ctx<'a> {
         if let Some(v) = self.frame.as_ref().and_then(|f| f.get(n)) {
             return Some(v);
         }
-        self.sheet.cache.get(n)
+        self.sheet.cache.get(n.as_str())
     }
 
     fn logic(&mut self, op: BinaryOp, a: &Expr, b: &Expr) -> Flow<Value> {
@@ -602,7 +626,7 @@ fn binary_failure(
 /// borrow other parts of the context at the same time).
 fn view<'s>(
     frame: &'s Option<super::FastMap<String, Value>>,
-    cache: &'s super::FastMap<String, Value>,
+    cache: &'s super::FastMap<std::sync::Arc<str>, Value>,
     o: &'s Operand,
 ) -> &'s Value {
     static MISSING: Value = Value::Bool(false);

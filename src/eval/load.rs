@@ -169,7 +169,7 @@ impl Ctx<'_> {
         }
         let mut record = Record::new("worksheet");
         for name in &sheet.order {
-            if let Some(v) = sheet.cache.get(name) {
+            if let Some(v) = sheet.cache.get(name.as_str()) {
                 record.push(name.clone(), v.clone());
             }
         }

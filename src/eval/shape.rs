@@ -184,7 +184,7 @@ impl Ctx<'_> {
             ExprKind::Call { .. } => false,
             ExprKind::Name(n) => {
                 self.frame.as_ref().is_some_and(|f| f.contains_key(n))
-                    || self.sheet.cache.contains_key(n)
+                    || self.sheet.cache.contains_key(n.as_str())
             }
             ExprKind::Quantity { .. } | ExprKind::Bool(_) | ExprKind::Str(_) => true,
             ExprKind::List(items) => items.iter().all(|i| self.cheap(i)),

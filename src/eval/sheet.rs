@@ -32,6 +32,8 @@ pub enum DefKind {
 pub struct Def {
     /// The defined name, with its span.
     pub name: Ident,
+    /// The name, shared: the key of its value in [`Sheet::cache`].
+    pub key: Arc<str>,
     /// Value, input or function.
     pub kind: DefKind,
     /// Parameter names of a function; empty otherwise.
@@ -42,6 +44,10 @@ pub struct Def {
     pub deps: Vec<String>,
     /// Span of the whole statement.
     pub span: Span,
+    /// For a value that is a built-in call: the only fields of its record
+    /// that are ever read, when a what-if study has worked them out (passed to
+    /// the built-in as [`crate::library::Args::wanted`]); `None` otherwise.
+    pub wanted: Option<Arc<[String]>>,
 }
 
 /// What [`Sheet::define_all`] did.
@@ -62,8 +68,9 @@ pub struct Sheet {
     pub defs: FastMap<String, Def>,
     /// Names in definition order.
     pub order: Vec<String>,
-    /// Values already computed.
-    pub cache: FastMap<String, Value>,
+    /// Values already computed, by name (the definitions' shared
+    /// [`Def::key`]s, so that caching a value allocates no name).
+    pub cache: FastMap<Arc<str>, Value>,
     /// Input values set from outside (`--set`, `load(..., name: value)`).
     pub overrides: FastMap<String, Value>,
     /// Resolved units by their text (`kg/m^2`), so each is looked up once.
@@ -86,7 +93,8 @@ impl Sheet {
     /// [`Sheet::dir`] as a shared path (built once, then cloned cheaply).
     pub fn shared_dir(&mut self) -> Arc<Path> {
         match &self.shared_dir {
-            Some(d) if **d == *self.dir => d.clone(),
+            // Byte for byte (comparing paths parses their components).
+            Some(d) if d.as_os_str() == self.dir.as_os_str() => d.clone(),
             _ => {
                 let d: Arc<Path> = Arc::from(self.dir.as_path());
                 self.shared_dir = Some(d.clone());
@@ -225,7 +233,7 @@ impl Sheet {
                 queue.extend(readers.get(n).into_iter().flatten().copied());
             }
         }
-        self.cache.retain(|k, _| !dirty.contains(k));
+        self.cache.retain(|k, _| !dirty.contains(&**k));
     }
 
     /// Source files a live definition points into (its statement and name).
@@ -276,11 +284,13 @@ pub fn definition(stmt: &Stmt) -> Option<Def> {
     };
     let deps = graph::dependencies(expr, &params);
     Some(Def {
+        key: Arc::from(name.name.as_str()),
         name: name.clone(),
         kind,
         params,
         expr: expr.clone(),
         deps,
         span: stmt.span,
+        wanted: None,
     })
 }

@@ -558,23 +558,17 @@ fn opt_stream(args: &mut Args, name: &str, state: &AirState) -> Result<Option<St
 /// Where each parameter was given (captured before arguments are consumed).
 struct Spans {
     call: Span,
-    given: Vec<(&'static str, Span)>,
+    given: Given,
+}
+
+/// The given parameters with their spans: up to three inline (`air`'s T, p
+/// and second property, without allocating), or any number.
+enum Given {
+    Few([(&'static str, Span); 3], usize),
+    Many(Vec<(&'static str, Span)>),
 }
 
 impl Spans {
-    /// The spans of the given parameters among `names`.
-    fn of_names(args: &Args, names: &[&'static str]) -> Spans {
-        let given = names
-            .iter()
-            .filter(|n| args.has(n))
-            .map(|n| (*n, args.span_of(n)))
-            .collect();
-        Spans {
-            call: args.call_span,
-            given,
-        }
-    }
-
     fn of(args: &Args) -> Spans {
         let given = args
             .builtin
@@ -585,15 +579,18 @@ impl Spans {
             .collect();
         Spans {
             call: args.call_span,
-            given,
+            given: Given::Many(given),
         }
     }
 
     /// An engine error as a diagnostic on the argument it names (else on the call).
     fn blame(&self, e: AirError) -> Diagnostic {
         let name = error_argument(&e);
-        let span = self
-            .given
+        let given = match &self.given {
+            Given::Few(few, len) => &few[..*len],
+            Given::Many(many) => many.as_slice(),
+        };
+        let span = given
             .iter()
             .find(|(n, _)| *n == name)
             .map_or(self.call, |(_, s)| *s);
@@ -633,73 +630,186 @@ fn abs_t(t_k: f64) -> Value {
 /// Fields of an `air` record (with the outlet fields a process adds).
 const AIR_FIELDS: usize = 20;
 
+/// The fields of an `air` record, in order.
+const AIR_RECORD_FIELDS: [&str; 13] = [
+    "T",
+    "rh",
+    "w",
+    "dewpoint",
+    "wetbulb",
+    "h",
+    "v",
+    "rho",
+    "cp",
+    "p",
+    "pv",
+    "w_sat",
+    "degree_of_saturation",
+];
+
+/// The position of `name` in [`AIR_RECORD_FIELDS`] (evaluated at compile
+/// time, where a name not in the list is an error).
+const fn field_index(name: &str) -> usize {
+    let mut i = 0;
+    while i < AIR_RECORD_FIELDS.len() {
+        if const_eq(AIR_RECORD_FIELDS[i], name) {
+            return i;
+        }
+        i += 1;
+    }
+    panic!("not a field of an air record")
+}
+
+const fn const_eq(a: &str, b: &str) -> bool {
+    let (a, b) = (a.as_bytes(), b.as_bytes());
+    if a.len() != b.len() {
+        return false;
+    }
+    let mut i = 0;
+    while i < a.len() {
+        if a[i] != b[i] {
+            return false;
+        }
+        i += 1;
+    }
+    true
+}
+
 /// The record of an air state, with its payload. Warnings go to `args`.
+///
+/// Only the fields the caller reads are computed when it says which
+/// ([`Args::wants`]; a what-if study's points), except the dew point and
+/// wet-bulb where they may fail (see below).
 pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
-    let mut fields: Vec<(FieldName, Value)> = Vec::with_capacity(AIR_FIELDS);
+    let mask = AIR_RECORD_FIELDS
+        .iter()
+        .enumerate()
+        .filter(|(_, name)| args.wants(name))
+        .fold(0u16, |m, (i, _)| m | 1 << i);
+    // By position in AIR_RECORD_FIELDS, found at compile time.
+    macro_rules! wants {
+        ($name:literal) => {
+            mask & 1 << const { field_index($name) } != 0
+        };
+    }
+    let mut fields: Vec<(FieldName, Value)> = Vec::with_capacity(if args.wanted.is_none() {
+        AIR_FIELDS
+    } else {
+        mask.count_ones() as usize
+    });
     let mut field =
         |name: &'static str, value: Value| fields.push((FieldName::Borrowed(name), value));
     let w = s.humidity_ratio();
-    field("T", abs_t(s.t_kelvin()));
-    field("rh", q(s.relative_humidity(), Dim::NONE, Kind::Activity));
-    field("w", q(w, Dim::NONE, Kind::HumidityRatio));
-    match s.dew_point() {
-        Ok(td) => field("dewpoint", abs_t(td.get::<kelvin>())),
-        Err(e) => args.warn(format!("no dew point field: {e}")),
+    if wants!("T") {
+        field("T", abs_t(s.t_kelvin()));
     }
-    let twb = s
-        .wet_bulb()
-        .map_err(|e| Diagnostic::error(args.call_span, e.to_string()))?;
-    field("wetbulb", abs_t(twb.get::<kelvin>()));
-    field(
-        "h",
-        q(s.enthalpy().value, Dim::SPECIFIC_ENERGY, Kind::Plain),
-    );
-    // rho = (1 + w) / v, as AirState::density, from the volume just computed.
-    let v = s.humid_volume().value;
-    field("v", q(v, Dim::SPECIFIC_VOLUME, Kind::Plain));
-    field("rho", q((1.0 + w) / v, Dim::DENSITY, Kind::Plain));
-    field(
-        "cp",
-        q(s.humid_heat().value, Dim::SPECIFIC_HEAT, Kind::Plain),
-    );
-    field("p", q(s.p_pascal(), Dim::PRESSURE, Kind::Plain));
-    field(
-        "pv",
-        q(
-            s.vapour_pressure().get::<pascal>(),
-            Dim::PRESSURE,
-            Kind::Plain,
-        ),
-    );
-    if let Some(ws) = s.saturation_humidity_ratio() {
-        // The degree of saturation w / w_s, from the w_s just computed.
-        field("w_sat", q(ws, Dim::NONE, Kind::HumidityRatio));
-        field("degree_of_saturation", q(w / ws, Dim::NONE, Kind::Fraction));
+    if wants!("rh") {
+        field("rh", q(s.relative_humidity(), Dim::NONE, Kind::Activity));
     }
+    if wants!("w") {
+        field("w", q(w, Dim::NONE, Kind::HumidityRatio));
+    }
+    // Near the edges of the formulation an unread dew point or wet-bulb is
+    // computed anyway, so that its warning or error is raised just as when
+    // the whole record is built: the dew point fails for bone-dry air and
+    // below -100 degC (a vapour pressure far under 1 Pa, about -61 degC over
+    // ice), the wet-bulb of nearly pure steam (w of tens of kg/kg).
+    let near_no_dew_point = w <= 0.0 || s.vapour_pressure().get::<pascal>() < 1.0;
+    let near_steam = w > 1.0;
+    if wants!("dewpoint") || near_no_dew_point {
+        match s.dew_point() {
+            Ok(td) => field("dewpoint", abs_t(td.get::<kelvin>())),
+            Err(e) => args.warn(format!("no dew point field: {e}")),
+        }
+    }
+    if wants!("wetbulb") || near_steam {
+        let twb = s
+            .wet_bulb()
+            .map_err(|e| Diagnostic::error(args.call_span, e.to_string()))?;
+        field("wetbulb", abs_t(twb.get::<kelvin>()));
+    }
+    if wants!("h") {
+        field(
+            "h",
+            q(s.enthalpy().value, Dim::SPECIFIC_ENERGY, Kind::Plain),
+        );
+    }
+    if wants!("v") || wants!("rho") {
+        // rho = (1 + w) / v, as AirState::density, from the volume just computed.
+        let v = s.humid_volume().value;
+        if wants!("v") {
+            field("v", q(v, Dim::SPECIFIC_VOLUME, Kind::Plain));
+        }
+        if wants!("rho") {
+            field("rho", q((1.0 + w) / v, Dim::DENSITY, Kind::Plain));
+        }
+    }
+    if wants!("cp") {
+        field(
+            "cp",
+            q(s.humid_heat().value, Dim::SPECIFIC_HEAT, Kind::Plain),
+        );
+    }
+    if wants!("p") {
+        field("p", q(s.p_pascal(), Dim::PRESSURE, Kind::Plain));
+    }
+    if wants!("pv") {
+        field(
+            "pv",
+            q(
+                s.vapour_pressure().get::<pascal>(),
+                Dim::PRESSURE,
+                Kind::Plain,
+            ),
+        );
+    }
+    if wants!("w_sat") || wants!("degree_of_saturation") {
+        if let Some(ws) = s.saturation_humidity_ratio() {
+            // The degree of saturation w / w_s, from the w_s just computed.
+            if wants!("w_sat") {
+                field("w_sat", q(ws, Dim::NONE, Kind::HumidityRatio));
+            }
+            if wants!("degree_of_saturation") {
+                field("degree_of_saturation", q(w / ws, Dim::NONE, Kind::Fraction));
+            }
+        }
+    }
+    // A caller that named the fields it reads reads nothing else: no payload.
+    let payload: Option<Arc<dyn Payload>> = match args.wanted {
+        None => Some(Arc::new(AirPayload(*s))),
+        Some(_) => None,
+    };
     Ok(Record {
         type_name: FieldName::Borrowed("air"),
         fields: Arc::new(fields),
-        payload: Some(Arc::new(AirPayload(*s))),
+        payload,
     })
 }
 
 // ---- air(...) ------------------------------------------------------------------------
 
 fn air_state(args: &mut Args) -> Result<Value, Diagnostic> {
-    // The second property given (one of five), without allocating.
+    // The second property given (one of five, in declaration order), and
+    // the spans engine errors may blame (T, p, the second property), in one
+    // pass without allocating.
     let mut given = [""; 5];
     let mut count = 0;
-    for name in ["rh", "w", "wetbulb", "dewpoint", "h"] {
-        if args.has(name) {
+    let mut few = [("", args.call_span); 3];
+    let mut spans_len = 0;
+    for (name, span) in args.given() {
+        let second = ["rh", "w", "wetbulb", "dewpoint", "h"].contains(&name);
+        if second {
             given[count] = name;
             count += 1;
         }
+        if (second && count == 1) || name == "T" || name == "p" {
+            few[spans_len] = (name, span);
+            spans_len += 1;
+        }
     }
-    // Engine errors name T, p or the second property.
-    let spans = if count == 1 {
-        Spans::of_names(args, &["T", given[0], "p"])
-    } else {
-        Spans::of_names(args, &["T", "p"])
+    let spans = Spans {
+        call: args.call_span,
+        given: Given::Few(few, spans_len),
     };
     let t = temperature(args, "T")?;
     if count != 1 {

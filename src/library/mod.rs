@@ -101,10 +101,16 @@ pub struct Args {
     pub builtin: &'static Builtin,
     pub call_span: Span,
     bound: Vec<Option<Arg>>,
+    /// The parameter the next positional argument binds to.
+    next_positional: usize,
     /// Warnings attached to the call (validity ranges and the like).
     pub warnings: Vec<Diagnostic>,
     /// Folder of the calling worksheet, for relative file paths (None: current folder).
     pub dir: Option<std::sync::Arc<std::path::Path>>,
+    /// The fields of the resulting record that the caller will read, when it
+    /// knows them all (a what-if study's points); `None`: every field. A
+    /// built-in may leave out the fields not named here (see [`Args::wants`]).
+    pub wanted: Option<std::sync::Arc<[String]>>,
 }
 
 impl Args {
@@ -139,46 +145,69 @@ impl Args {
         call_span: Span,
         args: Vec<(Option<usize>, Arg)>,
     ) -> Result<Args, Diagnostic> {
-        let mut bound: Vec<Option<Arg>> = vec![None; builtin.params.len()];
-        let mut next_positional = 0;
+        let mut bound = Args::unbound(builtin, call_span);
         for (slot, arg) in args {
-            let index = match slot {
-                Some(i) if i < builtin.params.len() => i,
-                Some(_) => return Err(too_many(builtin, arg.span)),
-                None => {
-                    let i = next_positional;
-                    next_positional += 1;
-                    if i >= builtin.params.len() {
-                        return Err(too_many(builtin, arg.span));
-                    }
-                    i
-                }
-            };
-            if bound[index].is_some() {
-                return Err(Diagnostic::error(
-                    arg.span,
-                    format!(
-                        "argument `{}` of `{}` is given twice",
-                        builtin.params[index].name, builtin.name
-                    ),
-                ));
-            }
-            bound[index] = Some(arg);
+            bound.bind_one(slot, arg)?;
         }
-        Ok(Args {
+        Ok(bound)
+    }
+
+    /// No arguments bound yet: bind them one at a time with [`Args::bind_one`]
+    /// (as [`Args::bind_slots`] does, without a list of them first).
+    pub fn unbound(builtin: &'static Builtin, call_span: Span) -> Args {
+        Args {
             builtin,
             call_span,
-            bound,
+            bound: vec![None; builtin.params.len()],
+            next_positional: 0,
             warnings: Vec::new(),
             dir: None,
-        })
+            wanted: None,
+        }
+    }
+
+    /// Bind one argument to parameter `slot` (`None`: the next positional).
+    pub fn bind_one(&mut self, slot: Option<usize>, arg: Arg) -> Result<(), Diagnostic> {
+        let builtin = self.builtin;
+        let index = match slot {
+            Some(i) if i < builtin.params.len() => i,
+            Some(_) => return Err(too_many(builtin, arg.span)),
+            None => {
+                let i = self.next_positional;
+                self.next_positional += 1;
+                if i >= builtin.params.len() {
+                    return Err(too_many(builtin, arg.span));
+                }
+                i
+            }
+        };
+        if self.bound[index].is_some() {
+            return Err(Diagnostic::error(
+                arg.span,
+                format!(
+                    "argument `{}` of `{}` is given twice",
+                    builtin.params[index].name, builtin.name
+                ),
+            ));
+        }
+        self.bound[index] = Some(arg);
+        Ok(())
+    }
+
+    /// Will the caller read field `name` of the record this call returns?
+    /// True unless the caller named the fields it reads and `name` is not one.
+    #[inline]
+    pub fn wants(&self, name: &str) -> bool {
+        self.wanted
+            .as_ref()
+            .is_none_or(|w| w.iter().any(|f| f == name))
     }
 
     fn index(&self, name: &str) -> usize {
         self.builtin
             .params
             .iter()
-            .position(|p| p.name == name)
+            .position(|p| same_name(p.name, name))
             .unwrap_or_else(|| {
                 panic!(
                     "built-in `{}` reads undeclared parameter `{name}`",
@@ -196,6 +225,16 @@ impl Args {
     /// Was this argument given?
     pub fn has(&self, name: &str) -> bool {
         self.bound[self.index(name)].is_some()
+    }
+
+    /// The parameters given at the call, in declaration order, with the
+    /// spans of their arguments.
+    pub fn given(&self) -> impl Iterator<Item = (&'static str, Span)> + '_ {
+        self.builtin
+            .params
+            .iter()
+            .zip(&self.bound)
+            .filter_map(|(p, a)| a.as_ref().map(|a| (p.name, a.span)))
     }
 
     /// The span of an argument if given, else the call's span.
@@ -267,6 +306,13 @@ impl Args {
             None => Ok(()),
         }
     }
+}
+
+/// `a == b` for the short names of parameters, compared in place (a call to
+/// `memcmp` costs more than the comparison; built-ins look names up often).
+#[inline]
+fn same_name(a: &str, b: &str) -> bool {
+    a.len() == b.len() && a.bytes().zip(b.bytes()).all(|(x, y)| x == y)
 }
 
 fn unknown_argument(builtin: &Builtin, name: &str, span: Span) -> Diagnostic {

@@ -9,14 +9,14 @@
 //! of the sheet from a small pool, so no state is shared between points.
 
 use std::collections::HashSet;
-use std::sync::Mutex;
+use std::sync::{Arc, Mutex};
 
 use rayon::prelude::*;
 
 use super::progress::{self, Progress};
 use crate::diag::{Diagnostic, Span};
 use crate::eval::{graph, Ctx, DefKind, FastMap, Flow, Limits, Mode, Sheet, Sources};
-use crate::syntax::{Expr, StmtKind};
+use crate::syntax::{Expr, ExprKind, StmtKind};
 use crate::units::{Quantity, Unit};
 use crate::value::Value;
 
@@ -79,6 +79,8 @@ impl Outcome {
 struct Work {
     sheet: Sheet,
     sources: Sources,
+    /// Room for the evaluator's stack of names, reused from point to point.
+    active: Vec<Arc<str>>,
 }
 
 /// A worksheet ready to be evaluated at points of its varied inputs.
@@ -92,7 +94,9 @@ pub(super) struct Model {
     pub probes: Vec<Expr>,
     pub rules: Vec<Rule>,
     /// Cached values to clear at every point (they depend on the inputs).
-    dependent: Vec<String>,
+    dependent: Vec<Arc<str>>,
+    /// The cache keys of the inputs, in order (set at every point).
+    input_keys: Vec<Arc<str>>,
     pool: Mutex<Vec<Work>>,
 }
 
@@ -130,7 +134,31 @@ impl Model {
         force_independent(ctx, &roots, &dependent, span)?;
         let mut sheet = ctx.sheet.clone();
         for n in &dependent {
-            sheet.cache.remove(n);
+            sheet.cache.remove(n.as_str());
+        }
+        let key = |n: &str| {
+            sheet
+                .defs
+                .get(n)
+                .map_or_else(|| Arc::from(n), |d| d.key.clone())
+        };
+        let input_keys: Vec<Arc<str>> = names.iter().map(|n| key(n)).collect();
+        let recomputed: Vec<Arc<str>> = dependent
+            .iter()
+            .filter(|n| !names.contains(n))
+            .map(|n| key(n))
+            .collect();
+        // (A study inside a study's point starts from its own findings.)
+        for d in sheet.defs.values_mut() {
+            if dependent.contains(d.name.name.as_str()) {
+                d.wanted = None;
+            }
+        }
+        let exprs = probes.iter().chain(rules.iter().map(|r| &r.expr));
+        for (name, fields) in wanted_fields(&sheet.defs, &dependent, exprs) {
+            if let Some(d) = sheet.defs.get_mut(&name) {
+                d.wanted = Some(fields);
+            }
         }
         Ok(Model {
             sheet,
@@ -141,7 +169,8 @@ impl Model {
             inputs,
             probes,
             rules,
-            dependent: dependent.into_iter().collect(),
+            dependent: recomputed,
+            input_keys,
             pool: Mutex::new(Vec::new()),
         })
     }
@@ -212,6 +241,7 @@ impl Model {
         spare.unwrap_or_else(|| Work {
             sheet: self.sheet.clone(),
             sources: self.sources.clone(),
+            active: Vec::new(),
         })
     }
 
@@ -223,22 +253,38 @@ impl Model {
     }
 
     fn eval(&self, work: &mut Work, point: &[f64]) -> Outcome {
+        let cache = &mut work.sheet.cache;
         for n in &self.dependent {
-            work.sheet.cache.remove(n);
+            cache.remove(&**n);
         }
-        for (v, &si) in self.inputs.iter().zip(point) {
-            work.sheet.cache.insert(v.name.clone(), v.shown(si));
+        // The inputs' entries are kept from point to point and overwritten.
+        for ((v, key), &si) in self.inputs.iter().zip(&self.input_keys).zip(point) {
+            match cache.get_mut(&**key) {
+                Some(slot) => *slot = v.shown(si),
+                None => {
+                    cache.insert(key.clone(), v.shown(si));
+                }
+            }
         }
+        let active = std::mem::take(&mut work.active);
         let mut ctx = Ctx::new(&mut work.sheet, &mut work.sources, &self.limits, Mode::Run);
+        ctx.reuse_active(active);
         ctx.depth = self.depth + 1;
         ctx.frame = self.frame.clone();
+        let outcome = self.outcome(&mut ctx);
+        work.active = ctx.take_active();
+        outcome
+    }
+
+    /// Force the probes and rules in `ctx`, set up at a point.
+    fn outcome(&self, ctx: &mut Ctx) -> Outcome {
         let mut values = Vec::with_capacity(self.probes.len());
         for probe in &self.probes {
             match ctx.expr(probe) {
                 Ok(v) => values.push(v),
                 Err(stop) => {
                     ctx.report(stop);
-                    let message = first_error(&ctx);
+                    let message = first_error(ctx);
                     return Outcome {
                         values: Err(message),
                         broken: Vec::new(),
@@ -314,6 +360,85 @@ fn dependents(defs: &FastMap<String, crate::eval::Def>, names: &[String]) -> Has
     out
 }
 
+/// The values recomputed at each point that are built-in calls whose records
+/// are only ever read field by field (`a.wetbulb`), in the worksheet's
+/// definitions, `probes` and rules, with the fields read: the built-in need
+/// compute no other field. A value read whole anywhere (shown, passed to a
+/// function, listed) is left out.
+fn wanted_fields<'e>(
+    defs: &'e FastMap<String, crate::eval::Def>,
+    dependent: &HashSet<String>,
+    probes: impl Iterator<Item = &'e Expr>,
+) -> Vec<(String, Arc<[String]>)> {
+    let candidates: Vec<&str> = dependent
+        .iter()
+        .filter(|n| defs.get(*n).is_some_and(|d| is_builtin_call(defs, d)))
+        .map(String::as_str)
+        .collect();
+    if candidates.is_empty() {
+        return Vec::new();
+    }
+    // Per name: the fields read, or None once it is read whole.
+    let mut reads: FastMap<&str, Option<Vec<&str>>> =
+        candidates.iter().map(|n| (*n, Some(Vec::new()))).collect();
+    let mut stack: Vec<&Expr> = defs.values().map(|d| &*d.expr).chain(probes).collect();
+    while let Some(e) = stack.pop() {
+        match &e.kind {
+            ExprKind::Field(a, field) => match &a.kind {
+                ExprKind::Name(n) => {
+                    if let Some(Some(fields)) = reads.get_mut(n.as_str()) {
+                        if !fields.contains(&field.name.as_str()) {
+                            fields.push(&field.name);
+                        }
+                    }
+                }
+                _ => stack.push(a),
+            },
+            ExprKind::Name(n) => {
+                if let Some(r) = reads.get_mut(n.as_str()) {
+                    *r = None;
+                }
+            }
+            ExprKind::Call { callee, args } => {
+                if let Some(r) = reads.get_mut(callee.name.as_str()) {
+                    *r = None;
+                }
+                stack.extend(args.iter().map(|a| &a.value));
+            }
+            ExprKind::Quantity { .. } | ExprKind::Bool(_) | ExprKind::Str(_) => {}
+            ExprKind::List(items) => stack.extend(items),
+            ExprKind::Record(fields) => stack.extend(fields.iter().map(|(_, e)| e)),
+            ExprKind::Unary(_, a) | ExprKind::As(a, _) => stack.push(a),
+            ExprKind::Binary(_, a, b) => stack.extend([&**a, &**b]),
+            ExprKind::If(c, a, b) => stack.extend([&**c, &**a, &**b]),
+        }
+    }
+    reads
+        .into_iter()
+        .filter_map(|(n, r)| {
+            let fields: Vec<String> = r?.into_iter().map(String::from).collect();
+            Some((n.to_string(), Arc::from(fields)))
+        })
+        .collect()
+}
+
+/// Is `d` a value defined by a call of a built-in (not a user function, a
+/// load or a what-if form)?
+fn is_builtin_call(defs: &FastMap<String, crate::eval::Def>, d: &crate::eval::Def) -> bool {
+    match &d.expr.kind {
+        ExprKind::Call { callee, .. } => {
+            d.kind == DefKind::Value
+                && callee.name != "load"
+                && defs
+                    .get(&callee.name)
+                    .is_none_or(|f| f.kind != DefKind::Function)
+                && !FORMS.contains(&callee.name.as_str())
+                && crate::library::find(&callee.name).is_some()
+        }
+        _ => false,
+    }
+}
+
 /// Compute, once, every value the probes need that the inputs do not change.
 fn force_independent(
     ctx: &mut Ctx,
@@ -381,5 +506,46 @@ mod tests {
         got.sort();
         // `c` reads `a` through the function `f`; `b` and `d` do not depend on `a`.
         assert_eq!(got, ["a", "c", "e", "f"]);
+    }
+
+    #[test]
+    fn a_built_in_record_read_only_by_fields_wants_those_fields() {
+        let text = "input T = 60 degC\ninput w = 0.02 kg/kg_da\na = air(T: T, w: w)\n\
+                    twb = a.wetbulb\nb = air(T: T, rh: 50 %)\nc = heat(b, to: 90 degC)\n\
+                    d = air(T: T, w: w)\nf(x) = d.h * x\ng = f(2)\n";
+        let (stmts, errors) = crate::syntax::parse(text, 0);
+        assert!(errors.is_empty(), "{errors:?}");
+        let mut sheet = Sheet::default();
+        assert!(sheet.define(&stmts, true).is_ok());
+        let names = ["T".to_string(), "w".to_string()];
+        let dependent = dependents(&sheet.defs, &names);
+        let (probe, _) = crate::syntax::parse("x = [a.rho, c.h]", 0);
+        let probe = match &probe[0].kind {
+            StmtKind::Binding { expr, .. } => Expr::clone(expr),
+            other => panic!("{other:?}"),
+        };
+        let mut got: Vec<(String, Vec<String>)> =
+            wanted_fields(&sheet.defs, &dependent, std::iter::once(&probe))
+                .into_iter()
+                .map(|(n, f)| {
+                    let mut f = f.to_vec();
+                    f.sort();
+                    (n, f)
+                })
+                .collect();
+        got.sort();
+        // `b` is passed whole to `heat`, so it is left out; `c` (a call of
+        // `heat`) is read by field in the probe and `d` in a function's body;
+        // `g` calls a user function.
+        let want = [
+            ("a", vec!["rho", "wetbulb"]),
+            ("c", vec!["h"]),
+            ("d", vec!["h"]),
+        ];
+        let want: Vec<(String, Vec<String>)> = want
+            .iter()
+            .map(|(n, f)| (n.to_string(), f.iter().map(|s| s.to_string()).collect()))
+            .collect();
+        assert_eq!(got, want);
     }
 }

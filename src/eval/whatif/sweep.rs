@@ -116,20 +116,18 @@ impl Ctx<'_> {
 
 /// Every combination of the axes' values, the first axis varying slowest.
 pub(super) fn grid(axes: &[Vec<f64>]) -> Vec<Vec<f64>> {
-    let mut points: Vec<Vec<f64>> = vec![Vec::new()];
-    for axis in axes {
-        points = points
-            .into_iter()
-            .flat_map(|p| {
-                axis.iter().map(move |&x| {
-                    let mut q = p.clone();
-                    q.push(x);
-                    q
-                })
-            })
-            .collect();
-    }
-    points
+    let total: usize = axes.iter().map(Vec::len).product();
+    (0..total)
+        .map(|mut i| {
+            // Point i in mixed radix, the last axis varying fastest.
+            let mut point = vec![0.0; axes.len()];
+            for (x, axis) in point.iter_mut().zip(axes).rev() {
+                *x = axis[i % axis.len()];
+                i /= axis.len();
+            }
+            point
+        })
+        .collect()
 }
 
 /// A plain number value.
@@ -334,5 +332,26 @@ fn heat_map(
         y: ys,
         z,
         z_label: axis_label(name, z_unit),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::grid;
+
+    #[test]
+    fn grid_is_every_combination_first_axis_slowest() {
+        let axes = vec![vec![1.0, 2.0], vec![10.0, 20.0, 30.0], vec![100.0, 200.0]];
+        let mut expected = Vec::new();
+        for &a in &axes[0] {
+            for &b in &axes[1] {
+                for &c in &axes[2] {
+                    expected.push(vec![a, b, c]);
+                }
+            }
+        }
+        assert_eq!(grid(&axes), expected);
+        assert_eq!(grid(&[]), vec![Vec::<f64>::new()]);
+        assert!(grid(&[vec![1.0], vec![]]).is_empty());
     }
 }

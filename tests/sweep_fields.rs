@@ -1,0 +1,165 @@
+//! A what-if study's points compute only the fields of a built-in's record
+//! that the worksheet reads (`a.wetbulb`): checked against evaluating each
+//! point on its own, where the whole record is built, and for the errors and
+//! warnings of the fields that are read.
+
+use siccant::session::Session;
+use siccant::value::{Record, Value};
+
+fn run(text: &str) -> Session {
+    let mut s = Session::new();
+    if let Err(d) = s.eval(text) {
+        let shown: String = d.iter().map(|d| s.render_diagnostic(d, false)).collect();
+        panic!("{shown}");
+    }
+    s
+}
+
+fn record(s: &Session, name: &str) -> Record {
+    match s.value(name) {
+        Some(Value::Record(r)) => r.clone(),
+        other => panic!("`{name}` is not a record: {other:?}"),
+    }
+}
+
+fn si(v: Option<&Value>) -> f64 {
+    match v {
+        Some(Value::Quantity(q, _)) => q.si,
+        other => panic!("not a quantity: {other:?}"),
+    }
+}
+
+fn list(v: Option<&Value>) -> Vec<Value> {
+    match v {
+        Some(Value::List(items)) => items.clone(),
+        other => panic!("not a list: {other:?}"),
+    }
+}
+
+/// The text of each cell of column `name` of a sweep's table.
+fn column(sweep: &Record, name: &str) -> Vec<String> {
+    let Some(Value::Table(table)) = sweep.get("table") else {
+        panic!("no table")
+    };
+    let column = table
+        .columns
+        .iter()
+        .find(|c| c.name == name)
+        .unwrap_or_else(|| panic!("no column {name}"));
+    column.cells.iter().map(siccant::render::text).collect()
+}
+
+const SHEET: &str = "
+input T = 60 degC
+input w = 0.02 kg/kg_da
+a = air(T: T, w: w)
+twb = a.wetbulb
+rho = a.rho
+";
+
+#[test]
+fn fields_read_in_a_sweep_equal_those_of_the_whole_record() {
+    let s = run(&format!(
+        "{SHEET}\ns = sweep([twb, rho, a.dewpoint, a.degree_of_saturation], T: [40 degC, 75 degC, 95 degC], w: [0.001 kg/kg_da, 0.04 kg/kg_da])"
+    ));
+    let sweep = record(&s, "s");
+    let probes = ["twb", "rho", "a.dewpoint", "a.degree_of_saturation"];
+    let fields = ["wetbulb", "rho", "dewpoint", "degree_of_saturation"];
+    let got: Vec<Vec<Value>> = probes.iter().map(|p| list(sweep.get(p))).collect();
+    let mut row = 0;
+    for t in ["40 degC", "75 degC", "95 degC"] {
+        for w in ["0.001 kg/kg_da", "0.04 kg/kg_da"] {
+            let text = SHEET
+                .replace("input T = 60 degC", &format!("input T = {t}"))
+                .replace("input w = 0.02 kg/kg_da", &format!("input w = {w}"));
+            let single = run(&text);
+            let whole = record(&single, "a");
+            for (k, field) in fields.iter().enumerate() {
+                // The same engine calls: identical to the last bit.
+                assert_eq!(
+                    si(Some(&got[k][row])).to_bits(),
+                    si(whole.get(field)).to_bits(),
+                    "{field} at {t}, {w}"
+                );
+            }
+            row += 1;
+        }
+    }
+    assert_eq!(row, got[0].len());
+}
+
+#[test]
+fn a_record_read_whole_in_a_sweep_has_every_field() {
+    let s = run(&format!(
+        "{SHEET}\ns = sweep([a], w: [0.01 kg/kg_da, 0.03 kg/kg_da])"
+    ));
+    let sweep = record(&s, "s");
+    for v in list(sweep.get("a")) {
+        let Value::Record(r) = v else {
+            panic!("not a record: {v:?}")
+        };
+        assert_eq!(r.fields.len(), 13);
+        assert!(r.payload.is_some(), "an air state carries its engine state");
+    }
+}
+
+#[test]
+fn a_record_passed_to_a_built_in_in_a_sweep_is_whole() {
+    // `heat` reads the air state itself, so nothing may be left out of `a`.
+    let text = format!(
+        "{SHEET}\nb = heat(a, to: 90 degC)\ns = sweep([b.h, b.q], w: [0.01 kg/kg_da, 0.03 kg/kg_da])"
+    );
+    let s = run(&text);
+    let sweep = record(&s, "s");
+    let h = list(sweep.get("b.h"));
+    for (row, w) in ["0.01 kg/kg_da", "0.03 kg/kg_da"].iter().enumerate() {
+        let single = run(&format!(
+            "{}\nb = heat(a, to: 90 degC)",
+            SHEET.replace("input w = 0.02 kg/kg_da", &format!("input w = {w}"))
+        ));
+        let b = record(&single, "b");
+        assert_eq!(si(Some(&h[row])).to_bits(), si(b.get("h")).to_bits());
+    }
+}
+
+#[test]
+fn a_wet_bulb_that_cannot_be_solved_fails_its_point_at_the_call() {
+    // Nearly pure steam: the wet-bulb lies within 0.02 K of the boiling point.
+    // Read or not, it fails the point as when the whole record is built.
+    for read in ["a.wetbulb", "a.h"] {
+        let text = format!("input T = 300 degC\ninput w = 0.02 kg/kg_da\na = air(T: T, w: w)\nx = {read}\ns = sweep([x], w: [0.02 kg/kg_da, 1e5 kg/kg_da])");
+        let s = run(&text);
+        let sweep = record(&s, "s");
+        let errors = column(&sweep, "error");
+        assert!(errors[0].is_empty(), "{errors:?}");
+        assert!(
+            errors[1].starts_with("3:5: the wet-bulb of nearly pure steam"),
+            "{read}: {errors:?}"
+        );
+        assert_eq!(si(sweep.get("failed")), 1.0);
+    }
+}
+
+#[test]
+fn a_missing_dew_point_warns_whether_read_or_not() {
+    // Bone-dry air has no dew point: the record has no such field, with a
+    // warning, as when the whole record is built.
+    let text = "input T = 30 degC\ninput w = 0.01 kg/kg_da\na = air(T: T, w: w)\nx = a.h\ns = sweep([x], w: [0 kg/kg_da, 0.01 kg/kg_da])";
+    let mut s = Session::new();
+    let out = s.eval(text).expect("the worksheet runs");
+    let warned = out.warnings.iter().any(|w| {
+        w.message
+            .starts_with("at 1 of 2 points: no dew point field: no dew point")
+    });
+    assert!(warned, "{:?}", out.warnings);
+    // Read, it fails its point (the point's warnings go with it).
+    let text = text.replace("x = a.h", "x = a.dewpoint");
+    let s = run(&text);
+    let sweep = record(&s, "s");
+    let errors = column(&sweep, "error");
+    assert!(
+        errors[0].starts_with("4:7: a record of type air has no field `dewpoint`"),
+        "{errors:?}"
+    );
+    assert!(errors[1].is_empty(), "{errors:?}");
+}
