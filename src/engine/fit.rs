@@ -38,6 +38,7 @@
 
 use std::fmt;
 
+pub(crate) mod batch;
 mod compact;
 mod transform;
 
