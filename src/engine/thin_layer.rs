@@ -239,8 +239,7 @@ fn linearised(model: ThinLayerModel, t: &[f64], ln_t: &[f64], mr: &[f64]) -> Lin
     let mut ln_minus_ln_mr: Vec<f64> = ln_mr.iter().map(|l| -l).collect();
     batch::ln_in_place(&mut ln_minus_ln_mr);
     let wanted = |m: &[ThinLayerModel]| m.contains(&model);
-    let mut exponential = Vec::new();
-    let mut power = Vec::new();
+    let capacity = |wanted: bool| if wanted { t.len() } else { 0 };
     let exponential_wanted = wanted(&[
         Lewis,
         HendersonPabis,
@@ -250,6 +249,8 @@ fn linearised(model: ThinLayerModel, t: &[f64], ln_t: &[f64], mr: &[f64]) -> Lin
         Midilli,
     ]);
     let power_wanted = wanted(&[Page, ModifiedPage, Midilli]);
+    let mut exponential = Vec::with_capacity(capacity(exponential_wanted));
+    let mut power = Vec::with_capacity(capacity(power_wanted));
     for (i, (&ti, &m)) in t.iter().zip(mr).enumerate() {
         if ti > 0.0 && m > 0.0 && m < 1.0 {
             let ln_m = ln_mr[i];
@@ -384,7 +385,7 @@ pub fn fit_thin_layer(
             detail: format!("{}: {detail}", model.name()),
         });
     };
-    let result = rescaled_result(model, &scaled_fit, time_unit_s / scale);
+    let result = rescaled_result(model, scaled_fit, time_unit_s / scale);
     Ok(summary(model, time_unit_s, result))
 }
 
@@ -395,7 +396,7 @@ pub fn fit_thin_layer(
 /// functions of either set), the statistics of the residuals unchanged. The
 /// optimum in one time unit is the optimum in any other, so no second fit
 /// is needed.
-fn rescaled_result(model: ThinLayerModel, fit: &FitResult, r: f64) -> FitResult {
+fn rescaled_result(model: ThinLayerModel, fit: FitResult, r: f64) -> FitResult {
     let p = fit.params.len();
     let m = model.rescale_derivatives(&fit.params, r);
     let mut covariance = vec![0.0; p * p];
@@ -424,7 +425,7 @@ fn rescaled_result(model: ThinLayerModel, fit: &FitResult, r: f64) -> FitResult 
         std_errors,
         ci95,
         covariance,
-        ..fit.clone()
+        ..fit
     }
 }
 

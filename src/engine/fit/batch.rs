@@ -152,15 +152,27 @@ pub fn ln(x: f64) -> f64 {
     }
 }
 
-/// `ln` of every value, in place: one loop of [`ln`], compiled for AVX2 as
-/// well where the processor has it (detected at run time; same bits).
+/// `ln` of every value, in place: one loop of [`ln`], compiled for AVX2 and
+/// AVX-512 as well for processors that have them (detected at run time;
+/// same bits).
 pub fn ln_in_place(values: &mut [f64]) {
     #[cfg(target_arch = "x86_64")]
-    if std::arch::is_x86_feature_detected!("avx2") {
-        // SAFETY: the processor has AVX2, checked just above.
-        unsafe { ln_loop_avx2(values) };
-        return;
+    {
+        if std::arch::is_x86_feature_detected!("avx512f") {
+            // SAFETY: the processor has AVX-512F, checked just above.
+            return unsafe { ln_loop_avx512(values) };
+        }
+        if std::arch::is_x86_feature_detected!("avx2") {
+            // SAFETY: the processor has AVX2, checked just above.
+            return unsafe { ln_loop_avx2(values) };
+        }
     }
+    ln_loop(values);
+}
+
+#[cfg(target_arch = "x86_64")]
+#[target_feature(enable = "avx512f")]
+fn ln_loop_avx512(values: &mut [f64]) {
     ln_loop(values);
 }
 

@@ -176,13 +176,13 @@ fn accumulate<const P: usize>(
 
 /// Points summed side by side in [`analytic_sums`]: independent partial
 /// sums, one per lane, which the compiler can keep in vector registers.
-const LANES: usize = 4;
+const LANES: usize = 8;
 
 /// The sums of an analytic model from its stored derivatives (row-major
 /// `n x P`), as [`accumulate`] gives them (to rounding: the points are summed
 /// in [`LANES`] interleaved partial sums, added at the end in a fixed order,
 /// so the result does not depend on the instruction set). Compiled for AVX2
-/// as well where the processor has it (detected at run time).
+/// and AVX-512 as well for processors that have them (detected at run time).
 fn analytic_sums<const P: usize>(
     y: &[f64],
     weights: &[f64],
@@ -190,10 +190,27 @@ fn analytic_sums<const P: usize>(
     gradients: &[f64],
 ) -> Result<Sums, usize> {
     #[cfg(target_arch = "x86_64")]
-    if std::arch::is_x86_feature_detected!("avx2") {
-        // SAFETY: the processor has AVX2, checked just above.
-        return unsafe { lane_sums_avx2::<P>(y, weights, fitted, gradients) };
+    {
+        if std::arch::is_x86_feature_detected!("avx512f") {
+            // SAFETY: the processor has AVX-512F, checked just above.
+            return unsafe { lane_sums_avx512::<P>(y, weights, fitted, gradients) };
+        }
+        if std::arch::is_x86_feature_detected!("avx2") {
+            // SAFETY: the processor has AVX2, checked just above.
+            return unsafe { lane_sums_avx2::<P>(y, weights, fitted, gradients) };
+        }
     }
+    lane_sums::<P>(y, weights, fitted, gradients)
+}
+
+#[cfg(target_arch = "x86_64")]
+#[target_feature(enable = "avx512f")]
+fn lane_sums_avx512<const P: usize>(
+    y: &[f64],
+    weights: &[f64],
+    fitted: &[f64],
+    gradients: &[f64],
+) -> Result<Sums, usize> {
     lane_sums::<P>(y, weights, fitted, gradients)
 }
 
@@ -267,7 +284,7 @@ fn lane_sums<const P: usize>(
             }
         }
     }
-    let total = |lanes: [f64; LANES]| (lanes[0] + lanes[1]) + (lanes[2] + lanes[3]);
+    let total = |l: [f64; LANES]| ((l[0] + l[1]) + (l[2] + l[3])) + ((l[4] + l[5]) + (l[6] + l[7]));
     let mut sums = Sums::empty();
     sums.chi2 = total(chi2);
     if !sums.chi2.is_finite() {

@@ -138,19 +138,11 @@ impl Model for Curve<'_> {
 
 /// The Page model `exp(-k t^n)` and its derivatives at every time of `curve`:
 /// one branch-free loop with the vectorisable exponential of
-/// [`crate::engine::fit::batch`], compiled for AVX2 as well where the
-/// processor has it (detected at run time; both give the same bits), then
+/// [`crate::engine::fit::batch`], compiled for AVX2 and AVX-512 as well for
+/// processors that have them (detected at run time; all give the same bits), then
 /// the times `t <= 0` (where `ln t` is no number) redone one by one.
 fn page_all(k: f64, n: f64, curve: &Curve, values: &mut [f64], gradients: &mut [f64]) {
-    #[cfg(target_arch = "x86_64")]
-    if std::arch::is_x86_feature_detected!("avx2") {
-        // SAFETY: the processor has AVX2, checked just above.
-        unsafe { page_loop_avx2(k, n, curve.ln_t, values, gradients) };
-    } else {
-        page_loop(k, n, curve.ln_t, values, gradients);
-    }
-    #[cfg(not(target_arch = "x86_64"))]
-    page_loop(k, n, curve.ln_t, values, gradients);
+    page_loop_fastest(k, n, curve.ln_t, values, gradients);
     for (i, &t) in curve.t.iter().enumerate() {
         if t <= 0.0 {
             values[i] = power_decay(k, n, t, curve.ln_t[i], &mut gradients[2 * i..2 * i + 2]);
@@ -158,10 +150,33 @@ fn page_all(k: f64, n: f64, curve: &Curve, values: &mut [f64], gradients: &mut [
     }
 }
 
+/// [`page_loop`] with the widest vector instructions the processor has.
+fn page_loop_fastest(k: f64, n: f64, ln_t: &[f64], values: &mut [f64], gradients: &mut [f64]) {
+    #[cfg(target_arch = "x86_64")]
+    {
+        if std::arch::is_x86_feature_detected!("avx512f") {
+            // SAFETY: the processor has AVX-512F, checked just above.
+            return unsafe { page_loop_avx512(k, n, ln_t, values, gradients) };
+        }
+        if std::arch::is_x86_feature_detected!("avx2") {
+            // SAFETY: the processor has AVX2, checked just above.
+            return unsafe { page_loop_avx2(k, n, ln_t, values, gradients) };
+        }
+    }
+    page_loop(k, n, ln_t, values, gradients);
+}
+
 /// [`page_loop`] compiled with AVX2 (four points per instruction).
 #[cfg(target_arch = "x86_64")]
 #[target_feature(enable = "avx2")]
 fn page_loop_avx2(k: f64, n: f64, ln_t: &[f64], values: &mut [f64], gradients: &mut [f64]) {
+    page_loop(k, n, ln_t, values, gradients);
+}
+
+/// [`page_loop`] compiled with AVX-512F (eight points per instruction).
+#[cfg(target_arch = "x86_64")]
+#[target_feature(enable = "avx512f")]
+fn page_loop_avx512(k: f64, n: f64, ln_t: &[f64], values: &mut [f64], gradients: &mut [f64]) {
     page_loop(k, n, ln_t, values, gradients);
 }
 
