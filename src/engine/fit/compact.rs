@@ -664,4 +664,60 @@ mod tests {
         }
         assert!(cholesky_solve(&m, &[1.0; MAX_PARAMS], 2).is_none());
     }
+
+    /// Invented data: 203 points (not a multiple of the lanes), weights and
+    /// derivatives of mixed sizes, one derivative not finite (counts as 0).
+    fn sample_sums_data() -> (Vec<f64>, Vec<f64>, Vec<f64>, Vec<f64>) {
+        let n = 203;
+        let y: Vec<f64> = (0..n).map(|i| (0.37 * i as f64).sin()).collect();
+        let w: Vec<f64> = (0..n).map(|i| 1.0 + 0.01 * i as f64).collect();
+        let f: Vec<f64> = (0..n)
+            .map(|i| (0.37 * i as f64).sin() + 1e-3 * (i as f64).cos())
+            .collect();
+        let mut d: Vec<f64> = (0..3 * n)
+            .map(|k| (0.11 * k as f64).cos() * 10f64.powi(k as i32 % 5 - 2))
+            .collect();
+        d[77] = f64::INFINITY;
+        (y, w, f, d)
+    }
+
+    /// The lane sums against the point-by-point sums (to rounding), and the
+    /// processor's widest variant against the portable one bit for bit.
+    #[test]
+    fn lane_sums_match_point_by_point_sums() {
+        let (y, w, f, d) = sample_sums_data();
+        let plain =
+            accumulate::<3>(&y, &w, &f, |i, g| g.copy_from_slice(&d[3 * i..3 * i + 3])).unwrap();
+        let lanes = analytic_sums::<3>(&y, &w, &f, &d).unwrap();
+        let portable = lane_sums::<3>(&y, &w, &f, &d).unwrap();
+        let close = |a: f64, b: f64| (a - b).abs() <= 1e-13 * b.abs().max(1e-300);
+        assert!(close(lanes.chi2, plain.chi2));
+        assert_eq!(lanes.chi2.to_bits(), portable.chi2.to_bits());
+        for a in 0..3 {
+            assert!(close(lanes.gradient[a], plain.gradient[a]), "gradient {a}");
+            assert_eq!(lanes.gradient[a].to_bits(), portable.gradient[a].to_bits());
+            for b in 0..3 {
+                assert!(
+                    close(lanes.matrix[a][b], plain.matrix[a][b]),
+                    "matrix {a} {b}"
+                );
+                assert_eq!(
+                    lanes.matrix[a][b].to_bits(),
+                    portable.matrix[a][b].to_bits()
+                );
+            }
+        }
+    }
+
+    /// A residual that is not finite is reported at its point, as the
+    /// point-by-point sums do.
+    #[test]
+    fn lane_sums_name_the_first_bad_point() {
+        let (y, w, mut f, d) = sample_sums_data();
+        f[150] = f64::NAN;
+        f[201] = f64::INFINITY;
+        assert_eq!(analytic_sums::<3>(&y, &w, &f, &d).err(), Some(150));
+        let plain = accumulate::<3>(&y, &w, &f, |i, g| g.copy_from_slice(&d[3 * i..3 * i + 3]));
+        assert_eq!(plain.err(), Some(150));
+    }
 }
