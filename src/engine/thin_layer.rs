@@ -361,11 +361,7 @@ pub fn fit_thin_layer(
         *l -= ln_scale;
     }
     let guess = linearised(model, &scaled, &ln_scaled, ratios);
-    let on_scaled = Curve {
-        model,
-        t: &scaled,
-        ln_t: &ln_scaled,
-    };
+    let on_scaled = Curve::new(model, &scaled, &ln_scaled);
     let bounds = model.bounds();
     let options = FitOptions::default();
     let mut best: Option<FitResult> = None;

@@ -105,6 +105,22 @@ pub(super) struct Curve<'a> {
     pub model: ThinLayerModel,
     pub t: &'a [f64],
     pub ln_t: &'a [f64],
+    /// One past the last time `t <= 0` (0 when there is none): the points
+    /// the vectorised Page loop leaves to the point-by-point formula.
+    pub non_positive_end: usize,
+}
+
+impl<'a> Curve<'a> {
+    /// `model` on times `t` with their logarithms `ln_t`.
+    pub fn new(model: ThinLayerModel, t: &'a [f64], ln_t: &'a [f64]) -> Curve<'a> {
+        let non_positive_end = t.iter().rposition(|&t| t <= 0.0).map_or(0, |i| i + 1);
+        Curve {
+            model,
+            t,
+            ln_t,
+            non_positive_end,
+        }
+    }
 }
 
 impl Model for Curve<'_> {
@@ -143,7 +159,7 @@ impl Model for Curve<'_> {
 /// the times `t <= 0` (where `ln t` is no number) redone one by one.
 fn page_all(k: f64, n: f64, curve: &Curve, values: &mut [f64], gradients: &mut [f64]) {
     page_loop_fastest(k, n, curve.ln_t, values, gradients);
-    for (i, &t) in curve.t.iter().enumerate() {
+    for (i, &t) in curve.t[..curve.non_positive_end].iter().enumerate() {
         if t <= 0.0 {
             values[i] = power_decay(k, n, t, curve.ln_t[i], &mut gradients[2 * i..2 * i + 2]);
         }
@@ -256,11 +272,8 @@ mod tests {
             .chain((1..400).map(|i| 1e-4 * 1.05f64.powi(i)))
             .collect();
         let ln_t: Vec<f64> = t.iter().map(|t| t.ln()).collect();
-        let curve = Curve {
-            model: ThinLayerModel::Page,
-            t: &t,
-            ln_t: &ln_t,
-        };
+        let curve = Curve::new(ThinLayerModel::Page, &t, &ln_t);
+        assert_eq!(curve.non_positive_end, 2);
         for p in [
             [0.5, 1.3],
             [2e-3, 0.7],
