@@ -837,12 +837,15 @@ fn statistics(
         return Err(FitError::ModelUndefined { point });
     }
     let residuals: Vec<f64> = y.iter().zip(&fitted).map(|(o, f)| o - f).collect();
-    let sse: f64 = residuals.iter().map(|r| r * r).sum();
-    let chi2: f64 = residuals
-        .iter()
-        .zip(weights)
-        .map(|(r, w)| (r * w) * (r * w))
-        .sum();
+    // Sums that do not depend on each other share a pass, so their chains
+    // of additions overlap (each sum still adds in point order).
+    let (mut sse, mut chi2, mut y_total, mut relative) = (0.0, 0.0, 0.0, 0.0);
+    for ((r, w), v) in residuals.iter().zip(weights).zip(y) {
+        sse += r * r;
+        chi2 += (r * w) * (r * w);
+        y_total += v;
+        relative += (r / v).abs();
+    }
     let dof = n - p;
     let reduced_chi_square = chi2 / dof as f64;
     let covariance = covariance(normal, p, reduced_chi_square)?;
@@ -855,7 +858,7 @@ fn statistics(
         .zip(&std_errors)
         .map(|(x, se)| (x - t_value * se, x + t_value * se))
         .collect();
-    let mean = y.iter().sum::<f64>() / n as f64;
+    let mean = y_total / n as f64;
     let sst: f64 = y.iter().map(|v| (v - mean) * (v - mean)).sum();
     let log_term = n as f64 * (sse / n as f64).max(f64::MIN_POSITIVE).ln();
     Ok(FitResult {
@@ -869,7 +872,7 @@ fn statistics(
         sse,
         r_squared: if sst > 0.0 { 1.0 - sse / sst } else { 1.0 },
         rmse: (sse / n as f64).sqrt(),
-        mean_relative_deviation_percent: mean_relative_deviation(y, &residuals),
+        mean_relative_deviation_percent: mean_relative_deviation(y, relative),
         reduced_chi_square,
         aic: log_term + 2.0 * p as f64,
         bic: log_term + p as f64 * (n as f64).ln(),
@@ -981,12 +984,13 @@ fn invert_by_svd(scaled: &[f64], p: usize) -> Option<Vec<f64>> {
     Some((0..p * p).map(|k| inverse[(k / p, k % p)]).collect())
 }
 
-fn mean_relative_deviation(y: &[f64], residuals: &[f64]) -> Option<f64> {
+/// `P = 100/n sum |r/y|` from the sum `relative` of `|r/y|`; `None` when
+/// some `y` is zero.
+fn mean_relative_deviation(y: &[f64], relative: f64) -> Option<f64> {
     if y.contains(&0.0) {
         return None;
     }
-    let sum: f64 = y.iter().zip(residuals).map(|(v, r)| (r / v).abs()).sum();
-    Some(100.0 * sum / y.len() as f64)
+    Some(100.0 * relative / y.len() as f64)
 }
 
 fn on_bound(x: f64, (lo, hi): (f64, f64)) -> bool {

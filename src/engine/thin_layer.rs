@@ -307,11 +307,20 @@ fn line(points: &[(f64, f64, f64)]) -> Option<(f64, f64)> {
     if points.len() < 2 {
         return None;
     }
-    let total: f64 = points.iter().map(|p| p.2).sum();
-    let mx = points.iter().map(|p| p.2 * p.0).sum::<f64>() / total;
-    let my = points.iter().map(|p| p.2 * p.1).sum::<f64>() / total;
-    let sxx: f64 = points.iter().map(|p| p.2 * (p.0 - mx).powi(2)).sum();
-    let sxy: f64 = points.iter().map(|p| p.2 * (p.0 - mx) * (p.1 - my)).sum();
+    // Sums that do not depend on each other share a pass, so their chains
+    // of additions overlap (each sum still adds in point order).
+    let (mut total, mut wx, mut wy) = (0.0, 0.0, 0.0);
+    for p in points {
+        total += p.2;
+        wx += p.2 * p.0;
+        wy += p.2 * p.1;
+    }
+    let (mx, my) = (wx / total, wy / total);
+    let (mut sxx, mut sxy) = (0.0, 0.0);
+    for p in points {
+        sxx += p.2 * (p.0 - mx).powi(2);
+        sxy += p.2 * (p.0 - mx) * (p.1 - my);
+    }
     let slope = sxy / sxx;
     (slope.is_finite() && my.is_finite()).then_some((slope, my - slope * mx))
 }
