@@ -359,7 +359,8 @@ pub fn fit_thin_layer(
 ) -> Result<ThinLayerFit, KineticsError> {
     check_data(times_s, ratios)?;
     positive("time unit", time_unit_s)?;
-    let scale = times_s.iter().copied().fold(0.0, f64::max);
+    // The last reading is the latest (times checked increasing above).
+    let scale = times_s[times_s.len() - 1];
     positive("last reading time", scale)?;
     let scaled: Vec<f64> = times_s.iter().map(|t| t / scale).collect();
     // ln(t / scale) as ln t - ln scale, with the vectorised ln.
