@@ -23,8 +23,8 @@
 
 /// `ln 2` split for exact products with `m` up to `2^11`: the head has its
 /// low 32 bits zero (the split of fdlibm's `exp`), the tail is the rest.
-const LN2_HEAD: f64 = 6.931_471_803_691_238_164_9e-1;
-const LN2_TAIL: f64 = 1.908_214_929_270_587_700_02e-10;
+const LN2_HEAD: f64 = f64::from_bits(0x3fe6_2e42_fee0_0000);
+const LN2_TAIL: f64 = f64::from_bits(0x3dea_39ef_3579_3c76);
 
 /// `1.5 * 2^52`: adding it rounds a number below `2^51` to an integer, which
 /// then sits in the low bits of the sum.
@@ -54,15 +54,9 @@ const fn taylor_coefficients() -> [f64; 12] {
 /// caller's loop so that the loop vectorises.
 #[inline(always)]
 pub fn exp(x: f64) -> f64 {
-    // Comparisons are false for NaN, which passes through and makes the
-    // polynomial NaN (the integer part is then meaningless but harmless).
-    let x = if x < LEAST_ARGUMENT {
-        LEAST_ARGUMENT
-    } else if x > GREATEST_ARGUMENT {
-        GREATEST_ARGUMENT
-    } else {
-        x
-    };
+    // NaN passes through and makes the polynomial NaN (the integer part is
+    // then meaningless but harmless).
+    let x = x.clamp(LEAST_ARGUMENT, GREATEST_ARGUMENT);
     let shifted = x * std::f64::consts::LOG2_E + ROUND_SHIFT;
     let m_float = shifted - ROUND_SHIFT;
     let m = (shifted.to_bits() as i64).wrapping_sub(ROUND_SHIFT.to_bits() as i64);

@@ -668,14 +668,14 @@ mod tests {
     /// Invented data: 203 points (not a multiple of the lanes), weights and
     /// derivatives of mixed sizes, one derivative not finite (counts as 0).
     fn sample_sums_data() -> (Vec<f64>, Vec<f64>, Vec<f64>, Vec<f64>) {
-        let n = 203;
+        let n: usize = 203;
         let y: Vec<f64> = (0..n).map(|i| (0.37 * i as f64).sin()).collect();
         let w: Vec<f64> = (0..n).map(|i| 1.0 + 0.01 * i as f64).collect();
         let f: Vec<f64> = (0..n)
             .map(|i| (0.37 * i as f64).sin() + 1e-3 * (i as f64).cos())
             .collect();
         let mut d: Vec<f64> = (0..3 * n)
-            .map(|k| (0.11 * k as f64).cos() * 10f64.powi(k as i32 % 5 - 2))
+            .map(|k| (0.11 * k as f64).cos() * 10f64.powi((k % 5) as i32 - 2))
             .collect();
         d[77] = f64::INFINITY;
         (y, w, f, d)
