@@ -38,7 +38,9 @@
 
 use std::fmt;
 
+pub(crate) mod batch;
 mod compact;
+mod symmetric;
 mod transform;
 
 use transform::Transform;
@@ -835,12 +837,15 @@ fn statistics(
         return Err(FitError::ModelUndefined { point });
     }
     let residuals: Vec<f64> = y.iter().zip(&fitted).map(|(o, f)| o - f).collect();
-    let sse: f64 = residuals.iter().map(|r| r * r).sum();
-    let chi2: f64 = residuals
-        .iter()
-        .zip(weights)
-        .map(|(r, w)| (r * w) * (r * w))
-        .sum();
+    // Sums that do not depend on each other share a pass, so their chains
+    // of additions overlap (each sum still adds in point order).
+    let (mut sse, mut chi2, mut y_total, mut relative) = (0.0, 0.0, 0.0, 0.0);
+    for ((r, w), v) in residuals.iter().zip(weights).zip(y) {
+        sse += r * r;
+        chi2 += (r * w) * (r * w);
+        y_total += v;
+        relative += (r / v).abs();
+    }
     let dof = n - p;
     let reduced_chi_square = chi2 / dof as f64;
     let covariance = covariance(normal, p, reduced_chi_square)?;
@@ -853,7 +858,7 @@ fn statistics(
         .zip(&std_errors)
         .map(|(x, se)| (x - t_value * se, x + t_value * se))
         .collect();
-    let mean = y.iter().sum::<f64>() / n as f64;
+    let mean = y_total / n as f64;
     let sst: f64 = y.iter().map(|v| (v - mean) * (v - mean)).sum();
     let log_term = n as f64 * (sse / n as f64).max(f64::MIN_POSITIVE).ln();
     Ok(FitResult {
@@ -867,7 +872,7 @@ fn statistics(
         sse,
         r_squared: if sst > 0.0 { 1.0 - sse / sst } else { 1.0 },
         rmse: (sse / n as f64).sqrt(),
-        mean_relative_deviation_percent: mean_relative_deviation(y, &residuals),
+        mean_relative_deviation_percent: mean_relative_deviation(y, relative),
         reduced_chi_square,
         aic: log_term + 2.0 * p as f64,
         bic: log_term + p as f64 * (n as f64).ln(),
@@ -919,51 +924,73 @@ fn central_normal(model: &dyn Model, weights: &[f64], params: &[f64], least: &[f
 
 /// `s^2 (J^T W^2 J)^-1`, row-major, from the row-major normal matrix.
 fn covariance(normal: &[f64], p: usize, s2: f64) -> Result<Vec<f64>, FitError> {
-    let normal = DMatrix::from_row_slice(p, p, normal);
-    let inverse = invert_symmetric(normal).ok_or(FitError::NotIdentifiable)?;
-    // Row-major copy (nalgebra stores columns; the matrix is symmetric anyway).
-    let row_major: Vec<f64> = (0..p * p).map(|k| s2 * inverse[(k / p, k % p)]).collect();
-    if row_major.iter().all(|v| v.is_finite()) {
-        Ok(row_major)
+    let mut covariance = invert_symmetric(normal, p).ok_or(FitError::NotIdentifiable)?;
+    for v in &mut covariance {
+        *v *= s2;
+    }
+    if covariance.iter().all(|v| v.is_finite()) {
+        Ok(covariance)
     } else {
         Err(FitError::NotIdentifiable)
     }
 }
 
-/// Inverse of a symmetric positive-semidefinite matrix, refusing a
-/// numerically singular one. The matrix is first scaled to unit diagonal
-/// (`S^-1 M S^-1`, `S = sqrt(diag M)`), so parameters of very different sizes
-/// (a monolayer moisture of 0.07 and a heat of 9000 J/mol) do not look
-/// singular; the scaled matrix is inverted by SVD and refused when its
-/// condition number exceeds 1e12 (parameters correlated beyond 1 - 1e-12).
-fn invert_symmetric(m: DMatrix<f64>) -> Option<DMatrix<f64>> {
-    let p = m.nrows();
-    let scale: Vec<f64> = (0..p).map(|i| m[(i, i)].sqrt()).collect();
+/// Largest condition number of the scaled normal matrix accepted.
+const MAX_CONDITION: f64 = 1e12;
+
+/// Inverse of a symmetric positive-semidefinite matrix (row-major `p x p`),
+/// refusing a numerically singular one. The matrix is first scaled to unit
+/// diagonal (`S^-1 M S^-1`, `S = sqrt(diag M)`), so parameters of very
+/// different sizes (a monolayer moisture of 0.07 and a heat of 9000 J/mol)
+/// do not look singular; the scaled matrix is refused when its condition
+/// number exceeds [`MAX_CONDITION`] (parameters correlated beyond
+/// 1 - 1e-12). Up to [`symmetric::MAX_ORDER`] parameters it is inverted
+/// through its eigenvalues on the stack (module `symmetric`), beyond by SVD;
+/// both judge the condition by the same singular values.
+fn invert_symmetric(m: &[f64], p: usize) -> Option<Vec<f64>> {
+    let scale: Vec<f64> = (0..p).map(|i| m[i * p + i].sqrt()).collect();
     if scale
         .iter()
         .any(|s| s.is_nan() || *s <= 0.0 || s.is_infinite())
     {
         return None;
     }
-    let scaled = DMatrix::from_fn(p, p, |i, j| m[(i, j)] / (scale[i] * scale[j]));
-    let svd = scaled.svd(true, true);
+    let scaled: Vec<f64> = (0..p * p)
+        .map(|k| m[k] / (scale[k / p] * scale[k % p]))
+        .collect();
+    let inverse = if p <= symmetric::MAX_ORDER {
+        symmetric::invert(&scaled, p, 1.0 / MAX_CONDITION)?
+    } else {
+        invert_by_svd(&scaled, p)?
+    };
+    Some(
+        (0..p * p)
+            .map(|k| inverse[k] / (scale[k / p] * scale[k % p]))
+            .collect(),
+    )
+}
+
+/// Inverse (row-major) of a scaled symmetric matrix by SVD, refused beyond
+/// [`MAX_CONDITION`].
+fn invert_by_svd(scaled: &[f64], p: usize) -> Option<Vec<f64>> {
+    let svd = DMatrix::from_row_slice(p, p, scaled).svd(true, true);
     let largest = svd.singular_values.max();
     let smallest = svd.singular_values.min();
-    if largest.is_nan() || largest <= 0.0 || smallest <= largest * 1e-12 {
+    if largest.is_nan() || largest <= 0.0 || smallest <= largest * (1.0 / MAX_CONDITION) {
         return None;
     }
     let inverse = svd.pseudo_inverse(0.0).ok()?;
-    Some(DMatrix::from_fn(p, p, |i, j| {
-        inverse[(i, j)] / (scale[i] * scale[j])
-    }))
+    // Row-major copy (nalgebra stores columns).
+    Some((0..p * p).map(|k| inverse[(k / p, k % p)]).collect())
 }
 
-fn mean_relative_deviation(y: &[f64], residuals: &[f64]) -> Option<f64> {
+/// `P = 100/n sum |r/y|` from the sum `relative` of `|r/y|`; `None` when
+/// some `y` is zero.
+fn mean_relative_deviation(y: &[f64], relative: f64) -> Option<f64> {
     if y.contains(&0.0) {
         return None;
     }
-    let sum: f64 = y.iter().zip(residuals).map(|(v, r)| (r / v).abs()).sum();
-    Some(100.0 * sum / y.len() as f64)
+    Some(100.0 * relative / y.len() as f64)
 }
 
 fn on_bound(x: f64, (lo, hi): (f64, f64)) -> bool {
@@ -1189,6 +1216,78 @@ mod tests {
         )
         .unwrap_err();
         assert_eq!(err, FitError::ModelUndefined { point: 0 });
+    }
+
+    /// The covariance's inverse through eigenvalues on the stack (up to 8
+    /// parameters) against the SVD it replaced: the same inverse to rounding
+    /// on invented matrices with parameters of very different sizes, and the
+    /// same verdict on nearly singular ones.
+    #[test]
+    fn small_inverse_matches_svd() {
+        let mut state = 0x0bad_cafe_f00d_1234_u64;
+        let mut noise = || {
+            state ^= state << 13;
+            state ^= state >> 7;
+            state ^= state << 17;
+            (state >> 11) as f64 / (1u64 << 52) as f64 - 1.0
+        };
+        let sizes = [0.07, 9000.0, 1.0, 1e-4, 30.0, 0.5, 2e3, 1e-2];
+        for p in 1..=symmetric::MAX_ORDER {
+            for trial in 0..30 {
+                // J^T J of a random 3p x p Jacobian with columns of the sizes
+                // above; every third trial two columns nearly equal.
+                let rows = 3 * p;
+                let mut jac: Vec<f64> = (0..rows * p).map(|_| noise()).collect();
+                if trial % 3 == 2 && p >= 2 {
+                    let tiny = [1e-3, 1e-7, 1e-9][trial / 3 % 3];
+                    for r in 0..rows {
+                        jac[r * p + 1] = jac[r * p] + tiny * noise();
+                    }
+                }
+                let mut m = vec![0.0; p * p];
+                for i in 0..p {
+                    for j in 0..p {
+                        m[i * p + j] = (0..rows)
+                            .map(|r| jac[r * p + i] * sizes[i] * jac[r * p + j] * sizes[j])
+                            .sum();
+                    }
+                }
+                let scale: Vec<f64> = (0..p).map(|i| m[i * p + i].sqrt()).collect();
+                let scaled: Vec<f64> = (0..p * p)
+                    .map(|k| m[k] / (scale[k / p] * scale[k % p]))
+                    .collect();
+                let small = invert_symmetric(&m, p);
+                let svd = invert_by_svd(&scaled, p).map(|inv| {
+                    (0..p * p)
+                        .map(|k| inv[k] / (scale[k / p] * scale[k % p]))
+                        .collect::<Vec<f64>>()
+                });
+                match (small, svd) {
+                    (Some(a), Some(b)) => {
+                        for i in 0..p {
+                            for j in 0..p {
+                                let k = i * p + j;
+                                // Relative to the diagonal's size (off-diagonal
+                                // entries may cancel to near zero).
+                                let size = (b[i * p + i] * b[j * p + j]).sqrt();
+                                assert!(
+                                    (a[k] - b[k]).abs() <= 1e-6 * size,
+                                    "p={p} trial {trial} ({i},{j}): {} vs {}",
+                                    a[k],
+                                    b[k]
+                                );
+                            }
+                        }
+                    }
+                    (None, None) => {}
+                    (a, b) => panic!(
+                        "p={p} trial {trial}: verdicts differ ({:?} vs {:?})",
+                        a.is_some(),
+                        b.is_some()
+                    ),
+                }
+            }
+        }
     }
 
     #[test]

@@ -23,7 +23,7 @@
 
 mod curve;
 
-use super::fit::{self, FitOptions, FitResult};
+use super::fit::{self, batch, FitOptions, FitResult};
 use super::kinetics::{increasing_times, positive, KineticsError};
 use curve::Curve;
 
@@ -224,26 +224,64 @@ struct Linearised {
     quadratic: [f64; 2],
 }
 
-/// `ln t` is given with `t` (computed once per time axis). The lines are
+/// Only the lines `model` starts from are drawn. `ln t` is given with `t`
+/// (computed once per time axis). The lines are
 /// weighted to undo the stretching of the scatter by the transforms (the
 /// first-order variance of `ln MR` is `var(MR) / MR^2`, of `ln(-ln MR)` it is
 /// `var(MR) / (MR ln MR)^2`), so they weigh the points as the nonlinear fit
 /// will and the start lies close to its optimum.
-fn linearised(t: &[f64], ln_t: &[f64], mr: &[f64]) -> Linearised {
-    let mut exponential = Vec::with_capacity(t.len());
-    let mut power = Vec::with_capacity(t.len());
-    for ((&ti, &lti), &m) in t.iter().zip(ln_t).zip(mr) {
+fn linearised(model: ThinLayerModel, t: &[f64], ln_t: &[f64], mr: &[f64]) -> Linearised {
+    use ThinLayerModel::*;
+    // ln MR and ln(-ln MR) at every point with the vectorised ln (points
+    // outside 0 < MR < 1 give no number and are left out below).
+    let mut ln_mr = mr.to_vec();
+    batch::ln_in_place(&mut ln_mr);
+    let mut ln_minus_ln_mr: Vec<f64> = ln_mr.iter().map(|l| -l).collect();
+    batch::ln_in_place(&mut ln_minus_ln_mr);
+    let wanted = |m: &[ThinLayerModel]| m.contains(&model);
+    let capacity = |wanted: bool| if wanted { t.len() } else { 0 };
+    let exponential_wanted = wanted(&[
+        Lewis,
+        HendersonPabis,
+        Logarithmic,
+        TwoTerm,
+        TwoTermExponential,
+        Midilli,
+    ]);
+    let power_wanted = wanted(&[Page, ModifiedPage, Midilli]);
+    let mut exponential = Vec::with_capacity(capacity(exponential_wanted));
+    let mut power = Vec::with_capacity(capacity(power_wanted));
+    for (i, (&ti, &m)) in t.iter().zip(mr).enumerate() {
         if ti > 0.0 && m > 0.0 && m < 1.0 {
-            let ln_m = m.ln();
-            exponential.push((ti, ln_m, m * m));
-            power.push((lti, (-ln_m).ln(), (m * ln_m) * (m * ln_m)));
+            let ln_m = ln_mr[i];
+            if exponential_wanted {
+                exponential.push((ti, ln_m, m * m));
+            }
+            if power_wanted {
+                power.push((ln_t[i], ln_minus_ln_mr[i], (m * ln_m) * (m * ln_m)));
+            }
         }
     }
     let (slope, intercept) = line(&exponential).unwrap_or((-1.0, 0.0));
     let (n, ln_k) = line(&power).unwrap_or((1.0, 0.0));
     let k = (-slope).max(1e-3);
     let n = n.clamp(0.1, 10.0);
-    // Wang-Singh is linear in (a, b): least squares of (MR - 1) on (t, t^2).
+    let quadratic = if model == WangSingh {
+        quadratic(t, mr)
+    } else {
+        [-1.0, 0.0]
+    };
+    Linearised {
+        a: intercept.exp(),
+        k,
+        k_page: ln_k.exp().max(1e-3),
+        n,
+        quadratic,
+    }
+}
+
+/// Wang-Singh is linear in (a, b): least squares of (MR - 1) on (t, t^2).
+fn quadratic(t: &[f64], mr: &[f64]) -> [f64; 2] {
     let (s11, s12, s22, r1, r2) = t
         .iter()
         .zip(mr)
@@ -257,17 +295,10 @@ fn linearised(t: &[f64], ln_t: &[f64], mr: &[f64]) -> Linearised {
             )
         });
     let det = s11 * s22 - s12 * s12;
-    let quadratic = if det.abs() > 1e-300 {
+    if det.abs() > 1e-300 {
         [(r1 * s22 - r2 * s12) / det, (s11 * r2 - s12 * r1) / det]
     } else {
         [-1.0, 0.0]
-    };
-    Linearised {
-        a: intercept.exp(),
-        k,
-        k_page: ln_k.exp().max(1e-3),
-        n,
-        quadratic,
     }
 }
 
@@ -276,11 +307,20 @@ fn line(points: &[(f64, f64, f64)]) -> Option<(f64, f64)> {
     if points.len() < 2 {
         return None;
     }
-    let total: f64 = points.iter().map(|p| p.2).sum();
-    let mx = points.iter().map(|p| p.2 * p.0).sum::<f64>() / total;
-    let my = points.iter().map(|p| p.2 * p.1).sum::<f64>() / total;
-    let sxx: f64 = points.iter().map(|p| p.2 * (p.0 - mx).powi(2)).sum();
-    let sxy: f64 = points.iter().map(|p| p.2 * (p.0 - mx) * (p.1 - my)).sum();
+    // Sums that do not depend on each other share a pass, so their chains
+    // of additions overlap (each sum still adds in point order).
+    let (mut total, mut wx, mut wy) = (0.0, 0.0, 0.0);
+    for p in points {
+        total += p.2;
+        wx += p.2 * p.0;
+        wy += p.2 * p.1;
+    }
+    let (mx, my) = (wx / total, wy / total);
+    let (mut sxx, mut sxy) = (0.0, 0.0);
+    for p in points {
+        sxx += p.2 * (p.0 - mx).powi(2);
+        sxy += p.2 * (p.0 - mx) * (p.1 - my);
+    }
     let slope = sxy / sxx;
     (slope.is_finite() && my.is_finite()).then_some((slope, my - slope * mx))
 }
@@ -319,17 +359,19 @@ pub fn fit_thin_layer(
 ) -> Result<ThinLayerFit, KineticsError> {
     check_data(times_s, ratios)?;
     positive("time unit", time_unit_s)?;
-    let scale = times_s.iter().copied().fold(0.0, f64::max);
+    // The last reading is the latest (times checked increasing above).
+    let scale = times_s[times_s.len() - 1];
     positive("last reading time", scale)?;
     let scaled: Vec<f64> = times_s.iter().map(|t| t / scale).collect();
-    let ln_times: Vec<f64> = times_s.iter().map(|t| t.ln()).collect();
-    let ln_scaled: Vec<f64> = ln_times.iter().map(|l| l - scale.ln()).collect();
-    let guess = linearised(&scaled, &ln_scaled, ratios);
-    let on_scaled = Curve {
-        model,
-        t: &scaled,
-        ln_t: &ln_scaled,
-    };
+    // ln(t / scale) as ln t - ln scale, with the vectorised ln.
+    let mut ln_scaled = times_s.to_vec();
+    batch::ln_in_place(&mut ln_scaled);
+    let ln_scale = scale.ln();
+    for l in &mut ln_scaled {
+        *l -= ln_scale;
+    }
+    let guess = linearised(model, &scaled, &ln_scaled, ratios);
+    let on_scaled = Curve::new(model, &scaled, &ln_scaled);
     let bounds = model.bounds();
     let options = FitOptions::default();
     let mut best: Option<FitResult> = None;
@@ -349,7 +391,7 @@ pub fn fit_thin_layer(
             detail: format!("{}: {detail}", model.name()),
         });
     };
-    let result = rescaled_result(model, &scaled_fit, time_unit_s / scale);
+    let result = rescaled_result(model, scaled_fit, time_unit_s / scale);
     Ok(summary(model, time_unit_s, result))
 }
 
@@ -360,7 +402,7 @@ pub fn fit_thin_layer(
 /// functions of either set), the statistics of the residuals unchanged. The
 /// optimum in one time unit is the optimum in any other, so no second fit
 /// is needed.
-fn rescaled_result(model: ThinLayerModel, fit: &FitResult, r: f64) -> FitResult {
+fn rescaled_result(model: ThinLayerModel, fit: FitResult, r: f64) -> FitResult {
     let p = fit.params.len();
     let m = model.rescale_derivatives(&fit.params, r);
     let mut covariance = vec![0.0; p * p];
@@ -389,7 +431,7 @@ fn rescaled_result(model: ThinLayerModel, fit: &FitResult, r: f64) -> FitResult 
         std_errors,
         ci95,
         covariance,
-        ..fit.clone()
+        ..fit
     }
 }
 
