@@ -293,9 +293,10 @@ fn wet_bulb_one_step(
     if !(slope > 0.0) {
         return Err(x0);
     }
-    let step = (h1 - b) / slope;
+    let per_slope = 1.0 / slope;
+    let step = (h1 - b) * per_slope;
     let x1 = x0 + step;
-    let k = CURVATURE_SAFETY * curvature / (2.0 * slope);
+    let k = (0.5 * CURVATURE_SAFETY) * curvature * per_slope;
     let grow = 1.0 + 4.0 * k * step.abs();
     let bound = k * step * step * grow * grow + SLOPE_RELATIVE_ERROR * step.abs();
     if k * per_pressure::STEP <= 0.5 && bound <= ONE_STEP_MAX_ERROR {
@@ -337,12 +338,13 @@ fn rough_ln(x: f64) -> f64 {
 /// with L = 2.5 MJ/kg) and the demand falls by the humid heat `c`, puts the
 /// wet-bulb a fraction `c / (c + w L k)` of the way from the dew point to the
 /// dry-bulb. Within a few kelvin; the Newton solve needs two or three steps.
-fn wet_bulb_estimate_k(t: f64, w: f64, p: f64, dew: f64) -> f64 {
+fn wet_bulb_estimate_k(t: f64, w: f64, dew: f64) -> f64 {
     const LATENT: f64 = 2.5e6;
-    let pv = pv_of(w, p);
-    let k = LATENT / (thermo::R_WATER_IF97 * dew * dew) * p / (p - pv);
+    // k w = L^2 w / (R dew^2) p / (p - pv) with p / (p - pv) = (0.621945 + w) / 0.621945,
+    // the fraction written over one division.
     let humid_heat = 1006.0 + 1860.0 * w;
-    dew + (t - dew) * humid_heat / (humid_heat + w * LATENT * k)
+    let scaled_heat = humid_heat * (EPSILON * thermo::R_WATER_IF97) * dew * dew;
+    dew + (t - dew) * scaled_heat / (scaled_heat + (LATENT * LATENT) * w * (EPSILON + w))
 }
 
 impl AirState {
@@ -725,7 +727,7 @@ impl AirState {
             what: "wet-bulb temperature",
             reason: e,
         };
-        let guess = wet_bulb_estimate_k(t.min(hi), w, p, dew);
+        let guess = wet_bulb_estimate_k(t.min(hi), w, dew);
         // Over liquid water when a root at or above 0 degC exists, else over ice.
         let (lo, hi, ice) = if hi < T_ZERO_C {
             (T_MIN_SATURATION, hi, true)
