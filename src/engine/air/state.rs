@@ -290,7 +290,8 @@ fn wet_bulb_one_step(
         return Err(x0);
     };
     let (b, slope) = side.balance_enthalpy(w);
-    if !(slope > 0.0) {
+    // A slope that is not positive (or NaN) gives no step.
+    if slope.is_nan() || slope <= 0.0 {
         return Err(x0);
     }
     let per_slope = 1.0 / slope;
