@@ -478,4 +478,33 @@ mod tests {
         }
         assert!(find("no_such_builtin").is_none());
     }
+
+    #[test]
+    fn parameters_reading_only_the_payload_exist_and_take_air_records() {
+        // A misspelt entry would silently mark nothing.
+        for &(b, n) in transfer::PAYLOAD_ONLY {
+            let builtin = find(b).unwrap_or_else(|| panic!("no built-in `{b}`"));
+            let i = builtin
+                .params
+                .iter()
+                .position(|p| p.name == n)
+                .unwrap_or_else(|| panic!("`{b}` has no parameter `{n}`"));
+            assert_eq!(builtin.params[i].unit, "air", "{b}({n})");
+            assert!(builtin.reads_only_payload(i));
+        }
+        // Every transfer built-in taking an air record is in the list.
+        for b in registry().iter().filter(|b| b.family == "transfer") {
+            for (i, p) in b.params.iter().enumerate() {
+                assert_eq!(
+                    p.unit == "air",
+                    b.reads_only_payload(i),
+                    "{}({})",
+                    b.name,
+                    p.name
+                );
+            }
+        }
+        let heat = find("heat").expect("heat");
+        assert!((0..heat.params.len()).all(|i| !heat.reads_only_payload(i)));
+    }
 }

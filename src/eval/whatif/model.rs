@@ -589,4 +589,40 @@ mod tests {
             .collect();
         assert_eq!(got, want);
     }
+
+    #[test]
+    fn a_record_passed_to_a_parameter_reading_only_its_payload_wants_the_payload() {
+        // `hot` goes to the `air` parameters of h_tray_parallel and
+        // wet_surface (by name and by position), which read only its engine
+        // state, and is read by field; `cold` is also given to the `G`
+        // parameter of h_tray_impinging (its first, by position), `warm` to
+        // `heat`, neither of which is marked, so both are read whole.
+        let text = "input T = 60 degC\nhot = air(T: T, rh: 10 %)\n\
+                    h = h_tray_parallel(air: hot, velocity: 3 m/s)\n\
+                    s = wet_surface(hot, h: h)\nt = hot.wetbulb\n\
+                    cold = air(T: T, rh: 20 %)\nc = h_tray_parallel(air: cold, velocity: 2 m/s)\n\
+                    d = h_tray_impinging(cold)\nwarm = air(T: T, rh: 30 %)\n\
+                    e = heat(warm, to: 90 degC)\nf = h_tray_parallel(air: warm, velocity: 2 m/s)\n";
+        let (stmts, errors) = crate::syntax::parse(text, 0);
+        assert!(errors.is_empty(), "{errors:?}");
+        let mut sheet = Sheet::default();
+        assert!(sheet.define(&stmts, true).is_ok());
+        let dependent = dependents(&sheet.defs, &["T".to_string()]);
+        let mut got: Vec<(String, Vec<String>)> =
+            wanted_fields(&sheet.defs, &dependent, std::iter::empty())
+                .into_iter()
+                .filter(|(n, _)| ["hot", "cold", "warm"].contains(&n.as_str()))
+                .map(|(n, f)| {
+                    let mut f = f.to_vec();
+                    f.sort();
+                    (n, f)
+                })
+                .collect();
+        got.sort();
+        let want = vec![(
+            "hot".to_string(),
+            vec![PAYLOAD.to_string(), "wetbulb".to_string()],
+        )];
+        assert_eq!(got, want);
+    }
 }
