@@ -1,7 +1,9 @@
 //! Speed of what-if studies (criterion, or one timed run with `--oneshot`).
 //!
 //! The worksheet is a small tray dryer: an air state from dry-bulb and
-//! relative humidity (with its wet-bulb, enthalpy, density...), the parallel-
+//! relative humidity (shown whole with its wet-bulb, enthalpy, density...;
+//! in a study's points only its engine state is built, as the transfer
+//! built-ins it goes to read nothing else), the parallel-
 //! flow film coefficient, the wet-surface balance (Chilton-Colburn, solved for
 //! the surface temperature) giving the constant drying rate, and the duration
 //! of the constant-rate period.

@@ -5,7 +5,8 @@ run with --oneshot), and the same sweep written as a Python loop over CoolProp
 and scipy, the anchor a user would otherwise pick.
 
 The Python loop mirrors the worksheet step by step: the humid-air state
-(HAPropsSI: humidity ratio, wet-bulb, enthalpy, density, humid heat), the
+(HAPropsSI: humidity ratio and density; siccant's study points build no
+record field of it, only the state the transfer built-ins read), the
 parallel-flow tray coefficient h = 0.0204 G^0.8, the wet-surface balance
 h (T - Ts) = k_Y (w_s(Ts) - w) lambda(Ts) with k_Y from Chilton-Colburn at the
 film temperature (Pr from CoolProp, Sc with the Fuller diffusivity), solved
@@ -52,8 +53,6 @@ def tray_point(t_c, rh, ha, props, brentq):
     """Constant-rate time (s) of one point, mirroring benches/whatif.rs."""
     t = t_c + 273.15
     w = ha("W", "T", t, "P", P, "R", rh)
-    ha("B", "T", t, "P", P, "R", rh)  # wet-bulb, as the air state computes it
-    ha("H", "T", t, "P", P, "R", rh)
     rho = 1.0 / ha("Vha", "T", t, "P", P, "W", w)
     g = rho * V_AIR * 3600.0  # kg/(m^2 h)
     h = 0.0204 * g ** 0.8  # W/(m^2 K)

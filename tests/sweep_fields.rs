@@ -163,3 +163,136 @@ fn a_missing_dew_point_warns_whether_read_or_not() {
     );
     assert!(errors[1].is_empty(), "{errors:?}");
 }
+
+/// The tray dryer of benches/whatif.rs: the air state `hot` goes whole to
+/// `h_tray_parallel` and `wet_surface`, which read only its engine state.
+const TRAY: &str = "
+input T_air = 70 degC
+input rh_air = 4 %
+hot = air(T: T_air, rh: rh_air)
+h = h_tray_parallel(air: hot, velocity: 3 m/s)
+surface = wet_surface(hot, h: h)
+t_constant = constant_rate_time(load: 20 kg/m^2, X1: 1.6 db, X2: 0.5 db, Rc: surface.Rc)
+";
+
+/// Points inside and outside the tray correlation's range, bone-dry air (no
+/// dew point: a warning) and states that cannot exist (failed points).
+const TRAY_POINTS: &str = "T_air: [20 degC, 70 degC, 150 degC, 300 degC], rh_air: [0 %, 4 %, 60 %]";
+
+/// Each probe's values, the table's text (but for `skip`), the warnings.
+fn study_of(
+    text: &str,
+    probes: &[&str],
+    skip: &str,
+) -> (Vec<Vec<Value>>, Vec<String>, Vec<String>) {
+    let mut s = Session::new();
+    let out = s.eval(text).expect("the worksheet runs");
+    let warnings = out.warnings.iter().map(|w| w.message.clone()).collect();
+    let sweep = record(&s, "s");
+    let values = probes.iter().map(|p| list(sweep.get(p))).collect();
+    let Some(Value::Table(table)) = sweep.get("table") else {
+        panic!("no table")
+    };
+    let cells = table
+        .columns
+        .iter()
+        .filter(|c| c.name != skip)
+        .flat_map(|c| {
+            std::iter::once(c.name.to_string()).chain(c.cells.iter().map(siccant::render::text))
+        })
+        .collect();
+    (values, cells, warnings)
+}
+
+#[test]
+fn a_record_passed_to_transfer_built_ins_gives_the_results_of_the_whole_record() {
+    // `hot` reaches h_tray_parallel and wet_surface as its engine state alone,
+    // so its air() call builds no field; listing `hot` among the probes reads
+    // it whole, the slow path: every value identical to the last bit, and the
+    // same table, failures and warnings.
+    let probes = ["h", "surface.Ts", "surface.Rc", "t_constant"];
+    let fast = study_of(
+        &format!("{TRAY}\ns = sweep([{}], {TRAY_POINTS})", probes.join(", ")),
+        &probes,
+        "hot",
+    );
+    let whole = study_of(
+        &format!(
+            "{TRAY}\ns = sweep([{}, hot], {TRAY_POINTS})",
+            probes.join(", ")
+        ),
+        &probes,
+        "hot",
+    );
+    let bits = |v: &[Vec<Value>]| -> Vec<Vec<Option<u64>>> {
+        v.iter()
+            .map(|l| {
+                l.iter()
+                    .map(|x| match x {
+                        Value::Quantity(q, _) => Some(q.si.to_bits()),
+                        _ => None,
+                    })
+                    .collect()
+            })
+            .collect()
+    };
+    assert_eq!(fast.0.len(), 4);
+    assert_eq!(fast.0[0].len(), 12);
+    // Some points fail, the others give numbers.
+    assert!(bits(&fast.0)[0].iter().any(Option::is_some));
+    assert!(bits(&fast.0)[0].iter().any(Option::is_none));
+    assert_eq!(bits(&fast.0), bits(&whole.0));
+    assert_eq!(fast.1, whole.1);
+    assert_eq!(fast.2, whole.2);
+    // The edges stay visible: bone-dry air has no dew point, with its warning.
+    assert!(
+        fast.2
+            .iter()
+            .any(|w| w.starts_with("at 4 of 12 points: no dew point field")),
+        "{:?}",
+        fast.2
+    );
+    // And each point equals the worksheet evaluated there on its own.
+    for (row, (t, rh)) in [("70 degC", "4 %"), ("150 degC", "0 %")].iter().enumerate() {
+        let single = run(&TRAY
+            .replace("input T_air = 70 degC", &format!("input T_air = {t}"))
+            .replace("input rh_air = 4 %", &format!("input rh_air = {rh}")));
+        let k = if row == 0 { 4 } else { 6 };
+        assert_eq!(
+            si(Some(&fast.0[3][k])).to_bits(),
+            si(single.value("t_constant")).to_bits(),
+            "{t}, {rh}"
+        );
+    }
+}
+
+#[test]
+fn a_record_passed_to_a_parameter_reading_its_fields_stays_whole() {
+    // equilibrium_moisture reads the T and rh fields of its `air` argument:
+    // that parameter is not marked, so `hot` keeps every field even though
+    // h_tray_parallel, which is, reads it too.
+    let sheet = format!(
+        "{TRAY}\niso = gab(Xm: 0.08 db, C: 12, K: 0.85, T: 40 degC)\nX = equilibrium_moisture(iso, air: hot)\n"
+    );
+    let s = run(&format!(
+        "{sheet}s = sweep([X, h], T_air: [40 degC, 70 degC], rh_air: [4 %, 30 %])"
+    ));
+    let sweep = record(&s, "s");
+    let x = list(sweep.get("X"));
+    let h = list(sweep.get("h"));
+    let mut row = 0;
+    for t in ["40 degC", "70 degC"] {
+        for rh in ["4 %", "30 %"] {
+            let single = run(&sheet
+                .replace("input T_air = 70 degC", &format!("input T_air = {t}"))
+                .replace("input rh_air = 4 %", &format!("input rh_air = {rh}")));
+            assert_eq!(
+                si(Some(&x[row])).to_bits(),
+                si(single.value("X")).to_bits(),
+                "{t}, {rh}"
+            );
+            assert_eq!(si(Some(&h[row])).to_bits(), si(single.value("h")).to_bits());
+            row += 1;
+        }
+    }
+}

@@ -774,10 +774,12 @@ pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
             }
         }
     }
-    // A caller that named the fields it reads reads nothing else: no payload.
-    let payload: Option<Arc<dyn Payload>> = match args.wanted {
-        None => Some(Arc::new(AirPayload(*s))),
-        Some(_) => None,
+    // A caller that named what it reads reads nothing else: the payload only
+    // when it passes the record to a parameter reading only that.
+    let payload: Option<Arc<dyn Payload>> = if args.wants_payload() {
+        Some(Arc::new(AirPayload(*s)))
+    } else {
+        None
     };
     Ok(Record {
         type_name: FieldName::Borrowed("air"),

@@ -32,6 +32,11 @@ pub struct Param {
     pub doc: &'static str,
 }
 
+/// The entry of [`Args::wanted`] that asks for a record's payload: not a
+/// field name (it cannot be written as one), so a built-in looking fields up
+/// by name never finds it.
+pub const PAYLOAD: &str = "#payload";
+
 /// A parameter with an optional default (for the `params` lists of family files).
 pub const fn p(
     name: &'static str,
@@ -84,6 +89,25 @@ pub struct Builtin {
     pub func: fn(&mut Args) -> Result<Value, Diagnostic>,
 }
 
+impl Builtin {
+    /// Does parameter `index` read nothing of a record given to it but its
+    /// engine state (the payload, e.g. the `AirState` of an `air` record): no
+    /// field, and the record neither kept nor returned? Declared per
+    /// parameter by the family files ([`transfer::PAYLOAD_ONLY`]) after
+    /// checking every use of the argument. A what-if study's field analysis
+    /// then counts passing a record there as reading no field but needing
+    /// the payload ([`PAYLOAD`]).
+    pub fn reads_only_payload(&self, index: usize) -> bool {
+        const FAMILIES: &[&[(&str, &str)]] = &[transfer::PAYLOAD_ONLY];
+        self.params.get(index).is_some_and(|p| {
+            FAMILIES
+                .iter()
+                .flat_map(|f| f.iter())
+                .any(|&(b, n)| b == self.name && n == p.name)
+        })
+    }
+}
+
 /// One argument as written at the call site.
 #[derive(Clone, Debug)]
 pub struct Arg {
@@ -109,7 +133,9 @@ pub struct Args {
     pub dir: Option<std::sync::Arc<std::path::Path>>,
     /// The fields of the resulting record that the caller will read, when it
     /// knows them all (a what-if study's points); `None`: every field. A
-    /// built-in may leave out the fields not named here (see [`Args::wants`]).
+    /// built-in may leave out the fields not named here (see [`Args::wants`]),
+    /// and its payload unless [`PAYLOAD`] is among them (the record goes to a
+    /// parameter that reads only the payload: [`Builtin::reads_only_payload`]).
     pub wanted: Option<std::sync::Arc<[String]>>,
 }
 
@@ -201,6 +227,15 @@ impl Args {
         self.wanted
             .as_ref()
             .is_none_or(|w| w.iter().any(|f| f == name))
+    }
+
+    /// Will the caller read the payload of the record this call returns
+    /// (through a parameter that reads only that:
+    /// [`Builtin::reads_only_payload`])? True unless the caller
+    /// named what it reads and [`PAYLOAD`] is not among it.
+    #[inline]
+    pub fn wants_payload(&self) -> bool {
+        self.wants(PAYLOAD)
     }
 
     fn index(&self, name: &str) -> usize {
@@ -442,5 +477,34 @@ mod tests {
             assert!(find(b.name).is_some_and(|f| std::ptr::eq(f, *b)));
         }
         assert!(find("no_such_builtin").is_none());
+    }
+
+    #[test]
+    fn parameters_reading_only_the_payload_exist_and_take_air_records() {
+        // A misspelt entry would silently mark nothing.
+        for &(b, n) in transfer::PAYLOAD_ONLY {
+            let builtin = find(b).unwrap_or_else(|| panic!("no built-in `{b}`"));
+            let i = builtin
+                .params
+                .iter()
+                .position(|p| p.name == n)
+                .unwrap_or_else(|| panic!("`{b}` has no parameter `{n}`"));
+            assert_eq!(builtin.params[i].unit, "air", "{b}({n})");
+            assert!(builtin.reads_only_payload(i));
+        }
+        // Every transfer built-in taking an air record is in the list.
+        for b in registry().iter().filter(|b| b.family == "transfer") {
+            for (i, p) in b.params.iter().enumerate() {
+                assert_eq!(
+                    p.unit == "air",
+                    b.reads_only_payload(i),
+                    "{}({})",
+                    b.name,
+                    p.name
+                );
+            }
+        }
+        let heat = find("heat").expect("heat");
+        assert!((0..heat.params.len()).all(|i| !heat.reads_only_payload(i)));
     }
 }

@@ -317,6 +317,35 @@ pub const BUILTINS: &[Builtin] = &[
 // Argument helpers
 // ---------------------------------------------------------------------------
 
+/// The parameters that read nothing of the record given to them but its
+/// engine state ([`crate::library::Builtin::reads_only_payload`]), as
+/// (built-in, parameter). Each built-in here reads its `air` argument only
+/// through [`air_arg`] (directly, or by `opt_air`, `tray_inputs`, `body_flow`,
+/// `slot_flow`, `colburn_inputs`): the `AirState` payload (its `T`, `w` and
+/// `p` fields only for a record without one, which a record made for such a
+/// parameter never is), and otherwise only whether and where the argument
+/// was given; none keeps the record or returns it.
+pub const PAYLOAD_ONLY: &[(&str, &str)] = &[
+    ("mass_velocity", "air"),
+    ("air_velocity", "air"),
+    ("h_tray_parallel", "air"),
+    ("h_tray_impinging", "air"),
+    ("h_flat_plate", "air"),
+    ("h_sphere", "air"),
+    ("h_cylinder", "air"),
+    ("h_packed_bed", "air"),
+    ("h_jet_round", "air"),
+    ("h_jet_round_array", "air"),
+    ("h_jet_slot", "air"),
+    ("h_jet_slot_array", "air"),
+    ("reynolds", "air"),
+    ("nusselt", "air"),
+    ("sherwood", "air"),
+    ("colburn_kc", "air"),
+    ("colburn_ky", "air"),
+    ("wet_surface", "air"),
+];
+
 /// The humid-air state in an `air` record: its typed payload, else its
 /// `T`, `w` and `p` fields.
 fn air_arg(args: &mut Args, name: &str) -> Result<AirState, Diagnostic> {

@@ -16,6 +16,7 @@ use rayon::prelude::*;
 use super::progress::{self, Progress};
 use crate::diag::{Diagnostic, Span};
 use crate::eval::{graph, Ctx, DefKind, FastMap, Flow, Limits, Mode, Sheet, Sources};
+use crate::library::PAYLOAD;
 use crate::syntax::{Expr, ExprKind, StmtKind};
 use crate::units::{Quantity, Unit};
 use crate::value::Value;
@@ -363,8 +364,11 @@ fn dependents(defs: &FastMap<String, crate::eval::Def>, names: &[String]) -> Has
 /// The values recomputed at each point that are built-in calls whose records
 /// are only ever read field by field (`a.wetbulb`), in the worksheet's
 /// definitions, `probes` and rules, with the fields read: the built-in need
-/// compute no other field. A value read whole anywhere (shown, passed to a
-/// function, listed) is left out.
+/// compute no other field. A value passed by name to a built-in parameter
+/// that reads only the payload ([`crate::library::Builtin::reads_only_payload`])
+/// reads no field there but needs the payload ([`PAYLOAD`] among its fields).
+/// A value read whole anywhere else (shown, passed to a function or to
+/// another parameter, listed) is left out.
 fn wanted_fields<'e>(
     defs: &'e FastMap<String, crate::eval::Def>,
     dependent: &HashSet<String>,
@@ -403,7 +407,35 @@ fn wanted_fields<'e>(
                 if let Some(r) = reads.get_mut(callee.name.as_str()) {
                     *r = None;
                 }
-                stack.extend(args.iter().map(|a| &a.value));
+                let builtin = builtin_called(defs, &callee.name);
+                let mut positional = 0;
+                for a in args {
+                    // The parameter the argument binds to, as `Args` binds.
+                    let slot = match &a.name {
+                        Some(n) => {
+                            builtin.and_then(|b| b.params.iter().position(|p| p.name == n.name))
+                        }
+                        None => {
+                            positional += 1;
+                            Some(positional - 1)
+                        }
+                    };
+                    let payload_only = builtin
+                        .zip(slot)
+                        .is_some_and(|(b, i)| b.reads_only_payload(i));
+                    // A record passed to a parameter that reads only its
+                    // payload: no field read, but the payload needed.
+                    match &a.value.kind {
+                        ExprKind::Name(n) if payload_only => {
+                            if let Some(Some(fields)) = reads.get_mut(n.as_str()) {
+                                if !fields.contains(&PAYLOAD) {
+                                    fields.push(PAYLOAD);
+                                }
+                            }
+                        }
+                        _ => stack.push(&a.value),
+                    }
+                }
             }
             ExprKind::Quantity { .. } | ExprKind::Bool(_) | ExprKind::Str(_) => {}
             ExprKind::List(items) => stack.extend(items),
@@ -422,18 +454,27 @@ fn wanted_fields<'e>(
         .collect()
 }
 
+/// The built-in a call of `name` runs, if it runs one (not a user function,
+/// a load or a what-if form), as the evaluator resolves calls.
+fn builtin_called(
+    defs: &FastMap<String, crate::eval::Def>,
+    name: &str,
+) -> Option<&'static crate::library::Builtin> {
+    if name == "load"
+        || FORMS.contains(&name)
+        || defs.get(name).is_some_and(|f| f.kind == DefKind::Function)
+    {
+        return None;
+    }
+    crate::library::find(name)
+}
+
 /// Is `d` a value defined by a call of a built-in (not a user function, a
 /// load or a what-if form)?
 fn is_builtin_call(defs: &FastMap<String, crate::eval::Def>, d: &crate::eval::Def) -> bool {
     match &d.expr.kind {
         ExprKind::Call { callee, .. } => {
-            d.kind == DefKind::Value
-                && callee.name != "load"
-                && defs
-                    .get(&callee.name)
-                    .is_none_or(|f| f.kind != DefKind::Function)
-                && !FORMS.contains(&callee.name.as_str())
-                && crate::library::find(&callee.name).is_some()
+            d.kind == DefKind::Value && builtin_called(defs, &callee.name).is_some()
         }
         _ => false,
     }
@@ -546,6 +587,42 @@ mod tests {
             .iter()
             .map(|(n, f)| (n.to_string(), f.iter().map(|s| s.to_string()).collect()))
             .collect();
+        assert_eq!(got, want);
+    }
+
+    #[test]
+    fn a_record_passed_to_a_parameter_reading_only_its_payload_wants_the_payload() {
+        // `hot` goes to the `air` parameters of h_tray_parallel and
+        // wet_surface (by name and by position), which read only its engine
+        // state, and is read by field; `cold` is also given to the `G`
+        // parameter of h_tray_impinging (its first, by position), `warm` to
+        // `heat`, neither of which is marked, so both are read whole.
+        let text = "input T = 60 degC\nhot = air(T: T, rh: 10 %)\n\
+                    h = h_tray_parallel(air: hot, velocity: 3 m/s)\n\
+                    s = wet_surface(hot, h: h)\nt = hot.wetbulb\n\
+                    cold = air(T: T, rh: 20 %)\nc = h_tray_parallel(air: cold, velocity: 2 m/s)\n\
+                    d = h_tray_impinging(cold)\nwarm = air(T: T, rh: 30 %)\n\
+                    e = heat(warm, to: 90 degC)\nf = h_tray_parallel(air: warm, velocity: 2 m/s)\n";
+        let (stmts, errors) = crate::syntax::parse(text, 0);
+        assert!(errors.is_empty(), "{errors:?}");
+        let mut sheet = Sheet::default();
+        assert!(sheet.define(&stmts, true).is_ok());
+        let dependent = dependents(&sheet.defs, &["T".to_string()]);
+        let mut got: Vec<(String, Vec<String>)> =
+            wanted_fields(&sheet.defs, &dependent, std::iter::empty())
+                .into_iter()
+                .filter(|(n, _)| ["hot", "cold", "warm"].contains(&n.as_str()))
+                .map(|(n, f)| {
+                    let mut f = f.to_vec();
+                    f.sort();
+                    (n, f)
+                })
+                .collect();
+        got.sort();
+        let want = vec![(
+            "hot".to_string(),
+            vec![PAYLOAD.to_string(), "wetbulb".to_string()],
+        )];
         assert_eq!(got, want);
     }
 }
