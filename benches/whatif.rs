@@ -36,9 +36,11 @@ surface = wet_surface(hot, h: h)
 t_constant = constant_rate_time(load: 20 kg/m^2, X1: 1.6 db, X2: 0.5 db, Rc: surface.Rc)
 ";
 
-/// Full humid-air states (each with its transport properties) one point of
-/// the sheet builds: the worksheet's `air(T, rh)` state and one
-/// `AirState::from_w` per film-temperature pass of the wet-surface solve.
+/// Full humid-air states one point of the sheet builds: the worksheet's
+/// `air(T, rh)` engine state (an `AirState`: humidity ratio and saturation
+/// pressure solved from T and rh; in a study's points its record fields are
+/// not built, as nothing reads them) and, per film-temperature pass of the
+/// wet-surface solve, one `AirState::from_w` with its transport properties.
 /// Counted with `valgrind --tool=callgrind` on a 2,500-point sweep of this
 /// sheet on one thread (`steps(40.2 degC, 120 degC, 0.8 K)` x
 /// `steps(1 %, 25.9 %, 1 %)`): 4,916 film passes (`film_colburn_factor`, each
