@@ -337,37 +337,51 @@ pub fn saturated_vapour_pressure_and_slope(t: f64, p: f64) -> (f64, f64) {
     }
 }
 
+/// Wagner & Pruss (1993) auxiliary eq. 2.6, saturated liquid density:
+/// `rho'/rho_c = 1 + sum b_i tau^(e_i/3)`, `tau = 1 - T/T_c`; the
+/// coefficients b_i and the integer exponents e_i of `tau^(1/3)`.
+pub(crate) const WP_LIQUID_B: [f64; 6] = [
+    1.992_740_64,
+    1.099_653_42,
+    -0.510_839_303,
+    -1.754_934_79,
+    -45.517_035_2,
+    -6.746_944_50e5,
+];
+pub(crate) const WP_LIQUID_E: [i32; 6] = [1, 2, 5, 16, 43, 110];
+
+/// Wagner & Pruss (1993) auxiliary eq. 2.7, saturated vapour density:
+/// `ln(rho''/rho_c) = sum c_i tau^(e_i/6)`; the coefficients c_i and the
+/// integer exponents e_i of `tau^(1/6)`.
+pub(crate) const WP_VAPOUR_C: [f64; 6] = [
+    -2.031_502_40,
+    -2.683_029_40,
+    -5.386_264_92,
+    -17.299_160_5,
+    -44.758_658_1,
+    -63.920_106_3,
+];
+pub(crate) const WP_VAPOUR_E: [i32; 6] = [2, 4, 8, 18, 37, 71];
+
 /// Saturated liquid density, kg/m^3, Wagner & Pruss (1993) auxiliary eq. 2.6, T in K.
 pub fn saturated_liquid_density(t: f64) -> f64 {
-    const B: [f64; 6] = [
-        1.992_740_64,
-        1.099_653_42,
-        -0.510_839_303,
-        -1.754_934_79,
-        -45.517_035_2,
-        -6.746_944_50e5,
-    ];
-    // Exponents 1/3, 2/3, 5/3, 16/3, 43/3, 110/3: integer powers of tau^(1/3).
-    const E: [i32; 6] = [1, 2, 5, 16, 43, 110];
     let root = (1.0 - t / T_CRITICAL).max(0.0).cbrt();
-    let sum: f64 = B.iter().zip(E).map(|(b, e)| b * root.powi(e)).sum();
+    let sum: f64 = WP_LIQUID_B
+        .iter()
+        .zip(WP_LIQUID_E)
+        .map(|(b, e)| b * root.powi(e))
+        .sum();
     RHO_CRITICAL * (1.0 + sum)
 }
 
 /// Saturated vapour density, kg/m^3, Wagner & Pruss (1993) auxiliary eq. 2.7, T in K.
 pub fn saturated_vapour_density(t: f64) -> f64 {
-    const C: [f64; 6] = [
-        -2.031_502_40,
-        -2.683_029_40,
-        -5.386_264_92,
-        -17.299_160_5,
-        -44.758_658_1,
-        -63.920_106_3,
-    ];
-    // Exponents 2/6, 4/6, 8/6, 18/6, 37/6, 71/6: integer powers of tau^(1/6).
-    const E: [i32; 6] = [2, 4, 8, 18, 37, 71];
     let root = (1.0 - t / T_CRITICAL).max(0.0).sqrt().cbrt();
-    let sum: f64 = C.iter().zip(E).map(|(c, e)| c * root.powi(e)).sum();
+    let sum: f64 = WP_VAPOUR_C
+        .iter()
+        .zip(WP_VAPOUR_E)
+        .map(|(c, e)| c * root.powi(e))
+        .sum();
     RHO_CRITICAL * sum.exp()
 }
 

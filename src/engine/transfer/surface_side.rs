@@ -20,7 +20,7 @@
 
 use crate::engine::air::saturation::{
     ln_water, ln_water_slope, saturated_vapour_pressure_and_slope, RHO_CRITICAL, T_CRITICAL,
-    T_MIN_SATURATION,
+    T_MIN_SATURATION, WP_LIQUID_B, WP_LIQUID_E, WP_VAPOUR_C, WP_VAPOUR_E,
 };
 use crate::engine::air::thermo::EPSILON;
 
@@ -73,14 +73,7 @@ fn density_roots(t: f64) -> (f64, f64) {
 /// `r = tau^(1/3)`: Wagner & Pruss (1993) auxiliary eq. 2.6,
 /// `rho'/rho_c = 1 + sum b_i tau^(e_i/3)`, `tau = 1 - T/T_c`.
 fn liquid_density_and_slope(r: f64) -> (f64, f64) {
-    const B: [f64; 6] = [
-        1.992_740_64,
-        1.099_653_42,
-        -0.510_839_303,
-        -1.754_934_79,
-        -45.517_035_2,
-        -6.746_944_50e5,
-    ];
+    const B: [f64; 6] = WP_LIQUID_B;
     // Exponents 1/3, 2/3, 5/3, 16/3, 43/3, 110/3: powers 1, 2, 5, 16, 43,
     // 110 of r = tau^(1/3), by repeated squaring shared between them.
     let r2 = r * r;
@@ -98,9 +91,9 @@ fn liquid_density_and_slope(r: f64) -> (f64, f64) {
         B[4] * r43,
         B[5] * r110,
     ];
-    const E: [f64; 6] = [1.0, 2.0, 5.0, 16.0, 43.0, 110.0];
+    let e = WP_LIQUID_E.map(f64::from);
     let sum: f64 = terms.iter().sum();
-    let dsum_dr: f64 = terms.iter().zip(E).map(|(x, e)| e * x).sum::<f64>() / r;
+    let dsum_dr: f64 = terms.iter().zip(e).map(|(x, e)| e * x).sum::<f64>() / r;
     // dr/dT = -1 / (3 T_c r^2).
     let dr_dt = -1.0 / (3.0 * T_CRITICAL * r2);
     (RHO_CRITICAL * (1.0 + sum), RHO_CRITICAL * dsum_dr * dr_dt)
@@ -110,14 +103,7 @@ fn liquid_density_and_slope(r: f64) -> (f64, f64) {
 /// `q = tau^(1/6)`: Wagner & Pruss (1993) auxiliary eq. 2.7,
 /// `ln(rho''/rho_c) = sum c_i tau^(e_i/6)`.
 fn vapour_density_and_slope(q: f64) -> (f64, f64) {
-    const C: [f64; 6] = [
-        -2.031_502_40,
-        -2.683_029_40,
-        -5.386_264_92,
-        -17.299_160_5,
-        -44.758_658_1,
-        -63.920_106_3,
-    ];
+    const C: [f64; 6] = WP_VAPOUR_C;
     // Exponents 2/6, 4/6, 8/6, 18/6, 37/6, 71/6: powers 2, 4, 8, 18, 37, 71
     // of q = tau^(1/6), by repeated squaring shared between them.
     let q2 = q * q;
@@ -136,9 +122,9 @@ fn vapour_density_and_slope(q: f64) -> (f64, f64) {
         C[4] * q37,
         C[5] * q71,
     ];
-    const E: [f64; 6] = [2.0, 4.0, 8.0, 18.0, 37.0, 71.0];
+    let e = WP_VAPOUR_E.map(f64::from);
     let sum: f64 = terms.iter().sum();
-    let dsum_dq: f64 = terms.iter().zip(E).map(|(x, e)| e * x).sum::<f64>() / q;
+    let dsum_dq: f64 = terms.iter().zip(e).map(|(x, e)| e * x).sum::<f64>() / q;
     // dq/dT = -1 / (6 T_c q^5).
     let dq_dt = -1.0 / (6.0 * T_CRITICAL * q4 * q);
     let rho = RHO_CRITICAL * sum.exp();
