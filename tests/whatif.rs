@@ -7,30 +7,10 @@ use std::sync::atomic::Ordering;
 use std::time::Duration;
 
 use siccant::session::Session;
-use siccant::value::{Record, Value};
+use siccant::value::Value;
 
-fn run(text: &str) -> Session {
-    let mut s = Session::new();
-    if let Err(d) = s.eval(text) {
-        let shown: String = d.iter().map(|d| s.render_diagnostic(d, false)).collect();
-        panic!("{shown}");
-    }
-    s
-}
-
-fn record(s: &Session, name: &str) -> Record {
-    match s.value(name) {
-        Some(Value::Record(r)) => r.clone(),
-        other => panic!("`{name}` is not a record: {other:?}"),
-    }
-}
-
-fn si(v: Option<&Value>) -> f64 {
-    match v {
-        Some(Value::Quantity(q, _)) => q.si,
-        other => panic!("not a quantity: {other:?}"),
-    }
-}
+mod common;
+use common::{record, run, si};
 
 fn list_si(v: Option<&Value>) -> Vec<f64> {
     match v {
