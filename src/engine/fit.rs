@@ -481,8 +481,10 @@ fn check_inputs(
             params: start.len(),
         });
     }
-    for (point, &value) in y.iter().enumerate() {
-        if !value.is_finite() {
+    // All finite is checked without stopping early (a loop the compiler
+    // can widen); the first bad point is looked for only when one is bad.
+    if !all_finite(y) {
+        if let Some((point, &value)) = y.iter().enumerate().find(|(_, v)| !v.is_finite()) {
             return Err(FitError::BadData {
                 what: "y",
                 point,
@@ -504,6 +506,11 @@ fn check_inputs(
         }
     }
     weights(y.len(), options)
+}
+
+/// Whether every value is finite, in one pass without an early exit.
+pub(crate) fn all_finite(values: &[f64]) -> bool {
+    values.iter().fold(true, |ok, v| ok & v.is_finite())
 }
 
 fn weights(n: usize, options: &FitOptions) -> Result<Vec<f64>, FitError> {
@@ -833,9 +840,6 @@ fn statistics(
 ) -> Result<FitResult, FitError> {
     let n = y.len();
     let p = params.len();
-    if let Some(point) = fitted.iter().position(|f| !f.is_finite()) {
-        return Err(FitError::ModelUndefined { point });
-    }
     let residuals: Vec<f64> = y.iter().zip(&fitted).map(|(o, f)| o - f).collect();
     // Sums that do not depend on each other share a pass, so their chains
     // of additions overlap (each sum still adds in point order).
@@ -845,6 +849,13 @@ fn statistics(
         chi2 += (r * w) * (r * w);
         y_total += v;
         relative += (r / v).abs();
+    }
+    // The data are finite (checked on entry), so a value that is not makes
+    // the sum of squares not finite: only then is the point looked for.
+    if !sse.is_finite() {
+        if let Some(point) = fitted.iter().position(|f| !f.is_finite()) {
+            return Err(FitError::ModelUndefined { point });
+        }
     }
     let dof = n - p;
     let reduced_chi_square = chi2 / dof as f64;
@@ -1160,6 +1171,31 @@ mod tests {
         let s2 = fit.sse / (n - 2.0);
         let se_slope = (s2 / (sxx - sx * sx / n)).sqrt();
         assert!((fit.std_errors[1] - se_slope).abs() < 1e-7 * se_slope);
+    }
+
+    /// The one-pass finiteness test finds a bad reading wherever it is, and
+    /// the error names the first one (as the scan it replaces did).
+    #[test]
+    fn first_non_finite_reading_is_named() {
+        assert!(all_finite(&[1.0, -2.0, 0.0]) && all_finite(&[]));
+        for (y, point) in [
+            (vec![1.0, 2.0, 3.0, f64::NAN], 3),
+            (vec![f64::INFINITY, 2.0, f64::NAN, 4.0], 0),
+            (vec![1.0, f64::NEG_INFINITY, 3.0, f64::NAN], 1),
+        ] {
+            let err = least_squares(
+                &|p, x| p[0] + p[1] * x,
+                &[1.0, 2.0, 3.0, 4.0],
+                &y,
+                &[0.0, 1.0],
+                &unbounded(2),
+            )
+            .unwrap_err();
+            assert!(
+                matches!(err, FitError::BadData { what: "y", point: p, .. } if p == point),
+                "{err:?}"
+            );
+        }
     }
 
     #[test]

@@ -249,8 +249,8 @@ fn linearised(model: ThinLayerModel, t: &[f64], ln_t: &[f64], mr: &[f64]) -> Lin
         Midilli,
     ]);
     let power_wanted = wanted(&[Page, ModifiedPage, Midilli]);
-    let mut exponential = Vec::with_capacity(capacity(exponential_wanted));
-    let mut power = Vec::with_capacity(capacity(power_wanted));
+    let mut exponential = Line::with_capacity(capacity(exponential_wanted));
+    let mut power = Line::with_capacity(capacity(power_wanted));
     for (i, (&ti, &m)) in t.iter().zip(mr).enumerate() {
         if ti > 0.0 && m > 0.0 && m < 1.0 {
             let ln_m = ln_mr[i];
@@ -262,8 +262,8 @@ fn linearised(model: ThinLayerModel, t: &[f64], ln_t: &[f64], mr: &[f64]) -> Lin
             }
         }
     }
-    let (slope, intercept) = line(&exponential).unwrap_or((-1.0, 0.0));
-    let (n, ln_k) = line(&power).unwrap_or((1.0, 0.0));
+    let (slope, intercept) = exponential.fit().unwrap_or((-1.0, 0.0));
+    let (n, ln_k) = power.fit().unwrap_or((1.0, 0.0));
     let k = (-slope).max(1e-3);
     let n = n.clamp(0.1, 10.0);
     let quadratic = if model == WangSingh {
@@ -302,27 +302,51 @@ fn quadratic(t: &[f64], mr: &[f64]) -> [f64; 2] {
     }
 }
 
-/// Weighted least-squares line through `(x, y, weight)` points: `(slope, intercept)`.
-fn line(points: &[(f64, f64, f64)]) -> Option<(f64, f64)> {
-    if points.len() < 2 {
-        return None;
+/// Weighted least-squares line through `(x, y, weight)` points, gathered
+/// one by one: the weight and the weighted sums of `x` and `y` are added as
+/// each point comes (in point order, as a first pass over the gathered
+/// points would add them), so [`Line::fit`] makes one pass more only.
+struct Line {
+    points: Vec<(f64, f64, f64)>,
+    total: f64,
+    wx: f64,
+    wy: f64,
+}
+
+impl Line {
+    fn with_capacity(capacity: usize) -> Line {
+        Line {
+            points: Vec::with_capacity(capacity),
+            total: 0.0,
+            wx: 0.0,
+            wy: 0.0,
+        }
     }
-    // Sums that do not depend on each other share a pass, so their chains
-    // of additions overlap (each sum still adds in point order).
-    let (mut total, mut wx, mut wy) = (0.0, 0.0, 0.0);
-    for p in points {
-        total += p.2;
-        wx += p.2 * p.0;
-        wy += p.2 * p.1;
+
+    #[inline(always)]
+    fn push(&mut self, p: (f64, f64, f64)) {
+        self.total += p.2;
+        self.wx += p.2 * p.0;
+        self.wy += p.2 * p.1;
+        self.points.push(p);
     }
-    let (mx, my) = (wx / total, wy / total);
-    let (mut sxx, mut sxy) = (0.0, 0.0);
-    for p in points {
-        sxx += p.2 * (p.0 - mx).powi(2);
-        sxy += p.2 * (p.0 - mx) * (p.1 - my);
+
+    /// `(slope, intercept)`; `None` for fewer than two points or no line.
+    fn fit(&self) -> Option<(f64, f64)> {
+        if self.points.len() < 2 {
+            return None;
+        }
+        let (mx, my) = (self.wx / self.total, self.wy / self.total);
+        // The two sums share a pass, so their chains of additions overlap
+        // (each still adds in point order).
+        let (mut sxx, mut sxy) = (0.0, 0.0);
+        for p in &self.points {
+            sxx += p.2 * (p.0 - mx).powi(2);
+            sxy += p.2 * (p.0 - mx) * (p.1 - my);
+        }
+        let slope = sxy / sxx;
+        (slope.is_finite() && my.is_finite()).then_some((slope, my - slope * mx))
     }
-    let slope = sxy / sxx;
-    (slope.is_finite() && my.is_finite()).then_some((slope, my - slope * mx))
 }
 
 /// A fitted thin-layer model.
@@ -487,17 +511,28 @@ fn check_data(times_s: &[f64], ratios: &[f64]) -> Result<(), KineticsError> {
         });
     }
     increasing_times(times_s)?;
-    if let Some(bad) = times_s.iter().chain(ratios).find(|v| !v.is_finite()) {
+    // The times rise strictly (no NaN), so every time lies strictly between
+    // the first and the last: only those two can be infinite, and the first
+    // is the earliest negative one if any is. Checking the ends reports the
+    // same reading as a scan of every time would.
+    let (first, last) = (times_s[0], times_s[times_s.len() - 1]);
+    let bad_time = [first, last].into_iter().find(|v| !v.is_finite());
+    let bad_ratio = || {
+        (!fit::all_finite(ratios))
+            .then(|| ratios.iter().copied().find(|v| !v.is_finite()))
+            .flatten()
+    };
+    if let Some(bad) = bad_time.or_else(bad_ratio) {
         return Err(KineticsError::OutOfRange {
             name: "reading",
-            value: *bad,
+            value: bad,
             reason: "must be finite",
         });
     }
-    if let Some(t) = times_s.iter().find(|t| **t < 0.0) {
+    if first < 0.0 {
         return Err(KineticsError::OutOfRange {
             name: "time",
-            value: *t,
+            value: first,
             reason: "must not be negative",
         });
     }
@@ -546,6 +581,76 @@ mod tests {
             (fit.params[0] / (0.4 / 60f64.powf(1.2)) - 1.0).abs() < 1e-5,
             "{fit:?}"
         );
+    }
+
+    /// The old full scans of the data checks (every time and every ratio
+    /// for finiteness, every time for sign), kept here as the reference for
+    /// the checks of the ends and the one-pass finiteness test.
+    fn check_data_by_scans(times_s: &[f64], ratios: &[f64]) -> Result<(), KineticsError> {
+        if times_s.len() != ratios.len() || times_s.len() < 3 {
+            return check_data(times_s, ratios);
+        }
+        increasing_times(times_s)?;
+        if let Some(bad) = times_s.iter().chain(ratios).find(|v| !v.is_finite()) {
+            return Err(KineticsError::OutOfRange {
+                name: "reading",
+                value: *bad,
+                reason: "must be finite",
+            });
+        }
+        if let Some(t) = times_s.iter().find(|t| **t < 0.0) {
+            return Err(KineticsError::OutOfRange {
+                name: "time",
+                value: *t,
+                reason: "must not be negative",
+            });
+        }
+        Ok(())
+    }
+
+    #[test]
+    fn data_checks_match_full_scans() {
+        let (inf, nan) = (f64::INFINITY, f64::NAN);
+        let cases: Vec<(Vec<f64>, Vec<f64>)> = vec![
+            (vec![0.0, 1.0, 2.0], vec![1.0, 0.5, 0.2]),
+            (vec![-inf, 1.0, 2.0], vec![1.0, 0.5, 0.2]),
+            (vec![0.0, 1.0, inf], vec![1.0, 0.5, 0.2]),
+            (vec![-inf, 1.0, inf], vec![1.0, nan, 0.2]),
+            (vec![0.0, 1.0, 2.0], vec![1.0, nan, inf]),
+            (vec![0.0, 1.0, 2.0], vec![1.0, 0.5, -inf]),
+            (vec![-2.0, -1.0, 2.0], vec![1.0, 0.5, 0.2]),
+            (vec![-2.0, -1.0, 2.0], vec![1.0, 0.5, nan]),
+            (vec![-2.0, 1.0, inf], vec![1.0, 0.5, 0.2]),
+            (vec![0.0, nan, 2.0], vec![1.0, 0.5, 0.2]),
+            (vec![0.0, 2.0, 1.0], vec![inf, 0.5, 0.2]),
+            (vec![0.0, 1.0], vec![1.0, 0.5]),
+            (vec![0.0, 1.0, 2.0], vec![1.0, 0.5]),
+        ];
+        for (t, mr) in cases {
+            let fast = format!("{:?}", check_data(&t, &mr));
+            let scans = format!("{:?}", check_data_by_scans(&t, &mr));
+            assert_eq!(fast, scans, "times {t:?}, ratios {mr:?}");
+        }
+    }
+
+    /// The binary search for the end of the non-positive times against the
+    /// scan from the end it replaces.
+    #[test]
+    fn non_positive_end_matches_scan() {
+        for t in [
+            vec![0.0, 0.5, 1.0],
+            vec![0.5, 1.0],
+            vec![-1.0, 0.0, 1.0],
+            vec![-2.0, -1.0],
+            vec![0.0, 0.0, 1.0],
+            vec![],
+        ] {
+            let scan = t.iter().rposition(|&t| t <= 0.0).map_or(0, |i| i + 1);
+            assert_eq!(
+                Curve::new(ThinLayerModel::Page, &t, &t).non_positive_end,
+                scan
+            );
+        }
     }
 
     #[test]
