@@ -146,34 +146,50 @@ pub fn ln(x: f64) -> f64 {
     }
 }
 
-/// `ln` of every value, in place: one loop of [`ln`], compiled for AVX2 and
-/// AVX-512 as well for processors that have them (detected at run time;
-/// same bits).
-pub fn ln_in_place(values: &mut [f64]) {
-    #[cfg(target_arch = "x86_64")]
-    {
-        if std::arch::is_x86_feature_detected!("avx512f") {
-            // SAFETY: the processor has AVX-512F, checked just above.
-            return unsafe { ln_loop_avx512(values) };
+/// Defines `$name`, which runs the portable loop `$body` (an
+/// `#[inline(always)]` function, so its loop is compiled into each caller)
+/// through copies of it compiled for AVX-512F or AVX2 when the processor has
+/// them (detected at run time), else as it is. No fused multiply-add is
+/// enabled, so every copy gives the same bits. Generic parameters go in
+/// brackets after the name, their arguments after `=>`:
+/// `fn sums[const P: usize](y: &[f64]) -> f64 => lane_sums::<P>;`.
+macro_rules! widest_vectors {
+    (
+        $(#[$meta:meta])*
+        $vis:vis fn $name:ident $([$($generic:tt)*])? ($($arg:ident: $ty:ty),* $(,)?) $(-> $ret:ty)?
+        => $body:ident $(::<$($targ:tt),*>)?;
+    ) => {
+        $(#[$meta])*
+        $vis fn $name $(<$($generic)*>)? ($($arg: $ty),*) $(-> $ret)? {
+            #[cfg(target_arch = "x86_64")]
+            {
+                #[target_feature(enable = "avx512f")]
+                fn avx512 $(<$($generic)*>)? ($($arg: $ty),*) $(-> $ret)? {
+                    $body $(::<$($targ),*>)? ($($arg),*)
+                }
+                #[target_feature(enable = "avx2")]
+                fn avx2 $(<$($generic)*>)? ($($arg: $ty),*) $(-> $ret)? {
+                    $body $(::<$($targ),*>)? ($($arg),*)
+                }
+                if std::arch::is_x86_feature_detected!("avx512f") {
+                    // SAFETY: the processor has AVX-512F, checked just above.
+                    return unsafe { avx512 $(::<$($targ),*>)? ($($arg),*) };
+                }
+                if std::arch::is_x86_feature_detected!("avx2") {
+                    // SAFETY: the processor has AVX2, checked just above.
+                    return unsafe { avx2 $(::<$($targ),*>)? ($($arg),*) };
+                }
+            }
+            $body $(::<$($targ),*>)? ($($arg),*)
         }
-        if std::arch::is_x86_feature_detected!("avx2") {
-            // SAFETY: the processor has AVX2, checked just above.
-            return unsafe { ln_loop_avx2(values) };
-        }
-    }
-    ln_loop(values);
+    };
 }
+pub(crate) use widest_vectors;
 
-#[cfg(target_arch = "x86_64")]
-#[target_feature(enable = "avx512f")]
-fn ln_loop_avx512(values: &mut [f64]) {
-    ln_loop(values);
-}
-
-#[cfg(target_arch = "x86_64")]
-#[target_feature(enable = "avx2")]
-fn ln_loop_avx2(values: &mut [f64]) {
-    ln_loop(values);
+widest_vectors! {
+    /// `ln` of every value, in place: one loop of [`ln`], compiled for AVX2
+    /// and AVX-512 as well (see [`widest_vectors`]).
+    pub fn ln_in_place(values: &mut [f64]) => ln_loop;
 }
 
 #[inline(always)]

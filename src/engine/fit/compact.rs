@@ -32,6 +32,7 @@
 // Index loops over the small p x p arrays read like the formulas they code.
 #![allow(clippy::needless_range_loop)]
 
+use super::batch::widest_vectors;
 use super::transform::Transform;
 use super::{forward_gradient, least_sizes, FitOptions, Model};
 
@@ -178,51 +179,18 @@ fn accumulate<const P: usize>(
 /// sums, one per lane, which the compiler can keep in vector registers.
 const LANES: usize = 8;
 
-/// The sums of an analytic model from its stored derivatives (row-major
-/// `n x P`), as [`accumulate`] gives them (to rounding: the points are summed
-/// in [`LANES`] interleaved partial sums, added at the end in a fixed order,
-/// so the result does not depend on the instruction set). Compiled for AVX2
-/// and AVX-512 as well for processors that have them (detected at run time).
-fn analytic_sums<const P: usize>(
-    y: &[f64],
-    weights: &[f64],
-    fitted: &[f64],
-    gradients: &[f64],
-) -> Result<Sums, usize> {
-    #[cfg(target_arch = "x86_64")]
-    {
-        if std::arch::is_x86_feature_detected!("avx512f") {
-            // SAFETY: the processor has AVX-512F, checked just above.
-            return unsafe { lane_sums_avx512::<P>(y, weights, fitted, gradients) };
-        }
-        if std::arch::is_x86_feature_detected!("avx2") {
-            // SAFETY: the processor has AVX2, checked just above.
-            return unsafe { lane_sums_avx2::<P>(y, weights, fitted, gradients) };
-        }
-    }
-    lane_sums::<P>(y, weights, fitted, gradients)
-}
-
-#[cfg(target_arch = "x86_64")]
-#[target_feature(enable = "avx512f")]
-fn lane_sums_avx512<const P: usize>(
-    y: &[f64],
-    weights: &[f64],
-    fitted: &[f64],
-    gradients: &[f64],
-) -> Result<Sums, usize> {
-    lane_sums::<P>(y, weights, fitted, gradients)
-}
-
-#[cfg(target_arch = "x86_64")]
-#[target_feature(enable = "avx2")]
-fn lane_sums_avx2<const P: usize>(
-    y: &[f64],
-    weights: &[f64],
-    fitted: &[f64],
-    gradients: &[f64],
-) -> Result<Sums, usize> {
-    lane_sums::<P>(y, weights, fitted, gradients)
+widest_vectors! {
+    /// The sums of an analytic model from its stored derivatives (row-major
+    /// `n x P`), as [`accumulate`] gives them (to rounding: the points are
+    /// summed in [`LANES`] interleaved partial sums, added at the end in a
+    /// fixed order, so the result does not depend on the instruction set).
+    /// Compiled for AVX2 and AVX-512 as well (see [`widest_vectors`]).
+    fn analytic_sums[const P: usize](
+        y: &[f64],
+        weights: &[f64],
+        fitted: &[f64],
+        gradients: &[f64],
+    ) -> Result<Sums, usize> => lane_sums::<P>;
 }
 
 /// [`analytic_sums`] in [`LANES`] partial sums; `Err(point)` at the first

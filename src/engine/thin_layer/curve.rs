@@ -4,7 +4,8 @@
 //! and iteration instead of once per parameter as finite differences would.
 
 use super::ThinLayerModel;
-use crate::engine::fit::{batch, point_by_point, Model};
+use crate::engine::fit::batch::{self, widest_vectors};
+use crate::engine::fit::{point_by_point, Model};
 
 impl ThinLayerModel {
     /// Moisture ratio at time `t` (in the parameters' time unit) and its
@@ -170,34 +171,16 @@ fn page_all(k: f64, n: f64, curve: &Curve, values: &mut [f64], gradients: &mut [
     }
 }
 
-/// [`page_loop`] with the widest vector instructions the processor has.
-fn page_loop_fastest(k: f64, n: f64, ln_t: &[f64], values: &mut [f64], gradients: &mut [f64]) {
-    #[cfg(target_arch = "x86_64")]
-    {
-        if std::arch::is_x86_feature_detected!("avx512f") {
-            // SAFETY: the processor has AVX-512F, checked just above.
-            return unsafe { page_loop_avx512(k, n, ln_t, values, gradients) };
-        }
-        if std::arch::is_x86_feature_detected!("avx2") {
-            // SAFETY: the processor has AVX2, checked just above.
-            return unsafe { page_loop_avx2(k, n, ln_t, values, gradients) };
-        }
-    }
-    page_loop(k, n, ln_t, values, gradients);
-}
-
-/// [`page_loop`] compiled with AVX2 (four points per instruction).
-#[cfg(target_arch = "x86_64")]
-#[target_feature(enable = "avx2")]
-fn page_loop_avx2(k: f64, n: f64, ln_t: &[f64], values: &mut [f64], gradients: &mut [f64]) {
-    page_loop(k, n, ln_t, values, gradients);
-}
-
-/// [`page_loop`] compiled with AVX-512F (eight points per instruction).
-#[cfg(target_arch = "x86_64")]
-#[target_feature(enable = "avx512f")]
-fn page_loop_avx512(k: f64, n: f64, ln_t: &[f64], values: &mut [f64], gradients: &mut [f64]) {
-    page_loop(k, n, ln_t, values, gradients);
+widest_vectors! {
+    /// [`page_loop`] with the widest vector instructions the processor has
+    /// (see [`widest_vectors`]).
+    fn page_loop_fastest(
+        k: f64,
+        n: f64,
+        ln_t: &[f64],
+        values: &mut [f64],
+        gradients: &mut [f64],
+    ) => page_loop;
 }
 
 /// `exp(-k t^n)` with `t^n = exp(n ln t)`, and its derivatives, at every
