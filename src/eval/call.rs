@@ -88,7 +88,7 @@ impl Ctx<'_> {
         let mut bound = Args::unbound(b, span);
         let mut unbindable = None;
         for a in args {
-            let slot = a.name.as_ref().and_then(|n| param_index(b, &n.name));
+            let slot = a.name.as_ref().and_then(|n| b.param_index(&n.name));
             let value = self.expr(&a.value)?;
             let arg = Arg {
                 name: None,
@@ -154,18 +154,12 @@ impl Ctx<'_> {
 fn check_arg_names(b: &Builtin, args: &[CallArg]) -> Result<(), Diagnostic> {
     for a in args {
         if let Some(n) = &a.name {
-            if param_index(b, &n.name).is_none() {
+            if b.param_index(&n.name).is_none() {
                 return Err(misspelt_arg(b, n));
             }
         }
     }
     Ok(())
-}
-
-/// The index of `b`'s parameter `name`.
-#[inline]
-fn param_index(b: &Builtin, name: &str) -> Option<usize> {
-    b.params.iter().position(|p| p.name == name)
 }
 
 fn misspelt_arg(b: &Builtin, n: &Ident) -> Diagnostic {

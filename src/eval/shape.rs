@@ -256,7 +256,7 @@ fn param_indices<'a>(b: &Builtin, values: &'a [Arg]) -> Vec<(usize, &'a Arg)> {
     let mut out = Vec::with_capacity(values.len());
     for a in values {
         let index = match &a.name {
-            Some(n) => b.params.iter().position(|p| p.name == n),
+            Some(n) => b.param_index(n),
             None => {
                 next += 1;
                 Some(next - 1)

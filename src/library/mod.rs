@@ -90,6 +90,13 @@ pub struct Builtin {
 }
 
 impl Builtin {
+    /// The index of parameter `name`, if the built-in has one: how every
+    /// caller binds a named argument.
+    #[inline]
+    pub fn param_index(&self, name: &str) -> Option<usize> {
+        self.params.iter().position(|p| same_name(p.name, name))
+    }
+
     /// Does parameter `index` read nothing of a record given to it but its
     /// engine state (the payload, e.g. the `AirState` of an `air` record): no
     /// field, and the record neither kept nor returned? Declared per
@@ -151,9 +158,7 @@ impl Args {
             let slot = match &arg.name {
                 Some(name) => Some(
                     builtin
-                        .params
-                        .iter()
-                        .position(|p| p.name == name)
+                        .param_index(name)
                         .ok_or_else(|| unknown_argument(builtin, name, arg.span))?,
                 ),
                 None => None,
@@ -239,16 +244,12 @@ impl Args {
     }
 
     fn index(&self, name: &str) -> usize {
-        self.builtin
-            .params
-            .iter()
-            .position(|p| same_name(p.name, name))
-            .unwrap_or_else(|| {
-                panic!(
-                    "built-in `{}` reads undeclared parameter `{name}`",
-                    self.builtin.name
-                )
-            })
+        self.builtin.param_index(name).unwrap_or_else(|| {
+            panic!(
+                "built-in `{}` reads undeclared parameter `{name}`",
+                self.builtin.name
+            )
+        })
     }
 
     /// Take an argument if it was given.
@@ -485,9 +486,7 @@ mod tests {
         for &(b, n) in transfer::PAYLOAD_ONLY {
             let builtin = find(b).unwrap_or_else(|| panic!("no built-in `{b}`"));
             let i = builtin
-                .params
-                .iter()
-                .position(|p| p.name == n)
+                .param_index(n)
                 .unwrap_or_else(|| panic!("`{b}` has no parameter `{n}`"));
             assert_eq!(builtin.params[i].unit, "air", "{b}({n})");
             assert!(builtin.reads_only_payload(i));

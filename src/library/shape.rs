@@ -241,7 +241,7 @@ pub fn unknown_in(unit: &str) -> Option<Value> {
 /// unknown magnitudes, or `None` when the shape is not fixed.
 pub fn shaped_result(b: &Builtin, args: &[(usize, &Arg)]) -> Option<Value> {
     let arg = |name: &str| {
-        let i = b.params.iter().position(|p| p.name == name)?;
+        let i = b.param_index(name)?;
         args.iter().find(|(j, _)| *j == i).map(|(_, a)| &a.value)
     };
     match result_shape(b) {

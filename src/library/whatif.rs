@@ -392,7 +392,7 @@ fn distribution_at(
             ShapeError::ModeOutside => "mode",
             ShapeError::MeanNotPositive => "mean",
         };
-        let at = args.builtin.params.iter().position(|p| p.name == blame);
+        let at = args.builtin.param_index(blame);
         let span = at
             .and_then(|i| v.get(i))
             .map_or(args.call_span, |(_, a)| a.span);

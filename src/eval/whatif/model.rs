@@ -412,9 +412,7 @@ fn wanted_fields<'e>(
                 for a in args {
                     // The parameter the argument binds to, as `Args` binds.
                     let slot = match &a.name {
-                        Some(n) => {
-                            builtin.and_then(|b| b.params.iter().position(|p| p.name == n.name))
-                        }
+                        Some(n) => builtin.and_then(|b| b.param_index(&n.name)),
                         None => {
                             positional += 1;
                             Some(positional - 1)
