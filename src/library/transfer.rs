@@ -478,7 +478,7 @@ fn engine_error(args: &Args, e: TransferError) -> Diagnostic {
 /// Carry a correlation's range warnings into the call's warnings.
 fn take_value<T>(args: &mut Args, c: Correlated<T>) -> T {
     for w in c.warnings {
-        args.warn(w.to_string());
+        args.warn(w.message());
     }
     c.value
 }
@@ -1044,7 +1044,7 @@ fn wet_surface(args: &mut Args) -> Result<Value, Diagnostic> {
     args.finish()?;
     let s = engine::wet_surface(&air, h_si(h), &extra).map_err(|e| engine_error(args, e))?;
     for w in &s.warnings {
-        args.warn(w.to_string());
+        args.warn(w.message());
     }
     Ok(Value::Record(surface_record(args, s, h)))
 }
