@@ -81,23 +81,42 @@ pub struct RangeWarning {
 
 impl fmt::Display for RangeWarning {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        let unit = if self.unit.is_empty() {
-            String::new()
-        } else {
-            format!(" {}", self.unit)
-        };
+        // Piece by piece (no padding or argument machinery: a what-if study
+        // may format one of these at every point).
+        let space = if self.unit.is_empty() { "" } else { " " };
+        let value = sig(self.value);
         let range = if self.high.is_infinite() {
-            format!("at least {}{unit}", sig(self.low))
+            ["at least ", &sig(self.low), "", ""].concat()
         } else {
-            format!("{}-{}{unit}", sig(self.low), sig(self.high))
+            [sig(self.low).as_str(), "-", &sig(self.high)].concat()
         };
-        write!(
-            f,
-            "{}: {} = {}{unit} is outside the fitted range {range}; the value is an extrapolation",
+        for piece in [
             self.correlation,
+            ": ",
             self.input,
-            sig(self.value)
-        )
+            " = ",
+            &value,
+            space,
+            self.unit,
+            " is outside the fitted range ",
+            &range,
+            space,
+            self.unit,
+            "; the value is an extrapolation",
+        ] {
+            f.write_str(piece)?;
+        }
+        Ok(())
+    }
+}
+
+impl RangeWarning {
+    /// The warning's text ([`fmt::Display`]) in a string sized for it at once.
+    pub fn message(&self) -> String {
+        use fmt::Write;
+        let mut text = String::with_capacity(160);
+        let _ = write!(text, "{self}");
+        text
     }
 }
 
@@ -114,12 +133,71 @@ fn sig(x: f64) -> String {
         return format!("{mantissa}e{magnitude}");
     }
     let digits = (3 - magnitude).max(0) as usize;
+    let mut buffer = [0u8; FIXED_LEN];
+    if let Some(text) = fixed(x, digits, &mut buffer) {
+        let trimmed = if digits > 0 {
+            text.trim_end_matches('0').trim_end_matches('.')
+        } else {
+            text
+        };
+        return trimmed.to_string();
+    }
     let text = format!("{x:.digits$}");
     if text.contains('.') {
         text.trim_end_matches('0').trim_end_matches('.').to_string()
     } else {
         text
     }
+}
+
+/// Room for the text of [`fixed`]: a sign, ten digits and a point.
+const FIXED_LEN: usize = 24;
+
+/// The text of `format!("{x:.digits$}")`, written into `buffer` by integer
+/// arithmetic, for `digits` up to 6 and `|x| 10^digits` from 1 to 1e9;
+/// `None` elsewhere and where the rounding could go either way. The product
+/// `|x| 10^digits` is within 1.2e-7 of its exact value there (half an ulp
+/// of 1e9), so outside 1e-6 of a half it rounds to the integer the exact
+/// decimal expansion rounds to. (The general formatter takes a few thousand
+/// instructions, and a what-if study formats a warning at each point outside
+/// a correlation's range.)
+fn fixed(x: f64, digits: usize, buffer: &mut [u8; FIXED_LEN]) -> Option<&str> {
+    const SCALE: [f64; 7] = [1.0, 10.0, 100.0, 1e3, 1e4, 1e5, 1e6];
+    let y = x.abs() * *SCALE.get(digits)?;
+    if !(1.0..1e9).contains(&y) {
+        return None;
+    }
+    let whole = y.floor();
+    let fraction = y - whole;
+    if (fraction - 0.5).abs() < 1e-6 {
+        return None;
+    }
+    let mut n = whole as u64 + u64::from(fraction > 0.5);
+    // From the right: the decimals, the point, the integer part (at least
+    // one digit), the sign.
+    let mut at = FIXED_LEN;
+    let mut put = |c: u8| {
+        at -= 1;
+        buffer[at] = c;
+    };
+    for _ in 0..digits {
+        put(b'0' + (n % 10) as u8);
+        n /= 10;
+    }
+    if digits > 0 {
+        put(b'.');
+    }
+    loop {
+        put(b'0' + (n % 10) as u8);
+        n /= 10;
+        if n == 0 {
+            break;
+        }
+    }
+    if x < 0.0 {
+        put(b'-');
+    }
+    std::str::from_utf8(&buffer[at..]).ok()
 }
 
 /// Check `value` against `[low, high]` and record a warning when outside.
@@ -195,6 +273,89 @@ pub(crate) fn positive(
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// The text of `format!("{x:.digits$}")`, which [`fixed`] replaces:
+    /// equal wherever it gives one (numbers of every size and sign, exact
+    /// and near halves), and given for all but a few in a million.
+    #[test]
+    fn fixed_point_text_is_the_formatters() {
+        let mut state = 0x2545_f491_4f6c_dd1d_u64;
+        let mut next = || {
+            state ^= state << 13;
+            state ^= state >> 7;
+            state ^= state << 17;
+            state
+        };
+        let (mut given, mut tried) = (0, 0);
+        for _ in 0..200_000 {
+            let r = next();
+            let digits = (r % 7) as usize;
+            let magnitude = ((r >> 3) % 14) as i32 - 6;
+            let mantissa = 1.0 + (next() >> 11) as f64 / (1u64 << 53) as f64 * 9.0;
+            let sign = if r >> 63 == 1 { -1.0 } else { 1.0 };
+            let x = sign * mantissa * 10f64.powi(magnitude);
+            tried += 1;
+            if let Some(text) = fixed(x, digits, &mut [0; FIXED_LEN]) {
+                assert_eq!(text, format!("{x:.digits$}"), "{x:e} {digits}");
+                given += 1;
+            }
+        }
+        // Halves and their neighbours, where the rounding decides.
+        for n in 0..20_000u32 {
+            for digits in 0..=6 {
+                let half = (f64::from(n) + 0.5) / 10f64.powi(digits as i32);
+                for x in [half, -half, half.next_up(), half.next_down()] {
+                    if let Some(text) = fixed(x, digits, &mut [0; FIXED_LEN]) {
+                        assert_eq!(text, format!("{x:.digits$}"), "{x:e} {digits}");
+                    }
+                }
+            }
+        }
+        assert!(given * 10 > tried * 6, "{given} of {tried}");
+    }
+
+    /// The range warnings' numbers as before the fixed-point shortcut.
+    #[test]
+    fn significant_figures_are_the_formatters() {
+        fn by_format(x: f64) -> String {
+            if x == 0.0 || !x.is_finite() {
+                return format!("{x}");
+            }
+            let magnitude = x.abs().log10().floor() as i32;
+            if !(-3..5).contains(&magnitude) {
+                let mantissa = format!("{:.3}", x / 10f64.powi(magnitude));
+                let mantissa = mantissa.trim_end_matches('0').trim_end_matches('.');
+                return format!("{mantissa}e{magnitude}");
+            }
+            let digits = (3 - magnitude).max(0) as usize;
+            let text = format!("{x:.digits$}");
+            if text.contains('.') {
+                text.trim_end_matches('0').trim_end_matches('.').to_string()
+            } else {
+                text
+            }
+        }
+        let mut x: f64 = 1.234_567e-5;
+        while x < 1e7 {
+            for v in [x, -x, x.next_up(), x.next_down()] {
+                assert_eq!(sig(v), by_format(v), "{v:e}");
+            }
+            x *= 1.000_37;
+        }
+        for v in [
+            0.0,
+            f64::NAN,
+            f64::INFINITY,
+            45.0,
+            150.0,
+            40.2,
+            0.5985,
+            2450.0,
+            29300.0,
+        ] {
+            assert_eq!(sig(v), by_format(v), "{v}");
+        }
+    }
 
     #[test]
     fn warning_text_is_readable() {

@@ -205,6 +205,20 @@ impl Blame {
 // Argument helpers
 // ---------------------------------------------------------------------------
 
+/// The parameters that read nothing of the record given to them but its
+/// engine state ([`crate::library::Builtin::reads_only_payload`]), as
+/// (built-in, parameter): each is read only through [`air_arg`], which takes
+/// the `AirState` payload (a record without one is an error, with or without
+/// fields), and otherwise only for the span of its argument ([`Blame`]); none
+/// keeps the record or returns it (the air records of the results are built
+/// afresh from the engine's states).
+pub const PAYLOAD_ONLY: &[(&str, &str)] = &[
+    ("belt_zone", "air"),
+    ("tray_dryer", "air"),
+    ("deep_bed", "air"),
+    ("rotary_dryer", "gas"),
+];
+
 fn air_arg(args: &mut Args, name: &str) -> Result<AirState, Diagnostic> {
     let span = args.span_of(name);
     let record = args.record(name, "air")?;

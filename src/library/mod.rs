@@ -100,12 +100,13 @@ impl Builtin {
     /// Does parameter `index` read nothing of a record given to it but its
     /// engine state (the payload, e.g. the `AirState` of an `air` record): no
     /// field, and the record neither kept nor returned? Declared per
-    /// parameter by the family files ([`transfer::PAYLOAD_ONLY`]) after
+    /// parameter by the family files ([`transfer::PAYLOAD_ONLY`],
+    /// [`dryers::PAYLOAD_ONLY`]) after
     /// checking every use of the argument. A what-if study's field analysis
     /// then counts passing a record there as reading no field but needing
     /// the payload ([`PAYLOAD`]).
     pub fn reads_only_payload(&self, index: usize) -> bool {
-        const FAMILIES: &[&[(&str, &str)]] = &[transfer::PAYLOAD_ONLY];
+        const FAMILIES: &[&[(&str, &str)]] = &[transfer::PAYLOAD_ONLY, dryers::PAYLOAD_ONLY];
         self.params.get(index).is_some_and(|p| {
             FAMILIES
                 .iter()
@@ -483,7 +484,7 @@ mod tests {
     #[test]
     fn parameters_reading_only_the_payload_exist_and_take_air_records() {
         // A misspelt entry would silently mark nothing.
-        for &(b, n) in transfer::PAYLOAD_ONLY {
+        for &(b, n) in transfer::PAYLOAD_ONLY.iter().chain(dryers::PAYLOAD_ONLY) {
             let builtin = find(b).unwrap_or_else(|| panic!("no built-in `{b}`"));
             let i = builtin
                 .param_index(n)
@@ -491,8 +492,9 @@ mod tests {
             assert_eq!(builtin.params[i].unit, "air", "{b}({n})");
             assert!(builtin.reads_only_payload(i));
         }
-        // Every transfer built-in taking an air record is in the list.
-        for b in registry().iter().filter(|b| b.family == "transfer") {
+        // Every transfer or dryer built-in taking an air record is in a list.
+        let families = ["transfer", "dryers"];
+        for b in registry().iter().filter(|b| families.contains(&b.family)) {
             for (i, p) in b.params.iter().enumerate() {
                 assert_eq!(
                     p.unit == "air",

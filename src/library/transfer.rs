@@ -380,16 +380,20 @@ fn opt_air(args: &mut Args, name: &str) -> Result<Option<AirState>, Diagnostic> 
 }
 
 /// A required quantity of `dim` that must be positive and finite; SI magnitude.
+/// (The argument is looked up once: taken, then checked with its own span,
+/// as [`Args::quantity`] checks it.)
 fn positive(args: &mut Args, name: &str, dim: Dim) -> Result<f64, Diagnostic> {
-    let span = args.span_of(name);
-    let q = args.quantity(name, dim)?;
-    check_positive(span, name, q)
+    let arg = args.required(name)?;
+    let q = super::expect_quantity(args.builtin, name, &arg, dim)?;
+    check_positive(arg.span, name, q)
 }
 
 fn opt_positive(args: &mut Args, name: &str, dim: Dim) -> Result<Option<f64>, Diagnostic> {
-    let span = args.span_of(name);
-    match args.opt_quantity(name, dim)? {
-        Some(q) => check_positive(span, name, q).map(Some),
+    match args.take(name) {
+        Some(arg) => {
+            let q = super::expect_quantity(args.builtin, name, &arg, dim)?;
+            check_positive(arg.span, name, q).map(Some)
+        }
         None => Ok(None),
     }
 }
@@ -474,7 +478,7 @@ fn engine_error(args: &Args, e: TransferError) -> Diagnostic {
 /// Carry a correlation's range warnings into the call's warnings.
 fn take_value<T>(args: &mut Args, c: Correlated<T>) -> T {
     for w in c.warnings {
-        args.warn(w.to_string());
+        args.warn(w.message());
     }
     c.value
 }
@@ -484,9 +488,19 @@ fn quantity(si: f64, dim: Dim) -> Value {
 }
 
 /// A quantity shown in the trade's usual unit (`text` parsed by the unit
-/// table; the value itself stays SI).
-fn shown(si: f64, dim: Dim, text: &str) -> Value {
-    Value::Quantity(Quantity::new(si, dim, Kind::Plain), parse_unit(text).ok())
+/// table; the value itself stays SI). The unit is parsed once per thread and
+/// call site (each thread keeps its own copy, so that cloning it touches no
+/// count shared with another thread).
+macro_rules! shown {
+    ($si:expr, $dim:expr, $text:literal $(,)?) => {{
+        thread_local! {
+            static UNIT: Option<crate::units::Unit> = parse_unit($text).ok();
+        }
+        Value::Quantity(
+            Quantity::new($si, $dim, Kind::Plain),
+            UNIT.with(Clone::clone),
+        )
+    }};
 }
 
 fn number(x: f64) -> Value {
@@ -552,7 +566,7 @@ fn mass_velocity(args: &mut Args) -> Result<Value, Diagnostic> {
     }
     .map_err(|e| engine_error(args, e))?;
     args.finish()?;
-    Ok(shown(
+    Ok(shown!(
         g.get::<uom::si::mass_flux::kilogram_per_square_meter_second>(),
         Dim::MASS_FLUX,
         "kg/(m^2*h)",
@@ -1017,81 +1031,103 @@ fn layer_arg(
 fn wet_surface(args: &mut Args) -> Result<Value, Diagnostic> {
     let air = air_arg(args, "air")?;
     let h = positive(args, "h", Dim::HEAT_TRANSFER_COEFFICIENT)?;
-    let extra = ExtraHeat {
-        radiation: radiation_arg(args)?,
-        bottom: bottom_arg(args, h)?,
+    // Radiation and the tray bottom are read only when some argument is
+    // left (one pass over the slots, not a search for each of their names).
+    let extra = if args.given().next().is_none() {
+        ExtraHeat::default()
+    } else {
+        ExtraHeat {
+            radiation: radiation_arg(args)?,
+            bottom: bottom_arg(args, h)?,
+        }
     };
     args.finish()?;
     let s = engine::wet_surface(&air, h_si(h), &extra).map_err(|e| engine_error(args, e))?;
     for w in &s.warnings {
-        args.warn(w.to_string());
+        args.warn(w.message());
     }
-    Ok(Value::Record(surface_record(s, h)))
+    Ok(Value::Record(surface_record(args, s, h)))
 }
 
-fn surface_record(s: WetSurface, h: f64) -> Record {
+/// The fields of a `wet_surface` record, in order.
+const SURFACE_FIELDS: [&str; 10] = [
+    "Ts", "w_s", "Rc", "q", "q_conv", "q_rad", "q_cond", "latent", "ky", "h",
+];
+
+/// The record of a wet-surface solution, with the solution as its payload.
+///
+/// Only the fields the caller reads are built when it says which
+/// ([`Args::wants`]; a what-if study's points), and the payload only when
+/// asked for; the engine has computed every field already, so leaving one
+/// out hides no warning or error.
+fn surface_record(args: &Args, s: WetSurface, h: f64) -> Record {
     use uom::si::heat_flux_density::watt_per_square_meter as w_m2;
+    let mask = SURFACE_FIELDS
+        .iter()
+        .enumerate()
+        .filter(|(_, name)| args.wants(name))
+        .fold(0u16, |m, (i, _)| m | 1 << i);
     let q = |x: uom::si::f64::HeatFluxDensity| quantity(x.get::<w_m2>(), Dim::HEAT_FLUX);
-    let kg_m2_s = |m: MassFlux| {
-        quantity(
-            m.get::<uom::si::mass_flux::kilogram_per_square_meter_second>(),
-            Dim::MASS_FLUX,
-        )
-    };
-    let ts = s
-        .temperature
-        .get::<uom::si::thermodynamic_temperature::kelvin>();
-    // The fields in one vector, allocated once.
-    let fields = vec![
-        (
-            "Ts".into(),
-            Value::Quantity(
-                Quantity::new(ts, Dim::TEMPERATURE, Kind::AbsoluteTemperature),
+    let mut fields = Vec::with_capacity(mask.count_ones() as usize);
+    for (i, name) in SURFACE_FIELDS.iter().enumerate() {
+        if mask & 1 << i == 0 {
+            continue;
+        }
+        let value = match i {
+            0 => Value::Quantity(
+                Quantity::new(
+                    s.temperature
+                        .get::<uom::si::thermodynamic_temperature::kelvin>(),
+                    Dim::TEMPERATURE,
+                    Kind::AbsoluteTemperature,
+                ),
                 None,
             ),
-        ),
-        (
-            "w_s".into(),
-            Value::Quantity(
+            1 => Value::Quantity(
                 Quantity::new(s.w_surface_kg_per_kg_da, Dim::NONE, Kind::HumidityRatio),
                 None,
             ),
-        ),
-        (
-            "Rc".into(),
-            shown(
+            2 => shown!(
                 s.rate
                     .get::<uom::si::mass_flux::kilogram_per_square_meter_second>(),
                 Dim::MASS_FLUX,
-                "kg/(m^2*h)",
+                "kg/(m^2*h)"
             ),
-        ),
-        ("q".into(), q(s.heat_flux)),
-        ("q_conv".into(), q(s.convective)),
-        ("q_rad".into(), q(s.radiative)),
-        ("q_cond".into(), q(s.conductive)),
-        (
-            "latent".into(),
-            quantity(
+            3 => q(s.heat_flux),
+            4 => q(s.convective),
+            5 => q(s.radiative),
+            6 => q(s.conductive),
+            7 => quantity(
                 s.latent_heat
                     .get::<uom::si::available_energy::joule_per_kilogram>(),
                 Dim::SPECIFIC_ENERGY,
             ),
-        ),
-        ("ky".into(), kg_m2_s(s.k_y)),
-        ("h".into(), quantity(h, Dim::HEAT_TRANSFER_COEFFICIENT)),
-    ];
+            8 => quantity(
+                s.k_y
+                    .get::<uom::si::mass_flux::kilogram_per_square_meter_second>(),
+                Dim::MASS_FLUX,
+            ),
+            _ => quantity(h, Dim::HEAT_TRANSFER_COEFFICIENT),
+        };
+        fields.push(((*name).into(), value));
+    }
+    let payload: Option<std::sync::Arc<dyn Payload>> = if args.wants_payload() {
+        Some(std::sync::Arc::new(s))
+    } else {
+        None
+    };
     Record {
         type_name: "wet_surface".into(),
         fields: std::sync::Arc::new(fields),
-        payload: Some(std::sync::Arc::new(s)),
+        payload,
     }
 }
 
 /// A dry-basis moisture content: kind Moisture or a plain number.
 fn moisture(args: &mut Args, name: &str) -> Result<f64, Diagnostic> {
-    let span = args.span_of(name);
-    let q = args.quantity(name, Dim::NONE)?;
+    let arg = args.required(name)?;
+    let q = super::expect_quantity(args.builtin, name, &arg, Dim::NONE)?;
+    let span = arg.span;
     match q.kind {
         Kind::Moisture | Kind::Plain if q.si.is_finite() && q.si >= 0.0 => Ok(q.si),
         Kind::Moisture | Kind::Plain => Err(Diagnostic::error(
@@ -1133,7 +1169,7 @@ fn constant_rate_time(args: &mut Args) -> Result<Value, Diagnostic> {
         ArealMassDensity::new::<uom::si::areal_mass_density::kilogram_per_square_meter>(load);
     let t = engine::constant_rate_time(load, x1, x2, mass_flux_si(rc.si))
         .map_err(|e| engine_error(args, e))?;
-    Ok(shown(t.get::<uom::si::time::second>(), Dim::TIME, "h"))
+    Ok(shown!(t.get::<uom::si::time::second>(), Dim::TIME, "h"))
 }
 
 #[cfg(test)]

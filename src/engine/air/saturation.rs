@@ -337,6 +337,23 @@ pub fn saturated_vapour_pressure_and_slope(t: f64, p: f64) -> (f64, f64) {
     }
 }
 
+/// [`saturated_vapour_pressure_and_slope`] and, from the triple point up,
+/// the pure-water pressure `p_ws` (Pa) and `d ln p_ws / dT` (1/K) it was
+/// formed from: the same bits as `ln_water(t).exp()` and
+/// `ln_water_slope(t)`, for a caller that needs them too (the latent heat at
+/// a wet surface); `None` below the triple point.
+#[inline]
+pub fn saturated_vapour_pressure_slope_and_water(t: f64, p: f64) -> (f64, f64, Option<(f64, f64)>) {
+    if t >= T_TRIPLE {
+        let (ln_es, dln_es) = (ln_water(t), ln_water_slope(t));
+        let (es, ln_f, slope) = phase_terms(t, p, ln_es, dln_es, &HARDY_WATER);
+        (es * exp_small(ln_f), slope, Some((es, dln_es)))
+    } else {
+        let (pvs, slope) = saturated_vapour_pressure_and_slope(t, p);
+        (pvs, slope, None)
+    }
+}
+
 /// Wagner & Pruss (1993) auxiliary eq. 2.6, saturated liquid density:
 /// `rho'/rho_c = 1 + sum b_i tau^(e_i/3)`, `tau = 1 - T/T_c`; the
 /// coefficients b_i and the integer exponents e_i of `tau^(1/3)`.

@@ -6,7 +6,7 @@
 //! which converges quadratically: one or two evaluations from a start within
 //! a few hundredths of a kelvin (see `wet_surface`).
 //!
-//! The saturation curve is the air engine's own ([`saturated_vapour_pressure_and_slope`],
+//! The saturation curve is the air engine's own (`saturated_vapour_pressure_and_slope`,
 //! with its enhancement factor), so the limiting case is the air engine's
 //! wet-bulb. The latent heat is the air engine's definition,
 //! Clausius-Clapeyron on the liquid saturation curve `ln_water` with the
@@ -19,7 +19,7 @@
 //! engine's files are left as they are.
 
 use crate::engine::air::saturation::{
-    ln_water, ln_water_slope, saturated_vapour_pressure_and_slope, RHO_CRITICAL, T_CRITICAL,
+    ln_water, ln_water_slope, saturated_vapour_pressure_slope_and_water, RHO_CRITICAL, T_CRITICAL,
     T_MIN_SATURATION, WP_LIQUID_B, WP_LIQUID_E, WP_VAPOUR_C, WP_VAPOUR_E,
 };
 use crate::engine::air::thermo::EPSILON;
@@ -39,9 +39,14 @@ pub(super) const T_MAX_EXACT_SLOPE: f64 = 420.0;
 /// difference over 2e-3 K (truncation and rounding near 1e-10 relative; the
 /// term is under 2 % of the balance's slope).
 pub(super) fn latent_heat_and_slope(t: f64) -> (f64, f64) {
+    latent_heat_and_slope_from(t, ln_water(t).exp(), ln_water_slope(t))
+}
+
+/// [`latent_heat_and_slope`] given `p_s = exp(ln_water(t))` and
+/// `g' = ln_water_slope(t)` (the saturated side of the balance has them
+/// from the vapour pressure already).
+fn latent_heat_and_slope_from(t: f64, ps: f64, g1: f64) -> (f64, f64) {
     const DT: f64 = 1e-3;
-    let ps = ln_water(t).exp();
-    let g1 = ln_water_slope(t);
     let g2 = (ln_water_slope(t + DT) - ln_water_slope(t - DT)) / (2.0 * DT);
     let dps = ps * g1;
     let d2ps = ps * (g1 * g1 + g2);
@@ -153,14 +158,19 @@ impl SaturatedSurface {
         if !(T_MIN_SATURATION..=T_MAX_EXACT_SLOPE).contains(&ts) {
             return None;
         }
-        let (pvs, dln_pvs) = saturated_vapour_pressure_and_slope(ts, p);
+        let (pvs, dln_pvs, water) = saturated_vapour_pressure_slope_and_water(ts, p);
         if pvs.is_nan() || pvs >= p {
             return None;
         }
         // w = eps pvs / (p - pvs): d ln w / dT = p / (p - pvs) d ln pvs / dT.
         let per_pa = 1.0 / (p - pvs);
         let w = EPSILON * pvs * per_pa;
-        let (latent, dlatent) = latent_heat_and_slope(ts);
+        // Over liquid water the pure-water pressure is the one the vapour
+        // pressure was formed from; below the triple point (ice) it is not.
+        let (latent, dlatent) = match water {
+            Some((ps, g1)) => latent_heat_and_slope_from(ts, ps, g1),
+            None => latent_heat_and_slope(ts),
+        };
         Some(SaturatedSurface {
             w,
             dw: w * p * per_pa * dln_pvs,
@@ -242,6 +252,52 @@ mod tests {
             let want = fd(&|x| vapour_density_and_slope(density_roots(x).1).0);
             assert!((drv - want).abs() < 1e-7 * want.abs(), "{t}: {drv} {want}");
         }
+    }
+
+    /// The saturated side as it was formed before it took the pure-water
+    /// pressure from the vapour pressure's own evaluation: the vapour
+    /// pressure and its slope, then the latent heat from `ln_water` again.
+    fn at_reference(ts: f64, p: f64) -> Option<SaturatedSurface> {
+        if !(T_MIN_SATURATION..=T_MAX_EXACT_SLOPE).contains(&ts) {
+            return None;
+        }
+        let (pvs, dln_pvs) =
+            crate::engine::air::saturation::saturated_vapour_pressure_and_slope(ts, p);
+        if pvs.is_nan() || pvs >= p {
+            return None;
+        }
+        let per_pa = 1.0 / (p - pvs);
+        let w = EPSILON * pvs * per_pa;
+        let (latent, dlatent) = latent_heat_and_slope(ts);
+        Some(SaturatedSurface {
+            w,
+            dw: w * p * per_pa * dln_pvs,
+            latent,
+            dlatent,
+        })
+    }
+
+    /// Sharing the pure-water pressure changes no bit: every field equal to
+    /// the reference's, over ice, the join and liquid water, 50 to 200 kPa
+    /// (a fine grid near the triple point, where the branch changes).
+    #[test]
+    fn shared_water_pressure_gives_the_same_bits() {
+        let fine = (0..=400).map(|i| 273.14 + f64::from(i) * 1e-4);
+        let wide = (0..=24_000).map(|i| 173.15 + f64::from(i) * 0.01);
+        let mut compared = 0;
+        for t in fine.chain(wide).chain([T_MAX_EXACT_SLOPE, 420.000_001]) {
+            for p in [50e3, 101_325.0, 200e3] {
+                let (got, want) = (SaturatedSurface::at(t, p), at_reference(t, p));
+                assert_eq!(got.is_some(), want.is_some(), "{t} {p}");
+                let (Some(got), Some(want)) = (got, want) else {
+                    continue;
+                };
+                let bits = |s: SaturatedSurface| [s.w, s.dw, s.latent, s.dlatent].map(f64::to_bits);
+                assert_eq!(bits(got), bits(want), "{t} {p}");
+                compared += 1;
+            }
+        }
+        assert!(compared > 60_000, "{compared}");
     }
 
     /// The saturated humidity ratio is the air engine's, its slope that of
