@@ -497,11 +497,14 @@ fn temperature(args: &mut Args, name: &str) -> Result<ThermodynamicTemperature, 
     }
 }
 
+/// The default total pressure of `air`, Pa (its `p` parameter's default).
+const DEFAULT_P_PA: f64 = 101_325.0;
+
 /// The `p` argument, defaulting to 101.325 kPa, with a warning outside 50..200 kPa.
 fn pressure(args: &mut Args) -> Result<Pressure, Diagnostic> {
     let p = args
         .opt_quantity("p", Dim::PRESSURE)?
-        .map_or(101_325.0, |q| q.si);
+        .map_or(DEFAULT_P_PA, |q| q.si);
     if p.is_finite() && p > 0.0 && !(air::P_MIN_PA..=air::P_MAX_PA).contains(&p) {
         args.warn(format!(
             "total pressure {:.3} kPa is outside the design range 50 to 200 kPa of the humid-air formulation",
@@ -675,17 +678,29 @@ const fn const_eq(a: &str, b: &str) -> bool {
     true
 }
 
+/// The fields of [`AIR_RECORD_FIELDS`] a caller reads, one bit each by
+/// position: those named in `wanted` ([`Args::wanted`]), or all of them when
+/// it names none ([`Args::wants`] of each, with one pass over the few names).
+fn field_mask(wanted: Option<&[String]>) -> u16 {
+    let Some(wanted) = wanted else {
+        return (1 << AIR_RECORD_FIELDS.len()) - 1;
+    };
+    wanted.iter().fold(0, |mask, name| {
+        let name = name.as_bytes();
+        match AIR_RECORD_FIELDS.iter().position(|f| f.as_bytes() == name) {
+            Some(i) => mask | 1 << i,
+            None => mask,
+        }
+    })
+}
+
 /// The record of an air state, with its payload. Warnings go to `args`.
 ///
 /// Only the fields the caller reads are computed when it says which
 /// ([`Args::wants`]; a what-if study's points), except the dew point and
 /// wet-bulb where they may fail (see below).
 pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
-    let mask = AIR_RECORD_FIELDS
-        .iter()
-        .enumerate()
-        .filter(|(_, name)| args.wants(name))
-        .fold(0u16, |m, (i, _)| m | 1 << i);
+    let mask = field_mask(args.wanted.as_deref());
     // By position in AIR_RECORD_FIELDS, found at compile time.
     macro_rules! wants {
         ($name:literal) => {
@@ -798,12 +813,14 @@ fn air_state(args: &mut Args) -> Result<Value, Diagnostic> {
     let mut count = 0;
     let mut few = [("", args.call_span); 3];
     let mut spans_len = 0;
+    let mut p_given = false;
     for (name, span) in args.given() {
         let second = ["rh", "w", "wetbulb", "dewpoint", "h"].contains(&name);
         if second {
             given[count] = name;
             count += 1;
         }
+        p_given |= name == "p";
         if (second && count == 1) || name == "T" || name == "p" {
             few[spans_len] = (name, span);
             spans_len += 1;
@@ -831,7 +848,12 @@ fn air_state(args: &mut Args) -> Result<Value, Diagnostic> {
         return Err(Diagnostic::error(span, message)
             .with_hint(format!("call it as {}", args.builtin.example)));
     }
-    let p = pressure(args)?;
+    // Without `p`, the default (inside the design range: no warning).
+    let p = if p_given {
+        pressure(args)?
+    } else {
+        Pressure::new::<pascal>(DEFAULT_P_PA)
+    };
     let state = match given[0] {
         "rh" => {
             let rh = opt_kind(args, "rh", Dim::NONE, Kind::Activity)?.unwrap_or(f64::NAN);
@@ -1228,4 +1250,49 @@ fn air_schmidt(args: &mut Args) -> Result<Value, Diagnostic> {
 
 fn air_lewis(args: &mut Args) -> Result<Value, Diagnostic> {
     Ok(q(transport_of(args)?.lewis(), Dim::NONE, Kind::Plain))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// The default pressure used without a `p` argument is the one the
+    /// parameter declares (and the one `pressure` falls back to).
+    #[test]
+    fn default_pressure_is_the_declared_one() {
+        let declared = AIR_PARAMS
+            .iter()
+            .find(|p| p.name == "p")
+            .and_then(|p| p.default);
+        assert_eq!(declared, Some("101.325 kPa"));
+        assert_eq!(DEFAULT_P_PA, 101.325e3);
+        assert!((air::P_MIN_PA..=air::P_MAX_PA).contains(&DEFAULT_P_PA));
+    }
+
+    /// The field mask has the bit of each field a caller names (and no other),
+    /// as `Args::wants` answers field by field, and every bit without names.
+    #[test]
+    fn field_mask_is_what_wants_answers() {
+        let cases: &[&[&str]] = &[
+            &[],
+            &["wetbulb"],
+            &["T", "degree_of_saturation", "payload", "nonsense"],
+            &["rho", "v", "rho"],
+        ];
+        for names in cases {
+            let wanted: Vec<String> = names.iter().map(|n| n.to_string()).collect();
+            let mask = field_mask(Some(&wanted));
+            for (i, field) in AIR_RECORD_FIELDS.iter().enumerate() {
+                assert_eq!(
+                    mask & 1 << i != 0,
+                    names.contains(field),
+                    "{names:?} {field}"
+                );
+            }
+        }
+        assert_eq!(
+            field_mask(None).count_ones() as usize,
+            AIR_RECORD_FIELDS.len()
+        );
+    }
 }
