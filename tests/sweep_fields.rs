@@ -465,3 +465,141 @@ fn air_records_passed_to_dryer_built_ins_give_the_results_of_the_whole_record() 
         );
     }
 }
+
+/// The SI magnitudes of column `name` of a sweep's table.
+fn column_si(sweep: &Record, name: &str) -> Vec<f64> {
+    let Some(Value::Table(table)) = sweep.get("table") else {
+        panic!("no table")
+    };
+    let column = table
+        .columns
+        .iter()
+        .find(|c| c.name == name)
+        .unwrap_or_else(|| panic!("no column {name}"));
+    column.cells.iter().map(|c| si(Some(c))).collect()
+}
+
+/// The sweep benchmark's worksheet (benches/air.rs) over a coarser grid, with
+/// the dry-bulb as the outer axis (each dry-bulb repeated along the humidity
+/// axis, as the engine keeps its dry-bulb terms) and as the inner one: every
+/// row of the table is the input grid, in order, and the wet-bulb the engine
+/// gives for that row's inputs, to the last bit; so is the record of a
+/// worksheet evaluated at that point alone (every fifth row); the list fields
+/// are the table's columns.
+#[test]
+fn a_sweep_table_is_the_grid_and_the_state_at_each_point() {
+    use siccant::engine::air::AirState;
+    use uom::si::f64::{Pressure, ThermodynamicTemperature};
+    use uom::si::pressure::pascal;
+    use uom::si::thermodynamic_temperature::kelvin;
+
+    let sheet = "input T = 60 degC\ninput w = 0.02 kg/kg_da\na = air(T: T, w: w)\ntwb = a.wetbulb\n\
+                 Ts = steps(50.25 degC, 150 degC, 9.5 K)\nws = steps(0.0003 kg/kg_da, 0.075 kg/kg_da, 0.0091 kg/kg_da)\n";
+    for sweep in [
+        "s = sweep([twb], T: Ts, w: ws)",
+        "s = sweep([twb], w: ws, T: Ts)",
+    ] {
+        let s = run(&format!("{sheet}{sweep}"));
+        let sweep_record = record(&s, "s");
+        let axis =
+            |name: &str| -> Vec<f64> { list(s.value(name)).iter().map(|v| si(Some(v))).collect() };
+        let (ts, ws) = (axis("Ts"), axis("ws"));
+        let (t_col, w_col, twb_col) = (
+            column_si(&sweep_record, "T"),
+            column_si(&sweep_record, "w"),
+            column_si(&sweep_record, "twb"),
+        );
+        assert_eq!(t_col.len(), ts.len() * ws.len());
+        let t_outer = sweep.contains("T: Ts, w");
+        for (row, ((&t, &w), &twb)) in t_col.iter().zip(&w_col).zip(&twb_col).enumerate() {
+            let (i, j) = if t_outer {
+                (row / ws.len(), row % ws.len())
+            } else {
+                (row % ts.len(), row / ts.len())
+            };
+            assert_eq!(
+                (t.to_bits(), w.to_bits()),
+                (ts[i].to_bits(), ws[j].to_bits()),
+                "{sweep} row {row}"
+            );
+            let state = AirState::from_w(
+                ThermodynamicTemperature::new::<kelvin>(t),
+                w,
+                Pressure::new::<pascal>(101_325.0),
+            )
+            .expect("a state below saturation");
+            let want = state.wet_bulb().expect("wet-bulb").get::<kelvin>();
+            assert_eq!(twb.to_bits(), want.to_bits(), "{sweep} row {row}");
+            if row % 5 == 0 {
+                let single = run(&format!("a = air(T: {t:?} K, w: {w:?} kg/kg_da)"));
+                let whole = record(&single, "a");
+                assert_eq!(
+                    si(whole.get("wetbulb")).to_bits(),
+                    twb.to_bits(),
+                    "{sweep} row {row}"
+                );
+            }
+        }
+        for (name, column) in [("T", &t_col), ("w", &w_col), ("twb", &twb_col)] {
+            let listed: Vec<u64> = list(sweep_record.get(name))
+                .iter()
+                .map(|v| si(Some(v)).to_bits())
+                .collect();
+            let cells: Vec<u64> = column.iter().map(|x| x.to_bits()).collect();
+            assert_eq!(listed, cells, "{sweep}: list {name}");
+        }
+    }
+}
+
+/// A sweep with failing points and a check: the failed rows show `-` and
+/// their error, the others an empty error and the check's outcome at that
+/// point, as evaluating the point alone gives it.
+#[test]
+fn failed_rows_and_checks_are_those_of_each_point_alone() {
+    let sheet =
+        "input T = 60 degC\ninput w = 0.02 kg/kg_da\na = air(T: T, w: w)\ntwb = a.wetbulb\n\
+                 check twb < 40 degC\n";
+    let s = run(&format!(
+        "{sheet}s = sweep([twb], T: [30 degC, 60 degC, 90 degC], w: [0.005 kg/kg_da, 0.03 kg/kg_da, 0.5 kg/kg_da])"
+    ));
+    let sweep = record(&s, "s");
+    let (twb, checks, errors) = (
+        column(&sweep, "twb"),
+        column(&sweep, "checks"),
+        column(&sweep, "error"),
+    );
+    let mut row = 0;
+    for t in ["30 degC", "60 degC", "90 degC"] {
+        for w in ["0.005 kg/kg_da", "0.03 kg/kg_da", "0.5 kg/kg_da"] {
+            let text = sheet
+                .replace("input T = 60 degC", &format!("input T = {t}"))
+                .replace("input w = 0.02 kg/kg_da", &format!("input w = {w}"));
+            let mut single = Session::new();
+            match single.eval(&text) {
+                Err(_) => {
+                    assert_eq!(twb[row], "-", "{t}, {w}");
+                    assert_eq!(checks[row], "-", "{t}, {w}");
+                    assert!(!errors[row].is_empty(), "{t}, {w}");
+                }
+                Ok(_) => {
+                    let shown = siccant::render::text(single.value("twb").expect("twb"));
+                    assert_eq!(twb[row], shown, "{t}, {w}");
+                    let below = si(single.value("twb")) < 313.15;
+                    let want = if below {
+                        "pass"
+                    } else {
+                        "fails: twb < 40 degC"
+                    };
+                    assert_eq!(checks[row], want, "{t}, {w}");
+                    assert!(errors[row].is_empty(), "{t}, {w}");
+                }
+            }
+            row += 1;
+        }
+    }
+    assert_eq!(row, twb.len());
+    // Each kind of row is there: failed, passing and failing the check.
+    for kind in ["-", "pass", "fails: twb < 40 degC"] {
+        assert!(checks.iter().any(|c| c == kind), "{checks:?}");
+    }
+}

@@ -497,11 +497,14 @@ fn temperature(args: &mut Args, name: &str) -> Result<ThermodynamicTemperature, 
     }
 }
 
+/// The default total pressure of `air`, Pa (its `p` parameter's default).
+const DEFAULT_P_PA: f64 = 101_325.0;
+
 /// The `p` argument, defaulting to 101.325 kPa, with a warning outside 50..200 kPa.
 fn pressure(args: &mut Args) -> Result<Pressure, Diagnostic> {
     let p = args
         .opt_quantity("p", Dim::PRESSURE)?
-        .map_or(101_325.0, |q| q.si);
+        .map_or(DEFAULT_P_PA, |q| q.si);
     if p.is_finite() && p > 0.0 && !(air::P_MIN_PA..=air::P_MAX_PA).contains(&p) {
         args.warn(format!(
             "total pressure {:.3} kPa is outside the design range 50 to 200 kPa of the humid-air formulation",
@@ -675,17 +678,29 @@ const fn const_eq(a: &str, b: &str) -> bool {
     true
 }
 
+/// The fields of [`AIR_RECORD_FIELDS`] a caller reads, one bit each by
+/// position: those named in `wanted` ([`Args::wanted`]), or all of them when
+/// it names none ([`Args::wants`] of each, with one pass over the few names).
+fn field_mask(wanted: Option<&[String]>) -> u16 {
+    let Some(wanted) = wanted else {
+        return (1 << AIR_RECORD_FIELDS.len()) - 1;
+    };
+    wanted.iter().fold(0, |mask, name| {
+        let name = name.as_bytes();
+        match AIR_RECORD_FIELDS.iter().position(|f| f.as_bytes() == name) {
+            Some(i) => mask | 1 << i,
+            None => mask,
+        }
+    })
+}
+
 /// The record of an air state, with its payload. Warnings go to `args`.
 ///
 /// Only the fields the caller reads are computed when it says which
 /// ([`Args::wants`]; a what-if study's points), except the dew point and
 /// wet-bulb where they may fail (see below).
 pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
-    let mask = AIR_RECORD_FIELDS
-        .iter()
-        .enumerate()
-        .filter(|(_, name)| args.wants(name))
-        .fold(0u16, |m, (i, _)| m | 1 << i);
+    let mask = field_mask(args.wanted.as_deref());
     // By position in AIR_RECORD_FIELDS, found at compile time.
     macro_rules! wants {
         ($name:literal) => {
@@ -790,21 +805,41 @@ pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
 
 // ---- air(...) ------------------------------------------------------------------------
 
+/// The second properties `air` takes besides T, in declaration order.
+const SECOND: [&str; 5] = ["rh", "w", "wetbulb", "dewpoint", "h"];
+
+/// The position in [`SECOND`] of the `air` parameter `name`; `None` for T and p.
+#[inline]
+fn second_property(name: &str) -> Option<usize> {
+    match name.as_bytes() {
+        b"rh" => Some(0),
+        b"w" => Some(1),
+        b"wetbulb" => Some(2),
+        b"dewpoint" => Some(3),
+        b"h" => Some(4),
+        _ => None,
+    }
+}
+
 fn air_state(args: &mut Args) -> Result<Value, Diagnostic> {
-    // The second property given (one of five, in declaration order), and
-    // the spans engine errors may blame (T, p, the second property), in one
-    // pass without allocating.
-    let mut given = [""; 5];
+    // The second properties given (positions in SECOND, in declaration
+    // order), and the spans engine errors may blame (T, p, the first second
+    // property), in one pass without allocating.
+    let mut given = [0; 5];
     let mut count = 0;
     let mut few = [("", args.call_span); 3];
     let mut spans_len = 0;
+    let mut p_given = false;
     for (name, span) in args.given() {
-        let second = ["rh", "w", "wetbulb", "dewpoint", "h"].contains(&name);
-        if second {
-            given[count] = name;
+        let second = second_property(name);
+        if let Some(k) = second {
+            given[count] = k;
             count += 1;
+        } else {
+            // T or p, the other parameters.
+            p_given |= name.as_bytes() == b"p";
         }
-        if (second && count == 1) || name == "T" || name == "p" {
+        if second.is_none() || count == 1 {
             few[spans_len] = (name, span);
             spans_len += 1;
         }
@@ -815,35 +850,26 @@ fn air_state(args: &mut Args) -> Result<Value, Diagnostic> {
     };
     let t = temperature(args, "T")?;
     if count != 1 {
-        let message = if count == 0 {
-            "`air` needs one of rh, w, wetbulb, dewpoint or h besides T".to_string()
-        } else {
-            format!(
-                "`air` takes exactly one of rh, w, wetbulb, dewpoint, h; found {}",
-                given[..count].join(", ")
-            )
-        };
-        let span = if count > 1 {
-            args.span_of(given[1])
-        } else {
-            args.call_span
-        };
-        return Err(Diagnostic::error(span, message)
-            .with_hint(format!("call it as {}", args.builtin.example)));
+        return Err(not_one_second_property(args, &given[..count]));
     }
-    let p = pressure(args)?;
+    // Without `p`, the default (inside the design range: no warning).
+    let p = if p_given {
+        pressure(args)?
+    } else {
+        Pressure::new::<pascal>(DEFAULT_P_PA)
+    };
     let state = match given[0] {
-        "rh" => {
+        0 => {
             let rh = opt_kind(args, "rh", Dim::NONE, Kind::Activity)?.unwrap_or(f64::NAN);
             AirState::from_rh(t, rh, p)
         }
-        "w" => AirState::from_w(
+        1 => AirState::from_w(
             t,
             opt_kind(args, "w", Dim::NONE, Kind::HumidityRatio)?.unwrap_or(f64::NAN),
             p,
         ),
-        "wetbulb" => AirState::from_wet_bulb(t, temperature(args, "wetbulb")?, p),
-        "dewpoint" => AirState::from_dew_point(t, temperature(args, "dewpoint")?, p),
+        2 => AirState::from_wet_bulb(t, temperature(args, "wetbulb")?, p),
+        3 => AirState::from_dew_point(t, temperature(args, "dewpoint")?, p),
         _ => {
             let h = args.quantity("h", Dim::SPECIFIC_ENERGY)?.si;
             AirState::from_enthalpy(t, AvailableEnergy::new::<joule_per_kilogram>(h), p)
@@ -852,6 +878,27 @@ fn air_state(args: &mut Args) -> Result<Value, Diagnostic> {
     .map_err(|e| spans.blame(e))?;
     args.finish()?;
     Ok(Value::Record(air_record(args, &state)?))
+}
+
+/// The error of an `air` call given no second property or more than one
+/// (`given`: their positions in [`SECOND`]).
+#[cold]
+fn not_one_second_property(args: &Args, given: &[usize]) -> Diagnostic {
+    let names: Vec<&str> = given.iter().map(|&k| SECOND[k]).collect();
+    let message = if names.is_empty() {
+        "`air` needs one of rh, w, wetbulb, dewpoint or h besides T".to_string()
+    } else {
+        format!(
+            "`air` takes exactly one of rh, w, wetbulb, dewpoint, h; found {}",
+            names.join(", ")
+        )
+    };
+    let span = if names.len() > 1 {
+        args.span_of(names[1])
+    } else {
+        args.call_span
+    };
+    Diagnostic::error(span, message).with_hint(format!("call it as {}", args.builtin.example))
 }
 
 // ---- processes --------------------------------------------------------------------------
@@ -1228,4 +1275,67 @@ fn air_schmidt(args: &mut Args) -> Result<Value, Diagnostic> {
 
 fn air_lewis(args: &mut Args) -> Result<Value, Diagnostic> {
     Ok(q(transport_of(args)?.lewis(), Dim::NONE, Kind::Plain))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// The default pressure used without a `p` argument is the one the
+    /// parameter declares (and the one `pressure` falls back to).
+    #[test]
+    fn default_pressure_is_the_declared_one() {
+        let declared = AIR_PARAMS
+            .iter()
+            .find(|p| p.name == "p")
+            .and_then(|p| p.default);
+        assert_eq!(declared, Some("101.325 kPa"));
+        assert_eq!(DEFAULT_P_PA, 101.325e3);
+        assert!((air::P_MIN_PA..=air::P_MAX_PA).contains(&DEFAULT_P_PA));
+    }
+
+    /// The second properties are `air`'s parameters other than T and p, in
+    /// declaration order, and `second_property` finds each (and neither of
+    /// the others).
+    #[test]
+    fn second_properties_are_the_parameters_besides_t_and_p() {
+        let declared: Vec<&str> = AIR_PARAMS
+            .iter()
+            .map(|p| p.name)
+            .filter(|n| *n != "T" && *n != "p")
+            .collect();
+        assert_eq!(declared, SECOND);
+        for (k, name) in SECOND.iter().enumerate() {
+            assert_eq!(second_property(name), Some(k));
+        }
+        assert_eq!(second_property("T"), None);
+        assert_eq!(second_property("p"), None);
+    }
+
+    /// The field mask has the bit of each field a caller names (and no other),
+    /// as `Args::wants` answers field by field, and every bit without names.
+    #[test]
+    fn field_mask_is_what_wants_answers() {
+        let cases: &[&[&str]] = &[
+            &[],
+            &["wetbulb"],
+            &["T", "degree_of_saturation", "payload", "nonsense"],
+            &["rho", "v", "rho"],
+        ];
+        for names in cases {
+            let wanted: Vec<String> = names.iter().map(|n| n.to_string()).collect();
+            let mask = field_mask(Some(&wanted));
+            for (i, field) in AIR_RECORD_FIELDS.iter().enumerate() {
+                assert_eq!(
+                    mask & 1 << i != 0,
+                    names.contains(field),
+                    "{names:?} {field}"
+                );
+            }
+        }
+        assert_eq!(
+            field_mask(None).count_ones() as usize,
+            AIR_RECORD_FIELDS.len()
+        );
+    }
 }

@@ -21,6 +21,7 @@ use uom::si::specific_heat_capacity::joule_per_kilogram_kelvin;
 use uom::si::specific_volume::cubic_meter_per_kilogram;
 use uom::si::thermodynamic_temperature::kelvin;
 
+use super::dry_bulb;
 use super::per_pressure::{self, with_pressure, BoilingLimits, PressureCache};
 use super::saturation::{self as sat, T_MIN_SATURATION, T_ZERO_C};
 use super::thermo::{self, EPSILON};
@@ -131,9 +132,13 @@ pub(crate) fn ws_of(t: f64, p: f64) -> Option<f64> {
 }
 
 /// Enthalpy per kg dry air, J/kg, on the ASHRAE reference.
+///
+/// `air_part_enthalpy(T, p - pv, pv) + w vapour_enthalpy(T, pv)`, with the
+/// terms of T alone kept from the last call at the same T on this thread.
 pub(crate) fn h_of(t: f64, w: f64, p: f64) -> f64 {
     let pv = pv_of(w, p);
-    thermo::air_part_enthalpy(t, p - pv, pv) + w * thermo::vapour_enthalpy(t, pv)
+    let (air, vapour) = dry_bulb::enthalpy_terms(t);
+    air.enthalpy(p - pv, pv) + w * vapour.enthalpy(pv)
 }
 
 /// Humidity ratio w at (T, p) with `h(T, w, p) - w h_c = target` (J/kg dry air).
@@ -352,7 +357,7 @@ impl AirState {
     fn new_checked(t: f64, w: f64, p: f64, w_name: &'static str) -> Result<AirState, AirError> {
         check_dry_bulb("T", t)?;
         check_pressure(p)?;
-        AirState::with_saturation(t, w, p, w_name, sat::saturated_vapour_pressure(t, p))
+        AirState::with_saturation(t, w, p, w_name, dry_bulb::saturated_vapour_pressure(t, p))
     }
 
     /// The state after T and p are checked, given `pvs = f p_ws` at (T, p).
@@ -416,7 +421,7 @@ impl AirState {
             return Err(AirError::RelativeHumidityOutOfRange { value: rh });
         }
         let rh = rh.min(1.0);
-        let pvs = sat::saturated_vapour_pressure(t, p);
+        let pvs = dry_bulb::saturated_vapour_pressure(t, p);
         let pv = rh * pvs;
         if pv >= p {
             return Err(AirError::RelativeHumidityAboveBoiling {

@@ -89,10 +89,8 @@ pub struct WithSlopes {
 /// [`air_residual_enthalpy`] with its partial derivatives.
 #[inline]
 fn air_residual_enthalpy_and_slopes(t: f64, pa: f64, pv: f64) -> WithSlopes {
-    let (baa, t_dbaa) = virial(t, &B_AIR_AIR);
-    let (baw, t_dbaw) = virial(t, &B_AIR_WATER);
+    let (d_pa, d_pv) = air_residual_per_pa(t);
     let per_kg = 1.0 / M_DRY_AIR;
-    let (d_pa, d_pv) = ((baa - t_dbaa) * per_kg, 2.0 * (baw - t_dbaw) * per_kg);
     let d_t = (pa * virial_enthalpy_slope(t, &B_AIR_AIR)
         + 2.0 * pv * virial_enthalpy_slope(t, &B_AIR_WATER))
         * per_kg;
@@ -102,6 +100,17 @@ fn air_residual_enthalpy_and_slopes(t: f64, pa: f64, pv: f64) -> WithSlopes {
         d_pa,
         d_pv,
     }
+}
+
+/// The residual enthalpy per kg dry air per Pa of dry-air and of vapour
+/// partial pressure at T (J/(kg Pa)): `(B_aa - T B_aa') / M_a` and
+/// `2 (B_aw - T B_aw') / M_a`.
+#[inline]
+fn air_residual_per_pa(t: f64) -> (f64, f64) {
+    let (baa, t_dbaa) = virial(t, &B_AIR_AIR);
+    let (baw, t_dbaw) = virial(t, &B_AIR_WATER);
+    let per_kg = 1.0 / M_DRY_AIR;
+    ((baa - t_dbaa) * per_kg, 2.0 * (baw - t_dbaw) * per_kg)
 }
 
 /// Residual enthalpy of dry air at the reference state (0 degC, 101.325 kPa), J/kg.
@@ -126,7 +135,40 @@ pub fn mixture_compressibility_excess(t: f64, p: f64, x_w: f64) -> f64 {
 /// to dry air at 0 degC and 101.325 kPa, J/kg (all of h except `w h_v`).
 #[inline]
 pub fn air_part_enthalpy(t: f64, pa: f64, pv: f64) -> f64 {
-    dry_air_enthalpy(t) + air_residual_enthalpy(t, pa, pv) - air_residual_reference()
+    AirPartTerms::at(t).enthalpy(pa, pv)
+}
+
+/// What [`air_part_enthalpy`] needs of the temperature alone, to be reused
+/// for many partial pressures at one temperature (a sweep over humidity at
+/// one dry-bulb); [`AirPartTerms::enthalpy`] is the same arithmetic, so the
+/// same bits.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct AirPartTerms {
+    /// Ideal-gas dry-air enthalpy relative to 0 degC, J/kg.
+    dry: f64,
+    /// Residual enthalpy per Pa of dry-air and of vapour partial pressure, J/(kg Pa).
+    per_pa_air: f64,
+    per_pa_vapour: f64,
+}
+
+impl AirPartTerms {
+    /// The terms at T (K).
+    #[inline]
+    pub fn at(t: f64) -> AirPartTerms {
+        let (per_pa_air, per_pa_vapour) = air_residual_per_pa(t);
+        AirPartTerms {
+            dry: dry_air_enthalpy(t),
+            per_pa_air,
+            per_pa_vapour,
+        }
+    }
+
+    /// [`air_part_enthalpy`] at the partial pressures `pa` and `pv` (Pa), J/kg.
+    #[inline]
+    pub fn enthalpy(&self, pa: f64, pv: f64) -> f64 {
+        // The residual is `air_residual_enthalpy`'s value, term by term.
+        self.dry + (pa * self.per_pa_air + pv * self.per_pa_vapour) - air_residual_reference()
+    }
 }
 
 /// [`air_part_enthalpy`] (J/kg dry air) with its partial derivatives in T
@@ -310,7 +352,7 @@ fn vapour_ideal_enthalpy_and_cp(t: f64) -> (f64, f64) {
 }
 
 /// Residual (second-virial) enthalpy of water vapour at partial pressure pv (Pa), J/kg.
-#[inline]
+#[cfg(test)]
 fn vapour_residual_enthalpy(t: f64, pv: f64) -> f64 {
     vapour_residual_enthalpy_and_slopes(t, pv).0
 }
@@ -319,21 +361,31 @@ fn vapour_residual_enthalpy(t: f64, pv: f64) -> f64 {
 /// (J/(kg K)) and pv (J/(kg Pa)).
 #[inline]
 fn vapour_residual_enthalpy_and_slopes(t: f64, pv: f64) -> (f64, f64, f64) {
+    let (inv_t, tau, g_tau, g_tau_tau) = vapour_virial_sums(t);
+    (
+        VAPOUR_RESIDUAL_SCALE * pv * g_tau,
+        -VAPOUR_RESIDUAL_SCALE * pv * g_tau_tau * tau * inv_t,
+        VAPOUR_RESIDUAL_SCALE * g_tau,
+    )
+}
+
+/// `R 540 K / 1 MPa`: the residual enthalpy of water vapour is this times
+/// pv times the virial sum g_tau, J/(kg Pa).
+const VAPOUR_RESIDUAL_SCALE: f64 = R_WATER_IF97 * 540.0 * 1e-6;
+
+/// `1/T`, `tau = 540 K / T` and the IF97 virial sums `sum n J x^(J-1)` and
+/// `sum n J (J-1) x^(J-2)` over the table (J = 0, 1, 2, 3, 6), written out,
+/// with `x = tau - 0.5`.
+#[inline]
+fn vapour_virial_sums(t: f64) -> (f64, f64, f64, f64) {
     let inv_t = 1.0 / t;
     let tau = 540.0 * inv_t;
     let x = tau - 0.5;
-    // sum n J x^(J-1) and sum n J (J-1) x^(J-2) over the table (J = 0, 1, 2, 3, 6),
-    // written out.
     let n = |i: usize| IF97_VIRIAL[i].1;
     let (x2, x4) = (x * x, x * x * x * x);
     let g_tau = n(1) + 2.0 * n(2) * x + 3.0 * n(3) * x2 + 6.0 * n(4) * (x4 * x);
     let g_tau_tau = 2.0 * n(2) + 6.0 * n(3) * x + 30.0 * n(4) * x4;
-    let scale = R_WATER_IF97 * 540.0 * 1e-6;
-    (
-        scale * pv * g_tau,
-        -scale * pv * g_tau_tau * tau * inv_t,
-        scale * g_tau,
-    )
+    (inv_t, tau, g_tau, g_tau_tau)
 }
 
 /// Compressibility excess `Z - 1` of water vapour at partial pressure pv (Pa), second-virial level.
@@ -349,7 +401,36 @@ pub fn vapour_compressibility_excess(t: f64, pv: f64) -> f64 {
 /// liquid water at 0 degC, J/kg.
 #[inline]
 pub fn vapour_enthalpy(t: f64, pv: f64) -> f64 {
-    vapour_ideal_enthalpy_if97(t) + vapour_residual_enthalpy(t, pv) - H_LIQUID_0C_IF97
+    VapourTerms::at(t).enthalpy(pv)
+}
+
+/// What [`vapour_enthalpy`] needs of the temperature alone, to be reused for
+/// many vapour pressures at one temperature; [`VapourTerms::enthalpy`] is the
+/// same arithmetic, so the same bits.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct VapourTerms {
+    /// Ideal-gas enthalpy on the IF97 reference, J/kg.
+    ideal: f64,
+    /// The IF97 virial sum g_tau of the residual enthalpy.
+    g_tau: f64,
+}
+
+impl VapourTerms {
+    /// The terms at T (K).
+    #[inline]
+    pub fn at(t: f64) -> VapourTerms {
+        VapourTerms {
+            ideal: vapour_ideal_enthalpy_if97(t),
+            g_tau: vapour_virial_sums(t).2,
+        }
+    }
+
+    /// [`vapour_enthalpy`] at the vapour partial pressure `pv` (Pa), J/kg.
+    #[inline]
+    pub fn enthalpy(&self, pv: f64) -> f64 {
+        // The residual is `vapour_residual_enthalpy`'s value.
+        self.ideal + VAPOUR_RESIDUAL_SCALE * pv * self.g_tau - H_LIQUID_0C_IF97
+    }
 }
 
 /// [`vapour_enthalpy`] (J/kg) with its partial derivatives in T (J/(kg K)) and
@@ -507,6 +588,28 @@ mod tests {
                 "T={t}: {ours} vs {want}"
             );
             t += 0.37;
+        }
+    }
+
+    /// The enthalpies from the terms of T alone against the sums they stand
+    /// for (the ideal part, the residual from its slopes' function, the
+    /// reference), bit for bit, -100..350 degC, dry to nearly pure vapour.
+    #[test]
+    fn temperature_terms_give_the_same_enthalpies() {
+        let mut t = 173.15;
+        while t < 623.2 {
+            for (pa, pv) in [(101_325.0, 0.0), (95e3, 6e3), (50e3, 50e3), (1e3, 199e3)] {
+                let air = dry_air_enthalpy(t) + air_residual_enthalpy(t, pa, pv)
+                    - air_residual_reference();
+                assert_eq!(
+                    AirPartTerms::at(t).enthalpy(pa, pv).to_bits(),
+                    air.to_bits()
+                );
+                let vapour = vapour_ideal_enthalpy_if97(t) + vapour_residual_enthalpy(t, pv)
+                    - H_LIQUID_0C_IF97;
+                assert_eq!(VapourTerms::at(t).enthalpy(pv).to_bits(), vapour.to_bits());
+            }
+            t += 0.173;
         }
     }
 

@@ -49,19 +49,30 @@ impl Ctx<'_> {
         let model = Model::build(self, varied, probes, true, span)?;
         let points = grid(&axes);
         let outcomes = model.eval_many(&points, "sweep", span)?;
+        drop(points);
         self.point_warnings(&outcomes, span);
-        let table = sweep_table(&model, &names, &points, &outcomes);
         let plot = sweep_plot(&model, &names, &axes, &outcomes);
         let failed = outcomes.iter().filter(|o| o.values.is_err()).count();
+        let table = sweep_table(&model, &names, &axes, outcomes);
+        // Each column also as a list field, unless a field of that name came
+        // first (a repeated probe, or one named like the fields above).
+        let fixed = ["table", "plot", "points", "failed"];
+        let mut lists: Vec<(&str, Value)> = Vec::new();
+        for c in &table.columns {
+            let taken = fixed.contains(&c.name.as_str()) || lists.iter().any(|(n, _)| *n == c.name);
+            if !taken && c.name != "checks" && c.name != "error" {
+                lists.push((&c.name, Value::List(c.cells.clone())));
+            }
+        }
+        let lists: Vec<(String, Value)> =
+            lists.into_iter().map(|(n, v)| (n.to_string(), v)).collect();
         let mut record = Record::new("sweep")
-            .with("table", Value::Table(table.clone()))
+            .with("table", Value::Table(table))
             .with("plot", Value::Plot(Arc::new(plot)))
             .with("points", number(total))
             .with("failed", number(failed));
-        for c in table.columns {
-            if record.get(&c.name).is_none() && c.name != "checks" && c.name != "error" {
-                record = record.with(c.name, Value::List(c.cells));
-            }
+        for (name, list) in lists {
+            record = record.with(name, list);
         }
         Ok(Value::Record(record))
     }
@@ -117,17 +128,21 @@ impl Ctx<'_> {
 /// Every combination of the axes' values, the first axis varying slowest.
 pub(super) fn grid(axes: &[Vec<f64>]) -> Vec<Vec<f64>> {
     let total: usize = axes.iter().map(Vec::len).product();
-    (0..total)
-        .map(|mut i| {
-            // Point i in mixed radix, the last axis varying fastest.
-            let mut point = vec![0.0; axes.len()];
-            for (x, axis) in point.iter_mut().zip(axes).rev() {
-                *x = axis[i % axis.len()];
-                i /= axis.len();
+    let mut points = Vec::with_capacity(total);
+    // The index on each axis, counted up like an odometer, the last axis
+    // turning fastest.
+    let mut at = vec![0; axes.len()];
+    for _ in 0..total {
+        points.push(at.iter().zip(axes).map(|(&i, axis)| axis[i]).collect());
+        for (i, axis) in at.iter_mut().zip(axes).rev() {
+            *i += 1;
+            if *i < axis.len() {
+                break;
             }
-            point
-        })
-        .collect()
+            *i = 0;
+        }
+    }
+    points
 }
 
 /// A plain number value.
@@ -158,12 +173,31 @@ fn axis_label(name: &str, unit: Option<&Unit>) -> String {
     }
 }
 
+/// The values of input `i` at every point of the grid, in its order: each
+/// value of its axis repeated for the points of the axes after it, the whole
+/// run repeated for the points of the axes before it.
+fn input_cells(v: &Varied, axes: &[Vec<f64>], i: usize) -> Vec<Value> {
+    let before: usize = axes[..i].iter().map(Vec::len).product();
+    let after: usize = axes[i + 1..].iter().map(Vec::len).product();
+    let mut cells = Vec::with_capacity(before * axes[i].len() * after);
+    for _ in 0..before {
+        for &si in &axes[i] {
+            cells.extend(std::iter::repeat_with(|| v.shown(si)).take(after));
+        }
+    }
+    cells
+}
+
+/// The table of a sweep: a column per input and per probe, then the checks
+/// and the errors where there are any. Takes the outcomes, whose values
+/// become the cells.
 fn sweep_table(
     model: &Model,
     names: &[String],
-    points: &[Vec<f64>],
-    outcomes: &[Outcome],
+    axes: &[Vec<f64>],
+    outcomes: Vec<Outcome>,
 ) -> Table {
+    let n = outcomes.len();
     let mut columns: Vec<Column> = model
         .inputs
         .iter()
@@ -171,44 +205,54 @@ fn sweep_table(
         .map(|(i, v)| Column {
             name: v.name.clone(),
             unit: v.unit.clone().or_else(|| Some(default_unit(&v.base))),
-            cells: points.iter().map(|p| v.shown(p[i])).collect(),
+            cells: input_cells(v, axes, i),
         })
         .collect();
+    let inputs = columns.len();
     for (k, name) in names.iter().enumerate() {
-        let cells = outcomes
-            .iter()
-            .map(|o| match &o.values {
-                Ok(vals) => vals[k].clone(),
-                Err(_) => Value::Str("-".into()),
-            })
-            .collect();
         columns.push(Column {
             name: name.clone(),
-            unit: probe_unit(outcomes, k),
-            cells,
+            unit: probe_unit(&outcomes, k),
+            cells: Vec::with_capacity(n),
         });
     }
-    if !model.rules.is_empty() {
-        let cells = outcomes
-            .iter()
-            .map(|o| Value::Str(rules_text(model, o)))
-            .collect();
-        columns.push(Column {
-            name: "checks".into(),
-            unit: None,
-            cells,
-        });
+    let mut checks = (!model.rules.is_empty()).then(|| Vec::with_capacity(n));
+    let mut errors = outcomes
+        .iter()
+        .any(|o| o.values.is_err())
+        .then(|| Vec::with_capacity(n));
+    let probes = &mut columns[inputs..];
+    for o in outcomes {
+        if let Some(checks) = &mut checks {
+            checks.push(Value::Str(rules_text(model, &o)));
+        }
+        match o.values {
+            Ok(values) => {
+                for (column, value) in probes.iter_mut().zip(values) {
+                    column.cells.push(value);
+                }
+                if let Some(errors) = &mut errors {
+                    errors.push(Value::Str(String::new()));
+                }
+            }
+            Err(message) => {
+                for column in probes.iter_mut() {
+                    column.cells.push(Value::Str("-".into()));
+                }
+                if let Some(errors) = &mut errors {
+                    errors.push(Value::Str(message));
+                }
+            }
+        }
     }
-    if outcomes.iter().any(|o| o.values.is_err()) {
-        let cells = outcomes
-            .iter()
-            .map(|o| Value::Str(o.values.as_ref().err().cloned().unwrap_or_default()))
-            .collect();
-        columns.push(Column {
-            name: "error".into(),
-            unit: None,
-            cells,
-        });
+    for (name, cells) in [("checks", checks), ("error", errors)] {
+        if let Some(cells) = cells {
+            columns.push(Column {
+                name: name.into(),
+                unit: None,
+                cells,
+            });
+        }
     }
     let over: Vec<&str> = model.inputs.iter().map(|v| v.name.as_str()).collect();
     Table {
