@@ -245,3 +245,28 @@ fn help_names_the_interrupt_exit_code() {
     let stdout = String::from_utf8_lossy(&out.stdout);
     assert!(stdout.contains("130 stopped by Ctrl-C"), "{stdout}");
 }
+
+#[test]
+fn a_reader_that_stops_early_does_not_crash_the_run() {
+    // `siccant run sheet | head`: the reader closes the pipe after a few
+    // lines. The run must not panic on the broken pipe, and its exit status
+    // stays that of the worksheet. The table is far larger than a pipe's
+    // buffer (64 KiB on Linux), so the run is still writing when the reader
+    // has gone.
+    let (_dir, path) = sheet(
+        "input T = 60 degC\na = air(T: T, rh: 20 %)\nt = a.wetbulb\n\
+         s = sweep([t], T: steps(20 degC, 120 degC, 0.02 K))\n",
+    );
+    let mut child = Command::new(env!("CARGO_BIN_EXE_siccant"))
+        .args(["run", path.to_str().unwrap()])
+        .env("NO_COLOR", "1")
+        .stdout(std::process::Stdio::piped())
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .expect("binary runs");
+    drop(child.stdout.take());
+    let out = child.wait_with_output().expect("run ends");
+    let stderr = String::from_utf8_lossy(&out.stderr);
+    assert!(!stderr.contains("panicked"), "{stderr}");
+    assert_eq!(out.status.code(), Some(0), "{stderr}");
+}

@@ -176,7 +176,7 @@ fn run(file: &Path, set: &[String], format: Format) -> i32 {
     };
     print_diagnostics(&session, &output.warnings);
     let shown = format::shown_texts(&text);
-    print!("{}", format::render(&session, &output, &shown, format));
+    emit(&format::render(&session, &output, &shown, format));
     let failed = output
         .items
         .iter()
@@ -236,13 +236,13 @@ fn record(file: &Path, output: &Path, set: &[String], reproducible: bool) -> i32
         return EXIT_USAGE;
     }
     let failed = data.failed_checks();
-    println!(
-        "wrote {} ({} values, {} of {} checks pass)",
+    emit(&format!(
+        "wrote {} ({} values, {} of {} checks pass)\n",
         output.display(),
         data.entries.len(),
         data.checks.len() - failed,
         data.checks.len()
-    );
+    ));
     if failed > 0 {
         EXIT_CHECK
     } else {
@@ -312,11 +312,11 @@ fn check(file: &Path) -> i32 {
         Ok(out) => {
             print_diagnostics(&session, &out.warnings);
             let total = format::statement_count(&text);
-            println!(
-                "{}: no errors found ({})",
+            emit(&format!(
+                "{}: no errors found ({})\n",
                 file.display(),
                 check_detail(&session, &out.items, total)
-            );
+            ));
             EXIT_OK
         }
         Err(diags) => {
@@ -371,27 +371,41 @@ is only known after a run (tables, plots, fits, dryer results, what-if studies, 
     )
 }
 
+/// Write `text` to standard output. A reader that has gone away (`siccant run
+/// sheet.sicc | head`) is not a fault of the worksheet: the rest of the text is
+/// dropped quietly and the exit status stays that of the run. Other write
+/// errors (a full disk) are reported on standard error.
+fn emit(text: &str) {
+    use std::io::Write;
+    let mut out = std::io::stdout().lock();
+    if let Err(e) = out.write_all(text.as_bytes()).and_then(|()| out.flush()) {
+        if e.kind() != std::io::ErrorKind::BrokenPipe {
+            eprintln!("error: cannot write the output: {e}");
+        }
+    }
+}
+
 /// `siccant help [NAME]`.
 fn help(name: Option<&str>, markdown: bool) -> i32 {
     if markdown {
-        print!("{}", builtins_markdown());
+        emit(&builtins_markdown());
         return EXIT_OK;
     }
     match name {
         None => {
-            print!("{}", overview());
+            emit(&overview());
             EXIT_OK
         }
         Some("units") => {
-            println!(
-                "Units (SI prefixes apply where sensible):\n{}",
+            emit(&format!(
+                "Units (SI prefixes apply where sensible):\n{}\n",
                 crate::units::unit_names().join(" ")
-            );
+            ));
             EXIT_OK
         }
         Some(n) => match Session::new().help(n) {
             Some(text) => {
-                println!("{text}");
+                emit(&format!("{text}\n"));
                 EXIT_OK
             }
             None => {
