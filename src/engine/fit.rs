@@ -75,8 +75,10 @@ pub trait Model {
     }
 
     /// Values at every point (into `values`) and analytic derivatives
-    /// (into `gradients`, row-major `n x p`) in one call; `false` when the
-    /// model has no derivatives. The default calls
+    /// (into `gradients`, by parameter: the derivative in parameter `j` at
+    /// point `i` is `gradients[j * n + i]`, so each derivative's values lie
+    /// side by side as the vectorised sums read them) in one call; `false`
+    /// when the model has no derivatives. The default calls
     /// [`Model::value_and_gradient`] point by point; a model can do better by
     /// choosing its formula once and running one tight loop over the points.
     fn values_and_gradients(
@@ -98,15 +100,22 @@ pub fn point_by_point<M: Model + ?Sized>(
     values: &mut [f64],
     gradients: &mut [f64],
 ) -> bool {
-    let p = params.len();
-    for (i, (v, g)) in values
-        .iter_mut()
-        .zip(gradients.chunks_exact_mut(p))
-        .enumerate()
-    {
+    let (n, p) = (values.len(), params.len());
+    let mut stack = [0.0; STACK_PARAMS];
+    let mut heap;
+    let g = if p <= STACK_PARAMS {
+        &mut stack[..p]
+    } else {
+        heap = vec![0.0; p];
+        &mut heap[..]
+    };
+    for (i, v) in values.iter_mut().enumerate() {
         match model.value_and_gradient(params, i, g) {
             Some(f) => *v = f,
             None => return false,
+        }
+        for (j, &gj) in g.iter().enumerate() {
+            gradients[j * n + i] = gj;
         }
     }
     true
