@@ -186,19 +186,6 @@ macro_rules! widest_vectors {
 }
 pub(crate) use widest_vectors;
 
-widest_vectors! {
-    /// `ln` of every value, in place: one loop of [`ln`], compiled for AVX2
-    /// and AVX-512 as well (see [`widest_vectors`]).
-    pub fn ln_in_place(values: &mut [f64]) => ln_loop;
-}
-
-#[inline(always)]
-fn ln_loop(values: &mut [f64]) {
-    for v in values {
-        *v = ln(*v);
-    }
-}
-
 /// `2^54`, to bring subnormal numbers into the normal range.
 const TWO_TO_54: f64 = 18_014_398_509_481_984.0;
 
@@ -325,15 +312,5 @@ mod tests {
         assert_eq!(ln(-0.0), f64::NEG_INFINITY);
         assert_eq!(ln(f64::INFINITY), f64::INFINITY);
         assert!(ln(-1.0).is_nan() && ln(f64::NAN).is_nan() && ln(f64::NEG_INFINITY).is_nan());
-    }
-
-    #[test]
-    fn ln_in_place_matches_ln() {
-        let mut values: Vec<f64> = (0..1003).map(|i| 0.37 * i as f64 - 3.0).collect();
-        let expected: Vec<f64> = values.iter().map(|&v| ln(v)).collect();
-        ln_in_place(&mut values);
-        for (a, b) in values.iter().zip(&expected) {
-            assert!(a.to_bits() == b.to_bits() || (a.is_nan() && b.is_nan()));
-        }
     }
 }
