@@ -160,7 +160,8 @@ impl ThinLayerModel {
     /// row-major `p x p`.
     fn rescale_derivatives(self, p: &[f64], r: f64) -> Vec<f64> {
         let q = p.len();
-        let factors = self.rescale(&vec![1.0; q], r);
+        // (At most four parameters.)
+        let factors = self.rescale(&[1.0; 4][..q], r);
         let mut m = vec![0.0; q * q];
         for (j, f) in factors.iter().enumerate() {
             m[j * q + j] = *f;

@@ -179,18 +179,27 @@ fn accumulate<const P: usize>(
 /// sums, one per lane, which the compiler keeps in vector registers.
 const LANES: usize = 8;
 
-/// Partial sums kept per lane: the sum of squares, the gradient and the
-/// lower triangle of the normal matrix, for up to [`MAX_PARAMS`] parameters.
-const ROWS: usize = 1 + MAX_PARAMS + MAX_PARAMS * (MAX_PARAMS + 1) / 2;
+/// Fewer points than this are summed one by one ([`accumulate`]): the lane
+/// sums' fixed work (clearing, adding up and returning their rows) would
+/// outweigh what the lanes save.
+const SHORT: usize = 3 * LANES;
 
-/// One partial sum per row and lane, in the order of [`add_block`].
-type LaneRows = [[f64; LANES]; ROWS];
+/// Partial sums kept per lane for `p` parameters: the sum of squares, the
+/// gradient and the lower triangle of the normal matrix.
+const fn rows_for(p: usize) -> usize {
+    1 + p + p * (p + 1) / 2
+}
+
+/// One partial sum per row and lane (`R` rows: [`rows_for`]), in the order
+/// of [`add_block`].
+type LaneRows<const R: usize> = [[f64; LANES]; R];
 
 /// The sums of an analytic model from its stored derivatives (by
 /// parameter, `P x n`: see [`Model::values_and_gradients`]), as
 /// [`accumulate`] gives them (to rounding: the points are summed in
 /// [`LANES`] interleaved partial sums, added at the end in a fixed order, so
-/// the result does not depend on the instruction set).
+/// the result does not depend on the instruction set); fewer than [`SHORT`]
+/// points by [`accumulate`] itself.
 ///
 /// The first pass does not test each derivative for a finite value: one that
 /// is not finite makes its diagonal sum of squares not finite (a square is
@@ -199,13 +208,21 @@ type LaneRows = [[f64; LANES]; ROWS];
 /// every derivative finite both passes give the same bits. `Err(point)` at
 /// the first point whose residual is not finite (looked for only when the
 /// sum of squares is not finite).
-fn analytic_sums<const P: usize>(
+fn analytic_sums<const P: usize, const R: usize>(
     y: &[f64],
     weights: &[f64],
     fitted: &[f64],
     gradients: &[f64],
 ) -> Result<Sums, usize> {
-    let sums = lane_totals::<P>(&unchecked_rows::<P>(y, weights, fitted, gradients));
+    if y.len() < SHORT {
+        let n = y.len();
+        return accumulate::<P>(y, weights, fitted, |i, g| {
+            for (j, gj) in g.iter_mut().enumerate() {
+                *gj = gradients[j * n + i];
+            }
+        });
+    }
+    let sums = lane_totals::<P, R>(&unchecked_rows::<P, R>(y, weights, fitted, gradients));
     if !sums.chi2.is_finite() {
         let bad = (0..y.len()).find(|&i| !(weights[i] * (fitted[i] - y[i])).is_finite());
         if let Some(i) = bad {
@@ -215,7 +232,7 @@ fn analytic_sums<const P: usize>(
     if (0..P).all(|j| sums.matrix[j][j].is_finite()) {
         return Ok(sums);
     }
-    Ok(lane_totals::<P>(&checked_rows::<P>(
+    Ok(lane_totals::<P, R>(&checked_rows::<P, R>(
         y, weights, fitted, gradients,
     )))
 }
@@ -223,43 +240,43 @@ fn analytic_sums<const P: usize>(
 widest_vectors! {
     /// The lane sums of [`analytic_sums`], every derivative taken as it is;
     /// compiled for AVX2 and AVX-512 as well (see [`widest_vectors`]).
-    fn unchecked_rows[const P: usize](
+    fn unchecked_rows[const P: usize, const R: usize](
         y: &[f64],
         weights: &[f64],
         fitted: &[f64],
         gradients: &[f64],
-    ) -> LaneRows => lane_rows_unchecked::<P>;
+    ) -> LaneRows<R> => lane_rows_unchecked::<P, R>;
 }
 
 widest_vectors! {
     /// The lane sums of [`analytic_sums`], a derivative that is not finite
     /// counted as zero; compiled for AVX2 and AVX-512 as well.
-    fn checked_rows[const P: usize](
+    fn checked_rows[const P: usize, const R: usize](
         y: &[f64],
         weights: &[f64],
         fitted: &[f64],
         gradients: &[f64],
-    ) -> LaneRows => lane_rows_checked::<P>;
+    ) -> LaneRows<R> => lane_rows_checked::<P, R>;
 }
 
 #[inline(always)]
-fn lane_rows_unchecked<const P: usize>(
+fn lane_rows_unchecked<const P: usize, const R: usize>(
     y: &[f64],
     weights: &[f64],
     fitted: &[f64],
     gradients: &[f64],
-) -> LaneRows {
-    lane_rows::<P, false>(y, weights, fitted, gradients)
+) -> LaneRows<R> {
+    lane_rows::<P, R, false>(y, weights, fitted, gradients)
 }
 
 #[inline(always)]
-fn lane_rows_checked<const P: usize>(
+fn lane_rows_checked<const P: usize, const R: usize>(
     y: &[f64],
     weights: &[f64],
     fitted: &[f64],
     gradients: &[f64],
-) -> LaneRows {
-    lane_rows::<P, true>(y, weights, fitted, gradients)
+) -> LaneRows<R> {
+    lane_rows::<P, R, true>(y, weights, fitted, gradients)
 }
 
 /// The partial sums of every lane; with `ZERO_BAD`, a weighted derivative
@@ -269,15 +286,16 @@ fn lane_rows_checked<const P: usize>(
 /// that is only ever read or written a whole row at a time, and are added
 /// up by the caller: so the compiler keeps each row in a vector register.)
 #[inline(always)]
-fn lane_rows<const P: usize, const ZERO_BAD: bool>(
+fn lane_rows<const P: usize, const R: usize, const ZERO_BAD: bool>(
     y: &[f64],
     weights: &[f64],
     fitted: &[f64],
     gradients: &[f64],
-) -> LaneRows {
+) -> LaneRows<R> {
+    const { assert!(R == rows_for(P)) };
     let n = y.len();
     let columns: [&[f64]; P] = std::array::from_fn(|j| &gradients[j * n..(j + 1) * n]);
-    let mut rows = [[0.0; LANES]; ROWS];
+    let mut rows = [[0.0; LANES]; R];
     let whole = n - n % LANES;
     let blocks = y[..whole]
         .chunks_exact(LANES)
@@ -287,7 +305,7 @@ fn lane_rows<const P: usize, const ZERO_BAD: bool>(
     for (block, ((y, w), f)) in blocks {
         let start = block * LANES;
         let d: [&[f64]; P] = std::array::from_fn(|j| &columns[j][start..start + LANES]);
-        add_block::<P, ZERO_BAD>(&mut rows, y, w, f, d);
+        add_block::<P, R, ZERO_BAD>(&mut rows, y, w, f, d);
     }
     if whole < n {
         let pad = |v: &[f64]| {
@@ -298,7 +316,7 @@ fn lane_rows<const P: usize, const ZERO_BAD: bool>(
         let (y, w, f) = (pad(y), pad(weights), pad(fitted));
         let d: [[f64; LANES]; P] = std::array::from_fn(|j| pad(columns[j]));
         let d: [&[f64]; P] = std::array::from_fn(|j| &d[j][..]);
-        add_block::<P, ZERO_BAD>(&mut rows, &y, &w, &f, d);
+        add_block::<P, R, ZERO_BAD>(&mut rows, &y, &w, &f, d);
     }
     rows
 }
@@ -307,8 +325,8 @@ fn lane_rows<const P: usize, const ZERO_BAD: bool>(
 /// squares, then for each parameter `a` its gradient and the normal matrix
 /// entries `(a, b)`, `b <= a`.
 #[inline(always)]
-fn add_block<const P: usize, const ZERO_BAD: bool>(
-    rows: &mut LaneRows,
+fn add_block<const P: usize, const R: usize, const ZERO_BAD: bool>(
+    rows: &mut LaneRows<R>,
     y: &[f64],
     w: &[f64],
     f: &[f64],
@@ -346,7 +364,7 @@ fn add_block<const P: usize, const ZERO_BAD: bool>(
 }
 
 /// The sums from the partial sums of the lanes, added in a fixed order.
-fn lane_totals<const P: usize>(rows: &LaneRows) -> Sums {
+fn lane_totals<const P: usize, const R: usize>(rows: &LaneRows<R>) -> Sums {
     let total =
         |l: &[f64; LANES]| ((l[0] + l[1]) + (l[2] + l[3])) + ((l[4] + l[5]) + (l[6] + l[7]));
     let mut sums = Sums::empty();
@@ -405,10 +423,15 @@ impl Data<'_> {
             if !self.model.values_and_gradients(x, fitted, gradients) {
                 return Err(0);
             }
-            return for_count!(
-                self.p,
-                analytic_sums(self.y, self.weights, fitted, gradients)
-            );
+            let (y, w) = (self.y, self.weights);
+            return match self.p {
+                1 => analytic_sums::<1, { rows_for(1) }>(y, w, fitted, gradients),
+                2 => analytic_sums::<2, { rows_for(2) }>(y, w, fitted, gradients),
+                3 => analytic_sums::<3, { rows_for(3) }>(y, w, fitted, gradients),
+                4 => analytic_sums::<4, { rows_for(4) }>(y, w, fitted, gradients),
+                5 => analytic_sums::<5, { rows_for(5) }>(y, w, fitted, gradients),
+                _ => analytic_sums::<6, { rows_for(6) }>(y, w, fitted, gradients),
+            };
         }
         let mut chi2 = 0.0;
         for (i, f) in fitted.iter_mut().enumerate() {
@@ -761,7 +784,8 @@ mod tests {
     /// The lane sums against the point-by-point sums (to rounding), and the
     /// processor's widest variant against the portable one bit for bit; with
     /// a derivative that is not finite (the sums made again with it counted
-    /// as zero) and without (the first sums kept).
+    /// as zero) and without (the first sums kept). Fewer than [`SHORT`]
+    /// points are summed point by point.
     #[test]
     fn lane_sums_match_point_by_point_sums() {
         // Whole blocks and a short one, whole blocks only, a short one only.
@@ -774,28 +798,37 @@ mod tests {
                 d[n + n / 3] = 0.25;
             }
             let plain = plain_sums(&y, &w, &f, &d).unwrap();
-            let lanes = analytic_sums::<3>(&y, &w, &f, &d).unwrap();
-            let rows = if bad {
-                lane_rows::<3, true>(&y, &w, &f, &d)
+            let (widest, portable) = if bad {
+                (
+                    checked_rows::<3, 10>(&y, &w, &f, &d),
+                    lane_rows::<3, 10, true>(&y, &w, &f, &d),
+                )
             } else {
-                lane_rows::<3, false>(&y, &w, &f, &d)
+                (
+                    unchecked_rows::<3, 10>(&y, &w, &f, &d),
+                    lane_rows::<3, 10, false>(&y, &w, &f, &d),
+                )
             };
-            let portable = lane_totals::<3>(&rows);
+            let lanes = lane_totals::<3, 10>(&widest);
+            let portable = lane_totals::<3, 10>(&portable);
+            let chosen = analytic_sums::<3, 10>(&y, &w, &f, &d).unwrap();
+            let expected = if n < SHORT { &plain } else { &lanes };
             let close = |a: f64, b: f64| (a - b).abs() <= 1e-13 * b.abs().max(1e-300);
-            assert!(close(lanes.chi2, plain.chi2));
-            assert_eq!(lanes.chi2.to_bits(), portable.chi2.to_bits());
+            let same = |a: f64, b: f64| a.to_bits() == b.to_bits();
+            assert!(close(lanes.chi2, plain.chi2), "{n}");
+            assert!(same(lanes.chi2, portable.chi2) && same(chosen.chi2, expected.chi2));
             for a in 0..3 {
-                assert!(close(lanes.gradient[a], plain.gradient[a]), "gradient {a}");
-                assert_eq!(lanes.gradient[a].to_bits(), portable.gradient[a].to_bits());
+                assert!(
+                    close(lanes.gradient[a], plain.gradient[a]),
+                    "{n}: gradient {a}"
+                );
+                assert!(same(lanes.gradient[a], portable.gradient[a]));
+                assert!(same(chosen.gradient[a], expected.gradient[a]));
                 for b in 0..3 {
-                    assert!(
-                        close(lanes.matrix[a][b], plain.matrix[a][b]),
-                        "matrix {a} {b}"
-                    );
-                    assert_eq!(
-                        lanes.matrix[a][b].to_bits(),
-                        portable.matrix[a][b].to_bits()
-                    );
+                    let (l, p) = (lanes.matrix[a][b], plain.matrix[a][b]);
+                    assert!(close(l, p), "{n}: matrix {a} {b}");
+                    assert!(same(l, portable.matrix[a][b]));
+                    assert!(same(chosen.matrix[a][b], expected.matrix[a][b]));
                 }
             }
         }
@@ -810,12 +843,12 @@ mod tests {
         d[y.len() + y.len() / 3] = -3.5;
         let pairs = [
             (
-                unchecked_rows::<3>(&y, &w, &f, &d),
-                checked_rows::<3>(&y, &w, &f, &d),
+                unchecked_rows::<3, 10>(&y, &w, &f, &d),
+                checked_rows::<3, 10>(&y, &w, &f, &d),
             ),
             (
-                lane_rows::<3, false>(&y, &w, &f, &d),
-                lane_rows::<3, true>(&y, &w, &f, &d),
+                lane_rows::<3, 10, false>(&y, &w, &f, &d),
+                lane_rows::<3, 10, true>(&y, &w, &f, &d),
             ),
         ];
         for (fast, checked) in pairs {
@@ -832,7 +865,7 @@ mod tests {
         let (y, w, mut f, d) = sample_sums_data();
         f[150] = f64::NAN;
         f[201] = f64::INFINITY;
-        assert_eq!(analytic_sums::<3>(&y, &w, &f, &d).err(), Some(150));
+        assert_eq!(analytic_sums::<3, 10>(&y, &w, &f, &d).err(), Some(150));
         assert_eq!(plain_sums(&y, &w, &f, &d).err(), Some(150));
     }
 }
