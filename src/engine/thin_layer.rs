@@ -301,8 +301,11 @@ fn transform_loop(times_s: &[f64], ratios: &[f64], scale: f64, ln_scale: f64, co
     for i in 0..n {
         let (t, m) = (times_s[i], ratios[i]);
         let ln_t = batch::ln(t) - ln_scale;
-        let ln_m = batch::ln(m);
-        let ln_minus_ln_m = batch::ln(-ln_m);
+        // The linearised forms give start values only: their logarithms
+        // need not be correctly rounded (those of the points left out are
+        // masked below).
+        let ln_m = batch::ln_for_start(m);
+        let ln_minus_ln_m = batch::ln_for_start(-ln_m);
         let used = t > 0.0 && m > 0.0 && m < 1.0;
         let pick = |v: f64| if used { v } else { 0.0 };
         scaled[i] = t / scale;
@@ -878,11 +881,12 @@ mod tests {
 
     /// The pass that fills the columns, with the processor's widest
     /// instructions, against the portable loop bit for bit and against the
-    /// library `ln` within one unit in the last place (of the values of
-    /// the points kept; the others are zero).
+    /// library `ln`: `ln t` within rounding, the linearised forms (start
+    /// values only, from [`batch::ln_for_start`]) within 4e-12 relative, for
+    /// the points kept; the others are zero.
     #[test]
     fn transformed_points_match_library_values() {
-        let within_ulp = |a: f64, b: f64| (a - b).abs() <= f64::EPSILON * b.abs();
+        let close = |a: f64, b: f64| (a - b).abs() <= 4e-12 * b.abs();
         for (times, mr) in sample_curves() {
             let n = times.len();
             let scale = times[n - 1];
@@ -905,19 +909,14 @@ mod tests {
                 }
                 if kept {
                     let ln_m = m.ln();
-                    assert!(within_ulp(get(Column::LnRatio), ln_m), "{i}");
-                    // ln(-ln MR) near 0 carries the rounding of -ln MR (near 1).
+                    assert!(close(get(Column::LnRatio), ln_m), "{i}");
+                    // ln(-ln MR) near 0 carries the error of -ln MR (near 1).
                     let power_y = (-ln_m).ln();
-                    assert!(
-                        (get(Column::PowerY) - power_y).abs()
-                            <= 2.0 * f64::EPSILON * power_y.abs().max(1.0)
-                    );
+                    let error = (get(Column::PowerY) - power_y).abs();
+                    assert!(error <= 4e-12 * power_y.abs().max(1.0), "{i}");
                     assert_eq!(get(Column::PowerX), get(Column::LnScaled));
                     assert_eq!(get(Column::RatioWeight), m * m);
-                    assert!(within_ulp(
-                        get(Column::PowerWeight).sqrt(),
-                        (m * ln_m).abs()
-                    ));
+                    assert!(close(get(Column::PowerWeight).sqrt(), (m * ln_m).abs()));
                 } else {
                     for c in [
                         Column::LnRatio,
