@@ -40,6 +40,7 @@ use std::fmt;
 
 pub(crate) mod batch;
 mod compact;
+mod residual_sums;
 mod symmetric;
 mod transform;
 
@@ -75,8 +76,10 @@ pub trait Model {
     }
 
     /// Values at every point (into `values`) and analytic derivatives
-    /// (into `gradients`, row-major `n x p`) in one call; `false` when the
-    /// model has no derivatives. The default calls
+    /// (into `gradients`, by parameter: the derivative in parameter `j` at
+    /// point `i` is `gradients[j * n + i]`, so each derivative's values lie
+    /// side by side as the vectorised sums read them) in one call; `false`
+    /// when the model has no derivatives. The default calls
     /// [`Model::value_and_gradient`] point by point; a model can do better by
     /// choosing its formula once and running one tight loop over the points.
     fn values_and_gradients(
@@ -91,22 +94,59 @@ pub trait Model {
 
 /// [`Model::values_and_gradients`] by one [`Model::value_and_gradient`] call
 /// per point: the default, and the fallback of models that loop faster only
-/// for some of their forms.
+/// for some of their forms. `false` also when `gradients` is too short.
 pub fn point_by_point<M: Model + ?Sized>(
     model: &M,
     params: &[f64],
     values: &mut [f64],
     gradients: &mut [f64],
 ) -> bool {
-    let p = params.len();
-    for (i, (v, g)) in values
-        .iter_mut()
-        .zip(gradients.chunks_exact_mut(p))
-        .enumerate()
-    {
-        match model.value_and_gradient(params, i, g) {
+    let (n, p) = (values.len(), params.len());
+    if gradients.len() < n * p {
+        return false;
+    }
+    match p {
+        1 => by_points::<M, 1>(model, params, values, gradients),
+        2 => by_points::<M, 2>(model, params, values, gradients),
+        3 => by_points::<M, 3>(model, params, values, gradients),
+        4 => by_points::<M, 4>(model, params, values, gradients),
+        5 => by_points::<M, 5>(model, params, values, gradients),
+        6 => by_points::<M, 6>(model, params, values, gradients),
+        _ => {
+            let mut g = vec![0.0; p];
+            for (i, v) in values.iter_mut().enumerate() {
+                match model.value_and_gradient(params, i, &mut g) {
+                    Some(f) => *v = f,
+                    None => return false,
+                }
+                for (j, &gj) in g.iter().enumerate() {
+                    gradients[j * n + i] = gj;
+                }
+            }
+            true
+        }
+    }
+}
+
+/// [`point_by_point`] for `P` parameters: each point's derivatives on the
+/// stack, then into their columns.
+fn by_points<M: Model + ?Sized, const P: usize>(
+    model: &M,
+    params: &[f64],
+    values: &mut [f64],
+    gradients: &mut [f64],
+) -> bool {
+    let n = values.len();
+    let mut columns = gradients.chunks_exact_mut(n.max(1));
+    let mut columns: [&mut [f64]; P] = std::array::from_fn(|_| columns.next().unwrap_or_default());
+    let mut g = [0.0; P];
+    for (i, v) in values.iter_mut().enumerate() {
+        match model.value_and_gradient(params, i, &mut g) {
             Some(f) => *v = f,
             None => return false,
+        }
+        for (column, &gj) in columns.iter_mut().zip(&g) {
+            column[i] = gj;
         }
     }
     true
@@ -841,15 +881,12 @@ fn statistics(
     let n = y.len();
     let p = params.len();
     let residuals: Vec<f64> = y.iter().zip(&fitted).map(|(o, f)| o - f).collect();
-    // Sums that do not depend on each other share a pass, so their chains
-    // of additions overlap (each sum still adds in point order).
-    let (mut sse, mut chi2, mut y_total, mut relative) = (0.0, 0.0, 0.0, 0.0);
-    for ((r, w), v) in residuals.iter().zip(weights).zip(y) {
-        sse += r * r;
-        chi2 += (r * w) * (r * w);
-        y_total += v;
-        relative += (r / v).abs();
-    }
+    let residual_sums::ResidualSums {
+        sse,
+        chi2,
+        y_total,
+        relative,
+    } = residual_sums::residual_sums(y, weights, &residuals);
     // The data are finite (checked on entry), so a value that is not makes
     // the sum of squares not finite: only then is the point looked for.
     if !sse.is_finite() {
@@ -870,7 +907,7 @@ fn statistics(
         .map(|(x, se)| (x - t_value * se, x + t_value * se))
         .collect();
     let mean = y_total / n as f64;
-    let sst: f64 = y.iter().map(|v| (v - mean) * (v - mean)).sum();
+    let sst = residual_sums::squares_about(y, mean);
     let log_term = n as f64 * (sse / n as f64).max(f64::MIN_POSITIVE).ln();
     Ok(FitResult {
         params: params.to_vec(),
@@ -959,26 +996,38 @@ const MAX_CONDITION: f64 = 1e12;
 /// through its eigenvalues on the stack (module `symmetric`), beyond by SVD;
 /// both judge the condition by the same singular values.
 fn invert_symmetric(m: &[f64], p: usize) -> Option<Vec<f64>> {
-    let scale: Vec<f64> = (0..p).map(|i| m[i * p + i].sqrt()).collect();
+    // Scratch on the stack for the orders inverted on the stack.
+    const ORDER: usize = symmetric::MAX_ORDER;
+    let (mut scale_stack, mut scaled_stack) = ([0.0; ORDER], [0.0; ORDER * ORDER]);
+    let (mut scale_heap, mut scaled_heap);
+    let (scale, scaled) = if p <= ORDER {
+        (&mut scale_stack[..p], &mut scaled_stack[..p * p])
+    } else {
+        scale_heap = vec![0.0; p];
+        scaled_heap = vec![0.0; p * p];
+        (&mut scale_heap[..], &mut scaled_heap[..])
+    };
+    for (i, s) in scale.iter_mut().enumerate() {
+        *s = m[i * p + i].sqrt();
+    }
     if scale
         .iter()
         .any(|s| s.is_nan() || *s <= 0.0 || s.is_infinite())
     {
         return None;
     }
-    let scaled: Vec<f64> = (0..p * p)
-        .map(|k| m[k] / (scale[k / p] * scale[k % p]))
-        .collect();
-    let inverse = if p <= symmetric::MAX_ORDER {
-        symmetric::invert(&scaled, p, 1.0 / MAX_CONDITION)?
+    for (k, v) in scaled.iter_mut().enumerate() {
+        *v = m[k] / (scale[k / p] * scale[k % p]);
+    }
+    let mut inverse = if p <= ORDER {
+        symmetric::invert(scaled, p, 1.0 / MAX_CONDITION)?
     } else {
-        invert_by_svd(&scaled, p)?
+        invert_by_svd(scaled, p)?
     };
-    Some(
-        (0..p * p)
-            .map(|k| inverse[k] / (scale[k / p] * scale[k % p]))
-            .collect(),
-    )
+    for (k, v) in inverse.iter_mut().enumerate() {
+        *v /= scale[k / p] * scale[k % p];
+    }
+    Some(inverse)
 }
 
 /// Inverse (row-major) of a scaled symmetric matrix by SVD, refused beyond

@@ -23,7 +23,8 @@
 
 mod curve;
 
-use super::fit::{self, batch, FitOptions, FitResult};
+use super::fit::batch::{self, widest_vectors};
+use super::fit::{self, FitOptions, FitResult};
 use super::kinetics::{increasing_times, positive, KineticsError};
 use curve::Curve;
 
@@ -159,7 +160,8 @@ impl ThinLayerModel {
     /// row-major `p x p`.
     fn rescale_derivatives(self, p: &[f64], r: f64) -> Vec<f64> {
         let q = p.len();
-        let factors = self.rescale(&vec![1.0; q], r);
+        // (At most four parameters.)
+        let factors = self.rescale(&[1.0; 4][..q], r);
         let mut m = vec![0.0; q * q];
         for (j, f) in factors.iter().enumerate() {
             m[j * q + j] = *f;
@@ -224,50 +226,138 @@ struct Linearised {
     quadratic: [f64; 2],
 }
 
-/// Only the lines `model` starts from are drawn. `ln t` is given with `t`
-/// (computed once per time axis). The lines are
+/// The per-point arrays of a fit: the scaled time axis, and the points of
+/// the two linearised forms, each point with its weight (zero for a point
+/// left out: `t <= 0`, or `MR` outside `0 < MR < 1`, where a form has no
+/// number; its coordinates are then zero too, so that it adds nothing).
+/// All in one allocation, filled by one vectorised pass ([`transform_points`]).
+struct Points {
+    /// `n` values for each [`Column`], in order.
+    columns: Vec<f64>,
+    n: usize,
+}
+
+/// The columns of [`Points`], in order.
+#[derive(Clone, Copy)]
+enum Column {
+    /// `t / scale`.
+    Scaled,
+    /// `ln(t / scale)`, as `ln t - ln scale`.
+    LnScaled,
+    /// Exponential form `ln MR = ln a - k t`: `ln MR` and the weight `MR^2`
+    /// (its abscissa is [`Column::Scaled`]).
+    LnRatio,
+    RatioWeight,
+    /// Power form `ln(-ln MR) = ln k + n ln t`: `ln t` (zero where left out),
+    /// `ln(-ln MR)` and the weight `(MR ln MR)^2`.
+    PowerX,
+    PowerY,
+    PowerWeight,
+}
+
+/// Number of [`Column`]s.
+const COLUMNS: usize = 7;
+
+impl Points {
+    /// The arrays for times `times_s` (s) scaled by `scale`, and ratios.
+    fn new(times_s: &[f64], ratios: &[f64], scale: f64) -> Points {
+        let n = times_s.len();
+        let mut columns = vec![0.0; COLUMNS * n];
+        transform_points(times_s, ratios, scale, scale.ln(), &mut columns);
+        Points { columns, n }
+    }
+
+    fn column(&self, c: Column) -> &[f64] {
+        let k = c as usize;
+        &self.columns[k * self.n..(k + 1) * self.n]
+    }
+}
+
+widest_vectors! {
+    /// [`transform_loop`], compiled for AVX2 and AVX-512 as well (see
+    /// [`widest_vectors`]).
+    fn transform_points(
+        times_s: &[f64],
+        ratios: &[f64],
+        scale: f64,
+        ln_scale: f64,
+        columns: &mut [f64],
+    ) => transform_loop;
+}
+
+/// Fill the [`Column`]s (each `times_s.len()` long, in order in `columns`)
+/// in one branch-free loop with the vectorisable `ln` of [`batch`].
+#[inline(always)]
+fn transform_loop(times_s: &[f64], ratios: &[f64], scale: f64, ln_scale: f64, columns: &mut [f64]) {
+    let n = times_s.len();
+    let (scaled, rest) = columns.split_at_mut(n);
+    let (ln_scaled, rest) = rest.split_at_mut(n);
+    let (ln_ratio, rest) = rest.split_at_mut(n);
+    let (ratio_weight, rest) = rest.split_at_mut(n);
+    let (power_x, rest) = rest.split_at_mut(n);
+    let (power_y, power_weight) = rest.split_at_mut(n);
+    let ratios = &ratios[..n];
+    let power_weight = &mut power_weight[..n];
+    for i in 0..n {
+        let (t, m) = (times_s[i], ratios[i]);
+        let ln_t = batch::ln(t) - ln_scale;
+        // The linearised forms give start values only: their logarithms
+        // need not be correctly rounded (those of the points left out are
+        // masked below).
+        let ln_m = batch::ln_for_start(m);
+        let ln_minus_ln_m = batch::ln_for_start(-ln_m);
+        let used = t > 0.0 && m > 0.0 && m < 1.0;
+        let pick = |v: f64| if used { v } else { 0.0 };
+        scaled[i] = t / scale;
+        ln_scaled[i] = ln_t;
+        ln_ratio[i] = pick(ln_m);
+        ratio_weight[i] = pick(m * m);
+        power_x[i] = pick(ln_t);
+        power_y[i] = pick(ln_minus_ln_m);
+        power_weight[i] = pick((m * ln_m) * (m * ln_m));
+    }
+}
+
+/// Start values from the linearised forms, for `model` on the scaled time
+/// axis: only the lines `model` starts from are drawn. The lines are
 /// weighted to undo the stretching of the scatter by the transforms (the
 /// first-order variance of `ln MR` is `var(MR) / MR^2`, of `ln(-ln MR)` it is
 /// `var(MR) / (MR ln MR)^2`), so they weigh the points as the nonlinear fit
 /// will and the start lies close to its optimum.
-fn linearised(model: ThinLayerModel, t: &[f64], ln_t: &[f64], mr: &[f64]) -> Linearised {
+fn linearised(model: ThinLayerModel, points: &Points, mr: &[f64]) -> Linearised {
     use ThinLayerModel::*;
-    // ln MR and ln(-ln MR) at every point with the vectorised ln (points
-    // outside 0 < MR < 1 give no number and are left out below).
-    let mut ln_mr = mr.to_vec();
-    batch::ln_in_place(&mut ln_mr);
-    let mut ln_minus_ln_mr: Vec<f64> = ln_mr.iter().map(|l| -l).collect();
-    batch::ln_in_place(&mut ln_minus_ln_mr);
     let wanted = |m: &[ThinLayerModel]| m.contains(&model);
-    let capacity = |wanted: bool| if wanted { t.len() } else { 0 };
-    let exponential_wanted = wanted(&[
+    let exponential = if wanted(&[
         Lewis,
         HendersonPabis,
         Logarithmic,
         TwoTerm,
         TwoTermExponential,
         Midilli,
-    ]);
-    let power_wanted = wanted(&[Page, ModifiedPage, Midilli]);
-    let mut exponential = Line::with_capacity(capacity(exponential_wanted));
-    let mut power = Line::with_capacity(capacity(power_wanted));
-    for (i, (&ti, &m)) in t.iter().zip(mr).enumerate() {
-        if ti > 0.0 && m > 0.0 && m < 1.0 {
-            let ln_m = ln_mr[i];
-            if exponential_wanted {
-                exponential.push((ti, ln_m, m * m));
-            }
-            if power_wanted {
-                power.push((ln_t[i], ln_minus_ln_mr[i], (m * ln_m) * (m * ln_m)));
-            }
-        }
-    }
-    let (slope, intercept) = exponential.fit().unwrap_or((-1.0, 0.0));
-    let (n, ln_k) = power.fit().unwrap_or((1.0, 0.0));
+    ]) {
+        weighted_line(
+            points.column(Column::Scaled),
+            points.column(Column::LnRatio),
+            points.column(Column::RatioWeight),
+        )
+    } else {
+        None
+    };
+    let power = if wanted(&[Page, ModifiedPage, Midilli]) {
+        weighted_line(
+            points.column(Column::PowerX),
+            points.column(Column::PowerY),
+            points.column(Column::PowerWeight),
+        )
+    } else {
+        None
+    };
+    let (slope, intercept) = exponential.unwrap_or((-1.0, 0.0));
+    let (n, ln_k) = power.unwrap_or((1.0, 0.0));
     let k = (-slope).max(1e-3);
     let n = n.clamp(0.1, 10.0);
     let quadratic = if model == WangSingh {
-        quadratic(t, mr)
+        quadratic(points.column(Column::Scaled), mr)
     } else {
         [-1.0, 0.0]
     };
@@ -278,6 +368,100 @@ fn linearised(model: ThinLayerModel, t: &[f64], ln_t: &[f64], mr: &[f64]) -> Lin
         n,
         quadratic,
     }
+}
+
+/// Points summed side by side in the line sums ([`line_rows`]).
+const LANES: usize = 8;
+
+/// Partial sums of [`line_rows`], one row per sum and one column per lane.
+type LineRows = [[f64; LANES]; 6];
+
+widest_vectors! {
+    /// [`line_rows_loop`], compiled for AVX2 and AVX-512 as well (see
+    /// [`widest_vectors`]).
+    fn line_rows(x: &[f64], y: &[f64], w: &[f64], centre: [f64; 2]) -> LineRows
+        => line_rows_loop;
+}
+
+/// In [`LANES`] partial sums, with `x' = x - centre[0]` and
+/// `y' = y - centre[1]`: the number of points of positive weight, `sum w`,
+/// `sum w x'`, `sum w y'`, `sum w x'^2` and `sum w x' y'`. The last points
+/// (fewer than [`LANES`]) make one more block padded with points of weight
+/// zero. (The sums stay in one array, read and written a whole row at a
+/// time, and are added up by the caller, so each row stays in a vector
+/// register.)
+#[inline(always)]
+fn line_rows_loop(x: &[f64], y: &[f64], w: &[f64], centre: [f64; 2]) -> LineRows {
+    let mut rows = [[0.0; LANES]; 6];
+    let n = w.len();
+    let whole = n - n % LANES;
+    let blocks = x[..whole]
+        .chunks_exact(LANES)
+        .zip(y[..whole].chunks_exact(LANES))
+        .zip(w[..whole].chunks_exact(LANES));
+    for ((x, y), w) in blocks {
+        add_line_block(&mut rows, x, y, w, centre);
+    }
+    if whole < n {
+        let pad = |v: &[f64]| {
+            let mut b = [0.0; LANES];
+            b[..n - whole].copy_from_slice(&v[whole..n]);
+            b
+        };
+        add_line_block(&mut rows, &pad(x), &pad(y), &pad(w), centre);
+    }
+    rows
+}
+
+/// Add one block of [`LANES`] points to the sums of [`line_rows_loop`].
+#[inline(always)]
+fn add_line_block(rows: &mut LineRows, x: &[f64], y: &[f64], w: &[f64], centre: [f64; 2]) {
+    let (x, y, w) = (&x[..LANES], &y[..LANES], &w[..LANES]);
+    let mut dx = [0.0; LANES];
+    let mut dy = [0.0; LANES];
+    for lane in 0..LANES {
+        dx[lane] = x[lane] - centre[0];
+        dy[lane] = y[lane] - centre[1];
+    }
+    for lane in 0..LANES {
+        rows[0][lane] += if w[lane] > 0.0 { 1.0 } else { 0.0 };
+    }
+    for lane in 0..LANES {
+        rows[1][lane] += w[lane];
+    }
+    for lane in 0..LANES {
+        rows[2][lane] += w[lane] * dx[lane];
+    }
+    for lane in 0..LANES {
+        rows[3][lane] += w[lane] * dy[lane];
+    }
+    for lane in 0..LANES {
+        rows[4][lane] += w[lane] * dx[lane] * dx[lane];
+    }
+    for lane in 0..LANES {
+        rows[5][lane] += w[lane] * dx[lane] * dy[lane];
+    }
+}
+
+/// The six sums of [`line_rows`], the lanes added in a fixed order.
+fn line_totals(rows: &LineRows) -> [f64; 6] {
+    rows.map(|l| ((l[0] + l[1]) + (l[2] + l[3])) + ((l[4] + l[5]) + (l[6] + l[7])))
+}
+
+/// Weighted least-squares line `(slope, intercept)` through the points
+/// `(x, y)` of positive weight `w` (the others must have finite
+/// coordinates, and add nothing): the weighted means from one pass, the
+/// sums of squares about them from a second; `None` for fewer than two
+/// points or no line.
+fn weighted_line(x: &[f64], y: &[f64], w: &[f64]) -> Option<(f64, f64)> {
+    let [count, total, wx, wy, _, _] = line_totals(&line_rows(x, y, w, [0.0, 0.0]));
+    if count < 2.0 {
+        return None;
+    }
+    let (mx, my) = (wx / total, wy / total);
+    let [_, _, _, _, sxx, sxy] = line_totals(&line_rows(x, y, w, [mx, my]));
+    let slope = sxy / sxx;
+    (slope.is_finite() && my.is_finite()).then_some((slope, my - slope * mx))
 }
 
 /// Wang-Singh is linear in (a, b): least squares of (MR - 1) on (t, t^2).
@@ -299,53 +483,6 @@ fn quadratic(t: &[f64], mr: &[f64]) -> [f64; 2] {
         [(r1 * s22 - r2 * s12) / det, (s11 * r2 - s12 * r1) / det]
     } else {
         [-1.0, 0.0]
-    }
-}
-
-/// Weighted least-squares line through `(x, y, weight)` points, gathered
-/// one by one: the weight and the weighted sums of `x` and `y` are added as
-/// each point comes (in point order, as a first pass over the gathered
-/// points would add them), so [`Line::fit`] makes one pass more only.
-struct Line {
-    points: Vec<(f64, f64, f64)>,
-    total: f64,
-    wx: f64,
-    wy: f64,
-}
-
-impl Line {
-    fn with_capacity(capacity: usize) -> Line {
-        Line {
-            points: Vec::with_capacity(capacity),
-            total: 0.0,
-            wx: 0.0,
-            wy: 0.0,
-        }
-    }
-
-    #[inline(always)]
-    fn push(&mut self, p: (f64, f64, f64)) {
-        self.total += p.2;
-        self.wx += p.2 * p.0;
-        self.wy += p.2 * p.1;
-        self.points.push(p);
-    }
-
-    /// `(slope, intercept)`; `None` for fewer than two points or no line.
-    fn fit(&self) -> Option<(f64, f64)> {
-        if self.points.len() < 2 {
-            return None;
-        }
-        let (mx, my) = (self.wx / self.total, self.wy / self.total);
-        // The two sums share a pass, so their chains of additions overlap
-        // (each still adds in point order).
-        let (mut sxx, mut sxy) = (0.0, 0.0);
-        for p in &self.points {
-            sxx += p.2 * (p.0 - mx).powi(2);
-            sxy += p.2 * (p.0 - mx) * (p.1 - my);
-        }
-        let slope = sxy / sxx;
-        (slope.is_finite() && my.is_finite()).then_some((slope, my - slope * mx))
     }
 }
 
@@ -386,16 +523,13 @@ pub fn fit_thin_layer(
     // The last reading is the latest (times checked increasing above).
     let scale = times_s[times_s.len() - 1];
     positive("last reading time", scale)?;
-    let scaled: Vec<f64> = times_s.iter().map(|t| t / scale).collect();
-    // ln(t / scale) as ln t - ln scale, with the vectorised ln.
-    let mut ln_scaled = times_s.to_vec();
-    batch::ln_in_place(&mut ln_scaled);
-    let ln_scale = scale.ln();
-    for l in &mut ln_scaled {
-        *l -= ln_scale;
-    }
-    let guess = linearised(model, &scaled, &ln_scaled, ratios);
-    let on_scaled = Curve::new(model, &scaled, &ln_scaled);
+    let points = Points::new(times_s, ratios, scale);
+    let guess = linearised(model, &points, ratios);
+    let on_scaled = Curve::new(
+        model,
+        points.column(Column::Scaled),
+        points.column(Column::LnScaled),
+    );
     let bounds = model.bounds();
     let options = FitOptions::default();
     let mut best: Option<FitResult> = None;
@@ -650,6 +784,151 @@ mod tests {
                 Curve::new(ThinLayerModel::Page, &t, &t).non_positive_end,
                 scan
             );
+        }
+    }
+
+    /// The line through gathered points that the vectorised line sums
+    /// replace (kept as their reference): every point with `t > 0` and
+    /// `0 < MR < 1` pushed with its weight, the sums added in point order.
+    fn line_by_points(points: &[(f64, f64, f64)]) -> Option<(f64, f64)> {
+        if points.len() < 2 {
+            return None;
+        }
+        let total: f64 = points.iter().map(|p| p.2).sum();
+        let wx: f64 = points.iter().map(|p| p.2 * p.0).sum();
+        let wy: f64 = points.iter().map(|p| p.2 * p.1).sum();
+        let (mx, my) = (wx / total, wy / total);
+        let (mut sxx, mut sxy) = (0.0, 0.0);
+        for p in points {
+            sxx += p.2 * (p.0 - mx).powi(2);
+            sxy += p.2 * (p.0 - mx) * (p.1 - my);
+        }
+        let slope = sxy / sxx;
+        (slope.is_finite() && my.is_finite()).then_some((slope, my - slope * mx))
+    }
+
+    /// The exponential and power lines through the points kept, gathered
+    /// one by one with the library `ln` (the way the start lines were drawn
+    /// before the vectorised pass).
+    fn lines_by_points(times: &[f64], mr: &[f64]) -> [Option<(f64, f64)>; 2] {
+        let scale = times[times.len() - 1];
+        let (mut exponential, mut power) = (Vec::new(), Vec::new());
+        for (&t, &m) in times.iter().zip(mr) {
+            if t > 0.0 && m > 0.0 && m < 1.0 {
+                let ln_m = m.ln();
+                exponential.push((t / scale, ln_m, m * m));
+                power.push((t.ln() - scale.ln(), (-ln_m).ln(), (m * ln_m) * (m * ln_m)));
+            }
+        }
+        [line_by_points(&exponential), line_by_points(&power)]
+    }
+
+    /// Invented drying curves with points the lines leave out (t = 0,
+    /// MR = 1, above 1, 0 and below 0), 203 points (not a multiple of the
+    /// lanes) and 6 (one short block only).
+    fn sample_curves() -> Vec<(Vec<f64>, Vec<f64>)> {
+        let curve = |n: usize| {
+            let times: Vec<f64> = (0..n).map(|i| 45.0 * i as f64).collect();
+            let mut mr: Vec<f64> = times
+                .iter()
+                .enumerate()
+                .map(|(i, t)| (-3e-3 * t.powf(1.1)).exp() + 0.01 * (1.7 * i as f64).sin())
+                .collect();
+            mr[1] = 1.0;
+            mr[2] = 1.02;
+            if n > 100 {
+                mr[50] = 0.0;
+                mr[90] = -0.003;
+            }
+            (times, mr)
+        };
+        vec![curve(203), curve(6)]
+    }
+
+    /// The vectorised lines against the gathered ones: the same points kept,
+    /// slopes and intercepts to rounding; fewer than two points kept gives
+    /// no line either way.
+    #[test]
+    fn vectorised_lines_match_gathered_lines() {
+        let close = |a: f64, b: f64| (a - b).abs() <= 1e-12 * b.abs().max(1.0);
+        let mut curves = sample_curves();
+        curves.push((vec![0.0, 10.0, 20.0], vec![1.0, 0.5, 1.0]));
+        for (times, mr) in curves {
+            let points = Points::new(&times, &mr, times[times.len() - 1]);
+            let fast = [
+                weighted_line(
+                    points.column(Column::Scaled),
+                    points.column(Column::LnRatio),
+                    points.column(Column::RatioWeight),
+                ),
+                weighted_line(
+                    points.column(Column::PowerX),
+                    points.column(Column::PowerY),
+                    points.column(Column::PowerWeight),
+                ),
+            ];
+            for (fast, slow) in fast.into_iter().zip(lines_by_points(&times, &mr)) {
+                match (fast, slow) {
+                    (Some(f), Some(s)) => {
+                        assert!(close(f.0, s.0) && close(f.1, s.1), "{f:?} vs {s:?}")
+                    }
+                    (None, None) => {}
+                    other => panic!("{} points: {other:?}", times.len()),
+                }
+            }
+        }
+    }
+
+    /// The pass that fills the columns, with the processor's widest
+    /// instructions, against the portable loop bit for bit and against the
+    /// library `ln`: `ln t` within rounding, the linearised forms (start
+    /// values only, from [`batch::ln_for_start`]) within 4e-12 relative, for
+    /// the points kept; the others are zero.
+    #[test]
+    fn transformed_points_match_library_values() {
+        let close = |a: f64, b: f64| (a - b).abs() <= 4e-12 * b.abs();
+        for (times, mr) in sample_curves() {
+            let n = times.len();
+            let scale = times[n - 1];
+            let points = Points::new(&times, &mr, scale);
+            let mut portable = vec![0.0; COLUMNS * n];
+            transform_loop(&times, &mr, scale, scale.ln(), &mut portable);
+            for (a, b) in points.columns.iter().zip(&portable) {
+                assert!(a.to_bits() == b.to_bits() || (a.is_nan() && b.is_nan()));
+            }
+            for i in 0..n {
+                let (t, m) = (times[i], mr[i]);
+                let kept = t > 0.0 && m > 0.0 && m < 1.0;
+                let get = |c: Column| points.column(c)[i];
+                assert_eq!(get(Column::Scaled), t / scale);
+                if t > 0.0 {
+                    let ln_t = t.ln() - scale.ln();
+                    assert!(
+                        (get(Column::LnScaled) - ln_t).abs() <= 4.0 * f64::EPSILON * scale.ln()
+                    );
+                }
+                if kept {
+                    let ln_m = m.ln();
+                    assert!(close(get(Column::LnRatio), ln_m), "{i}");
+                    // ln(-ln MR) near 0 carries the error of -ln MR (near 1).
+                    let power_y = (-ln_m).ln();
+                    let error = (get(Column::PowerY) - power_y).abs();
+                    assert!(error <= 4e-12 * power_y.abs().max(1.0), "{i}");
+                    assert_eq!(get(Column::PowerX), get(Column::LnScaled));
+                    assert_eq!(get(Column::RatioWeight), m * m);
+                    assert!(close(get(Column::PowerWeight).sqrt(), (m * ln_m).abs()));
+                } else {
+                    for c in [
+                        Column::LnRatio,
+                        Column::RatioWeight,
+                        Column::PowerX,
+                        Column::PowerY,
+                        Column::PowerWeight,
+                    ] {
+                        assert_eq!(get(c), 0.0, "point {i} left out");
+                    }
+                }
+            }
         }
     }
 
