@@ -107,7 +107,12 @@ impl Ctx<'_> {
     }
 
     /// Run a built-in on bound arguments, catching panics as internal errors.
-    fn run_builtin(&mut self, b: &'static Builtin, mut bound: Args, span: Span) -> Flow<Value> {
+    pub(super) fn run_builtin(
+        &mut self,
+        b: &'static Builtin,
+        mut bound: Args,
+        span: Span,
+    ) -> Flow<Value> {
         bound.dir = Some(self.sheet.shared_dir());
         let result = catch_unwind(AssertUnwindSafe(|| (b.func)(&mut bound)));
         self.warnings.append(&mut bound.warnings);

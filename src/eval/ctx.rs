@@ -128,7 +128,7 @@ impl<'a> Ctx<'a> {
 
     /// Count one step against the budget; check the interrupt flag now and then.
     #[inline]
-    fn tick(&mut self, span: Span) -> Flow<()> {
+    pub(super) fn tick(&mut self, span: Span) -> Flow<()> {
         self.ops += 1;
         if self.ops <= self.limits.max_operations && self.ops % 1024 != 0 {
             return Ok(());
@@ -277,7 +277,7 @@ impl<'a> Ctx<'a> {
 
     /// Count a list's items against the step budget and refuse a list larger
     /// than the limit, so that a worksheet cannot exhaust memory.
-    fn charge_list(&mut self, list: &Value, span: Span) -> Flow<()> {
+    pub(super) fn charge_list(&mut self, list: &Value, span: Span) -> Flow<()> {
         let (items, depth) = list_items(list);
         if depth > MAX_VALUE_DEPTH {
             let msg = format!("lists and records nested deeper than {MAX_VALUE_DEPTH} levels");
@@ -345,7 +345,12 @@ impl<'a> Ctx<'a> {
         self.force(n, span)
     }
 
-    fn quantity(&mut self, value: f64, unit: Option<&UnitExpr>, span: Span) -> Flow<Value> {
+    pub(super) fn quantity(
+        &mut self,
+        value: f64,
+        unit: Option<&UnitExpr>,
+        span: Span,
+    ) -> Flow<Value> {
         match unit {
             None => Ok(Value::Quantity(Quantity::number(value), None)),
             Some(u) => {
@@ -391,11 +396,10 @@ impl<'a> Ctx<'a> {
             return self.quantity(-*value, Some(unit), span);
         }
         let v = self.expr(a)?;
-        let result = if self.shapes_only(&[&v]) {
-            self.on_shapes(None, &v, None, |x, _| ops::unary(op, x))?
-        } else {
-            ops::unary(op, &v)
-        };
+        if !self.shapes_only(&[&v]) {
+            return unary_value(op, &v, span, a.span);
+        }
+        let result = self.on_shapes(None, &v, None, |x, _| ops::unary(op, x))?;
         result.map_err(|e| op_error(e, span, a.span, a.span).into())
     }
 
@@ -446,16 +450,8 @@ impl<'a> Ctx<'a> {
 
     /// Evaluate to a truth value, or blame the expression.
     pub fn truth(&mut self, e: &Expr, what: &str) -> Flow<bool> {
-        match self.expr(e)? {
-            Value::Bool(b) => Ok(b),
-            other => {
-                let msg = format!(
-                    "`{what}` needs a truth value (a comparison), found {}",
-                    type_word(&other)
-                );
-                Err(Diagnostic::error(e.span, msg).into())
-            }
-        }
+        let v = self.expr(e)?;
+        truth_value(v, what, e.span)
     }
 
     fn conditional(&mut self, c: &Expr, a: &Expr, b: &Expr) -> Flow<Value> {
@@ -475,20 +471,8 @@ impl<'a> Ctx<'a> {
                 return Ok(v.clone());
             }
         }
-        match self.expr(a)? {
-            Value::Record(r) => r
-                .get(&field.name)
-                .cloned()
-                .ok_or_else(|| no_field(&r, field).into()),
-            other => {
-                let msg = format!(
-                    "`.{}` reads a field of a record, but this is {}",
-                    field.name,
-                    type_word(&other)
-                );
-                Err(Diagnostic::error(a.span, msg).into())
-            }
-        }
+        let v = self.expr(a)?;
+        read_field(v, a.span, field)
     }
 
     #[inline]
@@ -592,8 +576,46 @@ fn nested_too_deeply(span: Span) -> Stop {
         .into()
 }
 
+/// A value as the truth value `what` (`check`, `if`, `and`) needs, or an
+/// error blaming the expression at `span`.
+pub(super) fn truth_value(v: Value, what: &str, span: Span) -> Flow<bool> {
+    match v {
+        Value::Bool(b) => Ok(b),
+        other => {
+            let msg = format!(
+                "`{what}` needs a truth value (a comparison), found {}",
+                type_word(&other)
+            );
+            Err(Diagnostic::error(span, msg).into())
+        }
+    }
+}
+
+/// Field `field` of `v`, the value of the expression at `span` (a record).
+pub(super) fn read_field(v: Value, span: Span, field: &crate::syntax::Ident) -> Flow<Value> {
+    match v {
+        Value::Record(r) => r
+            .get(&field.name)
+            .cloned()
+            .ok_or_else(|| no_field(&r, field).into()),
+        other => {
+            let msg = format!(
+                "`.{}` reads a field of a record, but this is {}",
+                field.name,
+                type_word(&other)
+            );
+            Err(Diagnostic::error(span, msg).into())
+        }
+    }
+}
+
+/// Apply a prefix operator to `v`, the value of the operand at `a`.
+pub(super) fn unary_value(op: UnaryOp, v: &Value, span: Span, a: Span) -> Flow<Value> {
+    ops::unary(op, v).map_err(|e| op_error(e, span, a, a).into())
+}
+
 /// Apply a binary operator to two values, blaming the operands' spans.
-fn binary_values(
+pub(super) fn binary_values(
     op: BinaryOp,
     x: &Value,
     y: &Value,

@@ -187,9 +187,17 @@ impl Args {
     /// (as [`Args::bind_slots`] does, without a list of them first).
     pub fn unbound(builtin: &'static Builtin, call_span: Span) -> Args {
         Args {
+            bound: vec![None; builtin.params.len()],
+            ..Args::unbound_empty(builtin, call_span)
+        }
+    }
+
+    /// No arguments and no room for them yet.
+    fn unbound_empty(builtin: &'static Builtin, call_span: Span) -> Args {
+        Args {
             builtin,
             call_span,
-            bound: vec![None; builtin.params.len()],
+            bound: Vec::new(),
             next_positional: 0,
             warnings: Vec::new(),
             dir: None,
@@ -197,8 +205,25 @@ impl Args {
         }
     }
 
-    /// Bind one argument to parameter `slot` (`None`: the next positional).
-    pub fn bind_one(&mut self, slot: Option<usize>, arg: Arg) -> Result<(), Diagnostic> {
+    /// Arguments already at their parameters' places (`bound[i]` is the
+    /// argument of parameter `i`; missing places are unset). A what-if
+    /// study's plan binds this way: it works the binding out once, with
+    /// [`Args::bind_one`], and then fills the same places at every point.
+    pub fn prebound(
+        builtin: &'static Builtin,
+        call_span: Span,
+        mut bound: Vec<Option<Arg>>,
+    ) -> Args {
+        bound.resize(builtin.params.len(), None);
+        Args {
+            bound,
+            ..Args::unbound_empty(builtin, call_span)
+        }
+    }
+
+    /// Bind one argument to parameter `slot` (`None`: the next positional),
+    /// giving the index of the parameter it bound to.
+    pub fn bind_one(&mut self, slot: Option<usize>, arg: Arg) -> Result<usize, Diagnostic> {
         let builtin = self.builtin;
         let index = match slot {
             Some(i) if i < builtin.params.len() => i,
@@ -222,7 +247,7 @@ impl Args {
             ));
         }
         self.bound[index] = Some(arg);
-        Ok(())
+        Ok(index)
     }
 
     /// Will the caller read field `name` of the record this call returns?

@@ -9,6 +9,7 @@
 
 mod model;
 mod optimise;
+mod plan;
 pub mod progress;
 mod seek;
 mod spec;

@@ -1,0 +1,476 @@
+//! A what-if study's dependent definitions compiled into a plan.
+//!
+//! A study evaluates the same few definitions at thousands of points. The
+//! general evaluator ([`Ctx::force`], [`Ctx::expr`]) finds each name in maps
+//! at every point, binds each built-in's arguments to its parameters by
+//! name, and keeps the values in the name-keyed cache of the sheet. Before
+//! the first point, [`Plan::compile`] resolves all of that once:
+//!
+//! - a varied input becomes an input slot, set at each point;
+//! - a literal, or a name whose value the inputs do not change (computed by
+//!   [`super::model::Model::build`] before the plan is made), becomes a
+//!   fixed value;
+//! - a dependent definition becomes a numbered slot, computed when first
+//!   read at a point, as the evaluator forces a value (so the order of the
+//!   work, the warnings and the first error stay the same);
+//! - a built-in call knows the parameter each argument binds to (worked out
+//!   with [`Args::bind_one`], as the evaluator binds) and the fields its
+//!   definition's record is read for ([`crate::eval::Def::wanted`]).
+//!
+//! At a point, [`Plan::eval`] walks these steps in the evaluator's order,
+//! with the evaluator's own operators, field reads, step counting
+//! ([`Ctx::tick`], [`Ctx::charge_list`]) and built-in runner
+//! ([`Ctx::run_builtin`]), so every value, error (with its span), warning and
+//! step count is the one the general path gives; a test
+//! (`tests/sweep_plan.rs`) holds the two paths to each other.
+//!
+//! The plan covers names, literals, field reads, prefix and binary
+//! operators (not `and`/`or`, which short-circuit) and built-in calls.
+//! Anything else in the dependent definitions, probes or rules (user
+//! functions, `if`, lists, records, `as`, loads, nested studies, inputs
+//! that depend on the varied ones, a study inside a user function) leaves
+//! the study without a plan, on the general path.
+
+use std::collections::HashSet;
+use std::sync::Arc;
+
+use crate::diag::Span;
+use crate::eval::ctx::{binary_values, read_field, unary_value, MAX_NESTING};
+use crate::eval::{Ctx, DefKind, FastMap, Flow, Limits, Mode, Sheet, Sources, Stop};
+use crate::library::{self, Arg, Args, Builtin};
+use crate::syntax::{BinaryOp, CallArg, Expr, ExprKind, Ident, UnaryOp};
+use crate::value::Value;
+
+/// Where the value of a name is at a point.
+#[derive(Clone, Copy, Debug)]
+enum Source {
+    /// A value the inputs do not change: [`Plan::fixed`].
+    Fixed(usize),
+    /// A varied input, in the study's order.
+    Input(usize),
+    /// A dependent definition: [`Plan::defs`], computed when first read.
+    Def(usize),
+}
+
+/// An expression with its names resolved (one per node of the syntax tree,
+/// with the node's span).
+#[derive(Debug)]
+struct Step {
+    span: Span,
+    node: Node,
+}
+
+#[derive(Debug)]
+enum Node {
+    /// A literal: [`Plan::fixed`].
+    Literal(usize),
+    Name(Source),
+    Field(Box<Step>, Ident),
+    Unary(UnaryOp, Box<Step>),
+    /// Any binary operator but `and` and `or`.
+    Binary(BinaryOp, Box<Step>, Box<Step>),
+    Call(Box<Call>),
+}
+
+/// A built-in call with its arguments bound.
+#[derive(Debug)]
+struct Call {
+    builtin: &'static Builtin,
+    /// In the order written (the order they are evaluated).
+    args: Vec<Argument>,
+    /// The fields its record is read for, when it defines a value.
+    wanted: Option<Arc<[String]>>,
+}
+
+#[derive(Debug)]
+struct Argument {
+    /// The parameter it binds to.
+    param: usize,
+    value: Step,
+    span: Span,
+}
+
+/// A study's probes and rules, and the dependent definitions they read,
+/// resolved for evaluation at many points.
+#[derive(Debug)]
+pub(super) struct Plan {
+    /// Literals and the values the inputs do not change.
+    fixed: Vec<Value>,
+    /// The dependent definitions, by slot.
+    defs: Vec<Step>,
+    /// The expressions evaluated at a point, in order.
+    exprs: Vec<Step>,
+}
+
+/// A dependent definition's value at the current point.
+#[derive(Clone, Debug, Default)]
+enum Slot {
+    /// Not read yet.
+    #[default]
+    Unset,
+    Ready(Value),
+    /// Its evaluation failed (and was reported).
+    Failed,
+}
+
+/// What one worker keeps from point to point.
+#[derive(Debug)]
+pub(super) struct State {
+    slots: Vec<Slot>,
+    inputs: Vec<Value>,
+}
+
+impl State {
+    /// Start a point: no definition computed, the inputs set to `inputs`.
+    pub fn start(&mut self, inputs: impl Iterator<Item = Value>) {
+        for s in &mut self.slots {
+            *s = Slot::Unset;
+        }
+        self.inputs.clear();
+        self.inputs.extend(inputs);
+    }
+}
+
+impl Plan {
+    /// Compile `exprs` (the probes, then the rules) over `sheet`, whose cache
+    /// holds every value the inputs do not change, for varying `inputs`;
+    /// `dependent` are the definitions that read them. `None` when something
+    /// is outside what a plan covers (see the module documentation).
+    pub fn compile<'e>(
+        sheet: &mut Sheet,
+        sources: &mut Sources,
+        limits: &Limits,
+        inputs: &[String],
+        dependent: &HashSet<String>,
+        exprs: impl Iterator<Item = &'e Expr>,
+    ) -> Option<Plan> {
+        let mut c = Compiler {
+            ctx: Ctx::new(sheet, sources, limits, Mode::Run),
+            inputs,
+            dependent,
+            fixed: Vec::new(),
+            slots: FastMap::default(),
+            defs: Vec::new(),
+            nodes: 0,
+        };
+        let exprs = exprs.map(|e| c.expr(e)).collect::<Option<Vec<Step>>>()?;
+        // Each node is evaluated at most once a point, so the evaluator
+        // could not nest deeper than there are nodes.
+        if c.nodes >= MAX_NESTING {
+            return None;
+        }
+        Some(Plan {
+            fixed: c.fixed,
+            defs: c.defs.into_iter().collect::<Option<_>>()?,
+            exprs,
+        })
+    }
+
+    /// A worker's room for the values of one point.
+    pub fn state(&self) -> State {
+        State {
+            slots: vec![Slot::Unset; self.defs.len()],
+            inputs: Vec::new(),
+        }
+    }
+
+    /// Evaluate expression `k` (of the probes, then the rules) at the point
+    /// `state` was started at, as [`Ctx::expr`] would in `ctx`.
+    pub fn eval(&self, ctx: &mut Ctx, state: &mut State, k: usize) -> Flow<Value> {
+        let mut run = Run {
+            plan: self,
+            ctx,
+            slots: &mut state.slots,
+            inputs: &state.inputs,
+        };
+        run.step(&self.exprs[k])
+    }
+}
+
+/// Compiles expressions into steps.
+struct Compiler<'c> {
+    /// A context over the study's sheet (for literals' units).
+    ctx: Ctx<'c>,
+    inputs: &'c [String],
+    dependent: &'c HashSet<String>,
+    fixed: Vec<Value>,
+    /// Slots of the dependent definitions compiled (or being compiled).
+    slots: FastMap<String, usize>,
+    /// `None` while a definition is being compiled.
+    defs: Vec<Option<Step>>,
+    /// Nodes compiled.
+    nodes: usize,
+}
+
+impl Compiler<'_> {
+    fn expr(&mut self, e: &Expr) -> Option<Step> {
+        self.nodes += 1;
+        let node = match &e.kind {
+            ExprKind::Quantity { value, unit } => {
+                let v = self.ctx.quantity(*value, unit.as_ref(), e.span).ok()?;
+                self.literal(v)
+            }
+            ExprKind::Bool(b) => self.literal(Value::Bool(*b)),
+            ExprKind::Str(s) => self.literal(Value::Str(s.clone())),
+            ExprKind::Name(n) => Node::Name(self.name(n)?),
+            ExprKind::Field(a, field) => Node::Field(Box::new(self.expr(a)?), field.clone()),
+            ExprKind::Unary(op, a) => self.unary(*op, a, e.span)?,
+            ExprKind::Binary(op, a, b) if !matches!(op, BinaryOp::And | BinaryOp::Or) => {
+                Node::Binary(*op, Box::new(self.expr(a)?), Box::new(self.expr(b)?))
+            }
+            ExprKind::Call { callee, args } => {
+                Node::Call(Box::new(self.call(callee, args, e.span, None)?))
+            }
+            _ => return None,
+        };
+        Some(Step { span: e.span, node })
+    }
+
+    fn literal(&mut self, v: Value) -> Node {
+        self.fixed.push(v);
+        Node::Literal(self.fixed.len() - 1)
+    }
+
+    fn unary(&mut self, op: UnaryOp, a: &Expr, span: Span) -> Option<Node> {
+        // `-10 degC` is one literal to the evaluator (see `Ctx::unary`).
+        if let (
+            UnaryOp::Neg,
+            ExprKind::Quantity {
+                value,
+                unit: Some(unit),
+            },
+        ) = (op, &a.kind)
+        {
+            let v = self.ctx.quantity(-*value, Some(unit), span).ok()?;
+            return Some(self.literal(v));
+        }
+        Some(Node::Unary(op, Box::new(self.expr(a)?)))
+    }
+
+    /// Where the value of name `n` is, as [`Ctx::force`] finds it.
+    fn name(&mut self, n: &str) -> Option<Source> {
+        if let Some(k) = self.inputs.iter().position(|i| i == n) {
+            return Some(Source::Input(k));
+        }
+        if self.dependent.contains(n) {
+            return self.def(n).map(Source::Def);
+        }
+        let v = self.ctx.sheet.cache.get(n)?.clone();
+        self.fixed.push(v);
+        Some(Source::Fixed(self.fixed.len() - 1))
+    }
+
+    /// The slot of dependent definition `n`, compiling it the first time.
+    fn def(&mut self, n: &str) -> Option<usize> {
+        if let Some(&k) = self.slots.get(n) {
+            // (`None` yet: a cycle, which the evaluator reports.)
+            return self.defs[k].is_some().then_some(k);
+        }
+        let d = self.ctx.sheet.defs.get(n)?;
+        if d.kind != DefKind::Value {
+            return None;
+        }
+        let (expr, wanted) = (d.expr.clone(), d.wanted.clone());
+        let k = self.defs.len();
+        self.defs.push(None);
+        self.slots.insert(n.to_string(), k);
+        let step = match (&expr.kind, wanted) {
+            // `Ctx::force` hands the wanted fields to the definition's call.
+            (ExprKind::Call { callee, args }, wanted) => {
+                self.nodes += 1;
+                let call = self.call(callee, args, expr.span, wanted)?;
+                Step {
+                    span: expr.span,
+                    node: Node::Call(Box::new(call)),
+                }
+            }
+            (_, Some(_)) => return None,
+            (_, None) => self.expr(&expr)?,
+        };
+        self.defs[k] = Some(step);
+        Some(k)
+    }
+
+    /// A call of a built-in, bound as [`Ctx::call`] binds it; `None` for
+    /// anything else or a call that cannot be bound (the evaluator reports
+    /// that at every point).
+    fn call(
+        &mut self,
+        callee: &Ident,
+        args: &[CallArg],
+        span: Span,
+        wanted: Option<Arc<[String]>>,
+    ) -> Option<Call> {
+        let name = callee.name.as_str();
+        if name == "load" || super::is_form(name) || self.ctx.sheet.defs.contains_key(name) {
+            return None;
+        }
+        let builtin = library::find(name)?;
+        let mut binding = Args::unbound(builtin, span);
+        let mut out = Vec::with_capacity(args.len());
+        for a in args {
+            let slot = match &a.name {
+                Some(n) => Some(builtin.param_index(&n.name)?),
+                None => None,
+            };
+            let stand_in = Arg {
+                name: None,
+                value: Value::Bool(false),
+                span: a.span,
+            };
+            let param = binding.bind_one(slot, stand_in).ok()?;
+            out.push(Argument {
+                param,
+                value: self.expr(&a.value)?,
+                span: a.span,
+            });
+        }
+        Some(Call {
+            builtin,
+            args: out,
+            wanted,
+        })
+    }
+}
+
+/// One evaluation at a point: the plan, the context and the point's values.
+struct Run<'r, 'a> {
+    plan: &'r Plan,
+    ctx: &'r mut Ctx<'a>,
+    slots: &'r mut [Slot],
+    inputs: &'r [Value],
+}
+
+/// An evaluated operand: a fresh value, or a name whose value stays where it is.
+enum Operand {
+    Owned(Value),
+    At(Source),
+}
+
+impl Run<'_, '_> {
+    /// [`Ctx::expr`] on the step's expression.
+    fn step(&mut self, s: &Step) -> Flow<Value> {
+        self.ctx.tick(s.span)?;
+        let v = self.node(s)?;
+        if matches!(v, Value::List(_) | Value::Record(_)) {
+            self.ctx.charge_list(&v, s.span)?;
+        }
+        Ok(v)
+    }
+
+    fn node(&mut self, s: &Step) -> Flow<Value> {
+        match &s.node {
+            Node::Literal(i) => Ok(self.plan.fixed[*i].clone()),
+            Node::Name(src) => {
+                self.ready(*src)?;
+                Ok(self.value(*src).clone())
+            }
+            Node::Field(of, field) => self.field(of, field),
+            Node::Unary(op, a) => {
+                let v = self.step(a)?;
+                unary_value(*op, &v, s.span, a.span)
+            }
+            Node::Binary(op, a, b) => {
+                let x = self.operand(a)?;
+                let y = self.operand(b)?;
+                let (x, y) = (self.view(&x), self.view(&y));
+                binary_values(*op, x, y, (a.span, b.span), s.span)
+            }
+            Node::Call(call) => self.call(call, s.span),
+        }
+    }
+
+    /// Compute the value of `src` if it is a definition not read yet at this
+    /// point ([`Ctx::force`]).
+    #[inline]
+    fn ready(&mut self, src: Source) -> Flow<()> {
+        match src {
+            Source::Def(k) => match self.slots[k] {
+                Slot::Ready(_) => Ok(()),
+                Slot::Failed => Err(Stop::Reported),
+                Slot::Unset => self.force(k),
+            },
+            Source::Fixed(_) | Source::Input(_) => Ok(()),
+        }
+    }
+
+    fn force(&mut self, k: usize) -> Flow<()> {
+        let plan = self.plan;
+        match self.step(&plan.defs[k]) {
+            Ok(v) => {
+                self.slots[k] = Slot::Ready(v);
+                Ok(())
+            }
+            Err(stop) => {
+                self.slots[k] = Slot::Failed;
+                let skip = self.ctx.report(stop);
+                Err(if skip { Stop::Skip } else { Stop::Reported })
+            }
+        }
+    }
+
+    /// The value of `src`, when it is at hand (not a definition still to
+    /// compute): what the evaluator finds in its cache.
+    fn computed(&self, src: Source) -> Option<&Value> {
+        match src {
+            Source::Fixed(i) => Some(&self.plan.fixed[i]),
+            Source::Input(k) => Some(&self.inputs[k]),
+            Source::Def(k) => match &self.slots[k] {
+                Slot::Ready(v) => Some(v),
+                Slot::Unset | Slot::Failed => None,
+            },
+        }
+    }
+
+    /// The value of `src` once [`Run::ready`] succeeded.
+    fn value(&self, src: Source) -> &Value {
+        static MISSING: Value = Value::Bool(false);
+        self.computed(src).unwrap_or(&MISSING)
+    }
+
+    fn view<'s>(&'s self, o: &'s Operand) -> &'s Value {
+        match o {
+            Operand::Owned(v) => v,
+            Operand::At(src) => self.value(*src),
+        }
+    }
+
+    /// An operand of a binary operator: a name is computed if needed and
+    /// read in place (no step of its own, as in `Ctx::binary`).
+    fn operand(&mut self, e: &Step) -> Flow<Operand> {
+        if let Node::Name(src) = e.node {
+            self.ready(src)?;
+            return Ok(Operand::At(src));
+        }
+        self.step(e).map(Operand::Owned)
+    }
+
+    /// `of.field`, as `Ctx::field` reads it: in place from a computed record.
+    fn field(&mut self, of: &Step, field: &Ident) -> Flow<Value> {
+        if let Node::Name(src) = of.node {
+            if let Some(Value::Record(r)) = self.computed(src) {
+                if let Some(v) = r.get(&field.name) {
+                    return Ok(v.clone());
+                }
+            }
+        }
+        let v = self.step(of)?;
+        read_field(v, of.span, field)
+    }
+
+    /// A built-in call, as `Ctx::call_builtin` runs it.
+    fn call(&mut self, call: &Call, span: Span) -> Flow<Value> {
+        let mut bound: Vec<Option<Arg>> = vec![None; call.builtin.params.len()];
+        for a in &call.args {
+            let value = self.step(&a.value)?;
+            bound[a.param] = Some(Arg {
+                name: None,
+                value,
+                span: a.span,
+            });
+        }
+        let mut args = Args::prebound(call.builtin, span, bound);
+        args.wanted = call.wanted.clone();
+        self.ctx.run_builtin(call.builtin, args, span)
+    }
+}
