@@ -16,6 +16,8 @@ mod spec;
 mod sweep;
 mod uncertainty;
 
+#[doc(hidden)]
+pub use plan::plans_compiled;
 pub use progress::{set_reporter, Progress, Reporter};
 
 use super::{Ctx, Flow};

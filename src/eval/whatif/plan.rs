@@ -41,6 +41,19 @@ use crate::library::{self, Arg, Args, Builtin};
 use crate::syntax::{BinaryOp, CallArg, Expr, ExprKind, Ident, UnaryOp};
 use crate::value::Value;
 
+thread_local! {
+    /// Plans compiled on this thread (see [`plans_compiled`]).
+    static COMPILED: std::cell::Cell<usize> = const { std::cell::Cell::new(0) };
+}
+
+/// How many studies started on this thread so far were compiled into a
+/// plan: lets tests tell a study that runs through a plan from one that
+/// runs on the general path.
+#[doc(hidden)]
+pub fn plans_compiled() -> usize {
+    COMPILED.with(|c| c.get())
+}
+
 /// Where the value of a name is at a point.
 #[derive(Clone, Copy, Debug)]
 enum Source {
@@ -159,9 +172,11 @@ impl Plan {
         if c.nodes >= MAX_NESTING {
             return None;
         }
+        let defs = c.defs.into_iter().collect::<Option<_>>()?;
+        COMPILED.with(|n| n.set(n.get() + 1));
         Some(Plan {
             fixed: c.fixed,
-            defs: c.defs.into_iter().collect::<Option<_>>()?,
+            defs,
             exprs,
         })
     }
