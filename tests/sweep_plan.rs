@@ -74,7 +74,9 @@ fn air_sweeps_agree() {
          w: steps(0.0003 kg/kg_da, 0.075 kg/kg_da, 0.009 kg/kg_da))"
     ));
     assert!(out.contains("twb"), "{out}");
-    planned(&format!("{AIR}\ns = sweep([twb], T: steps(50 degC, 90 degC, 5 K))"));
+    planned(&format!(
+        "{AIR}\ns = sweep([twb], T: steps(50 degC, 90 degC, 5 K))"
+    ));
 }
 
 #[test]
@@ -103,7 +105,10 @@ fn failing_points_report_the_same_first_error() {
     let out = planned(&format!(
         "{AIR}\ns = sweep([twb + 1 m], T: steps(50 degC, 60 degC, 5 K))"
     ));
-    assert!(out.contains("3 of 3 points failed (first: 7:12: `+` needs equal dimensions"), "{out}");
+    assert!(
+        out.contains("3 of 3 points failed (first: 7:12: `+` needs equal dimensions"),
+        "{out}"
+    );
     // A field that is not there, and a field of a quantity.
     planned(&format!(
         "{AIR}\ns = sweep([a.nope], T: steps(50 degC, 60 degC, 5 K))"

@@ -1,7 +1,6 @@
 //! The evaluator: forces named values through the dependency graph and
 //! evaluates expressions, attaching spans to span-less unit errors.
 
-use std::collections::HashSet;
 use std::path::PathBuf;
 
 use super::ops::{self, dim_words, OpError};
@@ -62,7 +61,7 @@ pub struct Ctx<'a> {
     /// Names being computed right now (catches cycles the static check could not see).
     active: Vec<std::sync::Arc<str>>,
     /// Names whose evaluation failed in this run.
-    failed: HashSet<String>,
+    failed: super::fastmap::FastSet<String>,
     /// Canonical paths of the worksheets being loaded, outermost first.
     pub load_stack: Vec<PathBuf>,
     /// Depth of user-function calls and loads.
@@ -97,7 +96,7 @@ impl<'a> Ctx<'a> {
             errors: Vec::new(),
             frame: None,
             active: Vec::new(),
-            failed: HashSet::new(),
+            failed: Default::default(),
             load_stack: Vec::new(),
             depth: 0,
             nesting: 0,
@@ -278,6 +277,13 @@ impl<'a> Ctx<'a> {
     /// Count a list's items against the step budget and refuse a list larger
     /// than the limit, so that a worksheet cannot exhaust memory.
     pub(super) fn charge_list(&mut self, list: &Value, span: Span) -> Flow<()> {
+        let items = self.list_cost(list, span)?;
+        self.charge_items(items, span)
+    }
+
+    /// The items [`Ctx::charge_list`] counts for `list`, or its error for a
+    /// value nested too deeply or too large.
+    pub(super) fn list_cost(&self, list: &Value, span: Span) -> Flow<usize> {
         let (items, depth) = list_items(list);
         if depth > MAX_VALUE_DEPTH {
             let msg = format!("lists and records nested deeper than {MAX_VALUE_DEPTH} levels");
@@ -294,6 +300,12 @@ impl<'a> Ctx<'a> {
                 .with_hint("sweep fewer points, or split the work into smaller lists")
                 .into());
         }
+        Ok(items)
+    }
+
+    /// Count `items` items of a list ([`Ctx::list_cost`]) and one step.
+    #[inline]
+    pub(super) fn charge_items(&mut self, items: usize, span: Span) -> Flow<()> {
         self.ops += items as u64;
         self.tick(span)
     }
@@ -472,7 +484,7 @@ impl<'a> Ctx<'a> {
             }
         }
         let v = self.expr(a)?;
-        read_field(v, a.span, field)
+        read_field(&v, a.span, field)
     }
 
     #[inline]
@@ -592,17 +604,17 @@ pub(super) fn truth_value(v: Value, what: &str, span: Span) -> Flow<bool> {
 }
 
 /// Field `field` of `v`, the value of the expression at `span` (a record).
-pub(super) fn read_field(v: Value, span: Span, field: &crate::syntax::Ident) -> Flow<Value> {
+pub(super) fn read_field(v: &Value, span: Span, field: &crate::syntax::Ident) -> Flow<Value> {
     match v {
         Value::Record(r) => r
             .get(&field.name)
             .cloned()
-            .ok_or_else(|| no_field(&r, field).into()),
+            .ok_or_else(|| no_field(r, field).into()),
         other => {
             let msg = format!(
                 "`.{}` reads a field of a record, but this is {}",
                 field.name,
-                type_word(&other)
+                type_word(other)
             );
             Err(Diagnostic::error(span, msg).into())
         }

@@ -187,17 +187,9 @@ impl Args {
     /// (as [`Args::bind_slots`] does, without a list of them first).
     pub fn unbound(builtin: &'static Builtin, call_span: Span) -> Args {
         Args {
-            bound: vec![None; builtin.params.len()],
-            ..Args::unbound_empty(builtin, call_span)
-        }
-    }
-
-    /// No arguments and no room for them yet.
-    fn unbound_empty(builtin: &'static Builtin, call_span: Span) -> Args {
-        Args {
             builtin,
             call_span,
-            bound: Vec::new(),
+            bound: vec![None; builtin.params.len()],
             next_positional: 0,
             warnings: Vec::new(),
             dir: None,
@@ -205,20 +197,24 @@ impl Args {
         }
     }
 
-    /// Arguments already at their parameters' places (`bound[i]` is the
-    /// argument of parameter `i`; missing places are unset). A what-if
-    /// study's plan binds this way: it works the binding out once, with
-    /// [`Args::bind_one`], and then fills the same places at every point.
-    pub fn prebound(
-        builtin: &'static Builtin,
-        call_span: Span,
-        mut bound: Vec<Option<Arg>>,
-    ) -> Args {
-        bound.resize(builtin.params.len(), None);
-        Args {
-            bound,
-            ..Args::unbound_empty(builtin, call_span)
+    /// Put `arg` at parameter `index`, a place worked out before by
+    /// [`Args::bind_one`]. A what-if study's plan binds each call once and
+    /// then, at every point, clears ([`Args::clear`]) and fills the same
+    /// `Args`.
+    pub fn place(&mut self, index: usize, arg: Arg) {
+        if let Some(place) = self.bound.get_mut(index) {
+            *place = Some(arg);
         }
+    }
+
+    /// Drop the arguments and warnings a call left, keeping the room (and
+    /// `wanted`, `dir`) for the next call of the same built-in at the same
+    /// place.
+    pub fn clear(&mut self) {
+        for a in &mut self.bound {
+            *a = None;
+        }
+        self.warnings.clear();
     }
 
     /// Bind one argument to parameter `slot` (`None`: the next positional),

@@ -46,6 +46,15 @@ impl Varied {
     pub fn shown(&self, si: f64) -> Value {
         Value::Quantity(self.at(si), self.unit.clone())
     }
+
+    /// Set `value`, which holds [`Varied::shown`] at an earlier point (or
+    /// anything else), to [`Varied::shown`] at `si`, keeping its unit.
+    pub fn set(&self, value: &mut Value, si: f64) {
+        match value {
+            Value::Quantity(q, _) => *q = self.at(si),
+            other => *other = self.shown(si),
+        }
+    }
 }
 
 /// A design rule (`check`) of the worksheet that the varied inputs can change.
@@ -280,8 +289,13 @@ impl Model {
 
     fn eval(&self, work: &mut Work, point: &[f64]) -> Outcome {
         if let (Some(plan), Some(state)) = (&self.plan, &mut work.state) {
-            let inputs = self.inputs.iter().zip(point).map(|(v, &si)| v.shown(si));
-            state.start(inputs);
+            state.start();
+            if state.inputs.len() != self.inputs.len() {
+                state.inputs.resize(self.inputs.len(), Value::Bool(false));
+            }
+            for ((v, slot), &si) in self.inputs.iter().zip(&mut state.inputs).zip(point) {
+                v.set(slot, si);
+            }
             let mut ctx = Ctx::new(&mut work.sheet, &mut work.sources, &self.limits, Mode::Run);
             return self.outcome(&mut ctx, |ctx, k| plan.eval(ctx, state, k));
         }

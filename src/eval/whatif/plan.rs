@@ -88,11 +88,11 @@ enum Node {
 /// A built-in call with its arguments bound.
 #[derive(Debug)]
 struct Call {
+    /// Its place in [`State::calls`].
+    index: usize,
     builtin: &'static Builtin,
     /// In the order written (the order they are evaluated).
     args: Vec<Argument>,
-    /// The fields its record is read for, when it defines a value.
-    wanted: Option<Arc<[String]>>,
 }
 
 #[derive(Debug)]
@@ -109,11 +109,22 @@ struct Argument {
 pub(super) struct Plan {
     /// Literals and the values the inputs do not change.
     fixed: Vec<Value>,
+    /// What reading each fixed value counts against the step budget
+    /// ([`Cost`]).
+    fixed_costs: Vec<Cost>,
     /// The dependent definitions, by slot.
     defs: Vec<Step>,
     /// The expressions evaluated at a point, in order.
     exprs: Vec<Step>,
+    /// Each built-in call's built-in, span and the fields its record is
+    /// read for (when it defines a value), by [`Call::index`].
+    calls: Vec<(&'static Builtin, Span, Option<Arc<[String]>>)>,
 }
+
+/// The items [`Ctx::charge_list`] counts for a list or record value (worked
+/// out once per value; reading it again counts the same), `None` for other
+/// values, which it does not count.
+type Cost = Option<usize>;
 
 /// A dependent definition's value at the current point.
 #[derive(Clone, Debug, Default)]
@@ -121,26 +132,26 @@ enum Slot {
     /// Not read yet.
     #[default]
     Unset,
-    Ready(Value),
+    Ready(Value, Cost),
     /// Its evaluation failed (and was reported).
     Failed,
 }
 
 /// What one worker keeps from point to point.
-#[derive(Debug)]
 pub(super) struct State {
     slots: Vec<Slot>,
-    inputs: Vec<Value>,
+    /// The varied inputs' values.
+    pub inputs: Vec<Value>,
+    /// Each built-in call's arguments, reused (`None` while the call runs).
+    calls: Vec<Option<Box<Args>>>,
 }
 
 impl State {
-    /// Start a point: no definition computed, the inputs set to `inputs`.
-    pub fn start(&mut self, inputs: impl Iterator<Item = Value>) {
+    /// Start a point: no definition computed yet. (The caller sets the inputs.)
+    pub fn start(&mut self) {
         for s in &mut self.slots {
             *s = Slot::Unset;
         }
-        self.inputs.clear();
-        self.inputs.extend(inputs);
     }
 }
 
@@ -162,8 +173,10 @@ impl Plan {
             inputs,
             dependent,
             fixed: Vec::new(),
+            fixed_costs: Vec::new(),
             slots: FastMap::default(),
             defs: Vec::new(),
+            calls: Vec::new(),
             nodes: 0,
         };
         let exprs = exprs.map(|e| c.expr(e)).collect::<Option<Vec<Step>>>()?;
@@ -176,16 +189,24 @@ impl Plan {
         COMPILED.with(|n| n.set(n.get() + 1));
         Some(Plan {
             fixed: c.fixed,
+            fixed_costs: c.fixed_costs,
             defs,
             exprs,
+            calls: c.calls,
         })
     }
 
     /// A worker's room for the values of one point.
     pub fn state(&self) -> State {
+        let args = |(b, span, wanted): &(&'static Builtin, Span, Option<Arc<[String]>>)| {
+            let mut args = Args::unbound(b, *span);
+            args.wanted = wanted.clone();
+            Some(Box::new(args))
+        };
         State {
             slots: vec![Slot::Unset; self.defs.len()],
             inputs: Vec::new(),
+            calls: self.calls.iter().map(args).collect(),
         }
     }
 
@@ -197,6 +218,7 @@ impl Plan {
             ctx,
             slots: &mut state.slots,
             inputs: &state.inputs,
+            calls: &mut state.calls,
         };
         run.step(&self.exprs[k])
     }
@@ -209,10 +231,13 @@ struct Compiler<'c> {
     inputs: &'c [String],
     dependent: &'c HashSet<String>,
     fixed: Vec<Value>,
+    fixed_costs: Vec<Cost>,
     /// Slots of the dependent definitions compiled (or being compiled).
     slots: FastMap<String, usize>,
     /// `None` while a definition is being compiled.
     defs: Vec<Option<Step>>,
+    /// The built-in calls compiled: [`Plan::calls`].
+    calls: Vec<(&'static Builtin, Span, Option<Arc<[String]>>)>,
     /// Nodes compiled.
     nodes: usize,
 }
@@ -243,6 +268,7 @@ impl Compiler<'_> {
 
     fn literal(&mut self, v: Value) -> Node {
         self.fixed.push(v);
+        self.fixed_costs.push(None);
         Node::Literal(self.fixed.len() - 1)
     }
 
@@ -271,7 +297,14 @@ impl Compiler<'_> {
             return self.def(n).map(Source::Def);
         }
         let v = self.ctx.sheet.cache.get(n)?.clone();
+        let cost = match v {
+            Value::List(_) | Value::Record(_) => {
+                Some(self.ctx.list_cost(&v, Span::default()).ok()?)
+            }
+            _ => None,
+        };
         self.fixed.push(v);
+        self.fixed_costs.push(cost);
         Some(Source::Fixed(self.fixed.len() - 1))
     }
 
@@ -340,10 +373,11 @@ impl Compiler<'_> {
                 span: a.span,
             });
         }
+        self.calls.push((builtin, span, wanted));
         Some(Call {
+            index: self.calls.len() - 1,
             builtin,
             args: out,
-            wanted,
         })
     }
 }
@@ -354,6 +388,7 @@ struct Run<'r, 'a> {
     ctx: &'r mut Ctx<'a>,
     slots: &'r mut [Slot],
     inputs: &'r [Value],
+    calls: &'r mut [Option<Box<Args>>],
 }
 
 /// An evaluated operand: a fresh value, or a name whose value stays where it is.
@@ -365,21 +400,56 @@ enum Operand {
 impl Run<'_, '_> {
     /// [`Ctx::expr`] on the step's expression.
     fn step(&mut self, s: &Step) -> Flow<Value> {
+        self.step_costed(s).map(|(v, _)| v)
+    }
+
+    /// [`Run::step`], with what its value counts against the step budget.
+    fn step_costed(&mut self, s: &Step) -> Flow<(Value, Cost)> {
         self.ctx.tick(s.span)?;
-        let v = self.node(s)?;
-        if matches!(v, Value::List(_) | Value::Record(_)) {
-            self.ctx.charge_list(&v, s.span)?;
+        if let Node::Name(src) = s.node {
+            self.read(src, s.span)?;
+            return Ok((self.value(src).clone(), self.cost(src)));
         }
-        Ok(v)
+        let v = self.node(s)?;
+        let cost = match v {
+            Value::List(_) | Value::Record(_) => {
+                let n = self.ctx.list_cost(&v, s.span)?;
+                self.ctx.charge_items(n, s.span)?;
+                Some(n)
+            }
+            _ => None,
+        };
+        Ok((v, cost))
+    }
+
+    /// Read name `src` at `span` (after the step's tick): compute it if
+    /// needed, and count its items as `Ctx::expr` does.
+    #[inline]
+    fn read(&mut self, src: Source, span: Span) -> Flow<()> {
+        self.ready(src)?;
+        match self.cost(src) {
+            Some(n) => self.ctx.charge_items(n, span),
+            None => Ok(()),
+        }
+    }
+
+    /// What reading `src` counts (once it is ready).
+    fn cost(&self, src: Source) -> Cost {
+        match src {
+            Source::Fixed(i) => self.plan.fixed_costs[i],
+            // (The varied inputs are quantities.)
+            Source::Input(_) => None,
+            Source::Def(k) => match &self.slots[k] {
+                Slot::Ready(_, cost) => *cost,
+                Slot::Unset | Slot::Failed => None,
+            },
+        }
     }
 
     fn node(&mut self, s: &Step) -> Flow<Value> {
         match &s.node {
             Node::Literal(i) => Ok(self.plan.fixed[*i].clone()),
-            Node::Name(src) => {
-                self.ready(*src)?;
-                Ok(self.value(*src).clone())
-            }
+            Node::Name(src) => Ok(self.value(*src).clone()),
             Node::Field(of, field) => self.field(of, field),
             Node::Unary(op, a) => {
                 let v = self.step(a)?;
@@ -401,7 +471,7 @@ impl Run<'_, '_> {
     fn ready(&mut self, src: Source) -> Flow<()> {
         match src {
             Source::Def(k) => match self.slots[k] {
-                Slot::Ready(_) => Ok(()),
+                Slot::Ready(..) => Ok(()),
                 Slot::Failed => Err(Stop::Reported),
                 Slot::Unset => self.force(k),
             },
@@ -411,9 +481,9 @@ impl Run<'_, '_> {
 
     fn force(&mut self, k: usize) -> Flow<()> {
         let plan = self.plan;
-        match self.step(&plan.defs[k]) {
-            Ok(v) => {
-                self.slots[k] = Slot::Ready(v);
+        match self.step_costed(&plan.defs[k]) {
+            Ok((v, cost)) => {
+                self.slots[k] = Slot::Ready(v, cost);
                 Ok(())
             }
             Err(stop) => {
@@ -427,20 +497,12 @@ impl Run<'_, '_> {
     /// The value of `src`, when it is at hand (not a definition still to
     /// compute): what the evaluator finds in its cache.
     fn computed(&self, src: Source) -> Option<&Value> {
-        match src {
-            Source::Fixed(i) => Some(&self.plan.fixed[i]),
-            Source::Input(k) => Some(&self.inputs[k]),
-            Source::Def(k) => match &self.slots[k] {
-                Slot::Ready(v) => Some(v),
-                Slot::Unset | Slot::Failed => None,
-            },
-        }
+        computed(self.plan, self.slots, self.inputs, src)
     }
 
     /// The value of `src` once [`Run::ready`] succeeded.
     fn value(&self, src: Source) -> &Value {
-        static MISSING: Value = Value::Bool(false);
-        self.computed(src).unwrap_or(&MISSING)
+        value(self.plan, self.slots, self.inputs, src)
     }
 
     fn view<'s>(&'s self, o: &'s Operand) -> &'s Value {
@@ -460,32 +522,91 @@ impl Run<'_, '_> {
         self.step(e).map(Operand::Owned)
     }
 
-    /// `of.field`, as `Ctx::field` reads it: in place from a computed record.
-    fn field(&mut self, of: &Step, field: &Ident) -> Flow<Value> {
-        if let Node::Name(src) = of.node {
-            if let Some(Value::Record(r)) = self.computed(src) {
-                if let Some(v) = r.get(&field.name) {
-                    return Ok(v.clone());
-                }
+    /// [`Run::step`] on an argument, with the two common forms (a name, a
+    /// literal) taken directly.
+    #[inline]
+    fn argument(&mut self, s: &Step) -> Flow<Value> {
+        match s.node {
+            Node::Name(src) => {
+                self.ctx.tick(s.span)?;
+                self.read(src, s.span)?;
+                Ok(self.value(src).clone())
             }
+            // (A literal is a quantity, a truth value or text: nothing to count.)
+            Node::Literal(i) => {
+                self.ctx.tick(s.span)?;
+                Ok(self.plan.fixed[i].clone())
+            }
+            _ => self.step(s),
         }
-        let v = self.step(of)?;
-        read_field(v, of.span, field)
     }
 
-    /// A built-in call, as `Ctx::call_builtin` runs it.
+    /// `of.field`, as `Ctx::field` reads it: in place from a computed record.
+    fn field(&mut self, of: &Step, field: &Ident) -> Flow<Value> {
+        let Node::Name(src) = of.node else {
+            let v = self.step(of)?;
+            return read_field(&v, of.span, field);
+        };
+        if let Some(Value::Record(r)) = self.computed(src) {
+            if let Some(v) = r.get(&field.name) {
+                return Ok(v.clone());
+            }
+        }
+        // `self.step(of)` without copying the value: the same steps.
+        self.ctx.tick(of.span)?;
+        self.read(src, of.span)?;
+        read_field(self.value(src), of.span, field)
+    }
+
+    /// A built-in call, as `Ctx::call_builtin` runs it, in the arguments
+    /// kept for it from the last point.
     fn call(&mut self, call: &Call, span: Span) -> Flow<Value> {
-        let mut bound: Vec<Option<Arg>> = vec![None; call.builtin.params.len()];
+        let mut args = match self.calls[call.index].take() {
+            Some(mut args) => {
+                args.clear();
+                args
+            }
+            None => Box::new(Args::unbound(call.builtin, span)),
+        };
+        let result = self.run_call(call, &mut args, span);
+        self.calls[call.index] = Some(args);
+        result
+    }
+
+    fn run_call(&mut self, call: &Call, args: &mut Args, span: Span) -> Flow<Value> {
         for a in &call.args {
-            let value = self.step(&a.value)?;
-            bound[a.param] = Some(Arg {
+            let value = self.argument(&a.value)?;
+            let arg = Arg {
                 name: None,
                 value,
                 span: a.span,
-            });
+            };
+            args.place(a.param, arg);
         }
-        let mut args = Args::prebound(call.builtin, span, bound);
-        args.wanted = call.wanted.clone();
         self.ctx.run_builtin(call.builtin, args, span)
     }
+}
+
+/// The value of `src`, when it is at hand (not a definition still to
+/// compute): what the evaluator finds in its cache.
+fn computed<'v>(
+    plan: &'v Plan,
+    slots: &'v [Slot],
+    inputs: &'v [Value],
+    src: Source,
+) -> Option<&'v Value> {
+    match src {
+        Source::Fixed(i) => Some(&plan.fixed[i]),
+        Source::Input(k) => Some(&inputs[k]),
+        Source::Def(k) => match &slots[k] {
+            Slot::Ready(v, _) => Some(v),
+            Slot::Unset | Slot::Failed => None,
+        },
+    }
+}
+
+/// The value of `src` once [`Run::ready`] succeeded.
+fn value<'v>(plan: &'v Plan, slots: &'v [Slot], inputs: &'v [Value], src: Source) -> &'v Value {
+    static MISSING: Value = Value::Bool(false);
+    computed(plan, slots, inputs, src).unwrap_or(&MISSING)
 }
