@@ -492,7 +492,7 @@ impl<'a> Ctx<'a> {
         // `x * y as UNIT` over computed quantities: no value is built for the product.
         if let Some(q) = self.computed_arithmetic(a)? {
             let unit = unit_at(&mut self.sheet.unit_texts, self.sources, u)?;
-            return show_quantity(q, unit).map_err(|msg| shown_as_failure(msg, a, u));
+            return show_quantity(q, unit).map_err(|msg| shown_as_failure(msg, a.span, u.span));
         }
         self.shown_as_value(a, u)
     }
@@ -508,7 +508,7 @@ impl<'a> Ctx<'a> {
         } else {
             show_in(shown, unit)
         };
-        result.map_err(|msg| shown_as_failure(msg, a, u))
+        result.map_err(|msg| shown_as_failure(msg, a.span, u.span))
     }
 
     /// `x op y` for an arithmetic operator whose operands are names of
@@ -574,9 +574,9 @@ fn resolve_and_keep<'u>(
 
 /// The error of a failed `a as u`.
 #[cold]
-fn shown_as_failure(msg: String, a: &Expr, u: &UnitExpr) -> Stop {
-    let mut d = Diagnostic::error(u.span, msg);
-    d.hints.push((Some(a.span), "this value".into()));
+pub(super) fn shown_as_failure(msg: String, a: Span, u: Span) -> Stop {
+    let mut d = Diagnostic::error(u, msg);
+    d.hints.push((Some(a), "this value".into()));
     d.into()
 }
 
@@ -638,7 +638,7 @@ pub(super) fn binary_values(
 }
 
 /// The diagnostic for a failed `x op y`, with a hint for two absolute temperatures.
-fn binary_failure(
+pub(super) fn binary_failure(
     op: BinaryOp,
     e: ops::OpError,
     x: &Value,
@@ -687,7 +687,7 @@ fn show_shape(v: &Value, unit: &Unit) -> Result<Value, String> {
 }
 
 /// Attach a display unit to a quantity (or every quantity in a list).
-fn show_in(v: &Value, unit: &Unit) -> Result<Value, String> {
+pub(super) fn show_in(v: &Value, unit: &Unit) -> Result<Value, String> {
     match v {
         Value::Quantity(q, _) => show_quantity(*q, unit),
         Value::List(items) => items
@@ -704,7 +704,7 @@ fn show_in(v: &Value, unit: &Unit) -> Result<Value, String> {
 
 /// A quantity with `unit` as its display unit, when it can be shown in it.
 #[inline(always)]
-fn show_quantity(q: Quantity, unit: &Unit) -> Result<Value, String> {
+pub(super) fn show_quantity(q: Quantity, unit: &Unit) -> Result<Value, String> {
     if q.dim != unit.dim {
         return Err(cannot_show(&q, unit));
     }

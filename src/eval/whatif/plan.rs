@@ -35,10 +35,15 @@ use std::collections::HashSet;
 use std::sync::Arc;
 
 use crate::diag::Span;
-use crate::eval::ctx::{binary_values, read_field, unary_value, MAX_NESTING};
+use crate::eval::ctx::{
+    binary_failure, binary_values, read_field, show_in, show_quantity, shown_as_failure,
+    unary_value, MAX_NESTING,
+};
+use crate::eval::ops;
 use crate::eval::{Ctx, DefKind, FastMap, Flow, Limits, Mode, Sheet, Sources, Stop};
 use crate::library::{self, Arg, Args, Builtin};
 use crate::syntax::{BinaryOp, CallArg, Expr, ExprKind, Ident, UnaryOp};
+use crate::units::{Quantity, Unit};
 use crate::value::Value;
 
 thread_local! {
@@ -83,6 +88,8 @@ enum Node {
     /// Any binary operator but `and` and `or`.
     Binary(BinaryOp, Box<Step>, Box<Step>),
     Call(Box<Call>),
+    /// `a as unit`, with the unit's span.
+    As(Box<Step>, Unit, Span),
 }
 
 /// A built-in call with its arguments bound.
@@ -260,6 +267,10 @@ impl Compiler<'_> {
             }
             ExprKind::Call { callee, args } => {
                 Node::Call(Box::new(self.call(callee, args, e.span, None)?))
+            }
+            ExprKind::As(a, unit) => {
+                let a = self.expr(a)?;
+                Node::As(Box::new(a), self.ctx.unit(unit).ok()?, unit.span)
             }
             _ => return None,
         };
@@ -462,7 +473,42 @@ impl Run<'_, '_> {
                 binary_values(*op, x, y, (a.span, b.span), s.span)
             }
             Node::Call(call) => self.call(call, s.span),
+            Node::As(a, unit, unit_span) => self.shown_as(a, unit, *unit_span),
         }
+    }
+
+    /// `a as unit`, as `Ctx::shown_as` shows it (arithmetic on two computed
+    /// quantities taken without building a value for it).
+    fn shown_as(&mut self, a: &Step, unit: &Unit, unit_span: Span) -> Flow<Value> {
+        if let Some(q) = self.computed_arithmetic(a)? {
+            return show_quantity(q, unit).map_err(|msg| shown_as_failure(msg, a.span, unit_span));
+        }
+        let v = self.operand(a)?;
+        show_in(self.view(&v), unit).map_err(|msg| shown_as_failure(msg, a.span, unit_span))
+    }
+
+    /// `Ctx::computed_arithmetic`: `x op y` for an arithmetic operator on
+    /// two names of computed quantities, with the step of `e`; `None`
+    /// (nothing done) for any other form.
+    fn computed_arithmetic(&mut self, e: &Step) -> Flow<Option<Quantity>> {
+        let Node::Binary(op, x, y) = &e.node else {
+            return Ok(None);
+        };
+        let (Node::Name(sx), Node::Name(sy)) = (&x.node, &y.node) else {
+            return Ok(None);
+        };
+        if !ops::is_arithmetic(*op) {
+            return Ok(None);
+        }
+        let (qx, qy) = match (self.computed(*sx), self.computed(*sy)) {
+            (Some(Value::Quantity(qx, _)), Some(Value::Quantity(qy, _))) => (*qx, *qy),
+            _ => return Ok(None),
+        };
+        self.ctx.tick(e.span)?;
+        ops::arithmetic(*op, &qx, &qy).map(Some).map_err(|err| {
+            let (vx, vy) = (self.value(*sx), self.value(*sy));
+            binary_failure(*op, err, vx, vy, (x.span, y.span), e.span)
+        })
     }
 
     /// Compute the value of `src` if it is a definition not read yet at this
