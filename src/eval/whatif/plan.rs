@@ -123,9 +123,17 @@ pub(super) struct Plan {
     defs: Vec<Step>,
     /// The expressions evaluated at a point, in order.
     exprs: Vec<Step>,
-    /// Each built-in call's built-in, span and the fields its record is
-    /// read for (when it defines a value), by [`Call::index`].
-    calls: Vec<(&'static Builtin, Span, Option<Arc<[String]>>)>,
+    /// The built-in calls, by [`Call::index`].
+    calls: Vec<CallSite>,
+}
+
+/// What a built-in call's arguments are made for.
+#[derive(Debug)]
+struct CallSite {
+    builtin: &'static Builtin,
+    span: Span,
+    /// The fields its record is read for, when it defines a value.
+    wanted: Option<Arc<[String]>>,
 }
 
 /// The items [`Ctx::charge_list`] counts for a list or record value (worked
@@ -205,9 +213,9 @@ impl Plan {
 
     /// A worker's room for the values of one point.
     pub fn state(&self) -> State {
-        let args = |(b, span, wanted): &(&'static Builtin, Span, Option<Arc<[String]>>)| {
-            let mut args = Args::unbound(b, *span);
-            args.wanted = wanted.clone();
+        let args = |c: &CallSite| {
+            let mut args = Args::unbound(c.builtin, c.span);
+            args.wanted = c.wanted.clone();
             Some(Box::new(args))
         };
         State {
@@ -244,7 +252,7 @@ struct Compiler<'c> {
     /// `None` while a definition is being compiled.
     defs: Vec<Option<Step>>,
     /// The built-in calls compiled: [`Plan::calls`].
-    calls: Vec<(&'static Builtin, Span, Option<Arc<[String]>>)>,
+    calls: Vec<CallSite>,
     /// Nodes compiled.
     nodes: usize,
 }
@@ -384,7 +392,11 @@ impl Compiler<'_> {
                 span: a.span,
             });
         }
-        self.calls.push((builtin, span, wanted));
+        self.calls.push(CallSite {
+            builtin,
+            span,
+            wanted,
+        });
         Some(Call {
             index: self.calls.len() - 1,
             builtin,
