@@ -396,16 +396,8 @@ impl<'a> Ctx<'a> {
     }
 
     fn unary(&mut self, op: UnaryOp, a: &Expr, span: Span) -> Flow<Value> {
-        // `-10 degC` is a negative reading on the scale, not the negation of an absolute temperature.
-        if let (
-            UnaryOp::Neg,
-            ExprKind::Quantity {
-                value,
-                unit: Some(unit),
-            },
-        ) = (op, &a.kind)
-        {
-            return self.quantity(-*value, Some(unit), span);
+        if let Some((value, unit)) = negative_reading(op, a) {
+            return self.quantity(value, Some(unit), span);
         }
         let v = self.expr(a)?;
         if !self.shapes_only(&[&v]) {
@@ -586,6 +578,22 @@ fn nested_too_deeply(span: Span) -> Stop {
     Diagnostic::error(span, "evaluation nested too deeply")
         .with_hint("does a function call itself without end?")
         .into()
+}
+
+/// `-10 degC` (`op` applied to `a`) is a negative reading on the scale, not
+/// the negation of an absolute temperature: the literal's value, negated,
+/// and its unit, when `op a` is a minus before a literal with a unit.
+pub(super) fn negative_reading(op: UnaryOp, a: &Expr) -> Option<(f64, &UnitExpr)> {
+    match (op, &a.kind) {
+        (
+            UnaryOp::Neg,
+            ExprKind::Quantity {
+                value,
+                unit: Some(unit),
+            },
+        ) => Some((-*value, unit)),
+        _ => None,
+    }
 }
 
 /// A value as the truth value `what` (`check`, `if`, `and`) needs, or an

@@ -36,8 +36,8 @@ use std::sync::Arc;
 
 use crate::diag::Span;
 use crate::eval::ctx::{
-    binary_failure, binary_values, read_field, show_in, show_quantity, shown_as_failure,
-    unary_value, MAX_NESTING,
+    binary_failure, binary_values, negative_reading, read_field, show_in, show_quantity,
+    shown_as_failure, unary_value, MAX_NESTING,
 };
 use crate::eval::ops;
 use crate::eval::{Ctx, DefKind, FastMap, Flow, Limits, Mode, Sheet, Sources, Stop};
@@ -293,15 +293,8 @@ impl Compiler<'_> {
 
     fn unary(&mut self, op: UnaryOp, a: &Expr, span: Span) -> Option<Node> {
         // `-10 degC` is one literal to the evaluator (see `Ctx::unary`).
-        if let (
-            UnaryOp::Neg,
-            ExprKind::Quantity {
-                value,
-                unit: Some(unit),
-            },
-        ) = (op, &a.kind)
-        {
-            let v = self.ctx.quantity(-*value, Some(unit), span).ok()?;
+        if let Some((value, unit)) = negative_reading(op, a) {
+            let v = self.ctx.quantity(value, Some(unit), span).ok()?;
             return Some(self.literal(v));
         }
         Some(Node::Unary(op, Box::new(self.expr(a)?)))
