@@ -77,6 +77,14 @@ fn air_sweeps_agree() {
     planned(&format!(
         "{AIR}\ns = sweep([twb], T: steps(50 degC, 90 degC, 5 K))"
     ));
+    // A value read by one probe only (moved out of its slot), one read
+    // twice, and a whole record.
+    planned(&format!(
+        "{AIR}\ns = sweep([twb, a, twb], T: steps(50 degC, 90 degC, 5 K))"
+    ));
+    planned(&format!(
+        "{AIR}\ns = sweep([a], T: steps(50 degC, 90 degC, 5 K))"
+    ));
 }
 
 #[test]

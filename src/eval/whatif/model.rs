@@ -354,14 +354,22 @@ impl Model {
             }
         }
         // As `Ctx::truth` does for a `check`.
-        let broken = (0..self.rules.len())
-            .filter(|&i| {
-                let span = self.rules[i].expr.span;
-                let passed = eval(ctx, n + i).and_then(|v| truth_value(v, "check", span));
-                !matches!(passed, Ok(true))
-            })
-            .collect();
-        let warnings = ctx.warnings.iter().map(|w| w.message.clone()).collect();
+        let broken = if self.rules.is_empty() {
+            Vec::new()
+        } else {
+            (0..self.rules.len())
+                .filter(|&i| {
+                    let span = self.rules[i].expr.span;
+                    let passed = eval(ctx, n + i).and_then(|v| truth_value(v, "check", span));
+                    !matches!(passed, Ok(true))
+                })
+                .collect()
+        };
+        let warnings = if ctx.warnings.is_empty() {
+            Vec::new()
+        } else {
+            ctx.warnings.iter().map(|w| w.message.clone()).collect()
+        };
         Outcome {
             values: Ok(values),
             broken,

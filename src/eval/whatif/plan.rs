@@ -123,6 +123,9 @@ pub(super) struct Plan {
     defs: Vec<Step>,
     /// The expressions evaluated at a point, in order.
     exprs: Vec<Step>,
+    /// For each expression that is the name of a dependent definition read
+    /// nowhere else, its slot: the value moves out instead of being copied.
+    sole_reads: Vec<Option<usize>>,
     /// The built-in calls, by [`Call::index`].
     calls: Vec<CallSite>,
 }
@@ -191,6 +194,7 @@ impl Plan {
             fixed_costs: Vec::new(),
             slots: FastMap::default(),
             defs: Vec::new(),
+            reads: Vec::new(),
             calls: Vec::new(),
             nodes: 0,
         };
@@ -200,6 +204,13 @@ impl Plan {
         if c.nodes >= MAX_NESTING {
             return None;
         }
+        let sole_reads = exprs
+            .iter()
+            .map(|e| match e.node {
+                Node::Name(Source::Def(k)) if c.reads[k] == 1 => Some(k),
+                _ => None,
+            })
+            .collect();
         let defs = c.defs.into_iter().collect::<Option<_>>()?;
         COMPILED.with(|n| n.set(n.get() + 1));
         Some(Plan {
@@ -207,6 +218,7 @@ impl Plan {
             fixed_costs: c.fixed_costs,
             defs,
             exprs,
+            sole_reads,
             calls: c.calls,
         })
     }
@@ -235,7 +247,17 @@ impl Plan {
             inputs: &state.inputs,
             calls: &mut state.calls,
         };
-        run.step(&self.exprs[k])
+        let e = &self.exprs[k];
+        if let Some(slot) = self.sole_reads[k] {
+            run.ctx.tick(e.span)?;
+            run.read(Source::Def(slot), e.span)?;
+            return Ok(match std::mem::take(&mut run.slots[slot]) {
+                Slot::Ready(v, _) => v,
+                // (Not reached: `read` made it ready.)
+                Slot::Unset | Slot::Failed => run.value(Source::Def(slot)).clone(),
+            });
+        }
+        run.step(e)
     }
 }
 
@@ -251,6 +273,8 @@ struct Compiler<'c> {
     slots: FastMap<String, usize>,
     /// `None` while a definition is being compiled.
     defs: Vec<Option<Step>>,
+    /// How many name nodes read each slot.
+    reads: Vec<usize>,
     /// The built-in calls compiled: [`Plan::calls`].
     calls: Vec<CallSite>,
     /// Nodes compiled.
@@ -306,7 +330,9 @@ impl Compiler<'_> {
             return Some(Source::Input(k));
         }
         if self.dependent.contains(n) {
-            return self.def(n).map(Source::Def);
+            let k = self.def(n)?;
+            self.reads[k] += 1;
+            return Some(Source::Def(k));
         }
         let v = self.ctx.sheet.cache.get(n)?.clone();
         let cost = match v {
@@ -333,6 +359,7 @@ impl Compiler<'_> {
         let (expr, wanted) = (d.expr.clone(), d.wanted.clone());
         let k = self.defs.len();
         self.defs.push(None);
+        self.reads.push(0);
         self.slots.insert(n.to_string(), k);
         let step = match (&expr.kind, wanted) {
             // `Ctx::force` hands the wanted fields to the definition's call.
