@@ -15,7 +15,8 @@
 //!   work, the warnings and the first error stay the same);
 //! - a built-in call knows the parameter each argument binds to (worked out
 //!   with [`Args::bind_one`], as the evaluator binds) and the fields its
-//!   definition's record is read for ([`crate::eval::Def::wanted`]).
+//!   definition's record is read for ([`crate::eval::Def::wanted`]); each
+//!   worker keeps one [`Args`] per call and refills it at every point.
 //!
 //! At a point, [`Plan::eval`] walks these steps in the evaluator's order,
 //! with the evaluator's own operators, field reads, step counting
@@ -25,11 +26,11 @@
 //! (`tests/sweep_plan.rs`) holds the two paths to each other.
 //!
 //! The plan covers names, literals, field reads, prefix and binary
-//! operators (not `and`/`or`, which short-circuit) and built-in calls.
-//! Anything else in the dependent definitions, probes or rules (user
-//! functions, `if`, lists, records, `as`, loads, nested studies, inputs
-//! that depend on the varied ones, a study inside a user function) leaves
-//! the study without a plan, on the general path.
+//! operators (not `and`/`or`, which short-circuit), `as` and built-in
+//! calls. Anything else in the dependent definitions, probes or rules (user
+//! functions, `if`, `and`/`or`, lists, records, loads, nested studies,
+//! inputs that depend on the varied ones, a study inside a user function)
+//! leaves the study without a plan, on the general path, as a whole.
 
 use std::collections::HashSet;
 use std::sync::Arc;
