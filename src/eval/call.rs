@@ -80,8 +80,8 @@ impl Ctx<'_> {
             if self.check_call(b, &values) {
                 return self.builtin_shape(b, values, span);
             }
-            let bound = Args::bind(b, span, values)?;
-            return self.run_builtin(b, bound, span);
+            let mut bound = Args::bind(b, span, values)?;
+            return self.run_builtin(b, &mut bound, span);
         }
         // Every argument is evaluated before a binding error is reported
         // (an error in a later argument comes first).
@@ -103,13 +103,22 @@ impl Ctx<'_> {
             return Err(d.into());
         }
         bound.wanted = wanted;
-        self.run_builtin(b, bound, span)
+        self.run_builtin(b, &mut bound, span)
     }
 
     /// Run a built-in on bound arguments, catching panics as internal errors.
-    fn run_builtin(&mut self, b: &'static Builtin, mut bound: Args, span: Span) -> Flow<Value> {
-        bound.dir = Some(self.sheet.shared_dir());
-        let result = catch_unwind(AssertUnwindSafe(|| (b.func)(&mut bound)));
+    /// The arguments' folder is the sheet's, unless they have one already
+    /// (arguments reused from call to call within one study).
+    pub(super) fn run_builtin(
+        &mut self,
+        b: &'static Builtin,
+        bound: &mut Args,
+        span: Span,
+    ) -> Flow<Value> {
+        if bound.dir.is_none() {
+            bound.dir = Some(self.sheet.shared_dir());
+        }
+        let result = catch_unwind(AssertUnwindSafe(|| (b.func)(bound)));
         self.warnings.append(&mut bound.warnings);
         match result {
             Ok(Ok(v)) => check_finite(v, b, span),

@@ -1,7 +1,6 @@
 //! The evaluator: forces named values through the dependency graph and
 //! evaluates expressions, attaching spans to span-less unit errors.
 
-use std::collections::HashSet;
 use std::path::PathBuf;
 
 use super::ops::{self, dim_words, OpError};
@@ -62,7 +61,7 @@ pub struct Ctx<'a> {
     /// Names being computed right now (catches cycles the static check could not see).
     active: Vec<std::sync::Arc<str>>,
     /// Names whose evaluation failed in this run.
-    failed: HashSet<String>,
+    failed: super::fastmap::FastSet<String>,
     /// Canonical paths of the worksheets being loaded, outermost first.
     pub load_stack: Vec<PathBuf>,
     /// Depth of user-function calls and loads.
@@ -97,7 +96,7 @@ impl<'a> Ctx<'a> {
             errors: Vec::new(),
             frame: None,
             active: Vec::new(),
-            failed: HashSet::new(),
+            failed: Default::default(),
             load_stack: Vec::new(),
             depth: 0,
             nesting: 0,
@@ -128,7 +127,7 @@ impl<'a> Ctx<'a> {
 
     /// Count one step against the budget; check the interrupt flag now and then.
     #[inline]
-    fn tick(&mut self, span: Span) -> Flow<()> {
+    pub(super) fn tick(&mut self, span: Span) -> Flow<()> {
         self.ops += 1;
         if self.ops <= self.limits.max_operations && self.ops % 1024 != 0 {
             return Ok(());
@@ -277,7 +276,14 @@ impl<'a> Ctx<'a> {
 
     /// Count a list's items against the step budget and refuse a list larger
     /// than the limit, so that a worksheet cannot exhaust memory.
-    fn charge_list(&mut self, list: &Value, span: Span) -> Flow<()> {
+    pub(super) fn charge_list(&mut self, list: &Value, span: Span) -> Flow<()> {
+        let items = self.list_cost(list, span)?;
+        self.charge_items(items, span)
+    }
+
+    /// The items [`Ctx::charge_list`] counts for `list`, or its error for a
+    /// value nested too deeply or too large.
+    pub(super) fn list_cost(&self, list: &Value, span: Span) -> Flow<usize> {
         let (items, depth) = list_items(list);
         if depth > MAX_VALUE_DEPTH {
             let msg = format!("lists and records nested deeper than {MAX_VALUE_DEPTH} levels");
@@ -294,6 +300,12 @@ impl<'a> Ctx<'a> {
                 .with_hint("sweep fewer points, or split the work into smaller lists")
                 .into());
         }
+        Ok(items)
+    }
+
+    /// Count `items` items of a list ([`Ctx::list_cost`]) and one step.
+    #[inline]
+    pub(super) fn charge_items(&mut self, items: usize, span: Span) -> Flow<()> {
         self.ops += items as u64;
         self.tick(span)
     }
@@ -345,7 +357,12 @@ impl<'a> Ctx<'a> {
         self.force(n, span)
     }
 
-    fn quantity(&mut self, value: f64, unit: Option<&UnitExpr>, span: Span) -> Flow<Value> {
+    pub(super) fn quantity(
+        &mut self,
+        value: f64,
+        unit: Option<&UnitExpr>,
+        span: Span,
+    ) -> Flow<Value> {
         match unit {
             None => Ok(Value::Quantity(Quantity::number(value), None)),
             Some(u) => {
@@ -379,23 +396,14 @@ impl<'a> Ctx<'a> {
     }
 
     fn unary(&mut self, op: UnaryOp, a: &Expr, span: Span) -> Flow<Value> {
-        // `-10 degC` is a negative reading on the scale, not the negation of an absolute temperature.
-        if let (
-            UnaryOp::Neg,
-            ExprKind::Quantity {
-                value,
-                unit: Some(unit),
-            },
-        ) = (op, &a.kind)
-        {
-            return self.quantity(-*value, Some(unit), span);
+        if let Some((value, unit)) = negative_reading(op, a) {
+            return self.quantity(value, Some(unit), span);
         }
         let v = self.expr(a)?;
-        let result = if self.shapes_only(&[&v]) {
-            self.on_shapes(None, &v, None, |x, _| ops::unary(op, x))?
-        } else {
-            ops::unary(op, &v)
-        };
+        if !self.shapes_only(&[&v]) {
+            return unary_value(op, &v, span, a.span);
+        }
+        let result = self.on_shapes(None, &v, None, |x, _| ops::unary(op, x))?;
         result.map_err(|e| op_error(e, span, a.span, a.span).into())
     }
 
@@ -446,16 +454,8 @@ impl<'a> Ctx<'a> {
 
     /// Evaluate to a truth value, or blame the expression.
     pub fn truth(&mut self, e: &Expr, what: &str) -> Flow<bool> {
-        match self.expr(e)? {
-            Value::Bool(b) => Ok(b),
-            other => {
-                let msg = format!(
-                    "`{what}` needs a truth value (a comparison), found {}",
-                    type_word(&other)
-                );
-                Err(Diagnostic::error(e.span, msg).into())
-            }
-        }
+        let v = self.expr(e)?;
+        truth_value(v, what, e.span)
     }
 
     fn conditional(&mut self, c: &Expr, a: &Expr, b: &Expr) -> Flow<Value> {
@@ -475,20 +475,8 @@ impl<'a> Ctx<'a> {
                 return Ok(v.clone());
             }
         }
-        match self.expr(a)? {
-            Value::Record(r) => r
-                .get(&field.name)
-                .cloned()
-                .ok_or_else(|| no_field(&r, field).into()),
-            other => {
-                let msg = format!(
-                    "`.{}` reads a field of a record, but this is {}",
-                    field.name,
-                    type_word(&other)
-                );
-                Err(Diagnostic::error(a.span, msg).into())
-            }
-        }
+        let v = self.expr(a)?;
+        read_field(&v, a.span, field)
     }
 
     #[inline]
@@ -496,7 +484,7 @@ impl<'a> Ctx<'a> {
         // `x * y as UNIT` over computed quantities: no value is built for the product.
         if let Some(q) = self.computed_arithmetic(a)? {
             let unit = unit_at(&mut self.sheet.unit_texts, self.sources, u)?;
-            return show_quantity(q, unit).map_err(|msg| shown_as_failure(msg, a, u));
+            return show_quantity(q, unit).map_err(|msg| shown_as_failure(msg, a.span, u.span));
         }
         self.shown_as_value(a, u)
     }
@@ -512,7 +500,7 @@ impl<'a> Ctx<'a> {
         } else {
             show_in(shown, unit)
         };
-        result.map_err(|msg| shown_as_failure(msg, a, u))
+        result.map_err(|msg| shown_as_failure(msg, a.span, u.span))
     }
 
     /// `x op y` for an arithmetic operator whose operands are names of
@@ -578,9 +566,9 @@ fn resolve_and_keep<'u>(
 
 /// The error of a failed `a as u`.
 #[cold]
-fn shown_as_failure(msg: String, a: &Expr, u: &UnitExpr) -> Stop {
-    let mut d = Diagnostic::error(u.span, msg);
-    d.hints.push((Some(a.span), "this value".into()));
+pub(super) fn shown_as_failure(msg: String, a: Span, u: Span) -> Stop {
+    let mut d = Diagnostic::error(u, msg);
+    d.hints.push((Some(a), "this value".into()));
     d.into()
 }
 
@@ -592,8 +580,62 @@ fn nested_too_deeply(span: Span) -> Stop {
         .into()
 }
 
+/// `-10 degC` (`op` applied to `a`) is a negative reading on the scale, not
+/// the negation of an absolute temperature: the literal's value, negated,
+/// and its unit, when `op a` is a minus before a literal with a unit.
+pub(super) fn negative_reading(op: UnaryOp, a: &Expr) -> Option<(f64, &UnitExpr)> {
+    match (op, &a.kind) {
+        (
+            UnaryOp::Neg,
+            ExprKind::Quantity {
+                value,
+                unit: Some(unit),
+            },
+        ) => Some((-*value, unit)),
+        _ => None,
+    }
+}
+
+/// A value as the truth value `what` (`check`, `if`, `and`) needs, or an
+/// error blaming the expression at `span`.
+pub(super) fn truth_value(v: Value, what: &str, span: Span) -> Flow<bool> {
+    match v {
+        Value::Bool(b) => Ok(b),
+        other => {
+            let msg = format!(
+                "`{what}` needs a truth value (a comparison), found {}",
+                type_word(&other)
+            );
+            Err(Diagnostic::error(span, msg).into())
+        }
+    }
+}
+
+/// Field `field` of `v`, the value of the expression at `span` (a record).
+pub(super) fn read_field(v: &Value, span: Span, field: &crate::syntax::Ident) -> Flow<Value> {
+    match v {
+        Value::Record(r) => r
+            .get(&field.name)
+            .cloned()
+            .ok_or_else(|| no_field(r, field).into()),
+        other => {
+            let msg = format!(
+                "`.{}` reads a field of a record, but this is {}",
+                field.name,
+                type_word(other)
+            );
+            Err(Diagnostic::error(span, msg).into())
+        }
+    }
+}
+
+/// Apply a prefix operator to `v`, the value of the operand at `a`.
+pub(super) fn unary_value(op: UnaryOp, v: &Value, span: Span, a: Span) -> Flow<Value> {
+    ops::unary(op, v).map_err(|e| op_error(e, span, a, a).into())
+}
+
 /// Apply a binary operator to two values, blaming the operands' spans.
-fn binary_values(
+pub(super) fn binary_values(
     op: BinaryOp,
     x: &Value,
     y: &Value,
@@ -604,7 +646,7 @@ fn binary_values(
 }
 
 /// The diagnostic for a failed `x op y`, with a hint for two absolute temperatures.
-fn binary_failure(
+pub(super) fn binary_failure(
     op: BinaryOp,
     e: ops::OpError,
     x: &Value,
@@ -653,7 +695,7 @@ fn show_shape(v: &Value, unit: &Unit) -> Result<Value, String> {
 }
 
 /// Attach a display unit to a quantity (or every quantity in a list).
-fn show_in(v: &Value, unit: &Unit) -> Result<Value, String> {
+pub(super) fn show_in(v: &Value, unit: &Unit) -> Result<Value, String> {
     match v {
         Value::Quantity(q, _) => show_quantity(*q, unit),
         Value::List(items) => items
@@ -670,7 +712,7 @@ fn show_in(v: &Value, unit: &Unit) -> Result<Value, String> {
 
 /// A quantity with `unit` as its display unit, when it can be shown in it.
 #[inline(always)]
-fn show_quantity(q: Quantity, unit: &Unit) -> Result<Value, String> {
+pub(super) fn show_quantity(q: Quantity, unit: &Unit) -> Result<Value, String> {
     if q.dim != unit.dim {
         return Err(cannot_show(&q, unit));
     }

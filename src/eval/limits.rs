@@ -16,6 +16,11 @@ pub struct Limits {
     pub max_list_items: usize,
     /// Set from another thread to stop the evaluation.
     pub interrupt: Arc<AtomicBool>,
+    /// Run what-if studies through a compiled plan where one can be made
+    /// (`eval/whatif/plan.rs`); on by default. Off only to test the plan
+    /// against the general evaluator, which gives the same results.
+    #[doc(hidden)]
+    pub study_plans: bool,
 }
 
 impl Default for Limits {
@@ -25,6 +30,7 @@ impl Default for Limits {
             max_operations: 50_000_000,
             max_list_items: 1_000_000,
             interrupt: Arc::new(AtomicBool::new(false)),
+            study_plans: true,
         }
     }
 }

@@ -198,8 +198,29 @@ impl Args {
         }
     }
 
-    /// Bind one argument to parameter `slot` (`None`: the next positional).
-    pub fn bind_one(&mut self, slot: Option<usize>, arg: Arg) -> Result<(), Diagnostic> {
+    /// Put `arg` at parameter `index`, a place worked out before by
+    /// [`Args::bind_one`]. A what-if study's plan binds each call once and
+    /// then, at every point, clears ([`Args::clear`]) and fills the same
+    /// `Args`.
+    pub fn place(&mut self, index: usize, arg: Arg) {
+        if let Some(place) = self.bound.get_mut(index) {
+            *place = Some(arg);
+        }
+    }
+
+    /// Drop the arguments and warnings a call left, keeping the room (and
+    /// `wanted`, `dir`) for the next call of the same built-in at the same
+    /// place.
+    pub fn clear(&mut self) {
+        for a in &mut self.bound {
+            *a = None;
+        }
+        self.warnings.clear();
+    }
+
+    /// Bind one argument to parameter `slot` (`None`: the next positional),
+    /// giving the index of the parameter it bound to.
+    pub fn bind_one(&mut self, slot: Option<usize>, arg: Arg) -> Result<usize, Diagnostic> {
         let builtin = self.builtin;
         let index = match slot {
             Some(i) if i < builtin.params.len() => i,
@@ -223,7 +244,7 @@ impl Args {
             ));
         }
         self.bound[index] = Some(arg);
-        Ok(())
+        Ok(index)
     }
 
     /// Will the caller read field `name` of the record this call returns?

@@ -9,12 +9,15 @@
 
 mod model;
 mod optimise;
+mod plan;
 pub mod progress;
 mod seek;
 mod spec;
 mod sweep;
 mod uncertainty;
 
+#[doc(hidden)]
+pub use plan::plans_compiled;
 pub use progress::{set_reporter, Progress, Reporter};
 
 use super::{Ctx, Flow};

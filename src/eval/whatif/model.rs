@@ -5,6 +5,9 @@
 //! the calling context, and keeps a copy of the sheet with that cache. Each
 //! point then clears only the dependent values, sets the inputs and forces the
 //! probes: values that do not depend on the inputs are never recomputed.
+//! Where it can, the model compiles the dependent definitions, probes and
+//! rules into a [`Plan`] before the first point, and each point runs that
+//! instead of looking names up (same results; see `plan.rs`).
 //! Points run in parallel on rayon's pool; each worker borrows a private copy
 //! of the sheet from a small pool, so no state is shared between points.
 
@@ -13,8 +16,10 @@ use std::sync::{Arc, Mutex};
 
 use rayon::prelude::*;
 
+use super::plan::{Plan, State};
 use super::progress::{self, Progress};
 use crate::diag::{Diagnostic, Span};
+use crate::eval::ctx::truth_value;
 use crate::eval::{graph, Ctx, DefKind, FastMap, Flow, Limits, Mode, Sheet, Sources};
 use crate::library::PAYLOAD;
 use crate::syntax::{Expr, ExprKind, StmtKind};
@@ -40,6 +45,15 @@ impl Varied {
     /// The input's value at `si`, with its display unit.
     pub fn shown(&self, si: f64) -> Value {
         Value::Quantity(self.at(si), self.unit.clone())
+    }
+
+    /// Set `value`, which holds [`Varied::shown`] at an earlier point (or
+    /// anything else), to [`Varied::shown`] at `si`, keeping its unit.
+    pub fn set(&self, value: &mut Value, si: f64) {
+        match value {
+            Value::Quantity(q, _) => *q = self.at(si),
+            other => *other = self.shown(si),
+        }
     }
 }
 
@@ -82,6 +96,8 @@ struct Work {
     sources: Sources,
     /// Room for the evaluator's stack of names, reused from point to point.
     active: Vec<Arc<str>>,
+    /// The plan's values at a point, when the model has a plan.
+    state: Option<State>,
 }
 
 /// A worksheet ready to be evaluated at points of its varied inputs.
@@ -98,6 +114,8 @@ pub(super) struct Model {
     dependent: Vec<Arc<str>>,
     /// The cache keys of the inputs, in order (set at every point).
     input_keys: Vec<Arc<str>>,
+    /// The probes and rules compiled, when they can be (see `plan.rs`).
+    plan: Option<Plan>,
     pool: Mutex<Vec<Work>>,
 }
 
@@ -161,9 +179,23 @@ impl Model {
                 d.wanted = Some(fields);
             }
         }
+        let mut sources = ctx.sources.clone();
+        let plan = if ctx.limits.study_plans && ctx.frame.is_none() {
+            let exprs = probes.iter().chain(rules.iter().map(|r| &r.expr));
+            Plan::compile(
+                &mut sheet,
+                &mut sources,
+                ctx.limits,
+                &names,
+                &dependent,
+                exprs,
+            )
+        } else {
+            None
+        };
         Ok(Model {
             sheet,
-            sources: ctx.sources.clone(),
+            sources,
             limits: ctx.limits.clone(),
             depth: ctx.depth,
             frame: ctx.frame.clone(),
@@ -172,6 +204,7 @@ impl Model {
             rules,
             dependent: recomputed,
             input_keys,
+            plan,
             pool: Mutex::new(Vec::new()),
         })
     }
@@ -243,6 +276,7 @@ impl Model {
             sheet: self.sheet.clone(),
             sources: self.sources.clone(),
             active: Vec::new(),
+            state: self.plan.as_ref().map(Plan::state),
         })
     }
 
@@ -254,6 +288,17 @@ impl Model {
     }
 
     fn eval(&self, work: &mut Work, point: &[f64]) -> Outcome {
+        if let (Some(plan), Some(state)) = (&self.plan, &mut work.state) {
+            state.start();
+            if state.inputs.len() != self.inputs.len() {
+                state.inputs.resize(self.inputs.len(), Value::Bool(false));
+            }
+            for ((v, slot), &si) in self.inputs.iter().zip(&mut state.inputs).zip(point) {
+                v.set(slot, si);
+            }
+            let mut ctx = Ctx::new(&mut work.sheet, &mut work.sources, &self.limits, Mode::Run);
+            return self.outcome(&mut ctx, |ctx, k| plan.eval(ctx, state, k));
+        }
         let cache = &mut work.sheet.cache;
         for n in &self.dependent {
             cache.remove(&**n);
@@ -272,16 +317,30 @@ impl Model {
         ctx.reuse_active(active);
         ctx.depth = self.depth + 1;
         ctx.frame = self.frame.clone();
-        let outcome = self.outcome(&mut ctx);
+        let outcome = self.outcome(&mut ctx, |ctx, k| ctx.expr(self.expression(k)));
         work.active = ctx.take_active();
         outcome
     }
 
-    /// Force the probes and rules in `ctx`, set up at a point.
-    fn outcome(&self, ctx: &mut Ctx) -> Outcome {
-        let mut values = Vec::with_capacity(self.probes.len());
-        for probe in &self.probes {
-            match ctx.expr(probe) {
+    /// Expression `k` of the probes, then the rules.
+    fn expression(&self, k: usize) -> &Expr {
+        match self.probes.get(k) {
+            Some(e) => e,
+            None => &self.rules[k - self.probes.len()].expr,
+        }
+    }
+
+    /// Force the probes and rules in `ctx`, set up at a point, where
+    /// `eval(ctx, k)` evaluates [`Model::expression`] `k`.
+    fn outcome(
+        &self,
+        ctx: &mut Ctx,
+        mut eval: impl FnMut(&mut Ctx, usize) -> Flow<Value>,
+    ) -> Outcome {
+        let n = self.probes.len();
+        let mut values = Vec::with_capacity(n);
+        for k in 0..n {
+            match eval(ctx, k) {
                 Ok(v) => values.push(v),
                 Err(stop) => {
                     ctx.report(stop);
@@ -294,10 +353,23 @@ impl Model {
                 }
             }
         }
-        let broken = (0..self.rules.len())
-            .filter(|&i| !matches!(ctx.truth(&self.rules[i].expr, "check"), Ok(true)))
-            .collect();
-        let warnings = ctx.warnings.iter().map(|w| w.message.clone()).collect();
+        // As `Ctx::truth` does for a `check`.
+        let broken = if self.rules.is_empty() {
+            Vec::new()
+        } else {
+            (0..self.rules.len())
+                .filter(|&i| {
+                    let span = self.rules[i].expr.span;
+                    let passed = eval(ctx, n + i).and_then(|v| truth_value(v, "check", span));
+                    !matches!(passed, Ok(true))
+                })
+                .collect()
+        };
+        let warnings = if ctx.warnings.is_empty() {
+            Vec::new()
+        } else {
+            ctx.warnings.iter().map(|w| w.message.clone()).collect()
+        };
         Outcome {
             values: Ok(values),
             broken,
