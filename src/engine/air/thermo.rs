@@ -123,6 +123,7 @@ fn air_residual_reference() -> f64 {
 
 /// Compressibility excess `Z - 1` of humid air at (T, p) with water mole fraction x_w:
 /// `(p / RT)(x_a^2 B_aa + 2 x_a x_w B_aw) + x_w (Z_w(pv) - 1)`.
+#[inline]
 pub fn mixture_compressibility_excess(t: f64, p: f64, x_w: f64) -> f64 {
     let x_a = 1.0 - x_w;
     let (baa, _) = virial(t, &B_AIR_AIR);
@@ -182,6 +183,19 @@ pub fn air_part_enthalpy_and_slopes(t: f64, pa: f64, pv: f64) -> WithSlopes {
         d_t: cp_dry + residual.d_t,
         ..residual
     }
+}
+
+/// `air_part_enthalpy_and_slopes(t, pa, pv).d_t` alone, J/(kg dry air K):
+/// the same arithmetic without the value and the pressure slopes (and so
+/// without the virial coefficients themselves, only their enthalpy slopes).
+#[inline]
+pub fn air_part_enthalpy_slope(t: f64, pa: f64, pv: f64) -> f64 {
+    let (_, cp_dry) = air_ideal_enthalpy_and_cp(t);
+    let per_kg = 1.0 / M_DRY_AIR;
+    let residual = (pa * virial_enthalpy_slope(t, &B_AIR_AIR)
+        + 2.0 * pv * virial_enthalpy_slope(t, &B_AIR_WATER))
+        * per_kg;
+    cp_dry + residual
 }
 
 /// Lemmon et al. (2000) ideal-gas coefficients for air, N1..N13, and reducing temperature.
@@ -389,6 +403,7 @@ fn vapour_virial_sums(t: f64) -> (f64, f64, f64, f64) {
 }
 
 /// Compressibility excess `Z - 1` of water vapour at partial pressure pv (Pa), second-virial level.
+#[inline]
 pub fn vapour_compressibility_excess(t: f64, pv: f64) -> f64 {
     let x = 540.0 / t - 0.5;
     let n = |i: usize| IF97_VIRIAL[i].1;
@@ -445,6 +460,15 @@ pub fn vapour_enthalpy_and_slopes(t: f64, pv: f64) -> WithSlopes {
         d_pa: 0.0,
         d_pv,
     }
+}
+
+/// `vapour_enthalpy_and_slopes(t, pv).d_t` alone, J/(kg K): the same
+/// arithmetic without the value and the pressure slope.
+#[inline]
+pub fn vapour_enthalpy_slope(t: f64, pv: f64) -> f64 {
+    let (_, cp) = vapour_ideal_enthalpy_and_cp(t);
+    let (_, d_t, _) = vapour_residual_enthalpy_and_slopes(t, pv);
+    cp + d_t
 }
 
 /// Ideal-gas specific heat of water vapour, J/(kg K) (IF97 region 2, analytic).
