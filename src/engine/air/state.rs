@@ -674,18 +674,24 @@ impl AirState {
     /// Humid heat `(dh/dT)` at constant w and p, J/(kg dry air K): the heat needed to
     /// warm the air carrying 1 kg of dry air by 1 K (about `c_pa + w c_pv`,
     /// including the real-gas terms of the enthalpy).
+    ///
+    /// The terms of the dry-bulb alone are kept for the last dry-bulb on this
+    /// thread (the air of a worksheet sweep repeats it along the humidity
+    /// axis); [`AirState::humid_heat_j_per_kg_da_k`] gives the same bits.
     pub fn humid_heat(&self) -> SpecificHeatCapacity {
-        SpecificHeatCapacity::new::<joule_per_kilogram_kelvin>(self.humid_heat_j_per_kg_da_k())
+        let pv = pv_of(self.w, self.p_pa);
+        let cs = dry_bulb::heat_terms(self.t_k).humid_heat(self.w, pv, self.p_pa);
+        SpecificHeatCapacity::new::<joule_per_kilogram_kelvin>(cs)
     }
 
+    /// [`AirState::humid_heat`] in J/(kg dry air K), its terms of the dry-bulb
+    /// computed afresh (for states whose dry-bulb changes at every call, such
+    /// as film states, which would only push out the kept terms).
     #[inline]
     pub(crate) fn humid_heat_j_per_kg_da_k(&self) -> f64 {
-        // dh/dT at constant partial pressures (w and p fixed), analytic: the
-        // temperature slopes of `air_part_enthalpy_and_slopes` and
-        // `vapour_enthalpy_and_slopes`, without their other parts.
+        // dh/dT at constant partial pressures (w and p fixed), analytic.
         let pv = pv_of(self.w, self.p_pa);
-        let air = thermo::air_part_enthalpy_slope(self.t_k, self.p_pa - pv, pv);
-        air + self.w * thermo::vapour_enthalpy_slope(self.t_k, pv)
+        thermo::HeatTerms::at(self.t_k).humid_heat(self.w, pv, self.p_pa)
     }
 
     /// Dew point (frost point below 0 degC): where saturated air has this vapour pressure.
@@ -894,9 +900,10 @@ mod tests {
         assert!(states > 200_000 && errors > 50_000, "{states} {errors}");
     }
 
-    /// The humid heat from the temperature slopes alone equals the sum of
-    /// the slopes of the air part and of the vapour as the full enthalpy
-    /// functions give them, bit for bit, -40 to 350 degC, 1 kPa to 10 MPa,
+    /// The humid heat from the temperature terms alone, fresh or kept for
+    /// the thread's last dry-bulb, equals the sum of the slopes of the air
+    /// part and of the vapour as the full enthalpy functions give them, bit
+    /// for bit, -40 to 350 degC, 1 kPa to 10 MPa,
     /// dry to saturated (or 20 kg/kg above the boiling point).
     #[test]
     fn humid_heat_from_slopes_alone_has_the_same_bits() {
@@ -913,6 +920,8 @@ mod tests {
                     let vapour = thermo::vapour_enthalpy_and_slopes(t, pv);
                     let want = air.d_t + w * vapour.d_t;
                     assert_eq!(s.humid_heat_j_per_kg_da_k().to_bits(), want.to_bits());
+                    let kept = s.humid_heat().get::<joule_per_kilogram_kelvin>();
+                    assert_eq!(kept.to_bits(), want.to_bits());
                     compared += 1;
                 }
                 t += 0.0731;

@@ -185,17 +185,55 @@ pub fn air_part_enthalpy_and_slopes(t: f64, pa: f64, pv: f64) -> WithSlopes {
     }
 }
 
-/// `air_part_enthalpy_and_slopes(t, pa, pv).d_t` alone, J/(kg dry air K):
-/// the same arithmetic without the value and the pressure slopes (and so
-/// without the virial coefficients themselves, only their enthalpy slopes).
-#[inline]
-pub fn air_part_enthalpy_slope(t: f64, pa: f64, pv: f64) -> f64 {
-    let (_, cp_dry) = air_ideal_enthalpy_and_cp(t);
-    let per_kg = 1.0 / M_DRY_AIR;
-    let residual = (pa * virial_enthalpy_slope(t, &B_AIR_AIR)
-        + 2.0 * pv * virial_enthalpy_slope(t, &B_AIR_WATER))
-        * per_kg;
-    cp_dry + residual
+/// What the humid heat `(dh/dT)` at constant w and p needs of the temperature
+/// alone: the specific heats of dry air and of water vapour and the terms
+/// of the real-gas slopes, to be reused for many humidities at one
+/// dry-bulb. [`HeatTerms::humid_heat`] is the arithmetic of the temperature
+/// slopes `d_t` of [`air_part_enthalpy_and_slopes`] and
+/// [`vapour_enthalpy_and_slopes`] without their other parts, so the same
+/// bits.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct HeatTerms {
+    /// Ideal-gas cp of dry air and of water vapour, J/(kg K).
+    cp_dry: f64,
+    cp_vapour: f64,
+    /// `d(B - T B')/dT` of B_aa and B_aw, m^3/(mol K).
+    slope_air_air: f64,
+    slope_air_water: f64,
+    /// The IF97 virial sum g_tau_tau, tau = 540 K / T and 1/T (kept apart:
+    /// the residual slope multiplies them in turn into the vapour pressure).
+    g_tau_tau: f64,
+    tau: f64,
+    inv_t: f64,
+}
+
+impl HeatTerms {
+    /// The terms at T (K).
+    #[inline]
+    pub fn at(t: f64) -> HeatTerms {
+        let (inv_t, tau, _, g_tau_tau) = vapour_virial_sums(t);
+        HeatTerms {
+            cp_dry: air_ideal_enthalpy_and_cp(t).1,
+            cp_vapour: vapour_ideal_enthalpy_and_cp(t).1,
+            slope_air_air: virial_enthalpy_slope(t, &B_AIR_AIR),
+            slope_air_water: virial_enthalpy_slope(t, &B_AIR_WATER),
+            g_tau_tau,
+            tau,
+            inv_t,
+        }
+    }
+
+    /// The humid heat per kg dry air, J/(kg K), at humidity ratio `w` with
+    /// vapour partial pressure `pv` and total pressure `p` (Pa):
+    /// `air_part_enthalpy_and_slopes(t, p - pv, pv).d_t + w vapour_enthalpy_and_slopes(t, pv).d_t`.
+    #[inline]
+    pub fn humid_heat(&self, w: f64, pv: f64, p: f64) -> f64 {
+        let per_kg = 1.0 / M_DRY_AIR;
+        let residual = ((p - pv) * self.slope_air_air + 2.0 * pv * self.slope_air_water) * per_kg;
+        let air = self.cp_dry + residual;
+        let d_t = -VAPOUR_RESIDUAL_SCALE * pv * self.g_tau_tau * self.tau * self.inv_t;
+        air + w * (self.cp_vapour + d_t)
+    }
 }
 
 /// Lemmon et al. (2000) ideal-gas coefficients for air, N1..N13, and reducing temperature.
@@ -460,15 +498,6 @@ pub fn vapour_enthalpy_and_slopes(t: f64, pv: f64) -> WithSlopes {
         d_pa: 0.0,
         d_pv,
     }
-}
-
-/// `vapour_enthalpy_and_slopes(t, pv).d_t` alone, J/(kg K): the same
-/// arithmetic without the value and the pressure slope.
-#[inline]
-pub fn vapour_enthalpy_slope(t: f64, pv: f64) -> f64 {
-    let (_, cp) = vapour_ideal_enthalpy_and_cp(t);
-    let (_, d_t, _) = vapour_residual_enthalpy_and_slopes(t, pv);
-    cp + d_t
 }
 
 /// Ideal-gas specific heat of water vapour, J/(kg K) (IF97 region 2, analytic).
