@@ -168,9 +168,17 @@ impl Transport {
     /// four pure-gas properties and the diffusivity share one `sqrt T` and
     /// one `ln T`.
     pub fn of(air: &AirState) -> Transport {
+        Transport::of_with_ln_t(air, air.t_kelvin().ln())
+    }
+
+    /// [`Transport::of`] given `ln_t`, the ln of the state's dry-bulb in K.
+    /// The humid heat and the humid volume are formed side by side, so that
+    /// `1/T` and the terms they share are computed once.
+    #[inline]
+    fn of_with_ln_t(air: &AirState, ln_t: f64) -> Transport {
         let (t, w, p) = (air.t_kelvin(), air.humidity_ratio(), air.p_pascal());
         let x_w = water_mole_fraction(w);
-        let (root_t, ln_t) = (t.sqrt(), t.ln());
+        let root_t = t.sqrt();
         let mu_a = dry_air_viscosity_from_logs(root_t, ln_t);
         let k_a = dry_air_conductivity_from(t, ln_t, mu_a);
         let tr = t / T_CRITICAL_WATER;
@@ -229,6 +237,17 @@ fn fuller_from_root(t: f64, root_t: f64, p: f64) -> f64 {
     let t_175 = t * root_t * root_t.sqrt();
     let d_cm2_s = 0.00143 * t_175 / ((p / 1e5) * fixed);
     d_cm2_s * 1e-4
+}
+
+/// The humid-air state at dry-bulb `t_k` (K), humidity ratio `w` and total
+/// pressure `p_pa` (Pa), and its transport properties, with one `ln T` for
+/// both: what [`AirState::from_w`] and [`Transport::of`] give, bit for bit
+/// (`tests::state_and_transport_is_from_w_and_of`), with the same errors.
+/// One film state of the wet-surface balance.
+pub fn state_and_transport(t_k: f64, w: f64, p_pa: f64) -> Result<(AirState, Transport), AirError> {
+    let ln_t = t_k.ln();
+    let air = AirState::from_w_with_ln_t(t_k, w, p_pa, ln_t)?;
+    Ok((air, Transport::of_with_ln_t(&air, ln_t)))
 }
 
 fn state(t: ThermodynamicTemperature, w: f64, p: Pressure) -> Result<Transport, AirError> {
@@ -324,6 +343,77 @@ pub fn lewis(
 #[cfg(test)]
 mod tests {
     use super::*;
+    use uom::si::pressure::pascal;
+    use uom::si::thermodynamic_temperature::kelvin;
+
+    /// The film state with one shared ln T equals `AirState::from_w` and
+    /// `Transport::of` taken apart, bit for bit (the state's every field
+    /// through its public readers, every transport property), with the same
+    /// errors: -41 to 351 degC in steps of 0.0917 K, 500 Pa to 20 MPa, dry
+    /// to just above saturation (or 20 kg/kg above the boiling point).
+    #[test]
+    fn state_and_transport_is_from_w_and_of() {
+        let (mut states, mut errors) = (0, 0);
+        for p in [500.0, 50e3, 101_325.0, 200e3, 10e6, 20e6] {
+            let mut t = 232.15;
+            while t <= 624.15 {
+                let pvs = crate::engine::air::saturation::saturated_vapour_pressure(t, p);
+                let top = if pvs < p {
+                    (EPSILON * pvs / (p - pvs)).min(20.0)
+                } else {
+                    20.0
+                };
+                for i in 0..=21 {
+                    // 0, then 1e-5 of the top to the top in quarter decades,
+                    // then just beyond the constructors' slack.
+                    let w = match i {
+                        0 => 0.0,
+                        21 => top * (1.0 + 1e-9),
+                        _ => top * 10f64.powf(-0.25 * f64::from(20 - i)),
+                    };
+                    let want = AirState::from_w(
+                        ThermodynamicTemperature::new::<kelvin>(t),
+                        w,
+                        Pressure::new::<pascal>(p),
+                    )
+                    .map(|a| (a, Transport::of(&a)));
+                    match (state_and_transport(t, w, p), want) {
+                        (Ok((a, x)), Ok((b, y))) => {
+                            let state = |s: &AirState| {
+                                [
+                                    s.t_kelvin(),
+                                    s.p_pascal(),
+                                    s.humidity_ratio(),
+                                    s.relative_humidity(),
+                                ]
+                                .map(f64::to_bits)
+                            };
+                            assert_eq!(state(&a), state(&b), "{t} K, w {w}, {p} Pa");
+                            let props = |x: &Transport| {
+                                [
+                                    x.viscosity_pa_s,
+                                    x.conductivity_w_per_m_k,
+                                    x.cp_j_per_kg_k,
+                                    x.density_kg_per_m3,
+                                    x.diffusivity_m2_per_s,
+                                ]
+                                .map(f64::to_bits)
+                            };
+                            assert_eq!(props(&x), props(&y), "{t} K, w {w}, {p} Pa");
+                            states += 1;
+                        }
+                        (Err(e), Err(f)) => {
+                            assert_eq!(e.to_string(), f.to_string());
+                            errors += 1;
+                        }
+                        (got, want) => panic!("{t} K, w {w}, {p} Pa: {got:?} vs {want:?}"),
+                    }
+                }
+                t += 0.0917;
+            }
+        }
+        assert!(states > 50_000 && errors > 10_000, "{states} {errors}");
+    }
 
     /// Wilke's factors against eq. 9-5.14 of Poling, Prausnitz & O'Connell
     /// (2001) written out term by term, over the viscosities of -40..350 degC.

@@ -1,6 +1,7 @@
 //! What the humid-air engine keeps of the last dry-bulb it used, on each
 //! thread: the saturated vapour pressure at that dry-bulb and pressure, and
-//! the parts of the enthalpy that depend on the temperature alone. A sweep
+//! the parts of the enthalpy and of the humid heat that depend on the
+//! temperature alone. A sweep
 //! over humidity at one dry-bulb (the inner axis of a worksheet sweep over
 //! temperature and humidity) computes them once instead of at every state.
 //!
@@ -11,7 +12,7 @@
 use std::cell::Cell;
 
 use super::saturation as sat;
-use super::thermo::{AirPartTerms, VapourTerms};
+use super::thermo::{AirPartTerms, HeatTerms, VapourTerms};
 
 /// `f p_ws` at one dry-bulb and pressure.
 #[derive(Clone, Copy)]
@@ -29,9 +30,31 @@ struct Enthalpy {
     vapour: VapourTerms,
 }
 
+/// The temperature-only humid-heat terms at one temperature.
+#[derive(Clone, Copy)]
+struct Heat {
+    t: u64,
+    terms: HeatTerms,
+}
+
 thread_local! {
     static SATURATION: Cell<Option<Saturation>> = const { Cell::new(None) };
     static ENTHALPY: Cell<Option<Enthalpy>> = const { Cell::new(None) };
+    static HEAT: Cell<Option<Heat>> = const { Cell::new(None) };
+}
+
+/// The humid-heat terms at T (K), kept for the last T on this thread.
+#[inline]
+pub(super) fn heat_terms(t: f64) -> HeatTerms {
+    let tb = t.to_bits();
+    HEAT.with(|cell| match cell.get() {
+        Some(h) if h.t == tb => h.terms,
+        _ => {
+            let terms = HeatTerms::at(t);
+            cell.set(Some(Heat { t: tb, terms }));
+            terms
+        }
+    })
 }
 
 /// `f p_ws` at T (K) and p (Pa): [`sat::saturated_vapour_pressure`], kept for
@@ -86,6 +109,7 @@ mod tests {
                         let (air, vapour) = enthalpy_terms(t);
                         assert_eq!(air, AirPartTerms::at(t));
                         assert_eq!(vapour, VapourTerms::at(t));
+                        assert_eq!(heat_terms(t), HeatTerms::at(t));
                         checked += 1;
                     }
                 }

@@ -73,8 +73,15 @@ fn ln_ice_slope(t: f64) -> f64 {
 /// ln p_ws over liquid water, Hyland-Wexler (ASHRAE Fundamentals 2017 ch. 1 eq. 6), T in K, p in Pa.
 #[inline]
 pub fn ln_water_hyland_wexler(t: f64) -> f64 {
+    ln_water_hyland_wexler_from_ln(t, t.ln())
+}
+
+/// [`ln_water_hyland_wexler`] given `ln_t = ln T` (the same arithmetic, so
+/// the same bits when `ln_t` is `t.ln()`).
+#[inline]
+fn ln_water_hyland_wexler_from_ln(t: f64, ln_t: f64) -> f64 {
     let c = &HW_WATER;
-    c[0] * (1.0 / t) + c[1] + t * (c[2] + t * (c[3] + t * c[4])) + c[5] * t.ln()
+    c[0] * (1.0 / t) + c[1] + t * (c[2] + t * (c[3] + t * c[4])) + c[5] * ln_t
 }
 
 /// `d ln p_ws / dT` over liquid water (Hyland-Wexler, differentiated term by term), 1/K.
@@ -337,6 +344,24 @@ pub fn saturated_vapour_pressure_and_slope(t: f64, p: f64) -> (f64, f64) {
     }
 }
 
+/// [`saturated_vapour_pressure`] (Pa) at T (K) and p (Pa) given `ln_t`,
+/// `t.ln()` (a caller that needs ln T for other properties of the same
+/// state takes it once), and without the temperature slope: from the triple
+/// point to 150 degC (the Hyland-Wexler branch over liquid water) the value
+/// part of the same arithmetic, so the same bits
+/// (`tests::vapour_pressure_from_ln_t_has_the_same_bits`); elsewhere
+/// [`saturated_vapour_pressure`] itself.
+#[inline]
+pub fn saturated_vapour_pressure_from_ln_t(t: f64, p: f64, ln_t: f64) -> f64 {
+    if (T_TRIPLE..=JOIN_START).contains(&t) {
+        // `ln_water(t)` is the Hyland-Wexler branch here; `phase_terms` and
+        // `phase_pressure_and_slope` without their slope.
+        let es = ln_water_hyland_wexler_from_ln(t, ln_t).exp();
+        return es * exp_small(enhancement_exponent(t, p, es, &HARDY_WATER));
+    }
+    saturated_vapour_pressure(t, p)
+}
+
 /// [`saturated_vapour_pressure_and_slope`] and, from the triple point up,
 /// the pure-water pressure `p_ws` (Pa) and `d ln p_ws / dT` (1/K) it was
 /// formed from: the same bits as `ln_water(t).exp()` and
@@ -433,6 +458,29 @@ pub fn boiling_point(p: f64) -> Result<f64, crate::engine::solve::SolveError> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// The vapour pressure from a given ln T equals the one that takes its
+    /// own, bit for bit: -100 to 350 degC in steps of 0.0173 K (ice, the
+    /// 0..0.01 degC join, liquid, the IF97 join and branch), a fine grid
+    /// around the triple point and the join's start, 1 kPa to 10 MPa.
+    #[test]
+    fn vapour_pressure_from_ln_t_has_the_same_bits() {
+        let wide = (0..=26_012).map(|i| 173.15 + 0.0173 * f64::from(i));
+        let fine = (-500..=500).flat_map(|i| {
+            let d = 1e-5 * f64::from(i);
+            [T_TRIPLE + d, JOIN_START + d, T_ZERO_C + d]
+        });
+        let mut compared = 0;
+        for t in wide.chain(fine) {
+            for p in [1e3, 50e3, 101_325.0, 200e3, 10e6] {
+                let want = saturated_vapour_pressure(t, p);
+                let got = saturated_vapour_pressure_from_ln_t(t, p, t.ln());
+                assert_eq!(got.to_bits(), want.to_bits(), "{t} K, {p} Pa");
+                compared += 1;
+            }
+        }
+        assert_eq!(compared, (26_013 + 3 * 1001) * 5);
+    }
 
     /// IAPWS-IF97 verification values (R7-97(2012) tables 35 and 36).
     #[test]

@@ -405,6 +405,28 @@ impl AirState {
         AirState::new_checked(t.get::<kelvin>(), w_kg_per_kg_da, p.get::<pascal>(), "w")
     }
 
+    /// [`AirState::from_w`] in SI magnitudes (T in K, p in Pa) given
+    /// `ln_t = t.ln()`, for a caller that takes ln T for other properties of
+    /// the same state (the transport properties at a film temperature): the
+    /// same checks and errors, and the same state bit for bit
+    /// (`tests::from_w_with_ln_t_is_from_w`). The saturation pressure is
+    /// computed here rather than kept for the thread's last dry-bulb
+    /// ([`dry_bulb`]): a film temperature changes at every call, so keeping
+    /// it would only push out the dry-bulb of the worksheet's own air, which
+    /// repeats along a sweep's humidity axis.
+    #[inline]
+    pub(crate) fn from_w_with_ln_t(
+        t: f64,
+        w: f64,
+        p: f64,
+        ln_t: f64,
+    ) -> Result<AirState, AirError> {
+        check_dry_bulb("T", t)?;
+        check_pressure(p)?;
+        let pvs = sat::saturated_vapour_pressure_from_ln_t(t, p, ln_t);
+        AirState::with_saturation(t, w, p, "w", pvs)
+    }
+
     /// State from dry-bulb, relative humidity (fraction 0..1) and total pressure.
     ///
     /// `rh = pv / (f p_ws)` as ASHRAE defines it (saturation over ice below 0 degC).
@@ -635,6 +657,7 @@ impl AirState {
         SpecificVolume::new::<cubic_meter_per_kilogram>(self.humid_volume_m3_per_kg_da())
     }
 
+    #[inline]
     pub(crate) fn humid_volume_m3_per_kg_da(&self) -> f64 {
         let x_w = self.w / (EPSILON + self.w);
         let z = 1.0 + thermo::mixture_compressibility_excess(self.t_k, self.p_pa, x_w);
@@ -651,16 +674,24 @@ impl AirState {
     /// Humid heat `(dh/dT)` at constant w and p, J/(kg dry air K): the heat needed to
     /// warm the air carrying 1 kg of dry air by 1 K (about `c_pa + w c_pv`,
     /// including the real-gas terms of the enthalpy).
+    ///
+    /// The terms of the dry-bulb alone are kept for the last dry-bulb on this
+    /// thread (the air of a worksheet sweep repeats it along the humidity
+    /// axis); [`AirState::humid_heat_j_per_kg_da_k`] gives the same bits.
     pub fn humid_heat(&self) -> SpecificHeatCapacity {
-        SpecificHeatCapacity::new::<joule_per_kilogram_kelvin>(self.humid_heat_j_per_kg_da_k())
+        let pv = pv_of(self.w, self.p_pa);
+        let cs = dry_bulb::heat_terms(self.t_k).humid_heat(self.w, pv, self.p_pa);
+        SpecificHeatCapacity::new::<joule_per_kilogram_kelvin>(cs)
     }
 
+    /// [`AirState::humid_heat`] in J/(kg dry air K), its terms of the dry-bulb
+    /// computed afresh (for states whose dry-bulb changes at every call, such
+    /// as film states, which would only push out the kept terms).
+    #[inline]
     pub(crate) fn humid_heat_j_per_kg_da_k(&self) -> f64 {
         // dh/dT at constant partial pressures (w and p fixed), analytic.
         let pv = pv_of(self.w, self.p_pa);
-        let air = thermo::air_part_enthalpy_and_slopes(self.t_k, self.p_pa - pv, pv);
-        let vapour = thermo::vapour_enthalpy_and_slopes(self.t_k, pv);
-        air.d_t + self.w * vapour.d_t
+        thermo::HeatTerms::at(self.t_k).humid_heat(self.w, pv, self.p_pa)
     }
 
     /// Dew point (frost point below 0 degC): where saturated air has this vapour pressure.
@@ -808,6 +839,96 @@ impl AirState {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// The bits of every field of a state.
+    fn bits(s: &AirState) -> [u64; 4] {
+        [s.t_k, s.p_pa, s.w, s.pvs_pa].map(f64::to_bits)
+    }
+
+    /// The humidity ratios of the grids below at (T, p): dry, 1e-6 to the
+    /// saturation humidity ratio (or 20 kg/kg above the boiling point) in
+    /// quarter decades, saturated, just above saturation within and beyond
+    /// the constructors' slack, negative and NaN.
+    fn humidity_ratios(t: f64, p: f64) -> Vec<f64> {
+        let top = ws_of(t, p).unwrap_or(20.0).min(20.0);
+        let mut ws: Vec<f64> = (0..=24)
+            .map(|i| top * 10f64.powf(-0.25 * f64::from(24 - i)))
+            .collect();
+        ws.extend([
+            0.0,
+            top * (1.0 + 0.5e-12),
+            top * (1.0 + 1e-9),
+            -1e-9,
+            f64::NAN,
+        ]);
+        ws
+    }
+
+    /// The constructor given ln T builds the state `from_w` builds, bit for
+    /// bit in every field, and fails where it fails with the same message:
+    /// dry-bulbs from below -40 to above 350 degC in steps of 0.0731 K (both
+    /// ends outside the range), 500 Pa to 20 MPa (both ends outside the hard
+    /// limits), the humidity ratios of [`humidity_ratios`].
+    #[test]
+    fn from_w_with_ln_t_is_from_w() {
+        let (mut states, mut errors) = (0, 0);
+        for p in [500.0, 50e3, 70e3, 101_325.0, 150e3, 200e3, 10e6, 20e6] {
+            let mut t = T_MIN_K - 0.5;
+            while t <= T_MAX_K + 0.5 {
+                for w in humidity_ratios(t, p) {
+                    let want = AirState::from_w(
+                        ThermodynamicTemperature::new::<kelvin>(t),
+                        w,
+                        Pressure::new::<pascal>(p),
+                    );
+                    let got = AirState::from_w_with_ln_t(t, w, p, t.ln());
+                    match (got, want) {
+                        (Ok(got), Ok(want)) => {
+                            assert_eq!(bits(&got), bits(&want), "{t} K, w {w}, {p} Pa");
+                            states += 1;
+                        }
+                        (Err(got), Err(want)) => {
+                            assert_eq!(got.to_string(), want.to_string());
+                            errors += 1;
+                        }
+                        (got, want) => panic!("{t} K, w {w}, {p} Pa: {got:?} vs {want:?}"),
+                    }
+                }
+                t += 0.0731;
+            }
+        }
+        assert!(states > 200_000 && errors > 50_000, "{states} {errors}");
+    }
+
+    /// The humid heat from the temperature terms alone, fresh or kept for
+    /// the thread's last dry-bulb, equals the sum of the slopes of the air
+    /// part and of the vapour as the full enthalpy functions give them, bit
+    /// for bit, -40 to 350 degC, 1 kPa to 10 MPa,
+    /// dry to saturated (or 20 kg/kg above the boiling point).
+    #[test]
+    fn humid_heat_from_slopes_alone_has_the_same_bits() {
+        let mut compared = 0;
+        for p in [1e3, 50e3, 101_325.0, 200e3, 10e6] {
+            let mut t = T_MIN_K;
+            while t <= T_MAX_K {
+                for w in humidity_ratios(t, p) {
+                    let Ok(s) = AirState::new_checked(t, w, p, "w") else {
+                        continue;
+                    };
+                    let pv = pv_of(w, p);
+                    let air = thermo::air_part_enthalpy_and_slopes(t, p - pv, pv);
+                    let vapour = thermo::vapour_enthalpy_and_slopes(t, pv);
+                    let want = air.d_t + w * vapour.d_t;
+                    assert_eq!(s.humid_heat_j_per_kg_da_k().to_bits(), want.to_bits());
+                    let kept = s.humid_heat().get::<joule_per_kilogram_kelvin>();
+                    assert_eq!(kept.to_bits(), want.to_bits());
+                    compared += 1;
+                }
+                t += 0.0731;
+            }
+        }
+        assert!(compared > 100_000, "{compared}");
+    }
 
     #[test]
     fn rough_log_is_within_its_bound() {

@@ -123,6 +123,7 @@ fn air_residual_reference() -> f64 {
 
 /// Compressibility excess `Z - 1` of humid air at (T, p) with water mole fraction x_w:
 /// `(p / RT)(x_a^2 B_aa + 2 x_a x_w B_aw) + x_w (Z_w(pv) - 1)`.
+#[inline]
 pub fn mixture_compressibility_excess(t: f64, p: f64, x_w: f64) -> f64 {
     let x_a = 1.0 - x_w;
     let (baa, _) = virial(t, &B_AIR_AIR);
@@ -181,6 +182,57 @@ pub fn air_part_enthalpy_and_slopes(t: f64, pa: f64, pv: f64) -> WithSlopes {
         value: h_dry + residual.value - air_residual_reference(),
         d_t: cp_dry + residual.d_t,
         ..residual
+    }
+}
+
+/// What the humid heat `(dh/dT)` at constant w and p needs of the temperature
+/// alone: the specific heats of dry air and of water vapour and the terms
+/// of the real-gas slopes, to be reused for many humidities at one
+/// dry-bulb. [`HeatTerms::humid_heat`] is the arithmetic of the temperature
+/// slopes `d_t` of [`air_part_enthalpy_and_slopes`] and
+/// [`vapour_enthalpy_and_slopes`] without their other parts, so the same
+/// bits.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct HeatTerms {
+    /// Ideal-gas cp of dry air and of water vapour, J/(kg K).
+    cp_dry: f64,
+    cp_vapour: f64,
+    /// `d(B - T B')/dT` of B_aa and B_aw, m^3/(mol K).
+    slope_air_air: f64,
+    slope_air_water: f64,
+    /// The IF97 virial sum g_tau_tau, tau = 540 K / T and 1/T (kept apart:
+    /// the residual slope multiplies them in turn into the vapour pressure).
+    g_tau_tau: f64,
+    tau: f64,
+    inv_t: f64,
+}
+
+impl HeatTerms {
+    /// The terms at T (K).
+    #[inline]
+    pub fn at(t: f64) -> HeatTerms {
+        let (inv_t, tau, _, g_tau_tau) = vapour_virial_sums(t);
+        HeatTerms {
+            cp_dry: air_ideal_enthalpy_and_cp(t).1,
+            cp_vapour: vapour_ideal_enthalpy_and_cp(t).1,
+            slope_air_air: virial_enthalpy_slope(t, &B_AIR_AIR),
+            slope_air_water: virial_enthalpy_slope(t, &B_AIR_WATER),
+            g_tau_tau,
+            tau,
+            inv_t,
+        }
+    }
+
+    /// The humid heat per kg dry air, J/(kg K), at humidity ratio `w` with
+    /// vapour partial pressure `pv` and total pressure `p` (Pa):
+    /// `air_part_enthalpy_and_slopes(t, p - pv, pv).d_t + w vapour_enthalpy_and_slopes(t, pv).d_t`.
+    #[inline]
+    pub fn humid_heat(&self, w: f64, pv: f64, p: f64) -> f64 {
+        let per_kg = 1.0 / M_DRY_AIR;
+        let residual = ((p - pv) * self.slope_air_air + 2.0 * pv * self.slope_air_water) * per_kg;
+        let air = self.cp_dry + residual;
+        let d_t = -VAPOUR_RESIDUAL_SCALE * pv * self.g_tau_tau * self.tau * self.inv_t;
+        air + w * (self.cp_vapour + d_t)
     }
 }
 
@@ -389,6 +441,7 @@ fn vapour_virial_sums(t: f64) -> (f64, f64, f64, f64) {
 }
 
 /// Compressibility excess `Z - 1` of water vapour at partial pressure pv (Pa), second-virial level.
+#[inline]
 pub fn vapour_compressibility_excess(t: f64, pv: f64) -> f64 {
     let x = 540.0 / t - 0.5;
     let n = |i: usize| IF97_VIRIAL[i].1;

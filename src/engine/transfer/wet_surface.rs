@@ -332,14 +332,15 @@ fn radiation_terms(radiation: Option<Radiation>) -> Result<Option<(f64, f64)>, T
 }
 
 /// (Pr/Sc)^(2/3) of the air's humidity at the film temperature: one humid-air
-/// state there, with its transport properties.
+/// state there (as `AirState::from_w` builds it, with its checks), with its
+/// transport properties.
 fn film_colburn_factor(
     air: &AirState,
     t_film_k: f64,
 ) -> Result<super::Correlated<f64>, TransferError> {
-    let t = ThermodynamicTemperature::new::<kelvin>(t_film_k);
-    let film = AirState::from_w(t, air.humidity_ratio(), air.pressure()).map_err(air_error)?;
-    let props = transport::Transport::of(&film);
+    let (_film, props) =
+        transport::state_and_transport(t_film_k, air.humidity_ratio(), air.p_pascal())
+            .map_err(air_error)?;
     colburn_factor(props.prandtl(), props.schmidt())
 }
 

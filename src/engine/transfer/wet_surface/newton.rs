@@ -32,6 +32,8 @@ use crate::engine::air::saturation::{
 use crate::engine::air::thermo::EPSILON;
 use crate::engine::solve::newton_exact;
 
+use std::cell::Cell;
+
 /// The balance at one surface temperature with everything its residual and
 /// slope need for any k_Y.
 #[derive(Clone, Copy, Debug)]
@@ -123,11 +125,36 @@ pub(super) fn solve(air: &AirState, b: &mut Balance, cs: f64) -> Option<(Sample,
 /// the bracketing solve polishes it; this is only the end of the search.
 fn highest_surface_temperature(b: &Balance) -> f64 {
     let hottest = b.radiation.map_or(b.t_air, |(_, tw)| tw.max(b.t_air));
-    let boiling_above = hottest + 0.5 < T_CRITICAL && ln_water(hottest + 0.5) < b.p.ln();
+    let key = [hottest.to_bits(), b.p.to_bits()];
+    LAST_TOP.with(|cell| match cell.get() {
+        Some((k, top)) if k == key => top,
+        _ => {
+            let top = highest_of(hottest, b.p);
+            cell.set(Some((key, top)));
+            top
+        }
+    })
+}
+
+thread_local! {
+    /// The top of the search for the last (hottest, p) bits on this thread
+    /// (a worksheet sweep repeats the air temperature along its humidity
+    /// axis): the same value as computing it again.
+    static LAST_TOP: Cell<Option<([u64; 2], f64)>> = const { Cell::new(None) };
+    /// The rough model's saturation ([`rough_saturation`]) at the last
+    /// surface temperature its search started from on this thread (the air
+    /// temperature, or just below the top).
+    static LAST_ROUGH_START: Cell<Option<(u64, (f64, f64))>> = const { Cell::new(None) };
+}
+
+/// [`highest_surface_temperature`] of the hotter of air and wall `hottest`
+/// (K) at total pressure `p` (Pa).
+fn highest_of(hottest: f64, p: f64) -> f64 {
+    let boiling_above = hottest + 0.5 < T_CRITICAL && ln_water(hottest + 0.5) < p.ln();
     if boiling_above {
         return hottest;
     }
-    hottest.min(if97_saturation_temperature(b.p.clamp(611.3, P_CRITICAL)) - 0.51)
+    hottest.min(if97_saturation_temperature(p.clamp(611.3, P_CRITICAL)) - 0.51)
 }
 
 /// Newton's method on the exact residual from `start`, between the bottom
@@ -214,8 +241,13 @@ fn rough_surface_temperature(b: &Balance, k_y: f64, hi: f64) -> RoughRoot {
         dphi_dts: f64::INFINITY,
         dphi_dln_k: 0.0,
     };
-    for _ in 0..12 {
-        let Some((phi, slope, dln_k)) = rough_residual(b, k_y, root.ts) else {
+    for i in 0..12 {
+        let saturation = if i == 0 {
+            kept_rough_saturation(root.ts)
+        } else {
+            rough_saturation(root.ts)
+        };
+        let Some((phi, slope, dln_k)) = rough_residual(b, k_y, root.ts, saturation) else {
             break;
         };
         let step = -phi / slope;
@@ -240,18 +272,41 @@ fn rough_surface_temperature(b: &Balance, k_y: f64, hi: f64) -> RoughRoot {
     }
 }
 
+/// The rough model's saturated vapour pressure at `ts` (K), Pa, and
+/// `d ln p_ws / dT` there, 1/K.
+fn rough_saturation(ts: f64) -> (f64, f64) {
+    (1.005 * ln_water_hyland_wexler(ts).exp(), ln_water_slope(ts))
+}
+
+/// [`rough_saturation`], kept for the last `ts` on this thread.
+fn kept_rough_saturation(ts: f64) -> (f64, f64) {
+    let key = ts.to_bits();
+    LAST_ROUGH_START.with(|cell| match cell.get() {
+        Some((k, kept)) if k == key => kept,
+        _ => {
+            let fresh = rough_saturation(ts);
+            cell.set(Some((key, fresh)));
+            fresh
+        }
+    })
+}
+
 /// The log-ratio residual of the rough model at `ts` and its slopes in Ts
-/// and in ln k_Y.
-fn rough_residual(b: &Balance, k_y: f64, ts: f64) -> Option<(f64, f64, f64)> {
+/// and in ln k_Y, given [`rough_saturation`] at `ts`.
+fn rough_residual(
+    b: &Balance,
+    k_y: f64,
+    ts: f64,
+    (pvs, dln_pws): (f64, f64),
+) -> Option<(f64, f64, f64)> {
     // Latent heat, J/kg, t in degC: 2500.9 - 2.3655 t - 0.00054 t^2 kJ/kg.
     const L: [f64; 3] = [2.5009e6, -2365.5, -0.54];
     let t = ts - T_ZERO_C;
-    let pvs = 1.005 * ln_water_hyland_wexler(ts).exp();
     if pvs.is_nan() || pvs >= b.p {
         return None;
     }
     let ws = EPSILON * pvs / (b.p - pvs);
-    let dln_ws = b.p / (b.p - pvs) * ln_water_slope(ts);
+    let dln_ws = b.p / (b.p - pvs) * dln_pws;
     let latent = L[0] + t * (L[1] + t * L[2]);
     let dlatent = L[1] + 2.0 * t * L[2];
     let (conv, rad, cond) = b.heat_in(ts);
@@ -495,6 +550,46 @@ mod tests {
         assert!(newton_only(&humid, 2.0, &cold_wall).is_none());
         let e = super::super::wet_surface(&humid, h(2.0), &cold_wall).unwrap_err();
         assert!(e.to_string().contains("condense"), "{e}");
+    }
+
+    /// The values kept for the last air temperature on the thread equal
+    /// fresh ones bit for bit, whether it repeats (as along a sweep's
+    /// humidity axis) or changes at every call: the top of the search, -40
+    /// to 350 degC with and without a hotter wall, 50 kPa to 10 MPa (below
+    /// and above the boiling point), and the rough saturation at the start.
+    #[test]
+    fn kept_values_equal_fresh_ones() {
+        let mut checked = 0;
+        for repeat in [1, 3] {
+            for i in 0..1800 {
+                let t = 233.15 + 0.2169 * f64::from(i);
+                for p in [50e3, 101_325.0, 200e3, 10e6] {
+                    for wall in [None, Some((0.9, t + 40.0))] {
+                        let b = Balance {
+                            t_air: t,
+                            w_air: 0.01,
+                            p,
+                            h: 20.0,
+                            k_y: 0.0,
+                            u_bottom: 0.0,
+                            radiation: wall,
+                        };
+                        let hottest = wall.map_or(t, |(_, tw)| tw);
+                        for _ in 0..repeat {
+                            let kept = highest_surface_temperature(&b);
+                            assert_eq!(kept.to_bits(), highest_of(hottest, p).to_bits());
+                            let (kept, fresh) = (kept_rough_saturation(t), rough_saturation(t));
+                            assert_eq!(
+                                [kept.0, kept.1].map(f64::to_bits),
+                                [fresh.0, fresh.1].map(f64::to_bits)
+                            );
+                            checked += 1;
+                        }
+                    }
+                }
+            }
+        }
+        assert_eq!(checked, 1800 * 4 * 2 * 4);
     }
 
     /// The Newton solve's top end (IF97's backward boiling point less
