@@ -40,11 +40,16 @@ t_constant = constant_rate_time(load: 20 kg/m^2, X1: 1.6 db, X2: 0.5 db, Rc: sur
 /// `air(T, rh)` engine state (an `AirState`: humidity ratio and saturation
 /// pressure solved from T and rh; in a study's points its record fields are
 /// not built, as nothing reads them) and, per film-temperature pass of the
-/// wet-surface solve, one `AirState::from_w` with its transport properties.
+/// wet-surface solve, one complete `AirState` from (T, w, p) with its
+/// transport properties (`engine::transport::state_and_transport`: the same
+/// state, fields, checks and errors as `AirState::from_w`, sharing one ln T
+/// with the transport properties).
 /// Counted with `valgrind --tool=callgrind` on a 2,500-point sweep of this
 /// sheet on one thread (`steps(40.2 degC, 120 degC, 0.8 K)` x
-/// `steps(1 %, 25.9 %, 1 %)`): 4,916 film passes (`film_colburn_factor`, each
-/// one `AirState::from_w` and one `Transport::of`) in 2,501 evaluations (the
+/// `steps(1 %, 25.9 %, 1 %)`): 4,916 film passes (calls of
+/// `state_and_transport`, 4,916 of `analogy::colburn_factor` too; callgrind
+/// `--toggle-collect='*whatif::model::Model::eval'`, then
+/// `callgrind_annotate --inclusive=yes`) in 2,501 evaluations (the
 /// sheet's own value before the sweep is the extra one), 1.9656 a point,
 /// rounded down. Most points take two passes, a few settle in one.
 pub const FULL_STATES_PER_POINT: f64 = 1.0 + 1.96;
