@@ -55,35 +55,133 @@ impl NumberFormat {
     /// Like [`for_values`](Self::for_values), then drop decimals that are
     /// zero in every value (0.0, 0.5, 1.0 rather than 0.000, 0.500, 1.000).
     pub fn for_column(values: &[f64], sig: usize) -> NumberFormat {
+        Self::column(values, sig).0
+    }
+
+    /// [`for_column`](Self::for_column) and, when the column keeps every
+    /// decimal of its first choice, the finite values already written in it
+    /// (in order), so a table formats each cell once.
+    pub fn column(values: &[f64], sig: usize) -> (NumberFormat, Option<Texts>) {
         let format = NumberFormat::for_values(values, sig);
         let decimals = match format {
             NumberFormat::Fixed(d) | NumberFormat::Scientific(d) => d,
         };
-        let spare = values
-            .iter()
-            .filter(|v| v.is_finite())
-            .map(|v| zero_tail(&format.write(*v)))
-            .min()
-            .unwrap_or(0);
+        let mut written = Texts::with_capacity(values.len());
+        for v in values.iter().filter(|v| v.is_finite()) {
+            format.push(&mut written.text, *v);
+            written.end();
+        }
+        let spare = written.iter().map(zero_tail).min().unwrap_or(0);
         let keep = decimals - spare.min(decimals);
         let keep = if matches!(format, NumberFormat::Fixed(_)) && decimals > 0 {
             keep.max(1)
         } else {
             keep
         };
-        match format {
+        let chosen = match format {
             NumberFormat::Fixed(_) => NumberFormat::Fixed(keep),
             NumberFormat::Scientific(_) => NumberFormat::Scientific(keep),
-        }
+        };
+        (chosen, (chosen == format).then_some(written))
     }
 
     /// Write one number in this format (no `-0`, exponents as `e-5`).
     pub fn write(self, x: f64) -> String {
+        let mut out = String::with_capacity(12);
+        self.push(&mut out, x);
+        out
+    }
+
+    /// [`write`](Self::write) appended to `out`.
+    pub fn push(self, out: &mut String, x: f64) {
+        if let NumberFormat::Fixed(d) = self {
+            if push_fixed(out, x, d) {
+                return;
+            }
+        }
         let text = match self {
             NumberFormat::Fixed(d) => format!("{x:.d$}"),
             NumberFormat::Scientific(d) => format!("{x:.d$e}"),
         };
-        strip_negative_zero(text)
+        out.push_str(&strip_negative_zero(text));
+    }
+}
+
+/// `x` with `decimals` decimals, as `{x:.decimals$}` writes it without its
+/// `-0`, when one f64 product decides the rounding (see
+/// [`round_scaled`](crate::units::round_scaled)); false, writing nothing, otherwise.
+fn push_fixed(out: &mut String, x: f64, decimals: usize) -> bool {
+    let Ok(d) = u32::try_from(decimals) else {
+        return false;
+    };
+    if !x.is_finite() || d > 15 {
+        return false;
+    }
+    let Some(n) = crate::units::round_scaled(x.abs(), d) else {
+        return false;
+    };
+    if x < 0.0 && n != 0 {
+        out.push('-');
+    }
+    let unit = 10u64.pow(d);
+    crate::units::push_int(out, (n / unit) as i64);
+    if d > 0 {
+        out.push('.');
+        let mut buffer = [b'0'; 16];
+        let mut rest = n % unit;
+        for b in buffer[..decimals].iter_mut().rev() {
+            *b = b'0' + (rest % 10) as u8;
+            rest /= 10;
+        }
+        out.extend(buffer[..decimals].iter().map(|&b| char::from(b)));
+    }
+    true
+}
+
+/// Many short texts kept end to end in one string (a column's cells), so a
+/// large table costs two allocations per column rather than one per cell.
+#[derive(Clone, Debug, Default)]
+pub struct Texts {
+    /// The texts, end to end.
+    pub text: String,
+    ends: Vec<usize>,
+}
+
+impl Texts {
+    pub fn with_capacity(count: usize) -> Texts {
+        Texts {
+            text: String::with_capacity(count * 8),
+            ends: Vec::with_capacity(count),
+        }
+    }
+
+    /// Close the text written to `self.text` since the last end.
+    pub fn end(&mut self) {
+        self.ends.push(self.text.len());
+    }
+
+    /// Append one whole text.
+    pub fn push(&mut self, text: &str) {
+        self.text.push_str(text);
+        self.end();
+    }
+
+    pub fn len(&self) -> usize {
+        self.ends.len()
+    }
+
+    pub fn is_empty(&self) -> bool {
+        self.ends.is_empty()
+    }
+
+    /// The `i`th text.
+    pub fn get(&self, i: usize) -> &str {
+        let start = if i == 0 { 0 } else { self.ends[i - 1] };
+        &self.text[start..self.ends[i]]
+    }
+
+    pub fn iter(&self) -> impl Iterator<Item = &str> + '_ {
+        (0..self.len()).map(|i| self.get(i))
     }
 }
 

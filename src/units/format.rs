@@ -20,23 +20,30 @@ pub fn format_quantity(q: &Quantity, unit: Option<&Unit>) -> String {
 
 /// [`format_quantity`] with a chosen number of significant figures (1..=17).
 pub fn format_quantity_sig(q: &Quantity, unit: Option<&Unit>, sig: usize) -> String {
+    let mut out = String::with_capacity(24);
+    push_quantity_sig(&mut out, q, unit, sig);
+    out
+}
+
+/// [`format_quantity_sig`] appended to `out`.
+pub fn push_quantity_sig(out: &mut String, q: &Quantity, unit: Option<&Unit>, sig: usize) {
     if let Some(u) = unit {
         if let Ok(x) = u.from_si(q) {
-            return join(&format_number(x, sig), &u.symbol);
+            return push_joined(out, x, sig, &u.symbol);
         }
     }
     let u = default_unit(q);
     match u.from_si(q) {
-        Ok(x) => join(&format_number(x, sig), &u.symbol),
-        Err(_) => join(&format_number(q.si, sig), &si_symbol(q.dim)),
+        Ok(x) => push_joined(out, x, sig, &u.symbol),
+        Err(_) => push_joined(out, q.si, sig, &si_symbol(q.dim)),
     }
 }
 
-fn join(number: &str, symbol: &str) -> String {
-    if symbol.is_empty() {
-        number.to_string()
-    } else {
-        format!("{number} {symbol}")
+fn push_joined(out: &mut String, x: f64, sig: usize, symbol: &str) {
+    push_number(out, x, sig);
+    if !symbol.is_empty() {
+        out.push(' ');
+        out.push_str(symbol);
     }
 }
 
@@ -112,50 +119,192 @@ fn engineering_prefix(dim: Dim, magnitude: f64) -> (&'static str, f64) {
 /// Deterministic: built from Rust's exact decimal formatting. Non-finite
 /// numbers are shown as `invalid` (operations never produce them).
 pub fn format_number(x: f64, sig: usize) -> String {
+    let mut out = String::with_capacity(12);
+    push_number(&mut out, x, sig);
+    out
+}
+
+/// [`format_number`] appended to `out`.
+pub fn push_number(out: &mut String, x: f64, sig: usize) {
     if !x.is_finite() {
-        return "invalid".to_string();
+        out.push_str("invalid");
+        return;
     }
     if x == 0.0 {
-        return "0".to_string();
+        out.push('0');
+        return;
     }
     let sig = sig.clamp(1, 17);
+    let mut buffer = [0u8; 20];
+    let (digits, exp) = match significant_digits(x.abs(), sig, &mut buffer) {
+        Some(found) => found,
+        None => return push_number_slow(out, x, sig),
+    };
+    if x < 0.0 {
+        out.push('-');
+    }
+    if !(-3..6).contains(&exp) {
+        push_scientific(out, digits, exp);
+    } else {
+        push_positional(out, digits, exp);
+    }
+}
+
+/// The `sig` significant digits of `magnitude` (finite, > 0) and its decimal
+/// exponent, as `{:.(sig-1)e}` would write them, for magnitudes in
+/// 1e-3..1e6 with up to 15 digits; `None` when the exponent or the rounding is
+/// too close to call in f64 (the caller then asks the exact formatter).
+fn significant_digits(magnitude: f64, sig: usize, buffer: &mut [u8; 20]) -> Option<(&[u8], i32)> {
+    const POWERS: [f64; 10] = [1e-3, 1e-2, 1e-1, 1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6];
+    if sig > 15 || !(1e-3..1e6).contains(&magnitude) {
+        return None;
+    }
+    // The decade, kept clear of its ends, where f64 powers of ten are inexact.
+    let index = POWERS.iter().rposition(|p| magnitude >= *p)?;
+    let (low, high) = (POWERS[index], POWERS[index + 1]);
+    if magnitude < low * (1.0 + 1e-12) || magnitude > high * (1.0 - 1e-12) {
+        return None;
+    }
+    let exp = index as i32 - 3;
+    let decimals = sig as i32 - 1 - exp;
+    let scaled = if decimals >= 0 {
+        round_scaled(magnitude, decimals as u32)?
+    } else {
+        round_shrunk(magnitude, (-decimals) as u32)?
+    };
+    // A carry into the next decade (9.9996 to 10.00) goes the exact way.
+    if scaled < 10u64.pow(sig as u32 - 1) || scaled >= 10u64.pow(sig as u32) {
+        return None;
+    }
+    Some((write_digits(scaled, sig, buffer), exp))
+}
+
+/// The powers of ten that f64 holds exactly.
+const POWERS_OF_TEN: [f64; 23] = [
+    1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16,
+    1e17, 1e18, 1e19, 1e20, 1e21, 1e22,
+];
+
+/// `magnitude * 10^decimals` rounded to the nearest integer, exactly as the
+/// decimal value of the f64 would round, or `None` when the product is too
+/// large or too close to a half for one f64 multiplication to decide.
+///
+/// 10^d is exact in f64 for d <= 22, so the product is within half an ulp of
+/// the exact one; when it lies more than two ulps from the nearest half, the
+/// exact product rounds the same way (ties included, which are never decided
+/// here).
+pub fn round_scaled(magnitude: f64, decimals: u32) -> Option<u64> {
+    let y = magnitude * POWERS_OF_TEN.get(decimals as usize)?;
+    decide(y)
+}
+
+/// `magnitude / 10^shift` rounded to the nearest integer; as [`round_scaled`]
+/// (one correctly rounded division by an exact power of ten).
+fn round_shrunk(magnitude: f64, shift: u32) -> Option<u64> {
+    let y = magnitude / POWERS_OF_TEN.get(shift as usize)?;
+    decide(y)
+}
+
+/// The integer nearest `y`, when `y` (within half an ulp of the exact value)
+/// is clear of the half by more than two ulps.
+fn decide(y: f64) -> Option<u64> {
+    if !(0.0..4.0e15).contains(&y) {
+        return None;
+    }
+    let floor = y.floor();
+    let fraction = y - floor;
+    let margin = y * f64::EPSILON * 2.0 + f64::MIN_POSITIVE;
+    if (fraction - 0.5).abs() <= margin {
+        return None;
+    }
+    let n = floor as u64;
+    Some(if fraction > 0.5 { n + 1 } else { n })
+}
+
+/// The `count` decimal digits of `n` (zero-padded on the left) as ASCII.
+fn write_digits(mut n: u64, count: usize, buffer: &mut [u8; 20]) -> &[u8] {
+    let digits = &mut buffer[..count];
+    for d in digits.iter_mut().rev() {
+        *d = b'0' + (n % 10) as u8;
+        n /= 10;
+    }
+    digits
+}
+
+/// The exact formatter's way, for what [`significant_digits`] leaves.
+#[cold]
+fn push_number_slow(out: &mut String, x: f64, sig: usize) {
     let sci = format!("{:.*e}", sig - 1, x.abs());
     let (mantissa, exp) = sci.split_once('e').unwrap_or((&sci, "0"));
     let exp: i32 = exp.parse().unwrap_or(0);
-    let digits: String = mantissa.chars().filter(char::is_ascii_digit).collect();
-    let sign = if x < 0.0 { "-" } else { "" };
-    let body = if !(-3..6).contains(&exp) {
-        scientific(&digits, exp)
+    let digits: Vec<u8> = mantissa.bytes().filter(u8::is_ascii_digit).collect();
+    if x < 0.0 {
+        out.push('-');
+    }
+    if !(-3..6).contains(&exp) {
+        push_scientific(out, &digits, exp);
     } else {
-        positional(&digits, exp)
-    };
-    format!("{sign}{body}")
+        push_positional(out, &digits, exp);
+    }
 }
 
-fn scientific(digits: &str, exp: i32) -> String {
+/// ASCII digits as text (they are always ASCII).
+fn push_ascii(out: &mut String, digits: &[u8]) {
+    out.extend(digits.iter().map(|&b| char::from(b)));
+}
+
+fn trim_zero_tail(digits: &[u8]) -> &[u8] {
+    let keep = digits.iter().rposition(|&d| d != b'0').map_or(0, |i| i + 1);
+    &digits[..keep]
+}
+
+fn push_scientific(out: &mut String, digits: &[u8], exp: i32) {
     let (head, tail) = digits.split_at(1);
-    let tail = tail.trim_end_matches('0');
-    if tail.is_empty() {
-        format!("{head}e{exp}")
-    } else {
-        format!("{head}.{tail}e{exp}")
+    push_ascii(out, head);
+    let tail = trim_zero_tail(tail);
+    if !tail.is_empty() {
+        out.push('.');
+        push_ascii(out, tail);
     }
+    out.push('e');
+    push_int(out, i64::from(exp));
 }
 
-fn positional(digits: &str, exp: i32) -> String {
-    let (int, frac) = if exp >= 0 {
+fn push_positional(out: &mut String, digits: &[u8], exp: i32) {
+    let frac = if exp >= 0 {
         let split = (exp as usize + 1).min(digits.len());
-        let mut int = digits[..split].to_string();
-        int.extend(std::iter::repeat_n('0', exp as usize + 1 - split));
-        (int, digits[split..].to_string())
+        push_ascii(out, &digits[..split]);
+        out.extend(std::iter::repeat_n('0', exp as usize + 1 - split));
+        trim_zero_tail(&digits[split..])
     } else {
-        let zeros = "0".repeat((-exp - 1) as usize);
-        ("0".to_string(), format!("{zeros}{digits}"))
+        out.push('0');
+        trim_zero_tail(digits)
     };
-    let frac = frac.trim_end_matches('0');
     if frac.is_empty() {
-        int
-    } else {
-        format!("{int}.{frac}")
+        return;
     }
+    out.push('.');
+    if exp < 0 {
+        out.extend(std::iter::repeat_n('0', (-exp - 1) as usize));
+    }
+    push_ascii(out, frac);
+}
+
+/// A whole number in decimal, without allocating.
+pub fn push_int(out: &mut String, n: i64) {
+    if n < 0 {
+        out.push('-');
+    }
+    let mut buffer = [0u8; 20];
+    let mut m = n.unsigned_abs();
+    let mut i = buffer.len();
+    loop {
+        i -= 1;
+        buffer[i] = b'0' + (m % 10) as u8;
+        m /= 10;
+        if m == 0 {
+            break;
+        }
+    }
+    push_ascii(out, &buffer[i..]);
 }
