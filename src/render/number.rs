@@ -329,6 +329,80 @@ mod tests {
         assert_eq!(NumberFormat::Fixed(2).write(-0.001), "0.00");
     }
 
+    /// The writer before the fast path: every number through `format!`.
+    fn oracle(format: NumberFormat, x: f64) -> String {
+        strip_negative_zero(match format {
+            NumberFormat::Fixed(d) => format!("{x:.d$}"),
+            NumberFormat::Scientific(d) => format!("{x:.d$e}"),
+        })
+    }
+
+    #[test]
+    fn fast_fixed_text_matches_the_exact_formatter() {
+        let mut state = 0x0dd_ba11_cafe_f00d_u64;
+        let mut next = move || {
+            state ^= state >> 12;
+            state ^= state << 25;
+            state ^= state >> 27;
+            state.wrapping_mul(0x2545_F491_4F6C_DD1D)
+        };
+        let mut values = vec![
+            0.0, -0.0, -0.001, 0.5, 1.5, 2.5, -2.5, 1e15, 4.5e15, 1e300, 1e-300,
+        ];
+        for _ in 0..400_000 {
+            let r = next();
+            let n = (r % 2_000_000_000) as f64 - 1_000_000_000.0;
+            let k = ((r >> 40) % 14) as i32;
+            // Decimal-looking numbers, exact binary halves (ties), random bits.
+            values.push(n / 10f64.powi(k));
+            values.push(n / 2f64.powi(k + 1));
+            values.push(f64::from_bits(next()));
+        }
+        assert!(values.len() > 1_000_000);
+        for (i, x) in values.iter().enumerate() {
+            let d = i % 16;
+            let format = NumberFormat::Fixed(d);
+            assert_eq!(
+                format.write(*x),
+                oracle(format, *x),
+                "{x:e} with {d} decimals"
+            );
+            if i % 7 == 0 {
+                let format = NumberFormat::Fixed(3);
+                assert_eq!(
+                    format.write(*x),
+                    oracle(format, *x),
+                    "{x:e} with 3 decimals"
+                );
+            }
+        }
+        for x in [f64::NAN, f64::INFINITY, f64::NEG_INFINITY] {
+            for format in [NumberFormat::Fixed(2), NumberFormat::Scientific(2)] {
+                assert_eq!(format.write(x), oracle(format, x));
+            }
+        }
+    }
+
+    #[test]
+    fn column_texts_are_the_column_format_applied_to_each_value() {
+        let columns: [&[f64]; 5] = [
+            &[50.25, 50.5, 61.0],
+            &[0.0003, 0.0006, 0.075],
+            &[1.85, 0.0912, -0.25],
+            &[2.0, 2.5e7],
+            &[0.0, 0.5, 4.0],
+        ];
+        for values in columns {
+            let (format, written) = NumberFormat::column(values, SIG_FIGS);
+            assert_eq!(format, NumberFormat::for_column(values, SIG_FIGS));
+            if let Some(w) = written {
+                let texts: Vec<&str> = w.iter().collect();
+                let expected: Vec<String> = values.iter().map(|v| format.write(*v)).collect();
+                assert_eq!(texts, expected);
+            }
+        }
+    }
+
     #[test]
     fn absolute_temperature_uses_offset_difference_does_not() {
         use crate::units::{lookup_unit, Kind};

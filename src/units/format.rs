@@ -308,3 +308,143 @@ pub fn push_int(out: &mut String, n: i64) {
     }
     push_ascii(out, &buffer[i..]);
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// The formatter before the fast path: every number through `{:.Ne}`.
+    fn oracle(x: f64, sig: usize) -> String {
+        if !x.is_finite() {
+            return "invalid".to_string();
+        }
+        if x == 0.0 {
+            return "0".to_string();
+        }
+        let sig = sig.clamp(1, 17);
+        let sci = format!("{:.*e}", sig - 1, x.abs());
+        let (mantissa, exp) = sci.split_once('e').unwrap_or((&sci, "0"));
+        let exp: i32 = exp.parse().unwrap_or(0);
+        let digits: String = mantissa.chars().filter(char::is_ascii_digit).collect();
+        let sign = if x < 0.0 { "-" } else { "" };
+        let body = if !(-3..6).contains(&exp) {
+            let (head, tail) = digits.split_at(1);
+            let tail = tail.trim_end_matches('0');
+            if tail.is_empty() {
+                format!("{head}e{exp}")
+            } else {
+                format!("{head}.{tail}e{exp}")
+            }
+        } else {
+            let (int, frac) = if exp >= 0 {
+                let split = (exp as usize + 1).min(digits.len());
+                let mut int = digits[..split].to_string();
+                int.extend(std::iter::repeat_n('0', exp as usize + 1 - split));
+                (int, digits[split..].to_string())
+            } else {
+                let zeros = "0".repeat((-exp - 1) as usize);
+                ("0".to_string(), format!("{zeros}{digits}"))
+            };
+            let frac = frac.trim_end_matches('0');
+            if frac.is_empty() {
+                int
+            } else {
+                format!("{int}.{frac}")
+            }
+        };
+        format!("{sign}{body}")
+    }
+
+    /// A repeatable stream of bit patterns (xorshift64*).
+    fn stream(mut state: u64) -> impl FnMut() -> u64 {
+        move || {
+            state ^= state >> 12;
+            state ^= state << 25;
+            state ^= state >> 27;
+            state.wrapping_mul(0x2545_F491_4F6C_DD1D)
+        }
+    }
+
+    /// Values that stress rounding: decimal-looking numbers, exact halves and
+    /// ties at several scales, neighbours of powers of ten, random bits.
+    fn hard_values() -> Vec<f64> {
+        let mut next = stream(0x5eed_1234_abcd_0001);
+        let mut values = vec![
+            0.0,
+            -0.0,
+            f64::NAN,
+            f64::INFINITY,
+            f64::NEG_INFINITY,
+            f64::MIN_POSITIVE,
+            f64::MAX,
+            5e-324,
+        ];
+        for k in -4..=7 {
+            let p = 10f64.powi(k);
+            for x in [
+                p,
+                p * (1.0 - 1e-16),
+                p * (1.0 + 1e-16),
+                p * (1.0 - 5e-5),
+                p * 0.99995,
+            ] {
+                values.push(x);
+                values.push(f64::from_bits(x.to_bits() + 1));
+                values.push(f64::from_bits(x.to_bits() - 1));
+            }
+        }
+        for _ in 0..200_000 {
+            let r = next();
+            // n / 10^k and n / 2^k with n up to 10^7: decimal text and exact ties.
+            let n = (r % 20_000_000) as f64 - 10_000_000.0;
+            let k = ((r >> 40) % 12) as i32;
+            values.push(n / 10f64.powi(k));
+            values.push(n / 2f64.powi(k + 1));
+            values.push((n + 0.5) / 10f64.powi(k));
+        }
+        for _ in 0..300_000 {
+            let bits = next();
+            values.push(f64::from_bits(bits));
+            // Random magnitudes in the 1e-5..1e8 range.
+            let u = (bits >> 11) as f64 / (1u64 << 53) as f64;
+            let x = 10f64.powf(u * 13.0 - 5.0);
+            values.push(if bits & 1 == 0 { x } else { -x });
+        }
+        values
+    }
+
+    #[test]
+    fn fast_number_text_matches_the_exact_formatter() {
+        let values = hard_values();
+        assert!(values.len() > 1_000_000);
+        for x in &values {
+            for sig in [1, 2, 3, 4, 6, 15, 16, 17] {
+                assert_eq!(format_number(*x, sig), oracle(*x, sig), "{x:e} at {sig}");
+            }
+        }
+    }
+
+    #[test]
+    fn fast_path_is_taken_for_everyday_numbers() {
+        // Reached without the exact formatter (the test above would not notice
+        // a fast path that never runs).
+        let mut buffer = [0u8; 20];
+        let (digits, exp) = significant_digits(38.19999999999999, 4, &mut buffer).unwrap();
+        assert_eq!((digits, exp), (&b"3820"[..], 1));
+        assert!(significant_digits(0.125, 2, &mut buffer).is_none(), "a tie");
+        assert_eq!(round_scaled(2.6751, 2), Some(268));
+        // 2.675 is 2.67499999999999982236431605997495353221893310546875: the
+        // product lands within two ulps of the half, so the exact path decides.
+        assert_eq!(round_scaled(2.675, 2), None);
+        assert_eq!(round_scaled(0.5, 0), None);
+    }
+
+    #[test]
+    fn push_int_writes_every_magnitude() {
+        for n in [0, 7, -7, 10, 1234567890, i64::MAX, i64::MIN] {
+            let mut s = String::new();
+            push_int(&mut s, n);
+            assert_eq!(s, n.to_string());
+        }
+    }
+}
