@@ -250,7 +250,10 @@ fn push_number_slow(out: &mut String, x: f64, sig: usize) {
 
 /// ASCII digits as text (they are always ASCII).
 fn push_ascii(out: &mut String, digits: &[u8]) {
-    out.extend(digits.iter().map(|&b| char::from(b)));
+    match std::str::from_utf8(digits) {
+        Ok(text) => out.push_str(text),
+        Err(_) => out.extend(digits.iter().map(|&b| char::from(b))),
+    }
 }
 
 fn trim_zero_tail(digits: &[u8]) -> &[u8] {
