@@ -140,14 +140,7 @@ pub fn push_number(out: &mut String, x: f64, sig: usize) {
         Some(found) => found,
         None => return push_number_slow(out, x, sig),
     };
-    if x < 0.0 {
-        out.push('-');
-    }
-    if !(-3..6).contains(&exp) {
-        push_scientific(out, digits, exp);
-    } else {
-        push_positional(out, digits, exp);
-    }
+    push_assembled(out, x < 0.0, digits, exp);
 }
 
 /// The `sig` significant digits of `magnitude` (finite, > 0) and its decimal
@@ -238,21 +231,66 @@ fn push_number_slow(out: &mut String, x: f64, sig: usize) {
     let (mantissa, exp) = sci.split_once('e').unwrap_or((&sci, "0"));
     let exp: i32 = exp.parse().unwrap_or(0);
     let digits: Vec<u8> = mantissa.bytes().filter(u8::is_ascii_digit).collect();
-    if x < 0.0 {
-        out.push('-');
+    push_assembled(out, x < 0.0, &digits, exp);
+}
+
+/// A number's text from its sign, significant digits and decimal exponent:
+/// scientific outside 1e-3..1e6, positional inside, trailing zeros dropped.
+/// Built on the stack and appended once.
+fn push_assembled(out: &mut String, negative: bool, digits: &[u8], exp: i32) {
+    let mut text = Bytes::default();
+    if negative {
+        text.push(b'-');
     }
     if !(-3..6).contains(&exp) {
-        push_scientific(out, &digits, exp);
+        scientific(&mut text, digits, exp);
     } else {
-        push_positional(out, &digits, exp);
+        positional(&mut text, digits, exp);
+    }
+    match std::str::from_utf8(text.as_slice()) {
+        Ok(t) => out.push_str(t),
+        Err(_) => out.extend(text.as_slice().iter().map(|&b| char::from(b))),
     }
 }
 
-/// ASCII digits as text (they are always ASCII).
-fn push_ascii(out: &mut String, digits: &[u8]) {
-    match std::str::from_utf8(digits) {
-        Ok(text) => out.push_str(text),
-        Err(_) => out.extend(digits.iter().map(|&b| char::from(b))),
+/// A short text built on the stack (a number: at most 17 digits, a sign, a
+/// point, six padding zeros and an exponent).
+struct Bytes {
+    bytes: [u8; 48],
+    len: usize,
+}
+
+impl Default for Bytes {
+    fn default() -> Bytes {
+        Bytes {
+            bytes: [0; 48],
+            len: 0,
+        }
+    }
+}
+
+impl Bytes {
+    fn push(&mut self, b: u8) {
+        if let Some(slot) = self.bytes.get_mut(self.len) {
+            *slot = b;
+            self.len += 1;
+        }
+    }
+
+    fn extend(&mut self, bytes: &[u8]) {
+        for &b in bytes {
+            self.push(b);
+        }
+    }
+
+    fn zeros(&mut self, count: usize) {
+        for _ in 0..count {
+            self.push(b'0');
+        }
+    }
+
+    fn as_slice(&self) -> &[u8] {
+        &self.bytes[..self.len]
     }
 }
 
@@ -261,36 +299,58 @@ fn trim_zero_tail(digits: &[u8]) -> &[u8] {
     &digits[..keep]
 }
 
-fn push_scientific(out: &mut String, digits: &[u8], exp: i32) {
+fn scientific(text: &mut Bytes, digits: &[u8], exp: i32) {
     let (head, tail) = digits.split_at(1);
-    push_ascii(out, head);
+    text.extend(head);
     let tail = trim_zero_tail(tail);
     if !tail.is_empty() {
-        out.push('.');
-        push_ascii(out, tail);
+        text.push(b'.');
+        text.extend(tail);
     }
-    out.push('e');
-    push_int(out, i64::from(exp));
+    text.push(b'e');
+    if exp < 0 {
+        text.push(b'-');
+    }
+    let mut buffer = [0u8; 12];
+    let mut i = buffer.len();
+    let mut m = exp.unsigned_abs();
+    loop {
+        i -= 1;
+        buffer[i] = b'0' + (m % 10) as u8;
+        m /= 10;
+        if m == 0 {
+            break;
+        }
+    }
+    text.extend(&buffer[i..]);
 }
 
-fn push_positional(out: &mut String, digits: &[u8], exp: i32) {
+fn positional(text: &mut Bytes, digits: &[u8], exp: i32) {
     let frac = if exp >= 0 {
         let split = (exp as usize + 1).min(digits.len());
-        push_ascii(out, &digits[..split]);
-        out.extend(std::iter::repeat_n('0', exp as usize + 1 - split));
+        text.extend(&digits[..split]);
+        text.zeros(exp as usize + 1 - split);
         trim_zero_tail(&digits[split..])
     } else {
-        out.push('0');
+        text.push(b'0');
         trim_zero_tail(digits)
     };
     if frac.is_empty() {
         return;
     }
-    out.push('.');
+    text.push(b'.');
     if exp < 0 {
-        out.extend(std::iter::repeat_n('0', (-exp - 1) as usize));
+        text.zeros((-exp - 1) as usize);
     }
-    push_ascii(out, frac);
+    text.extend(frac);
+}
+
+/// ASCII digits as text (they are always ASCII).
+fn push_ascii(out: &mut String, digits: &[u8]) {
+    match std::str::from_utf8(digits) {
+        Ok(text) => out.push_str(text),
+        Err(_) => out.extend(digits.iter().map(|&b| char::from(b))),
+    }
 }
 
 /// A whole number in decimal, without allocating.
