@@ -2,8 +2,10 @@
 //! one format per column so decimal points line up, and the conversion of a
 //! quantity into the unit it is shown in.
 //!
-//! Formatting goes through Rust's correctly rounded `{:.N}` / `{:.Ne}`
-//! formatting, so the same number always prints the same text on every platform.
+//! The text is that of Rust's correctly rounded `{:.N}` / `{:.Ne}`
+//! formatting, so the same number always prints the same text on every
+//! platform; fixed-point numbers whose rounding one f64 product decides are
+//! written without it (same text, tested against it).
 
 use crate::units::{Dim, Quantity, Unit};
 

@@ -116,7 +116,8 @@ fn engineering_prefix(dim: Dim, magnitude: f64) -> (&'static str, f64) {
 
 /// A number with `sig` significant figures (clamped to 1..=17), trailing
 /// zeros dropped; scientific notation (`1.235e-5`) below 1e-3 and from 1e6 up.
-/// Deterministic: built from Rust's exact decimal formatting. Non-finite
+/// Deterministic: the digits of Rust's exact decimal formatting (found
+/// without it when one f64 product decides the rounding). Non-finite
 /// numbers are shown as `invalid` (operations never produce them).
 pub fn format_number(x: f64, sig: usize) -> String {
     let mut out = String::with_capacity(12);
