@@ -3,14 +3,21 @@
 
 use serde_json::{json as j, Map, Value as Json};
 
-use super::text::text;
+use super::text::{record_text, text};
 use crate::value::Value;
 
 /// A value as a JSON object: `si`, `unit` (SI), `text` (display); records add
 /// `fields` of the same shape; tables add `columns` and `rows`.
 pub fn json(value: &Value) -> Json {
     let mut obj = Map::new();
-    obj.insert("text".into(), Json::String(text(value)));
+    match value {
+        // The text is built from the fields' own texts, not written twice.
+        Value::Record(_) => {}
+        Value::List(items) if !is_quantity_list(items) => {}
+        _ => {
+            obj.insert("text".into(), Json::String(text(value)));
+        }
+    }
     match value {
         Value::Quantity(q, _) => {
             obj.insert("si".into(), number(q.si));
@@ -21,8 +28,15 @@ pub fn json(value: &Value) -> Json {
         }
         Value::List(items) => list(items, &mut obj),
         Value::Record(r) => {
+            let fields: Vec<Json> = r.fields.iter().map(|(n, v)| named(n, v)).collect();
+            let texts = r
+                .fields
+                .iter()
+                .zip(&fields)
+                .map(|((n, _), f)| (n, text_of(f)));
+            let shown = record_text(&r.type_name, texts);
+            obj.insert("text".into(), Json::String(shown));
             obj.insert("type".into(), Json::String(r.type_name.to_string()));
-            let fields = r.fields.iter().map(|(n, v)| named(n, v)).collect();
             obj.insert("fields".into(), Json::Array(fields));
         }
         Value::Table(t) => {
@@ -57,31 +71,41 @@ pub fn named(name: &str, value: &Value) -> Json {
     Json::Object(obj)
 }
 
+/// The `text` of an object [`json`] made.
+fn text_of(obj: &Json) -> &str {
+    obj.get("text").and_then(Json::as_str).unwrap_or_default()
+}
+
+/// A non-empty list of quantities of one dimension (shown as `si` numbers).
+fn is_quantity_list(items: &[Value]) -> bool {
+    let mut dims = items.iter().map(|v| match v {
+        Value::Quantity(q, _) => Some(q.dim),
+        _ => None,
+    });
+    match dims.next() {
+        Some(Some(first)) => dims.all(|d| d == Some(first)),
+        _ => false,
+    }
+}
+
 fn list(items: &[Value], obj: &mut Map<String, Json>) {
-    let quantities: Vec<_> = items
-        .iter()
-        .filter_map(|v| {
-            if let Value::Quantity(q, _) = v {
-                Some(q)
-            } else {
-                None
-            }
-        })
-        .collect();
-    if !items.is_empty()
-        && quantities.len() == items.len()
-        && quantities.iter().all(|q| q.dim == quantities[0].dim)
-    {
-        obj.insert(
-            "si".into(),
-            Json::Array(quantities.iter().map(|q| number(q.si)).collect()),
-        );
-        obj.insert("unit".into(), Json::String(quantities[0].dim.si_unit()));
+    if is_quantity_list(items) {
+        let si = items.iter().filter_map(|v| match v {
+            Value::Quantity(q, _) => Some(number(q.si)),
+            _ => None,
+        });
+        obj.insert("si".into(), Json::Array(si.collect()));
+        if let Some(Value::Quantity(q, _)) = items.first() {
+            obj.insert("unit".into(), Json::String(q.dim.si_unit()));
+        }
     } else {
+        let items: Vec<Json> = items.iter().map(json).collect();
+        let texts: Vec<&str> = items.iter().map(text_of).collect();
         obj.insert(
-            "items".into(),
-            Json::Array(items.iter().map(json).collect()),
+            "text".into(),
+            Json::String(format!("[{}]", texts.join(", "))),
         );
+        obj.insert("items".into(), Json::Array(items));
     }
 }
 

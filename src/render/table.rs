@@ -13,7 +13,7 @@ use crate::value::{Column, Record, Table, Value};
 
 use super::error::RenderError;
 use super::file::write_atomic;
-use super::number::{default_unit, dim_words, exact_text, in_unit, NumberFormat, SIG_FIGS};
+use super::number::{default_unit, dim_words, exact_text, in_unit, NumberFormat, Texts, SIG_FIGS};
 
 /// A table checked and formatted, ready for any output format.
 #[derive(Clone, Debug)]
@@ -23,14 +23,18 @@ pub struct Layout {
     pub headers: Vec<(String, String)>,
     /// Right-align (numbers) or left-align (text), per column.
     pub numeric: Vec<bool>,
-    /// Formatted cells, row-major, with the column's significant figures.
-    pub rows: Vec<Vec<String>>,
-    /// Cells at full precision (shortest round-trip text), for CSV.
-    pub exact: Vec<Vec<String>>,
+    /// Rows in the table.
+    pub rows: usize,
+    /// Formatted cells, one [`Texts`] per column (each cell formatted once,
+    /// with the column's significant figures).
+    pub columns: Vec<Texts>,
+    /// The cells as numbers, per column, for CSV's full precision.
+    cells: Vec<Vec<Cell>>,
 }
 
 /// One column's cells as numbers in its unit, numbers in a unit of their own
 /// (a column whose quantities differ in unit), or text.
+#[derive(Clone, Debug)]
 enum Cell {
     Number(f64),
     Own(f64, String),
@@ -45,8 +49,9 @@ impl Layout {
             title: table.title.clone(),
             headers: Vec::new(),
             numeric: Vec::new(),
-            rows: vec![Vec::new(); rows],
-            exact: vec![Vec::new(); rows],
+            rows,
+            columns: Vec::with_capacity(table.columns.len()),
+            cells: Vec::with_capacity(table.columns.len()),
         };
         for column in &table.columns {
             layout.add_column(column)?;
@@ -72,27 +77,25 @@ impl Layout {
                 }
             })
             .collect();
-        let format = NumberFormat::for_column(&numbers, SIG_FIGS);
-        for (i, cell) in cells.iter().enumerate() {
-            let (shown, exact) = match cell {
-                Cell::Number(x) => (format.write(*x), exact_text(*x)),
-                Cell::Own(x, symbol) => {
-                    let own = NumberFormat::for_column(&[*x], SIG_FIGS);
-                    (
-                        with_symbol(own.write(*x), symbol),
-                        with_symbol(exact_text(*x), symbol),
-                    )
-                }
-                Cell::Text(t) => (t.clone(), t.clone()),
-            };
-            self.rows[i].push(shown);
-            self.exact[i].push(exact);
-        }
+        let (format, written) = NumberFormat::column(&numbers, SIG_FIGS);
+        let texts = match written {
+            Some(all) if numbers.len() == cells.len() => all,
+            written => shown_cells(&cells, format, written.as_ref()),
+        };
+        self.columns.push(texts);
         let symbol = unit.map(|u| u.symbol.to_string()).unwrap_or_default();
         self.headers.push((column.name.clone(), symbol));
         let quantities = cells.iter().filter(|c| !matches!(c, Cell::Text(_)));
         self.numeric.push(quantities.count() == cells.len());
+        self.cells.push(cells);
         Ok(())
+    }
+
+    /// Cells at full precision (shortest round-trip text), row-major, for CSV.
+    pub fn exact(&self) -> Vec<Vec<String>> {
+        (0..self.rows)
+            .map(|r| self.cells.iter().map(|c| exact_cell(&c[r])).collect())
+            .collect()
     }
 
     /// Header text of one column: `name [unit]`, or `name` without a unit.
@@ -103,6 +106,44 @@ impl Layout {
         } else {
             format!("{name} [{unit}]")
         }
+    }
+}
+
+/// A column's cells as shown: numbers in `format` (taken from `written`, the
+/// column's numbers already written in it, when there), numbers in their own
+/// unit with its symbol, text as it is.
+fn shown_cells(cells: &[Cell], format: NumberFormat, written: Option<&Texts>) -> Texts {
+    let mut texts = Texts::with_capacity(cells.len());
+    let mut next = 0;
+    for cell in cells {
+        match cell {
+            Cell::Number(x) => {
+                match written {
+                    Some(w) => texts.text.push_str(w.get(next)),
+                    None => format.push(&mut texts.text, *x),
+                }
+                next += 1;
+            }
+            Cell::Own(x, symbol) => {
+                NumberFormat::for_column(&[*x], SIG_FIGS).push(&mut texts.text, *x);
+                if !symbol.is_empty() {
+                    texts.text.push(' ');
+                    texts.text.push_str(symbol);
+                }
+            }
+            Cell::Text(t) => texts.text.push_str(t),
+        }
+        texts.end();
+    }
+    texts
+}
+
+/// One cell at full precision, for CSV.
+fn exact_cell(cell: &Cell) -> String {
+    match cell {
+        Cell::Number(x) => exact_text(*x),
+        Cell::Own(x, symbol) => with_symbol(exact_text(*x), symbol),
+        Cell::Text(t) => t.clone(),
     }
 }
 
@@ -250,48 +291,74 @@ pub fn text(table: &Table) -> Result<String, RenderError> {
     let headers: Vec<String> = (0..layout.headers.len())
         .map(|i| layout.header(i))
         .collect();
-    let widths = column_widths(&headers, &layout.rows);
-    let mut out = String::new();
+    let widths = column_widths(&headers, &layout.columns);
+    let line: usize = widths.iter().map(|w| w + 2).sum::<usize>() + 1;
+    let mut out = String::with_capacity(line * (layout.rows + 3));
     if let Some(title) = &layout.title {
         out.push_str(title);
         out.push('\n');
     }
-    push_text_row(&mut out, &headers, &widths, &layout.numeric);
+    push_text_row(
+        &mut out,
+        headers.iter().map(String::as_str),
+        &widths,
+        &layout.numeric,
+    );
     let rule: Vec<String> = widths.iter().map(|w| "-".repeat(*w)).collect();
     out.push_str(rule.join("  ").trim_end());
     out.push('\n');
-    for row in &layout.rows {
-        push_text_row(&mut out, row, &widths, &layout.numeric);
+    for r in 0..layout.rows {
+        let cells = layout.columns.iter().map(|c| c.get(r));
+        push_text_row(&mut out, cells, &widths, &layout.numeric);
     }
     Ok(out)
 }
 
-fn column_widths(headers: &[String], rows: &[Vec<String>]) -> Vec<usize> {
-    let mut widths: Vec<usize> = headers.iter().map(|h| h.chars().count()).collect();
-    for row in rows {
-        for (w, cell) in widths.iter_mut().zip(row) {
-            *w = (*w).max(cell.chars().count());
-        }
-    }
-    widths
+fn column_widths(headers: &[String], columns: &[Texts]) -> Vec<usize> {
+    headers
+        .iter()
+        .zip(columns)
+        .map(|(h, cells)| cells.iter().map(width).fold(width(h), usize::max))
+        .collect()
 }
 
-fn push_text_row(out: &mut String, cells: &[String], widths: &[usize], numeric: &[bool]) {
-    let parts: Vec<String> = cells
-        .iter()
-        .zip(widths)
-        .zip(numeric)
-        .map(|((cell, w), right)| {
-            if *right {
-                format!("{cell:>w$}")
-            } else {
-                format!("{cell:<w$}")
-            }
-        })
-        .collect();
-    out.push_str(parts.join("  ").trim_end());
+/// Characters in a cell, as padding counts them.
+fn width(text: &str) -> usize {
+    if text.is_ascii() {
+        text.len()
+    } else {
+        text.chars().count()
+    }
+}
+
+/// One row: cells padded to their column's width (numbers on the right),
+/// two spaces apart, without trailing white space.
+fn push_text_row<'a>(
+    out: &mut String,
+    cells: impl Iterator<Item = &'a str>,
+    widths: &[usize],
+    numeric: &[bool],
+) {
+    let start = out.len();
+    for (i, ((cell, w), right)) in cells.zip(widths).zip(numeric).enumerate() {
+        if i > 0 {
+            out.push_str("  ");
+        }
+        let pad = w.saturating_sub(width(cell));
+        if *right {
+            out.extend(std::iter::repeat_n(' ', pad));
+            out.push_str(cell);
+        } else {
+            out.push_str(cell);
+            out.extend(std::iter::repeat_n(' ', pad));
+        }
+    }
+    let kept = out[start..].trim_end().len();
+    out.truncate(start + kept);
     out.push('\n');
 }
+
+const RIGHT: &str = " style=\"text-align:right\"";
 
 /// An HTML `<table>` fragment (class `siccant-table`), numbers right-aligned.
 pub fn html(table: &Table) -> Result<String, RenderError> {
@@ -302,11 +369,7 @@ pub fn html(table: &Table) -> Result<String, RenderError> {
     }
     out.push_str("<thead><tr>");
     for (i, (name, unit)) in layout.headers.iter().enumerate() {
-        let align = if layout.numeric[i] {
-            " style=\"text-align:right\""
-        } else {
-            ""
-        };
+        let align = if layout.numeric[i] { RIGHT } else { "" };
         let unit = if unit.is_empty() {
             String::new()
         } else {
@@ -315,15 +378,16 @@ pub fn html(table: &Table) -> Result<String, RenderError> {
         out.push_str(&format!("<th{align}>{}{unit}</th>", escape_html(name)));
     }
     out.push_str("</tr></thead>\n<tbody>\n");
-    for row in &layout.rows {
+    for r in 0..layout.rows {
         out.push_str("<tr>");
-        for (cell, right) in row.iter().zip(&layout.numeric) {
-            let align = if *right {
-                " style=\"text-align:right\""
-            } else {
-                ""
-            };
-            out.push_str(&format!("<td{align}>{}</td>", escape_html(cell)));
+        for (cells, right) in layout.columns.iter().zip(&layout.numeric) {
+            out.push_str("<td");
+            if *right {
+                out.push_str(RIGHT);
+            }
+            out.push('>');
+            push_escaped_html(&mut out, cells.get(r));
+            out.push_str("</td>");
         }
         out.push_str("</tr>\n");
     }
@@ -348,9 +412,14 @@ pub fn markdown(table: &Table) -> Result<String, RenderError> {
         .map(|n| if *n { "---:" } else { "---" })
         .collect();
     out.push_str(&format!("| {} |\n", rule.join(" | ")));
-    for row in &layout.rows {
-        let cells: Vec<String> = row.iter().map(|c| escape_markdown(c)).collect();
-        out.push_str(&format!("| {} |\n", cells.join(" | ")));
+    for r in 0..layout.rows {
+        out.push('|');
+        for cells in &layout.columns {
+            out.push(' ');
+            push_escaped_markdown(&mut out, cells.get(r));
+            out.push_str(" |");
+        }
+        out.push('\n');
     }
     Ok(out)
 }
@@ -364,7 +433,7 @@ pub fn csv(table: &Table) -> Result<String, RenderError> {
         .collect();
     let draw = |e: csv::Error| RenderError::Draw(e.to_string());
     writer.write_record(&headers).map_err(draw)?;
-    for row in &layout.exact {
+    for row in &layout.exact() {
         writer.write_record(row).map_err(draw)?;
     }
     let bytes = writer
@@ -445,6 +514,12 @@ fn field_of(i: usize, r: &Record, name: &str) -> Result<Value, RenderError> {
 /// Escape text for HTML element content and attribute values.
 pub fn escape_html(text: &str) -> String {
     let mut out = String::with_capacity(text.len());
+    push_escaped_html(&mut out, text);
+    out
+}
+
+/// [`escape_html`] appended to `out`.
+fn push_escaped_html(out: &mut String, text: &str) {
     for c in text.chars() {
         match c {
             '&' => out.push_str("&amp;"),
@@ -455,17 +530,21 @@ pub fn escape_html(text: &str) -> String {
             _ => out.push(c),
         }
     }
-    out
 }
 
 /// Escape text for a Markdown table cell or paragraph.
 pub fn escape_markdown(text: &str) -> String {
     let mut out = String::with_capacity(text.len());
+    push_escaped_markdown(&mut out, text);
+    out
+}
+
+/// [`escape_markdown`] appended to `out`.
+fn push_escaped_markdown(out: &mut String, text: &str) {
     for c in text.chars() {
         if matches!(c, '|' | '*' | '_' | '`' | '\\' | '<' | '>') {
             out.push('\\');
         }
         out.push(if c == '\n' { ' ' } else { c });
     }
-    out
 }

@@ -1,7 +1,7 @@
 //! Plain-text rendering of values and of built-in help.
 
 use crate::library::Builtin;
-use crate::units::format_quantity;
+use crate::units::{format_quantity, push_quantity_sig, DISPLAY_SIG_FIGS};
 use crate::value::Value;
 
 /// A value as plain text; records and tables span several lines.
@@ -10,23 +10,63 @@ pub fn text(value: &Value) -> String {
         Value::Quantity(q, unit) => format_quantity(q, unit.as_ref()),
         Value::Bool(b) => b.to_string(),
         Value::Str(s) => s.clone(),
-        Value::List(items) => {
-            let parts: Vec<String> = items.iter().map(text).collect();
-            format!("[{}]", parts.join(", "))
-        }
+        Value::List(items) => list_text(items),
         Value::Record(r) => {
-            let mut s = r.type_name.to_string();
-            for (name, v) in r.fields.iter() {
-                let inner = text(v).replace('\n', "\n    ");
-                s.push_str(&format!("\n  {name} = {inner}"));
-            }
-            s
+            let fields = r.fields.iter().map(|(name, v)| (name, text(v)));
+            record_text(&r.type_name, fields)
         }
         Value::Table(t) => super::table::text(t)
             .map(|s| s.trim_end().to_string())
             .unwrap_or_else(|e| format!("[table: {e}]")),
         Value::Plot(p) => format!("[plot: {}]", p.title),
         Value::Function(f) => format!("<function {}>", f.name()),
+    }
+}
+
+/// `[a, b, c]`, quantities written straight into the one string.
+fn list_text(items: &[Value]) -> String {
+    let mut s = String::with_capacity(2 + items.len() * 12);
+    s.push('[');
+    for (i, item) in items.iter().enumerate() {
+        if i > 0 {
+            s.push_str(", ");
+        }
+        match item {
+            Value::Quantity(q, unit) => {
+                push_quantity_sig(&mut s, q, unit.as_ref(), DISPLAY_SIG_FIGS)
+            }
+            other => s.push_str(&text(other)),
+        }
+    }
+    s.push(']');
+    s
+}
+
+/// A record's text from its type name and its fields' texts: one field a
+/// line, `  name = text`, the field's own lines indented further.
+pub(crate) fn record_text<N: AsRef<str>, T: AsRef<str>>(
+    type_name: &str,
+    fields: impl Iterator<Item = (N, T)>,
+) -> String {
+    let mut s = type_name.to_string();
+    for (name, inner) in fields {
+        s.push_str("\n  ");
+        s.push_str(name.as_ref());
+        s.push_str(" = ");
+        push_indented(&mut s, inner.as_ref(), "\n    ");
+    }
+    s
+}
+
+/// `text` appended with every newline replaced by `newline`.
+fn push_indented(s: &mut String, text: &str, newline: &str) {
+    let mut lines = text.split('\n');
+    if let Some(first) = lines.next() {
+        s.push_str(first);
+    }
+    for line in lines {
+        s.push_str(newline);
+        s.push_str(line);
     }
 }
 

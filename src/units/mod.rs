@@ -30,7 +30,8 @@ mod table;
 pub use catalog::{base_units, BaseUnit, Basis, Prefix, Scale, PREFIXES};
 pub use dim::Dim;
 pub use format::{
-    default_unit, format_number, format_quantity, format_quantity_sig, DISPLAY_SIG_FIGS,
+    default_unit, format_number, format_quantity, format_quantity_sig, push_int, push_number,
+    push_quantity_sig, round_scaled, DISPLAY_SIG_FIGS,
 };
 pub use kind::{add_kind, compare_kinds, div_kind, mul_kind, sub_kind, Kind, KindClash};
 pub use names::{describe_dim_with_si, named_dim, si_symbol, NamedDim, NAMED_DIMS};
