@@ -694,13 +694,25 @@ fn field_mask(wanted: Option<&[String]>) -> u16 {
     })
 }
 
+/// The bit of [`wanted_bits`] that says the caller reads the payload.
+const PAYLOAD_BIT: u64 = 1 << 63;
+
+/// [`field_mask`], with [`PAYLOAD_BIT`] set when the caller reads the payload
+/// ([`Args::wants_payload`]): what [`air_record`] keeps in its `Args`
+/// ([`Args::wanted_mask`]).
+fn wanted_bits(wanted: Option<&[String]>) -> u64 {
+    let payload = wanted.is_none_or(|w| w.iter().any(|f| f == crate::library::PAYLOAD));
+    u64::from(field_mask(wanted)) | if payload { PAYLOAD_BIT } else { 0 }
+}
+
 /// The record of an air state, with its payload. Warnings go to `args`.
 ///
 /// Only the fields the caller reads are computed when it says which
 /// ([`Args::wants`]; a what-if study's points), except the dew point and
 /// wet-bulb where they may fail (see below).
 pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
-    let mask = field_mask(args.wanted.as_deref());
+    let bits = args.wanted_mask(wanted_bits);
+    let mask = bits as u16;
     // By position in AIR_RECORD_FIELDS, found at compile time.
     macro_rules! wants {
         ($name:literal) => {
@@ -791,7 +803,7 @@ pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
     }
     // A caller that named what it reads reads nothing else: the payload only
     // when it passes the record to a parameter reading only that.
-    let payload: Option<Arc<dyn Payload>> = if args.wants_payload() {
+    let payload: Option<Arc<dyn Payload>> = if bits & PAYLOAD_BIT != 0 {
         Some(Arc::new(AirPayload(*s)))
     } else {
         None
@@ -1310,6 +1322,32 @@ mod tests {
         }
         assert_eq!(second_property("T"), None);
         assert_eq!(second_property("p"), None);
+    }
+
+    /// The bits an `Args` keeps are worked out afresh whenever its wanted
+    /// list changes, and say what `Args::wants` / `Args::wants_payload` say.
+    #[test]
+    fn kept_wanted_bits_follow_the_wanted_list() {
+        let builtin = crate::library::find("air").expect("air is registered");
+        let mut args = Args::unbound(builtin, Span::default());
+        let lists: &[Option<&[&str]>] = &[
+            None,
+            Some(&["wetbulb"]),
+            Some(&["wetbulb"]),
+            Some(&["payload", "h"]),
+            None,
+            Some(&[]),
+        ];
+        for list in lists {
+            args.wanted = list.map(|l| l.iter().map(|n| n.to_string()).collect());
+            for _ in 0..2 {
+                let bits = args.wanted_mask(wanted_bits);
+                assert_eq!(bits & PAYLOAD_BIT != 0, args.wants_payload(), "{list:?}");
+                for (i, field) in AIR_RECORD_FIELDS.iter().enumerate() {
+                    assert_eq!(bits & 1 << i != 0, args.wants(field), "{list:?} {field}");
+                }
+            }
+        }
     }
 
     /// The field mask has the bit of each field a caller names (and no other),

@@ -145,6 +145,8 @@ pub struct Args {
     /// and its payload unless [`PAYLOAD`] is among them (the record goes to a
     /// parameter that reads only the payload: [`Builtin::reads_only_payload`]).
     pub wanted: Option<std::sync::Arc<[String]>>,
+    /// [`Args::wanted_mask`]'s answer, with the list it was worked out for.
+    mask_memo: Option<(Option<std::sync::Arc<[String]>>, u64)>,
 }
 
 impl Args {
@@ -195,6 +197,7 @@ impl Args {
             warnings: Vec::new(),
             dir: None,
             wanted: None,
+            mask_memo: None,
         }
     }
 
@@ -254,6 +257,28 @@ impl Args {
         self.wanted
             .as_ref()
             .is_none_or(|w| w.iter().any(|f| f == name))
+    }
+
+    /// `mask(wanted)` for this call's [`Args::wanted`], worked out once per
+    /// list: a what-if study's plan reuses one `Args` per call from point to
+    /// point, and a built-in that turns the wanted names into bits (one per
+    /// field) need not compare the names again at every point. A built-in
+    /// passes the same `mask` at every call (an `Args` serves one built-in).
+    pub fn wanted_mask(&mut self, mask: fn(Option<&[String]>) -> u64) -> u64 {
+        if let Some((list, bits)) = &self.mask_memo {
+            let same = match (list, &self.wanted) {
+                (None, None) => true,
+                (Some(a), Some(b)) => std::sync::Arc::ptr_eq(a, b),
+                _ => false,
+            };
+            if same {
+                return *bits;
+            }
+        }
+        // (The memo holds the list, so its address names it while kept.)
+        let bits = mask(self.wanted.as_deref());
+        self.mask_memo = Some((self.wanted.clone(), bits));
+        bits
     }
 
     /// Will the caller read the payload of the record this call returns

@@ -15,6 +15,7 @@ use std::collections::HashSet;
 use std::sync::{Arc, Mutex};
 
 use rayon::prelude::*;
+use smallvec::SmallVec;
 
 use super::plan::{Plan, State};
 use super::progress::{self, Progress};
@@ -64,11 +65,15 @@ pub(super) struct Rule {
     pub expr: Expr,
 }
 
+/// The probes' values at one point: held inline for a single probe (the
+/// usual study), so a point's values take no allocation of their own.
+pub(super) type Values = SmallVec<[Value; 1]>;
+
 /// What one point gave.
 #[derive(Clone, Debug)]
 pub(super) struct Outcome {
     /// The probes' values, or the first error (`line:col: message`).
-    pub values: Result<Vec<Value>, String>,
+    pub values: Result<Values, String>,
     /// Indices of the rules that failed (or could not be evaluated).
     pub broken: Vec<usize>,
     /// Warning messages raised at this point.
@@ -225,24 +230,56 @@ impl Model {
         label: &'static str,
         span: Span,
     ) -> Flow<Vec<Outcome>> {
-        let total = points.len();
+        self.eval_points(points.len(), |i| &points[i], label, span)
+    }
+
+    /// [`Model::eval_many`] over `total` points held in one flat slice, the
+    /// inputs' values of each point in turn (as many as the inputs).
+    pub fn eval_flat(
+        &self,
+        points: &[f64],
+        total: usize,
+        label: &'static str,
+        span: Span,
+    ) -> Flow<Vec<Outcome>> {
+        let stride = self.inputs.len();
+        debug_assert_eq!(points.len(), stride * total);
+        self.eval_points(
+            total,
+            |i| &points[i * stride..(i + 1) * stride],
+            label,
+            span,
+        )
+    }
+
+    /// Evaluate points `0..total`, where `point(i)` gives point `i`.
+    fn eval_points<'p>(
+        &self,
+        total: usize,
+        point: impl Fn(usize) -> &'p [f64] + Sync,
+        label: &'static str,
+        span: Span,
+    ) -> Flow<Vec<Outcome>> {
         let block = (total / 100).clamp(32, 8192);
         let mut out = Vec::with_capacity(total);
-        for chunk in points.chunks(block) {
+        let mut start = 0;
+        while start < total {
             if self.limits.interrupted() {
                 break;
             }
-            let part: Vec<Outcome> = chunk
-                .par_iter()
+            let end = total.min(start + block);
+            let part: Vec<Outcome> = (start..end)
+                .into_par_iter()
                 .map_init(
                     || Lease {
                         model: self,
                         work: Some(self.take_work()),
                     },
-                    |lease, p| lease.eval(p),
+                    |lease, i| lease.eval(point(i)),
                 )
                 .collect();
             out.extend(part);
+            start = end;
             let done = out.len();
             progress::report(&Progress {
                 label,
@@ -338,7 +375,7 @@ impl Model {
         mut eval: impl FnMut(&mut Ctx, usize) -> Flow<Value>,
     ) -> Outcome {
         let n = self.probes.len();
-        let mut values = Vec::with_capacity(n);
+        let mut values = Values::with_capacity(n);
         for k in 0..n {
             match eval(ctx, k) {
                 Ok(v) => values.push(v),

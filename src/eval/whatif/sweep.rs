@@ -47,8 +47,8 @@ impl Ctx<'_> {
         }
         let names: Vec<String> = probes.iter().map(|p| spec::probe_name(p, self)).collect();
         let model = Model::build(self, varied, probes, true, span)?;
-        let points = grid(&axes);
-        let outcomes = model.eval_many(&points, "sweep", span)?;
+        let points = flat_grid(&axes);
+        let outcomes = model.eval_flat(&points, total, "sweep", span)?;
         drop(points);
         self.point_warnings(&outcomes, span);
         let plot = sweep_plot(&model, &names, &axes, &outcomes);
@@ -134,6 +134,25 @@ pub(super) fn grid(axes: &[Vec<f64>]) -> Vec<Vec<f64>> {
     let mut at = vec![0; axes.len()];
     for _ in 0..total {
         points.push(at.iter().zip(axes).map(|(&i, axis)| axis[i]).collect());
+        for (i, axis) in at.iter_mut().zip(axes).rev() {
+            *i += 1;
+            if *i < axis.len() {
+                break;
+            }
+            *i = 0;
+        }
+    }
+    points
+}
+
+/// [`grid`] as one flat list: the values of each point in turn, one per
+/// axis (one allocation, however many points).
+pub(super) fn flat_grid(axes: &[Vec<f64>]) -> Vec<f64> {
+    let total: usize = axes.iter().map(Vec::len).product();
+    let mut points = Vec::with_capacity(total * axes.len());
+    let mut at = vec![0; axes.len()];
+    for _ in 0..total {
+        points.extend(at.iter().zip(axes).map(|(&i, axis)| axis[i]));
         for (i, axis) in at.iter_mut().zip(axes).rev() {
             *i += 1;
             if *i < axis.len() {
@@ -381,7 +400,7 @@ fn heat_map(
 
 #[cfg(test)]
 mod tests {
-    use super::grid;
+    use super::{flat_grid, grid};
 
     #[test]
     fn grid_is_every_combination_first_axis_slowest() {
@@ -397,5 +416,19 @@ mod tests {
         assert_eq!(grid(&axes), expected);
         assert_eq!(grid(&[]), vec![Vec::<f64>::new()]);
         assert!(grid(&[vec![1.0], vec![]]).is_empty());
+    }
+
+    #[test]
+    fn flat_grid_is_the_grid_flattened() {
+        let cases = vec![
+            vec![vec![1.0, 2.0], vec![10.0, 20.0, 30.0], vec![100.0, 200.0]],
+            vec![vec![0.5, -1.0, 7.0]],
+            vec![vec![1.0], vec![]],
+            vec![],
+        ];
+        for axes in cases {
+            let flat: Vec<f64> = grid(&axes).into_iter().flatten().collect();
+            assert_eq!(flat_grid(&axes), flat, "{axes:?}");
+        }
     }
 }
