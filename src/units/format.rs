@@ -312,18 +312,7 @@ fn scientific(text: &mut Bytes, digits: &[u8], exp: i32) {
     if exp < 0 {
         text.push(b'-');
     }
-    let mut buffer = [0u8; 12];
-    let mut i = buffer.len();
-    let mut m = exp.unsigned_abs();
-    loop {
-        i -= 1;
-        buffer[i] = b'0' + (m % 10) as u8;
-        m /= 10;
-        if m == 0 {
-            break;
-        }
-    }
-    text.extend(&buffer[i..]);
+    text.extend(whole_digits(u64::from(exp.unsigned_abs()), &mut [0; 20]));
 }
 
 fn positional(text: &mut Bytes, digits: &[u8], exp: i32) {
@@ -359,18 +348,21 @@ pub fn push_int(out: &mut String, n: i64) {
     if n < 0 {
         out.push('-');
     }
-    let mut buffer = [0u8; 20];
-    let mut m = n.unsigned_abs();
+    push_ascii(out, whole_digits(n.unsigned_abs(), &mut [0; 20]));
+}
+
+/// The decimal digits of `n` as ASCII, without leading zeros (`0` for zero).
+fn whole_digits(mut n: u64, buffer: &mut [u8; 20]) -> &[u8] {
     let mut i = buffer.len();
     loop {
         i -= 1;
-        buffer[i] = b'0' + (m % 10) as u8;
-        m /= 10;
-        if m == 0 {
+        buffer[i] = b'0' + (n % 10) as u8;
+        n /= 10;
+        if n == 0 {
             break;
         }
     }
-    push_ascii(out, &buffer[i..]);
+    &buffer[i..]
 }
 
 #[cfg(test)]
