@@ -110,22 +110,10 @@ const fn atanh_coefficients() -> [f64; 10] {
 /// against the library `ln`).
 #[inline(always)]
 pub fn ln(x: f64) -> f64 {
-    const MANTISSA: u64 = (1 << 52) - 1;
     let subnormal = x < f64::MIN_POSITIVE;
     let normal = if subnormal { x * TWO_TO_54 } else { x };
-    let bits = normal.to_bits();
     let bias = if subnormal { 1023 + 54 } else { 1023 };
-    let exponent = ((bits >> 52) & 0x7ff) as i64 - bias;
-    let mantissa = f64::from_bits((bits & MANTISSA) | 1.0f64.to_bits());
-    let high = mantissa > std::f64::consts::SQRT_2;
-    let m = if high { 0.5 * mantissa } else { mantissa };
-    let e = exponent + high as i64;
-    // e as f64 through the bits (no vector conversion of 64-bit integers
-    // before AVX-512).
-    let e = f64::from_bits((ROUND_SHIFT.to_bits() as i64).wrapping_add(e) as u64) - ROUND_SHIFT;
-    let f = m - 1.0;
-    let s = f / (2.0 + f);
-    let z = s * s;
+    let (e, f, s, z) = reduce(normal.to_bits(), bias);
     let c = &ATANH_SERIES;
     let z2 = z * z;
     let z4 = z2 * z2;
@@ -146,6 +134,26 @@ pub fn ln(x: f64) -> f64 {
     }
 }
 
+/// The reduction [`ln`] and [`ln_for_start`] share, for the bits of a
+/// normal `x = 2^e m` scaled so that its biased exponent less `bias` is `e`:
+/// `m` taken into [sqrt(1/2), sqrt(2)), and `(e, f, s, z)` with `e` as a
+/// float, `f = m - 1`, `s = f / (2 + f)` and `z = s^2`.
+#[inline(always)]
+fn reduce(bits: u64, bias: i64) -> (f64, f64, f64, f64) {
+    const MANTISSA: u64 = (1 << 52) - 1;
+    let exponent = ((bits >> 52) & 0x7ff) as i64 - bias;
+    let mantissa = f64::from_bits((bits & MANTISSA) | 1.0f64.to_bits());
+    let high = mantissa > std::f64::consts::SQRT_2;
+    let m = if high { 0.5 * mantissa } else { mantissa };
+    let e = exponent + high as i64;
+    // e as f64 through the bits (no vector conversion of 64-bit integers
+    // before AVX-512).
+    let e = f64::from_bits((ROUND_SHIFT.to_bits() as i64).wrapping_add(e) as u64) - ROUND_SHIFT;
+    let f = m - 1.0;
+    let s = f / (2.0 + f);
+    (e, f, s, s * s)
+}
+
 /// `ln x` to about 1e-12 relative for normal `x > 0`, for start values
 /// only: [`ln`]'s method with the series cut after `s^12` (remainder below
 /// `z^7 / 15 <= 1.3e-12` of the value, `z = s^2 <= 0.0295`), and without
@@ -153,17 +161,7 @@ pub fn ln(x: f64) -> f64 {
 /// (which give some finite or NaN value: the caller masks them).
 #[inline(always)]
 pub fn ln_for_start(x: f64) -> f64 {
-    const MANTISSA: u64 = (1 << 52) - 1;
-    let bits = x.to_bits();
-    let exponent = ((bits >> 52) & 0x7ff) as i64 - 1023;
-    let mantissa = f64::from_bits((bits & MANTISSA) | 1.0f64.to_bits());
-    let high = mantissa > std::f64::consts::SQRT_2;
-    let m = if high { 0.5 * mantissa } else { mantissa };
-    let e = exponent + high as i64;
-    let e = f64::from_bits((ROUND_SHIFT.to_bits() as i64).wrapping_add(e) as u64) - ROUND_SHIFT;
-    let f = m - 1.0;
-    let s = f / (2.0 + f);
-    let z = s * s;
+    let (e, f, s, z) = reduce(x.to_bits(), 1023);
     let c = &ATANH_SERIES;
     let z2 = z * z;
     let t = z * ((c[0] + c[1] * z) + (c[2] + c[3] * z) * z2 + (c[4] + c[5] * z) * (z2 * z2));
