@@ -159,6 +159,20 @@ t_constant = constant_rate_time(load: 20 kg/m^2, X1: 1.6 db, X2: 0.5 db, Rc: sur
 /// dew point: a warning) and states that cannot exist (failed points).
 const TRAY_POINTS: &str = "T_air: [20 degC, 70 degC, 150 degC, 300 degC], rh_air: [0 %, 4 %, 60 %]";
 
+/// The bits of each quantity in each list of values (None for anything else).
+fn bits(v: &[Vec<Value>]) -> Vec<Vec<Option<u64>>> {
+    v.iter()
+        .map(|l| {
+            l.iter()
+                .map(|x| match x {
+                    Value::Quantity(q, _) => Some(q.si.to_bits()),
+                    _ => None,
+                })
+                .collect()
+        })
+        .collect()
+}
+
 /// Each probe's values, the table's text (but for `skip`), the warnings.
 fn study_of(
     text: &str,
@@ -204,18 +218,6 @@ fn a_record_passed_to_transfer_built_ins_gives_the_results_of_the_whole_record()
         &probes,
         "hot",
     );
-    let bits = |v: &[Vec<Value>]| -> Vec<Vec<Option<u64>>> {
-        v.iter()
-            .map(|l| {
-                l.iter()
-                    .map(|x| match x {
-                        Value::Quantity(q, _) => Some(q.si.to_bits()),
-                        _ => None,
-                    })
-                    .collect()
-            })
-            .collect()
-    };
     assert_eq!(fast.0.len(), 4);
     assert_eq!(fast.0[0].len(), 12);
     // Some points fail, the others give numbers.
@@ -428,18 +430,6 @@ fn air_records_passed_to_dryer_built_ins_give_the_results_of_the_whole_record() 
         &probes,
         "fresh",
     );
-    let bits = |v: &[Vec<Value>]| -> Vec<Vec<Option<u64>>> {
-        v.iter()
-            .map(|l| {
-                l.iter()
-                    .map(|x| match x {
-                        Value::Quantity(q, _) => Some(q.si.to_bits()),
-                        _ => None,
-                    })
-                    .collect()
-            })
-            .collect()
-    };
     assert_eq!(fast.0[0].len(), 4);
     assert!(
         bits(&fast.0)
