@@ -163,3 +163,21 @@ pub struct HeatMap {
     pub z: Vec<f64>,
     pub z_label: String,
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// A value is copied at every step of a what-if point; a quantity's
+    /// display unit is one shared pointer ([`Unit`]), so a value stays
+    /// small (the largest variants are a record and a table).
+    #[test]
+    fn a_value_is_at_most_seven_words() {
+        assert!(std::mem::size_of::<Option<Unit>>() == std::mem::size_of::<usize>());
+        assert!(
+            std::mem::size_of::<Value>() <= 7 * std::mem::size_of::<usize>(),
+            "size of Value: {}",
+            std::mem::size_of::<Value>()
+        );
+    }
+}

@@ -260,9 +260,10 @@ fn basis_unit(ratio: &str, basis: &str, whole: &str) -> Result<Option<Unit>, Dat
     }
     let mut unit = lookup_unit(kind_unit)
         .ok_or_else(|| DataError::new(format!("unit table lacks `{kind_unit}`")))?;
-    unit.factor *= ratio_unit.factor;
-    unit.kind = kind;
-    unit.symbol = std::sync::Arc::from(whole);
+    let data = unit.data_mut();
+    data.factor *= ratio_unit.factor;
+    data.kind = kind;
+    data.symbol = std::sync::Arc::from(whole);
     Ok(Some(unit))
 }
 

@@ -193,7 +193,7 @@ fn mixed_units(column: &Column) -> bool {
         return false;
     }
     let mut symbols = column.cells.iter().filter_map(|cell| match cell {
-        Value::Quantity(q, shown) => Some(default_unit(q, shown.as_ref()).symbol),
+        Value::Quantity(q, shown) => Some(default_unit(q, shown.as_ref()).symbol.clone()),
         _ => None,
     });
     let first = symbols.next();

@@ -3,7 +3,7 @@
 
 use super::catalog::{Basis, Scale};
 use super::names::{named_dim, si_symbol};
-use super::{lookup_unit, Dim, Kind, Quantity, Unit};
+use super::{lookup_unit, Dim, Kind, Quantity, Unit, UnitData};
 
 /// Significant figures used when a quantity is shown.
 pub const DISPLAY_SIG_FIGS: usize = 4;
@@ -82,7 +82,7 @@ fn coherent_unit(dim: Dim, si: f64) -> Unit {
     } else {
         format!("{prefix}{symbol}")
     };
-    Unit {
+    Unit::from(UnitData {
         parts: std::sync::Arc::from([(symbol.clone(), 1)]),
         symbol: symbol.into(),
         factor,
@@ -91,7 +91,7 @@ fn coherent_unit(dim: Dim, si: f64) -> Unit {
         kind: Kind::Plain,
         scale: Scale::Linear,
         basis: Basis::None,
-    }
+    })
 }
 
 /// k, M or G for named dimensions whose SI symbol starts with Pa, J, W or N.

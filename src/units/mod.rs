@@ -38,5 +38,5 @@ pub use names::{describe_dim_with_si, named_dim, si_symbol, NamedDim, NAMED_DIMS
 pub use parse::{parse_unit, unknown_unit};
 pub use quantity::{Quantity, UnitError, EQUAL_REL_TOL};
 pub use table::{
-    describe_dim, dry_from_wet, lookup_unit, suggest_unit, unit_names, wet_from_dry, Unit,
+    describe_dim, dry_from_wet, lookup_unit, suggest_unit, unit_names, wet_from_dry, Unit, UnitData,
 };

@@ -17,8 +17,52 @@ use super::{memo, Dim, Kind, Quantity, UnitError};
 pub use super::names::describe_dim;
 
 /// A unit: how to turn a number written in it into SI, and back.
+///
+/// Its data ([`UnitData`], read through `Deref`: `unit.factor`) is shared:
+/// cloning a unit, as every quantity shown in a unit does when its value is
+/// copied, counts one reference and copies one pointer.
+#[derive(Clone)]
+pub struct Unit(Arc<UnitData>);
+
+impl std::ops::Deref for Unit {
+    type Target = UnitData;
+
+    #[inline]
+    fn deref(&self) -> &UnitData {
+        &self.0
+    }
+}
+
+impl From<UnitData> for Unit {
+    fn from(data: UnitData) -> Unit {
+        Unit(Arc::new(data))
+    }
+}
+
+impl PartialEq for Unit {
+    fn eq(&self, other: &Unit) -> bool {
+        Arc::ptr_eq(&self.0, &other.0) || *self.0 == *other.0
+    }
+}
+
+impl std::fmt::Debug for Unit {
+    /// As the data (a unit prints as `UnitData { symbol: .. }`).
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        self.0.fmt(f)
+    }
+}
+
+impl Unit {
+    /// The unit's data, to change a copy of it ([`Arc::make_mut`]: copied
+    /// only when shared).
+    pub fn data_mut(&mut self) -> &mut UnitData {
+        Arc::make_mut(&mut self.0)
+    }
+}
+
+/// What a [`Unit`] is made of.
 #[derive(Clone, PartialEq, Debug)]
-pub struct Unit {
+pub struct UnitData {
     /// Canonical display symbol, e.g. `W/(m^2*K)` (shared: cloning a unit is cheap).
     pub symbol: Arc<str>,
     /// SI value of one unit (for affine units, of one degree).
@@ -184,7 +228,7 @@ impl Unit {
     fn from_base(base: &BaseUnit, prefix: Option<&Prefix>) -> Unit {
         let (p_sym, p_factor) = prefix.map_or(("", 1.0), |p| (p.symbol, p.factor));
         let symbol = format!("{p_sym}{}", base.symbol);
-        Unit {
+        Unit::from(UnitData {
             parts: Arc::from([(symbol.clone(), 1)]),
             symbol: symbol.into(),
             factor: base.factor * p_factor,
@@ -193,12 +237,12 @@ impl Unit {
             kind: base.kind,
             scale: base.scale,
             basis: base.basis,
-        }
+        })
     }
 
     /// The unit of a dimensionless plain number (`1`, as in `1/h`).
     pub fn one() -> Unit {
-        Unit {
+        Unit::from(UnitData {
             symbol: Arc::from(""),
             factor: 1.0,
             offset: 0.0,
@@ -207,7 +251,7 @@ impl Unit {
             scale: Scale::Linear,
             basis: Basis::None,
             parts: Arc::from([]),
-        }
+        })
     }
 
     /// Product of two units (`kW*h`). Offsets are dropped: inside a compound a
@@ -398,7 +442,7 @@ fn ratio_kind(a: &Unit, b: &Unit, dim: Dim) -> Kind {
 }
 
 fn compound(parts: Vec<(String, i32)>, factor: f64, dim: Dim, kind: Kind) -> Unit {
-    Unit {
+    Unit::from(UnitData {
         symbol: render_parts(&parts).into(),
         factor,
         offset: 0.0,
@@ -407,7 +451,7 @@ fn compound(parts: Vec<(String, i32)>, factor: f64, dim: Dim, kind: Kind) -> Uni
         scale: Scale::Linear,
         basis: Basis::None,
         parts: parts.into(),
-    }
+    })
 }
 
 /// Append `b`'s parts (exponents times `sign`) to `a`'s, merging a symbol that
