@@ -476,6 +476,36 @@ fn opt_kind(args: &mut Args, name: &str, dim: Dim, kind: Kind) -> Result<Option<
     }
 }
 
+/// The position of parameter `name` in [`AIR_PARAMS`] (evaluated at compile
+/// time, where a name not in the list is an error).
+const fn air_param(name: &str) -> usize {
+    let mut i = 0;
+    while i < AIR_PARAMS.len() {
+        if const_eq(AIR_PARAMS[i].name, name) {
+            return i;
+        }
+        i += 1;
+    }
+    panic!("not a parameter of air")
+}
+
+/// [`opt_kind`] for `air`'s parameter `name` at position `index` of
+/// [`AIR_PARAMS`], taken in place when it is what `air` expects
+/// ([`Args::take_si_at`]); anything else goes the general way, which reports it.
+#[inline]
+fn air_kind(
+    args: &mut Args,
+    index: usize,
+    name: &str,
+    dim: Dim,
+    kind: Kind,
+) -> Result<Option<f64>, Diagnostic> {
+    match args.take_si_at(index, dim, kind) {
+        Some(si) => Ok(Some(si)),
+        None => opt_kind(args, name, dim, kind),
+    }
+}
+
 fn opt_temperature(
     args: &mut Args,
     name: &str,
@@ -860,7 +890,14 @@ fn air_state(args: &mut Args) -> Result<Value, Diagnostic> {
         call: args.call_span,
         given: Given::Few(few, spans_len),
     };
-    let t = temperature(args, "T")?;
+    let t = match args.take_si_at(
+        const { air_param("T") },
+        Dim::TEMPERATURE,
+        Kind::AbsoluteTemperature,
+    ) {
+        Some(k) => ThermodynamicTemperature::new::<kelvin>(k),
+        None => temperature(args, "T")?,
+    };
     if count != 1 {
         return Err(not_one_second_property(args, &given[..count]));
     }
@@ -872,14 +909,15 @@ fn air_state(args: &mut Args) -> Result<Value, Diagnostic> {
     };
     let state = match given[0] {
         0 => {
-            let rh = opt_kind(args, "rh", Dim::NONE, Kind::Activity)?.unwrap_or(f64::NAN);
+            let at = const { air_param("rh") };
+            let rh = air_kind(args, at, "rh", Dim::NONE, Kind::Activity)?.unwrap_or(f64::NAN);
             AirState::from_rh(t, rh, p)
         }
-        1 => AirState::from_w(
-            t,
-            opt_kind(args, "w", Dim::NONE, Kind::HumidityRatio)?.unwrap_or(f64::NAN),
-            p,
-        ),
+        1 => {
+            let at = const { air_param("w") };
+            let w = air_kind(args, at, "w", Dim::NONE, Kind::HumidityRatio)?;
+            AirState::from_w(t, w.unwrap_or(f64::NAN), p)
+        }
         2 => AirState::from_wet_bulb(t, temperature(args, "wetbulb")?, p),
         3 => AirState::from_dew_point(t, temperature(args, "dewpoint")?, p),
         _ => {

@@ -18,7 +18,7 @@ pub mod transfer;
 pub mod whatif;
 
 use crate::diag::{Diagnostic, Span};
-use crate::units::{describe_dim, Dim, Quantity};
+use crate::units::{describe_dim, Dim, Kind, Quantity};
 use crate::value::{Record, Value};
 
 /// What a parameter accepts, for docs, completion and checking.
@@ -305,6 +305,26 @@ impl Args {
         self.bound[i].take()
     }
 
+    /// The SI magnitude of the argument at parameter `index` when it is a
+    /// quantity of dimension `dim` that `kind` accepts
+    /// ([`Quantity::expect_kind`]), taken (dropped in its place, not moved
+    /// out). `None`, with nothing taken, for anything else: the caller's
+    /// general path then takes it by name and reports what is wrong, so
+    /// this is a shortcut for the common case with the same outcome.
+    #[inline]
+    pub fn take_si_at(&mut self, index: usize, dim: Dim, kind: Kind) -> Option<f64> {
+        let slot = self.bound.get_mut(index)?;
+        let si = match slot {
+            Some(Arg {
+                value: Value::Quantity(q, _),
+                ..
+            }) => q.expect_kind(dim, kind).ok()?.si,
+            _ => return None,
+        };
+        *slot = None;
+        Some(si)
+    }
+
     /// Was this argument given?
     pub fn has(&self, name: &str) -> bool {
         self.bound[self.index(name)].is_some()
@@ -553,5 +573,51 @@ mod tests {
         }
         let heat = find("heat").expect("heat");
         assert!((0..heat.params.len()).all(|i| !heat.reads_only_payload(i)));
+    }
+
+    /// `take_si_at` takes only what the general path would accept, giving
+    /// the magnitude `expect_kind` gives; anything else stays for the
+    /// general path to report.
+    #[test]
+    fn take_si_at_takes_only_what_expect_kind_accepts() {
+        let air = find("air").expect("air");
+        let t = air.param_index("T").expect("T");
+        let arg = |value: Value| Arg {
+            name: None,
+            value,
+            span: Span::default(),
+        };
+        let q = |si: f64, dim: Dim, kind: Kind| Value::Quantity(Quantity::new(si, dim, kind), None);
+        let cases = [
+            (q(333.15, Dim::TEMPERATURE, Kind::AbsoluteTemperature), true),
+            (q(333.15, Dim::TEMPERATURE, Kind::Plain), true),
+            (
+                q(20.0, Dim::TEMPERATURE, Kind::TemperatureDifference),
+                false,
+            ),
+            (q(0.5, Dim::NONE, Kind::Activity), false),
+            (Value::Bool(true), false),
+        ];
+        for (value, accepted) in cases {
+            let general = match &value {
+                Value::Quantity(q, _) => q
+                    .expect_kind(Dim::TEMPERATURE, Kind::AbsoluteTemperature)
+                    .ok()
+                    .map(|q| q.si),
+                _ => None,
+            };
+            let mut args = Args::unbound(air, Span::default());
+            args.place(t, arg(value));
+            let got = args.take_si_at(t, Dim::TEMPERATURE, Kind::AbsoluteTemperature);
+            assert_eq!(got.is_some(), accepted);
+            assert_eq!(got.map(f64::to_bits), general.map(f64::to_bits));
+            // Taken exactly when accepted: otherwise still there to report.
+            assert_eq!(args.has("T"), !accepted);
+            assert_eq!(args.finish().is_ok(), accepted);
+        }
+        // Nothing given, or a position past the parameters: nothing taken.
+        let mut args = Args::unbound(air, Span::default());
+        assert_eq!(args.take_si_at(t, Dim::TEMPERATURE, Kind::Plain), None);
+        assert_eq!(args.take_si_at(99, Dim::TEMPERATURE, Kind::Plain), None);
     }
 }
