@@ -349,25 +349,67 @@ impl Args {
 
     /// Take a required argument.
     pub fn required(&mut self, name: &str) -> Result<Arg, Diagnostic> {
-        self.take(name).ok_or_else(|| {
-            Diagnostic::error(
-                self.call_span,
-                format!("`{}` needs the argument `{name}`", self.builtin.name),
-            )
-            .with_hint(format!("call it as {}", self.builtin.example))
-        })
+        self.take(name).ok_or_else(|| self.missing(name))
+    }
+
+    /// The error for a required argument `name` not given.
+    #[cold]
+    fn missing(&self, name: &str) -> Diagnostic {
+        Diagnostic::error(
+            self.call_span,
+            format!("`{}` needs the argument `{name}`", self.builtin.name),
+        )
+        .with_hint(format!("call it as {}", self.builtin.example))
     }
 
     /// A required quantity of dimension `dim`.
     pub fn quantity(&mut self, name: &str, dim: Dim) -> Result<Quantity, Diagnostic> {
-        let arg = self.required(name)?;
-        expect_quantity(self.builtin, name, &arg, dim)
+        self.required_spanned(name, dim).map(|(q, _)| q)
     }
 
     /// An optional quantity of dimension `dim`.
     pub fn opt_quantity(&mut self, name: &str, dim: Dim) -> Result<Option<Quantity>, Diagnostic> {
-        match self.take(name) {
-            Some(arg) => expect_quantity(self.builtin, name, &arg, dim).map(Some),
+        Ok(self.opt_spanned(name, dim)?.map(|(q, _)| q))
+    }
+
+    /// A required quantity of dimension `dim`, with the span of its argument
+    /// (for the caller's own checks of its value).
+    pub fn required_spanned(
+        &mut self,
+        name: &str,
+        dim: Dim,
+    ) -> Result<(Quantity, Span), Diagnostic> {
+        match self.opt_spanned(name, dim)? {
+            Some(q) => Ok(q),
+            None => Err(self.missing(name)),
+        }
+    }
+
+    /// An optional quantity of dimension `dim`, with the span of its
+    /// argument. A quantity of that dimension is taken in place (dropped
+    /// where it is, not moved out); anything else is taken and reported.
+    pub fn opt_spanned(
+        &mut self,
+        name: &str,
+        dim: Dim,
+    ) -> Result<Option<(Quantity, Span)>, Diagnostic> {
+        let i = self.index(name);
+        if let Some(Arg {
+            value: Value::Quantity(q, _),
+            span,
+            ..
+        }) = &self.bound[i]
+        {
+            if q.dim == dim {
+                let found = (*q, *span);
+                self.bound[i] = None;
+                return Ok(Some(found));
+            }
+        }
+        match self.bound[i].take() {
+            Some(arg) => {
+                expect_quantity(self.builtin, name, &arg, dim).map(|q| Some((q, arg.span)))
+            }
             None => Ok(None),
         }
     }
@@ -619,5 +661,55 @@ mod tests {
         let mut args = Args::unbound(air, Span::default());
         assert_eq!(args.take_si_at(t, Dim::TEMPERATURE, Kind::Plain), None);
         assert_eq!(args.take_si_at(99, Dim::TEMPERATURE, Kind::Plain), None);
+    }
+
+    /// `opt_spanned` (and `quantity`, `required_spanned` through it) gives
+    /// what taking the argument and `expect_quantity` give: the quantity and
+    /// its span, or the same error, or nothing when not given.
+    #[test]
+    fn opt_spanned_agrees_with_take_and_expect_quantity() {
+        let air = find("air").expect("air");
+        let span = Span {
+            file: 0,
+            start: 3,
+            end: 9,
+        };
+        let arg = |value: Value| Arg {
+            name: None,
+            value,
+            span,
+        };
+        let q = |si: f64, dim: Dim| Value::Quantity(Quantity::new(si, dim, Kind::Plain), None);
+        let values = [
+            q(101_325.0, Dim::PRESSURE),
+            q(2.0, Dim::LENGTH),
+            Value::Str("high".into()),
+        ];
+        let p = air.param_index("p").expect("p");
+        for value in values {
+            let mut general = Args::unbound(air, Span::default());
+            general.place(p, arg(value.clone()));
+            let taken = general.take("p").expect("given");
+            let want = expect_quantity(air, "p", &taken, Dim::PRESSURE).map(|q| (q, taken.span));
+            let mut args = Args::unbound(air, Span::default());
+            args.place(p, arg(value));
+            let got = args.opt_spanned("p", Dim::PRESSURE);
+            match (got, want) {
+                (Ok(Some((a, sa))), Ok((b, sb))) => {
+                    assert_eq!(
+                        (a.si.to_bits(), a.dim, a.kind, sa),
+                        (b.si.to_bits(), b.dim, b.kind, sb)
+                    );
+                }
+                (Err(a), Err(b)) => assert_eq!(format!("{a:?}"), format!("{b:?}")),
+                (got, want) => panic!("{got:?} against {want:?}"),
+            }
+            // Taken either way.
+            assert!(!args.has("p"));
+        }
+        let mut args = Args::unbound(air, Span::default());
+        assert!(matches!(args.opt_spanned("p", Dim::PRESSURE), Ok(None)));
+        assert!(args.required_spanned("p", Dim::PRESSURE).is_err());
+        assert!(args.quantity("p", Dim::PRESSURE).is_err());
     }
 }

@@ -383,17 +383,13 @@ fn opt_air(args: &mut Args, name: &str) -> Result<Option<AirState>, Diagnostic> 
 /// (The argument is looked up once: taken, then checked with its own span,
 /// as [`Args::quantity`] checks it.)
 fn positive(args: &mut Args, name: &str, dim: Dim) -> Result<f64, Diagnostic> {
-    let arg = args.required(name)?;
-    let q = super::expect_quantity(args.builtin, name, &arg, dim)?;
-    check_positive(arg.span, name, q)
+    let (q, span) = args.required_spanned(name, dim)?;
+    check_positive(span, name, q)
 }
 
 fn opt_positive(args: &mut Args, name: &str, dim: Dim) -> Result<Option<f64>, Diagnostic> {
-    match args.take(name) {
-        Some(arg) => {
-            let q = super::expect_quantity(args.builtin, name, &arg, dim)?;
-            check_positive(arg.span, name, q).map(Some)
-        }
+    match args.opt_spanned(name, dim)? {
+        Some((q, span)) => check_positive(span, name, q).map(Some),
         None => Ok(None),
     }
 }
@@ -1054,19 +1050,26 @@ const SURFACE_FIELDS: [&str; 10] = [
     "Ts", "w_s", "Rc", "q", "q_conv", "q_rad", "q_cond", "latent", "ky", "h",
 ];
 
+/// The fields of [`SURFACE_FIELDS`] a caller reads, one bit each by
+/// position ([`Args::wants`] of each): worked out once per wanted list
+/// ([`Args::wanted_mask`]).
+fn surface_mask(wanted: Option<&[String]>) -> u64 {
+    SURFACE_FIELDS
+        .iter()
+        .enumerate()
+        .filter(|(_, name)| wanted.is_none_or(|w| w.iter().any(|f| f == *name)))
+        .fold(0, |m, (i, _)| m | 1 << i)
+}
+
 /// The record of a wet-surface solution, with the solution as its payload.
 ///
 /// Only the fields the caller reads are built when it says which
 /// ([`Args::wants`]; a what-if study's points), and the payload only when
 /// asked for; the engine has computed every field already, so leaving one
 /// out hides no warning or error.
-fn surface_record(args: &Args, s: WetSurface, h: f64) -> Record {
+fn surface_record(args: &mut Args, s: WetSurface, h: f64) -> Record {
     use uom::si::heat_flux_density::watt_per_square_meter as w_m2;
-    let mask = SURFACE_FIELDS
-        .iter()
-        .enumerate()
-        .filter(|(_, name)| args.wants(name))
-        .fold(0u16, |m, (i, _)| m | 1 << i);
+    let mask = args.wanted_mask(surface_mask) as u16;
     let q = |x: uom::si::f64::HeatFluxDensity| quantity(x.get::<w_m2>(), Dim::HEAT_FLUX);
     let mut fields = Vec::with_capacity(mask.count_ones() as usize);
     for (i, name) in SURFACE_FIELDS.iter().enumerate() {
@@ -1125,9 +1128,7 @@ fn surface_record(args: &Args, s: WetSurface, h: f64) -> Record {
 
 /// A dry-basis moisture content: kind Moisture or a plain number.
 fn moisture(args: &mut Args, name: &str) -> Result<f64, Diagnostic> {
-    let arg = args.required(name)?;
-    let q = super::expect_quantity(args.builtin, name, &arg, Dim::NONE)?;
-    let span = arg.span;
+    let (q, span) = args.required_spanned(name, Dim::NONE)?;
     match q.kind {
         Kind::Moisture | Kind::Plain if q.si.is_finite() && q.si >= 0.0 => Ok(q.si),
         Kind::Moisture | Kind::Plain => Err(Diagnostic::error(
