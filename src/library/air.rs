@@ -546,6 +546,9 @@ fn pressure(args: &mut Args) -> Result<Pressure, Diagnostic> {
 
 /// The air state carried by an `air` record argument.
 fn air_arg(args: &mut Args, name: &str) -> Result<AirState, Diagnostic> {
+    if let Some(state) = args.take_payload(name, "air", |p: &AirPayload| p.0) {
+        return Ok(state);
+    }
     let span = args.span_of(name);
     let record = args.record(name, "air")?;
     record.payload::<AirPayload>().map(|p| p.0).ok_or_else(|| {

@@ -414,6 +414,30 @@ impl Args {
         }
     }
 
+    /// What `read` gives of the payload of type `T` of the record of type
+    /// `type_name` given for `name`, with the argument taken (dropped in its
+    /// place, not moved out). `None`,
+    /// with nothing taken, for anything else: the caller's general path
+    /// then takes the argument and reads it or reports what is wrong.
+    #[inline]
+    pub fn take_payload<T: 'static, U>(
+        &mut self,
+        name: &str,
+        type_name: &str,
+        read: impl FnOnce(&T) -> U,
+    ) -> Option<U> {
+        let i = self.index(name);
+        let found = match &self.bound[i] {
+            Some(Arg {
+                value: Value::Record(r),
+                ..
+            }) if r.type_name == type_name => read(r.payload::<T>()?),
+            _ => return None,
+        };
+        self.bound[i] = None;
+        Some(found)
+    }
+
     /// A required record of the given type (e.g. `air`).
     pub fn record(&mut self, name: &str, type_name: &str) -> Result<Record, Diagnostic> {
         let arg = self.required(name)?;
@@ -661,6 +685,62 @@ mod tests {
         let mut args = Args::unbound(air, Span::default());
         assert_eq!(args.take_si_at(t, Dim::TEMPERATURE, Kind::Plain), None);
         assert_eq!(args.take_si_at(99, Dim::TEMPERATURE, Kind::Plain), None);
+    }
+
+    /// `take_payload` reads and takes an `air` record's state, and leaves
+    /// anything else (another record type, a record without a payload, a
+    /// quantity) for the general path to report.
+    #[test]
+    fn take_payload_takes_only_a_record_of_the_type_with_the_payload() {
+        use crate::library::air::AirPayload;
+        let b = find("wet_surface").expect("wet_surface");
+        let i = b.param_index("air").expect("air");
+        let state =
+            crate::engine::air::AirState::from_w(
+                uom::si::f64::ThermodynamicTemperature::new::<
+                    uom::si::thermodynamic_temperature::kelvin,
+                >(333.15),
+                0.01,
+                uom::si::f64::Pressure::new::<uom::si::pressure::pascal>(101_325.0),
+            )
+            .expect("a state");
+        let with = |type_name: &'static str, payload: bool| {
+            let mut r = Record::new(type_name);
+            if payload {
+                r.payload = Some(std::sync::Arc::new(AirPayload(state)));
+            }
+            Value::Record(r)
+        };
+        let cases = [
+            (with("air", true), true),
+            (with("air", false), false),
+            (with("material", true), false),
+            (
+                Value::Quantity(Quantity::new(1.0, Dim::NONE, Kind::Plain), None),
+                false,
+            ),
+        ];
+        for (value, taken) in cases {
+            let mut args = Args::unbound(b, Span::default());
+            args.place(
+                i,
+                Arg {
+                    name: None,
+                    value,
+                    span: Span::default(),
+                },
+            );
+            let got = args.take_payload("air", "air", |p: &AirPayload| p.0);
+            assert_eq!(got.is_some(), taken);
+            if let Some(s) = got {
+                assert_eq!(
+                    s.humidity_ratio().to_bits(),
+                    state.humidity_ratio().to_bits()
+                );
+                assert_eq!(s.t_kelvin().to_bits(), state.t_kelvin().to_bits());
+            }
+            assert_eq!(args.has("air"), !taken);
+        }
     }
 
     /// `opt_spanned` (and `quantity`, `required_spanned` through it) gives

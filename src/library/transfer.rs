@@ -349,6 +349,9 @@ pub const PAYLOAD_ONLY: &[(&str, &str)] = &[
 /// The humid-air state in an `air` record: its typed payload, else its
 /// `T`, `w` and `p` fields.
 fn air_arg(args: &mut Args, name: &str) -> Result<AirState, Diagnostic> {
+    if let Some(state) = args.take_payload(name, "air", |p: &AirPayload| p.0) {
+        return Ok(state);
+    }
     let span = args.span_of(name);
     let record = args.record(name, "air")?;
     if let Some(state) = record.payload::<AirPayload>() {
@@ -394,16 +397,22 @@ fn opt_positive(args: &mut Args, name: &str, dim: Dim) -> Result<Option<f64>, Di
     }
 }
 
+#[inline]
 fn check_positive(span: Span, name: &str, q: Quantity) -> Result<f64, Diagnostic> {
     if q.si > 0.0 && q.si.is_finite() {
         Ok(q.si)
     } else {
-        let unit = q.dim.si_unit();
-        Err(Diagnostic::error(
-            span,
-            format!("`{name}` must be positive, got {} {unit}", q.si),
-        ))
+        Err(not_positive(span, name, q))
     }
+}
+
+#[cold]
+fn not_positive(span: Span, name: &str, q: Quantity) -> Diagnostic {
+    let unit = q.dim.si_unit();
+    Diagnostic::error(
+        span,
+        format!("`{name}` must be positive, got {} {unit}", q.si),
+    )
 }
 
 /// A plain (dimensionless) number.
