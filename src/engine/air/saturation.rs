@@ -132,10 +132,18 @@ pub fn if97_saturation_temperature(p: f64) -> f64 {
 ///
 /// Hyland-Wexler up to 150 degC, IF97 above 200 degC, a smoothstep join in ln p
 /// between them.
+#[inline]
 pub fn ln_water(t: f64) -> f64 {
     if t <= JOIN_START {
         return ln_water_hyland_wexler(t);
     }
+    ln_water_above_join_start(t)
+}
+
+/// [`ln_water`] above 150 degC (the join and IF97), out of line so that the
+/// Hyland-Wexler branch inlines into its callers.
+#[inline(never)]
+fn ln_water_above_join_start(t: f64) -> f64 {
     let if97 = if97_saturation_pressure(t).ln();
     if t >= JOIN_END {
         return if97;
@@ -153,6 +161,12 @@ pub fn ln_water_slope(t: f64) -> f64 {
     if t <= JOIN_START {
         return ln_water_hyland_wexler_slope(t);
     }
+    ln_water_slope_by_difference(t)
+}
+
+/// [`ln_water_slope`] above 150 degC, out of line.
+#[inline(never)]
+fn ln_water_slope_by_difference(t: f64) -> f64 {
     let dt = 1e-4;
     (ln_water(t + dt) - ln_water(t - dt)) / (2.0 * dt)
 }
@@ -241,7 +255,7 @@ fn enhancement_exponent(t: f64, p: f64, es: f64, c: &[f64; 8]) -> f64 {
 /// `ln f` and `d ln f / dT` (1/K) from Greenspan's form, given e_s (Pa) and
 /// `d ln e_s / dT`. Both zero where e_s >= p; the temperature polynomials are
 /// held constant (slope zero) outside -100..200 degC, where they are clamped.
-#[inline]
+#[inline(always)]
 fn enhancement_exponent_and_slope(
     t: f64,
     p: f64,
@@ -281,7 +295,7 @@ pub(crate) fn exp_small(x: f64) -> f64 {
 
 /// `p_ws`, `ln f` and `d ln(f p_ws) / dT` over one phase, given ln p_ws of
 /// that phase and its slope.
-#[inline]
+#[inline(always)]
 fn phase_terms(t: f64, p: f64, ln_es: f64, dln_es: f64, c: &[f64; 8]) -> (f64, f64, f64) {
     let es = ln_es.exp();
     let (ln_f, dln_f) = enhancement_exponent_and_slope(t, p, es, dln_es, c);
@@ -290,7 +304,7 @@ fn phase_terms(t: f64, p: f64, ln_es: f64, dln_es: f64, c: &[f64; 8]) -> (f64, f
 
 /// `f p_ws` over one phase and `d ln(f p_ws) / dT`, given ln p_ws of that
 /// phase and its slope.
-#[inline]
+#[inline(always)]
 fn phase_pressure_and_slope(t: f64, p: f64, ln_es: f64, dln_es: f64, c: &[f64; 8]) -> (f64, f64) {
     let (es, ln_f, slope) = phase_terms(t, p, ln_es, dln_es, c);
     (es * exp_small(ln_f), slope)
@@ -331,17 +345,32 @@ pub fn saturated_vapour_pressure(t: f64, p: f64) -> f64 {
 /// across 0..0.01 degC, where it is a central difference.
 #[inline]
 pub fn saturated_vapour_pressure_and_slope(t: f64, p: f64) -> (f64, f64) {
+    saturated_vapour_pressure_and_slope_inline(t, p)
+}
+
+/// [`saturated_vapour_pressure_and_slope`] inlined into the caller (the
+/// saturated side of the wet-bulb balance, which shares `1/T` with the
+/// enthalpies): the same arithmetic, so the same bits. Only the phase join
+/// across 0..0.01 degC stays out of line.
+#[inline(always)]
+pub(super) fn saturated_vapour_pressure_and_slope_inline(t: f64, p: f64) -> (f64, f64) {
     if t >= T_TRIPLE {
         phase_pressure_and_slope(t, p, ln_water(t), ln_water_slope(t), &HARDY_WATER)
     } else if t <= T_ZERO_C {
         phase_pressure_and_slope(t, p, ln_ice_hyland_wexler(t), ln_ice_slope(t), &HARDY_ICE)
     } else {
-        let dt = 1e-6;
-        let slope = (ln_saturated_vapour_pressure(t + dt, p)
-            - ln_saturated_vapour_pressure(t - dt, p))
-            / (2.0 * dt);
-        (ln_saturated_vapour_pressure(t, p).exp(), slope)
+        saturated_vapour_pressure_and_slope_in_join(t, p)
     }
+}
+
+/// [`saturated_vapour_pressure_and_slope`] across 0..0.01 degC: a central
+/// difference of the joined logarithm.
+#[inline(never)]
+fn saturated_vapour_pressure_and_slope_in_join(t: f64, p: f64) -> (f64, f64) {
+    let dt = 1e-6;
+    let slope = (ln_saturated_vapour_pressure(t + dt, p) - ln_saturated_vapour_pressure(t - dt, p))
+        / (2.0 * dt);
+    (ln_saturated_vapour_pressure(t, p).exp(), slope)
 }
 
 /// [`saturated_vapour_pressure`] (Pa) at T (K) and p (Pa) given `ln_t`,

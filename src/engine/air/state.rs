@@ -186,9 +186,9 @@ pub(super) struct SaturatedSide {
 impl SaturatedSide {
     /// The terms at T* (K) and p (Pa), over ice when `ice`; `None` at or above
     /// the boiling point at p (no saturated air).
-    #[inline]
+    #[inline(always)]
     pub(super) fn at(ts: f64, p: f64, ice: bool) -> Option<SaturatedSide> {
-        let (pvs, dln_pvs) = sat::saturated_vapour_pressure_and_slope(ts, p);
+        let (pvs, dln_pvs) = sat::saturated_vapour_pressure_and_slope_inline(ts, p);
         if pvs >= p {
             return None;
         }
@@ -283,6 +283,7 @@ const SLOPE_RELATIVE_ERROR: f64 = 1e-8;
 /// A slope with relative error eps adds `eps |step|`. `Ok(x1)` when the bound
 /// is at most [`ONE_STEP_MAX_ERROR`], else `Err` with where Newton's method
 /// should go on from (x1, or x0 where the balance is undefined there).
+#[inline(always)]
 fn wet_bulb_one_step(
     x0: f64,
     curvature: f64,

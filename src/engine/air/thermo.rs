@@ -174,7 +174,7 @@ impl AirPartTerms {
 
 /// [`air_part_enthalpy`] (J/kg dry air) with its partial derivatives in T
 /// (J/(kg K)), `pa` and `pv` (J/(kg Pa)), analytic.
-#[inline]
+#[inline(always)]
 pub fn air_part_enthalpy_and_slopes(t: f64, pa: f64, pv: f64) -> WithSlopes {
     let (h_dry, cp_dry) = dry_air_enthalpy_and_cp(t);
     let residual = air_residual_enthalpy_and_slopes(t, pa, pv);
@@ -257,7 +257,7 @@ const LEMMON_R: f64 = 8.314_51 / 0.028_958_6;
 
 /// tau * d(alpha0)/d(tau) for air, without the constant N5 term (it cancels in
 /// differences), and tau times its tau-derivative; `inv` is 1/tau.
-#[inline]
+#[inline(always)]
 fn air_tau_alpha_tau(tau: f64, inv: f64) -> (f64, f64) {
     let n = &LEMMON_N;
     let (inv2, inv3) = (inv * inv, inv * inv * inv);
@@ -291,7 +291,7 @@ fn air_tau_alpha_tau(tau: f64, inv: f64) -> (f64, f64) {
 /// 1.4e-11 and needs only a few digits: `e^(-N13 tau) = e12^-5 e^(-c tau)` with
 /// `c = N13 - 5 N12`, `c tau` within 0.21 of 1, by a series to the sixth power
 /// (relative error under 4e-9, so under 1e-19 of the term). Above, `exp`.
-#[inline]
+#[inline(always)]
 fn air_last_term(tau: f64, e12: f64) -> (f64, f64) {
     let n = &LEMMON_N;
     let x = n[12] * tau;
@@ -319,7 +319,7 @@ fn air_last_term(tau: f64, e12: f64) -> (f64, f64) {
 }
 
 /// Ideal-gas enthalpy of dry air from an arbitrary origin (J/kg) and its cp (J/(kg K)).
-#[inline]
+#[inline(always)]
 fn air_ideal_enthalpy_and_cp(t: f64) -> (f64, f64) {
     let inv_tau = t * (1.0 / LEMMON_T_RED);
     let (g, tau_dg) = air_tau_alpha_tau(1.0 / inv_tau, inv_tau);
@@ -335,7 +335,7 @@ pub fn dry_air_enthalpy(t: f64) -> f64 {
 /// Enthalpy of dry air relative to 0 degC (J/kg) and its ideal-gas specific
 /// heat (J/(kg K)), both from Lemmon et al. (2000), the specific heat
 /// analytically.
-#[inline]
+#[inline(always)]
 pub fn dry_air_enthalpy_and_cp(t: f64) -> (f64, f64) {
     static REFERENCE: std::sync::LazyLock<f64> =
         std::sync::LazyLock::new(|| air_ideal_enthalpy_and_cp(super::saturation::T_ZERO_C).0);
@@ -488,7 +488,7 @@ impl VapourTerms {
 
 /// [`vapour_enthalpy`] (J/kg) with its partial derivatives in T (J/(kg K)) and
 /// pv (J/(kg Pa)), analytic; `d_pa` is zero.
-#[inline]
+#[inline(always)]
 pub fn vapour_enthalpy_and_slopes(t: f64, pv: f64) -> WithSlopes {
     let (ideal, cp) = vapour_ideal_enthalpy_and_cp(t);
     let (residual, d_t, d_pv) = vapour_residual_enthalpy_and_slopes(t, pv);
