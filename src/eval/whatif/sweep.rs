@@ -283,8 +283,8 @@ fn push_values(columns: &mut [Column], values: Values) {
     match values.into_inner() {
         // One probe (the usual study): its value, out of the small vector
         // without its iterator.
-        Ok(one) => {
-            for (column, value) in columns.iter_mut().zip(one) {
+        Ok([value]) => {
+            if let Some(column) = columns.first_mut() {
                 column.cells.push(value);
             }
         }
