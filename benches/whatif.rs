@@ -19,6 +19,9 @@
 //! Run: `cargo bench --bench whatif` (criterion) or
 //! `cargo bench --bench whatif -- --oneshot` (one timed run of each, printed
 //! as `key=value` lines; used by benches/whatif_compare.py).
+//! `-- --single-pass sweep|sheet` runs the sweep once on one thread, or only
+//! its worksheet, for instruction counts with `valgrind --tool=callgrind`:
+//! per point = (sweep - sheet) / 100,000.
 
 use std::hint::black_box;
 use std::time::{Duration, Instant};
@@ -155,9 +158,26 @@ fn criterion_benches() {
     c.final_summary();
 }
 
+/// One pass of the sweep ([`TRAY`] with [`SWEEP`], on one thread) or of
+/// the worksheet alone, for instruction counts.
+fn single_pass(what: &str) {
+    match what {
+        "sweep" => {
+            black_box(on_threads(1, SWEEP));
+        }
+        "sheet" => {
+            black_box(on_threads(1, ""));
+        }
+        other => panic!("--single-pass takes sweep or sheet, not {other}"),
+    }
+}
+
 fn main() {
-    if std::env::args().any(|a| a == "--oneshot") {
+    let args: Vec<String> = std::env::args().collect();
+    if args.iter().any(|a| a == "--oneshot") {
         oneshot();
+    } else if let Some(i) = args.iter().position(|a| a == "--single-pass") {
+        single_pass(args.get(i + 1).map_or("sweep", String::as_str));
     } else {
         criterion_benches();
     }

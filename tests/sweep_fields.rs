@@ -593,3 +593,47 @@ fn failed_rows_and_checks_are_those_of_each_point_alone() {
         assert!(checks.iter().any(|c| c == kind), "{checks:?}");
     }
 }
+
+#[test]
+fn each_column_of_a_sweep_is_also_a_list_field_with_the_same_cells() {
+    // Inputs shown in their units, a probe shown `as` a unit, a plain one,
+    // a record, a repeated probe, a failed point (text cells) and a check.
+    let text = format!(
+        "{SHEET}\ncheck twb < 45 degC\n\
+         s = sweep([twb as degF, rho, a, twb as degF], T: [40 degC, 95 degC], \
+         w: [0.001 kg/kg_da, 0.04 kg/kg_da, 0.9 kg/kg_da])"
+    );
+    let s = run(&text);
+    let sweep = record(&s, "s");
+    let Some(Value::Table(table)) = sweep.get("table") else {
+        panic!("no table")
+    };
+    let mut listed: Vec<&str> = Vec::new();
+    for c in &table.columns {
+        if c.name == "checks" || c.name == "error" {
+            assert!(sweep.get(&c.name).is_none(), "{} listed", c.name);
+            continue;
+        }
+        // A repeated probe is listed once, from its first column.
+        if listed.contains(&c.name.as_str()) {
+            continue;
+        }
+        let cells = list(sweep.get(&c.name));
+        assert_eq!(cells.len(), c.cells.len(), "{}", c.name);
+        for (l, t) in cells.iter().zip(&c.cells) {
+            // Debug text shows every bit of a number, its unit and kind,
+            // and a record's fields.
+            assert_eq!(format!("{l:?}"), format!("{t:?}"), "{}", c.name);
+        }
+        listed.push(&c.name);
+    }
+    // (A probe `x as unit` is named `x`.)
+    assert_eq!(listed, ["T", "w", "twb", "rho", "a"]);
+    assert!(si(sweep.get("failed")) >= 1.0);
+    let rho = list(sweep.get("rho"));
+    assert!(rho.iter().any(|v| matches!(v, Value::Str(t) if t == "-")));
+    let shown = list(sweep.get("twb"));
+    assert!(matches!(&shown[0], Value::Quantity(_, Some(u)) if &*u.symbol == "degF"));
+    let temps = list(sweep.get("T"));
+    assert!(matches!(&temps[0], Value::Quantity(_, Some(u)) if &*u.symbol == "degC"));
+}

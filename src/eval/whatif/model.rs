@@ -268,17 +268,14 @@ impl Model {
                 break;
             }
             let end = total.min(start + block);
-            let part: Vec<Outcome> = (start..end)
-                .into_par_iter()
-                .map_init(
-                    || Lease {
-                        model: self,
-                        work: Some(self.take_work()),
-                    },
-                    |lease, i| lease.eval(point(i)),
-                )
-                .collect();
-            out.extend(part);
+            // Straight into `out` (its room is reserved): no block of its own.
+            out.par_extend((start..end).into_par_iter().map_init(
+                || Lease {
+                    model: self,
+                    work: Some(self.take_work()),
+                },
+                |lease, i| lease.eval(point(i)),
+            ));
             start = end;
             let done = out.len();
             progress::report(&Progress {

@@ -4,7 +4,7 @@
 use std::collections::BTreeMap;
 use std::sync::Arc;
 
-use super::model::{Model, Outcome, Varied};
+use super::model::{Model, Outcome, Values, Varied};
 use super::spec::{self, usage};
 use crate::diag::{Diagnostic, Span};
 use crate::eval::{Ctx, Flow, Mode, Stop};
@@ -61,7 +61,7 @@ impl Ctx<'_> {
         for c in &table.columns {
             let taken = fixed.contains(&c.name.as_str()) || lists.iter().any(|(n, _)| *n == c.name);
             if !taken && c.name != "checks" && c.name != "error" {
-                lists.push((&c.name, Value::List(c.cells.clone())));
+                lists.push((&c.name, Value::List(copy_cells(&c.cells))));
             }
         }
         let lists: Vec<(String, Value)> =
@@ -247,9 +247,7 @@ fn sweep_table(
         }
         match o.values {
             Ok(values) => {
-                for (column, value) in probes.iter_mut().zip(values) {
-                    column.cells.push(value);
-                }
+                push_values(probes, values);
                 if let Some(errors) = &mut errors {
                     errors.push(Value::Str(String::new()));
                 }
@@ -278,6 +276,36 @@ fn sweep_table(
         title: Some(format!("sweep over {}", over.join(" and "))),
         columns,
     }
+}
+
+/// Push a point's probe values onto the probes' columns, in order.
+fn push_values(columns: &mut [Column], values: Values) {
+    match values.into_inner() {
+        // One probe (the usual study): its value, out of the small vector
+        // without its iterator.
+        Ok([value]) => {
+            if let Some(column) = columns.first_mut() {
+                column.cells.push(value);
+            }
+        }
+        Err(values) => {
+            for (column, value) in columns.iter_mut().zip(values) {
+                column.cells.push(value);
+            }
+        }
+    }
+}
+
+/// A copy of a column's cells (for the list field beside the table), each
+/// quantity copied in line: the same values as `cells.clone()`.
+fn copy_cells(cells: &[Value]) -> Vec<Value> {
+    cells
+        .iter()
+        .map(|cell| match cell {
+            Value::Quantity(q, unit) => Value::Quantity(*q, unit.clone()),
+            other => other.clone(),
+        })
+        .collect()
 }
 
 /// `pass`, or the checks that fail at this point.
