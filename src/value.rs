@@ -169,8 +169,8 @@ mod tests {
     use super::*;
 
     /// A value is copied at every step of a what-if point; a quantity's
-    /// display unit is one shared pointer ([`Unit`]), so a value stays
-    /// small (the largest variants are a record and a table).
+    /// display unit is one pointer to its kept data ([`Unit`]), so a value
+    /// stays small (the largest variants are a record and a table).
     #[test]
     fn a_value_is_at_most_seven_words() {
         assert!(std::mem::size_of::<Option<Unit>>() == std::mem::size_of::<usize>());

@@ -258,13 +258,13 @@ fn basis_unit(ratio: &str, basis: &str, whole: &str) -> Result<Option<Unit>, Dat
             "`{whole}`: `{basis}` must follow a mass ratio such as kg/kg or g/kg"
         )));
     }
-    let mut unit = lookup_unit(kind_unit)
+    let unit = lookup_unit(kind_unit)
         .ok_or_else(|| DataError::new(format!("unit table lacks `{kind_unit}`")))?;
-    let data = unit.data_mut();
+    let mut data = (*unit).clone();
     data.factor *= ratio_unit.factor;
     data.kind = kind;
     data.symbol = std::sync::Arc::from(whole);
-    Ok(Some(unit))
+    Ok(Some(Unit::from(data)))
 }
 
 /// A small recursive-descent reader for unit expressions:

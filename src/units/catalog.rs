@@ -14,7 +14,7 @@ use super::{Dim, Kind};
 
 /// How a number written in a unit maps to its SI magnitude beyond
 /// `si = x * factor + offset`.
-#[derive(Clone, Copy, PartialEq, Eq, Debug, Default)]
+#[derive(Clone, Copy, PartialEq, Eq, Hash, Debug, Default)]
 pub enum Scale {
     /// `si = x * factor + offset`.
     #[default]
@@ -26,7 +26,7 @@ pub enum Scale {
 
 /// Which dry mass a mass unit counts; decides the kind of `kg/kg_da` (humidity
 /// ratio) and `kg/kg_ds` (dry-basis moisture).
-#[derive(Clone, Copy, PartialEq, Eq, Debug, Default)]
+#[derive(Clone, Copy, PartialEq, Eq, Hash, Debug, Default)]
 pub enum Basis {
     /// An ordinary unit.
     #[default]

@@ -18,30 +18,32 @@ pub use super::names::describe_dim;
 
 /// A unit: how to turn a number written in it into SI, and back.
 ///
-/// Its data ([`UnitData`], read through `Deref`: `unit.factor`) is shared:
-/// cloning a unit, as every quantity shown in a unit does when its value is
-/// copied, counts one reference and copies one pointer.
+/// Its data ([`UnitData`], read through `Deref`: `unit.factor`) is kept once
+/// per distinct unit for the life of the program ([`intern`]): a unit is one
+/// pointer, and copying one (as every quantity shown in a unit does when its
+/// value is copied) copies the pointer and counts nothing. Threads that copy
+/// the same unit at every point of a study no longer share a reference count.
 #[derive(Clone)]
-pub struct Unit(Arc<UnitData>);
+pub struct Unit(&'static UnitData);
 
 impl std::ops::Deref for Unit {
     type Target = UnitData;
 
     #[inline]
     fn deref(&self) -> &UnitData {
-        &self.0
+        self.0
     }
 }
 
 impl From<UnitData> for Unit {
     fn from(data: UnitData) -> Unit {
-        Unit(Arc::new(data))
+        Unit(intern(data))
     }
 }
 
 impl PartialEq for Unit {
     fn eq(&self, other: &Unit) -> bool {
-        Arc::ptr_eq(&self.0, &other.0) || *self.0 == *other.0
+        std::ptr::eq(self.0, other.0) || *self.0 == *other.0
     }
 }
 
@@ -52,12 +54,37 @@ impl std::fmt::Debug for Unit {
     }
 }
 
-impl Unit {
-    /// The unit's data, to change a copy of it ([`Arc::make_mut`]: copied
-    /// only when shared).
-    pub fn data_mut(&mut self) -> &mut UnitData {
-        Arc::make_mut(&mut self.0)
+/// The one kept copy of `data`: the same data (bit for bit) gives the same
+/// address, so the units a program keeps are as many as the distinct units
+/// it ever made (its worksheets' unit expressions, the catalogue's units
+/// with prefixes, the display units of each dimension), not one per value.
+/// They are never freed; a session that keeps making new units (a REPL run
+/// for days) keeps each distinct one, a few hundred bytes.
+fn intern(data: UnitData) -> &'static UnitData {
+    use std::hash::{Hash, Hasher};
+    use std::sync::{Mutex, OnceLock};
+    type Buckets = FastMap<u64, Vec<&'static UnitData>>;
+    static KEPT: OnceLock<Mutex<Buckets>> = OnceLock::new();
+    let mut h = std::collections::hash_map::DefaultHasher::new();
+    data.symbol.hash(&mut h);
+    data.factor.to_bits().hash(&mut h);
+    data.offset.to_bits().hash(&mut h);
+    data.dim.hash(&mut h);
+    data.kind.hash(&mut h);
+    data.scale.hash(&mut h);
+    data.basis.hash(&mut h);
+    data.parts.hash(&mut h);
+    let key = h.finish();
+    let kept = KEPT.get_or_init(|| Mutex::new(FastMap::default()));
+    // (A panic while the lock was held left the buckets whole: take them.)
+    let mut kept = kept.lock().unwrap_or_else(|e| e.into_inner());
+    let bucket = kept.entry(key).or_default();
+    if let Some(same) = bucket.iter().find(|d| d.same_bits(&data)) {
+        return same;
     }
+    let leaked: &'static UnitData = Box::leak(Box::new(data));
+    bucket.push(leaked);
+    leaked
 }
 
 /// What a [`Unit`] is made of.
@@ -80,6 +107,21 @@ pub struct UnitData {
     /// The symbols and exponents the unit is built from, for its display symbol
     /// (shared: cloning a unit is cheap).
     pub parts: Arc<[(String, i32)]>,
+}
+
+impl UnitData {
+    /// Equal field for field, the numbers bit for bit (what [`intern`] keeps
+    /// once; `==` also takes -0.0 for 0.0).
+    fn same_bits(&self, other: &UnitData) -> bool {
+        self.symbol == other.symbol
+            && self.factor.to_bits() == other.factor.to_bits()
+            && self.offset.to_bits() == other.offset.to_bits()
+            && self.dim == other.dim
+            && self.kind == other.kind
+            && self.scale == other.scale
+            && self.basis == other.basis
+            && self.parts == other.parts
+    }
 }
 
 /// Look up a unit symbol, with SI prefixes (`kPa`, `mm`, `kJ`, `kWh`).
@@ -519,4 +561,38 @@ fn dim_pow(a: Dim, n: i32) -> Dim {
             .clamp(i8::MIN as i32, i8::MAX as i32) as i8;
     }
     Dim(out)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::super::parse_unit;
+    use super::*;
+
+    /// The same unit, however and wherever it is made, is one kept copy; a
+    /// different unit is another (see `intern`).
+    #[test]
+    fn a_unit_is_kept_once() {
+        let a = parse_unit("kg/kg_da").expect("parses");
+        let b = parse_unit("kg/kg_da").expect("parses");
+        assert!(std::ptr::eq(&*a, &*b));
+        let elsewhere = std::thread::spawn(|| {
+            let u = parse_unit("kg/kg_da").expect("parses");
+            &*u as *const UnitData as usize
+        })
+        .join()
+        .expect("thread");
+        assert_eq!(elsewhere, &*a as *const UnitData as usize);
+        // Same dimension and factor, another symbol and kind: another unit.
+        let g = parse_unit("kg/kg").expect("parses");
+        assert!(!std::ptr::eq(&*a, &*g));
+        assert_eq!(a.factor, g.factor);
+        assert_ne!(a, g);
+        // A prefixed catalogue unit and the same unit made again by lookup.
+        let kpa = lookup_uncached("kPa").expect("known");
+        assert!(std::ptr::eq(&*kpa, &*lookup_unit("kPa").expect("known")));
+        assert!(!std::ptr::eq(
+            &*kpa,
+            &*lookup_uncached("Pa").expect("known")
+        ));
+    }
 }
