@@ -16,10 +16,10 @@ pub mod syntax;
 pub mod units;
 pub mod value;
 
+mod alloc;
+
 /// The memory allocator of every program built on this crate (the `siccant`
-/// binary, its tests and benchmarks). A study allocates and frees a few small
-/// values at each of its points; mimalloc serves those from per-thread free
-/// lists in fewer instructions than the C library's allocator. See
+/// binary, its tests and benchmarks): mimalloc ([`alloc::Mimalloc`]). See
 /// DEVELOPERS.md.
 #[global_allocator]
-static ALLOCATOR: mimalloc::MiMalloc = mimalloc::MiMalloc;
+static ALLOCATOR: alloc::Mimalloc = alloc::Mimalloc;
