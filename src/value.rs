@@ -51,6 +51,13 @@ pub struct Record {
 /// Typed engine data carried by a record (downcast with `as_any`).
 pub trait Payload: fmt::Debug + Send + Sync {
     fn as_any(&self) -> &dyn Any;
+
+    /// The payload to overwrite in place ([`Record::set_payload`] on a
+    /// record built in reused storage: [`Record::reusing`]); `None`, the
+    /// default, for a payload that is always allocated afresh.
+    fn as_any_mut(&mut self) -> Option<&mut dyn Any> {
+        None
+    }
 }
 
 impl Record {
@@ -71,6 +78,55 @@ impl Record {
             fields: Arc::new(Vec::with_capacity(fields)),
             payload: None,
         }
+    }
+
+    /// An empty record of type `type_name` built in the storage of `spare`
+    /// (a record the same built-in returned before, at the same call:
+    /// [`crate::library::Args::take_spare`]) where nothing else holds it:
+    /// its field list, emptied, and its payload, for
+    /// [`Record::set_payload`] to overwrite. Otherwise, or without a spare,
+    /// a new record with room for `fields` fields, as
+    /// [`Record::with_capacity`]. Either way the same record once filled.
+    pub fn reusing(
+        type_name: impl Into<FieldName>,
+        spare: Option<Record>,
+        fields: usize,
+    ) -> Record {
+        let Some(mut spare) = spare else {
+            return Record::with_capacity(type_name, fields);
+        };
+        match Arc::get_mut(&mut spare.fields) {
+            Some(list) => list.clear(),
+            None => spare.fields = Arc::new(Vec::with_capacity(fields)),
+        }
+        Record {
+            type_name: type_name.into(),
+            fields: spare.fields,
+            payload: spare.payload,
+        }
+    }
+
+    /// The field list to append to: in place when this record alone holds
+    /// it (a record being built), else a copy ([`Arc::make_mut`]).
+    pub fn fields_mut(&mut self) -> &mut Vec<(FieldName, Value)> {
+        Arc::make_mut(&mut self.fields)
+    }
+
+    /// Set the payload to `value`: written over the payload in place when
+    /// it is a `T` this record alone holds ([`Record::reusing`] kept it),
+    /// else newly allocated.
+    pub fn set_payload<T: Payload + 'static>(&mut self, value: T) {
+        if let Some(place) = self
+            .payload
+            .as_mut()
+            .and_then(Arc::get_mut)
+            .and_then(|p| p.as_any_mut())
+            .and_then(|p| p.downcast_mut::<T>())
+        {
+            *place = value;
+            return;
+        }
+        self.payload = Some(Arc::new(value));
     }
 
     /// Append a field (builder style).
@@ -167,6 +223,91 @@ pub struct HeatMap {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[derive(Debug, PartialEq)]
+    struct Refilled(u32);
+    impl Payload for Refilled {
+        fn as_any(&self) -> &dyn Any {
+            self
+        }
+        fn as_any_mut(&mut self) -> Option<&mut dyn Any> {
+            Some(self)
+        }
+    }
+
+    #[derive(Debug, PartialEq)]
+    struct Fixed(u32);
+    impl Payload for Fixed {
+        fn as_any(&self) -> &dyn Any {
+            self
+        }
+    }
+
+    fn number(x: f64) -> Value {
+        Value::Quantity(
+            Quantity::new(x, crate::units::Dim::NONE, crate::units::Kind::Plain),
+            None,
+        )
+    }
+
+    fn spare(payload: Arc<dyn Payload>) -> Record {
+        let mut r = Record::new("old")
+            .with("a", number(1.0))
+            .with("b", number(2.0));
+        r.payload = Some(payload);
+        r
+    }
+
+    /// The fields and payload of `r`, for comparing records.
+    fn shown(r: &Record) -> String {
+        format!("{} {:?} {:?}", r.type_name, r.fields, r.payload)
+    }
+
+    /// A record built in a spare's storage is the record built afresh; the
+    /// storage is reused only where nothing else holds it, and a record
+    /// still held elsewhere is left as it was.
+    #[test]
+    fn a_record_built_in_a_spare_is_the_record_built_afresh() {
+        let build = |spare: Option<Record>, payload: u32| {
+            let mut r = Record::reusing("new", spare, 1);
+            r.fields_mut().push(("x".into(), number(3.0)));
+            r.set_payload(Refilled(payload));
+            r
+        };
+        let fresh = build(None, 7);
+        // Held by nothing else: the same field list and payload, refilled.
+        let old = spare(Arc::new(Refilled(1)));
+        let (fields, payload) = (
+            Arc::as_ptr(&old.fields),
+            old.payload.as_ref().map(|p| Arc::as_ptr(p) as *const u8),
+        );
+        let reused = build(Some(old), 7);
+        assert_eq!(shown(&reused), shown(&fresh));
+        assert!(std::ptr::eq(Arc::as_ptr(&reused.fields), fields));
+        assert_eq!(
+            reused.payload.as_ref().map(|p| Arc::as_ptr(p) as *const u8),
+            payload
+        );
+        // Held elsewhere too: new storage, and the other holder unchanged.
+        let old = spare(Arc::new(Refilled(1)));
+        let kept = old.clone();
+        let before = shown(&kept);
+        let rebuilt = build(Some(old), 7);
+        assert_eq!(shown(&rebuilt), shown(&fresh));
+        assert_eq!(shown(&kept), before);
+        assert!(!Arc::ptr_eq(&kept.fields, &rebuilt.fields));
+        // Only the payload shared, or a payload of another type, or one not
+        // refilled in place: a new payload.
+        let shared: Arc<dyn Payload> = Arc::new(Refilled(1));
+        for payload in [shared.clone(), Arc::new(Fixed(1)) as Arc<dyn Payload>] {
+            let rebuilt = build(Some(spare(payload)), 7);
+            assert_eq!(shown(&rebuilt), shown(&fresh));
+        }
+        assert_eq!(
+            shared.as_any().downcast_ref::<Refilled>(),
+            Some(&Refilled(1))
+        );
+    }
 
     /// A value is copied at every step of a what-if point; a quantity's
     /// display unit is one pointer to its kept data ([`Unit`]), so a value

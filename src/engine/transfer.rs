@@ -81,72 +81,79 @@ pub struct RangeWarning {
 
 impl fmt::Display for RangeWarning {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        // Piece by piece (no padding or argument machinery: a what-if study
-        // may format one of these at every point).
-        let space = if self.unit.is_empty() { "" } else { " " };
-        let value = sig(self.value);
-        let range = if self.high.is_infinite() {
-            ["at least ", &sig(self.low), "", ""].concat()
-        } else {
-            [sig(self.low).as_str(), "-", &sig(self.high)].concat()
-        };
-        for piece in [
-            self.correlation,
-            ": ",
-            self.input,
-            " = ",
-            &value,
-            space,
-            self.unit,
-            " is outside the fitted range ",
-            &range,
-            space,
-            self.unit,
-            "; the value is an extrapolation",
-        ] {
-            f.write_str(piece)?;
-        }
-        Ok(())
+        f.write_str(&self.message())
     }
 }
 
 impl RangeWarning {
-    /// The warning's text ([`fmt::Display`]) in a string sized for it at once.
+    /// The warning's text ([`fmt::Display`]), written piece by piece into
+    /// one string sized for it at once (no padding or argument machinery,
+    /// no string for each number: a what-if study may format one of these
+    /// at every point).
     pub fn message(&self) -> String {
-        use fmt::Write;
         let mut text = String::with_capacity(160);
-        let _ = write!(text, "{self}");
+        let space = if self.unit.is_empty() { "" } else { " " };
+        for piece in [self.correlation, ": ", self.input, " = "] {
+            text.push_str(piece);
+        }
+        push_sig(&mut text, self.value);
+        for piece in [space, self.unit, " is outside the fitted range "] {
+            text.push_str(piece);
+        }
+        if self.high.is_infinite() {
+            text.push_str("at least ");
+            push_sig(&mut text, self.low);
+        } else {
+            push_sig(&mut text, self.low);
+            text.push('-');
+            push_sig(&mut text, self.high);
+        }
+        for piece in [space, self.unit, "; the value is an extrapolation"] {
+            text.push_str(piece);
+        }
         text
     }
 }
 
 /// Four significant figures, without trailing noise; powers of ten for very
 /// large or small magnitudes (Reynolds numbers read as 5e5, not 500000).
+#[cfg(test)]
 fn sig(x: f64) -> String {
+    let mut text = String::new();
+    push_sig(&mut text, x);
+    text
+}
+
+/// Append the text of [`sig`] of `x` to `text`.
+fn push_sig(text: &mut String, x: f64) {
+    use fmt::Write;
     if x == 0.0 || !x.is_finite() {
-        return format!("{x}");
+        let _ = write!(text, "{x}");
+        return;
     }
     let magnitude = x.abs().log10().floor() as i32;
     if !(-3..5).contains(&magnitude) {
         let mantissa = format!("{:.3}", x / 10f64.powi(magnitude));
         let mantissa = mantissa.trim_end_matches('0').trim_end_matches('.');
-        return format!("{mantissa}e{magnitude}");
+        let _ = write!(text, "{mantissa}e{magnitude}");
+        return;
     }
     let digits = (3 - magnitude).max(0) as usize;
     let mut buffer = [0u8; FIXED_LEN];
-    if let Some(text) = fixed(x, digits, &mut buffer) {
+    if let Some(fixed) = fixed(x, digits, &mut buffer) {
         let trimmed = if digits > 0 {
-            text.trim_end_matches('0').trim_end_matches('.')
+            fixed.trim_end_matches('0').trim_end_matches('.')
         } else {
-            text
+            fixed
         };
-        return trimmed.to_string();
+        text.push_str(trimmed);
+        return;
     }
-    let text = format!("{x:.digits$}");
-    if text.contains('.') {
-        text.trim_end_matches('0').trim_end_matches('.').to_string()
+    let formatted = format!("{x:.digits$}");
+    if formatted.contains('.') {
+        text.push_str(formatted.trim_end_matches('0').trim_end_matches('.'));
     } else {
-        text
+        text.push_str(&formatted);
     }
 }
 
@@ -354,6 +361,52 @@ mod tests {
             29300.0,
         ] {
             assert_eq!(sig(v), by_format(v), "{v}");
+        }
+    }
+
+    /// The text written into one string is the pieces with each number
+    /// as its own string ([`sig`]), as the warnings were written before;
+    /// shown with `{}` it is the same text.
+    #[test]
+    fn warning_text_is_its_pieces() {
+        let numbers = [
+            0.0,
+            -3.5,
+            44.8,
+            0.5985,
+            29300.0,
+            5e5,
+            1.234_567e-5,
+            f64::NAN,
+        ];
+        for (i, &value) in numbers.iter().enumerate() {
+            for (unit, high) in [
+                ("", f64::INFINITY),
+                ("degC", 150.0),
+                ("m/s", numbers[(i + 3) % 8]),
+            ] {
+                let w = RangeWarning {
+                    correlation: "tray, parallel flow",
+                    input: "T",
+                    value,
+                    low: numbers[(i + 1) % numbers.len()],
+                    high,
+                    unit,
+                };
+                let space = if unit.is_empty() { "" } else { " " };
+                let range = if high.is_infinite() {
+                    format!("at least {}", sig(w.low))
+                } else {
+                    format!("{}-{}", sig(w.low), sig(high))
+                };
+                let pieces = format!(
+                    "tray, parallel flow: T = {}{space}{unit} is outside the fitted range \
+                     {range}{space}{unit}; the value is an extrapolation",
+                    sig(value)
+                );
+                assert_eq!(w.message(), pieces);
+                assert_eq!(w.to_string(), pieces);
+            }
         }
     }
 

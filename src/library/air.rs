@@ -6,7 +6,6 @@
 //! docs/methods/air.md.
 
 use std::any::Any;
-use std::sync::Arc;
 
 use uom::si::available_energy::joule_per_kilogram;
 use uom::si::f64::{
@@ -32,6 +31,10 @@ pub struct AirPayload(pub AirState);
 impl Payload for AirPayload {
     fn as_any(&self) -> &dyn Any {
         self
+    }
+
+    fn as_any_mut(&mut self) -> Option<&mut dyn Any> {
+        Some(self)
     }
 }
 
@@ -752,11 +755,13 @@ pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
             mask & 1 << const { field_index($name) } != 0
         };
     }
-    let mut fields: Vec<(FieldName, Value)> = Vec::with_capacity(if args.wanted.is_none() {
+    let room = if args.wanted.is_none() {
         AIR_FIELDS
     } else {
         mask.count_ones() as usize
-    });
+    };
+    let mut record = Record::reusing(FieldName::Borrowed("air"), args.take_spare(), room);
+    let fields = record.fields_mut();
     let mut field =
         |name: &'static str, value: Value| fields.push((FieldName::Borrowed(name), value));
     let w = s.humidity_ratio();
@@ -836,16 +841,12 @@ pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
     }
     // A caller that named what it reads reads nothing else: the payload only
     // when it passes the record to a parameter reading only that.
-    let payload: Option<Arc<dyn Payload>> = if bits & PAYLOAD_BIT != 0 {
-        Some(Arc::new(AirPayload(*s)))
+    if bits & PAYLOAD_BIT != 0 {
+        record.set_payload(AirPayload(*s));
     } else {
-        None
-    };
-    Ok(Record {
-        type_name: FieldName::Borrowed("air"),
-        fields: Arc::new(fields),
-        payload,
-    })
+        record.payload = None;
+    }
+    Ok(record)
 }
 
 // ---- air(...) ------------------------------------------------------------------------

@@ -147,6 +147,9 @@ pub struct Args {
     pub wanted: Option<std::sync::Arc<[String]>>,
     /// [`Args::wanted_mask`]'s answer, with the list it was worked out for.
     mask_memo: Option<(Option<std::sync::Arc<[String]>>, u64)>,
+    /// A record this call returned before, no longer needed, whose storage
+    /// the built-in may reuse ([`Args::take_spare`]).
+    spare: Option<Record>,
 }
 
 impl Args {
@@ -198,6 +201,7 @@ impl Args {
             dir: None,
             wanted: None,
             mask_memo: None,
+            spare: None,
         }
     }
 
@@ -211,9 +215,25 @@ impl Args {
         }
     }
 
+    /// Keep `record`, a value this call returned before and nobody reads
+    /// any more, for the next call to build its record in
+    /// ([`Args::take_spare`]); replaces (drops) a spare not taken. A
+    /// what-if study's plan hands each point's record back at the next
+    /// point.
+    pub fn keep_spare(&mut self, record: Record) {
+        self.spare = Some(record);
+    }
+
+    /// The record kept by [`Args::keep_spare`], if any: storage for
+    /// [`Record::reusing`], which reuses only what nothing else holds, so
+    /// the record built is the same either way.
+    pub fn take_spare(&mut self) -> Option<Record> {
+        self.spare.take()
+    }
+
     /// Drop the arguments and warnings a call left, keeping the room (and
-    /// `wanted`, `dir`) for the next call of the same built-in at the same
-    /// place.
+    /// `wanted`, `dir`, a spare record) for the next call of the same
+    /// built-in at the same place.
     pub fn clear(&mut self) {
         for a in &mut self.bound {
             *a = None;

@@ -945,6 +945,10 @@ impl Payload for WetSurface {
     fn as_any(&self) -> &dyn Any {
         self
     }
+
+    fn as_any_mut(&mut self) -> Option<&mut dyn Any> {
+        Some(self)
+    }
 }
 
 fn radiation_arg(args: &mut Args) -> Result<Option<Radiation>, Diagnostic> {
@@ -1080,7 +1084,8 @@ fn surface_record(args: &mut Args, s: WetSurface, h: f64) -> Record {
     use uom::si::heat_flux_density::watt_per_square_meter as w_m2;
     let mask = args.wanted_mask(surface_mask) as u16;
     let q = |x: uom::si::f64::HeatFluxDensity| quantity(x.get::<w_m2>(), Dim::HEAT_FLUX);
-    let mut fields = Vec::with_capacity(mask.count_ones() as usize);
+    let mut record = Record::reusing("wet_surface", args.take_spare(), mask.count_ones() as usize);
+    let fields = record.fields_mut();
     for (i, name) in SURFACE_FIELDS.iter().enumerate() {
         if mask & 1 << i == 0 {
             continue;
@@ -1123,16 +1128,12 @@ fn surface_record(args: &mut Args, s: WetSurface, h: f64) -> Record {
         };
         fields.push(((*name).into(), value));
     }
-    let payload: Option<std::sync::Arc<dyn Payload>> = if args.wants_payload() {
-        Some(std::sync::Arc::new(s))
+    if args.wants_payload() {
+        record.set_payload(s);
     } else {
-        None
-    };
-    Record {
-        type_name: "wet_surface".into(),
-        fields: std::sync::Arc::new(fields),
-        payload,
+        record.payload = None;
     }
+    record
 }
 
 /// A dry-basis moisture content: kind Moisture or a plain number.

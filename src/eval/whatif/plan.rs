@@ -163,13 +163,23 @@ pub(super) struct State {
     pub inputs: Vec<Value>,
     /// Each built-in call's arguments, reused (`None` while the call runs).
     calls: Vec<Option<Box<Args>>>,
+    /// For each slot defined by a built-in call, the call's place in
+    /// `calls`: where its record goes back at the next point
+    /// ([`Args::keep_spare`]).
+    defined_by: Vec<Option<usize>>,
 }
 
 impl State {
     /// Start a point: no definition computed yet. (The caller sets the inputs.)
+    /// A record a built-in call defined at the last point goes back to the
+    /// call's arguments, for it to build this point's record in.
     pub fn start(&mut self) {
-        for s in &mut self.slots {
-            *s = Slot::Unset;
+        for (s, by) in self.slots.iter_mut().zip(&self.defined_by) {
+            if let (Slot::Ready(Value::Record(r), _), Some(k)) = (std::mem::take(s), *by) {
+                if let Some(Some(args)) = self.calls.get_mut(k) {
+                    args.keep_spare(r);
+                }
+            }
         }
     }
 }
@@ -231,10 +241,15 @@ impl Plan {
             args.wanted = c.wanted.clone();
             Some(Box::new(args))
         };
+        let defined_by = self.defs.iter().map(|d| match &d.node {
+            Node::Call(call) => Some(call.index),
+            _ => None,
+        });
         State {
             slots: vec![Slot::Unset; self.defs.len()],
             inputs: Vec::new(),
             calls: self.calls.iter().map(args).collect(),
+            defined_by: defined_by.collect(),
         }
     }
 
