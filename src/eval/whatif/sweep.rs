@@ -153,6 +153,16 @@ pub(super) fn grid(axes: &[Vec<f64>]) -> Vec<Vec<f64>> {
 /// each value of axis `i` holds for a block of the points of the axes after
 /// it, and the blocks take the axis's values in turn.
 pub(super) fn flat_grid(axes: &[Vec<f64>]) -> Vec<f64> {
+    // Two axes (the usual study): each pair in turn.
+    if let [xs, ys] = axes {
+        let mut points = Vec::with_capacity(2 * xs.len() * ys.len());
+        for &x in xs {
+            for &y in ys {
+                points.extend_from_slice(&[x, y]);
+            }
+        }
+        return points;
+    }
     let total: usize = axes.iter().map(Vec::len).product();
     let stride = axes.len();
     let mut points = vec![0.0; total * stride];
@@ -557,8 +567,12 @@ mod tests {
     fn flat_grid_is_the_grid_flattened() {
         let cases = vec![
             vec![vec![1.0, 2.0], vec![10.0, 20.0, 30.0], vec![100.0, 200.0]],
+            vec![vec![1.0, 2.0, 3.0], vec![10.0, 20.0]],
+            vec![vec![4.0], vec![-0.0, 5.0, f64::MAX]],
             vec![vec![0.5, -1.0, 7.0]],
             vec![vec![1.0], vec![]],
+            vec![vec![], vec![1.0]],
+            vec![vec![1.0], vec![2.0], vec![]],
             vec![],
         ];
         for axes in cases {
