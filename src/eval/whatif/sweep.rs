@@ -9,7 +9,7 @@ use super::spec::{self, usage};
 use crate::diag::{Diagnostic, Span};
 use crate::eval::{Ctx, Flow, Mode, Stop};
 use crate::syntax::CallArg;
-use crate::units::{default_unit, Quantity, Unit};
+use crate::units::{default_unit, Kind, Quantity, Scale, Unit};
 use crate::value::{Column, HeatMap, Plot, Record, Series, SeriesStyle, Table, Value};
 
 const EXAMPLE: &str = "sweep([t_dry, Rc], T_air: steps(60 degC, 90 degC, 5 K))";
@@ -50,9 +50,8 @@ impl Ctx<'_> {
         let points = flat_grid(&axes);
         let outcomes = model.eval_flat(&points, total, "sweep", span)?;
         drop(points);
-        self.point_warnings(&outcomes, span);
+        let failed = self.point_warnings(&outcomes, span);
         let plot = sweep_plot(&model, &names, &axes, &outcomes);
-        let failed = outcomes.iter().filter(|o| o.values.is_err()).count();
         let table = sweep_table(&model, &names, &axes, outcomes);
         // Each column also as a list field, unless a field of that name came
         // first (a repeated probe, or one named like the fields above).
@@ -97,11 +96,18 @@ impl Ctx<'_> {
     }
 
     /// Summarise the warnings raised at points (each distinct message once)
-    /// and say how many points failed.
-    pub(super) fn point_warnings(&mut self, outcomes: &[Outcome], span: Span) {
+    /// and say how many points failed; returns that number.
+    pub(super) fn point_warnings(&mut self, outcomes: &[Outcome], span: Span) -> usize {
         let total = outcomes.len();
         let mut counts: BTreeMap<&str, usize> = BTreeMap::new();
+        // The failed points, and the first one's message, in the same pass.
+        let mut failed = 0;
+        let mut first: Option<&String> = None;
         for o in outcomes {
+            if let Err(message) = &o.values {
+                failed += 1;
+                first.get_or_insert(message);
+            }
             let mut seen: Vec<&str> = Vec::new();
             for w in &o.warnings {
                 if !seen.contains(&w.as_str()) {
@@ -114,14 +120,11 @@ impl Ctx<'_> {
             let text = format!("at {n} of {total} points: {msg}");
             self.warnings.push(Diagnostic::warning(span, text));
         }
-        let failed: Vec<&String> = outcomes
-            .iter()
-            .filter_map(|o| o.values.as_ref().err())
-            .collect();
-        if let Some(first) = failed.first() {
-            let text = format!("{} of {total} points failed (first: {first})", failed.len());
+        if let Some(first) = first {
+            let text = format!("{failed} of {total} points failed (first: {first})");
             self.warnings.push(Diagnostic::warning(span, text));
         }
+        failed
     }
 }
 
@@ -146,19 +149,33 @@ pub(super) fn grid(axes: &[Vec<f64>]) -> Vec<Vec<f64>> {
 }
 
 /// [`grid`] as one flat list: the values of each point in turn, one per
-/// axis (one allocation, however many points).
+/// axis (one allocation, however many points). Filled an axis at a time:
+/// each value of axis `i` holds for a block of the points of the axes after
+/// it, and the blocks take the axis's values in turn.
 pub(super) fn flat_grid(axes: &[Vec<f64>]) -> Vec<f64> {
-    let total: usize = axes.iter().map(Vec::len).product();
-    let mut points = Vec::with_capacity(total * axes.len());
-    let mut at = vec![0; axes.len()];
-    for _ in 0..total {
-        points.extend(at.iter().zip(axes).map(|(&i, axis)| axis[i]));
-        for (i, axis) in at.iter_mut().zip(axes).rev() {
-            *i += 1;
-            if *i < axis.len() {
-                break;
+    // Two axes (the usual study): each pair in turn.
+    if let [xs, ys] = axes {
+        let mut points = Vec::with_capacity(2 * xs.len() * ys.len());
+        for &x in xs {
+            for &y in ys {
+                points.extend_from_slice(&[x, y]);
             }
-            *i = 0;
+        }
+        return points;
+    }
+    let total: usize = axes.iter().map(Vec::len).product();
+    let stride = axes.len();
+    let mut points = vec![0.0; total * stride];
+    if points.is_empty() {
+        return points;
+    }
+    for (i, axis) in axes.iter().enumerate() {
+        let after: usize = axes[i + 1..].iter().map(Vec::len).product();
+        let blocks = points.chunks_exact_mut(stride * after);
+        for (block, &value) in blocks.zip(axis.iter().cycle()) {
+            for point in block.chunks_exact_mut(stride) {
+                point[i] = value;
+            }
         }
     }
     points
@@ -180,8 +197,26 @@ pub(super) fn probe_unit(outcomes: &[Outcome], k: usize) -> Option<Unit> {
         })
 }
 
-/// A quantity's magnitude in `unit` (SI when the unit cannot show it).
+/// A quantity's magnitude in `unit` (SI when the unit cannot show it): the
+/// same bits as [`in_unit_general`]. The usual case, a linear unit of the
+/// quantity's dimension that is plain or of its kind, is worked out here
+/// with the arithmetic of [`Unit::from_si`] (a sweep shows every point so);
+/// any other goes through it.
+#[inline]
 pub(super) fn in_unit(q: &Quantity, unit: Option<&Unit>) -> f64 {
+    if let Some(u) = unit {
+        if u.scale == Scale::Linear && q.dim == u.dim && (u.kind == Kind::Plain || u.kind == q.kind)
+        {
+            let x = (q.si - u.offset) / u.factor;
+            return if x.is_finite() { x } else { q.si };
+        }
+    }
+    in_unit_general(q, unit)
+}
+
+/// A quantity's magnitude in `unit` through [`Unit::from_si`] (SI when the
+/// unit cannot show it).
+fn in_unit_general(q: &Quantity, unit: Option<&Unit>) -> f64 {
     unit.and_then(|u| u.from_si(q).ok()).unwrap_or(q.si)
 }
 
@@ -201,7 +236,8 @@ fn input_cells(v: &Varied, axes: &[Vec<f64>], i: usize) -> Vec<Value> {
     let mut cells = Vec::with_capacity(before * axes[i].len() * after);
     for _ in 0..before {
         for &si in &axes[i] {
-            cells.extend(std::iter::repeat_with(|| v.shown(si)).take(after));
+            let q = v.at(si);
+            cells.resize_with(cells.len() + after, || Value::Quantity(q, v.unit.clone()));
         }
     }
     cells
@@ -299,13 +335,16 @@ fn push_values(columns: &mut [Column], values: Values) {
 /// A copy of a column's cells (for the list field beside the table), each
 /// quantity copied in line: the same values as `cells.clone()`.
 fn copy_cells(cells: &[Value]) -> Vec<Value> {
-    cells
-        .iter()
-        .map(|cell| match cell {
-            Value::Quantity(q, unit) => Value::Quantity(*q, unit.clone()),
-            other => other.clone(),
-        })
-        .collect()
+    let mut copy = Vec::with_capacity(cells.len());
+    for cell in cells {
+        // Each arm builds its value where it goes.
+        if let Value::Quantity(q, unit) = cell {
+            copy.push(Value::Quantity(*q, unit.clone()));
+        } else {
+            copy.push(cell.clone());
+        }
+    }
+    copy
 }
 
 /// `pass`, or the checks that fail at this point.
@@ -411,11 +450,16 @@ fn heat_map(
         .iter()
         .map(|&si| in_unit(&y_var.at(si), y_unit))
         .collect();
-    let mut z = vec![f64::NAN; xs.len() * ny];
-    for (index, o) in outcomes.iter().enumerate() {
-        let (i, j) = (index / ny, index % ny);
-        if let Some(q) = o.quantity(0) {
-            z[j * xs.len() + i] = in_unit(&q, z_unit);
+    let nx = xs.len();
+    let mut z = vec![f64::NAN; nx * ny];
+    // Point `i * ny + j` is at x `i`, y `j`: a run of `ny` points per x.
+    if ny > 0 {
+        for (i, run) in outcomes.chunks(ny).enumerate() {
+            for (j, o) in run.iter().enumerate() {
+                if let Some(q) = o.quantity(0) {
+                    z[j * nx + i] = in_unit(&q, z_unit);
+                }
+            }
         }
     }
     HeatMap {
@@ -428,7 +472,80 @@ fn heat_map(
 
 #[cfg(test)]
 mod tests {
-    use super::{flat_grid, grid};
+    use super::{flat_grid, grid, in_unit, in_unit_general};
+    use crate::units::{parse_unit, Dim, Kind, Quantity};
+
+    /// The in-line conversion gives the bits of [`Unit::from_si`]'s, for
+    /// units it works out (linear, plain or of the quantity's kind) and
+    /// units it hands on (affine shown for a difference, wet basis, another
+    /// dimension), at ordinary, extreme and non-finite magnitudes.
+    #[test]
+    fn in_unit_is_the_general_conversion_bit_for_bit() {
+        let symbols = [
+            "K",
+            "degC",
+            "degF",
+            "kPa",
+            "bar",
+            "kg/kg_da",
+            "g/kg_da",
+            "%",
+            "m",
+            "mm",
+            "kW",
+            "db",
+            "wb",
+            "h",
+            "W/(m^2*K)",
+        ];
+        let mut units: Vec<_> = symbols
+            .iter()
+            .map(|s| Some(parse_unit(s).unwrap_or_else(|e| panic!("{s}: {e:?}"))))
+            .collect();
+        units.push(None);
+        let mut quantities = Vec::new();
+        for u in units.iter().flatten() {
+            for kind in [
+                u.kind,
+                Kind::Plain,
+                Kind::AbsoluteTemperature,
+                Kind::HumidityRatio,
+            ] {
+                for dim in [u.dim, Dim::NONE, Dim::TEMPERATURE] {
+                    for si in [
+                        0.0,
+                        -0.0,
+                        1.0,
+                        0.3,
+                        273.15,
+                        353.15,
+                        -40.0,
+                        1e300,
+                        -1e300,
+                        5e-324,
+                        f64::MAX,
+                        f64::INFINITY,
+                        f64::NAN,
+                    ] {
+                        quantities.push(Quantity::new(si, dim, kind));
+                    }
+                }
+            }
+        }
+        let mut shown_in_line = 0;
+        for unit in &units {
+            for q in &quantities {
+                let fast = in_unit(q, unit.as_ref());
+                let general = in_unit_general(q, unit.as_ref());
+                assert_eq!(fast.to_bits(), general.to_bits(), "{q:?} in {unit:?}");
+                if unit.as_ref().is_some_and(|u| u.from_si(q).is_ok()) {
+                    shown_in_line += 1;
+                }
+            }
+        }
+        // Most pairs convert (not only the fall-back to SI).
+        assert!(shown_in_line > quantities.len(), "{shown_in_line}");
+    }
 
     #[test]
     fn grid_is_every_combination_first_axis_slowest() {
@@ -450,8 +567,12 @@ mod tests {
     fn flat_grid_is_the_grid_flattened() {
         let cases = vec![
             vec![vec![1.0, 2.0], vec![10.0, 20.0, 30.0], vec![100.0, 200.0]],
+            vec![vec![1.0, 2.0, 3.0], vec![10.0, 20.0]],
+            vec![vec![4.0], vec![-0.0, 5.0, f64::MAX]],
             vec![vec![0.5, -1.0, 7.0]],
             vec![vec![1.0], vec![]],
+            vec![vec![], vec![1.0]],
+            vec![vec![1.0], vec![2.0], vec![]],
             vec![],
         ];
         for axes in cases {
