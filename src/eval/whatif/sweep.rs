@@ -9,7 +9,7 @@ use super::spec::{self, usage};
 use crate::diag::{Diagnostic, Span};
 use crate::eval::{Ctx, Flow, Mode, Stop};
 use crate::syntax::CallArg;
-use crate::units::{default_unit, Kind, Quantity, Scale, Unit};
+use crate::units::{default_unit, Quantity, Unit};
 use crate::value::{Column, HeatMap, Plot, Record, Series, SeriesStyle, Table, Value};
 
 const EXAMPLE: &str = "sweep([t_dry, Rc], T_air: steps(60 degC, 90 degC, 5 K))";
@@ -197,27 +197,11 @@ pub(super) fn probe_unit(outcomes: &[Outcome], k: usize) -> Option<Unit> {
         })
 }
 
-/// A quantity's magnitude in `unit` (SI when the unit cannot show it): the
-/// same bits as [`in_unit_general`]. The usual case, a linear unit of the
-/// quantity's dimension that is plain or of its kind, is worked out here
-/// with the arithmetic of [`Unit::from_si`] (a sweep shows every point so);
-/// any other goes through it.
+/// A quantity's magnitude in `unit` (SI when the unit cannot show it), by
+/// [`Unit::from_si_or_si`]: the same bits as going through [`Unit::from_si`].
 #[inline]
 pub(super) fn in_unit(q: &Quantity, unit: Option<&Unit>) -> f64 {
-    if let Some(u) = unit {
-        if u.scale == Scale::Linear && q.dim == u.dim && (u.kind == Kind::Plain || u.kind == q.kind)
-        {
-            let x = (q.si - u.offset) / u.factor;
-            return if x.is_finite() { x } else { q.si };
-        }
-    }
-    in_unit_general(q, unit)
-}
-
-/// A quantity's magnitude in `unit` through [`Unit::from_si`] (SI when the
-/// unit cannot show it).
-fn in_unit_general(q: &Quantity, unit: Option<&Unit>) -> f64 {
-    unit.and_then(|u| u.from_si(q).ok()).unwrap_or(q.si)
+    unit.map_or(q.si, |u| u.from_si_or_si(q))
 }
 
 fn axis_label(name: &str, unit: Option<&Unit>) -> String {
@@ -472,8 +456,14 @@ fn heat_map(
 
 #[cfg(test)]
 mod tests {
-    use super::{flat_grid, grid, in_unit, in_unit_general};
-    use crate::units::{parse_unit, Dim, Kind, Quantity};
+    use super::{flat_grid, grid, in_unit};
+    use crate::units::{parse_unit, Dim, Kind, Quantity, Unit};
+
+    /// A quantity's magnitude in `unit` through [`Unit::from_si`] (SI when
+    /// the unit cannot show it): the general conversion `in_unit` must match.
+    fn in_unit_general(q: &Quantity, unit: Option<&Unit>) -> f64 {
+        unit.and_then(|u| u.from_si(q).ok()).unwrap_or(q.si)
+    }
 
     /// The in-line conversion gives the bits of [`Unit::from_si`]'s, for
     /// units it works out (linear, plain or of the quantity's kind) and
