@@ -522,7 +522,7 @@ mod tests {
     /// root is that close. In the design range (50..200 kPa) the bound at the
     /// engine's spacing must also be within `TABLE_MAX_ERROR` on five
     /// intervals in six away from the two ends (measured: 89 to 92 %; the
-    /// top 5 to 10 K below the boiling point, where the balance steepens
+    /// top 8 to 9 K below the boiling point, where the balance steepens
     /// fast, takes the one-step path instead).
     #[test]
     fn table_root_is_within_its_bound() {
