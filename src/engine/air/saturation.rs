@@ -30,7 +30,7 @@ pub const RHO_CRITICAL: f64 = 322.0;
 /// Lowest temperature of the Hyland-Wexler ice equation, K (-100 degC).
 pub const T_MIN_SATURATION: f64 = 173.15;
 /// Start and end of the Hyland-Wexler to IF97 join, K.
-const JOIN_START: f64 = 423.15;
+pub(super) const JOIN_START: f64 = 423.15;
 const JOIN_END: f64 = 473.15;
 
 /// Hyland-Wexler coefficients over ice (ASHRAE Fundamentals 2017 ch. 1 eq. 5):

@@ -254,6 +254,12 @@ fn wet_bulb_residual(ts: f64, w: f64, p: f64, h1: f64, ice: bool) -> (f64, f64) 
 /// 300 K, 5.7e-14 K).
 const ONE_STEP_MAX_ERROR: f64 = 1e-14;
 
+/// Largest error, K, of a wet-bulb taken as the root of the table itself,
+/// with no exact evaluation: the converged solve's own tolerance
+/// ([`T_TOL`], 1e-13 K), within rounding of a temperature near 300 K (one
+/// unit in the last place is 5.7e-14 K).
+pub(super) const TABLE_MAX_ERROR: f64 = 1e-13;
+
 /// Safety factor on the table's curvature bound. The interpolant's second
 /// derivative at a node differs from the balance's by about `(a h)^2 / 12` of
 /// it, under 1e-2 with the 0.25 K spacing h for `a = G''' / G''` below 1.6 /K
@@ -789,12 +795,20 @@ impl AirState {
                 what: format!("the wet-bulb of nearly pure steam (w = {w:.1} kg/kg) is within 0.02 K of the boiling point"),
             });
         }
-        // The table of the balance at this pressure gives a start within about
-        // 1e-7 K, from which one exact Newton step is enough when its error
-        // bound says so (almost always); else Newton's method goes on from there.
+        // The table of the balance at this pressure gives its own root, taken
+        // as the wet-bulb where the table's error bound is within the solver's
+        // tolerance (most states in the design range); else a start close to
+        // the root, from which one exact Newton step is enough when its
+        // error bound says so; else Newton's method goes on from there.
         let table = cache.wet_bulb_start(w, h1, guess, ice);
         let mut start = table.map_or(guess, |s| s.t).clamp(lo, hi);
         if let (Some(table), true) = (table, one_step) {
+            // The table's own root, where its bound is as tight as the
+            // solver's tolerance; not for bone-dry air, whose wet-bulb is the
+            // least `from_wet_bulb` accepts (the exact root, within 1e-14 K).
+            if w > 0.0 && table.error_k <= TABLE_MAX_ERROR && (lo..=hi).contains(&table.t) {
+                return Ok(table.t.min(t));
+            }
             match wet_bulb_one_step(start, table.curvature, w, p, h1, ice) {
                 Ok(ts) if ts >= lo && ts <= hi => return Ok(ts.min(t)),
                 Ok(ts) | Err(ts) => start = ts.clamp(lo, hi),
@@ -949,14 +963,17 @@ mod tests {
         assert_eq!(ln_near_one(2.0), 2f64.ln());
     }
 
-    /// The one-step wet-bulb against Newton's method run to convergence from the
+    /// The library's wet-bulb (the table's own root where its bound allows,
+    /// else one exact Newton step where that is proven enough, else Newton's
+    /// method) against Newton's method run to convergence from the
     /// same start, over a dense grid of the whole range: dry-bulb -40..350 degC
     /// (ice and liquid wet-bulbs), pressures 50..200 kPa, humidity ratios from
     /// dry to 99.99 % and 100 % saturation or to 20 kg/kg above the boiling
     /// point. They agree within the solver's tolerance (1e-13 K) plus the
     /// rounding of the balance, 8 eps T* (about 11 units in the last place of
-    /// T*; found: 5e-13 K, 9 units, at 20 kg/kg above the boiling point, and
-    /// up to 2.3e-13 K below 1 kg/kg).
+    /// T*; found: 5.1e-13 K, 9 units, at 20 kg/kg above the boiling point, and
+    /// up to 4.0e-13 K below 1 kg/kg, 2.3e-13 K before the table's root was
+    /// taken).
     #[test]
     fn one_step_wet_bulb_matches_the_converged_solve() {
         let (mut states, mut worst): (usize, f64) = (0, 0.0);
