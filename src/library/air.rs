@@ -854,40 +854,40 @@ pub fn air_record(args: &mut Args, s: &AirState) -> Result<Record, Diagnostic> {
 /// The second properties `air` takes besides T, in declaration order.
 const SECOND: [&str; 5] = ["rh", "w", "wetbulb", "dewpoint", "h"];
 
-/// The position in [`SECOND`] of the `air` parameter `name`; `None` for T and p.
-#[inline]
-fn second_property(name: &str) -> Option<usize> {
-    match name.as_bytes() {
-        b"rh" => Some(0),
-        b"w" => Some(1),
-        b"wetbulb" => Some(2),
-        b"dewpoint" => Some(3),
-        b"h" => Some(4),
-        _ => None,
-    }
-}
+/// The positions in [`AIR_PARAMS`] of the second properties, in [`SECOND`]'s order.
+const SECOND_AT: [usize; 5] = [
+    air_param(SECOND[0]),
+    air_param(SECOND[1]),
+    air_param(SECOND[2]),
+    air_param(SECOND[3]),
+    air_param(SECOND[4]),
+];
 
 fn air_state(args: &mut Args) -> Result<Value, Diagnostic> {
     // The second properties given (positions in SECOND, in declaration
     // order), and the spans engine errors may blame (T, p, the first second
-    // property), in one pass without allocating.
+    // property), by parameter position and without allocating.
+    const T_AT: usize = air_param("T");
+    const P_AT: usize = air_param("p");
     let mut given = [0; 5];
     let mut count = 0;
     let mut few = [("", args.call_span); 3];
     let mut spans_len = 0;
-    let mut p_given = false;
-    for (name, span) in args.given() {
-        let second = second_property(name);
-        if let Some(k) = second {
-            given[count] = k;
-            count += 1;
-        } else {
-            // T or p, the other parameters.
-            p_given |= name.as_bytes() == b"p";
-        }
-        if second.is_none() || count == 1 {
+    for (name, at) in [("T", T_AT), ("p", P_AT)] {
+        if let Some(span) = args.span_at(at) {
             few[spans_len] = (name, span);
             spans_len += 1;
+        }
+    }
+    let p_given = args.span_at(P_AT).is_some();
+    for (k, &at) in SECOND_AT.iter().enumerate() {
+        if let Some(span) = args.span_at(at) {
+            if count == 0 {
+                few[spans_len] = (SECOND[k], span);
+                spans_len += 1;
+            }
+            given[count] = k;
+            count += 1;
         }
     }
     let spans = Spans {
@@ -1349,8 +1349,7 @@ mod tests {
     }
 
     /// The second properties are `air`'s parameters other than T and p, in
-    /// declaration order, and `second_property` finds each (and neither of
-    /// the others).
+    /// declaration order, at the positions `SECOND_AT` gives.
     #[test]
     fn second_properties_are_the_parameters_besides_t_and_p() {
         let declared: Vec<&str> = AIR_PARAMS
@@ -1360,10 +1359,8 @@ mod tests {
             .collect();
         assert_eq!(declared, SECOND);
         for (k, name) in SECOND.iter().enumerate() {
-            assert_eq!(second_property(name), Some(k));
+            assert_eq!(AIR_PARAMS[SECOND_AT[k]].name, *name);
         }
-        assert_eq!(second_property("T"), None);
-        assert_eq!(second_property("p"), None);
     }
 
     /// The bits an `Args` keeps are worked out afresh whenever its wanted

@@ -360,6 +360,13 @@ impl Args {
             .filter_map(|(p, a)| a.as_ref().map(|a| (p.name, a.span)))
     }
 
+    /// The span of the argument at parameter `index`, if one was given there
+    /// (and not yet taken).
+    #[inline]
+    pub fn span_at(&self, index: usize) -> Option<Span> {
+        self.bound.get(index)?.as_ref().map(|a| a.span)
+    }
+
     /// The span of an argument if given, else the call's span.
     pub fn span_of(&self, name: &str) -> Span {
         self.bound[self.index(name)]
