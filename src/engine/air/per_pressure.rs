@@ -517,8 +517,8 @@ mod tests {
     /// the point, plus the rounding of the two (8 eps T) and of the value
     /// (32 eps |value| over the slope), wherever the bound
     /// is finite. On tables 5, 10 and 25 times coarser than the engine's,
-    /// whose interpolation errors (about 1e-12 to 1e-9 K) stand well above
-    /// rounding, this tests the bound itself; on the engine's own, that the
+    /// whose interpolation errors stand well above rounding, this tests the
+    /// bound itself; on the engine's own, that the
     /// root is that close. In the design range (50..200 kPa) the bound at the
     /// engine's spacing must also be within `TABLE_MAX_ERROR` on five
     /// intervals in six away from the two ends (measured: 89 to 92 %; the
