@@ -10,7 +10,7 @@
 //! `G = h(T*, w_s*) - w_s* h_c(T*)` of the balance `G(T*) + w h_c(T*) = h1` and
 //! its exact slope. Cubic Hermite interpolation between two nodes, inverted,
 //! gives a root with a bound on its distance from the balance's own root
-//! (`interpolation_error_k`, from the interpolant's second and third
+//! (`interval_bounds`, from the interpolant's second and third
 //! derivatives); where that bound is within the solver's tolerance, 1e-13 K
 //! (most of the range below a few kelvin under the boiling point), the
 //! wet-bulb is that root with no exact evaluation at all
@@ -67,7 +67,7 @@ pub(super) struct TableStart {
     /// boiling point, and the ends do not bound it).
     pub curvature: f64,
     /// A bound on the distance from `t` to the root of the tabulated function
-    /// itself, K (see [`interpolation_error_k`]); infinite where none holds.
+    /// itself, K (see [`interval_bounds`]); infinite where none holds.
     pub error_k: f64,
 }
 
@@ -343,66 +343,64 @@ impl Grid {
             }
             let (m0, m1) = (da * step, db * step);
             let s = inverse_hermite(target, (ya, m0), (yb, m1));
+            let (curvature, error_k) = interval_bounds((ya, m0), (yb, m1), step);
             return Some(TableStart {
                 t: ta + s * step,
                 interval: k,
-                curvature: interval_curvature((ya, m0), (yb, m1), step),
-                error_k: interpolation_error_k((ya, m0), (yb, m1), step),
+                curvature,
+                error_k,
             });
         }
         None
     }
 }
 
-/// The larger magnitude of the second derivative of the cubic Hermite
-/// interpolant through `(y0, slope m0)` at 0 and `(y1, m1)` at 1 at its two
-/// ends, per STEP^2 converted to per K^2; infinite when one end's exceeds the
-/// other's by more than a factor 1.5 (see [`TableStart::curvature`]).
-fn interval_curvature((y0, m0): (f64, f64), (y1, m1): (f64, f64), step: f64) -> f64 {
-    let rise = y1 - y0;
-    let c0 = (6.0 * rise - 4.0 * m0 - 2.0 * m1).abs();
-    let c1 = (2.0 * m0 + 4.0 * m1 - 6.0 * rise).abs();
-    let (small, large) = (c0.min(c1), c0.max(c1));
-    if large <= 1.5 * small {
-        large / (step * step)
-    } else {
-        f64::INFINITY
-    }
-}
-
-/// Safety factor on the estimate of the fourth derivative in
-/// [`interpolation_error_k`] (checked over the whole tables by
-/// `tests::fourth_derivative_bound_holds_over_the_tables`).
-pub(super) const FOURTH_SAFETY: f64 = 4.0;
-
-/// A bound, K, on how far the root of the cubic Hermite interpolant through
-/// `(y0, slope m0)` and `(y1, m1)` (slopes per node spacing `step`, K) lies
-/// from the root of the function it interpolates, within the interval;
-/// infinite where the estimate below does not hold.
+/// What an interval of a table bounds, from the cubic Hermite interpolant
+/// through `(y0, slope m0)` at 0 and `(y1, m1)` at 1 (slopes per node spacing
+/// `step`, K): `(curvature, error_k)` as [`TableStart`] keeps them, both
+/// infinite when the interpolant's second derivative at one end exceeds the
+/// other's in magnitude by more than a factor 1.5 (the curvature changes
+/// fast, as next to the boiling point, and the ends bound nothing).
 ///
-/// The interpolant's error is at most `M4 step^4 / 384` for `|f''''| <= M4`
-/// over the interval (the cubic Hermite remainder), and the root moves by at
-/// most that over the least slope. The balance's second derivative grows
-/// nearly like an exponential (the vapour pressure), for which
-/// `f'''' = f'''^2 / f''` exactly: with the interpolant's (constant) third
-/// derivative and its second derivatives at the two ends, of one sign and
-/// within a factor 1.5 of each other, `M4` is taken as [`FOURTH_SAFETY`]
-/// times that ratio at the smaller end.
-fn interpolation_error_k((y0, m0): (f64, f64), (y1, m1): (f64, f64), step: f64) -> f64 {
+/// The curvature is the larger magnitude of that second derivative at the
+/// two ends (it is linear in between), per K^2.
+///
+/// `error_k` bounds how far the interpolant's root lies from the root of the
+/// function it interpolates, within the interval, K. The interpolant's error
+/// is at most `M4 step^4 / 384` for `|f''''| <= M4` over the interval (the
+/// cubic Hermite remainder), and the root moves by at most that over the
+/// least slope. The balance's second derivative grows nearly like an
+/// exponential (the vapour pressure), for which `f'''' = f'''^2 / f''`
+/// exactly: with the interpolant's (constant) third derivative and its second
+/// derivatives at the two ends, of one sign, `M4` is taken as
+/// [`FOURTH_SAFETY`] times that ratio at the smaller end; infinite when the
+/// ends differ in sign or a slope is not positive.
+fn interval_bounds((y0, m0): (f64, f64), (y1, m1): (f64, f64), step: f64) -> (f64, f64) {
     let rise = y1 - y0;
-    // Second derivatives at the two ends and the third, per step^2 and step^3.
+    // Second derivatives at the two ends, per step^2.
     let c0 = 6.0 * rise - 4.0 * m0 - 2.0 * m1;
     let c1 = 2.0 * m0 + 4.0 * m1 - 6.0 * rise;
     let (small, large) = (c0.abs().min(c1.abs()), c0.abs().max(c1.abs()));
+    let curvature = if large <= 1.5 * small {
+        large / (step * step)
+    } else {
+        return (f64::INFINITY, f64::INFINITY);
+    };
     let least_slope = m0.min(m1);
-    if !(c0 * c1 > 0.0 && large <= 1.5 * small && least_slope > 0.0) {
-        return f64::INFINITY;
+    if !(c0 * c1 > 0.0 && least_slope > 0.0) {
+        return (curvature, f64::INFINITY);
     }
+    // The third derivative per step^3, and the fourth's estimate per step^4.
     let third = c1 - c0;
     let fourth = FOURTH_SAFETY * third * third / small;
     // Error in the table's units over the slope per step, in steps, to K.
-    fourth * (1.0 / 384.0) / least_slope * step
+    (curvature, fourth * (1.0 / 384.0) / least_slope * step)
 }
+
+/// Safety factor on the estimate of the fourth derivative in
+/// [`interval_bounds`] (checked over the whole tables by
+/// `tests::table_root_is_within_its_bound`).
+pub(super) const FOURTH_SAFETY: f64 = 4.0;
 
 /// The s in [0, 1] where the cubic Hermite interpolant through `(y0, slope m0)`
 /// at 0 and `(y1, m1)` at 1 equals `y` (`y0 <= y <= y1`, increasing), by Newton
@@ -472,7 +470,7 @@ mod tests {
                         continue;
                     };
                     total += 1;
-                    let bound = interval_curvature((a.0, a.1 * STEP), (b.0, b.1 * STEP), STEP);
+                    let (bound, _) = interval_bounds((a.0, a.1 * STEP), (b.0, b.1 * STEP), STEP);
                     if !bound.is_finite() || (!ice && grid.origin + k as f64 * STEP < sat::T_TRIPLE)
                     {
                         continue;
@@ -510,7 +508,7 @@ mod tests {
         assert!(worst > 0.0);
     }
 
-    /// The bound on the table's root ([`interpolation_error_k`]) holds: for
+    /// The bound on the table's root ([`interval_bounds`]) holds: for
     /// the balance's exact value at 9 points inside each sampled interval
     /// ([`sampled_intervals`]) of both wet-bulb tables at pressures across
     /// the engine's whole range, the table's root lies within the bound of
