@@ -894,11 +894,7 @@ fn air_state(args: &mut Args) -> Result<Value, Diagnostic> {
         call: args.call_span,
         given: Given::Few(few, spans_len),
     };
-    let t = match args.take_si_at(
-        const { air_param("T") },
-        Dim::TEMPERATURE,
-        Kind::AbsoluteTemperature,
-    ) {
+    let t = match args.take_si_at(T_AT, Dim::TEMPERATURE, Kind::AbsoluteTemperature) {
         Some(k) => ThermodynamicTemperature::new::<kelvin>(k),
         None => temperature(args, "T")?,
     };
