@@ -128,19 +128,16 @@ impl PressureCache {
             wet_bulb_cap_k: wet_bulb_cap_k(p)?,
         };
         let cap = limits.wet_bulb_cap_k;
-        let count = |from: f64, to: f64, step: f64| {
-            if to >= from {
-                ((to - from) / step + 1e-9).floor() as usize + 1
-            } else {
-                0
-            }
-        };
         let lowest = sat::T_MIN_SATURATION;
         Ok(PressureCache {
             limits,
-            liquid: Grid::new(T_ZERO_C, STEP, count(T_ZERO_C, cap, STEP)),
-            ice: Grid::new(lowest, STEP, count(lowest, T_ZERO_C.min(cap), STEP)),
-            saturation: Grid::new(lowest, SATURATION_STEP, count(lowest, cap, SATURATION_STEP)),
+            liquid: Grid::new(T_ZERO_C, STEP, node_count(T_ZERO_C, cap, STEP)),
+            ice: Grid::new(lowest, STEP, node_count(lowest, T_ZERO_C.min(cap), STEP)),
+            saturation: Grid::new(
+                lowest,
+                SATURATION_STEP,
+                node_count(lowest, cap, SATURATION_STEP),
+            ),
             lowest_pvs: sat::saturated_vapour_pressure(lowest, p),
         })
     }
@@ -188,6 +185,16 @@ impl PressureCache {
         self.saturation
             .invert(ln_pv, rough, &(saturation, |_| (0.0, 0.0)))
             .map(|start| start.t)
+    }
+}
+
+/// Nodes of a table from `from` to `to` (K) every `step` (K), both ends
+/// included (`to` within rounding); none when `to` is below `from`.
+fn node_count(from: f64, to: f64, step: f64) -> usize {
+    if to >= from {
+        ((to - from) / step + 1e-9).floor() as usize + 1
+    } else {
+        0
     }
 }
 
@@ -539,19 +546,16 @@ mod tests {
                     } else {
                         (T_ZERO_C, cap)
                     };
-                    if top < origin {
+                    let len = node_count(origin, top, step);
+                    if len == 0 {
                         continue;
                     }
-                    let len = ((top - origin) / step + 1e-9).floor() as usize + 1;
                     let mut grid = Grid::new(origin, step, len);
                     let edge = (2.0 / step) as usize;
                     let (mut tight, mut total) = (0, 0);
                     for k in sampled_intervals(len, step) {
-                        if !ice && origin + k as f64 * step < sat::T_TRIPLE {
-                            continue;
-                        }
                         // Away from the two ends (the share of intervals whose bound is tight).
-                        let inner = (edge..len - 1 - edge).contains(&k);
+                        let inner = (edge..(len - 1).saturating_sub(edge)).contains(&k);
                         total += usize::from(inner);
                         let mut all_tight = true;
                         for i in 1..=9 {
@@ -562,7 +566,6 @@ mod tests {
                             };
                             let start = grid.bounded_where_smooth(start, ice);
                             all_tight &= start.error_k <= TABLE_MAX_ERROR;
-
                             if !start.error_k.is_finite() {
                                 continue;
                             }
