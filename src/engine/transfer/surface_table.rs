@@ -55,15 +55,27 @@ pub(super) struct Interpolated {
 }
 
 /// The nodes at one pressure.
-struct Table {
+pub(super) struct Table {
     /// Total pressure, Pa (compared by its bits).
     p: f64,
     step: f64,
+    /// `1 / step`, 1/K.
+    per_step: f64,
     /// Number of nodes.
     len: usize,
-    /// The saturated side at node k in page `k / PAGE`: `w` NaN until
-    /// filled, infinite where saturated air does not exist.
-    pages: Vec<Option<Box<[SaturatedSurface; PAGE]>>>,
+    /// Node k in page `k / PAGE`: `w` NaN until filled, infinite where
+    /// saturated air does not exist.
+    pages: Vec<Option<Box<[Node; PAGE]>>>,
+}
+
+/// The saturated side at a node, its slopes per node spacing (as the
+/// interpolant takes them).
+#[derive(Clone, Copy, Debug)]
+struct Node {
+    w: f64,
+    w_slope: f64,
+    latent: f64,
+    latent_slope: f64,
 }
 
 thread_local! {
@@ -71,20 +83,17 @@ thread_local! {
     static TABLE: RefCell<Option<Table>> = const { RefCell::new(None) };
 }
 
-/// The saturated side at surface temperature `ts` (K) and total pressure `p`
-/// (Pa) from this thread's table (replaced when `p` differs from the last
-/// pressure used), with its error bounds; `None` where the table does not
-/// apply (outside it, across the ice-liquid join, where saturated air does
-/// not exist at a node, or where the growth of the humidity ratio is not
-/// smooth enough for its bound): the caller then evaluates exactly.
-pub(super) fn interpolated(ts: f64, p: f64) -> Option<Interpolated> {
+/// Run `f` on this thread's table of total pressure `p` (Pa), replaced when
+/// `p` differs from the last pressure used. `f` must not use the table
+/// through this function itself.
+pub(super) fn with_table<R>(p: f64, f: impl FnOnce(&mut Table) -> R) -> R {
     TABLE.with(|cell| {
         let mut cell = cell.borrow_mut();
         let table = match cell.as_mut() {
             Some(table) if table.p.to_bits() == p.to_bits() => table,
             _ => cell.insert(Table::new(p, STEP)),
         };
-        table.at(ts)
+        f(table)
     })
 }
 
@@ -94,6 +103,7 @@ impl Table {
         Table {
             p,
             step,
+            per_step: 1.0 / step,
             len,
             pages: (0..len.div_ceil(PAGE)).map(|_| None).collect(),
         }
@@ -102,7 +112,7 @@ impl Table {
     /// Node k, filled on first use; `None` where saturated air does not
     /// exist there.
     #[inline(always)]
-    fn node(&mut self, k: usize) -> Option<SaturatedSurface> {
+    fn node(&mut self, k: usize) -> Option<Node> {
         let stored = match &self.pages[k / PAGE] {
             Some(page) if !page[k % PAGE].w.is_nan() => page[k % PAGE],
             _ => self.fill_node(k),
@@ -113,33 +123,44 @@ impl Table {
     /// Fill node k on first use, allocating its page if need be.
     #[cold]
     #[inline(never)]
-    fn fill_node(&mut self, k: usize) -> SaturatedSurface {
-        let t = ORIGIN + k as f64 * self.step;
-        let p = self.p;
+    fn fill_node(&mut self, k: usize) -> Node {
+        let step = self.step;
+        let t = ORIGIN + k as f64 * step;
+        let node = match SaturatedSurface::at(t, self.p) {
+            Some(x) => Node {
+                w: x.w,
+                w_slope: x.dw * step,
+                latent: x.latent,
+                latent_slope: x.dlatent * step,
+            },
+            None => Node {
+                w: f64::INFINITY,
+                w_slope: f64::INFINITY,
+                latent: f64::INFINITY,
+                latent_slope: f64::INFINITY,
+            },
+        };
         let page = self.pages[k / PAGE].get_or_insert_with(|| {
-            let unset = SaturatedSurface {
+            let unset = Node {
                 w: f64::NAN,
-                dw: f64::NAN,
+                w_slope: f64::NAN,
                 latent: f64::NAN,
-                dlatent: f64::NAN,
+                latent_slope: f64::NAN,
             };
             Box::new([unset; PAGE])
         });
-        let missing = SaturatedSurface {
-            w: f64::INFINITY,
-            dw: f64::INFINITY,
-            latent: f64::INFINITY,
-            dlatent: f64::INFINITY,
-        };
-        page[k % PAGE] = SaturatedSurface::at(t, p).unwrap_or(missing);
-        page[k % PAGE]
+        page[k % PAGE] = node;
+        node
     }
 
-    /// The interpolated side at `ts` (K), as [`interpolated`] gives it.
+    /// The saturated side at surface temperature `ts` (K) from the table,
+    /// with its error bounds; `None` where the table does not apply (outside
+    /// it, across the ice-liquid join, where saturated air does not exist at
+    /// a node, or where the growth of the humidity ratio is not smooth
+    /// enough for its bound): the caller then evaluates exactly.
     #[inline]
-    fn at(&mut self, ts: f64) -> Option<Interpolated> {
-        let step = self.step;
-        let x = (ts - ORIGIN) / step;
+    pub(super) fn at(&mut self, ts: f64) -> Option<Interpolated> {
+        let x = (ts - ORIGIN) * self.per_step;
         if x.is_nan() || x < 0.0 {
             return None;
         }
@@ -147,24 +168,26 @@ impl Table {
         if k + 1 >= self.len {
             return None;
         }
+        let step = self.step;
         let lower = ORIGIN + k as f64 * step;
         if lower < T_TRIPLE && lower + step > T_ZERO_C {
             return None;
         }
         let (a, b) = (self.node(k)?, self.node(k + 1)?);
-        let s = ((ts - lower) / step).clamp(0.0, 1.0);
-        let w_ends = ((a.w, a.dw * step), (b.w, b.dw * step));
-        let latent_ends = ((a.latent, a.dlatent * step), (b.latent, b.dlatent * step));
+        // In [0, 1): the position within the interval.
+        let s = x - k as f64;
+        let w_ends = ((a.w, a.w_slope), (b.w, b.w_slope));
         let fourth = hermite::fourth_estimate(hermite::end_curvatures(w_ends.0, w_ends.1))?;
         let (w, dw) = hermite::value_and_slope(w_ends.0, w_ends.1, s);
-        let (latent, dlatent) = hermite::value_and_slope(latent_ends.0, latent_ends.1, s);
+        let (latent, dlatent) =
+            hermite::value_and_slope((a.latent, a.latent_slope), (b.latent, b.latent_slope), s);
         let step2 = step * step;
         Some(Interpolated {
             side: SaturatedSurface {
                 w,
-                dw: dw / step,
+                dw: dw * self.per_step,
                 latent,
-                dlatent: dlatent / step,
+                dlatent: dlatent * self.per_step,
             },
             w_error: fourth * (1.0 / 384.0),
             latent_error: LATENT_FOURTH_MAX * step2 * step2 * (1.0 / 384.0),
@@ -300,6 +323,7 @@ mod tests {
     #[test]
     fn where_the_table_does_not_apply() {
         let p = 101_325.0;
+        let interpolated = |ts: f64, p: f64| with_table(p, |table| table.at(ts));
         assert!(interpolated(T_ZERO_C + 0.005, p).is_none());
         assert!(interpolated(ORIGIN - 0.5, p).is_none());
         assert!(interpolated(T_MAX_EXACT_SLOPE + 0.5, p).is_none());

@@ -20,7 +20,7 @@
 //! iteration.
 
 use super::super::surface_side::{SaturatedSurface, T_MAX_EXACT_SLOPE};
-use super::super::surface_table;
+use super::super::surface_table::{with_table, Table};
 use super::super::Correlated;
 use super::{
     film_colburn_factor, AirState, Balance, Sample, FILM_TOL_K, MAX_FILM_PASSES, STEFAN_BOLTZMANN,
@@ -64,13 +64,10 @@ impl Balance {
         -(self.h + self.u_bottom) - rad
     }
 
-    /// The balance at `ts`, its saturated side from the table where it
-    /// applies (`table`) and exactly elsewhere.
-    fn point(&self, ts: f64, table: bool) -> Option<Point> {
-        let (side, w_error, latent_error) = match table
-            .then(|| surface_table::interpolated(ts, self.p))
-            .flatten()
-        {
+    /// The balance at `ts`, its saturated side from `table` (of this
+    /// pressure) where that applies and exactly elsewhere.
+    fn point(&self, ts: f64, table: Option<&mut Table>) -> Option<Point> {
+        let (side, w_error, latent_error) = match table.and_then(|table| table.at(ts)) {
             Some(x) => (x.side, x.w_error, x.latent_error),
             None => (SaturatedSurface::at(ts, self.p)?, 0.0, 0.0),
         };
@@ -214,17 +211,31 @@ fn newton_surface(
     last: &mut Option<Point>,
     table: bool,
 ) -> Option<f64> {
+    if !table {
+        return newton_on(b, hi, start, last, None);
+    }
+    with_table(b.p, |table| newton_on(b, hi, start, last, Some(table)))
+}
+
+/// [`newton_surface`] with the saturated side's table (`None`: exact only).
+fn newton_on(
+    b: &Balance,
+    hi: f64,
+    start: f64,
+    last: &mut Option<Point>,
+    mut table: Option<&mut Table>,
+) -> Option<f64> {
     let f = |ts: f64| {
         let mut x = match *last {
             Some(x) if x.ts == ts => x,
-            _ => match b.point(ts, table) {
+            _ => match b.point(ts, table.as_deref_mut()) {
                 Some(x) => *last.insert(x),
                 None => return (f64::NAN, f64::NAN),
             },
         };
         let (mut r, mut dr) = b.residual_and_slope(&x);
         if !b.close_enough(&x, dr) {
-            x = match b.point(ts, false) {
+            x = match b.point(ts, None) {
                 Some(x) => *last.insert(x),
                 None => return (f64::NAN, f64::NAN),
             };
