@@ -27,8 +27,8 @@ use super::{
     TS_TOL,
 };
 use crate::engine::air::saturation::{
-    if97_saturation_temperature, ln_water, ln_water_hyland_wexler, ln_water_slope, P_CRITICAL,
-    T_CRITICAL, T_MIN_SATURATION, T_TRIPLE, T_ZERO_C,
+    if97_saturation_temperature, ln_water, ln_water_hyland_wexler_from_ln, ln_water_slope,
+    P_CRITICAL, T_CRITICAL, T_MIN_SATURATION, T_TRIPLE, T_ZERO_C,
 };
 use crate::engine::air::thermo::EPSILON;
 use crate::engine::solve::newton_exact;
@@ -183,11 +183,15 @@ thread_local! {
     /// (a worksheet sweep repeats the air temperature along its humidity
     /// axis): the same value as computing it again.
     static LAST_TOP: Cell<Option<([u64; 2], f64)>> = const { Cell::new(None) };
-    /// The rough model's saturation ([`rough_saturation`]) at the last
+    /// The rough model's saturation ([`rough_saturation`]), and ln T, at the last
     /// surface temperature its search started from on this thread (the air
     /// temperature, or just below the top).
-    static LAST_ROUGH_START: Cell<Option<(u64, (f64, f64))>> = const { Cell::new(None) };
+    static LAST_ROUGH_START: Cell<Option<(u64, RoughStart)>> = const { Cell::new(None) };
 }
+
+/// The rough saturation at the start of the rough model's search, with
+/// `ln T` there: `(p_ws, d ln p_ws / dT, ln T)`.
+type RoughStart = (f64, f64, f64);
 
 /// [`highest_surface_temperature`] of the hotter of air and wall `hottest`
 /// (K) at total pressure `p` (Pa).
@@ -290,7 +294,7 @@ impl RoughRoot {
     /// need not be evaluated again; the change of k_Y between the rough
     /// factor and the film pass's is a few per cent).
     fn with_k_y(&self, from: f64, to: f64) -> f64 {
-        self.ts - self.dphi_dln_k * (to / from).ln() / self.dphi_dts
+        self.ts - self.dphi_dln_k * ln_near_one(to / from) / self.dphi_dts
     }
 }
 
@@ -312,11 +316,15 @@ fn rough_surface_temperature(b: &Balance, k_y: f64, hi: f64) -> RoughRoot {
         dphi_dts: f64::INFINITY,
         dphi_dln_k: 0.0,
     };
+    // The start's ln T, for the later iterates' ln T by ln_near_one.
+    let (start, mut ln_start) = (root.ts, f64::NAN);
     for i in 0..12 {
         let saturation = if i == 0 {
-            kept_rough_saturation(root.ts)
+            let (pvs, dln_pws, ln_t) = kept_rough_saturation(root.ts);
+            ln_start = ln_t;
+            (pvs, dln_pws)
         } else {
-            rough_saturation(root.ts)
+            rough_saturation(root.ts, ln_start + ln_near_one(root.ts / start))
         };
         let Some((phi, slope, dln_k)) = rough_residual(b, k_y, root.ts, saturation) else {
             break;
@@ -344,22 +352,45 @@ fn rough_surface_temperature(b: &Balance, k_y: f64, hi: f64) -> RoughRoot {
 }
 
 /// The rough model's saturated vapour pressure at `ts` (K), Pa, and
-/// `d ln p_ws / dT` there, 1/K.
-fn rough_saturation(ts: f64) -> (f64, f64) {
-    (1.005 * ln_water_hyland_wexler(ts).exp(), ln_water_slope(ts))
+/// `d ln p_ws / dT` there, 1/K, given `ln_t`, ln `ts` (or a value close to
+/// it: the rough model's later iterates take it from the start's by
+/// [`ln_near_one`], within 6e-9).
+fn rough_saturation(ts: f64, ln_t: f64) -> (f64, f64) {
+    (
+        1.005 * ln_water_hyland_wexler_from_ln(ts, ln_t).exp(),
+        ln_water_slope(ts),
+    )
 }
 
-/// [`rough_saturation`], kept for the last `ts` on this thread.
-fn kept_rough_saturation(ts: f64) -> (f64, f64) {
+/// [`rough_saturation`] with the exact ln `ts`, and that ln, kept for the
+/// last `ts` on this thread.
+fn kept_rough_saturation(ts: f64) -> RoughStart {
     let key = ts.to_bits();
     LAST_ROUGH_START.with(|cell| match cell.get() {
         Some((k, kept)) if k == key => kept,
         _ => {
-            let fresh = rough_saturation(ts);
+            let ln_t = ts.ln();
+            let (pvs, dln_pws) = rough_saturation(ts, ln_t);
+            let fresh = (pvs, dln_pws, ln_t);
             cell.set(Some((key, fresh)));
             fresh
         }
     })
+}
+
+/// `ln x` for the rough model: by the series `2 atanh z`,
+/// `z = (x - 1) / (x + 1)`, to `z^7` for x in [0.5, 2] (within 3e-9 for x in
+/// [0.75, 1.33], 2e-5 at the ends; exactly 0 at 1, increasing), by the
+/// logarithm elsewhere. Its ratios (a surface temperature to the air's, one
+/// mass-transfer coefficient to another, supply to demand near the root)
+/// are mostly close to 1, where the series costs a fraction of a logarithm.
+fn ln_near_one(x: f64) -> f64 {
+    if !(0.5..=2.0).contains(&x) {
+        return x.ln();
+    }
+    let z = (x - 1.0) / (x + 1.0);
+    let z2 = z * z;
+    2.0 * z * (1.0 + z2 * (1.0 / 3.0 + z2 * (0.2 + z2 * (1.0 / 7.0))))
 }
 
 /// The log-ratio residual of the rough model at `ts` and its slopes in Ts
@@ -386,7 +417,7 @@ fn rough_residual(
         return None;
     }
     let ddemand = b.heat_in_slope(ts) + k_y * dlatent * b.w_air;
-    let phi = (k_y * latent * ws / demand).ln();
+    let phi = ln_near_one(k_y * latent * ws / demand);
     let heat_share = (conv + rad + cond) / demand;
     Some((
         phi,
@@ -595,7 +626,9 @@ mod tests {
     /// temperature of the solve that evaluates it exactly within the solve's
     /// tolerance (1e-9 K; the table moves the root by at most 1e-12 K, and
     /// the two take the same steps up to that), and every other field within
-    /// 1e-12 relative, over the grid of states, extra heat and h of
+    /// 1e-10 relative (the rate is proportional to `w_s - w`, small in
+    /// very humid air: 1.0e-12 relative found at w = 0.5 kg/kg, 65 degC),
+    /// over the grid of states, extra heat and h of
     /// `newton_agrees_with_tightly_converged_reference`; both hand over
     /// for the same states.
     #[test]
@@ -629,7 +662,7 @@ mod tests {
                         (fast.k_y.value, exact.k_y.value),
                         (fast.w_surface_kg_per_kg_da, exact.w_surface_kg_per_kg_da),
                     ] {
-                        assert!((a - b).abs() <= 1e-12 * b.abs(), "{case}: {a} {b}");
+                        assert!((a - b).abs() <= 1e-10 * b.abs(), "{case}: {a} {b}");
                     }
                     compared += 1;
                 }
@@ -637,6 +670,29 @@ mod tests {
         }
         assert!(compared > 500, "{compared}");
         eprintln!("table against exact side: worst Ts {worst_ts:e} K over {compared}");
+    }
+
+    /// The rough logarithm: within its stated error of `ln` (6e-9 on
+    /// [0.75, 1.33], 2e-5 on [0.5, 2]), exactly 0 at 1, increasing, and the
+    /// logarithm itself outside [0.5, 2].
+    #[test]
+    fn ln_near_one_is_close_to_ln() {
+        assert_eq!(ln_near_one(1.0), 0.0);
+        let mut last = f64::NEG_INFINITY;
+        for i in 0..=30_000 {
+            let x = 0.4 + f64::from(i) * 1e-4;
+            let (got, want) = (ln_near_one(x), x.ln());
+            let allowed = if (0.75..=1.0 / 0.75).contains(&x) {
+                6e-9
+            } else if (0.5..=2.0).contains(&x) {
+                2e-5
+            } else {
+                0.0
+            };
+            assert!((got - want).abs() <= allowed, "{x}: {got} {want}");
+            assert!(got > last, "{x}");
+            last = got;
+        }
     }
 
     /// The public function returns the Newton solve where it applies and the
@@ -697,10 +753,11 @@ mod tests {
                         for _ in 0..repeat {
                             let kept = highest_surface_temperature(&b);
                             assert_eq!(kept.to_bits(), highest_of(hottest, p).to_bits());
-                            let (kept, fresh) = (kept_rough_saturation(t), rough_saturation(t));
+                            let kept = kept_rough_saturation(t);
+                            let fresh = rough_saturation(t, t.ln());
                             assert_eq!(
-                                [kept.0, kept.1].map(f64::to_bits),
-                                [fresh.0, fresh.1].map(f64::to_bits)
+                                [kept.0, kept.1, kept.2].map(f64::to_bits),
+                                [fresh.0, fresh.1, t.ln()].map(f64::to_bits)
                             );
                             checked += 1;
                         }
