@@ -5,6 +5,7 @@ pub mod air;
 pub mod diffusion;
 pub mod dryers;
 pub mod fit;
+mod hermite;
 pub mod integrate;
 pub mod kinetics;
 pub mod minimise;

@@ -13,6 +13,7 @@ pub mod film;
 pub mod groups;
 pub mod jets;
 mod surface_side;
+mod surface_table;
 pub mod wet_surface;
 
 use std::fmt;

@@ -27,6 +27,7 @@ use super::saturation::{self as sat, T_ZERO_C};
 use super::state::{ws_of, SaturatedSide};
 use super::thermo;
 use super::AirError;
+use crate::engine::hermite;
 
 /// Where humid air at one total pressure stops being saturable.
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -380,34 +381,24 @@ impl Grid {
 /// exponential (the vapour pressure), for which `f'''' = f'''^2 / f''`
 /// exactly: with the interpolant's (constant) third derivative and its second
 /// derivatives at the two ends, of one sign, `M4` is taken as
-/// [`FOURTH_SAFETY`] times that ratio at the smaller end; infinite when the
+/// [`hermite::FOURTH_SAFETY`] times that ratio at the smaller end; infinite when the
 /// ends differ in sign or a slope is not positive.
-fn interval_bounds((y0, m0): (f64, f64), (y1, m1): (f64, f64), step: f64) -> (f64, f64) {
-    let rise = y1 - y0;
-    // Second derivatives at the two ends, per step^2.
-    let c0 = 6.0 * rise - 4.0 * m0 - 2.0 * m1;
-    let c1 = 2.0 * m0 + 4.0 * m1 - 6.0 * rise;
+fn interval_bounds(a: (f64, f64), b: (f64, f64), step: f64) -> (f64, f64) {
+    let (c0, c1) = hermite::end_curvatures(a, b);
     let (small, large) = (c0.abs().min(c1.abs()), c0.abs().max(c1.abs()));
     let curvature = if large <= 1.5 * small {
         large / (step * step)
     } else {
         return (f64::INFINITY, f64::INFINITY);
     };
-    let least_slope = m0.min(m1);
-    if !(c0 * c1 > 0.0 && least_slope > 0.0) {
-        return (curvature, f64::INFINITY);
-    }
-    // The third derivative per step^3, and the fourth's estimate per step^4.
-    let third = c1 - c0;
-    let fourth = FOURTH_SAFETY * third * third / small;
+    let least_slope = a.1.min(b.1);
+    let fourth = match hermite::fourth_estimate((c0, c1)) {
+        Some(fourth) if least_slope > 0.0 => fourth,
+        _ => return (curvature, f64::INFINITY),
+    };
     // Error in the table's units over the slope per step, in steps, to K.
     (curvature, fourth * (1.0 / 384.0) / least_slope * step)
 }
-
-/// Safety factor on the estimate of the fourth derivative in
-/// [`interval_bounds`] (checked over the whole tables by
-/// `tests::table_root_is_within_its_bound`).
-pub(super) const FOURTH_SAFETY: f64 = 4.0;
 
 /// The s in [0, 1] where the cubic Hermite interpolant through `(y0, slope m0)`
 /// at 0 and `(y1, m1)` at 1 equals `y` (`y0 <= y <= y1`, increasing), by Newton
@@ -420,12 +411,7 @@ fn inverse_hermite(y: f64, (y0, m0): (f64, f64), (y1, m1): (f64, f64)) -> f64 {
     }
     let mut s = ((y - y0) / rise).clamp(0.0, 1.0);
     for _ in 0..2 {
-        let s2 = s * s;
-        let s3 = s2 * s;
-        let value = y0 + m0 * (s3 - 2.0 * s2 + s) + rise * (3.0 * s2 - 2.0 * s3) + m1 * (s3 - s2);
-        let slope = m0 * (3.0 * s2 - 4.0 * s + 1.0)
-            + rise * (6.0 * s - 6.0 * s2)
-            + m1 * (3.0 * s2 - 2.0 * s);
+        let (value, slope) = hermite::value_and_slope((y0, m0), (y1, m1), s);
         if slope <= 0.0 {
             break;
         }

@@ -79,7 +79,7 @@ pub fn ln_water_hyland_wexler(t: f64) -> f64 {
 /// [`ln_water_hyland_wexler`] given `ln_t = ln T` (the same arithmetic, so
 /// the same bits when `ln_t` is `t.ln()`).
 #[inline]
-fn ln_water_hyland_wexler_from_ln(t: f64, ln_t: f64) -> f64 {
+pub(crate) fn ln_water_hyland_wexler_from_ln(t: f64, ln_t: f64) -> f64 {
     let c = &HW_WATER;
     c[0] * (1.0 / t) + c[1] + t * (c[2] + t * (c[3] + t * c[4])) + c[5] * ln_t
 }
