@@ -361,6 +361,32 @@ impl Args {
         Some(si)
     }
 
+    /// The SI magnitude of the argument at parameter `index` when it is a
+    /// quantity of dimension `dim` that `accept` accepts, taken (dropped in
+    /// its place, not moved out). `None`, with nothing taken, for anything
+    /// else. For a built-in's common case: `accept` passes exactly what its
+    /// general path (taking the argument, [`Args::opt_spanned_at`], and its
+    /// own checks) would let through unchanged, so that path, run when this
+    /// gives `None`, gives the same value or reports what is wrong.
+    #[inline]
+    pub fn take_si_if(
+        &mut self,
+        index: usize,
+        dim: Dim,
+        accept: impl FnOnce(&Quantity) -> bool,
+    ) -> Option<f64> {
+        let slot = self.bound.get_mut(index)?;
+        let si = match slot {
+            Some(Arg {
+                value: Value::Quantity(q, _),
+                ..
+            }) if q.dim == dim && accept(q) => q.si,
+            _ => return None,
+        };
+        *slot = None;
+        Some(si)
+    }
+
     /// Was this argument given?
     pub fn has(&self, name: &str) -> bool {
         self.has_at(self.position(name))

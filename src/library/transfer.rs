@@ -410,8 +410,20 @@ fn positive(args: &mut Args, name: &str, dim: Dim) -> Result<f64, Diagnostic> {
     positive_at(args, args.position(name), dim)
 }
 
-/// [`positive`] for the parameter at `index`.
+/// [`positive`] for the parameter at `index`: a positive finite quantity
+/// of `dim` taken in place ([`Args::take_si_if`]), anything else the
+/// general way ([`positive_general`]), which reports it.
+#[inline]
 fn positive_at(args: &mut Args, index: usize, dim: Dim) -> Result<f64, Diagnostic> {
+    match args.take_si_if(index, dim, |q| is_positive(q.si)) {
+        Some(si) => Ok(si),
+        None => positive_general(args, index, dim),
+    }
+}
+
+/// [`positive_at`] taking the argument and checking it step by step.
+#[inline(never)]
+fn positive_general(args: &mut Args, index: usize, dim: Dim) -> Result<f64, Diagnostic> {
     let (q, span) = args.required_spanned_at(index, dim)?;
     check_positive(span, args.builtin.params[index].name, q)
 }
@@ -420,17 +432,42 @@ fn opt_positive(args: &mut Args, name: &str, dim: Dim) -> Result<Option<f64>, Di
     opt_positive_at(args, args.position(name), dim)
 }
 
-/// [`opt_positive`] for the parameter at `index`.
+/// [`opt_positive`] for the parameter at `index`: nothing given, or a
+/// positive finite quantity of `dim`, read without a search or a copy of
+/// the argument; anything else the general way, which reports it.
+#[inline]
 fn opt_positive_at(args: &mut Args, index: usize, dim: Dim) -> Result<Option<f64>, Diagnostic> {
+    if !args.has_at(index) {
+        return Ok(None);
+    }
+    match args.take_si_if(index, dim, |q| is_positive(q.si)) {
+        Some(si) => Ok(Some(si)),
+        None => opt_positive_general(args, index, dim),
+    }
+}
+
+/// [`opt_positive_at`] taking the argument and checking it step by step.
+#[inline(never)]
+fn opt_positive_general(
+    args: &mut Args,
+    index: usize,
+    dim: Dim,
+) -> Result<Option<f64>, Diagnostic> {
     match args.opt_spanned_at(index, dim)? {
         Some((q, span)) => check_positive(span, args.builtin.params[index].name, q).map(Some),
         None => Ok(None),
     }
 }
 
+/// What [`check_positive`] accepts: a positive finite magnitude.
+#[inline]
+fn is_positive(si: f64) -> bool {
+    si > 0.0 && si.is_finite()
+}
+
 #[inline]
 fn check_positive(span: Span, name: &str, q: Quantity) -> Result<f64, Diagnostic> {
-    if q.si > 0.0 && q.si.is_finite() {
+    if is_positive(q.si) {
         Ok(q.si)
     } else {
         Err(not_positive(span, name, q))
@@ -1168,12 +1205,31 @@ fn surface_record(args: &mut Args, s: WetSurface, h: f64) -> Record {
 }
 
 /// A dry-basis moisture content: kind Moisture or a plain number.
-/// (The parameter at `index`.)
+/// (The parameter at `index`.) What [`moisture_general`] accepts is taken
+/// in place ([`Args::take_si_if`]); anything else goes that way, which
+/// reports it.
+#[inline]
 fn moisture(args: &mut Args, index: usize) -> Result<f64, Diagnostic> {
+    match args.take_si_if(index, Dim::NONE, is_moisture) {
+        Some(x) => Ok(x),
+        None => moisture_general(args, index),
+    }
+}
+
+/// What [`moisture_general`] accepts unchanged: a finite moisture content
+/// of at least 0, of kind `Moisture` or a plain number.
+#[inline]
+fn is_moisture(q: &Quantity) -> bool {
+    matches!(q.kind, Kind::Moisture | Kind::Plain) && q.si.is_finite() && q.si >= 0.0
+}
+
+/// [`moisture`] taking the argument and checking it step by step.
+#[inline(never)]
+fn moisture_general(args: &mut Args, index: usize) -> Result<f64, Diagnostic> {
     let name = args.builtin.params[index].name;
     let (q, span) = args.required_spanned_at(index, Dim::NONE)?;
     match q.kind {
-        Kind::Moisture | Kind::Plain if q.si.is_finite() && q.si >= 0.0 => Ok(q.si),
+        _ if is_moisture(&q) => Ok(q.si),
         Kind::Moisture | Kind::Plain => Err(Diagnostic::error(
             span,
             format!(
@@ -1207,11 +1263,14 @@ fn constant_rate_time(args: &mut Args) -> Result<Value, Diagnostic> {
     let load = positive_at(args, CRT_LOAD, Dim::AREAL_DENSITY)?;
     let x1 = moisture(args, CRT_X1)?;
     let x2 = moisture(args, CRT_X2)?;
-    let (rc, _) = args.required_spanned_at(CRT_RC, Dim::MASS_FLUX)?;
+    let rc = match args.take_si_if(CRT_RC, Dim::MASS_FLUX, |_| true) {
+        Some(si) => si,
+        None => args.required_spanned_at(CRT_RC, Dim::MASS_FLUX)?.0.si,
+    };
     args.finish()?;
     let load =
         ArealMassDensity::new::<uom::si::areal_mass_density::kilogram_per_square_meter>(load);
-    let t = engine::constant_rate_time(load, x1, x2, mass_flux_si(rc.si))
+    let t = engine::constant_rate_time(load, x1, x2, mass_flux_si(rc))
         .map_err(|e| engine_error(args, e))?;
     Ok(shown!(t.get::<uom::si::time::second>(), Dim::TIME, "h"))
 }

@@ -425,3 +425,86 @@ fn arguments_read_by_position_are_blamed_by_name_and_span() {
         assert_eq!(start, want_start, "{want}");
     }
 }
+
+/// The readers with a shortcut (`positive_at`, `opt_positive_at`,
+/// `moisture`) give what their general paths give, value (bit for bit) or
+/// error, for quantities of every kind of case, and leave the argument
+/// taken exactly as the general path does.
+#[test]
+fn shortcut_readers_agree_with_their_general_paths() {
+    use super::*;
+    let b = find("constant_rate_time").expect("registered");
+    let span = Span {
+        file: 0,
+        start: 7,
+        end: 12,
+    };
+    let kinds = [
+        Kind::Plain,
+        Kind::Moisture,
+        Kind::HumidityRatio,
+        Kind::Fraction,
+        Kind::Activity,
+    ];
+    let magnitudes = [
+        1.6,
+        0.0,
+        -0.0,
+        -1.0,
+        f64::MIN_POSITIVE,
+        f64::INFINITY,
+        f64::NEG_INFINITY,
+        f64::NAN,
+    ];
+    let mut values = vec![Value::Bool(true), Value::Str("x".into())];
+    for dim in [Dim::NONE, Dim::AREAL_DENSITY, Dim::MASS_FLUX] {
+        for &kind in &kinds {
+            for &si in &magnitudes {
+                values.push(Value::Quantity(Quantity::new(si, dim, kind), None));
+            }
+        }
+    }
+    let args_with = |value: Option<&Value>, at: usize| {
+        let mut args = Args::unbound(b, Span::default());
+        if let Some(v) = value {
+            args.place(
+                at,
+                Arg {
+                    name: None,
+                    value: v.clone(),
+                    span,
+                },
+            );
+        }
+        args
+    };
+    type Reader = fn(&mut Args, usize) -> Result<Option<f64>, Diagnostic>;
+    let readers: [(Reader, Reader); 3] = [
+        (
+            |a, i| positive_at(a, i, Dim::AREAL_DENSITY).map(Some),
+            |a, i| positive_general(a, i, Dim::AREAL_DENSITY).map(Some),
+        ),
+        (
+            |a, i| opt_positive_at(a, i, Dim::AREAL_DENSITY),
+            |a, i| opt_positive_general(a, i, Dim::AREAL_DENSITY),
+        ),
+        (
+            |a, i| moisture(a, i).map(Some),
+            |a, i| moisture_general(a, i).map(Some),
+        ),
+    ];
+    let shown = |r: Result<Option<f64>, Diagnostic>| match r {
+        Ok(x) => format!("{:?}", x.map(f64::to_bits)),
+        Err(d) => format!("{d:?}"),
+    };
+    for (fast, general) in readers {
+        for at in [CRT_LOAD, CRT_X1] {
+            for value in values.iter().map(Some).chain([None]) {
+                let (mut a, mut g) = (args_with(value, at), args_with(value, at));
+                let (x, y) = (shown(fast(&mut a, at)), shown(general(&mut g, at)));
+                assert_eq!(x, y, "{value:?}");
+                assert_eq!(a.has_at(at), g.has_at(at), "{value:?}");
+            }
+        }
+    }
+}
