@@ -349,16 +349,7 @@ impl Args {
     /// this is a shortcut for the common case with the same outcome.
     #[inline]
     pub fn take_si_at(&mut self, index: usize, dim: Dim, kind: Kind) -> Option<f64> {
-        let slot = self.bound.get_mut(index)?;
-        let si = match slot {
-            Some(Arg {
-                value: Value::Quantity(q, _),
-                ..
-            }) => q.expect_kind(dim, kind).ok()?.si,
-            _ => return None,
-        };
-        *slot = None;
-        Some(si)
+        self.take_si_if(index, dim, |q| q.fits_kind(dim, kind))
     }
 
     /// The SI magnitude of the argument at parameter `index` when it is a
@@ -383,7 +374,7 @@ impl Args {
             }) if q.dim == dim && accept(q) => q.si,
             _ => return None,
         };
-        *slot = None;
+        drop_quantity(slot.take());
         Some(si)
     }
 
@@ -595,6 +586,22 @@ impl Args {
             )),
             None => Ok(()),
         }
+    }
+}
+
+/// Drop `arg`, a quantity taken from its slot, without calling the general
+/// drop of a [`Value`] (a call a study's point would make for each argument
+/// read): a quantity owns nothing to free (its display unit is a reference
+/// to data kept for the whole run), so it is forgotten; the argument's name,
+/// if it has one, is dropped as usual. Anything else is dropped as usual.
+#[inline]
+fn drop_quantity(arg: Option<Arg>) {
+    if let Some(Arg { name, value, .. }) = arg {
+        match value {
+            Value::Quantity(..) => std::mem::forget(value),
+            other => drop(other),
+        }
+        drop(name);
     }
 }
 
