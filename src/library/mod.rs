@@ -594,7 +594,7 @@ impl Args {
 /// read): a quantity owns nothing to free (its display unit is a reference
 /// to data kept for the whole run), so it is forgotten; the argument's name,
 /// if it has one, is dropped as usual. Anything else is dropped as usual.
-#[inline]
+#[inline(always)]
 fn drop_quantity(arg: Option<Arg>) {
     if let Some(Arg { name, value, .. }) = arg {
         match value {
