@@ -215,6 +215,19 @@ impl Args {
         }
     }
 
+    /// [`Args::place`] for an argument without a name (as the evaluator
+    /// binds them), built in its place.
+    #[inline]
+    pub fn place_value(&mut self, index: usize, value: Value, span: Span) {
+        if let Some(place) = self.bound.get_mut(index) {
+            *place = Some(Arg {
+                name: None,
+                value,
+                span,
+            });
+        }
+    }
+
     /// Keep `record`, a value this call returned before and nobody reads
     /// any more, for the next call to build its record in
     /// ([`Args::take_spare`]); replaces (drops) a spare not taken. A
