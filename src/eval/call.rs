@@ -119,7 +119,9 @@ impl Ctx<'_> {
             bound.dir = Some(self.sheet.shared_dir());
         }
         let result = catch_unwind(AssertUnwindSafe(|| (b.func)(bound)));
-        self.warnings.append(&mut bound.warnings);
+        if !bound.warnings.is_empty() {
+            self.warnings.append(&mut bound.warnings);
+        }
         match result {
             Ok(Ok(v)) => check_finite(v, b, span),
             Ok(Err(d)) => Err(d.into()),
@@ -183,16 +185,18 @@ fn misspelt_arg(b: &Builtin, n: &Ident) -> Diagnostic {
     d.with_hint(format!("arguments: {}", names.join(", ")))
 }
 
+#[inline]
 fn check_finite(v: Value, b: &Builtin, span: Span) -> Flow<Value> {
-    let bad = match &v {
-        Value::Quantity(q, _) => !q.si.is_finite(),
-        _ => false,
-    };
-    if bad {
-        let msg = format!("`{}` gave a result that is not a finite number", b.name);
-        return Err(Diagnostic::error(span, msg).into());
+    match &v {
+        Value::Quantity(q, _) if !q.si.is_finite() => Err(not_finite(b, span)),
+        _ => Ok(v),
     }
-    Ok(v)
+}
+
+#[cold]
+fn not_finite(b: &Builtin, span: Span) -> super::Stop {
+    let msg = format!("`{}` gave a result that is not a finite number", b.name);
+    Diagnostic::error(span, msg).into()
 }
 
 /// Bind arguments to a user function's parameters: positional, then by name.
@@ -244,4 +248,39 @@ fn bind_params(
             .with_hint(format!("call it as {name}({})", params.join(", "))));
     }
     Ok(frame)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::units::{Dim, Kind, Quantity};
+
+    /// A built-in's quantity result that is not finite is an error at the
+    /// call naming the built-in; anything else passes through unchanged.
+    #[test]
+    fn a_result_that_is_not_finite_is_an_error_at_the_call() {
+        let b = library::find("air").expect("air");
+        let span = Span {
+            file: 0,
+            start: 4,
+            end: 9,
+        };
+        let q = |x: f64| Value::Quantity(Quantity::new(x, Dim::NONE, Kind::Plain), None);
+        for x in [f64::NAN, f64::INFINITY, f64::NEG_INFINITY] {
+            match check_finite(q(x), b, span) {
+                Err(super::super::Stop::Error(d)) => {
+                    assert_eq!(d.message, "`air` gave a result that is not a finite number");
+                    assert_eq!(d.span, span);
+                }
+                other => panic!("{x}: {other:?}"),
+            }
+        }
+        for v in [q(-0.0), q(1e308), Value::Bool(true), Value::Str("x".into())] {
+            let shown = format!("{v:?}");
+            match check_finite(v, b, span) {
+                Ok(back) => assert_eq!(format!("{back:?}"), shown),
+                Err(_) => panic!("{shown} refused"),
+            }
+        }
+    }
 }

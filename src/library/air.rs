@@ -17,7 +17,7 @@ use uom::si::pressure::pascal;
 use uom::si::thermodynamic_temperature::kelvin;
 use uom::si::volume_rate::cubic_meter_per_second;
 
-use super::{p, type_word, Args, Builtin, Param};
+use super::{const_eq, p, param_at, type_word, Args, Builtin, Param};
 use crate::diag::{Diagnostic, Span};
 use crate::engine::air::{self, AirError, AirState, ProcessOutcome, Stream};
 use crate::engine::transport::Transport;
@@ -482,14 +482,7 @@ fn opt_kind(args: &mut Args, name: &str, dim: Dim, kind: Kind) -> Result<Option<
 /// The position of parameter `name` in [`AIR_PARAMS`] (evaluated at compile
 /// time, where a name not in the list is an error).
 const fn air_param(name: &str) -> usize {
-    let mut i = 0;
-    while i < AIR_PARAMS.len() {
-        if const_eq(AIR_PARAMS[i].name, name) {
-            return i;
-        }
-        i += 1;
-    }
-    panic!("not a parameter of air")
+    param_at(AIR_PARAMS, name)
 }
 
 /// [`opt_kind`] for `air`'s parameter `name` at position `index` of
@@ -697,21 +690,6 @@ const fn field_index(name: &str) -> usize {
         i += 1;
     }
     panic!("not a field of an air record")
-}
-
-const fn const_eq(a: &str, b: &str) -> bool {
-    let (a, b) = (a.as_bytes(), b.as_bytes());
-    if a.len() != b.len() {
-        return false;
-    }
-    let mut i = 0;
-    while i < a.len() {
-        if a[i] != b[i] {
-            return false;
-        }
-        i += 1;
-    }
-    true
 }
 
 /// The fields of [`AIR_RECORD_FIELDS`] a caller reads, one bit each by

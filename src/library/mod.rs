@@ -215,6 +215,19 @@ impl Args {
         }
     }
 
+    /// [`Args::place`] for an argument without a name (as the evaluator
+    /// binds them), built in its place.
+    #[inline]
+    pub fn place_value(&mut self, index: usize, value: Value, span: Span) {
+        if let Some(place) = self.bound.get_mut(index) {
+            *place = Some(Arg {
+                name: None,
+                value,
+                span,
+            });
+        }
+    }
+
     /// Keep `record`, a value this call returned before and nobody reads
     /// any more, for the next call to build its record in
     /// ([`Args::take_spare`]); replaces (drops) a spare not taken. A
@@ -310,7 +323,12 @@ impl Args {
         self.wants(PAYLOAD)
     }
 
-    fn index(&self, name: &str) -> usize {
+    /// The position of parameter `name` (a built-in's own parameter: an
+    /// undeclared name is a bug, reported as one). The accessors named
+    /// `..._at` take this position; a built-in read often finds it at
+    /// compile time instead ([`param_at`]), and the accessors by name look
+    /// it up and call them.
+    pub fn position(&self, name: &str) -> usize {
         self.builtin.param_index(name).unwrap_or_else(|| {
             panic!(
                 "built-in `{}` reads undeclared parameter `{name}`",
@@ -319,10 +337,21 @@ impl Args {
         })
     }
 
+    /// The name of the parameter at `index`, for messages.
+    #[inline]
+    fn name_at(&self, index: usize) -> &'static str {
+        self.builtin.params[index].name
+    }
+
     /// Take an argument if it was given.
     pub fn take(&mut self, name: &str) -> Option<Arg> {
-        let i = self.index(name);
-        self.bound[i].take()
+        self.take_at(self.position(name))
+    }
+
+    /// [`Args::take`] for the parameter at `index`.
+    #[inline]
+    pub fn take_at(&mut self, index: usize) -> Option<Arg> {
+        self.bound[index].take()
     }
 
     /// The SI magnitude of the argument at parameter `index` when it is a
@@ -333,21 +362,44 @@ impl Args {
     /// this is a shortcut for the common case with the same outcome.
     #[inline]
     pub fn take_si_at(&mut self, index: usize, dim: Dim, kind: Kind) -> Option<f64> {
+        self.take_si_if(index, dim, |q| q.fits_kind(dim, kind))
+    }
+
+    /// The SI magnitude of the argument at parameter `index` when it is a
+    /// quantity of dimension `dim` that `accept` accepts, taken (dropped in
+    /// its place, not moved out). `None`, with nothing taken, for anything
+    /// else. For a built-in's common case: `accept` passes exactly what its
+    /// general path (taking the argument, [`Args::opt_spanned_at`], and its
+    /// own checks) would let through unchanged, so that path, run when this
+    /// gives `None`, gives the same value or reports what is wrong.
+    #[inline]
+    pub fn take_si_if(
+        &mut self,
+        index: usize,
+        dim: Dim,
+        accept: impl FnOnce(&Quantity) -> bool,
+    ) -> Option<f64> {
         let slot = self.bound.get_mut(index)?;
         let si = match slot {
             Some(Arg {
                 value: Value::Quantity(q, _),
                 ..
-            }) => q.expect_kind(dim, kind).ok()?.si,
+            }) if q.dim == dim && accept(q) => q.si,
             _ => return None,
         };
-        *slot = None;
+        drop_quantity(slot.take());
         Some(si)
     }
 
     /// Was this argument given?
     pub fn has(&self, name: &str) -> bool {
-        self.bound[self.index(name)].is_some()
+        self.has_at(self.position(name))
+    }
+
+    /// [`Args::has`] for the parameter at `index`.
+    #[inline]
+    pub fn has_at(&self, index: usize) -> bool {
+        self.bound[index].is_some()
     }
 
     /// The parameters given at the call, in declaration order, with the
@@ -369,14 +421,26 @@ impl Args {
 
     /// The span of an argument if given, else the call's span.
     pub fn span_of(&self, name: &str) -> Span {
-        self.bound[self.index(name)]
+        self.span_of_at(self.position(name))
+    }
+
+    /// [`Args::span_of`] for the parameter at `index`.
+    #[inline]
+    pub fn span_of_at(&self, index: usize) -> Span {
+        self.bound[index]
             .as_ref()
             .map_or(self.call_span, |a| a.span)
     }
 
     /// Take a required argument.
     pub fn required(&mut self, name: &str) -> Result<Arg, Diagnostic> {
-        self.take(name).ok_or_else(|| self.missing(name))
+        self.required_at(self.position(name))
+    }
+
+    /// [`Args::required`] for the parameter at `index`.
+    pub fn required_at(&mut self, index: usize) -> Result<Arg, Diagnostic> {
+        self.take_at(index)
+            .ok_or_else(|| self.missing(self.name_at(index)))
     }
 
     /// The error for a required argument `name` not given.
@@ -406,9 +470,19 @@ impl Args {
         name: &str,
         dim: Dim,
     ) -> Result<(Quantity, Span), Diagnostic> {
-        match self.opt_spanned(name, dim)? {
+        self.required_spanned_at(self.position(name), dim)
+    }
+
+    /// [`Args::required_spanned`] for the parameter at `index`.
+    #[inline]
+    pub fn required_spanned_at(
+        &mut self,
+        index: usize,
+        dim: Dim,
+    ) -> Result<(Quantity, Span), Diagnostic> {
+        match self.opt_spanned_at(index, dim)? {
             Some(q) => Ok(q),
-            None => Err(self.missing(name)),
+            None => Err(self.missing(self.name_at(index))),
         }
     }
 
@@ -420,23 +494,31 @@ impl Args {
         name: &str,
         dim: Dim,
     ) -> Result<Option<(Quantity, Span)>, Diagnostic> {
-        let i = self.index(name);
+        self.opt_spanned_at(self.position(name), dim)
+    }
+
+    /// [`Args::opt_spanned`] for the parameter at `index`.
+    #[inline]
+    pub fn opt_spanned_at(
+        &mut self,
+        index: usize,
+        dim: Dim,
+    ) -> Result<Option<(Quantity, Span)>, Diagnostic> {
         if let Some(Arg {
             value: Value::Quantity(q, _),
             span,
             ..
-        }) = &self.bound[i]
+        }) = &self.bound[index]
         {
             if q.dim == dim {
                 let found = (*q, *span);
-                self.bound[i] = None;
+                self.bound[index] = None;
                 return Ok(Some(found));
             }
         }
-        match self.bound[i].take() {
-            Some(arg) => {
-                expect_quantity(self.builtin, name, &arg, dim).map(|q| Some((q, arg.span)))
-            }
+        match self.bound[index].take() {
+            Some(arg) => expect_quantity(self.builtin, self.name_at(index), &arg, dim)
+                .map(|q| Some((q, arg.span))),
             None => Ok(None),
         }
     }
@@ -453,21 +535,37 @@ impl Args {
         type_name: &str,
         read: impl FnOnce(&T) -> U,
     ) -> Option<U> {
-        let i = self.index(name);
-        let found = match &self.bound[i] {
+        self.take_payload_at(self.position(name), type_name, read)
+    }
+
+    /// [`Args::take_payload`] for the parameter at `index`.
+    #[inline]
+    pub fn take_payload_at<T: 'static, U>(
+        &mut self,
+        index: usize,
+        type_name: &str,
+        read: impl FnOnce(&T) -> U,
+    ) -> Option<U> {
+        let found = match &self.bound[index] {
             Some(Arg {
                 value: Value::Record(r),
                 ..
             }) if r.type_name == type_name => read(r.payload::<T>()?),
             _ => return None,
         };
-        self.bound[i] = None;
+        self.bound[index] = None;
         Some(found)
     }
 
     /// A required record of the given type (e.g. `air`).
     pub fn record(&mut self, name: &str, type_name: &str) -> Result<Record, Diagnostic> {
-        let arg = self.required(name)?;
+        self.record_at(self.position(name), type_name)
+    }
+
+    /// [`Args::record`] for the parameter at `index`.
+    pub fn record_at(&mut self, index: usize, type_name: &str) -> Result<Record, Diagnostic> {
+        let name = self.name_at(index);
+        let arg = self.required_at(index)?;
         match arg.value {
             Value::Record(r) if r.type_name == type_name => Ok(r),
             other => Err(Diagnostic::error(
@@ -502,6 +600,53 @@ impl Args {
             None => Ok(()),
         }
     }
+}
+
+/// Drop `arg`, a quantity taken from its slot, without calling the general
+/// drop of a [`Value`] (a call a study's point would make for each argument
+/// read): a quantity owns nothing to free (its display unit is a reference
+/// to data kept for the whole run), so it is forgotten; the argument's name,
+/// if it has one, is dropped as usual. Anything else is dropped as usual.
+#[inline(always)]
+fn drop_quantity(arg: Option<Arg>) {
+    if let Some(Arg { name, value, .. }) = arg {
+        match value {
+            Value::Quantity(..) => std::mem::forget(value),
+            other => drop(other),
+        }
+        drop(name);
+    }
+}
+
+/// The position of parameter `name` in `params`, for a built-in to find its
+/// arguments by position ([`Args::opt_spanned_at`] and the like): meant for
+/// a `const`, worked out at compile time, where a name not in the list is
+/// an error.
+pub const fn param_at(params: &[Param], name: &str) -> usize {
+    let mut i = 0;
+    while i < params.len() {
+        if const_eq(params[i].name, name) {
+            return i;
+        }
+        i += 1;
+    }
+    panic!("not a parameter in the list")
+}
+
+/// `a == b`, at compile time.
+pub const fn const_eq(a: &str, b: &str) -> bool {
+    let (a, b) = (a.as_bytes(), b.as_bytes());
+    if a.len() != b.len() {
+        return false;
+    }
+    let mut i = 0;
+    while i < a.len() {
+        if a[i] != b[i] {
+            return false;
+        }
+        i += 1;
+    }
+    true
 }
 
 /// `a == b` for the short names of parameters, compared in place (a call to

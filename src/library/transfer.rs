@@ -14,7 +14,7 @@ use uom::si::f64::{
     ThermalConductivity, ThermodynamicTemperature, Velocity, VolumeRate,
 };
 
-use super::{Args, Builtin};
+use super::{param_at, Args, Builtin};
 use crate::diag::{Diagnostic, Span};
 use crate::engine::air::AirState;
 use crate::engine::transfer::{
@@ -28,6 +28,21 @@ use crate::value::{Payload, Record, Value};
 
 mod params;
 use params::*;
+
+// Positions of the parameters that the tray built-ins, `wet_surface` and
+// `constant_rate_time` read at every call, found at compile time
+// ([`param_at`]): a what-if study calls them at every point, and a position
+// spares the search of the list by name. (A test checks each against the
+// built-in's own list in the registry.)
+const TRAY_G: usize = param_at(TRAY, "G");
+const TRAY_AIR: usize = param_at(TRAY, "air");
+const TRAY_VELOCITY: usize = param_at(TRAY, "velocity");
+const WET_SURFACE_AIR: usize = param_at(WET_SURFACE, "air");
+const WET_SURFACE_H: usize = param_at(WET_SURFACE, "h");
+const CRT_LOAD: usize = param_at(CONSTANT_RATE_TIME, "load");
+const CRT_X1: usize = param_at(CONSTANT_RATE_TIME, "X1");
+const CRT_X2: usize = param_at(CONSTANT_RATE_TIME, "X2");
+const CRT_RC: usize = param_at(CONSTANT_RATE_TIME, "Rc");
 
 // ---------------------------------------------------------------------------
 // Registry
@@ -349,11 +364,16 @@ pub const PAYLOAD_ONLY: &[(&str, &str)] = &[
 /// The humid-air state in an `air` record: its typed payload, else its
 /// `T`, `w` and `p` fields.
 fn air_arg(args: &mut Args, name: &str) -> Result<AirState, Diagnostic> {
-    if let Some(state) = args.take_payload(name, "air", |p: &AirPayload| p.0) {
+    air_arg_at(args, args.position(name))
+}
+
+/// [`air_arg`] for the parameter at `index`.
+fn air_arg_at(args: &mut Args, index: usize) -> Result<AirState, Diagnostic> {
+    if let Some(state) = args.take_payload_at(index, "air", |p: &AirPayload| p.0) {
         return Ok(state);
     }
-    let span = args.span_of(name);
-    let record = args.record(name, "air")?;
+    let span = args.span_of_at(index);
+    let record = args.record_at(index, "air")?;
     if let Some(state) = record.payload::<AirPayload>() {
         return Ok(state.0);
     }
@@ -374,9 +394,10 @@ fn air_from_fields(record: &Record) -> Option<AirState> {
     AirState::from_w(t, field("w")?, p).ok()
 }
 
-fn opt_air(args: &mut Args, name: &str) -> Result<Option<AirState>, Diagnostic> {
-    if args.has(name) {
-        air_arg(args, name).map(Some)
+/// [`air_arg`] for an optional parameter at `index`.
+fn opt_air_at(args: &mut Args, index: usize) -> Result<Option<AirState>, Diagnostic> {
+    if args.has_at(index) {
+        air_arg_at(args, index).map(Some)
     } else {
         Ok(None)
     }
@@ -386,20 +407,67 @@ fn opt_air(args: &mut Args, name: &str) -> Result<Option<AirState>, Diagnostic> 
 /// (The argument is looked up once: taken, then checked with its own span,
 /// as [`Args::quantity`] checks it.)
 fn positive(args: &mut Args, name: &str, dim: Dim) -> Result<f64, Diagnostic> {
-    let (q, span) = args.required_spanned(name, dim)?;
-    check_positive(span, name, q)
+    positive_at(args, args.position(name), dim)
+}
+
+/// [`positive`] for the parameter at `index`: a positive finite quantity
+/// of `dim` taken in place ([`Args::take_si_if`]), anything else the
+/// general way ([`positive_general`]), which reports it.
+#[inline]
+fn positive_at(args: &mut Args, index: usize, dim: Dim) -> Result<f64, Diagnostic> {
+    match args.take_si_if(index, dim, |q| is_positive(q.si)) {
+        Some(si) => Ok(si),
+        None => positive_general(args, index, dim),
+    }
+}
+
+/// [`positive_at`] taking the argument and checking it step by step.
+#[inline(never)]
+fn positive_general(args: &mut Args, index: usize, dim: Dim) -> Result<f64, Diagnostic> {
+    let (q, span) = args.required_spanned_at(index, dim)?;
+    check_positive(span, args.builtin.params[index].name, q)
 }
 
 fn opt_positive(args: &mut Args, name: &str, dim: Dim) -> Result<Option<f64>, Diagnostic> {
-    match args.opt_spanned(name, dim)? {
-        Some((q, span)) => check_positive(span, name, q).map(Some),
+    opt_positive_at(args, args.position(name), dim)
+}
+
+/// [`opt_positive`] for the parameter at `index`: nothing given, or a
+/// positive finite quantity of `dim`, read without a search or a copy of
+/// the argument; anything else the general way, which reports it.
+#[inline]
+fn opt_positive_at(args: &mut Args, index: usize, dim: Dim) -> Result<Option<f64>, Diagnostic> {
+    if !args.has_at(index) {
+        return Ok(None);
+    }
+    match args.take_si_if(index, dim, |q| is_positive(q.si)) {
+        Some(si) => Ok(Some(si)),
+        None => opt_positive_general(args, index, dim),
+    }
+}
+
+/// [`opt_positive_at`] taking the argument and checking it step by step.
+#[inline(never)]
+fn opt_positive_general(
+    args: &mut Args,
+    index: usize,
+    dim: Dim,
+) -> Result<Option<f64>, Diagnostic> {
+    match args.opt_spanned_at(index, dim)? {
+        Some((q, span)) => check_positive(span, args.builtin.params[index].name, q).map(Some),
         None => Ok(None),
     }
 }
 
+/// What [`check_positive`] accepts: a positive finite magnitude.
+#[inline]
+fn is_positive(si: f64) -> bool {
+    si > 0.0 && si.is_finite()
+}
+
 #[inline]
 fn check_positive(span: Span, name: &str, q: Quantity) -> Result<f64, Diagnostic> {
-    if q.si > 0.0 && q.si.is_finite() {
+    if is_positive(q.si) {
         Ok(q.si)
     } else {
         Err(not_positive(span, name, q))
@@ -638,9 +706,9 @@ fn air_velocity(args: &mut Args) -> Result<Value, Diagnostic> {
 fn tray_inputs(
     args: &mut Args,
 ) -> Result<(MassFlux, Option<ThermodynamicTemperature>, Option<Velocity>), Diagnostic> {
-    let g = opt_positive(args, "G", Dim::MASS_FLUX)?;
-    let air = opt_air(args, "air")?;
-    let v = opt_positive(args, "velocity", Dim::VELOCITY)?;
+    let g = opt_positive_at(args, TRAY_G, Dim::MASS_FLUX)?;
+    let air = opt_air_at(args, TRAY_AIR)?;
+    let v = opt_positive_at(args, TRAY_VELOCITY, Dim::VELOCITY)?;
     let t = air.map(|a| a.temperature());
     let g = match (g, air, v) {
         (Some(g), _, _) => g,
@@ -1038,8 +1106,8 @@ fn layer_arg(
 }
 
 fn wet_surface(args: &mut Args) -> Result<Value, Diagnostic> {
-    let air = air_arg(args, "air")?;
-    let h = positive(args, "h", Dim::HEAT_TRANSFER_COEFFICIENT)?;
+    let air = air_arg_at(args, WET_SURFACE_AIR)?;
+    let h = positive_at(args, WET_SURFACE_H, Dim::HEAT_TRANSFER_COEFFICIENT)?;
     // Radiation and the tray bottom are read only when some argument is
     // left (one pass over the slots, not a search for each of their names).
     let extra = if args.given().next().is_none() {
@@ -1137,10 +1205,31 @@ fn surface_record(args: &mut Args, s: WetSurface, h: f64) -> Record {
 }
 
 /// A dry-basis moisture content: kind Moisture or a plain number.
-fn moisture(args: &mut Args, name: &str) -> Result<f64, Diagnostic> {
-    let (q, span) = args.required_spanned(name, Dim::NONE)?;
+/// (The parameter at `index`.) What [`moisture_general`] accepts is taken
+/// in place ([`Args::take_si_if`]); anything else goes that way, which
+/// reports it.
+#[inline]
+fn moisture(args: &mut Args, index: usize) -> Result<f64, Diagnostic> {
+    match args.take_si_if(index, Dim::NONE, is_moisture) {
+        Some(x) => Ok(x),
+        None => moisture_general(args, index),
+    }
+}
+
+/// What [`moisture_general`] accepts unchanged: a finite moisture content
+/// of at least 0, of kind `Moisture` or a plain number.
+#[inline]
+fn is_moisture(q: &Quantity) -> bool {
+    matches!(q.kind, Kind::Moisture | Kind::Plain) && q.si.is_finite() && q.si >= 0.0
+}
+
+/// [`moisture`] taking the argument and checking it step by step.
+#[inline(never)]
+fn moisture_general(args: &mut Args, index: usize) -> Result<f64, Diagnostic> {
+    let name = args.builtin.params[index].name;
+    let (q, span) = args.required_spanned_at(index, Dim::NONE)?;
     match q.kind {
-        Kind::Moisture | Kind::Plain if q.si.is_finite() && q.si >= 0.0 => Ok(q.si),
+        _ if is_moisture(&q) => Ok(q.si),
         Kind::Moisture | Kind::Plain => Err(Diagnostic::error(
             span,
             format!(
@@ -1171,14 +1260,17 @@ fn kind_words(kind: Kind) -> &'static str {
 }
 
 fn constant_rate_time(args: &mut Args) -> Result<Value, Diagnostic> {
-    let load = positive(args, "load", Dim::AREAL_DENSITY)?;
-    let x1 = moisture(args, "X1")?;
-    let x2 = moisture(args, "X2")?;
-    let rc = args.quantity("Rc", Dim::MASS_FLUX)?;
+    let load = positive_at(args, CRT_LOAD, Dim::AREAL_DENSITY)?;
+    let x1 = moisture(args, CRT_X1)?;
+    let x2 = moisture(args, CRT_X2)?;
+    let rc = match args.take_si_if(CRT_RC, Dim::MASS_FLUX, |_| true) {
+        Some(si) => si,
+        None => args.required_spanned_at(CRT_RC, Dim::MASS_FLUX)?.0.si,
+    };
     args.finish()?;
     let load =
         ArealMassDensity::new::<uom::si::areal_mass_density::kilogram_per_square_meter>(load);
-    let t = engine::constant_rate_time(load, x1, x2, mass_flux_si(rc.si))
+    let t = engine::constant_rate_time(load, x1, x2, mass_flux_si(rc))
         .map_err(|e| engine_error(args, e))?;
     Ok(shown!(t.get::<uom::si::time::second>(), Dim::TIME, "h"))
 }

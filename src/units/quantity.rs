@@ -279,6 +279,13 @@ impl Quantity {
         Err(expect_kind_error(kind, self.kind))
     }
 
+    /// Does [`Quantity::expect_kind`] accept this quantity (giving its
+    /// magnitude unchanged)? Answered without building its error.
+    #[inline]
+    pub fn fits_kind(&self, dim: Dim, kind: Kind) -> bool {
+        self.dim == dim && accepts(kind, self.kind)
+    }
+
     #[inline]
     fn same_dim(&self, context: &str, other: &Quantity) -> Result<(), UnitError> {
         if self.dim == other.dim {
@@ -316,6 +323,7 @@ fn dim_mismatch(context: &str, expected: Dim, found: Dim) -> UnitError {
 }
 
 /// Whether a value of kind `found` may stand where `wanted` is expected.
+#[inline]
 fn accepts(wanted: Kind, found: Kind) -> bool {
     use Kind::*;
     match (wanted, found) {

@@ -670,12 +670,7 @@ impl Run<'_, '_> {
     fn run_call(&mut self, call: &Call, args: &mut Args, span: Span) -> Flow<Value> {
         for a in &call.args {
             let value = self.argument(&a.value)?;
-            let arg = Arg {
-                name: None,
-                value,
-                span: a.span,
-            };
-            args.place(a.param, arg);
+            args.place_value(a.param, value, a.span);
         }
         self.ctx.run_builtin(call.builtin, args, span)
     }

@@ -277,3 +277,234 @@ fn saturated_air_error_names_the_driving_force() {
     .unwrap_err();
     assert!(e.message.contains("no driving force"), "{}", e.message);
 }
+
+/// The positions the tray built-ins, `wet_surface` and `constant_rate_time`
+/// read their arguments at are those of the names in each built-in's own
+/// list (the list registered with it, which `param_index` searches).
+#[test]
+fn parameter_positions_are_those_of_the_names() {
+    use super::*;
+    let cases = [
+        ("h_tray_parallel", "G", TRAY_G),
+        ("h_tray_parallel", "air", TRAY_AIR),
+        ("h_tray_parallel", "velocity", TRAY_VELOCITY),
+        ("h_tray_impinging", "G", TRAY_G),
+        ("h_tray_impinging", "air", TRAY_AIR),
+        ("h_tray_impinging", "velocity", TRAY_VELOCITY),
+        ("wet_surface", "air", WET_SURFACE_AIR),
+        ("wet_surface", "h", WET_SURFACE_H),
+        ("constant_rate_time", "load", CRT_LOAD),
+        ("constant_rate_time", "X1", CRT_X1),
+        ("constant_rate_time", "X2", CRT_X2),
+        ("constant_rate_time", "Rc", CRT_RC),
+    ];
+    for (b, name, at) in cases {
+        let builtin = find(b).expect("registered");
+        assert_eq!(builtin.param_index(name), Some(at), "{b}({name})");
+    }
+}
+
+/// Each argument these built-ins read by position is blamed by its own
+/// name and span when wrong or missing: the whole message and the span.
+#[test]
+fn arguments_read_by_position_are_blamed_by_name_and_span() {
+    // A distinct span for each argument, numbered in the order given.
+    let call_at = |name: &str, given: Vec<(&str, Value)>| {
+        let builtin = find(name).expect("registered");
+        let args = given
+            .into_iter()
+            .zip(1u32..)
+            .map(|((n, v), k)| Arg {
+                name: Some(n.to_string()),
+                value: v,
+                span: Span {
+                    file: 0,
+                    start: 10 * k,
+                    end: 10 * k + 5,
+                },
+            })
+            .collect();
+        let call_span = Span {
+            file: 0,
+            start: 1,
+            end: 200,
+        };
+        let mut bound = Args::bind(builtin, call_span, args).expect("bound");
+        let e = (builtin.func)(&mut bound).expect_err("an error");
+        (e.message, e.span.start)
+    };
+    let crt = |load: Value, x1: Value, rc: Option<Value>| {
+        let mut given = vec![("load", load), ("X1", x1), ("X2", q(0.5, Dim::NONE))];
+        given.extend(rc.map(|rc| ("Rc", rc)));
+        call_at("constant_rate_time", given)
+    };
+    let hr = |x: f64| Value::Quantity(Quantity::new(x, Dim::NONE, Kind::HumidityRatio), None);
+    let rc = || Some(q(0.001, Dim::MASS_FLUX));
+    let cases = [
+        (
+            call_at(
+                "h_tray_parallel",
+                vec![
+                    ("velocity", q(3.0, Dim::VELOCITY)),
+                    ("G", q(2.0, Dim::LENGTH)),
+                ],
+            ),
+            "argument `G` of `h_tray_parallel` expects mass flux [kg/(m^2*s)], found length [m]",
+            20,
+        ),
+        (
+            call_at(
+                "h_tray_impinging",
+                vec![
+                    ("air", q(1.0, Dim::NONE)),
+                    ("velocity", q(3.0, Dim::VELOCITY)),
+                ],
+            ),
+            "argument `air` of `h_tray_impinging` must be air, found a quantity",
+            10,
+        ),
+        (
+            call_at(
+                "h_tray_parallel",
+                vec![
+                    ("air", air_record(70.0, 0.01)),
+                    ("velocity", q(-3.0, Dim::VELOCITY)),
+                ],
+            ),
+            "`velocity` must be positive, got -3 m/s",
+            20,
+        ),
+        (
+            call_at("wet_surface", vec![("air", air_record(70.0, 0.01))]),
+            "`wet_surface` needs the argument `h`",
+            1,
+        ),
+        (
+            call_at(
+                "wet_surface",
+                vec![
+                    ("h", q(25.0, Dim::HEAT_TRANSFER_COEFFICIENT)),
+                    ("air", Value::Record(Record::new("air"))),
+                ],
+            ),
+            "this air record has no T, w and p to read",
+            20,
+        ),
+        (
+            crt(q(0.0, Dim::AREAL_DENSITY), q(1.6, Dim::NONE), rc()),
+            "`load` must be positive, got 0 kg/m^2",
+            10,
+        ),
+        (
+            crt(q(20.0, Dim::AREAL_DENSITY), hr(1.6), rc()),
+            "`X1` must be a solid moisture content (dry basis), not an air humidity ratio",
+            20,
+        ),
+        (
+            crt(q(20.0, Dim::AREAL_DENSITY), q(-1.0, Dim::NONE), rc()),
+            "`X1` must be a moisture content of at least 0, got -1",
+            20,
+        ),
+        (
+            crt(q(20.0, Dim::AREAL_DENSITY), q(1.6, Dim::NONE), None),
+            "`constant_rate_time` needs the argument `Rc`",
+            1,
+        ),
+        (
+            crt(
+                q(20.0, Dim::AREAL_DENSITY),
+                q(1.6, Dim::NONE),
+                Some(Value::Bool(true)),
+            ),
+            "argument `Rc` of `constant_rate_time` expects a quantity, found a truth value",
+            40,
+        ),
+    ];
+    for ((message, start), want, want_start) in cases {
+        assert_eq!(message, want);
+        assert_eq!(start, want_start, "{want}");
+    }
+}
+
+/// The readers with a shortcut (`positive_at`, `opt_positive_at`,
+/// `moisture`) give what their general paths give, value (bit for bit) or
+/// error, for quantities of every kind of case, and leave the argument
+/// taken exactly as the general path does.
+#[test]
+fn shortcut_readers_agree_with_their_general_paths() {
+    use super::*;
+    let b = find("constant_rate_time").expect("registered");
+    let span = Span {
+        file: 0,
+        start: 7,
+        end: 12,
+    };
+    let kinds = [
+        Kind::Plain,
+        Kind::Moisture,
+        Kind::HumidityRatio,
+        Kind::Fraction,
+        Kind::Activity,
+    ];
+    let magnitudes = [
+        1.6,
+        0.0,
+        -0.0,
+        -1.0,
+        f64::MIN_POSITIVE,
+        f64::INFINITY,
+        f64::NEG_INFINITY,
+        f64::NAN,
+    ];
+    let mut values = vec![Value::Bool(true), Value::Str("x".into())];
+    for dim in [Dim::NONE, Dim::AREAL_DENSITY, Dim::MASS_FLUX] {
+        for &kind in &kinds {
+            for &si in &magnitudes {
+                values.push(Value::Quantity(Quantity::new(si, dim, kind), None));
+            }
+        }
+    }
+    let args_with = |value: Option<&Value>, at: usize| {
+        let mut args = Args::unbound(b, Span::default());
+        if let Some(v) = value {
+            args.place(
+                at,
+                Arg {
+                    name: None,
+                    value: v.clone(),
+                    span,
+                },
+            );
+        }
+        args
+    };
+    type Reader = fn(&mut Args, usize) -> Result<Option<f64>, Diagnostic>;
+    let readers: [(Reader, Reader); 3] = [
+        (
+            |a, i| positive_at(a, i, Dim::AREAL_DENSITY).map(Some),
+            |a, i| positive_general(a, i, Dim::AREAL_DENSITY).map(Some),
+        ),
+        (
+            |a, i| opt_positive_at(a, i, Dim::AREAL_DENSITY),
+            |a, i| opt_positive_general(a, i, Dim::AREAL_DENSITY),
+        ),
+        (
+            |a, i| moisture(a, i).map(Some),
+            |a, i| moisture_general(a, i).map(Some),
+        ),
+    ];
+    let shown = |r: Result<Option<f64>, Diagnostic>| match r {
+        Ok(x) => format!("{:?}", x.map(f64::to_bits)),
+        Err(d) => format!("{d:?}"),
+    };
+    for (fast, general) in readers {
+        for at in [CRT_LOAD, CRT_X1] {
+            for value in values.iter().map(Some).chain([None]) {
+                let (mut a, mut g) = (args_with(value, at), args_with(value, at));
+                let (x, y) = (shown(fast(&mut a, at)), shown(general(&mut g, at)));
+                assert_eq!(x, y, "{value:?}");
+                assert_eq!(a.has_at(at), g.has_at(at), "{value:?}");
+            }
+        }
+    }
+}
