@@ -18,7 +18,7 @@ pub mod transfer;
 pub mod whatif;
 
 use crate::diag::{Diagnostic, Span};
-use crate::units::{describe_dim, Dim, Kind, Quantity};
+use crate::units::{describe_dim, Dim, Kind, Quantity, Unit};
 use crate::value::{Record, Value};
 
 /// What a parameter accepts, for docs, completion and checking.
@@ -609,6 +609,9 @@ impl Args {
 /// if it has one, is dropped as usual. Anything else is dropped as usual.
 #[inline(always)]
 fn drop_quantity(arg: Option<Arg>) {
+    // What makes forgetting it free nothing: a quantity and its display unit
+    // need no drop (checked when this is compiled).
+    const _: () = assert!(!std::mem::needs_drop::<(Quantity, Option<Unit>)>());
     if let Some(Arg { name, value, .. }) = arg {
         match value {
             Value::Quantity(..) => std::mem::forget(value),
