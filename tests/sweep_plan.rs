@@ -127,6 +127,28 @@ fn failing_points_report_the_same_first_error() {
 }
 
 #[test]
+fn points_in_one_run_carry_nothing_over() {
+    // A worker evaluates its points one after another in one context:
+    // failing, warning and passing points alternate, so a message, warning
+    // or step count left by one point would show at the next.
+    let ts = ["20 degC", "80 degC"].repeat(12).join(", ");
+    let out = planned(&format!(
+        "{AIR}\ns = sweep([twb], T: [{ts}], w: [0.05 kg/kg_da, 0.01 kg/kg_da])"
+    ));
+    assert!(out.contains("12 of 48 points failed"), "{out}");
+    let ts = ["41 degC", "70 degC", "43 degC"].repeat(8).join(", ");
+    let out = planned(&format!(
+        "{TRAY}\ncheck t_constant > 2 h\ns = sweep([t_constant], T_air: [{ts}])"
+    ));
+    for t in [41, 43] {
+        let warning = format!(
+            "at 8 of 24 points: parallel-flow tray correlation: air temperature = {t} degC"
+        );
+        assert!(out.contains(&warning), "{out}");
+    }
+}
+
+#[test]
 fn rules_break_the_same_way() {
     let out = planned(&format!(
         "{TRAY}\ncheck surface.Rc < 1.5 kg/(m^2*h)\ncheck t_constant > 1 h\n\

@@ -105,6 +105,60 @@ impl<'a> Ctx<'a> {
         }
     }
 
+    /// Start over as [`Ctx::new`] would over the same sheet, sources, limits
+    /// and mode, keeping only the room of its lists: a what-if study's
+    /// worker evaluates its points one after another in one context.
+    #[inline]
+    pub(super) fn restart(&mut self) {
+        // Every field named, so that a new one is not forgotten here.
+        let Ctx {
+            sheet: _,
+            sources: _,
+            limits: _,
+            mode: _,
+            ops,
+            warnings,
+            errors,
+            frame,
+            active,
+            failed,
+            load_stack,
+            depth,
+            nesting,
+            checking,
+            wanted,
+        } = self;
+        // (Each part cleared only when it holds something: most points
+        // leave all of them empty.)
+        *ops = 0;
+        *depth = 0;
+        *nesting = 0;
+        if !warnings.is_empty() {
+            warnings.clear();
+        }
+        if !errors.is_empty() {
+            errors.clear();
+        }
+        if frame.is_some() {
+            *frame = None;
+        }
+        if !active.is_empty() {
+            active.clear();
+        }
+        if !failed.is_empty() {
+            failed.clear();
+        }
+        if !load_stack.is_empty() {
+            load_stack.clear();
+        }
+        if checking.blind != 0 || checking.recursions != 0 || !checking.calls.is_empty() {
+            *checking = super::shape::Checking::default();
+        }
+        if wanted.is_some() {
+            *wanted = None;
+        }
+    }
+
     /// The stack of names being computed, empty, to hand to the next context
     /// (a what-if study's points reuse its room).
     pub(super) fn take_active(&mut self) -> Vec<std::sync::Arc<str>> {
@@ -616,7 +670,7 @@ pub(super) fn read_field(v: &Value, span: Span, field: &crate::syntax::Ident) ->
     match v {
         Value::Record(r) => r
             .get(&field.name)
-            .cloned()
+            .map(Value::copied)
             .ok_or_else(|| no_field(r, field).into()),
         other => {
             let msg = format!(
@@ -806,6 +860,17 @@ fn unknown_unit(s: &str, span: Span) -> Diagnostic {
 /// overflow the stack when they are copied, shown or dropped.
 const MAX_VALUE_DEPTH: usize = 32;
 
+/// True for a record none of whose fields is a list or a record (an air
+/// state, a surface balance): [`Ctx::list_cost`] counts no items for it and
+/// never refuses it (it is one level deep), so a caller that meets one may
+/// count 0 items without the call.
+#[inline]
+pub(super) fn is_flat_record(r: &crate::value::Record) -> bool {
+    !r.fields
+        .iter()
+        .any(|(_, f)| matches!(f, Value::List(_) | Value::Record(_)))
+}
+
 /// Items in a value's lists (nested lists counted item by item) and its
 /// nesting depth through lists and records, without recursion, so that a
 /// deeply nested value cannot overflow the stack here.
@@ -813,11 +878,7 @@ fn list_items(value: &Value) -> (usize, usize) {
     // A record of plain fields (an air state, a surface balance): one level,
     // no items, nothing to walk.
     if let Value::Record(r) = value {
-        let nested = r
-            .fields
-            .iter()
-            .any(|(_, f)| matches!(f, Value::List(_) | Value::Record(_)));
-        if !nested {
+        if is_flat_record(r) {
             return (0, usize::from(!r.fields.is_empty()));
         }
     }
@@ -838,4 +899,72 @@ fn list_items(value: &Value) -> (usize, usize) {
         }
     }
     (count, deepest)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::{is_flat_record, Ctx, Mode};
+    use crate::diag::{Diagnostic, Span};
+    use crate::eval::{Limits, Sheet, Sources};
+    use crate::units::Quantity;
+    use crate::value::{Record, Value};
+
+    fn number(x: f64) -> Value {
+        Value::Quantity(Quantity::number(x), None)
+    }
+
+    /// Where a plan counts a flat record's items without the walk, the walk
+    /// counts the same: none, and no refusal.
+    #[test]
+    fn a_flat_record_costs_what_list_cost_counts() {
+        let (mut sheet, mut sources, limits) =
+            (Sheet::default(), Sources::default(), Limits::default());
+        let ctx = Ctx::new(&mut sheet, &mut sources, &limits, Mode::Run);
+        let flat = Record::new("air")
+            .with("T", number(1.0))
+            .with("s", Value::Str("x".into()));
+        let empty = Record::new("nothing");
+        let list = Record::new("r").with("xs", Value::List(vec![number(1.0), number(2.0)]));
+        let nested = Record::new("r").with("inner", Value::Record(flat.clone()));
+        for (r, flat_expected) in [(flat, true), (empty, true), (list, false), (nested, false)] {
+            assert_eq!(is_flat_record(&r), flat_expected);
+            let cost = ctx.list_cost(&Value::Record(r), Span::default()).ok();
+            if flat_expected {
+                assert_eq!(cost, Some(0));
+            }
+        }
+    }
+
+    /// A restarted context is a new one: nothing a point left (steps,
+    /// warnings, errors, names, nesting) reaches the next.
+    #[test]
+    fn a_restarted_context_is_as_new() {
+        let (mut sheet, mut sources, limits) =
+            (Sheet::default(), Sources::default(), Limits::default());
+        let mut ctx = Ctx::new(&mut sheet, &mut sources, &limits, Mode::Run);
+        ctx.ops = 17;
+        ctx.warnings.push(Diagnostic::warning(Span::default(), "w"));
+        ctx.errors.push(Diagnostic::error(Span::default(), "e"));
+        ctx.frame = Some(Default::default());
+        ctx.active.push("a".into());
+        ctx.mark_failed(&["b".to_string()]);
+        ctx.load_stack.push("x.dry".into());
+        ctx.depth = 2;
+        ctx.nesting = 3;
+        ctx.checking.blind = 1;
+        ctx.checking.recursions = 1;
+        ctx.checking.calls.push("f".into());
+        ctx.wanted = Some(vec!["T".to_string()].into());
+        ctx.restart();
+        assert_eq!(ctx.ops, 0);
+        assert!(ctx.warnings.is_empty() && ctx.errors.is_empty());
+        assert!(ctx.frame.is_none() && ctx.active.is_empty() && ctx.failed.is_empty());
+        assert!(ctx.load_stack.is_empty());
+        assert_eq!((ctx.depth, ctx.nesting), (0, 0));
+        assert_eq!(ctx.checking.blind, 0);
+        assert_eq!(ctx.checking.recursions, 0);
+        assert!(ctx.checking.calls.is_empty());
+        assert!(ctx.wanted.is_none());
+        assert_eq!(ctx.mode, Mode::Run);
+    }
 }

@@ -248,8 +248,11 @@ impl Args {
     /// `wanted`, `dir`, a spare record) for the next call of the same
     /// built-in at the same place.
     pub fn clear(&mut self) {
+        // (A built-in usually takes every argument: most are empty already.)
         for a in &mut self.bound {
-            *a = None;
+            if a.is_some() {
+                *a = None;
+            }
         }
         self.warnings.clear();
     }

@@ -124,6 +124,9 @@ pub(super) struct Model {
     pool: Mutex<Vec<Work>>,
 }
 
+/// Most points of a study evaluated in one run ([`Model::eval_run`]).
+const RUN: usize = 64;
+
 /// Words of the what-if forms; checks that call them are not re-run per point.
 const FORMS: &[&str] = super::FORMS;
 
@@ -268,14 +271,34 @@ impl Model {
                 break;
             }
             let end = total.min(start + block);
-            // Straight into `out` (its room is reserved): no block of its own.
-            out.par_extend((start..end).into_par_iter().map_init(
-                || Lease {
-                    model: self,
-                    work: Some(self.take_work()),
-                },
-                |lease, i| lease.eval(point(i)),
-            ));
+            if self.plan.is_some() {
+                // Runs of points, each evaluated in one context (see
+                // `Model::eval_run`), then moved into `out` in order.
+                let run = (block / 8).clamp(1, RUN);
+                let runs: Vec<Vec<Outcome>> = (start..end)
+                    .into_par_iter()
+                    .step_by(run)
+                    .map_init(
+                        || Lease {
+                            model: self,
+                            work: Some(self.take_work()),
+                        },
+                        |lease, first| lease.eval_run(first..end.min(first + run), &point),
+                    )
+                    .collect();
+                for r in runs {
+                    out.extend(r);
+                }
+            } else {
+                // Straight into `out` (its room is reserved): no block of its own.
+                out.par_extend((start..end).into_par_iter().map_init(
+                    || Lease {
+                        model: self,
+                        work: Some(self.take_work()),
+                    },
+                    |lease, i| lease.eval(point(i)),
+                ));
+            }
             start = end;
             let done = out.len();
             progress::report(&Progress {
@@ -321,17 +344,43 @@ impl Model {
             .push(work);
     }
 
+    /// Evaluate the points `points` (indices for `point`) in turn, through
+    /// the plan in one context restarted at each point ([`Ctx::restart`]:
+    /// the same as a new one), or else one by one as [`Model::eval`] does.
+    fn eval_run<'p>(
+        &self,
+        work: &mut Work,
+        points: std::ops::Range<usize>,
+        point: &impl Fn(usize) -> &'p [f64],
+    ) -> Vec<Outcome> {
+        let (Some(plan), Some(state)) = (&self.plan, &mut work.state) else {
+            return points.map(|i| self.eval(work, point(i))).collect();
+        };
+        let mut ctx = Ctx::new(&mut work.sheet, &mut work.sources, &self.limits, Mode::Run);
+        points
+            .map(|i| {
+                ctx.restart();
+                self.plan_point(plan, state, &mut ctx, point(i))
+            })
+            .collect()
+    }
+
+    /// One point through the plan, in `ctx`, a context as new.
+    fn plan_point(&self, plan: &Plan, state: &mut State, ctx: &mut Ctx, point: &[f64]) -> Outcome {
+        state.start();
+        if state.inputs.len() != self.inputs.len() {
+            state.inputs.resize(self.inputs.len(), Value::Bool(false));
+        }
+        for ((v, slot), &si) in self.inputs.iter().zip(&mut state.inputs).zip(point) {
+            v.set(slot, si);
+        }
+        self.outcome(ctx, |ctx, k| plan.eval(ctx, state, k))
+    }
+
     fn eval(&self, work: &mut Work, point: &[f64]) -> Outcome {
         if let (Some(plan), Some(state)) = (&self.plan, &mut work.state) {
-            state.start();
-            if state.inputs.len() != self.inputs.len() {
-                state.inputs.resize(self.inputs.len(), Value::Bool(false));
-            }
-            for ((v, slot), &si) in self.inputs.iter().zip(&mut state.inputs).zip(point) {
-                v.set(slot, si);
-            }
             let mut ctx = Ctx::new(&mut work.sheet, &mut work.sources, &self.limits, Mode::Run);
-            return self.outcome(&mut ctx, |ctx, k| plan.eval(ctx, state, k));
+            return self.plan_point(plan, state, &mut ctx, point);
         }
         let cache = &mut work.sheet.cache;
         for n in &self.dependent {
@@ -423,6 +472,16 @@ impl Lease<'_> {
         let model = self.model;
         let work = self.work.get_or_insert_with(|| model.take_work());
         model.eval(work, point)
+    }
+
+    fn eval_run<'p>(
+        &mut self,
+        points: std::ops::Range<usize>,
+        point: &impl Fn(usize) -> &'p [f64],
+    ) -> Vec<Outcome> {
+        let model = self.model;
+        let work = self.work.get_or_insert_with(|| model.take_work());
+        model.eval_run(work, points, point)
     }
 }
 

@@ -37,8 +37,8 @@ use std::sync::Arc;
 
 use crate::diag::Span;
 use crate::eval::ctx::{
-    binary_failure, binary_values, negative_reading, read_field, show_in, show_quantity,
-    shown_as_failure, unary_value, MAX_NESTING,
+    binary_failure, binary_values, is_flat_record, negative_reading, read_field, show_in,
+    show_quantity, shown_as_failure, unary_value, MAX_NESTING,
 };
 use crate::eval::ops;
 use crate::eval::{Ctx, DefKind, FastMap, Flow, Limits, Mode, Sheet, Sources, Stop};
@@ -175,6 +175,10 @@ impl State {
     /// call's arguments, for it to build this point's record in.
     pub fn start(&mut self) {
         for (s, by) in self.slots.iter_mut().zip(&self.defined_by) {
+            // (A value moved out at its sole read left nothing behind.)
+            if matches!(s, Slot::Unset) {
+                continue;
+            }
             if let (Slot::Ready(Value::Record(r), _), Some(k)) = (std::mem::take(s), *by) {
                 if let Some(Some(args)) = self.calls.get_mut(k) {
                     args.keep_spare(r);
@@ -467,10 +471,15 @@ impl Run<'_, '_> {
         self.ctx.tick(s.span)?;
         if let Node::Name(src) = s.node {
             self.read(src, s.span)?;
-            return Ok((self.value(src).clone(), self.cost(src)));
+            return Ok((self.value(src).copied(), self.cost(src)));
         }
         let v = self.node(s)?;
-        let cost = match v {
+        let cost = match &v {
+            // (What `list_cost` counts for it, without the call.)
+            Value::Record(r) if is_flat_record(r) => {
+                self.ctx.charge_items(0, s.span)?;
+                Some(0)
+            }
             Value::List(_) | Value::Record(_) => {
                 let n = self.ctx.list_cost(&v, s.span)?;
                 self.ctx.charge_items(n, s.span)?;
@@ -624,12 +633,12 @@ impl Run<'_, '_> {
             Node::Name(src) => {
                 self.ctx.tick(s.span)?;
                 self.read(src, s.span)?;
-                Ok(self.value(src).clone())
+                Ok(self.value(src).copied())
             }
             // (A literal is a quantity, a truth value or text: nothing to count.)
             Node::Literal(i) => {
                 self.ctx.tick(s.span)?;
-                Ok(self.plan.fixed[i].clone())
+                Ok(self.plan.fixed[i].copied())
             }
             _ => self.step(s),
         }
@@ -643,7 +652,7 @@ impl Run<'_, '_> {
         };
         if let Some(Value::Record(r)) = self.computed(src) {
             if let Some(v) = r.get(&field.name) {
-                return Ok(v.clone());
+                return Ok(v.copied());
             }
         }
         // `self.step(of)` without copying the value: the same steps.

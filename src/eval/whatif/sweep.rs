@@ -199,7 +199,7 @@ pub(super) fn probe_unit(outcomes: &[Outcome], k: usize) -> Option<Unit> {
 
 /// A quantity's magnitude in `unit` (SI when the unit cannot show it), by
 /// [`Unit::from_si_or_si`]: the same bits as going through [`Unit::from_si`].
-#[inline]
+#[inline(always)]
 pub(super) fn in_unit(q: &Quantity, unit: Option<&Unit>) -> f64 {
     unit.map_or(q.si, |u| u.from_si_or_si(q))
 }
@@ -321,12 +321,7 @@ fn push_values(columns: &mut [Column], values: Values) {
 fn copy_cells(cells: &[Value]) -> Vec<Value> {
     let mut copy = Vec::with_capacity(cells.len());
     for cell in cells {
-        // Each arm builds its value where it goes.
-        if let Value::Quantity(q, unit) = cell {
-            copy.push(Value::Quantity(*q, unit.clone()));
-        } else {
-            copy.push(cell.clone());
-        }
+        copy.push(cell.copied());
     }
     copy
 }
