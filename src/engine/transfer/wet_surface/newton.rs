@@ -85,7 +85,7 @@ impl Balance {
     /// Whether the residual at `x`, whose slope is `slope`, is close enough
     /// to the exact one: the residual's error bound from the table's,
     /// `k_Y (dw L + |w_s - w| dL)` (dropping the product of the two bounds,
-    /// below 1e-25 of the residual), over the slope, within
+    /// some 1e-12 of either term), over the slope, within
     /// [`TABLE_MAX_ERROR_K`] with a factor 2 to spare for the change of
     /// the slope between `x` and the root (a few hundredths of a kelvin
     /// away; the slope changes by a small fraction over that). Always true
@@ -379,9 +379,9 @@ fn kept_rough_saturation(ts: f64) -> RoughStart {
 }
 
 /// `ln x` for the rough model: by the series `2 atanh z`,
-/// `z = (x - 1) / (x + 1)`, to `z^7` for x in [0.5, 2] (within 3e-9 for x in
+/// `z = (x - 1) / (x + 1)`, to `z^7` for x in [0.5, 2] (within 6e-9 for x in
 /// [0.75, 1.33], 2e-5 at the ends; exactly 0 at 1, increasing), by the
-/// logarithm elsewhere. Its ratios (a surface temperature to the air's, one
+/// logarithm elsewhere. Its ratios (a surface temperature to the start's, one
 /// mass-transfer coefficient to another, supply to demand near the root)
 /// are mostly close to 1, where the series costs a fraction of a logarithm.
 fn ln_near_one(x: f64) -> f64 {
