@@ -85,7 +85,7 @@ impl Balance {
     /// Whether the residual at `x`, whose slope is `slope`, is close enough
     /// to the exact one: the residual's error bound from the table's,
     /// `k_Y (dw L + |w_s - w| dL)` (dropping the product of the two bounds,
-    /// under 1e-14 of either term), over the slope, within
+    /// about 3e-18 of the first: dL / L), over the slope, within
     /// [`TABLE_MAX_ERROR_K`] with a factor 2 to spare for the change of
     /// the slope between `x` and the root (a few hundredths of a kelvin
     /// away; the slope changes by a small fraction over that). Always true
