@@ -342,7 +342,7 @@ impl Args {
 
     /// The name of the parameter at `index`, for messages.
     #[inline]
-    fn name_at(&self, index: usize) -> &'static str {
+    pub fn name_at(&self, index: usize) -> &'static str {
         self.builtin.params[index].name
     }
 

@@ -425,7 +425,7 @@ fn positive_at(args: &mut Args, index: usize, dim: Dim) -> Result<f64, Diagnosti
 #[inline(never)]
 fn positive_general(args: &mut Args, index: usize, dim: Dim) -> Result<f64, Diagnostic> {
     let (q, span) = args.required_spanned_at(index, dim)?;
-    check_positive(span, args.builtin.params[index].name, q)
+    check_positive(span, args.name_at(index), q)
 }
 
 fn opt_positive(args: &mut Args, name: &str, dim: Dim) -> Result<Option<f64>, Diagnostic> {
@@ -454,7 +454,7 @@ fn opt_positive_general(
     dim: Dim,
 ) -> Result<Option<f64>, Diagnostic> {
     match args.opt_spanned_at(index, dim)? {
-        Some((q, span)) => check_positive(span, args.builtin.params[index].name, q).map(Some),
+        Some((q, span)) => check_positive(span, args.name_at(index), q).map(Some),
         None => Ok(None),
     }
 }
@@ -1226,7 +1226,7 @@ fn is_moisture(q: &Quantity) -> bool {
 /// [`moisture`] taking the argument and checking it step by step.
 #[inline(never)]
 fn moisture_general(args: &mut Args, index: usize) -> Result<f64, Diagnostic> {
-    let name = args.builtin.params[index].name;
+    let name = args.name_at(index);
     let (q, span) = args.required_spanned_at(index, Dim::NONE)?;
     match q.kind {
         _ if is_moisture(&q) => Ok(q.si),
