@@ -271,6 +271,11 @@ impl Model {
                 break;
             }
             let end = total.min(start + block);
+            // Each worker's own sheet, sources and plan state.
+            let lease = || Lease {
+                model: self,
+                work: Some(self.take_work()),
+            };
             if self.plan.is_some() {
                 // Runs of points, each evaluated in one context (see
                 // `Model::eval_run`), then moved into `out` in order.
@@ -278,26 +283,20 @@ impl Model {
                 let runs: Vec<Vec<Outcome>> = (start..end)
                     .into_par_iter()
                     .step_by(run)
-                    .map_init(
-                        || Lease {
-                            model: self,
-                            work: Some(self.take_work()),
-                        },
-                        |lease, first| lease.eval_run(first..end.min(first + run), &point),
-                    )
+                    .map_init(lease, |lease, first| {
+                        lease.eval_run(first..end.min(first + run), &point)
+                    })
                     .collect();
                 for r in runs {
                     out.extend(r);
                 }
             } else {
                 // Straight into `out` (its room is reserved): no block of its own.
-                out.par_extend((start..end).into_par_iter().map_init(
-                    || Lease {
-                        model: self,
-                        work: Some(self.take_work()),
-                    },
-                    |lease, i| lease.eval(point(i)),
-                ));
+                out.par_extend(
+                    (start..end)
+                        .into_par_iter()
+                        .map_init(lease, |lease, i| lease.eval(point(i))),
+                );
             }
             start = end;
             let done = out.len();
