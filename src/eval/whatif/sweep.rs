@@ -9,7 +9,7 @@ use super::spec::{self, usage};
 use crate::diag::{Diagnostic, Span};
 use crate::eval::{Ctx, Flow, Mode, Stop};
 use crate::syntax::CallArg;
-use crate::units::{default_unit, Quantity, Unit};
+use crate::units::{default_unit, Dim, Kind, Quantity, Scale, Unit};
 use crate::value::{Column, HeatMap, Plot, Record, Series, SeriesStyle, Table, Value};
 
 const EXAMPLE: &str = "sweep([t_dry, Rc], T_air: steps(60 degC, 90 degC, 5 K))";
@@ -52,19 +52,7 @@ impl Ctx<'_> {
         drop(points);
         let failed = self.point_warnings(&outcomes, span);
         let plot = sweep_plot(&model, &names, &axes, &outcomes);
-        let table = sweep_table(&model, &names, &axes, outcomes);
-        // Each column also as a list field, unless a field of that name came
-        // first (a repeated probe, or one named like the fields above).
-        let fixed = ["table", "plot", "points", "failed"];
-        let mut lists: Vec<(&str, Value)> = Vec::new();
-        for c in &table.columns {
-            let taken = fixed.contains(&c.name.as_str()) || lists.iter().any(|(n, _)| *n == c.name);
-            if !taken && c.name != "checks" && c.name != "error" {
-                lists.push((&c.name, Value::List(copy_cells(&c.cells))));
-            }
-        }
-        let lists: Vec<(String, Value)> =
-            lists.into_iter().map(|(n, v)| (n.to_string(), v)).collect();
+        let (table, lists) = sweep_table(&model, &names, &axes, outcomes);
         let mut record = Record::new("sweep")
             .with("table", Value::Table(table))
             .with("plot", Value::Plot(Arc::new(plot)))
@@ -204,6 +192,40 @@ pub(super) fn in_unit(q: &Quantity, unit: Option<&Unit>) -> f64 {
     unit.map_or(q.si, |u| u.from_si_or_si(q))
 }
 
+/// A column's display unit, with what its usual case needs read once for
+/// the column: [`in_unit`] for every quantity, in the same bits.
+#[derive(Clone, Copy)]
+struct Shown<'a> {
+    unit: Option<&'a Unit>,
+    /// A linear unit's dimension, its kind (`None` when plain: any kind),
+    /// offset and factor.
+    linear: Option<(Dim, Option<Kind>, f64, f64)>,
+}
+
+impl<'a> Shown<'a> {
+    fn new(unit: Option<&'a Unit>) -> Shown<'a> {
+        let linear = unit.filter(|u| u.scale == Scale::Linear).map(|u| {
+            let kind = (u.kind != Kind::Plain).then_some(u.kind);
+            (u.dim, kind, u.offset, u.factor)
+        });
+        Shown { unit, linear }
+    }
+
+    /// `q`'s magnitude in the unit: for a linear unit of its dimension,
+    /// plain or of its kind, [`Unit::from_si_or_si`]'s own arithmetic;
+    /// anything else goes to [`in_unit`].
+    #[inline(always)]
+    fn value(&self, q: &Quantity) -> f64 {
+        if let Some((dim, kind, offset, factor)) = self.linear {
+            if q.dim == dim && kind.is_none_or(|k| k == q.kind) {
+                let x = (q.si - offset) / factor;
+                return if x.is_finite() { x } else { q.si };
+            }
+        }
+        in_unit(q, self.unit)
+    }
+}
+
 fn axis_label(name: &str, unit: Option<&Unit>) -> String {
     match unit {
         Some(u) if !u.symbol.is_empty() => format!("{name} [{}]", u.symbol),
@@ -219,6 +241,14 @@ fn input_cells(v: &Varied, axes: &[Vec<f64>], i: usize) -> Vec<Value> {
     let after: usize = axes[i + 1..].iter().map(Vec::len).product();
     let mut cells = Vec::with_capacity(before * axes[i].len() * after);
     for _ in 0..before {
+        if after == 1 {
+            // The last axis: one value per point, written in one pass.
+            let values = axes[i]
+                .iter()
+                .map(|&si| Value::Quantity(v.at(si), v.unit.clone()));
+            cells.extend(values);
+            continue;
+        }
         for &si in &axes[i] {
             let q = v.at(si);
             cells.resize_with(cells.len() + after, || Value::Quantity(q, v.unit.clone()));
@@ -227,60 +257,131 @@ fn input_cells(v: &Varied, axes: &[Vec<f64>], i: usize) -> Vec<Value> {
     cells
 }
 
-/// The table of a sweep: a column per input and per probe, then the checks
-/// and the errors where there are any. Takes the outcomes, whose values
-/// become the cells.
+/// Which of the columns named `names` (in the table's order) also become a
+/// list field of the sweep record: each name once, at its first column, and
+/// none named like the record's own fields or the checks and errors.
+fn list_columns<'a>(names: impl IntoIterator<Item = &'a str>) -> Vec<bool> {
+    const FIXED: [&str; 6] = ["table", "plot", "points", "failed", "checks", "error"];
+    let mut listed: Vec<&str> = Vec::new();
+    names
+        .into_iter()
+        .map(|name| {
+            let wanted = !FIXED.contains(&name) && !listed.contains(&name);
+            if wanted {
+                listed.push(name);
+            }
+            wanted
+        })
+        .collect()
+}
+
+/// A probe's column being filled, with the list field beside it when it
+/// has one: each value goes into both, a quantity written into each
+/// directly (no copy of a whole value).
+struct ProbeCells {
+    cells: Vec<Value>,
+    list: Option<Vec<Value>>,
+}
+
+impl ProbeCells {
+    fn new(n: usize, listed: bool) -> ProbeCells {
+        ProbeCells {
+            cells: Vec::with_capacity(n),
+            list: listed.then(|| Vec::with_capacity(n)),
+        }
+    }
+
+    /// Push a value: a quantity in line, anything else through [`ProbeCells::push_other`].
+    #[inline(always)]
+    fn push(&mut self, value: Value) {
+        match value {
+            Value::Quantity(q, unit) => {
+                if let Some(list) = &mut self.list {
+                    list.push(Value::Quantity(q, unit.clone()));
+                }
+                self.cells.push(Value::Quantity(q, unit));
+            }
+            other => self.push_other(other),
+        }
+    }
+
+    /// Push a value that is not a quantity (text, a record, ...), cloned for the list.
+    #[inline(never)]
+    fn push_other(&mut self, value: Value) {
+        if let Some(list) = &mut self.list {
+            list.push(value.clone());
+        }
+        self.cells.push(value);
+    }
+}
+
+/// The table of a sweep (a column per input and per probe, then the checks
+/// and the errors where there are any) and the record's list fields (each
+/// input's and probe's column as a list, where [`list_columns`] gives it
+/// one), in the table's order. Takes the outcomes, whose values become the
+/// cells.
 fn sweep_table(
     model: &Model,
     names: &[String],
     axes: &[Vec<f64>],
     outcomes: Vec<Outcome>,
-) -> Table {
+) -> (Table, Vec<(String, Value)>) {
     let n = outcomes.len();
-    let mut columns: Vec<Column> = model
-        .inputs
-        .iter()
-        .enumerate()
-        .map(|(i, v)| Column {
+    let column_names = model.inputs.iter().map(|v| v.name.as_str());
+    let listed = list_columns(column_names.chain(names.iter().map(String::as_str)));
+    let (listed_inputs, listed_probes) = listed.split_at(model.inputs.len());
+    let mut lists: Vec<(String, Value)> = Vec::new();
+    let mut columns: Vec<Column> = Vec::with_capacity(model.inputs.len() + names.len() + 2);
+    for (i, v) in model.inputs.iter().enumerate() {
+        if listed_inputs[i] {
+            lists.push((v.name.clone(), Value::List(input_cells(v, axes, i))));
+        }
+        columns.push(Column {
             name: v.name.clone(),
             unit: v.unit.clone().or_else(|| Some(default_unit(&v.base))),
             cells: input_cells(v, axes, i),
-        })
-        .collect();
-    let inputs = columns.len();
-    for (k, name) in names.iter().enumerate() {
-        columns.push(Column {
-            name: name.clone(),
-            unit: probe_unit(&outcomes, k),
-            cells: Vec::with_capacity(n),
         });
     }
+    let units: Vec<Option<Unit>> = (0..names.len()).map(|k| probe_unit(&outcomes, k)).collect();
+    let mut probes: Vec<ProbeCells> = listed_probes
+        .iter()
+        .map(|&listed| ProbeCells::new(n, listed))
+        .collect();
     let mut checks = (!model.rules.is_empty()).then(|| Vec::with_capacity(n));
     let mut errors = outcomes
         .iter()
         .any(|o| o.values.is_err())
         .then(|| Vec::with_capacity(n));
-    let probes = &mut columns[inputs..];
     for o in outcomes {
         if let Some(checks) = &mut checks {
             checks.push(Value::Str(rules_text(model, &o)));
         }
         match o.values {
             Ok(values) => {
-                push_values(probes, values);
+                push_values(&mut probes, values);
                 if let Some(errors) = &mut errors {
                     errors.push(Value::Str(String::new()));
                 }
             }
             Err(message) => {
-                for column in probes.iter_mut() {
-                    column.cells.push(Value::Str("-".into()));
+                for probe in probes.iter_mut() {
+                    probe.push(Value::Str("-".into()));
                 }
                 if let Some(errors) = &mut errors {
                     errors.push(Value::Str(message));
                 }
             }
         }
+    }
+    for ((name, unit), probe) in names.iter().zip(units).zip(probes) {
+        if let Some(list) = probe.list {
+            lists.push((name.clone(), Value::List(list)));
+        }
+        columns.push(Column {
+            name: name.clone(),
+            unit,
+            cells: probe.cells,
+        });
     }
     for (name, cells) in [("checks", checks), ("error", errors)] {
         if let Some(cells) = cells {
@@ -292,38 +393,29 @@ fn sweep_table(
         }
     }
     let over: Vec<&str> = model.inputs.iter().map(|v| v.name.as_str()).collect();
-    Table {
+    let table = Table {
         title: Some(format!("sweep over {}", over.join(" and "))),
         columns,
-    }
+    };
+    (table, lists)
 }
 
 /// Push a point's probe values onto the probes' columns, in order.
-fn push_values(columns: &mut [Column], values: Values) {
+fn push_values(probes: &mut [ProbeCells], values: Values) {
     match values.into_inner() {
         // One probe (the usual study): its value, out of the small vector
         // without its iterator.
         Ok([value]) => {
-            if let Some(column) = columns.first_mut() {
-                column.cells.push(value);
+            if let Some(probe) = probes.first_mut() {
+                probe.push(value);
             }
         }
         Err(values) => {
-            for (column, value) in columns.iter_mut().zip(values) {
-                column.cells.push(value);
+            for (probe, value) in probes.iter_mut().zip(values) {
+                probe.push(value);
             }
         }
     }
-}
-
-/// A copy of a column's cells (for the list field beside the table), each
-/// quantity copied in line: the same values as `cells.clone()`.
-fn copy_cells(cells: &[Value]) -> Vec<Value> {
-    let mut copy = Vec::with_capacity(cells.len());
-    for cell in cells {
-        copy.push(cell.copied());
-    }
-    copy
 }
 
 /// `pass`, or the checks that fail at this point.
@@ -406,10 +498,11 @@ fn line(
         style: SeriesStyle::Line,
         ..Series::default()
     };
+    let shown = Shown::new(unit);
     for (x, o) in xs.iter().zip(outcomes) {
         if let Some(q) = o.quantity(k).filter(|q| Some(q.dim) == dim) {
             s.x.push(*x);
-            s.y.push(in_unit(&q, unit));
+            s.y.push(shown.value(&q));
         }
     }
     (!s.x.is_empty()).then_some(s)
@@ -432,11 +525,12 @@ fn heat_map(
     let nx = xs.len();
     let mut z = vec![f64::NAN; nx * ny];
     // Point `i * ny + j` is at x `i`, y `j`: a run of `ny` points per x.
+    let shown = Shown::new(z_unit);
     if ny > 0 {
         for (i, run) in outcomes.chunks(ny).enumerate() {
             for (j, o) in run.iter().enumerate() {
                 if let Some(q) = o.quantity(0) {
-                    z[j * nx + i] = in_unit(&q, z_unit);
+                    z[j * nx + i] = shown.value(&q);
                 }
             }
         }
@@ -451,8 +545,10 @@ fn heat_map(
 
 #[cfg(test)]
 mod tests {
-    use super::{flat_grid, grid, in_unit};
+    use super::{flat_grid, grid, in_unit, list_columns, Shown};
+    use crate::session::Session;
     use crate::units::{parse_unit, Dim, Kind, Quantity, Unit};
+    use crate::value::Value;
 
     /// A quantity's magnitude in `unit` through [`Unit::from_si`] (SI when
     /// the unit cannot show it): the general conversion `in_unit` must match.
@@ -460,7 +556,8 @@ mod tests {
         unit.and_then(|u| u.from_si(q).ok()).unwrap_or(q.si)
     }
 
-    /// The in-line conversion gives the bits of [`Unit::from_si`]'s, for
+    /// The in-line conversion, and the one with the unit's numbers read
+    /// once for a column ([`Shown`]), give the bits of [`Unit::from_si`]'s, for
     /// units it works out (linear, plain or of the quantity's kind) and
     /// units it hands on (affine shown for a difference, wet basis, another
     /// dimension), at ordinary, extreme and non-finite magnitudes.
@@ -523,6 +620,8 @@ mod tests {
                 let fast = in_unit(q, unit.as_ref());
                 let general = in_unit_general(q, unit.as_ref());
                 assert_eq!(fast.to_bits(), general.to_bits(), "{q:?} in {unit:?}");
+                let hoisted = Shown::new(unit.as_ref()).value(q);
+                assert_eq!(hoisted.to_bits(), general.to_bits(), "{q:?} in {unit:?}");
                 if unit.as_ref().is_some_and(|u| u.from_si(q).is_ok()) {
                     shown_in_line += 1;
                 }
@@ -563,6 +662,108 @@ mod tests {
         for axes in cases {
             let flat: Vec<f64> = grid(&axes).into_iter().flatten().collect();
             assert_eq!(flat_grid(&axes), flat, "{axes:?}");
+        }
+    }
+
+    /// The list fields as the sweep built them before they were built beside
+    /// the table: every column in the table's order that is not named like
+    /// a field of the record, the checks or the errors, nor like an earlier
+    /// listed column.
+    fn listed_by_name(names: &[&str]) -> Vec<bool> {
+        let fixed = ["table", "plot", "points", "failed"];
+        let mut lists: Vec<&str> = Vec::new();
+        let mut out = Vec::new();
+        for name in names {
+            let taken = fixed.contains(name) || lists.contains(name);
+            let listed = !taken && *name != "checks" && *name != "error";
+            if listed {
+                lists.push(name);
+            }
+            out.push(listed);
+        }
+        out
+    }
+
+    #[test]
+    fn list_columns_are_the_columns_not_named_like_fields_each_once() {
+        let cases: [&[&str]; 5] = [
+            &["x", "y"],
+            &["x", "k", "y", "y", "x"],
+            &["points", "failed", "table", "plot", "checks", "error", "z"],
+            &["T", "checks", "T", "error", "w"],
+            &[],
+        ];
+        for names in cases {
+            assert_eq!(
+                list_columns(names.iter().copied()),
+                listed_by_name(names),
+                "{names:?}"
+            );
+        }
+        assert_eq!(
+            list_columns(["x", "x", "table", "y"]),
+            vec![true, false, false, true]
+        );
+    }
+
+    /// Each list field of a sweep holds, value for value, the cells of the
+    /// first table column of its name (inputs, probes of several kinds,
+    /// failed points shown as `-`, a repeated probe, a probe named like a
+    /// field of the record), and the plot has the points it had.
+    #[test]
+    fn list_fields_read_the_table_columns() {
+        let sheet = "input x = 2 m
+input k = 3
+r = sqrt((x - 1.5 m) / (1 m)) * k
+y = k * x
+points = 2 * y
+big = y > 5 m
+a = air(T: 20 degC + 10 K * k, rh: 20 %)
+check y < 20 m
+s = sweep([r, y as cm, y, points, big, a, a.h], x: steps(0.5 m, 4 m, 0.5 m), k: [1, 2, 4.5])
+s1 = sweep([r, y], x: steps(0.5 m, 4 m, 0.5 m))
+";
+        let mut session = Session::new();
+        session.eval(sheet).expect("the worksheet runs");
+        for (name, inputs) in [("s", 2), ("s1", 1)] {
+            let Some(Value::Record(record)) = session.value(name) else {
+                panic!("{name} is not a record");
+            };
+            let Some(Value::Table(table)) = record.get("table") else {
+                panic!("{name}.table is not a table");
+            };
+            let fields: Vec<&str> = record.fields.iter().map(|(n, _)| n.as_ref()).collect();
+            let columns: Vec<&str> = table.columns.iter().map(|c| c.name.as_str()).collect();
+            let listed = list_columns(columns.iter().copied());
+            let mut lists = 0;
+            for (column, listed) in table.columns.iter().zip(listed) {
+                if !listed {
+                    continue;
+                }
+                lists += 1;
+                let Some(Value::List(list)) = record.get(&column.name) else {
+                    panic!("{name}.{} is not a list", column.name);
+                };
+                assert_eq!(list.len(), column.cells.len());
+                for (a, b) in list.iter().zip(&column.cells) {
+                    assert_eq!(format!("{a:?}"), format!("{b:?}"), "{name}.{}", column.name);
+                }
+            }
+            assert_eq!(fields.len(), 4 + lists, "{fields:?}");
+            assert!(lists > inputs, "{columns:?}");
+            let cells = table.columns[inputs].cells.iter();
+            let failed = cells
+                .filter(|c| matches!(c, Value::Str(s) if s == "-"))
+                .count();
+            assert!(failed > 0, "some points fail");
+            let Some(Value::Plot(plot)) = record.get("plot") else {
+                panic!("{name}.plot is not a plot");
+            };
+            let drawn = match &plot.heat {
+                Some(heat) => heat.z.iter().filter(|z| !z.is_nan()).count(),
+                None => plot.series[0].x.len(),
+            };
+            assert_eq!(drawn + failed, table.columns[0].cells.len(), "{name}");
         }
     }
 }
