@@ -41,7 +41,7 @@ pub fn colburn_factor(pr: f64, sc: f64) -> Result<Correlated<f64>, TransferError
 /// subnormal, non-finite and negative inputs go to `f64::cbrt`.
 #[inline]
 fn cube_root(x: f64) -> f64 {
-    if !(x >= f64::MIN_POSITIVE && x < f64::MAX) {
+    if !(f64::MIN_POSITIVE..f64::MAX).contains(&x) {
         return x.cbrt();
     }
     let mut y = first_guess(x);
