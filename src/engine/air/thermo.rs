@@ -177,7 +177,8 @@ impl AirPartTerms {
 /// (J/(kg K)), `pa` and `pv` (J/(kg Pa)), analytic.
 #[inline(always)]
 pub fn air_part_enthalpy_and_slopes(t: f64, pa: f64, pv: f64) -> WithSlopes {
-    let (h_dry, cp_dry) = dry_air_enthalpy_and_cp(t);
+    // From the table of the dry-air enthalpy, as in `AirPartTerms::at`.
+    let (h_dry, cp_dry) = super::dry_air_table::enthalpy_and_cp(t);
     let residual = air_residual_enthalpy_and_slopes(t, pa, pv);
     WithSlopes {
         value: h_dry + residual.value - air_residual_reference(),
@@ -214,7 +215,7 @@ impl HeatTerms {
     pub fn at(t: f64) -> HeatTerms {
         let (inv_t, tau, _, g_tau_tau) = vapour_virial_sums(t);
         HeatTerms {
-            cp_dry: air_ideal_enthalpy_and_cp(t).1,
+            cp_dry: super::dry_air_table::enthalpy_and_cp(t).1,
             cp_vapour: vapour_ideal_enthalpy_and_cp(t).1,
             slope_air_air: virial_enthalpy_slope(t, &B_AIR_AIR),
             slope_air_water: virial_enthalpy_slope(t, &B_AIR_WATER),
