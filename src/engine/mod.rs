@@ -16,3 +16,4 @@ pub mod stats;
 pub mod thin_layer;
 pub mod transfer;
 pub mod transport;
+mod transport_table;

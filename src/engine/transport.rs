@@ -110,6 +110,14 @@ fn vapour_conductivity_from(tr: f64, root_tr: f64) -> f64 {
 /// The two viscosity ratios are reciprocal, so one square root serves both;
 /// the molar-mass terms are fixed and computed once.
 fn wilke_factors(mu_a: f64, mu_w: f64) -> (f64, f64) {
+    let ((num_aw, d_aw), (num_wa, d_wa)) = wilke_parts(mu_a, mu_w);
+    (num_aw * num_aw / d_aw, num_wa * num_wa / d_wa)
+}
+
+/// Wilke's factors as `(numerator root, denominator)` pairs: `phi = n^2 / d`
+/// with `n = 1 + (mu_i/mu_j)^(1/2) (M_j/M_i)^(1/4)` and `d = (8 (1 + M_i/M_j))^(1/2)`.
+#[inline]
+fn wilke_parts(mu_a: f64, mu_w: f64) -> ((f64, f64), (f64, f64)) {
     // (M_w/M_a)^(1/4), (M_a/M_w)^(1/4), sqrt(8 (1 + M_a/M_w)), sqrt(8 (1 + M_w/M_a)).
     static MASS_TERMS: OnceLock<[f64; 4]> = OnceLock::new();
     let [q_aw, q_wa, d_aw, d_wa] = *MASS_TERMS.get_or_init(|| {
@@ -121,9 +129,85 @@ fn wilke_factors(mu_a: f64, mu_w: f64) -> (f64, f64) {
         ]
     });
     let r = (mu_a / mu_w).sqrt();
-    let num_aw = 1.0 + r * q_aw;
-    let num_wa = 1.0 + q_wa / r;
-    (num_aw * num_aw / d_aw, num_wa * num_wa / d_wa)
+    ((1.0 + r * q_aw, d_aw), (1.0 + q_wa / r, d_wa))
+}
+
+/// The temperature functions of the mixture properties, as the table of
+/// [`crate::engine::transport_table`] holds them: dry-air and vapour
+/// viscosity and conductivity, and Wilke's two factors.
+pub(crate) const PURE_GAS_FUNCTIONS: usize = 6;
+
+/// The pure-gas properties at `t` (K) given `ln T` and `sqrt T`:
+/// `[mu_a, k_a, mu_w, k_w, phi_aw, phi_wa]` (Pa s, W/(m K), Pa s, W/(m K),
+/// and Wilke's factors), exactly as the properties of a state use them.
+#[inline]
+pub(crate) fn pure_gas_exact(t: f64, ln_t: f64, root_t: f64) -> [f64; PURE_GAS_FUNCTIONS] {
+    let mu_a = dry_air_viscosity_from_logs(root_t, ln_t);
+    let k_a = dry_air_conductivity_from(t, ln_t, mu_a);
+    let tr = t / T_CRITICAL_WATER;
+    let root_tr = root_t * (1.0 / T_CRITICAL_WATER.sqrt());
+    let (mu_w, k_w) = (
+        vapour_viscosity_from(tr, root_tr),
+        vapour_conductivity_from(tr, root_tr),
+    );
+    let (phi_aw, phi_wa) = wilke_factors(mu_a, mu_w);
+    [mu_a, k_a, mu_w, k_w, phi_aw, phi_wa]
+}
+
+/// [`pure_gas_exact`] at `t` (K) with the temperature derivative of each
+/// function (per K), analytic: the values and slopes of the table's nodes.
+pub(crate) fn pure_gas_with_slopes(t: f64) -> [(f64, f64); PURE_GAS_FUNCTIONS] {
+    let (ln_t, root_t) = (t.ln(), t.sqrt());
+    let [mu_a, k_a, mu_w, k_w, phi_aw, phi_wa] = pure_gas_exact(t, ln_t, root_t);
+    let inv_t = 1.0 / t;
+    // mu_a = c sqrt(T) / e^Omega(x), x = ln T - ln(eps/k):
+    // d ln mu_a / dT = (1/2 - Omega'(x)) / T.
+    const B: [f64; 5] = [0.431, -0.4623, 0.08406, 0.005341, -0.00331];
+    let x = ln_t - LN_EPS_K;
+    let d_omega = B[1] + x * (2.0 * B[2] + x * (3.0 * B[3] + x * 4.0 * B[4]));
+    let d_mu_a = mu_a * (0.5 - d_omega) * inv_t;
+    // k_a = 1e-3 (1.308 mu_a[uPa s] + 1.405 (T/T_r)^1.1 - 1.036 (T/T_r)^0.3).
+    let ratio = t / T_REDUCING;
+    let d_k_a = 1e-3
+        * (1.308 * d_mu_a * 1e6 + 1.405 * 1.1 * ratio.powf(1.1) * inv_t
+            - 1.036 * 0.3 * ratio.powf(0.3) * inv_t);
+    // Vapour: prop = c sqrt(T_r) / S(1/T_r); d ln prop / dT = 1/(2T) + S'(u) u / (S T), u = 1/T_r.
+    let tr = t / T_CRITICAL_WATER;
+    let u = 1.0 / tr;
+    let log_slope = |s: &[f64]| {
+        let (mut sum, mut d_sum) = (0.0, 0.0);
+        for (i, c) in s.iter().enumerate().rev() {
+            d_sum = d_sum * u + i as f64 * c;
+            sum = sum * u + c;
+        }
+        // d_sum accumulated sum i c u^i: S'(u) u.
+        (0.5 + d_sum / sum) * inv_t
+    };
+    let d_mu_w = mu_w * log_slope(&[1.67752, 2.20462, 0.636_656_4, -0.241_605]);
+    let d_k_w = k_w
+        * log_slope(&[
+            2.443_221e-3,
+            1.323_095e-2,
+            6.770_357e-3,
+            -3.454_586e-3,
+            4.096_266e-4,
+        ]);
+    // phi_aw = (1 + r q_aw)^2 / d_aw, phi_wa = (1 + q_wa / r)^2 / d_wa with
+    // r = sqrt(mu_a / mu_w): d ln r / dT = (d ln mu_a - d ln mu_w) / 2.
+    let d_ln_r = 0.5 * (d_mu_a / mu_a - d_mu_w / mu_w);
+    // With phi = n^2 / d: d phi / dT = 2 phi (n - 1) / n d ln r for
+    // n = 1 + r q, and minus that for n = 1 + q / r.
+    let ((n_aw, _), (n_wa, _)) = wilke_parts(mu_a, mu_w);
+    let d_phi_aw = 2.0 * phi_aw * (n_aw - 1.0) / n_aw * d_ln_r;
+    let d_phi_wa = -2.0 * phi_wa * (n_wa - 1.0) / n_wa * d_ln_r;
+    [
+        (mu_a, d_mu_a),
+        (k_a, d_k_a),
+        (mu_w, d_mu_w),
+        (k_w, d_k_w),
+        (phi_aw, d_phi_aw),
+        (phi_wa, d_phi_wa),
+    ]
 }
 
 /// Mole-fraction mixing of a property of air (a) and water vapour (w) with
@@ -179,15 +263,10 @@ impl Transport {
         let (t, w, p) = (air.t_kelvin(), air.humidity_ratio(), air.p_pascal());
         let x_w = water_mole_fraction(w);
         let root_t = t.sqrt();
-        let mu_a = dry_air_viscosity_from_logs(root_t, ln_t);
-        let k_a = dry_air_conductivity_from(t, ln_t, mu_a);
-        let tr = t / T_CRITICAL_WATER;
-        let root_tr = root_t * (1.0 / T_CRITICAL_WATER.sqrt());
-        let (mu_w, k_w) = (
-            vapour_viscosity_from(tr, root_tr),
-            vapour_conductivity_from(tr, root_tr),
-        );
-        let (phi_aw, phi_wa) = wilke_factors(mu_a, mu_w);
+        // The temperature functions from their table (within rounding of
+        // the exact ones), exact outside it.
+        let [mu_a, k_a, mu_w, k_w, phi_aw, phi_wa] = crate::engine::transport_table::pure_gas(t)
+            .unwrap_or_else(|| pure_gas_exact(t, ln_t, root_t));
         Transport {
             viscosity_pa_s: wilke_mix_with(x_w, mu_a, mu_w, phi_aw, phi_wa),
             conductivity_w_per_m_k: wilke_mix_with(x_w, k_a, k_w, phi_aw, phi_wa),

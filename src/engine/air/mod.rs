@@ -12,6 +12,7 @@
 //! plain fraction 0..1.
 
 mod altitude;
+mod dry_air_table;
 mod dry_bulb;
 mod error;
 mod per_pressure;

@@ -25,10 +25,39 @@ pub fn colburn_factor(pr: f64, sc: f64) -> Result<Correlated<f64>, TransferError
     let sc = positive("Schmidt number", sc, "")?;
     // (Pr/Sc)^(2/3) as the cube root of the square: one root, no power.
     let ratio = pr / sc;
-    let mut out = Correlated::new((ratio * ratio).cbrt());
+    let mut out = Correlated::new(cube_root(ratio * ratio));
     check_range(&mut out.warnings, NAME, "Pr", pr, (0.6, 60.0), "");
     check_range(&mut out.warnings, NAME, "Sc", sc, (0.6, 3000.0), "");
     Ok(out)
+}
+
+/// `x^(1/3)` for the analogy factor: within one unit in the last place of
+/// the correctly rounded root (test `cube_root_within_an_ulp`), at a
+/// fraction of the cost of `f64::cbrt` (which is correctly rounded and
+/// takes about 150 instructions). A first guess from the exponent bits
+/// (the bit pattern divided by 3 plus two thirds of the exponent bias:
+/// within 6 % for every normal positive x), two Halley steps (cubic: to
+/// about 1e-13) and a Newton step (quadratic: to rounding). Zero,
+/// subnormal, non-finite and negative inputs go to `f64::cbrt`.
+#[inline]
+fn cube_root(x: f64) -> f64 {
+    if !(f64::MIN_POSITIVE..f64::MAX).contains(&x) {
+        return x.cbrt();
+    }
+    let mut y = first_guess(x);
+    for _ in 0..2 {
+        let y3 = y * y * y;
+        y *= (y3 + 2.0 * x) / (2.0 * y3 + x);
+    }
+    y - (y * y * y - x) / (3.0 * y * y)
+}
+
+/// [`cube_root`]'s start: the bit pattern of a normal positive `x` over 3,
+/// plus two thirds of the exponent bias (exact at powers of 8).
+#[inline]
+fn first_guess(x: f64) -> f64 {
+    const TWO_THIRDS_BIAS: u64 = 682 << 52;
+    f64::from_bits(x.to_bits() / 3 + TWO_THIRDS_BIAS)
 }
 
 /// Mass-transfer coefficient on a concentration basis, k_c [m/s]:
@@ -113,6 +142,37 @@ mod tests {
         let f = colburn_factor(0.71, 0.60).unwrap().value;
         assert!((f - (0.71_f64 / 0.60).powf(2.0 / 3.0)).abs() < 1e-12);
         assert!(f > 1.05 && f < 1.2);
+    }
+
+    /// The fast cube root against the standard library's correctly rounded
+    /// `f64::cbrt`: within one unit in the last place over the whole normal
+    /// range (log-spaced), densely over the analogy's working range (squares
+    /// of Pr/Sc from 0.1 to 10), and exact on perfect cubes; the inputs it
+    /// hands over (zero, subnormal, infinite, NaN) give `f64::cbrt`'s value.
+    #[test]
+    fn cube_root_within_an_ulp() {
+        let ulps = |a: f64, b: f64| (a.to_bits() as i64 - b.to_bits() as i64).abs();
+        let mut worst = 0;
+        for i in 0..=200_000 {
+            let x = 10f64.powf(-307.0 + 614.0 * i as f64 / 200_000.0);
+            worst = worst.max(ulps(cube_root(x), x.cbrt()));
+            let guess = first_guess(x) / x.cbrt() - 1.0;
+            assert!(guess.abs() < 0.06, "guess at {x}: {guess}");
+        }
+        for i in 0..=200_000 {
+            let r = 0.1 + 9.9 * i as f64 / 200_000.0;
+            let x = r * r;
+            worst = worst.max(ulps(cube_root(x), x.cbrt()));
+        }
+        assert!(worst <= 1, "worst {worst} ulps");
+        for k in 1..=1000 {
+            let y = f64::from(k) / 16.0;
+            assert_eq!(cube_root(y * y * y), y, "{y}");
+        }
+        for x in [0.0, -0.0, 1e-310, f64::MAX, f64::INFINITY, -8.0] {
+            assert_eq!(cube_root(x).to_bits(), x.cbrt().to_bits(), "{x}");
+        }
+        assert!(cube_root(f64::NAN).is_nan());
     }
 
     #[test]
