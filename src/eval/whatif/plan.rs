@@ -504,12 +504,12 @@ impl Run<'_, '_> {
         if let Node::Name(src) = s.node {
             self.read(src, s.span)?;
             let (v, cost) = (self.value(src).copied(), self.cost(src));
-            self.slots[k] = Slot::Ready(v, cost);
+            fill(&mut self.slots[k], v, cost);
             return Ok(());
         }
         let v = self.node(s)?;
         let cost = self.charge(&v, s.span)?;
-        self.slots[k] = Slot::Ready(v, cost);
+        fill(&mut self.slots[k], v, cost);
         Ok(())
     }
 
@@ -713,6 +713,16 @@ impl Run<'_, '_> {
             self.argument(a, args)?;
         }
         self.ctx.run_builtin(call.builtin, args, span)
+    }
+}
+
+/// Make `slot` ready with `v` and its cost. (A slot is filled when it is
+/// forced, so not set yet: nothing to drop.)
+#[inline(always)]
+fn fill(slot: &mut Slot, v: Value, cost: Cost) {
+    match slot {
+        Slot::Unset => *slot = Slot::Ready(v, cost),
+        other => *other = Slot::Ready(v, cost),
     }
 }
 
