@@ -109,6 +109,7 @@ impl Ctx<'_> {
     /// Run a built-in on bound arguments, catching panics as internal errors.
     /// The arguments' folder is the sheet's, unless they have one already
     /// (arguments reused from call to call within one study).
+    #[inline]
     pub(super) fn run_builtin(
         &mut self,
         b: &'static Builtin,

@@ -124,6 +124,26 @@ pub struct Arg {
     pub span: Span,
 }
 
+/// An argument bound to a parameter: its value and its span, with no room
+/// for a name (what a study's point writes for every argument).
+#[derive(Clone, Debug)]
+struct Bound {
+    value: Value,
+    span: Span,
+}
+
+impl Bound {
+    /// The argument as [`Args::take`] gives it (without a name: it is bound).
+    #[inline]
+    fn into_arg(self) -> Arg {
+        Arg {
+            name: None,
+            value: self.value,
+            span: self.span,
+        }
+    }
+}
+
 /// The arguments of one call, bound to the built-in's parameters.
 ///
 /// Positional arguments bind to parameters in declaration order; named ones by
@@ -132,7 +152,8 @@ pub struct Arg {
 pub struct Args {
     pub builtin: &'static Builtin,
     pub call_span: Span,
-    bound: Vec<Option<Arg>>,
+    /// The arguments by parameter, without their names (bound, they need none).
+    bound: Vec<Option<Bound>>,
     /// The parameter the next positional argument binds to.
     next_positional: usize,
     /// Warnings attached to the call (validity ranges and the like).
@@ -210,21 +231,18 @@ impl Args {
     /// then, at every point, clears ([`Args::clear`]) and fills the same
     /// `Args`.
     pub fn place(&mut self, index: usize, arg: Arg) {
-        if let Some(place) = self.bound.get_mut(index) {
-            *place = Some(arg);
-        }
+        self.place_value(index, arg.value, arg.span);
     }
 
-    /// [`Args::place`] for an argument without a name (as the evaluator
-    /// binds them), built in its place.
+    /// [`Args::place`] for the value and span of an argument (its name is
+    /// not kept: it is bound), built in its place.
     #[inline]
     pub fn place_value(&mut self, index: usize, value: Value, span: Span) {
-        if let Some(place) = self.bound.get_mut(index) {
-            *place = Some(Arg {
-                name: None,
-                value,
-                span,
-            });
+        match self.bound.get_mut(index) {
+            // (After `clear`, as a study's plan fills them: nothing to drop.)
+            Some(place @ None) => *place = Some(Bound { value, span }),
+            Some(Some(bound)) => *bound = Bound { value, span },
+            None => {}
         }
     }
 
@@ -282,7 +300,10 @@ impl Args {
                 ),
             ));
         }
-        self.bound[index] = Some(arg);
+        self.bound[index] = Some(Bound {
+            value: arg.value,
+            span: arg.span,
+        });
         Ok(index)
     }
 
@@ -354,7 +375,7 @@ impl Args {
     /// [`Args::take`] for the parameter at `index`.
     #[inline]
     pub fn take_at(&mut self, index: usize) -> Option<Arg> {
-        self.bound[index].take()
+        self.bound[index].take().map(Bound::into_arg)
     }
 
     /// The SI magnitude of the argument at parameter `index` when it is a
@@ -384,7 +405,7 @@ impl Args {
     ) -> Option<f64> {
         let slot = self.bound.get_mut(index)?;
         let si = match slot {
-            Some(Arg {
+            Some(Bound {
                 value: Value::Quantity(q, _),
                 ..
             }) if q.dim == dim && accept(q) => q.si,
@@ -507,10 +528,9 @@ impl Args {
         index: usize,
         dim: Dim,
     ) -> Result<Option<(Quantity, Span)>, Diagnostic> {
-        if let Some(Arg {
+        if let Some(Bound {
             value: Value::Quantity(q, _),
             span,
-            ..
         }) = &self.bound[index]
         {
             if q.dim == dim {
@@ -519,7 +539,7 @@ impl Args {
                 return Ok(Some(found));
             }
         }
-        match self.bound[index].take() {
+        match self.take_at(index) {
             Some(arg) => expect_quantity(self.builtin, self.name_at(index), &arg, dim)
                 .map(|q| Some((q, arg.span))),
             None => Ok(None),
@@ -550,7 +570,7 @@ impl Args {
         read: impl FnOnce(&T) -> U,
     ) -> Option<U> {
         let found = match &self.bound[index] {
-            Some(Arg {
+            Some(Bound {
                 value: Value::Record(r),
                 ..
             }) if r.type_name == type_name => read(r.payload::<T>()?),
@@ -608,19 +628,18 @@ impl Args {
 /// Drop `arg`, a quantity taken from its slot, without calling the general
 /// drop of a [`Value`] (a call a study's point would make for each argument
 /// read): a quantity owns nothing to free (its display unit is a reference
-/// to data kept for the whole run), so it is forgotten; the argument's name,
-/// if it has one, is dropped as usual. Anything else is dropped as usual.
+/// to data kept for the whole run), so it is forgotten. Anything else is
+/// dropped as usual.
 #[inline(always)]
-fn drop_quantity(arg: Option<Arg>) {
+fn drop_quantity(arg: Option<Bound>) {
     // What makes forgetting it free nothing: a quantity and its display unit
     // need no drop (checked when this is compiled).
     const _: () = assert!(!std::mem::needs_drop::<(Quantity, Option<Unit>)>());
-    if let Some(Arg { name, value, .. }) = arg {
+    if let Some(Bound { value, .. }) = arg {
         match value {
             Value::Quantity(..) => std::mem::forget(value),
             other => drop(other),
         }
-        drop(name);
     }
 }
 
@@ -817,6 +836,39 @@ mod tests {
         }
         let heat = find("heat").expect("heat");
         assert!((0..heat.params.len()).all(|i| !heat.reads_only_payload(i)));
+    }
+
+    /// A bound argument keeps its value and span, not its name: taken, it
+    /// comes back without one, whether bound by name or placed; placing over
+    /// an argument still there replaces it, as binding afresh would.
+    #[test]
+    fn bound_arguments_keep_value_and_span_and_placing_replaces() {
+        let air = find("air").expect("air");
+        let span = |start| Span {
+            file: 0,
+            start,
+            end: start + 2,
+        };
+        let q = |si: f64| Value::Quantity(Quantity::new(si, Dim::PRESSURE, Kind::Plain), None);
+        let named = Arg {
+            name: Some("p".to_string()),
+            value: q(1.0),
+            span: span(3),
+        };
+        let mut args = Args::bind(air, Span::default(), vec![named]).expect("binds");
+        let taken = args.take("p").expect("given");
+        assert_eq!((taken.name, taken.span), (None, span(3)));
+        let p = air.param_index("p").expect("p");
+        let mut args = Args::unbound(air, Span::default());
+        args.place_value(p, Value::Str("first".into()), span(5));
+        args.place_value(p, q(2.0), span(7));
+        let taken = args.take_at(p).expect("given");
+        assert_eq!(format!("{:?}", taken.value), format!("{:?}", q(2.0)));
+        assert_eq!(taken.span, span(7));
+        assert!(args.finish().is_ok());
+        // A position past the parameters places nothing.
+        args.place_value(99, q(3.0), span(9));
+        assert!(args.finish().is_ok());
     }
 
     /// `take_si_at` takes only what the general path would accept, giving

@@ -175,14 +175,17 @@ impl State {
     /// call's arguments, for it to build this point's record in.
     pub fn start(&mut self) {
         for (s, by) in self.slots.iter_mut().zip(&self.defined_by) {
-            // (A value moved out at its sole read left nothing behind.)
-            if matches!(s, Slot::Unset) {
-                continue;
-            }
-            if let (Slot::Ready(Value::Record(r), _), Some(k)) = (std::mem::take(s), *by) {
-                if let Some(Some(args)) = self.calls.get_mut(k) {
-                    args.keep_spare(r);
+            match (&*s, *by) {
+                // (A value moved out at its sole read left nothing behind.)
+                (Slot::Unset, _) => {}
+                (Slot::Ready(Value::Record(_), _), Some(k)) => {
+                    if let Slot::Ready(Value::Record(r), _) = std::mem::take(s) {
+                        if let Some(Some(args)) = self.calls.get_mut(k) {
+                            args.keep_spare(r);
+                        }
+                    }
                 }
+                _ => *s = Slot::Unset,
             }
         }
     }
@@ -463,36 +466,56 @@ enum Operand {
 impl Run<'_, '_> {
     /// [`Ctx::expr`] on the step's expression.
     fn step(&mut self, s: &Step) -> Flow<Value> {
-        self.step_costed(s).map(|(v, _)| v)
-    }
-
-    /// [`Run::step`], with what its value counts against the step budget.
-    fn step_costed(&mut self, s: &Step) -> Flow<(Value, Cost)> {
         self.ctx.tick(s.span)?;
         if let Node::Name(src) = s.node {
             self.read(src, s.span)?;
-            return Ok((self.value(src).copied(), self.cost(src)));
+            return Ok(self.value(src).copied());
         }
         let v = self.node(s)?;
-        let cost = match &v {
+        self.charge(&v, s.span)?;
+        Ok(v)
+    }
+
+    /// Count the items of `v`, the value of a step at `span` other than a
+    /// name, as `Ctx::expr` counts them, giving what reading it again counts.
+    #[inline(always)]
+    fn charge(&mut self, v: &Value, span: Span) -> Flow<Cost> {
+        match v {
             // (What `list_cost` counts for it, without the call.)
             Value::Record(r) if is_flat_record(r) => {
-                self.ctx.charge_items(0, s.span)?;
-                Some(0)
+                self.ctx.charge_items(0, span)?;
+                Ok(Some(0))
             }
             Value::List(_) | Value::Record(_) => {
-                let n = self.ctx.list_cost(&v, s.span)?;
-                self.ctx.charge_items(n, s.span)?;
-                Some(n)
+                let n = self.ctx.list_cost(v, span)?;
+                self.ctx.charge_items(n, span)?;
+                Ok(Some(n))
             }
-            _ => None,
-        };
-        Ok((v, cost))
+            _ => Ok(None),
+        }
+    }
+
+    /// [`Run::step`] on definition `k`, its value (and what reading it
+    /// counts) written straight into its slot.
+    #[inline(always)]
+    fn define(&mut self, k: usize) -> Flow<()> {
+        let s = &self.plan.defs[k];
+        self.ctx.tick(s.span)?;
+        if let Node::Name(src) = s.node {
+            self.read(src, s.span)?;
+            let (v, cost) = (self.value(src).copied(), self.cost(src));
+            fill(&mut self.slots[k], v, cost);
+            return Ok(());
+        }
+        let v = self.node(s)?;
+        let cost = self.charge(&v, s.span)?;
+        fill(&mut self.slots[k], v, cost);
+        Ok(())
     }
 
     /// Read name `src` at `span` (after the step's tick): compute it if
     /// needed, and count its items as `Ctx::expr` does.
-    #[inline]
+    #[inline(always)]
     fn read(&mut self, src: Source, span: Span) -> Flow<()> {
         self.ready(src)?;
         match self.cost(src) {
@@ -514,6 +537,7 @@ impl Run<'_, '_> {
         }
     }
 
+    #[inline]
     fn node(&mut self, s: &Step) -> Flow<Value> {
         match &s.node {
             Node::Literal(i) => Ok(self.plan.fixed[*i].clone()),
@@ -570,7 +594,7 @@ impl Run<'_, '_> {
 
     /// Compute the value of `src` if it is a definition not read yet at this
     /// point ([`Ctx::force`]).
-    #[inline]
+    #[inline(always)]
     fn ready(&mut self, src: Source) -> Flow<()> {
         match src {
             Source::Def(k) => match self.slots[k] {
@@ -583,12 +607,8 @@ impl Run<'_, '_> {
     }
 
     fn force(&mut self, k: usize) -> Flow<()> {
-        let plan = self.plan;
-        match self.step_costed(&plan.defs[k]) {
-            Ok((v, cost)) => {
-                self.slots[k] = Slot::Ready(v, cost);
-                Ok(())
-            }
+        match self.define(k) {
+            Ok(()) => Ok(()),
             Err(stop) => {
                 self.slots[k] = Slot::Failed;
                 let skip = self.ctx.report(stop);
@@ -625,23 +645,26 @@ impl Run<'_, '_> {
         self.step(e).map(Operand::Owned)
     }
 
-    /// [`Run::step`] on an argument, with the two common forms (a name, a
-    /// literal) taken directly.
-    #[inline]
-    fn argument(&mut self, s: &Step) -> Flow<Value> {
-        match s.node {
+    /// [`Run::step`] on argument `a`, its value placed in `args`, with the
+    /// two common forms (a name, a literal) taken directly.
+    #[inline(always)]
+    fn argument(&mut self, a: &Argument, args: &mut Args) -> Flow<()> {
+        let s = &a.value;
+        let value = match s.node {
             Node::Name(src) => {
                 self.ctx.tick(s.span)?;
                 self.read(src, s.span)?;
-                Ok(self.value(src).copied())
+                self.value(src).copied()
             }
             // (A literal is a quantity, a truth value or text: nothing to count.)
             Node::Literal(i) => {
                 self.ctx.tick(s.span)?;
-                Ok(self.plan.fixed[i].copied())
+                self.plan.fixed[i].copied()
             }
-            _ => self.step(s),
-        }
+            _ => self.step(s)?,
+        };
+        args.place_value(a.param, value, a.span);
+        Ok(())
     }
 
     /// `of.field`, as `Ctx::field` reads it: in place from a computed record.
@@ -658,11 +681,19 @@ impl Run<'_, '_> {
         // `self.step(of)` without copying the value: the same steps.
         self.ctx.tick(of.span)?;
         self.read(src, of.span)?;
-        read_field(self.value(src), of.span, field)
+        let v = self.value(src);
+        // (What `read_field` gives for a field the record has, in line.)
+        if let Value::Record(r) = v {
+            if let Some(v) = r.get(&field.name) {
+                return Ok(v.copied());
+            }
+        }
+        read_field(v, of.span, field)
     }
 
     /// A built-in call, as `Ctx::call_builtin` runs it, in the arguments
     /// kept for it from the last point.
+    #[inline]
     fn call(&mut self, call: &Call, span: Span) -> Flow<Value> {
         let mut args = match self.calls[call.index].take() {
             Some(mut args) => {
@@ -676,12 +707,22 @@ impl Run<'_, '_> {
         result
     }
 
+    #[inline]
     fn run_call(&mut self, call: &Call, args: &mut Args, span: Span) -> Flow<Value> {
         for a in &call.args {
-            let value = self.argument(&a.value)?;
-            args.place_value(a.param, value, a.span);
+            self.argument(a, args)?;
         }
         self.ctx.run_builtin(call.builtin, args, span)
+    }
+}
+
+/// Make `slot` ready with `v` and its cost. (A slot is filled when it is
+/// forced, so not set yet: nothing to drop.)
+#[inline(always)]
+fn fill(slot: &mut Slot, v: Value, cost: Cost) {
+    match slot {
+        Slot::Unset => *slot = Slot::Ready(v, cost),
+        other => *other = Slot::Ready(v, cost),
     }
 }
 
