@@ -56,6 +56,68 @@ pub(crate) fn value_and_slope((y0, m0): (f64, f64), (y1, m1): (f64, f64), s: f64
     (value, slope)
 }
 
+/// The grid of the tables of temperature functions filled once per process
+/// (`engine::air::dry_air_table`, `engine::transport_table`): nodes `STEP`
+/// apart from `ORIGIN` to `TOP`, the engine's whole dry-bulb range. The
+/// spacing is a power of two and the ends whole kelvins, so every node
+/// temperature and the offset of a dry-bulb from the first node are exact.
+pub(crate) mod grid {
+    /// Spacing of the nodes, K.
+    pub(crate) const STEP: f64 = 0.125;
+    /// The first node, K (below -40 degC, the coldest dry-bulb the engine takes).
+    pub(crate) const ORIGIN: f64 = 232.0;
+    /// The last node, K (above 350 degC, the hottest).
+    pub(crate) const TOP: f64 = 624.0;
+
+    /// The nodes of a table of spacing `step` (K) from [`ORIGIN`] to
+    /// [`TOP`], each made by `node` at its temperature.
+    pub(crate) fn nodes<N>(step: f64, node: impl Fn(f64) -> N) -> Vec<N> {
+        let len = ((TOP - ORIGIN) / step).round() as usize + 1;
+        (0..len).map(|k| node(ORIGIN + k as f64 * step)).collect()
+    }
+
+    /// The interval of a table of `len` nodes of spacing `step` that holds
+    /// `t` (K), and where in it `t` lies (0 to 1); `None` outside the
+    /// table or for NaN.
+    #[inline]
+    pub(crate) fn locate(t: f64, step: f64, len: usize) -> Option<(usize, f64)> {
+        let x = (t - ORIGIN) * (1.0 / step);
+        let last = len.checked_sub(1)? as f64;
+        if !(x >= 0.0 && x < last) {
+            return None;
+        }
+        let k = x as usize;
+        Some((k, x - k as f64))
+    }
+}
+
+/// The largest magnitude of the fourth differences of `f` over spacings
+/// `spacings` (K), per K^4 (with `relative`, over the magnitude of `f` at
+/// the middle point), starting every `stride` K from `from` while the five
+/// points stay at or below `to`: what a table's fixed bound on a fourth
+/// derivative is tested against.
+#[cfg(test)]
+pub(crate) fn largest_fourth_difference(
+    f: impl Fn(f64) -> f64,
+    (from, to): (f64, f64),
+    spacings: &[f64],
+    stride: f64,
+    relative: bool,
+) -> f64 {
+    let mut largest: f64 = 0.0;
+    for &h in spacings {
+        let mut t = from;
+        while t + 4.0 * h <= to {
+            let middle = f(t + 2.0 * h);
+            let d4 = f(t) - 4.0 * f(t + h) + 6.0 * middle - 4.0 * f(t + 3.0 * h) + f(t + 4.0 * h);
+            let scale = if relative { middle.abs() } else { 1.0 };
+            largest = largest.max(d4.abs() / scale / h.powi(4));
+            t += stride;
+        }
+    }
+    largest
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -2,7 +2,7 @@
 //! properties ([`crate::engine::transport`]): the dilute-gas viscosity and
 //! conductivity of dry air (Lemmon & Jacobsen 2004) and of water vapour
 //! (IAPWS R12-08, R15-11) and Wilke's two interaction factors, which depend
-//! on the temperature alone. Nodes [`STEP`] apart from 232 K to 624 K
+//! on the temperature alone. Nodes 0.125 K apart ([`grid`]) from 232 K to 624 K
 //! (-41.15 to 350.85 degC), filled once per process from the exact
 //! expressions with their analytic slopes; between them the cubic Hermite
 //! interpolant of each.
@@ -25,30 +25,19 @@
 
 use std::sync::LazyLock;
 
-use crate::engine::hermite;
+use crate::engine::hermite::{self, grid};
 use crate::engine::transport::{pure_gas_with_slopes, PURE_GAS_FUNCTIONS};
-
-/// Spacing of the nodes, K: a power of two, so that every node temperature
-/// and the offset of a dry-bulb from the first node are exact.
-const STEP: f64 = 0.125;
-
-/// The first node, K (below -40 degC, the coldest dry-bulb the engine takes).
-const ORIGIN: f64 = 232.0;
-
-/// The last node, K (above 350 degC, the hottest).
-const TOP: f64 = 624.0;
 
 /// A node: each function's value and slope per node spacing.
 type Node = [(f64, f64); PURE_GAS_FUNCTIONS];
 
-static NODES: LazyLock<Vec<Node>> = LazyLock::new(|| nodes(STEP));
+static NODES: LazyLock<Vec<Node>> = LazyLock::new(|| nodes(grid::STEP));
 
-/// The nodes of a table of spacing `step` (K) from [`ORIGIN`] to [`TOP`].
+/// The nodes of a table of spacing `step` (K) over [`grid`].
 fn nodes(step: f64) -> Vec<Node> {
-    let len = ((TOP - ORIGIN) / step).round() as usize + 1;
-    (0..len)
-        .map(|k| pure_gas_with_slopes(ORIGIN + k as f64 * step).map(|(v, d)| (v, d * step)))
-        .collect()
+    grid::nodes(step, |t| {
+        pure_gas_with_slopes(t).map(|(v, d)| (v, d * step))
+    })
 }
 
 /// `[mu_a, k_a, mu_w, k_w, phi_aw, phi_wa]` at `t` (K) from the table (as
@@ -56,19 +45,13 @@ fn nodes(step: f64) -> Vec<Node> {
 /// rounding); `None` outside the table or for NaN.
 #[inline]
 pub(crate) fn pure_gas(t: f64) -> Option<[f64; PURE_GAS_FUNCTIONS]> {
-    interpolate(&NODES, STEP, t)
+    interpolate(&NODES, grid::STEP, t)
 }
 
 /// The interpolants of the table `nodes` of spacing `step` at `t`.
 #[inline]
 fn interpolate(nodes: &[Node], step: f64, t: f64) -> Option<[f64; PURE_GAS_FUNCTIONS]> {
-    let x = (t - ORIGIN) * (1.0 / step);
-    let last = (nodes.len() - 1) as f64;
-    if !(x >= 0.0 && x < last) {
-        return None;
-    }
-    let k = x as usize;
-    let s = x - k as f64;
+    let (k, s) = grid::locate(t, step, nodes.len())?;
     let (a, b) = (&nodes[k], &nodes[k + 1]);
     Some(std::array::from_fn(|i| {
         hermite::value_and_slope(a[i], b[i], s).0
@@ -78,6 +61,7 @@ fn interpolate(nodes: &[Node], step: f64, t: f64) -> Option<[f64; PURE_GAS_FUNCT
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::engine::hermite::grid::{ORIGIN, STEP, TOP};
     use crate::engine::transport::pure_gas_exact;
 
     /// A bound on the magnitude of each function's fourth temperature
@@ -157,20 +141,11 @@ mod tests {
     /// 4 and 8 K) over the table's range, and not more than ten times it.
     #[test]
     fn fourth_derivatives_are_bounded() {
-        let mut largest = [0.0_f64; PURE_GAS_FUNCTIONS];
-        for spacing in [2.0, 4.0, 8.0] {
-            let mut t = ORIGIN;
-            while t + 4.0 * spacing <= TOP {
-                let f: Vec<_> = (0..5).map(|j| exact(t + f64::from(j) * spacing)).collect();
-                for (i, largest) in largest.iter_mut().enumerate() {
-                    let d4 = f[0][i] - 4.0 * f[1][i] + 6.0 * f[2][i] - 4.0 * f[3][i] + f[4][i];
-                    *largest = largest.max(d4.abs() / f[2][i].abs() / spacing.powi(4));
-                }
-                t += spacing;
-            }
-        }
-        for i in 0..PURE_GAS_FUNCTIONS {
-            let (bound, found) = (FOURTH_MAX_RELATIVE[i], largest[i]);
+        for (i, bound) in FOURTH_MAX_RELATIVE.into_iter().enumerate() {
+            let function = |t: f64| exact(t)[i];
+            let range = (ORIGIN, TOP);
+            let spacings = [2.0, 4.0, 8.0];
+            let found = hermite::largest_fourth_difference(function, range, &spacings, 1.0, true);
             assert!(
                 bound >= 2.0 * found && bound <= 10.0 * found,
                 "{i}: {found}"

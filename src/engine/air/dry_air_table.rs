@@ -2,7 +2,7 @@
 //! to 0 degC) over the engine's dry-bulb range, for the enthalpy of a state
 //! ([`super::thermo::AirPartTerms::at`]), the enthalpy and its slopes in
 //! balances ([`super::thermo::air_part_enthalpy_and_slopes`]) and the humid
-//! heat ([`super::thermo::HeatTerms::at`]): nodes [`STEP`] apart from 232 K to
+//! heat ([`super::thermo::HeatTerms::at`]): nodes 0.125 K apart ([`grid`]) from 232 K to
 //! 624 K (-41.15 to 350.85 degC), filled once per process from the exact
 //! expression, and between them the cubic Hermite interpolant of the
 //! enthalpy and its exact slope (the ideal-gas specific heat).
@@ -26,32 +26,19 @@
 use std::sync::LazyLock;
 
 use super::thermo::dry_air_enthalpy_and_cp;
-use crate::engine::hermite;
-
-/// Spacing of the nodes, K: a power of two, so that every node temperature
-/// and the offset of a dry-bulb from the first node are exact.
-const STEP: f64 = 0.125;
-
-/// The first node, K (below -40 degC, the coldest dry-bulb the engine takes).
-const ORIGIN: f64 = 232.0;
-
-/// The last node, K (above 350 degC, the hottest).
-const TOP: f64 = 624.0;
+use crate::engine::hermite::{self, grid};
 
 /// Nodes: the enthalpy (J/kg) and its slope per node spacing (J/kg).
 type Nodes = Vec<(f64, f64)>;
 
-static NODES: LazyLock<Nodes> = LazyLock::new(|| nodes(STEP));
+static NODES: LazyLock<Nodes> = LazyLock::new(|| nodes(grid::STEP));
 
-/// The nodes of a table of spacing `step` (K) from [`ORIGIN`] to [`TOP`].
+/// The nodes of a table of spacing `step` (K) over [`grid`].
 fn nodes(step: f64) -> Nodes {
-    let len = ((TOP - ORIGIN) / step).round() as usize + 1;
-    (0..len)
-        .map(|k| {
-            let (h, cp) = dry_air_enthalpy_and_cp(ORIGIN + k as f64 * step);
-            (h, cp * step)
-        })
-        .collect()
+    grid::nodes(step, |t| {
+        let (h, cp) = dry_air_enthalpy_and_cp(t);
+        (h, cp * step)
+    })
 }
 
 /// The ideal-gas enthalpy of dry air at `t` (K) relative to 0 degC, J/kg:
@@ -70,20 +57,14 @@ pub(super) fn dry_air_enthalpy(t: f64) -> f64 {
 /// of the enthalpy given; exact outside.
 #[inline]
 pub(super) fn enthalpy_and_cp(t: f64) -> (f64, f64) {
-    interpolate(&NODES, STEP, t).unwrap_or_else(|| dry_air_enthalpy_and_cp(t))
+    interpolate(&NODES, grid::STEP, t).unwrap_or_else(|| dry_air_enthalpy_and_cp(t))
 }
 
 /// The interpolant of the table `nodes` of spacing `step` at `t`, and its
 /// derivative per K; `None` outside the table or for NaN.
 #[inline]
 fn interpolate(nodes: &[(f64, f64)], step: f64, t: f64) -> Option<(f64, f64)> {
-    let x = (t - ORIGIN) * (1.0 / step);
-    let last = (nodes.len() - 1) as f64;
-    if !(x >= 0.0 && x < last) {
-        return None;
-    }
-    let k = x as usize;
-    let s = x - k as f64;
+    let (k, s) = grid::locate(t, step, nodes.len())?;
     let (h, per_step) = hermite::value_and_slope(nodes[k], nodes[k + 1], s);
     Some((h, per_step * (1.0 / step)))
 }
@@ -91,12 +72,13 @@ fn interpolate(nodes: &[(f64, f64)], step: f64, t: f64) -> Option<(f64, f64)> {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::engine::hermite::grid::{ORIGIN, STEP, TOP};
 
     /// A bound on the magnitude of the fourth temperature derivative of the
-    /// ideal-gas enthalpy of dry air from [`ORIGIN`] to [`TOP`], J/(kg K^4):
+    /// ideal-gas enthalpy of dry air from 232 K to 624 K, J/(kg K^4):
     /// at least twice the largest fourth difference of its values found
     /// there, 5.0e-6 ([`fourth_derivative_is_bounded`]). Its Hermite
-    /// remainder at [`STEP`] is 1.3e-11 J/kg.
+    /// remainder at the table's spacing is 1.3e-11 J/kg.
     const FOURTH_MAX: f64 = 2e-5;
 
     #[test]
@@ -166,17 +148,8 @@ mod tests {
     #[test]
     fn fourth_derivative_is_bounded() {
         let h = |t: f64| dry_air_enthalpy_and_cp(t).0;
-        let mut largest: f64 = 0.0;
-        for spacing in [1.0, 2.0, 4.0] {
-            let mut t = ORIGIN;
-            while t + 4.0 * spacing <= TOP {
-                let d4 = h(t) - 4.0 * h(t + spacing) + 6.0 * h(t + 2.0 * spacing)
-                    - 4.0 * h(t + 3.0 * spacing)
-                    + h(t + 4.0 * spacing);
-                largest = largest.max(d4.abs() / spacing.powi(4));
-                t += spacing;
-            }
-        }
+        let range = (ORIGIN, TOP);
+        let largest = hermite::largest_fourth_difference(h, range, &[1.0, 2.0, 4.0], 1.0, false);
         assert!(
             FOURTH_MAX >= 2.0 * largest,
             "largest fourth difference {largest}"

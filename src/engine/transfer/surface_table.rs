@@ -307,17 +307,9 @@ mod tests {
     #[test]
     fn latent_fourth_derivative_is_bounded() {
         let latent = |t: f64| latent_heat_and_slope(t).0;
-        let mut worst: f64 = 0.0;
-        for h in [0.5, 1.0, 2.0] {
-            let mut t = ORIGIN;
-            while t + 4.0 * h <= T_MAX_EXACT_SLOPE {
-                let d4 = latent(t) - 4.0 * latent(t + h) + 6.0 * latent(t + 2.0 * h)
-                    - 4.0 * latent(t + 3.0 * h)
-                    + latent(t + 4.0 * h);
-                worst = worst.max(d4.abs() / h.powi(4));
-                t += 0.25;
-            }
-        }
+        let range = (ORIGIN, T_MAX_EXACT_SLOPE);
+        let worst =
+            hermite::largest_fourth_difference(latent, range, &[0.5, 1.0, 2.0], 0.25, false);
         assert!(2.0 * worst <= LATENT_FOURTH_MAX, "{worst}");
         assert!(worst > 0.02, "{worst}");
     }
