@@ -866,9 +866,13 @@ const MAX_VALUE_DEPTH: usize = 32;
 /// count 0 items without the call.
 #[inline]
 pub(super) fn is_flat_record(r: &crate::value::Record) -> bool {
-    !r.fields
-        .iter()
-        .any(|(_, f)| matches!(f, Value::List(_) | Value::Record(_)))
+    !r.fields.iter().any(|(_, f)| is_container(f))
+}
+
+/// Whether [`list_items`] walks into `value`: a list or a record.
+#[inline]
+fn is_container(value: &Value) -> bool {
+    matches!(value, Value::List(_) | Value::Record(_))
 }
 
 /// Items in a value's lists (nested lists counted item by item) and its
@@ -890,6 +894,14 @@ fn list_items(value: &Value) -> (usize, usize) {
             break;
         }
         match v {
+            // A list of plain values (a sweep's column): its items count,
+            // one level below, with nothing in them to walk.
+            Value::List(items) if !items.iter().any(is_container) => {
+                count = count.saturating_add(items.len());
+                if !items.is_empty() {
+                    deepest = deepest.max(depth + 1);
+                }
+            }
             Value::List(items) => {
                 count = count.saturating_add(items.len());
                 stack.extend(items.iter().map(|i| (i, depth + 1)));
@@ -911,6 +923,69 @@ mod tests {
 
     fn number(x: f64) -> Value {
         Value::Quantity(Quantity::number(x), None)
+    }
+
+    /// The walk of every list item one by one (as `list_items` walked
+    /// before lists of plain values were counted without it).
+    fn walked(value: &Value) -> (usize, usize) {
+        let (mut count, mut deepest) = (0usize, 0usize);
+        let mut stack = vec![(value, 0usize)];
+        while let Some((v, depth)) = stack.pop() {
+            deepest = deepest.max(depth);
+            if depth > super::MAX_VALUE_DEPTH {
+                break;
+            }
+            match v {
+                Value::List(items) => {
+                    count = count.saturating_add(items.len());
+                    stack.extend(items.iter().map(|i| (i, depth + 1)));
+                }
+                Value::Record(r) => stack.extend(r.fields.iter().map(|(_, f)| (f, depth + 1))),
+                _ => {}
+            }
+        }
+        (count, deepest)
+    }
+
+    /// Lists of plain values counted without their walk give what the walk
+    /// gives (items and depth), alone, empty, mixed with nested lists and
+    /// records, inside records, and nested past the depth limit (where only
+    /// the refusal matters: both deeper than the limit).
+    #[test]
+    fn plain_lists_count_as_the_walk_does() {
+        let plain = |n: usize| Value::List((0..n).map(|i| number(i as f64)).collect());
+        let record = |fields: Vec<(&'static str, Value)>| {
+            let mut r = Record::new("r");
+            for (name, v) in fields {
+                r = r.with(name, v);
+            }
+            Value::Record(r)
+        };
+        let mut deep = plain(3);
+        for _ in 0..40 {
+            deep = Value::List(vec![deep, number(1.0)]);
+        }
+        let cases = [
+            plain(0),
+            plain(5),
+            Value::List(vec![
+                plain(3),
+                number(1.0),
+                plain(0),
+                Value::Str("x".into()),
+            ]),
+            record(vec![("a", plain(4)), ("b", number(2.0)), ("c", plain(0))]),
+            record(vec![
+                ("t", record(vec![("l", plain(2))])),
+                ("m", Value::List(vec![plain(2), plain(3)])),
+            ]),
+            number(3.0),
+        ];
+        for value in &cases {
+            assert_eq!(super::list_items(value), walked(value), "{value:?}");
+        }
+        let (ours, theirs) = (super::list_items(&deep).1, walked(&deep).1);
+        assert!(ours > super::MAX_VALUE_DEPTH && theirs > super::MAX_VALUE_DEPTH);
     }
 
     /// Where a plan counts a flat record's items without the walk, the walk
