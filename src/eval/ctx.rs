@@ -925,30 +925,28 @@ mod tests {
         Value::Quantity(Quantity::number(x), None)
     }
 
-    /// The walk of every list item one by one (as `list_items` walked
-    /// before lists of plain values were counted without it).
-    fn walked(value: &Value) -> (usize, usize) {
-        let (mut count, mut deepest) = (0usize, 0usize);
-        let mut stack = vec![(value, 0usize)];
-        while let Some((v, depth)) = stack.pop() {
-            deepest = deepest.max(depth);
-            if depth > super::MAX_VALUE_DEPTH {
-                break;
-            }
-            match v {
-                Value::List(items) => {
-                    count = count.saturating_add(items.len());
-                    stack.extend(items.iter().map(|i| (i, depth + 1)));
-                }
-                Value::Record(r) => stack.extend(r.fields.iter().map(|(_, f)| (f, depth + 1))),
-                _ => {}
-            }
-        }
-        (count, deepest)
+    /// Items and depth by recursion, item by item (an independent count of
+    /// what `list_items` counts without recursion): the items of every list
+    /// and the depth of the deepest value, the outer one at 0.
+    fn counted(value: &Value, depth: usize) -> (usize, usize) {
+        let inner: Vec<&Value> = match value {
+            Value::List(items) => items.iter().collect(),
+            Value::Record(r) => r.fields.iter().map(|(_, f)| f).collect(),
+            _ => Vec::new(),
+        };
+        let own = if let Value::List(items) = value {
+            items.len()
+        } else {
+            0
+        };
+        inner
+            .into_iter()
+            .map(|v| counted(v, depth + 1))
+            .fold((own, depth), |(n, d), (m, e)| (n + m, d.max(e)))
     }
 
-    /// Lists of plain values counted without their walk give what the walk
-    /// gives (items and depth), alone, empty, mixed with nested lists and
+    /// Items and depth as counted item by item, with lists of plain values
+    /// counted without their walk: alone, empty, mixed with nested lists and
     /// records, inside records, and nested past the depth limit (where only
     /// the refusal matters: both deeper than the limit).
     #[test]
@@ -982,9 +980,9 @@ mod tests {
             number(3.0),
         ];
         for value in &cases {
-            assert_eq!(super::list_items(value), walked(value), "{value:?}");
+            assert_eq!(super::list_items(value), counted(value, 0), "{value:?}");
         }
-        let (ours, theirs) = (super::list_items(&deep).1, walked(&deep).1);
+        let (ours, theirs) = (super::list_items(&deep).1, counted(&deep, 0).1);
         assert!(ours > super::MAX_VALUE_DEPTH && theirs > super::MAX_VALUE_DEPTH);
     }
 
