@@ -2,8 +2,8 @@
 //! properties ([`crate::engine::transport`]): the dilute-gas viscosity and
 //! conductivity of dry air (Lemmon & Jacobsen 2004) and of water vapour
 //! (IAPWS R12-08, R15-11) and Wilke's two interaction factors, which depend
-//! on the temperature alone. Nodes 0.125 K apart ([`grid`]) from 232 K to 624 K
-//! (-41.15 to 350.85 degC), filled once per process from the exact
+//! on the temperature alone. Nodes 0.125 K apart ([`grid`]) from 232 K to
+//! 624 K (-41.15 to 350.85 degC), filled once per process from the exact
 //! expressions with their analytic slopes; between them the cubic Hermite
 //! interpolant of each.
 //!
@@ -13,15 +13,16 @@
 //! most `FOURTH_MAX_RELATIVE` (in the tests: from 2e-10 per K^4 for the
 //! dry air's to 1e-7 for the vapour viscosity's, each at least twice the
 //! largest relative fourth difference found), so every value is within
-//! 6.4e-14 of itself (4e-15 found on the table, at the cold end): far below anything a design reads, and below the
-//! wet-surface solve's tolerance by orders of magnitude (a relative change
-//! of 1e-13 in the Colburn factor moves the surface temperature by some
-//! 1e-12 K). Outside the table, and for a temperature that is not a number,
+//! 6.4e-14 of itself (4e-15 found on the table, at the cold end): far below
+//! anything a design reads, and below the wet-surface solve's tolerance by
+//! orders of magnitude (a relative change of 1e-13 in the Colburn factor
+//! moves the surface temperature by some 1e-12 K). Outside the table, and for a temperature that is not a number,
 //! the exact expressions.
 //!
-//! The exact functions cost about 250 instructions a state (two
-//! exponentials, two square roots, several divisions), the interpolation
-//! about 60; the film states of the wet-surface balance take one each.
+//! The exact functions take two exponentials, two square roots and several
+//! divisions; by callgrind the table saved about 50 instructions a state
+//! (the interpolation of the six costs about 120), about 100 a tray point,
+//! whose wet-surface solve takes about two film states.
 
 use std::sync::LazyLock;
 

@@ -2,26 +2,28 @@
 //! to 0 degC) over the engine's dry-bulb range, for the enthalpy of a state
 //! ([`super::thermo::AirPartTerms::at`]), the enthalpy and its slopes in
 //! balances ([`super::thermo::air_part_enthalpy_and_slopes`]) and the humid
-//! heat ([`super::thermo::HeatTerms::at`]): nodes 0.125 K apart ([`grid`]) from 232 K to
-//! 624 K (-41.15 to 350.85 degC), filled once per process from the exact
-//! expression, and between them the cubic Hermite interpolant of the
-//! enthalpy and its exact slope (the ideal-gas specific heat).
+//! heat ([`super::thermo::HeatTerms::at`]): nodes 0.125 K apart ([`grid`])
+//! from 232 K to 624 K (-41.15 to 350.85 degC), filled once per process
+//! from the exact expression, and between them the cubic Hermite
+//! interpolant of the enthalpy and its exact slope (the ideal-gas specific
+//! heat).
 //!
 //! The interpolant's error is at most `M4 STEP^4 / 384` with `M4` a bound on
 //! the fourth temperature derivative of the enthalpy (`FOURTH_MAX` in the
 //! tests, 2e-5 J/(kg K^4), at least twice the largest fourth difference
-//! found over the range, 5.0e-6 J/(kg K^4)): about 1.3e-11 J/kg, below the rounding of the exact expression itself
-//! (which subtracts the enthalpy at 0 degC from `R T (1 + g)`, some 1000 T
-//! J/kg: a few 1e-10 J/kg), so a state's enthalpy, its wet-bulb and the
+//! found over the range, 5.0e-6 J/(kg K^4)): about 1.3e-11 J/kg, below the
+//! rounding of the exact expression itself (which subtracts the enthalpy at
+//! 0 degC from `R T (1 + g)`, some 1000 T J/kg: a few 1e-10 J/kg), so a state's enthalpy, its wet-bulb and the
 //! round trips through enthalpy move by rounding only (over the wet-bulb
 //! digest grid of tests/air_wet_bulb_bits.rs, 897,120 states: wet-bulbs by
 //! at most 5.1e-13 K, enthalpies by a few 1e-10 J/kg or one unit in the
 //! last place). Outside the table, and for a temperature that is not a
 //! number, the exact expression.
 //!
-//! The Lemmon expression costs about 170 instructions (an exponential, a
-//! square root, several divisions); the interpolation about 25. The
-//! specific heat is the interpolant's derivative (see [`enthalpy_and_cp`]).
+//! The Lemmon expression takes an exponential, a square root and several
+//! divisions; by callgrind the table saved about 80 instructions a state's
+//! enthalpy (the interpolation itself costs about 70). The specific heat is
+//! the interpolant's derivative (see [`enthalpy_and_cp`]).
 
 use std::sync::LazyLock;
 
