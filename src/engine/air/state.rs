@@ -766,19 +766,18 @@ impl AirState {
         let (t, w, p) = (self.t_k, self.w, self.p_pa);
         let h1 = h_of(t, w, p);
         let hi = self.wet_bulb_upper_k(cache.limits());
-        let dew = self.rough_dew_point_k().min(hi);
         let err = |e| AirError::NotConverged {
             what: "wet-bulb temperature",
             reason: e,
         };
-        let guess = wet_bulb_estimate_k(t.min(hi), w, dew);
+        // Where a search starts with nothing closer (from a rough dew point).
+        let guess = || wet_bulb_estimate_k(t.min(hi), w, self.rough_dew_point_k().min(hi));
         // Over liquid water when a root at or above 0 degC exists, else over ice.
         let (lo, hi, ice) = if hi < T_ZERO_C {
             (T_MIN_SATURATION, hi, true)
-        } else if dew >= T_ZERO_C + 2.0
-            || cache
-                .wet_bulb_over_liquid(w, h1)
-                .unwrap_or_else(|| wet_bulb_residual(T_ZERO_C, w, p, h1, false).0 <= 0.0)
+        } else if cache
+            .wet_bulb_over_liquid(w, h1)
+            .unwrap_or_else(|| wet_bulb_residual(T_ZERO_C, w, p, h1, false).0 <= 0.0)
         {
             (T_ZERO_C, hi, false)
         } else {
@@ -801,7 +800,7 @@ impl AirState {
         // the root, from which one exact Newton step is enough when its
         // error bound says so; else Newton's method goes on from there.
         let table = cache.wet_bulb_start(w, h1, guess, ice);
-        let mut start = table.map_or(guess, |s| s.t).clamp(lo, hi);
+        let mut start = table.map_or_else(guess, |s| s.t).clamp(lo, hi);
         if let (Some(table), true) = (table, one_step) {
             // The table's own root, where its bound is as tight as the
             // solver's tolerance; not for bone-dry air, whose wet-bulb is the
