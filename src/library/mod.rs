@@ -275,6 +275,23 @@ impl Args {
         self.warnings.clear();
     }
 
+    /// [`Args::clear`] for arguments that were only ever placed at
+    /// parameters `params` ([`Args::place_value`]; a study's plan places
+    /// the same ones at every point): the others are empty already (a
+    /// built-in only takes arguments out), so only these are looked at.
+    #[inline]
+    pub fn clear_placed(&mut self, params: impl Iterator<Item = usize>) {
+        for i in params {
+            if let Some(a) = self.bound.get_mut(i) {
+                if a.is_some() {
+                    *a = None;
+                }
+            }
+        }
+        debug_assert!(self.bound.iter().all(Option::is_none));
+        self.warnings.clear();
+    }
+
     /// Bind one argument to parameter `slot` (`None`: the next positional),
     /// giving the index of the parameter it bound to.
     pub fn bind_one(&mut self, slot: Option<usize>, arg: Arg) -> Result<usize, Diagnostic> {

@@ -697,7 +697,8 @@ impl Run<'_, '_> {
     fn call(&mut self, call: &Call, span: Span) -> Flow<Value> {
         let mut args = match self.calls[call.index].take() {
             Some(mut args) => {
-                args.clear();
+                // (Only the call's own parameters were ever placed.)
+                args.clear_placed(call.args.iter().map(|a| a.param));
                 args
             }
             None => Box::new(Args::unbound(call.builtin, span)),
