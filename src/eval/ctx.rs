@@ -178,7 +178,7 @@ impl<'a> Ctx<'a> {
     }
 
     /// Count one step against the budget; check the interrupt flag now and then.
-    #[inline]
+    #[inline(always)]
     pub(super) fn tick(&mut self, span: Span) -> Flow<()> {
         self.ops += 1;
         if self.ops <= self.limits.max_operations && self.ops % 1024 != 0 {
@@ -356,7 +356,7 @@ impl<'a> Ctx<'a> {
     }
 
     /// Count `items` items of a list ([`Ctx::list_cost`]) and one step.
-    #[inline]
+    #[inline(always)]
     pub(super) fn charge_items(&mut self, items: usize, span: Span) -> Flow<()> {
         self.ops += items as u64;
         self.tick(span)

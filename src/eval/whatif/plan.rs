@@ -674,7 +674,7 @@ impl Run<'_, '_> {
             return read_field(&v, of.span, field);
         };
         if let Some(Value::Record(r)) = self.computed(src) {
-            if let Some(v) = r.get(&field.name) {
+            if let Some(v) = r.get_in_line(&field.name) {
                 return Ok(v.copied());
             }
         }
@@ -684,7 +684,7 @@ impl Run<'_, '_> {
         let v = self.value(src);
         // (What `read_field` gives for a field the record has, in line.)
         if let Value::Record(r) = v {
-            if let Some(v) = r.get(&field.name) {
+            if let Some(v) = r.get_in_line(&field.name) {
                 return Ok(v.copied());
             }
         }
