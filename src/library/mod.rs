@@ -246,6 +246,24 @@ impl Args {
         }
     }
 
+    /// [`Args::place_value`] for a quantity, written straight into its
+    /// place (a study's plan passes a varied input this way at every point).
+    #[inline(always)]
+    pub fn place_quantity(
+        &mut self,
+        index: usize,
+        q: crate::units::Quantity,
+        unit: Option<crate::units::Unit>,
+        span: Span,
+    ) {
+        if let Some(place) = self.bound.get_mut(index) {
+            *place = Some(Bound {
+                value: Value::Quantity(q, unit),
+                span,
+            });
+        }
+    }
+
     /// Keep `record`, a value this call returned before and nobody reads
     /// any more, for the next call to build its record in
     /// ([`Args::take_spare`]); replaces (drops) a spare not taken. A

@@ -651,6 +651,18 @@ impl Run<'_, '_> {
     fn argument(&mut self, a: &Argument, args: &mut Args) -> Flow<()> {
         let s = &a.value;
         let value = match s.node {
+            // A varied input (a quantity: `Varied::set`), copied into its
+            // place; as a name it counts its step and no items.
+            Node::Name(Source::Input(k)) => {
+                self.ctx.tick(s.span)?;
+                match &self.inputs[k] {
+                    Value::Quantity(q, unit) => {
+                        args.place_quantity(a.param, *q, unit.clone(), a.span);
+                        return Ok(());
+                    }
+                    other => other.clone(),
+                }
+            }
             Node::Name(src) => {
                 self.ctx.tick(s.span)?;
                 self.read(src, s.span)?;
