@@ -480,19 +480,7 @@ impl Run<'_, '_> {
     /// name, as `Ctx::expr` counts them, giving what reading it again counts.
     #[inline(always)]
     fn charge(&mut self, v: &Value, span: Span) -> Flow<Cost> {
-        match v {
-            // (What `list_cost` counts for it, without the call.)
-            Value::Record(r) if is_flat_record(r) => {
-                self.ctx.charge_items(0, span)?;
-                Ok(Some(0))
-            }
-            Value::List(_) | Value::Record(_) => {
-                let n = self.ctx.list_cost(v, span)?;
-                self.ctx.charge_items(n, span)?;
-                Ok(Some(n))
-            }
-            _ => Ok(None),
-        }
+        charge(self.ctx, v, span)
     }
 
     /// [`Run::step`] on definition `k`, its value (and what reading it
@@ -508,8 +496,13 @@ impl Run<'_, '_> {
             return Ok(());
         }
         let v = self.node(s)?;
-        let cost = self.charge(&v, s.span)?;
-        fill(&mut self.slots[k], v, cost);
+        // Into the slot first, then counted there (the value is not moved
+        // again; if counting fails, `force` marks the slot failed).
+        let slot = &mut self.slots[k];
+        fill(slot, v, None);
+        if let Slot::Ready(v, cost) = slot {
+            *cost = charge(self.ctx, v, s.span)?;
+        }
         Ok(())
     }
 
@@ -726,6 +719,25 @@ impl Run<'_, '_> {
             self.argument(a, args)?;
         }
         self.ctx.run_builtin(call.builtin, args, span)
+    }
+}
+
+/// Count the items of `v`, the value of a step at `span` other than a
+/// name, as `Ctx::expr` counts them, giving what reading it again counts.
+#[inline(always)]
+fn charge(ctx: &mut Ctx, v: &Value, span: Span) -> Flow<Cost> {
+    match v {
+        // (What `list_cost` counts for it, without the call.)
+        Value::Record(r) if is_flat_record(r) => {
+            ctx.charge_items(0, span)?;
+            Ok(Some(0))
+        }
+        Value::List(_) | Value::Record(_) => {
+            let n = ctx.list_cost(v, span)?;
+            ctx.charge_items(n, span)?;
+            Ok(Some(n))
+        }
+        _ => Ok(None),
     }
 }
 
