@@ -123,16 +123,7 @@ impl Ctx<'_> {
         if !bound.warnings.is_empty() {
             self.warnings.append(&mut bound.warnings);
         }
-        match result {
-            Ok(Ok(v)) => check_finite(v, b, span),
-            Ok(Err(d)) => Err(d.into()),
-            Err(_) => Err(Diagnostic::error(
-                span,
-                format!("internal error in built-in `{}`", b.name),
-            )
-            .with_hint("this is a bug in siccant; please report it with the worksheet")
-            .into()),
-        }
+        outcome(result, b, span)
     }
 
     fn call_user(&mut self, callee: &Ident, args: &[CallArg], span: Span) -> Flow<Value> {
@@ -186,11 +177,25 @@ fn misspelt_arg(b: &Builtin, n: &Ident) -> Diagnostic {
     d.with_hint(format!("arguments: {}", names.join(", ")))
 }
 
-#[inline]
-fn check_finite(v: Value, b: &Builtin, span: Span) -> Flow<Value> {
-    match &v {
-        Value::Quantity(q, _) if !q.si.is_finite() => Err(not_finite(b, span)),
-        _ => Ok(v),
+/// What a built-in's run gave, as the evaluator's result: its value, unless
+/// it is a quantity that is not finite (an error at the call, naming the
+/// built-in); its error; or, if it panicked, an internal error. (The value
+/// is matched where it lies, not moved into a check first.)
+#[inline(always)]
+fn outcome(
+    result: std::thread::Result<Result<Value, Diagnostic>>,
+    b: &Builtin,
+    span: Span,
+) -> Flow<Value> {
+    match result {
+        Ok(Ok(Value::Quantity(q, _))) if !q.si.is_finite() => Err(not_finite(b, span)),
+        Ok(Ok(v)) => Ok(v),
+        Ok(Err(d)) => Err(d.into()),
+        Err(_) => Err(
+            Diagnostic::error(span, format!("internal error in built-in `{}`", b.name))
+                .with_hint("this is a bug in siccant; please report it with the worksheet")
+                .into(),
+        ),
     }
 }
 
@@ -257,7 +262,8 @@ mod tests {
     use crate::units::{Dim, Kind, Quantity};
 
     /// A built-in's quantity result that is not finite is an error at the
-    /// call naming the built-in; anything else passes through unchanged.
+    /// call naming the built-in; any other value passes through unchanged,
+    /// as does its error; a panic is an internal error.
     #[test]
     fn a_result_that_is_not_finite_is_an_error_at_the_call() {
         let b = library::find("air").expect("air");
@@ -268,7 +274,7 @@ mod tests {
         };
         let q = |x: f64| Value::Quantity(Quantity::new(x, Dim::NONE, Kind::Plain), None);
         for x in [f64::NAN, f64::INFINITY, f64::NEG_INFINITY] {
-            match check_finite(q(x), b, span) {
+            match outcome(Ok(Ok(q(x))), b, span) {
                 Err(super::super::Stop::Error(d)) => {
                     assert_eq!(d.message, "`air` gave a result that is not a finite number");
                     assert_eq!(d.span, span);
@@ -278,10 +284,24 @@ mod tests {
         }
         for v in [q(-0.0), q(1e308), Value::Bool(true), Value::Str("x".into())] {
             let shown = format!("{v:?}");
-            match check_finite(v, b, span) {
+            match outcome(Ok(Ok(v)), b, span) {
                 Ok(back) => assert_eq!(format!("{back:?}"), shown),
                 Err(_) => panic!("{shown} refused"),
             }
+        }
+        // The built-in's own error passes through; a panic is an internal
+        // error at the call.
+        let d = Diagnostic::error(span, "bad");
+        match outcome(Ok(Err(d)), b, span) {
+            Err(super::super::Stop::Error(d)) => assert_eq!(d.message, "bad"),
+            other => panic!("{other:?}"),
+        }
+        match outcome(Err(Box::new("boom")), b, span) {
+            Err(super::super::Stop::Error(d)) => {
+                assert_eq!(d.message, "internal error in built-in `air`");
+                assert_eq!(d.span, span);
+            }
+            other => panic!("{other:?}"),
         }
     }
 }

@@ -106,10 +106,16 @@ impl<'a> Ctx<'a> {
     }
 
     /// Start over as [`Ctx::new`] would over the same sheet, sources, limits
-    /// and mode, keeping only the room of its lists: a what-if study's
-    /// worker evaluates its points one after another in one context.
-    #[inline]
-    pub(super) fn restart(&mut self) {
+    /// and mode, keeping only the room of its lists, in a context that only
+    /// a what-if study's plan has evaluated in since it was new or
+    /// restarted: a worker evaluates its points one after another in one
+    /// context. A plan's run (`whatif/plan.rs`) counts steps and collects
+    /// warnings and errors, and touches nothing else of the context (no
+    /// names, frames, loads, nesting, shape checking or wanted fields), so
+    /// only those three are reset; the rest is asserted (in debug builds)
+    /// to be as new.
+    #[inline(always)]
+    pub(super) fn restart_after_plan(&mut self) {
         // Every field named, so that a new one is not forgotten here.
         let Ctx {
             sheet: _,
@@ -128,34 +134,26 @@ impl<'a> Ctx<'a> {
             checking,
             wanted,
         } = self;
-        // (Each part cleared only when it holds something: most points
-        // leave all of them empty.)
+        debug_assert!(
+            frame.is_none()
+                && active.is_empty()
+                && failed.is_empty()
+                && load_stack.is_empty()
+                && (*depth, *nesting) == (0, 0)
+                && checking.blind == 0
+                && checking.recursions == 0
+                && checking.calls.is_empty()
+                && wanted.is_none(),
+            "a plan's context holds only steps, warnings and errors"
+        );
         *ops = 0;
-        *depth = 0;
-        *nesting = 0;
+        // (Cleared only when they hold something: most points leave them
+        // empty.)
         if !warnings.is_empty() {
             warnings.clear();
         }
         if !errors.is_empty() {
             errors.clear();
-        }
-        if frame.is_some() {
-            *frame = None;
-        }
-        if !active.is_empty() {
-            active.clear();
-        }
-        if !failed.is_empty() {
-            failed.clear();
-        }
-        if !load_stack.is_empty() {
-            load_stack.clear();
-        }
-        if checking.blind != 0 || checking.recursions != 0 || !checking.calls.is_empty() {
-            *checking = super::shape::Checking::default();
-        }
-        if wanted.is_some() {
-            *wanted = None;
         }
     }
 
@@ -180,7 +178,7 @@ impl<'a> Ctx<'a> {
     }
 
     /// Count one step against the budget; check the interrupt flag now and then.
-    #[inline]
+    #[inline(always)]
     pub(super) fn tick(&mut self, span: Span) -> Flow<()> {
         self.ops += 1;
         if self.ops <= self.limits.max_operations && self.ops % 1024 != 0 {
@@ -358,7 +356,7 @@ impl<'a> Ctx<'a> {
     }
 
     /// Count `items` items of a list ([`Ctx::list_cost`]) and one step.
-    #[inline]
+    #[inline(always)]
     pub(super) fn charge_items(&mut self, items: usize, span: Span) -> Flow<()> {
         self.ops += items as u64;
         self.tick(span)
@@ -1008,8 +1006,9 @@ mod tests {
         }
     }
 
-    /// A restarted context is a new one: nothing a point left (steps,
-    /// warnings, errors, names, nesting) reaches the next.
+    /// A context restarted after a plan's point is a new one: nothing the
+    /// point left (steps, warnings, errors) reaches the next, and the rest
+    /// is as new.
     #[test]
     fn a_restarted_context_is_as_new() {
         let (mut sheet, mut sources, limits) =
@@ -1018,17 +1017,7 @@ mod tests {
         ctx.ops = 17;
         ctx.warnings.push(Diagnostic::warning(Span::default(), "w"));
         ctx.errors.push(Diagnostic::error(Span::default(), "e"));
-        ctx.frame = Some(Default::default());
-        ctx.active.push("a".into());
-        ctx.mark_failed(&["b".to_string()]);
-        ctx.load_stack.push("x.dry".into());
-        ctx.depth = 2;
-        ctx.nesting = 3;
-        ctx.checking.blind = 1;
-        ctx.checking.recursions = 1;
-        ctx.checking.calls.push("f".into());
-        ctx.wanted = Some(vec!["T".to_string()].into());
-        ctx.restart();
+        ctx.restart_after_plan();
         assert_eq!(ctx.ops, 0);
         assert!(ctx.warnings.is_empty() && ctx.errors.is_empty());
         assert!(ctx.frame.is_none() && ctx.active.is_empty() && ctx.failed.is_empty());

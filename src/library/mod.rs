@@ -246,6 +246,24 @@ impl Args {
         }
     }
 
+    /// [`Args::place_value`] for a quantity, written straight into its
+    /// place (a study's plan passes a varied input this way at every point).
+    #[inline(always)]
+    pub fn place_quantity(
+        &mut self,
+        index: usize,
+        q: crate::units::Quantity,
+        unit: Option<crate::units::Unit>,
+        span: Span,
+    ) {
+        if let Some(place) = self.bound.get_mut(index) {
+            *place = Some(Bound {
+                value: Value::Quantity(q, unit),
+                span,
+            });
+        }
+    }
+
     /// Keep `record`, a value this call returned before and nobody reads
     /// any more, for the next call to build its record in
     /// ([`Args::take_spare`]); replaces (drops) a spare not taken. A
@@ -272,6 +290,23 @@ impl Args {
                 *a = None;
             }
         }
+        self.warnings.clear();
+    }
+
+    /// [`Args::clear`] for arguments that were only ever placed at
+    /// parameters `params` ([`Args::place_value`]; a study's plan places
+    /// the same ones at every point): the others are empty already (a
+    /// built-in only takes arguments out), so only these are looked at.
+    #[inline]
+    pub fn clear_placed(&mut self, params: impl Iterator<Item = usize>) {
+        for i in params {
+            if let Some(a) = self.bound.get_mut(i) {
+                if a.is_some() {
+                    *a = None;
+                }
+            }
+        }
+        debug_assert!(self.bound.iter().all(Option::is_none));
         self.warnings.clear();
     }
 

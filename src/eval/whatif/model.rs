@@ -344,8 +344,9 @@ impl Model {
     }
 
     /// Evaluate the points `points` (indices for `point`) in turn, through
-    /// the plan in one context restarted at each point ([`Ctx::restart`]:
-    /// the same as a new one), or else one by one as [`Model::eval`] does.
+    /// the plan in one context restarted at each point (as new: only the
+    /// plan evaluates in it, so [`Ctx::restart_after_plan`] suffices), or
+    /// else one by one as [`Model::eval`] does.
     fn eval_run<'p>(
         &self,
         work: &mut Work,
@@ -358,7 +359,7 @@ impl Model {
         let mut ctx = Ctx::new(&mut work.sheet, &mut work.sources, &self.limits, Mode::Run);
         points
             .map(|i| {
-                ctx.restart();
+                ctx.restart_after_plan();
                 self.plan_point(plan, state, &mut ctx, point(i))
             })
             .collect()

@@ -480,19 +480,7 @@ impl Run<'_, '_> {
     /// name, as `Ctx::expr` counts them, giving what reading it again counts.
     #[inline(always)]
     fn charge(&mut self, v: &Value, span: Span) -> Flow<Cost> {
-        match v {
-            // (What `list_cost` counts for it, without the call.)
-            Value::Record(r) if is_flat_record(r) => {
-                self.ctx.charge_items(0, span)?;
-                Ok(Some(0))
-            }
-            Value::List(_) | Value::Record(_) => {
-                let n = self.ctx.list_cost(v, span)?;
-                self.ctx.charge_items(n, span)?;
-                Ok(Some(n))
-            }
-            _ => Ok(None),
-        }
+        charge(self.ctx, v, span)
     }
 
     /// [`Run::step`] on definition `k`, its value (and what reading it
@@ -508,8 +496,13 @@ impl Run<'_, '_> {
             return Ok(());
         }
         let v = self.node(s)?;
-        let cost = self.charge(&v, s.span)?;
-        fill(&mut self.slots[k], v, cost);
+        // Into the slot first, then counted there (the value is not moved
+        // again; if counting fails, `force` marks the slot failed).
+        let slot = &mut self.slots[k];
+        fill(slot, v, None);
+        if let Slot::Ready(v, cost) = slot {
+            *cost = charge(self.ctx, v, s.span)?;
+        }
         Ok(())
     }
 
@@ -651,6 +644,18 @@ impl Run<'_, '_> {
     fn argument(&mut self, a: &Argument, args: &mut Args) -> Flow<()> {
         let s = &a.value;
         let value = match s.node {
+            // A varied input (a quantity: `Varied::set`), copied into its
+            // place; as a name it counts its step and no items.
+            Node::Name(Source::Input(k)) => {
+                self.ctx.tick(s.span)?;
+                match &self.inputs[k] {
+                    Value::Quantity(q, unit) => {
+                        args.place_quantity(a.param, *q, unit.clone(), a.span);
+                        return Ok(());
+                    }
+                    other => other.clone(),
+                }
+            }
             Node::Name(src) => {
                 self.ctx.tick(s.span)?;
                 self.read(src, s.span)?;
@@ -674,7 +679,7 @@ impl Run<'_, '_> {
             return read_field(&v, of.span, field);
         };
         if let Some(Value::Record(r)) = self.computed(src) {
-            if let Some(v) = r.get(&field.name) {
+            if let Some(v) = r.get_in_line(&field.name) {
                 return Ok(v.copied());
             }
         }
@@ -684,7 +689,7 @@ impl Run<'_, '_> {
         let v = self.value(src);
         // (What `read_field` gives for a field the record has, in line.)
         if let Value::Record(r) = v {
-            if let Some(v) = r.get(&field.name) {
+            if let Some(v) = r.get_in_line(&field.name) {
                 return Ok(v.copied());
             }
         }
@@ -697,7 +702,8 @@ impl Run<'_, '_> {
     fn call(&mut self, call: &Call, span: Span) -> Flow<Value> {
         let mut args = match self.calls[call.index].take() {
             Some(mut args) => {
-                args.clear();
+                // (Only the call's own parameters were ever placed.)
+                args.clear_placed(call.args.iter().map(|a| a.param));
                 args
             }
             None => Box::new(Args::unbound(call.builtin, span)),
@@ -713,6 +719,25 @@ impl Run<'_, '_> {
             self.argument(a, args)?;
         }
         self.ctx.run_builtin(call.builtin, args, span)
+    }
+}
+
+/// Count the items of `v`, the value of a step at `span` other than a
+/// name, as `Ctx::expr` counts them, giving what reading it again counts.
+#[inline(always)]
+fn charge(ctx: &mut Ctx, v: &Value, span: Span) -> Flow<Cost> {
+    match v {
+        // (What `list_cost` counts for it, without the call.)
+        Value::Record(r) if is_flat_record(r) => {
+            ctx.charge_items(0, span)?;
+            Ok(Some(0))
+        }
+        Value::List(_) | Value::Record(_) => {
+            let n = ctx.list_cost(v, span)?;
+            ctx.charge_items(n, span)?;
+            Ok(Some(n))
+        }
+        _ => Ok(None),
     }
 }
 
