@@ -91,15 +91,18 @@ struct LastRoot {
     /// The state's humidity ratio, kg/kg dry air, and enthalpy, J/kg dry air.
     w: f64,
     h1: f64,
-    /// The root, K, and the balance's slope there, J/(kg K).
+    /// The root, K, and the table's slope at the lower node of its
+    /// interval ([`TableStart::slope`]), J/(kg K).
     t: f64,
     slope: f64,
 }
 
 /// How far (K) a start predicted from the last root may lie from it and still
-/// be used: within this, one Newton step on the nodes from the prediction
-/// lands within a few intervals of the root (the balance's second derivative
-/// over its slope is about 0.1 per K or less below 90 degC).
+/// be used. A prediction that moves 2 K is off by about half the balance's
+/// second derivative over its slope (roughly 0.1 per K or less below 90 degC,
+/// an estimate) times the move squared, a few tenths of a kelvin, and one
+/// Newton step on the nodes from there lands in or next to the root's
+/// interval; a start from the rough estimate is often farther off.
 const WARM_REACH_K: f64 = 2.0;
 
 /// `PAGE` consecutive nodes, `(value, slope)`.
@@ -385,8 +388,7 @@ impl Grid {
     /// The interval is the one whose lower node is at or below `target` and
     /// whose upper node is above it: one interval wherever the search begins
     /// (a target equal to a node's value takes the interval above that node,
-    /// none at the last node),
-    /// so the result does not depend on `rough`.
+    /// none at the last node), so the result does not depend on `rough`.
     fn invert<F, A>(
         &mut self,
         target: f64,
@@ -660,8 +662,6 @@ mod tests {
         assert!(worst > 0.0);
     }
 
-    /// Over one node spacing the balance bends a few percent from a line; two
-    /// Newton steps invert such a cubic to well under 1e-6 of the spacing.
     /// Fields of a table start, bit for bit.
     fn start_bits(s: &TableStart) -> [u64; 5] {
         [
@@ -695,10 +695,9 @@ mod tests {
                     let top = origin + (len - 1) as f64 * STEP;
                     for k in [1, len / 7, len / 3, len / 2, len - 3] {
                         let at_node = grid.node(k, &f).unwrap().0;
-                        let inside = (f.0)(origin + (k as f64 + 0.37) * STEP).unwrap().0
-                            + (f.1)(origin + (k as f64 + 0.37) * STEP).0;
+                        let root = origin + (k as f64 + 0.37) * STEP;
+                        let inside = (f.0)(root).unwrap().0 + (f.1)(root).0;
                         for (target, interval) in [(at_node, k), (inside, k)] {
-                            let root = origin + (k as f64 + 0.37) * STEP;
                             let starts = (0..40)
                                 .map(|i| origin + (top - origin) * i as f64 / 39.0)
                                 .chain((0..40).map(|i| root - 0.1 + 0.2 * i as f64 / 39.0));
@@ -764,6 +763,8 @@ mod tests {
         assert!(warm_taken > 5_000, "{warm_taken}");
     }
 
+    /// Over one node spacing the balance bends a few percent from a line; two
+    /// Newton steps invert such a cubic to well under 1e-6 of the spacing.
     #[test]
     fn inverse_hermite_inverts_a_cubic() {
         // p(s) = 1 + s + 0.05 s^3: p(0) = 1, p'(0) = 1, p(1) = 2.05, p'(1) = 1.15.
